@@ -1,0 +1,156 @@
+"""The demo building: an invented 15-storey office tower with a lift core and a stair core.
+
+Every number here is made up to be physically plausible (shears and moments grow toward the
+base, gravity accumulates down the building); it is example data, not a design.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+GRAVITY_G = 2300.0  # kN per storey of dead load reaching the core (invented)
+GRAVITY_Q = 650.0  # kN per storey of live load reaching the core (invented)
+BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 1500.0, "Ey": 1500.0}  # kN (invented)
+SHEAR_POINT = (7.2, 3.0)  # m: where the storey shear acts (invented centre of mass)
+
+COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
+    # name, G factor, Q factor, lateral case, lateral factor
+    ("1.35G", 1.35, 0.0, None, 0.0),
+    ("1.2G+1.5Q", 1.2, 1.5, None, 0.0),
+    ("1.2G+0.6Q+Wx", 1.2, 0.6, "Wx", 1.0),
+    ("1.2G+0.6Q+Wy", 1.2, 0.6, "Wy", 1.0),
+    ("0.9G-Wx", 0.9, 0.0, "Wx", -1.0),
+    ("0.9G-Wy", 0.9, 0.0, "Wy", -1.0),
+    ("G+0.3Q+Ex", 1.0, 0.3, "Ex", 1.0),
+    ("G+0.3Q+Ey", 1.0, 0.3, "Ey", 1.0),
+]
+
+
+def storeys() -> list[dict]:
+    out = [dict(name="GF", level=0.0, height=4.2, slab=250.0)]
+    for i in range(1, 15):
+        out.append(dict(name=f"L{i}", level=round(4.2 + 3.15 * (i - 1), 3), height=3.15,
+                        slab=250.0 if i == 14 else 200.0))
+    return out
+
+
+PROJECT = dict(project_name="Harbourview Lane offices (demo)", standard="AS 3600:2018",
+               phi_shear=None, shear_height="storey clear height", pier_fixity="fixed-fixed",
+               poisson=0.2)
+
+_LIFT = [("LW1", 0.0, 0.0, 6.0, 0.0), ("LW2", 6.0, 0.0, 6.0, 5.0), ("LW3", 6.0, 5.0, 0.0, 5.0),
+         ("LW4", 0.0, 5.0, 0.0, 0.0), ("LW5", 3.0, 0.0, 3.0, 5.0)]
+_STAIR = [("SW1", 10.0, 0.0, 13.2, 0.0), ("SW2", 13.2, 0.0, 13.2, 6.5),
+          ("SW3", 13.2, 6.5, 10.0, 6.5)]
+# storey range, thickness, f'c, vertical (dia, spacing), horizontal (dia, spacing)
+_LIFT_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)),
+              ("L5", "L9", 250, 40, (12, 200), (12, 250)),
+              ("L10", "L14", 200, 40, (12, 250), (10, 250))]
+_STAIR_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)),
+               ("L5", "L14", 200, 40, (12, 250), (10, 250))]
+
+
+def walls() -> list[dict]:
+    out = []
+    for group, runs in ((_LIFT, _LIFT_RUNS), (_STAIR, _STAIR_RUNS)):
+        for wid, x1, y1, x2, y2 in group:
+            for lo, hi, t, fc, (vd, vs), (hd, hs) in runs:
+                out.append(dict(wall_id=wid, x1=x1, y1=y1, x2=x2, y2=y2, thickness=float(t),
+                                storey_from=lo, storey_to=hi, fc=float(fc), fsy=500.0,
+                                v_dia=float(vd), v_spacing=float(vs), v_layers=2,
+                                h_dia=float(hd), h_spacing=float(hs), h_layers=2, cover=30.0))
+    return out
+
+
+def openings() -> list[dict]:
+    door = dict(storey_from="GF", storey_to="L14", width=1.2, sill=0.0, head=2.4)
+    return [
+        dict(wall_id="LW1", offset=0.75, label="lift A door", **door),
+        dict(wall_id="LW1", offset=3.75, label="lift B door", **door),
+        dict(wall_id="SW2", storey_from="L1", storey_to="L14", offset=2.0, width=0.9, sill=1.2,
+             head=2.1, label="services riser"),
+    ]
+
+
+def _pieces(storey: int) -> list[tuple[str, str, float, float, float, float]]:
+    """(member, wall, length m, centroid x, centroid y, direction) at a storey; piers listed."""
+    names = [s["name"] for s in storeys()]
+    out = []
+    for wid, x1, y1, x2, y2 in _LIFT + _STAIR:
+        length = math.hypot(x2 - x1, y2 - y1)
+        along_x = abs(x2 - x1) > abs(y2 - y1)
+        cuts = [(o["offset"], o["offset"] + o["width"]) for o in openings()
+                if o["wall_id"] == wid
+                and names.index(o["storey_from"]) <= storey <= names.index(o["storey_to"])]
+        edges = [0.0] + [e for c in cuts for e in c] + [length]
+        parts = [(a, b) for a, b in zip(edges[::2], edges[1::2], strict=True) if b - a > 1e-6]
+        for k, (a, b) in enumerate(parts, start=1):
+            mid = (a + b) / 2 / length
+            name = wid if len(parts) == 1 else f"{wid}-{k}"
+            out.append((name, wid, b - a, x1 + (x2 - x1) * mid, y1 + (y2 - y1) * mid,
+                        0.0 if along_x else 1.0))
+    return out
+
+
+def actions() -> tuple[list[dict], list[dict]]:
+    """Member actions for every pier and core actions, per storey and combination."""
+    st = storeys()
+    n = len(st)
+    tops = np.array([s["level"] + s["height"] for s in st])
+    bases = np.array([s["level"] for s in st])
+    weights = tops / tops.sum()  # inverted-triangle floor forces (common practice, no source)
+    member_rows, core_rows = [], []
+    for i, s in enumerate(st):
+        pieces = _pieces(i)
+        length = np.array([p[2] for p in pieces])
+        px = np.array([p[3] for p in pieces])
+        py = np.array([p[4] for p in pieces])
+        in_y = np.array([p[5] for p in pieces])
+        area = length * 0.25
+        cx, cy = (area * px).sum() / area.sum(), (area * py).sum() / area.sum()
+        ix, iy = (area * (py - cy) ** 2).sum(), (area * (px - cx) ** 2).sum()
+        above = n - i
+        for name, g, q, case, lf in COMBINATIONS:
+            grav = (g * GRAVITY_G + q * GRAVITY_Q) * above
+            v = m = 0.0
+            direction = None
+            if case:
+                forces = BASE_SHEAR[case] * weights
+                v = lf * forces[i:].sum()
+                m = lf * (forces[i:] * (tops[i:] - bases[i])).sum()
+                direction = 1.0 if case.endswith("y") else 0.0
+            n_member = grav * length / length.sum()
+            v_member = np.zeros_like(length)
+            m_member = np.zeros_like(length)
+            if direction is not None:
+                parallel = in_y == direction
+                share = np.where(parallel, length**2, 0.0)
+                share = share / share.sum()
+                v_member = v * share
+                m_member = 0.35 * m * share  # walls keep part of M; the rest is axial couple
+                lever = (px - cx) / iy if direction == 0.0 else (py - cy) / ix
+                n_member = n_member - 0.65 * m * area * lever
+            for (mem, *_), nn, vv, mm in zip(pieces, n_member, v_member, m_member, strict=True):
+                member_rows.append(dict(storey=s["name"], combination=name, member=mem,
+                                        n=_r(nn), v=_r(vv),
+                                        m=_r(mm), m_out=None))
+            core_rows.append(dict(
+                storey=s["name"], combination=name, n=_r(grav),
+                vx=_r(v if direction == 0.0 else 0.0), vy=_r(v if direction == 1.0 else 0.0),
+                mx=_r(m if direction == 1.0 else 0.0), my=_r(m if direction == 0.0 else 0.0),
+                t=_r(0.05 * 13.2 * abs(v)), x_v=SHEAR_POINT[0], y_v=SHEAR_POINT[1]))
+    return member_rows, core_rows
+
+
+def _r(x: float) -> float:
+    """One decimal, and never a negative zero in the sheet."""
+    return round(float(x), 1) + 0.0
+
+
+def sheets() -> dict[str, list[dict] | dict]:
+    """Demo data keyed by layout sheet key; records keyed by layout column key."""
+    member_rows, core_rows = actions()
+    return dict(project=PROJECT, storeys=storeys(), walls=walls(), openings=openings(),
+                member_actions=member_rows, core_actions=core_rows)

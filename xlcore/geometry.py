@@ -1,0 +1,184 @@
+"""Storeys, walls and openings -> piers and lintels per storey. Engine code: no workbook here.
+
+Units: plan and heights in m on input; pier dimensions in mm on output (the standard's units).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+
+import pandas as pd
+
+from xlcore.model import Opening, Storey, WallRun
+
+TOL = 0.0005  # m: edges closer than half a millimetre are the same edge
+
+PIER_COLUMNS = [
+    "storey",
+    "storey_index",
+    "wall_id",
+    "pier_id",
+    "position",
+    "start",
+    "end",
+    "Lw",
+    "tw",
+    "Hc",
+    "Ho",
+    "fc",
+    "fsy",
+    "rho_v",
+    "rho_h",
+    "v_layers",
+    "h_layers",
+    "cover",
+]
+LINTEL_COLUMNS = [
+    "storey",
+    "storey_index",
+    "wall_id",
+    "lintel_id",
+    "span",
+    "depth",
+    "tw",
+    "head",
+    "label",
+]
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """Piers (one row per storey x pier) and lintels (one row per storey x opening)."""
+
+    piers: pd.DataFrame
+    lintels: pd.DataFrame
+
+    def members_at(self) -> dict[str, set[str]]:
+        """Storey name -> every member ID an action may name there (piers and walls)."""
+        out: dict[str, set[str]] = {}
+        for storey, wall, pier in self.piers[["storey", "wall_id", "pier_id"]].itertuples(index=False):
+            out.setdefault(storey, set()).update((wall, pier))
+        return out
+
+
+def bar_ratio(layers: float, dia: float, spacing: float, thickness: float) -> float:
+    """rho = n_layers * A_bar / (s * tw): steel area per unit of concrete section."""
+    return layers * math.pi * dia**2 / 4.0 / (spacing * thickness)
+
+
+def run_at(walls: list[WallRun], storeys: list[Storey]) -> dict[tuple[int, str], WallRun]:
+    """(storey index, wall ID) -> the walls-sheet row that applies there."""
+    index = {s.name: s.index for s in storeys}
+    out: dict[tuple[int, str], WallRun] = {}
+    for w in walls:
+        for i in range(index[w.storey_from], index[w.storey_to] + 1):
+            out[(i, w.wall_id)] = w
+    return out
+
+
+def openings_at(openings: list[Opening], storeys: list[Storey]) -> dict[tuple[int, str], list[Opening]]:
+    """(storey index, wall ID) -> openings there, sorted along the wall."""
+    index = {s.name: s.index for s in storeys}
+    out: dict[tuple[int, str], list[Opening]] = {}
+    for o in openings:
+        for i in range(index[o.storey_from], index[o.storey_to] + 1):
+            out.setdefault((i, o.wall_id), []).append(o)
+    for lst in out.values():
+        lst.sort(key=lambda o: o.offset)
+    return out
+
+
+def segments(length: float, cuts: list[Opening]) -> list[tuple[float, float, float]]:
+    """Solid stretches (start, end, height of the taller neighbouring opening) along a wall [m].
+
+    An opening at a wall end leaves no pier on that side. The neighbour height is the opening's
+    clear height (head - sill): the free height of a pier between slab, sill and lintel.
+    """
+    out: list[tuple[float, float, float]] = []
+    edge, left_h = 0.0, 0.0
+    for o in cuts:
+        h = o.head - o.sill
+        if o.offset - edge > TOL:
+            out.append((edge, o.offset, max(left_h, h)))
+        edge, left_h = max(edge, o.offset + o.width), h
+    if length - edge > TOL:
+        out.append((edge, length, left_h))
+    return out
+
+
+def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening]) -> Geometry:
+    """Cut every wall at every storey into piers; put a lintel over every opening."""
+    runs = run_at(walls, storeys)
+    cuts = openings_at(openings, storeys)
+    pier_rows: list[tuple] = []
+    lintel_rows: list[tuple] = []
+    for s in storeys:
+        wall_ids = sorted({w for (i, w) in runs if i == s.index}, key=_natural)
+        for wall_id in wall_ids:
+            w = runs[(s.index, wall_id)]
+            here = cuts.get((s.index, wall_id), [])
+            rho_v = bar_ratio(w.v_layers, w.v_dia, w.v_spacing, w.thickness)
+            rho_h = bar_ratio(w.h_layers, w.h_dia, w.h_spacing, w.thickness)
+            common = (w.fc, w.fsy, rho_v, rho_h, w.v_layers, w.h_layers, w.cover)
+            hc = s.clear_height * 1000.0
+            if not here:
+                pier_rows.append(
+                    (
+                        s.name,
+                        s.index,
+                        wall_id,
+                        wall_id,
+                        0,
+                        0.0,
+                        w.length,
+                        w.length * 1000.0,
+                        w.thickness,
+                        hc,
+                        float("nan"),
+                        *common,
+                    )
+                )
+                continue
+            for k, (a, b, h_open) in enumerate(segments(w.length, here), start=1):
+                pier_rows.append(
+                    (
+                        s.name,
+                        s.index,
+                        wall_id,
+                        f"{wall_id}-{k}",
+                        k,
+                        a,
+                        b,
+                        (b - a) * 1000.0,
+                        w.thickness,
+                        hc,
+                        h_open * 1000.0,
+                        *common,
+                    )
+                )
+            for k, o in enumerate(here, start=1):
+                depth = (s.height - o.head) * 1000.0  # head of opening to top of the slab above
+                lintel_rows.append(
+                    (
+                        s.name,
+                        s.index,
+                        wall_id,
+                        f"{wall_id}-L{k}",
+                        o.width,
+                        depth,
+                        w.thickness,
+                        o.head,
+                        o.label or "",
+                    )
+                )
+    return Geometry(
+        piers=pd.DataFrame(pier_rows, columns=PIER_COLUMNS),
+        lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
+    )
+
+
+def _natural(text: str) -> tuple:
+    """Sort key that puts W2 before W10."""
+    return tuple(int(t) if t.isdigit() else t for t in re.split(r"(\d+)", text))

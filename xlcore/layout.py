@@ -1,0 +1,500 @@
+"""The workbook layout as data: every input sheet, column and setting, in one place.
+
+The template writer, the reader, the README's layout section and the tests all read this
+module; nothing else spells a sheet name or a column header.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from enum import StrEnum
+
+
+class Kind(StrEnum):
+    """What a cell must hold."""
+
+    TEXT = "text"
+    NUMBER = "number"
+    INTEGER = "integer"
+    CHOICE = "choice"
+    STOREY = "storey"  # text naming a row of the storeys sheet
+    WALL = "wall"  # text naming a wall ID of the walls sheet
+
+
+@dataclass(frozen=True)
+class Column:
+    key: str
+    name: str
+    unit: str | None
+    kind: Kind
+    help: str
+    required: bool = True
+    min: float | None = None
+    max: float | None = None
+    min_open: bool = False  # True: value must be strictly greater than min
+    choices: tuple[str, ...] = ()
+    width: float = 13.0
+    number_format: str = "0.00"
+
+    @property
+    def header(self) -> str:
+        return f"{self.name} [{self.unit}]" if self.unit else self.name
+
+    def expectation(self) -> str:
+        """Plain words for what the column accepts, used in error messages and help."""
+        if self.kind in (Kind.CHOICE,):
+            return "one of: " + ", ".join(self.choices)
+        if self.kind is Kind.STOREY:
+            return "a storey name from the storeys sheet"
+        if self.kind is Kind.WALL:
+            return "a wall ID from the walls sheet"
+        if self.kind is Kind.TEXT:
+            return "text"
+        what = "a whole number" if self.kind is Kind.INTEGER else "a number"
+        unit = f" in {self.unit}" if self.unit else ""
+        if self.min is not None and self.max is not None:
+            low = f"greater than {_fmt(self.min)}" if self.min_open else f"{_fmt(self.min)}"
+            if self.min_open:
+                return f"{what}{unit}, {low} and at most {_fmt(self.max)}"
+            return f"{what}{unit} from {low} to {_fmt(self.max)}"
+        if self.min is not None:
+            rel = "greater than" if self.min_open else "at least"
+            return f"{what}{unit}, {rel} {_fmt(self.min)}"
+        return f"{what}{unit}"
+
+
+def _fmt(x: float) -> str:
+    return f"{x:g}"
+
+
+@dataclass(frozen=True)
+class TableSheet:
+    """An input sheet holding a table: header in row 1, one record per row below."""
+
+    key: str
+    name: str
+    purpose: str
+    columns: tuple[Column, ...]
+    max_rows: int = 2000  # rows covered by the template's validation and styling
+
+    def column(self, key: str) -> Column:
+        for c in self.columns:
+            if c.key == key:
+                return c
+        raise KeyError(key)
+
+    @property
+    def keys(self) -> list[str]:
+        return [c.key for c in self.columns]
+
+
+@dataclass(frozen=True)
+class Setting:
+    key: str
+    label: str
+    unit: str | None
+    kind: Kind
+    default: object
+    help: str
+    choices: tuple[str, ...] = ()
+    min: float | None = None
+    max: float | None = None
+
+    @property
+    def column(self) -> Column:
+        """The setting's value cell seen as a column, so one cell validator serves both."""
+        return Column(
+            key=self.key,
+            name=self.label,
+            unit=self.unit,
+            kind=self.kind,
+            help=self.help,
+            required=False,
+            min=self.min,
+            max=self.max,
+            choices=self.choices,
+        )
+
+
+@dataclass(frozen=True)
+class SettingsSheet:
+    """Key/value sheet: labels in column A, values in column B."""
+
+    key: str
+    name: str
+    purpose: str
+    headers: tuple[str, str, str, str]
+    settings: tuple[Setting, ...]
+
+    def setting(self, key: str) -> Setting:
+        for s in self.settings:
+            if s.key == key:
+                return s
+        raise KeyError(key)
+
+
+YES_NO = ("yes", "no")
+STANDARDS = ("AS 3600:2018",)
+HEIGHT_BASES = ("storey clear height", "opening height")
+PIER_FIXITY = ("fixed-fixed", "cantilever")
+
+INSTRUCTIONS_SHEET = "Read me"
+
+PROJECT = SettingsSheet(
+    key="project",
+    name="Project",
+    purpose="Project-wide settings. Leave a value blank to use the default shown in the help.",
+    headers=("Setting", "Value", "Unit", "Help"),
+    settings=(
+        Setting("project_name", "Project name", None, Kind.TEXT, "", "Free text, shown on results."),
+        Setting(
+            "standard",
+            "Design standard",
+            None,
+            Kind.CHOICE,
+            STANDARDS[0],
+            "Standard the checks follow.",
+            choices=STANDARDS,
+        ),
+        Setting(
+            "phi_shear",
+            "phi for wall shear",
+            None,
+            Kind.NUMBER,
+            None,
+            "Capacity reduction factor for in-plane shear of walls. Blank: 0.7 "
+            "(AS 3600:2018 Table 2.2.2 as applied to walls).",
+            min=0.5,
+            max=1.0,
+        ),
+        Setting(
+            "shear_height",
+            "Height for pier aspect ratio",
+            None,
+            Kind.CHOICE,
+            HEIGHT_BASES[0],
+            "Hw used in Hw/Lw of Cl 11.6: the storey clear height (default, conservative for "
+            "slender piers) or, for piers beside an opening, the opening's clear height.",
+            choices=HEIGHT_BASES,
+        ),
+        Setting(
+            "pier_fixity",
+            "Pier end condition for stiffness",
+            None,
+            Kind.CHOICE,
+            PIER_FIXITY[0],
+            "End condition used for pier lateral stiffness when a wall's shear is shared "
+            "among its piers: fixed-fixed (between slab and lintel) or cantilever.",
+            choices=PIER_FIXITY,
+        ),
+        Setting(
+            "poisson",
+            "Poisson's ratio of concrete",
+            None,
+            Kind.NUMBER,
+            0.2,
+            "Gives the shear modulus G = E / (2 (1 + nu)) for pier shear deformation.",
+            min=0.0,
+            max=0.5,
+        ),
+    ),
+)
+
+_STOREY_LIST_HELP = "Pick from the list: names typed on the storeys sheet."
+
+STOREYS = TableSheet(
+    key="storeys",
+    name="Storeys",
+    purpose=(
+        "One row per storey, lowest first. A storey runs from the top of its floor slab to "
+        "the top of the next floor slab; its walls' clear height is that height less the "
+        "slab above."
+    ),
+    columns=(
+        Column("name", "Storey", None, Kind.TEXT, "Unique storey name, e.g. GF, L1, L2.", width=12),
+        Column(
+            "level",
+            "Floor level",
+            "m",
+            Kind.NUMBER,
+            "Level of the top of the slab the walls stand on.",
+            min=-200,
+            max=1000,
+            number_format="0.000",
+        ),
+        Column(
+            "height",
+            "Height to next floor",
+            "m",
+            Kind.NUMBER,
+            "Floor-to-floor height: from this floor level to the next storey's floor level.",
+            min=1.0,
+            max=30,
+            number_format="0.000",
+            width=16,
+        ),
+        Column(
+            "slab",
+            "Slab above",
+            "mm",
+            Kind.NUMBER,
+            "Thickness of the slab at the top of this storey (0 where there is none).",
+            min=0,
+            max=2000,
+            number_format="0",
+        ),
+    ),
+    max_rows=300,
+)
+
+_BAR = dict(min=6, max=40, number_format="0", width=11)
+_SPACING = dict(min=50, max=1000, number_format="0", width=11)
+_LAYERS = dict(min=1, max=2, number_format="0", width=9)
+
+WALLS = TableSheet(
+    key="walls",
+    name="Walls",
+    purpose=(
+        "One row per wall per storey range. A wall whose thickness, grade or bars change up "
+        "the building gets one row per range, with the same wall ID; ranges must not overlap "
+        "or leave gaps."
+    ),
+    columns=(
+        Column("wall_id", "Wall ID", None, Kind.TEXT, "Wall name, e.g. W1. Piers get -1, -2...", width=10),
+        Column("x1", "Start x", "m", Kind.NUMBER, "Plan x of the centreline start.", min=-1000, max=1000),
+        Column("y1", "Start y", "m", Kind.NUMBER, "Plan y of the centreline start.", min=-1000, max=1000),
+        Column("x2", "End x", "m", Kind.NUMBER, "Plan x of the centreline end.", min=-1000, max=1000),
+        Column("y2", "End y", "m", Kind.NUMBER, "Plan y of the centreline end.", min=-1000, max=1000),
+        Column(
+            "thickness",
+            "Thickness",
+            "mm",
+            Kind.NUMBER,
+            "Wall thickness tw.",
+            min=75,
+            max=1500,
+            number_format="0",
+        ),
+        Column(
+            "storey_from", "From storey", None, Kind.STOREY, "Lowest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "storey_to", "To storey", None, Kind.STOREY, "Highest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "fc",
+            "f'c",
+            "MPa",
+            Kind.NUMBER,
+            "Characteristic compressive strength (20 to 100 MPa).",
+            min=20,
+            max=100,
+            number_format="0",
+        ),
+        Column(
+            "fsy",
+            "fsy",
+            "MPa",
+            Kind.NUMBER,
+            "Yield strength of the bars.",
+            min=250,
+            max=600,
+            number_format="0",
+        ),
+        Column("v_dia", "Vertical bar dia", "mm", Kind.NUMBER, "Vertical bar diameter.", **_BAR),
+        Column(
+            "v_spacing",
+            "Vertical spacing",
+            "mm",
+            Kind.NUMBER,
+            "Vertical bar spacing along the wall.",
+            **_SPACING,
+        ),
+        Column("v_layers", "Vertical layers", None, Kind.INTEGER, "1 (central) or 2 (each face).", **_LAYERS),
+        Column("h_dia", "Horizontal bar dia", "mm", Kind.NUMBER, "Horizontal bar diameter.", **_BAR),
+        Column(
+            "h_spacing",
+            "Horizontal spacing",
+            "mm",
+            Kind.NUMBER,
+            "Horizontal bar spacing up the wall.",
+            **_SPACING,
+        ),
+        Column(
+            "h_layers", "Horizontal layers", None, Kind.INTEGER, "1 (central) or 2 (each face).", **_LAYERS
+        ),
+        Column(
+            "cover",
+            "Cover",
+            "mm",
+            Kind.NUMBER,
+            "Clear cover to the outer bars.",
+            min=10,
+            max=150,
+            number_format="0",
+        ),
+    ),
+)
+
+OPENINGS = TableSheet(
+    key="openings",
+    name="Openings",
+    purpose=(
+        "One row per opening (door, window, duct) per storey range. An opening splits its wall "
+        "into piers over the opening's height; the wall above it is a lintel."
+    ),
+    columns=(
+        Column(
+            "wall_id", "Wall ID", None, Kind.WALL, "Wall the opening is in. Pick from the list.", width=10
+        ),
+        Column(
+            "storey_from",
+            "From storey",
+            None,
+            Kind.STOREY,
+            "Lowest storey with this opening. " + _STOREY_LIST_HELP,
+        ),
+        Column(
+            "storey_to",
+            "To storey",
+            None,
+            Kind.STOREY,
+            "Highest storey with this opening. " + _STOREY_LIST_HELP,
+        ),
+        Column(
+            "offset",
+            "Offset from wall start",
+            "m",
+            Kind.NUMBER,
+            "Distance along the wall from its start point to the opening's near edge.",
+            min=0,
+            max=1000,
+            number_format="0.000",
+            width=16,
+        ),
+        Column(
+            "width",
+            "Width",
+            "m",
+            Kind.NUMBER,
+            "Opening width along the wall.",
+            min=0,
+            max=100,
+            min_open=True,
+            number_format="0.000",
+        ),
+        Column(
+            "sill",
+            "Sill height",
+            "m",
+            Kind.NUMBER,
+            "Height of the opening's bottom above floor level (0 for a door).",
+            min=0,
+            max=30,
+            number_format="0.000",
+        ),
+        Column(
+            "head",
+            "Head height",
+            "m",
+            Kind.NUMBER,
+            "Height of the opening's top above floor level.",
+            min=0,
+            max=30,
+            min_open=True,
+            number_format="0.000",
+        ),
+        Column("label", "Label", None, Kind.TEXT, "Optional note, e.g. lift door.", required=False, width=16),
+    ),
+)
+
+_FORCE = dict(min=-1e7, max=1e7, number_format="0.0")
+
+MEMBER_ACTIONS = TableSheet(
+    key="member_actions",
+    name="Member actions",
+    purpose=(
+        "Design actions per storey, load combination and member (a pier ID such as W3-1, or a "
+        "wall ID; a wall's actions are shared among its piers where openings cut it). "
+        "Axial force: compression positive. Actions at the base of the member in that storey."
+    ),
+    columns=(
+        Column("storey", "Storey", None, Kind.STOREY, _STOREY_LIST_HELP, width=10),
+        Column("combination", "Combination", None, Kind.TEXT, "Load combination name.", width=16),
+        Column("member", "Member", None, Kind.TEXT, "Pier ID (e.g. W3-1) or wall ID (e.g. W3).", width=10),
+        Column("n", "N*", "kN", Kind.NUMBER, "Design axial force, compression positive.", **_FORCE),
+        Column("v", "V* in-plane", "kN", Kind.NUMBER, "Design in-plane shear.", **_FORCE),
+        Column("m", "M* in-plane", "kNm", Kind.NUMBER, "Design in-plane bending moment.", **_FORCE),
+        Column(
+            "m_out",
+            "M* out-of-plane",
+            "kNm",
+            Kind.NUMBER,
+            "Design out-of-plane moment (optional).",
+            required=False,
+            **_FORCE,
+        ),
+    ),
+    max_rows=20000,
+)
+
+CORE_ACTIONS = TableSheet(
+    key="core_actions",
+    name="Core actions",
+    purpose=(
+        "Storey resultants of the whole core per load combination, where only those are known. "
+        "Forces act at the base of the storey; compression positive. Validated now; sharing "
+        "them out to walls and piers by stiffness is planned."
+    ),
+    columns=(
+        Column("storey", "Storey", None, Kind.STOREY, _STOREY_LIST_HELP, width=10),
+        Column("combination", "Combination", None, Kind.TEXT, "Load combination name.", width=16),
+        Column("n", "N*", "kN", Kind.NUMBER, "Total axial force, compression positive.", **_FORCE),
+        Column("vx", "Vx*", "kN", Kind.NUMBER, "Storey shear in the x direction.", **_FORCE),
+        Column("vy", "Vy*", "kN", Kind.NUMBER, "Storey shear in the y direction.", **_FORCE),
+        Column("mx", "Mx*", "kNm", Kind.NUMBER, "Moment about the x axis.", **_FORCE),
+        Column("my", "My*", "kNm", Kind.NUMBER, "Moment about the y axis.", **_FORCE),
+        Column("t", "T*", "kNm", Kind.NUMBER, "Torsion about the vertical axis.", **_FORCE),
+        Column(
+            "x_v",
+            "Shear acts at x",
+            "m",
+            Kind.NUMBER,
+            "Plan x of the point the storey shear acts at (optional).",
+            required=False,
+            min=-1000,
+            max=1000,
+        ),
+        Column(
+            "y_v",
+            "Shear acts at y",
+            "m",
+            Kind.NUMBER,
+            "Plan y of the point the storey shear acts at (optional).",
+            required=False,
+            min=-1000,
+            max=1000,
+        ),
+    ),
+    max_rows=5000,
+)
+
+TABLES: tuple[TableSheet, ...] = (STOREYS, WALLS, OPENINGS, MEMBER_ACTIONS, CORE_ACTIONS)
+INPUT_SHEET_NAMES: tuple[str, ...] = (PROJECT.name,) + tuple(t.name for t in TABLES)
+RESULT_PREFIX = "Results "  # every sheet xlcore writes starts with this; only those are rewritten
+
+
+@dataclass(frozen=True)
+class UnitSlip:
+    """A value that looks like the wrong unit: `factor` times it would sit in range."""
+
+    unit: str
+    factor: float
+    hint: str
+
+
+UNIT_SLIPS: tuple[UnitSlip, ...] = (
+    UnitSlip("mm", 1000.0, "did you enter metres? this column is in mm"),
+    UnitSlip("m", 0.001, "did you enter millimetres? this column is in m"),
+    UnitSlip("MPa", 1e-6, "did you enter Pa? this column is in MPa"),
+)

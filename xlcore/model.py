@@ -1,0 +1,95 @@
+"""Typed, validated input of one building. Small tables as models; actions as data frames."""
+
+from __future__ import annotations
+
+import pandas as pd
+from pydantic import BaseModel, ConfigDict, computed_field
+
+
+class Settings(BaseModel):
+    model_config = ConfigDict(frozen=True)
+
+    project_name: str = ""
+    standard: str = "AS 3600:2018"
+    phi_shear: float | None = None
+    shear_height: str = "storey clear height"
+    pier_fixity: str = "fixed-fixed"
+    poisson: float = 0.2
+
+
+class Storey(BaseModel):
+    model_config = ConfigDict(frozen=True)
+
+    index: int  # 0 = lowest
+    name: str
+    level: float  # m
+    height: float  # m, floor to floor
+    slab: float  # mm, slab above
+    row: int = 0  # source row on the storeys sheet
+
+    @computed_field
+    @property
+    def clear_height(self) -> float:
+        """Top of the lower slab to the soffit of the slab above [m]."""
+        return self.height - self.slab / 1000.0
+
+
+class WallRun(BaseModel):
+    """One row of the walls sheet: a wall over a range of storeys."""
+
+    model_config = ConfigDict(frozen=True)
+
+    wall_id: str
+    x1: float
+    y1: float
+    x2: float
+    y2: float
+    thickness: float
+    storey_from: str
+    storey_to: str
+    fc: float
+    fsy: float
+    v_dia: float
+    v_spacing: float
+    v_layers: int
+    h_dia: float
+    h_spacing: float
+    h_layers: int
+    cover: float
+    row: int = 0
+
+    @property
+    def length(self) -> float:
+        """Centreline length [m]."""
+        return float(((self.x2 - self.x1) ** 2 + (self.y2 - self.y1) ** 2) ** 0.5)
+
+
+class Opening(BaseModel):
+    model_config = ConfigDict(frozen=True)
+
+    wall_id: str
+    storey_from: str
+    storey_to: str
+    offset: float
+    width: float
+    sill: float
+    head: float
+    label: str | None = None
+    row: int = 0
+
+
+class Building(BaseModel):
+    """Everything `compute` needs, already checked."""
+
+    model_config = ConfigDict(frozen=True, arbitrary_types_allowed=True)
+
+    settings: Settings
+    storeys: list[Storey]
+    walls: list[WallRun]
+    openings: list[Opening]
+    member_actions: pd.DataFrame  # columns: layout MEMBER_ACTIONS keys + "row"
+    core_actions: pd.DataFrame  # columns: layout CORE_ACTIONS keys + "row"
+    input_hash: str = ""
+
+    def storey_index(self) -> dict[str, int]:
+        return {s.name: s.index for s in self.storeys}

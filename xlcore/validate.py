@@ -1,0 +1,621 @@
+"""Raw cell values -> a checked `Building`. One pass collects every finding with its Sheet!Cell."""
+
+from __future__ import annotations
+
+import datetime as dt
+import math
+import re
+from collections import defaultdict
+
+import numpy as np
+import pandas as pd
+
+from xlcore import geometry, layout
+from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
+from xlcore.layout import Column, Kind, TableSheet
+from xlcore.model import Building, Opening, Settings, Storey, WallRun
+from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
+
+NUMBER_TEXT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
+NUMBER_WITH_UNIT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)\s*[^\d\s.].*$")
+LEVEL_TOL = 0.005  # m: storey levels and heights must agree within 5 mm
+
+
+def build(raw: RawWorkbook) -> tuple[Building, Findings]:
+    """Check the inputs; return the building and any warnings, or raise InputInvalid."""
+    f = raw.findings
+    _sheet_names(raw, f)
+    settings = _settings(raw.sheets.get(layout.PROJECT.name), f)
+    tables = {t.key: _table(raw.sheets.get(t.name), t, f) for t in layout.TABLES}
+    storeys = _storeys(tables["storeys"], f)
+    walls = _walls(tables["walls"], storeys, f)
+    openings = _openings(tables["openings"], storeys, walls, f)
+    geom = None
+    if storeys and walls and not f.errors:
+        geom = geometry.derive(storeys, walls, openings)
+        _pier_warnings(geom, f)
+    actions = _member_actions(tables["member_actions"], storeys, geom, f)
+    core = _core_actions(tables["core_actions"], storeys, f)
+    if f.errors:
+        raise InputInvalid(f)
+    building = Building(
+        settings=settings,
+        storeys=storeys,
+        walls=walls,
+        openings=openings,
+        member_actions=actions,
+        core_actions=core,
+        input_hash=raw.input_hash,
+    )
+    return building, f
+
+
+# ---------------------------------------------------------------- cells
+
+
+def blank(v: object) -> bool:
+    return v is None or (isinstance(v, str) and v.strip() == "")
+
+
+def _number(v: object, col: Column) -> tuple[float | None, str | None]:
+    """A cell as a number, or the reason it is not one."""
+    if isinstance(v, bool):
+        return None, f"found {show(v)}; expected {col.expectation()}"
+    if isinstance(v, int | float):
+        x = float(v)
+    elif isinstance(v, str):
+        s = v.strip()
+        if s in ERROR_VALUES:
+            return None, f"found the error value {s}; expected {col.expectation()} (fix the formula)"
+        if NUMBER_TEXT.match(s):
+            x = float(s)
+        elif NUMBER_WITH_UNIT.match(s):
+            return None, (
+                f"found {show(v)}; expected {col.expectation()}: enter the number only, the unit "
+                "is fixed by the column header"
+            )
+        else:
+            return None, f"found {show(v)}; expected {col.expectation()}"
+    elif isinstance(v, dt.datetime | dt.date | dt.time):
+        return None, (
+            f"found a date/time ({v}); expected {col.expectation()} "
+            "(the cell is formatted as a date: set it to Number)"
+        )
+    else:
+        return None, f"found {show(v)}; expected {col.expectation()}"
+    if not math.isfinite(x):
+        return None, f"found {show(v)}; expected a finite number"
+    if col.kind is Kind.INTEGER and not x.is_integer():
+        return None, f"found {show(v)}; expected {col.expectation()}"
+    return x, _range_problem(x, col, v)
+
+
+def _range_problem(x: float, col: Column, v: object) -> str | None:
+    low_bad = col.min is not None and (x <= col.min if col.min_open else x < col.min)
+    high_bad = col.max is not None and x > col.max
+    if not (low_bad or high_bad):
+        return None
+    msg = f"found {show(v)}; expected {col.expectation()}"
+    for slip in layout.UNIT_SLIPS:
+        if slip.unit == col.unit and x != 0:
+            y = x * slip.factor
+            lo_ok = col.min is None or (y > col.min if col.min_open else y >= col.min)
+            hi_ok = col.max is None or y <= col.max
+            if lo_ok and hi_ok:
+                msg += f" ({slip.hint})"
+    return msg
+
+
+def _text(v: object, col: Column) -> tuple[str | None, str | None]:
+    if isinstance(v, bool) or isinstance(v, dt.datetime | dt.date | dt.time):
+        return None, f"found {show(v)}; expected {col.expectation()}"
+    if isinstance(v, float):
+        if not math.isfinite(v):
+            return None, f"found {show(v)}; expected {col.expectation()}"
+        s = str(int(v)) if v.is_integer() else repr(v)
+    else:
+        s = str(v).strip()
+    if s in ERROR_VALUES:
+        return None, f"found the error value {s}; expected {col.expectation()} (fix the formula)"
+    if col.kind is Kind.CHOICE:
+        for c in col.choices:
+            if c.lower() == s.lower():
+                return c, None
+        return None, f"found {show(v)}; expected {col.expectation()}"
+    if len(s) > 255:
+        return None, f"found text of {len(s)} characters; expected at most 255"
+    return s, None
+
+
+def _cell(v: object, col: Column) -> tuple[object, str | None]:
+    if col.kind in (Kind.NUMBER, Kind.INTEGER):
+        return _number(v, col)
+    return _text(v, col)
+
+
+# ---------------------------------------------------------------- sheets
+
+
+def _sheet_names(raw: RawWorkbook, f: Findings) -> None:
+    lower = {n.strip().lower(): n for n in raw.sheet_names}
+    for name in layout.INPUT_SHEET_NAMES:
+        if name in raw.sheets:
+            continue
+        near = lower.get(name.lower())
+        hint = f" (found a sheet named {near!r}: sheet names must match exactly)" if near else ""
+        f.error(
+            name,
+            None,
+            f"sheet {name!r} is missing{hint}; expected the input sheets "
+            f"{', '.join(layout.INPUT_SHEET_NAMES)} (`xlcore template` writes them)",
+        )
+
+
+def _norm(h: object) -> str:
+    return re.sub(r"\s+", " ", str(h)).strip().lower() if h is not None else ""
+
+
+def _unit_of(header: str) -> str | None:
+    m = re.search(r"\[([^\]]*)\]\s*$", header)
+    return m.group(1).strip() if m else None
+
+
+def _name_of(header: str) -> str:
+    return re.sub(r"\[[^\]]*\]\s*$", "", header).strip()
+
+
+def _map_header(sheet: RawSheet, t: TableSheet, f: Findings) -> dict[str, int] | None:
+    """Column key -> 0-based column. Columns may be in any order; headers stay in row 1."""
+    header = sheet.rows[0] if sheet.rows else ()
+    found: dict[str, int] = {}
+    by_name = {_norm(c.name): c for c in t.columns}
+    by_header = {_norm(c.header): c for c in t.columns}
+    ok = True
+    for i, h in enumerate(header):
+        if blank(h):
+            continue
+        key = _norm(h)
+        col = by_header.get(key)
+        if col is None and _norm(_name_of(str(h))) in by_name:
+            col = by_name[_norm(_name_of(str(h)))]
+            if col.unit is not None or _unit_of(str(h)) is not None:
+                f.error(
+                    t.name,
+                    cell_name(i, 1),
+                    f"header {show(h)} has the unit [{_unit_of(str(h)) or ''}]; expected "
+                    f"{col.header!r}: xlcore reads this column in {col.unit or 'no unit'}",
+                )
+                ok = False
+                continue
+        if col is None:
+            f.warning(t.name, cell_name(i, 1), f"column {show(h)} is not an xlcore column; ignored")
+            continue
+        if col.key in found:
+            f.error(
+                t.name,
+                cell_name(i, 1),
+                f"column {col.header!r} appears twice (also in {cell_name(found[col.key], 1)})",
+            )
+            ok = False
+            continue
+        found[col.key] = i
+    for c in t.columns:
+        if c.key not in found and c.required:
+            f.error(t.name, "1:1", f"column {c.header!r} not found in the header row (row 1)")
+            ok = False
+    return found if ok else None
+
+
+def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame | None:
+    """Typed columns of one table sheet (NaN / None where a cell was bad) plus its row numbers."""
+    if sheet is None:
+        return None
+    cols = _map_header(sheet, t, f)
+    if cols is None:
+        return None
+    idx = [cols.get(c.key) for c in t.columns]
+    rows: list[int] = []
+    values: list[list[object]] = []
+    for r in range(2, len(sheet.rows) + 1):
+        raw = sheet.rows[r - 1]
+        vals = [raw[i] if i is not None and i < len(raw) else None for i in idx]
+        if all(blank(v) for v in vals):
+            continue
+        rows.append(r)
+        values.append(vals)
+    data: dict[str, object] = {"row": np.array(rows, dtype=int)}
+    for j, c in enumerate(t.columns):
+        column = [v[j] for v in values]
+        data[c.key] = _typed_column(column, rows, c, idx[j], t.name, f)
+    df = pd.DataFrame(data)
+    df.attrs["columns"] = cols
+    return df
+
+
+def _typed_column(column, rows, c: Column, ci: int | None, sheet: str, f: Findings):
+    numeric = c.kind in (Kind.NUMBER, Kind.INTEGER)
+    out: list[object] = []
+    for v, r in zip(column, rows, strict=True):
+        if numeric and type(v) in (int, float) and math.isfinite(v):
+            x = float(v)  # fast path: a plain number
+            problem = _range_problem(x, c, v)
+            if problem is None and (c.kind is Kind.NUMBER or x.is_integer()):
+                out.append(x)
+                continue
+        if blank(v):
+            if c.required:
+                f.error(sheet, cell_name(ci or 0, r), f"blank; expected {c.expectation()}")
+            out.append(np.nan if numeric else None)
+            continue
+        value, problem = _cell(v, c)
+        if problem:
+            f.error(sheet, cell_name(ci or 0, r), problem)
+            value = None
+        out.append((np.nan if value is None else value) if numeric else value)
+    return np.array(out, dtype=float) if numeric else np.array(out, dtype=object)
+
+
+def _settings(sheet: RawSheet | None, f: Findings) -> Settings:
+    spec = layout.PROJECT
+    values: dict[str, object] = {}
+    if sheet is None:
+        return Settings()
+    labels = {_norm(s.label): s for s in spec.settings}
+    seen: set[str] = set()
+    for r in range(2, len(sheet.rows) + 1):
+        label = sheet.value(r, 0)
+        if blank(label):
+            continue
+        s = labels.get(_norm(label))
+        if s is None:
+            f.warning(spec.name, cell_name(0, r), f"setting {show(label)} is not an xlcore setting; ignored")
+            continue
+        seen.add(s.key)
+        v = sheet.value(r, 1)
+        if blank(v):
+            continue
+        value, problem = _cell(v, s.column)
+        if problem:
+            f.error(spec.name, cell_name(1, r), problem)
+            continue
+        values[s.key] = value
+    for s in spec.settings:
+        if s.key not in seen:
+            f.warning(spec.name, None, f"setting {s.label!r} not found in column A; default used")
+    return Settings(**values)
+
+
+# ---------------------------------------------------------------- cross-sheet checks
+
+
+def _at(df: pd.DataFrame, key: str, row: int) -> str:
+    """A1 name of the cell holding `key` in `row`, wherever that column sits on the sheet."""
+    return cell_name(df.attrs["columns"].get(key, 0), row)
+
+
+def _storeys(df: pd.DataFrame | None, f: Findings) -> list[Storey]:
+    t = layout.STOREYS
+    if df is None:
+        return []
+    if df.empty:
+        f.error(t.name, "A2", "no storeys; expected at least one row")
+        return []
+    out: list[Storey] = []
+    seen: dict[str, int] = {}
+    ok = True
+    for rec in df.itertuples(index=False):
+        if rec.name is None or any(math.isnan(x) for x in (rec.level, rec.height, rec.slab)):
+            ok = False
+            continue
+        if rec.name in seen:
+            f.error(
+                t.name,
+                _at(df, "name", rec.row),
+                f"storey name {rec.name!r} is used twice (also row {seen[rec.name]})",
+            )
+            ok = False
+        seen.setdefault(rec.name, rec.row)
+        if rec.slab / 1000.0 >= rec.height:
+            f.error(
+                t.name,
+                _at(df, "slab", rec.row),
+                f"found {show(rec.slab)} mm; the slab must be thinner than the storey height "
+                f"({rec.height:g} m) to leave a clear height",
+            )
+            ok = False
+        out.append(
+            Storey(
+                index=len(out), name=rec.name, level=rec.level, height=rec.height, slab=rec.slab, row=rec.row
+            )
+        )
+    for a, b in zip(out, out[1:], strict=False):
+        if b.level <= a.level:
+            f.error(
+                t.name,
+                _at(df, "level", b.row),
+                f"found {b.level:g} m; expected a level above {a.name} ({a.level:g} m): "
+                "list storeys lowest first",
+            )
+            ok = False
+        elif abs(a.level + a.height - b.level) > LEVEL_TOL:
+            f.error(
+                t.name,
+                _at(df, "height", a.row),
+                f"found {a.height:g} m, which puts the next floor at {a.level + a.height:g} m; "
+                f"expected {b.level - a.level:g} m to reach {b.name} at {b.level:g} m",
+            )
+            ok = False
+    return out if ok else []
+
+
+def _storey_range(
+    rec, df: pd.DataFrame, t: TableSheet, index: dict[str, int], f: Findings
+) -> tuple[int, int] | None:
+    lo = index.get(rec.storey_from) if rec.storey_from is not None else None
+    hi = index.get(rec.storey_to) if rec.storey_to is not None else None
+    for key, name, i in (("storey_from", rec.storey_from, lo), ("storey_to", rec.storey_to, hi)):
+        if name is not None and i is None and index:
+            f.error(
+                t.name,
+                _at(df, key, rec.row),
+                f"found {show(name)}; expected a storey name from the {layout.STOREYS.name} sheet",
+            )
+    if lo is None or hi is None:
+        return None
+    if lo > hi:
+        f.error(
+            t.name,
+            _at(df, "storey_to", rec.row),
+            f"found {rec.storey_to!r}, which is below the from storey {rec.storey_from!r}; "
+            "expected the to storey at or above the from storey",
+        )
+        return None
+    return lo, hi
+
+
+def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[WallRun]:
+    t = layout.WALLS
+    if df is None:
+        return []
+    if df.empty:
+        f.error(t.name, "A2", "no walls; expected at least one row")
+        return []
+    index = {s.name: s.index for s in storeys}
+    out: list[WallRun] = []
+    spans: dict[str, list[tuple[int, int, int]]] = defaultdict(list)
+    for rec in df.itertuples(index=False):
+        rng = _storey_range(rec, df, t, index, f)
+        values = rec._asdict()
+        if any(v is None or (isinstance(v, float) and math.isnan(v)) for v in values.values()):
+            continue
+        wall = WallRun(**values)
+        if wall.length < 0.05:
+            f.error(
+                t.name,
+                _at(df, "x2", rec.row),
+                f"wall {wall.wall_id!r} has a length of {wall.length * 1000:.0f} mm; expected the "
+                "end point away from the start point",
+            )
+            continue
+        fit = 2 * wall.cover + (wall.v_dia + wall.h_dia) * (2 if max(wall.v_layers, wall.h_layers) > 1 else 1)
+        if fit >= wall.thickness:
+            f.warning(
+                t.name,
+                _at(df, "cover", rec.row),
+                f"cover and bars take {fit:.0f} mm of a {wall.thickness:.0f} mm wall",
+            )
+        if rng is not None:
+            spans[wall.wall_id].append((rng[0], rng[1], rec.row))
+            out.append(wall)
+    for wall_id, lst in spans.items():
+        lst.sort()
+        for (_a0, a1, ra), (b0, _b1, rb) in zip(lst, lst[1:], strict=False):
+            if b0 <= a1:
+                f.error(
+                    t.name,
+                    _at(df, "storey_from", rb),
+                    f"wall {wall_id!r} storeys overlap row {ra} ({storeys[b0].name} to "
+                    f"{storeys[a1].name}); expected each storey in one row only",
+                )
+            elif b0 > a1 + 1:
+                f.error(
+                    t.name,
+                    _at(df, "storey_from", rb),
+                    f"wall {wall_id!r} has no row for {storeys[a1 + 1].name} to "
+                    f"{storeys[b0 - 1].name} (gap after row {ra}); expected continuous storey ranges",
+                )
+    return out
+
+
+def _openings(
+    df: pd.DataFrame | None, storeys: list[Storey], walls: list[WallRun], f: Findings
+) -> list[Opening]:
+    t = layout.OPENINGS
+    if df is None or df.empty:
+        return []
+    index = {s.name: s.index for s in storeys}
+    if any(e.sheet == layout.WALLS.name for e in f.errors):
+        return []  # openings are checked against walls only once the walls are sound
+    runs = geometry.run_at(walls, storeys) if storeys else {}
+    wall_ids = {w.wall_id for w in walls}
+    out: list[Opening] = []
+    placed: dict[tuple[int, str], list[tuple[float, float, int]]] = defaultdict(list)
+    for rec in df.itertuples(index=False):
+        c = lambda key, r=rec.row: _at(df, key, r)  # noqa: E731
+        if rec.wall_id is not None and wall_ids and rec.wall_id not in wall_ids:
+            f.error(
+                t.name,
+                c("wall_id"),
+                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet",
+            )
+            continue
+        rng = _storey_range(rec, df, t, index, f)
+        values = rec._asdict()
+        if rng is None or any(
+            v is None or (isinstance(v, float) and math.isnan(v)) for k, v in values.items() if k != "label"
+        ):
+            continue
+        o = Opening(**values)
+        if o.sill >= o.head:
+            f.error(
+                t.name,
+                c("sill"),
+                f"found {o.sill:g} m; expected the sill below the head height ({o.head:g} m)",
+            )
+            continue
+        bad = False
+        for i in range(rng[0], rng[1] + 1):
+            s = storeys[i]
+            w = runs.get((i, o.wall_id))
+            if w is None:
+                f.error(
+                    t.name,
+                    c("storey_from"),
+                    f"wall {o.wall_id!r} does not exist at storey "
+                    f"{s.name}; expected the opening's storeys within the wall's",
+                )
+                bad = True
+                break
+            if o.offset + o.width > w.length + geometry.TOL:
+                f.error(
+                    t.name,
+                    c("width"),
+                    f"opening from {o.offset:g} m to "
+                    f"{o.offset + o.width:g} m runs past the end of wall {o.wall_id!r} "
+                    f"({w.length:.3f} m long at {s.name}); expected it within the wall",
+                )
+                bad = True
+                break
+            if o.offset <= geometry.TOL and o.offset + o.width >= w.length - geometry.TOL:
+                f.error(
+                    t.name,
+                    c("width"),
+                    f"opening spans the whole of wall {o.wall_id!r}; "
+                    "expected solid wall on at least one side (or split the wall)",
+                )
+                bad = True
+                break
+            if o.head > s.clear_height + 1e-9:
+                f.error(
+                    t.name,
+                    c("head"),
+                    f"found {o.head:g} m; expected at most the clear "
+                    f"height {s.clear_height:.3f} m of storey {s.name}",
+                )
+                bad = True
+                break
+            for a, b, r in placed[(i, o.wall_id)]:
+                if o.offset < b - geometry.TOL and a < o.offset + o.width - geometry.TOL:
+                    f.error(
+                        t.name,
+                        c("offset"),
+                        f"opening overlaps the opening of row {r} in wall "
+                        f"{o.wall_id!r} at storey {s.name}; expected separate openings",
+                    )
+                    bad = True
+                    break
+            if bad:
+                break
+        if bad:
+            continue
+        for i in range(rng[0], rng[1] + 1):
+            placed[(i, o.wall_id)].append((o.offset, o.offset + o.width, o.row))
+        out.append(o)
+    return out
+
+
+def _pier_warnings(geom: geometry.Geometry, f: Findings) -> None:
+    thin = geom.piers[(geom.piers.position > 0) & (geom.piers.Lw < geom.piers.tw)]
+    for rec in thin.drop_duplicates("pier_id").itertuples(index=False):
+        f.warning(
+            layout.OPENINGS.name,
+            None,
+            f"pier {rec.pier_id} is {rec.Lw:.0f} mm long, shorter than the wall is thick "
+            f"({rec.tw:.0f} mm) at {rec.storey}: check the opening positions",
+        )
+
+
+def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findings) -> pd.DataFrame:
+    t = layout.MEMBER_ACTIONS
+    empty = pd.DataFrame(columns=["row", *t.keys])
+    if df is None:
+        return empty
+    index = {s.name for s in storeys}
+    members = geom.members_at() if geom is not None else None
+    walls_of = dict(zip(geom.piers.pier_id, geom.piers.wall_id, strict=True)) if geom is not None else {}
+    seen: dict[tuple, int] = {}
+    given: dict[tuple, int] = {}
+    for rec in df[["row", "storey", "combination", "member"]].itertuples(index=False):
+        if rec.storey is not None and index and rec.storey not in index:
+            f.error(
+                t.name,
+                _at(df, "storey", rec.row),
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+            )
+            continue
+        if None in (rec.storey, rec.member, rec.combination) or members is None:
+            continue
+        here = members.get(rec.storey, set())
+        if rec.member not in here:
+            listed = ", ".join(sorted(here, key=geometry._natural)[:12])
+            f.error(
+                t.name,
+                _at(df, "member", rec.row),
+                f"found {show(rec.member)}; no such wall or pier at storey {rec.storey} "
+                f"(members there: {listed})",
+            )
+            continue
+        key = (rec.storey, rec.combination, rec.member)
+        if key in seen:
+            f.error(
+                t.name,
+                _at(df, "member", rec.row),
+                f"{rec.member} at {rec.storey} for {rec.combination!r} is also given in row "
+                f"{seen[key]}; expected one row per storey, combination and member",
+            )
+            continue
+        seen[key] = rec.row
+        wall = walls_of.get(rec.member, rec.member)
+        level = "wall" if wall == rec.member else "pier"
+        other = given.get((rec.storey, rec.combination, wall, "pier" if level == "wall" else "wall"))
+        if other is not None:
+            f.error(
+                t.name,
+                _at(df, "member", rec.row),
+                f"wall {wall} at {rec.storey} for {rec.combination!r} has actions both for the "
+                f"whole wall and for its piers (row {other}); expected one or the other",
+            )
+            continue
+        given.setdefault((rec.storey, rec.combination, wall, level), rec.row)
+    if geom is not None and not df.empty:
+        covered = set(df.member) | {walls_of.get(m) for m in df.member}
+        missing = sorted(set(geom.piers.wall_id) - covered, key=geometry._natural)
+        if missing:
+            f.warning(t.name, None, "no actions for wall(s) " + ", ".join(missing) + ": they are not checked")
+    return df
+
+
+def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> pd.DataFrame:
+    t = layout.CORE_ACTIONS
+    if df is None:
+        return pd.DataFrame(columns=["row", *t.keys])
+    index = {s.name for s in storeys}
+    seen: dict[tuple, int] = {}
+    for rec in df[["row", "storey", "combination"]].itertuples(index=False):
+        if rec.storey is not None and index and rec.storey not in index:
+            f.error(
+                t.name,
+                _at(df, "storey", rec.row),
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+            )
+            continue
+        key = (rec.storey, rec.combination)
+        if None not in key and key in seen:
+            f.error(
+                t.name,
+                _at(df, "combination", rec.row),
+                f"{rec.combination!r} at {rec.storey} is also given in row {seen[key]}; "
+                "expected one row per storey and combination",
+            )
+        seen.setdefault(key, rec.row)
+    return df

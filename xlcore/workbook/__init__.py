@@ -1,0 +1,1 @@
+"""Everything that touches the .xlsx/.xlsm file: template, reader, result writer."""
