@@ -12,7 +12,7 @@ import numpy as np
 
 GRAVITY_G = 2300.0  # kN per storey of dead load reaching the core (invented)
 GRAVITY_Q = 650.0  # kN per storey of live load reaching the core (invented)
-BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 1500.0, "Ey": 1500.0}  # kN (invented)
+BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 6400.0, "Ey": 6400.0}  # kN (invented)
 SHEAR_POINT = (7.2, 3.0)  # m: where the storey shear acts (invented centre of mass)
 
 COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
@@ -31,25 +31,41 @@ COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
 def storeys() -> list[dict]:
     out = [dict(name="GF", level=0.0, height=4.2, slab=250.0)]
     for i in range(1, 15):
-        out.append(dict(name=f"L{i}", level=round(4.2 + 3.15 * (i - 1), 3), height=3.15,
-                        slab=250.0 if i == 14 else 200.0))
+        out.append(
+            dict(
+                name=f"L{i}",
+                level=round(4.2 + 3.15 * (i - 1), 3),
+                height=3.15,
+                slab=250.0 if i == 14 else 200.0,
+            )
+        )
     return out
 
 
-PROJECT = dict(project_name="Harbourview Lane offices (demo)", standard="AS 3600:2018",
-               phi_shear=None, shear_height="storey clear height", pier_fixity="fixed-fixed",
-               poisson=0.2)
+PROJECT = dict(
+    project_name="Harbourview Lane offices (demo)",
+    standard="AS 3600:2018",
+    phi_shear=None,
+    shear_height="storey clear height",
+    pier_fixity="fixed-fixed",
+    poisson=0.2,
+)
 
-_LIFT = [("LW1", 0.0, 0.0, 6.0, 0.0), ("LW2", 6.0, 0.0, 6.0, 5.0), ("LW3", 6.0, 5.0, 0.0, 5.0),
-         ("LW4", 0.0, 5.0, 0.0, 0.0), ("LW5", 3.0, 0.0, 3.0, 5.0)]
-_STAIR = [("SW1", 10.0, 0.0, 13.2, 0.0), ("SW2", 13.2, 0.0, 13.2, 6.5),
-          ("SW3", 13.2, 6.5, 10.0, 6.5)]
+_LIFT = [
+    ("LW1", 0.0, 0.0, 6.0, 0.0),
+    ("LW2", 6.0, 0.0, 6.0, 5.0),
+    ("LW3", 6.0, 5.0, 0.0, 5.0),
+    ("LW4", 0.0, 5.0, 0.0, 0.0),
+    ("LW5", 3.0, 0.0, 3.0, 5.0),
+]
+_STAIR = [("SW1", 10.0, 0.0, 13.2, 0.0), ("SW2", 13.2, 0.0, 13.2, 6.5), ("SW3", 13.2, 6.5, 10.0, 6.5)]
 # storey range, thickness, f'c, vertical (dia, spacing), horizontal (dia, spacing)
-_LIFT_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)),
-              ("L5", "L9", 250, 40, (12, 200), (12, 250)),
-              ("L10", "L14", 200, 40, (12, 250), (10, 250))]
-_STAIR_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)),
-               ("L5", "L14", 200, 40, (12, 250), (10, 250))]
+_LIFT_RUNS = [
+    ("GF", "L4", 250, 50, (16, 200), (12, 200)),
+    ("L5", "L9", 250, 40, (12, 200), (12, 250)),
+    ("L10", "L14", 200, 40, (12, 250), (10, 250)),
+]
+_STAIR_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)), ("L5", "L14", 200, 40, (12, 250), (10, 250))]
 
 
 def walls() -> list[dict]:
@@ -57,10 +73,27 @@ def walls() -> list[dict]:
     for group, runs in ((_LIFT, _LIFT_RUNS), (_STAIR, _STAIR_RUNS)):
         for wid, x1, y1, x2, y2 in group:
             for lo, hi, t, fc, (vd, vs), (hd, hs) in runs:
-                out.append(dict(wall_id=wid, x1=x1, y1=y1, x2=x2, y2=y2, thickness=float(t),
-                                storey_from=lo, storey_to=hi, fc=float(fc), fsy=500.0,
-                                v_dia=float(vd), v_spacing=float(vs), v_layers=2,
-                                h_dia=float(hd), h_spacing=float(hs), h_layers=2, cover=30.0))
+                out.append(
+                    dict(
+                        wall_id=wid,
+                        x1=x1,
+                        y1=y1,
+                        x2=x2,
+                        y2=y2,
+                        thickness=float(t),
+                        storey_from=lo,
+                        storey_to=hi,
+                        fc=float(fc),
+                        fsy=500.0,
+                        v_dia=float(vd),
+                        v_spacing=float(vs),
+                        v_layers=2,
+                        h_dia=float(hd),
+                        h_spacing=float(hs),
+                        h_layers=2,
+                        cover=30.0,
+                    )
+                )
     return out
 
 
@@ -69,8 +102,16 @@ def openings() -> list[dict]:
     return [
         dict(wall_id="LW1", offset=0.75, label="lift A door", **door),
         dict(wall_id="LW1", offset=3.75, label="lift B door", **door),
-        dict(wall_id="SW2", storey_from="L1", storey_to="L14", offset=2.0, width=0.9, sill=1.2,
-             head=2.1, label="services riser"),
+        dict(
+            wall_id="SW2",
+            storey_from="L1",
+            storey_to="L14",
+            offset=2.0,
+            width=0.9,
+            sill=1.2,
+            head=2.1,
+            label="services riser",
+        ),
     ]
 
 
@@ -81,16 +122,19 @@ def _pieces(storey: int) -> list[tuple[str, str, float, float, float, float]]:
     for wid, x1, y1, x2, y2 in _LIFT + _STAIR:
         length = math.hypot(x2 - x1, y2 - y1)
         along_x = abs(x2 - x1) > abs(y2 - y1)
-        cuts = [(o["offset"], o["offset"] + o["width"]) for o in openings()
-                if o["wall_id"] == wid
-                and names.index(o["storey_from"]) <= storey <= names.index(o["storey_to"])]
+        cuts = [
+            (o["offset"], o["offset"] + o["width"])
+            for o in openings()
+            if o["wall_id"] == wid and names.index(o["storey_from"]) <= storey <= names.index(o["storey_to"])
+        ]
         edges = [0.0] + [e for c in cuts for e in c] + [length]
         parts = [(a, b) for a, b in zip(edges[::2], edges[1::2], strict=True) if b - a > 1e-6]
         for k, (a, b) in enumerate(parts, start=1):
             mid = (a + b) / 2 / length
             name = wid if len(parts) == 1 else f"{wid}-{k}"
-            out.append((name, wid, b - a, x1 + (x2 - x1) * mid, y1 + (y2 - y1) * mid,
-                        0.0 if along_x else 1.0))
+            out.append(
+                (name, wid, b - a, x1 + (x2 - x1) * mid, y1 + (y2 - y1) * mid, 0.0 if along_x else 1.0)
+            )
     return out
 
 
@@ -133,14 +177,31 @@ def actions() -> tuple[list[dict], list[dict]]:
                 lever = (px - cx) / iy if direction == 0.0 else (py - cy) / ix
                 n_member = n_member - 0.65 * m * area * lever
             for (mem, *_), nn, vv, mm in zip(pieces, n_member, v_member, m_member, strict=True):
-                member_rows.append(dict(storey=s["name"], combination=name, member=mem,
-                                        n=_r(nn), v=_r(vv),
-                                        m=_r(mm), m_out=None))
-            core_rows.append(dict(
-                storey=s["name"], combination=name, n=_r(grav),
-                vx=_r(v if direction == 0.0 else 0.0), vy=_r(v if direction == 1.0 else 0.0),
-                mx=_r(m if direction == 1.0 else 0.0), my=_r(m if direction == 0.0 else 0.0),
-                t=_r(0.05 * 13.2 * abs(v)), x_v=SHEAR_POINT[0], y_v=SHEAR_POINT[1]))
+                member_rows.append(
+                    dict(
+                        storey=s["name"],
+                        combination=name,
+                        member=mem,
+                        n=_r(nn),
+                        v=_r(vv),
+                        m=_r(mm),
+                        m_out=None,
+                    )
+                )
+            core_rows.append(
+                dict(
+                    storey=s["name"],
+                    combination=name,
+                    n=_r(grav),
+                    vx=_r(v if direction == 0.0 else 0.0),
+                    vy=_r(v if direction == 1.0 else 0.0),
+                    mx=_r(m if direction == 1.0 else 0.0),
+                    my=_r(m if direction == 0.0 else 0.0),
+                    t=_r(0.05 * 13.2 * abs(v)),
+                    x_v=SHEAR_POINT[0],
+                    y_v=SHEAR_POINT[1],
+                )
+            )
     return member_rows, core_rows
 
 
@@ -152,5 +213,11 @@ def _r(x: float) -> float:
 def sheets() -> dict[str, list[dict] | dict]:
     """Demo data keyed by layout sheet key; records keyed by layout column key."""
     member_rows, core_rows = actions()
-    return dict(project=PROJECT, storeys=storeys(), walls=walls(), openings=openings(),
-                member_actions=member_rows, core_actions=core_rows)
+    return dict(
+        project=PROJECT,
+        storeys=storeys(),
+        walls=walls(),
+        openings=openings(),
+        member_actions=member_rows,
+        core_actions=core_rows,
+    )

@@ -143,9 +143,15 @@ def _list_source(kind: Kind) -> str | None:
 
 def _validation(c: Column, sheet: str) -> DataValidation | None:
     """Spreadsheet-side validation mirroring the reader's checks (the reader stays the judge)."""
-    common = dict(allow_blank=True, showErrorMessage=True, showInputMessage=True,
-                  promptTitle=c.name[:32], prompt=c.help[:255],
-                  errorTitle="xlcore input", error=f"Expected {c.expectation()}."[:255])
+    common = dict(
+        allow_blank=True,
+        showErrorMessage=True,
+        showInputMessage=True,
+        promptTitle=c.name[:32],
+        prompt=c.help[:255],
+        errorTitle="xlcore input",
+        error=f"Expected {c.expectation()}."[:255],
+    )
     source = _list_source(c.kind)
     if source:
         return DataValidation(type="list", formula1=source, **common)
@@ -154,11 +160,11 @@ def _validation(c: Column, sheet: str) -> DataValidation | None:
     if c.kind in (Kind.NUMBER, Kind.INTEGER):
         vtype = "whole" if c.kind is Kind.INTEGER else "decimal"
         if c.min is not None and c.max is not None and not c.min_open:
-            return DataValidation(type=vtype, operator="between", formula1=f"{c.min:g}",
-                                  formula2=f"{c.max:g}", **common)
+            return DataValidation(
+                type=vtype, operator="between", formula1=f"{c.min:g}", formula2=f"{c.max:g}", **common
+            )
         if c.min is not None:
             op = "greaterThan" if c.min_open else "greaterThanOrEqual"
             return DataValidation(type=vtype, operator=op, formula1=f"{c.min:g}", **common)
-        return DataValidation(type=vtype, operator="between", formula1="-1E+307", formula2="1E+307",
-                              **common)
+        return DataValidation(type=vtype, operator="between", formula1="-1E+307", formula2="1E+307", **common)
     return None

@@ -1,0 +1,165 @@
+"""Command line: thin. Parses arguments, calls the library, prints, sets the exit code.
+
+Exit codes: 0 done, 1 invalid input (nothing written), 2 file or usage problem,
+3 with --strict when any member fails.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from xlcore import CAUTION, __version__, pipeline, results
+from xlcore.diagnostics import FileProblem, Findings, InputInvalid
+from xlcore.workbook.reader import RawWorkbook, read_workbook
+from xlcore.workbook.template import write_template
+from xlcore.workbook.writer import backup_path, write_results
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Reinforced-concrete core walls and piers, checked in your own workbook.",
+)
+
+EXIT_INVALID, EXIT_FILE, EXIT_FAILING = 1, 2, 3
+Workbook = Annotated[Path, typer.Argument(help="The .xlsx or .xlsm workbook.", show_default=False)]
+
+
+def _err(msg: str) -> None:
+    typer.echo(msg, err=True)
+
+
+def _report(findings: Findings, limit: int = 200) -> None:
+    for f in findings.errors[:limit]:
+        _err(f"error   {f}")
+    if len(findings.errors) > limit:
+        _err(f"... and {len(findings.errors) - limit} more errors")
+    for f in findings.warnings[:limit]:
+        _err(f"warning {f}")
+
+
+def _version(value: bool) -> None:
+    if value:
+        typer.echo(f"xlcore {__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def main(
+    version: Annotated[
+        bool | None,
+        typer.Option("--version", callback=_version, is_eager=True, help="Print the version and exit."),
+    ] = None,
+) -> None:
+    """xlcore: template -> fill in -> check -> compute, all in one workbook."""
+
+
+@app.command()
+def template(
+    path: Annotated[Path, typer.Argument(help="Where to write the new workbook (.xlsx).")],
+    example: Annotated[bool, typer.Option("--example", help="Fill it with the demo building.")] = False,
+    overwrite: Annotated[bool, typer.Option("--overwrite", help="Replace an existing file.")] = False,
+) -> None:
+    """Write a blank input workbook (or the demo building)."""
+    if path.exists() and not overwrite:
+        _err(f"{path} exists; choose another name or pass --overwrite")
+        raise typer.Exit(EXIT_FILE)
+    if path.suffix.lower() != ".xlsx":
+        _err(f"{path}: expected a file name ending in .xlsx")
+        raise typer.Exit(EXIT_FILE)
+    write_template(path, example=example)
+    typer.echo(f"wrote {path}" + (" (demo building)" if example else ""))
+
+
+@app.command()
+def check(path: Workbook) -> None:
+    """Validate the inputs and print a summary; tell whether results are stale."""
+    try:
+        raw = read_workbook(path)
+        building, findings = pipeline.build(raw)
+    except FileProblem as exc:
+        _err(f"error   {exc}")
+        raise typer.Exit(EXIT_FILE) from None
+    except InputInvalid as exc:
+        _report(exc.findings)
+        _err(f"{len(exc.findings.errors)} error(s): fix them and run again")
+        raise typer.Exit(EXIT_INVALID) from None
+    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
+    acts = building.member_actions
+    per_storey = geom.piers.groupby("storey", sort=False).size()
+    typer.echo(f"{path.name}: valid")
+    typer.echo(
+        f"  storeys       {len(building.storeys)} ({building.storeys[0].name} to {building.storeys[-1].name})"
+    )
+    typer.echo(
+        f"  walls         {len({w.wall_id for w in building.walls})} "
+        f"({len(building.walls)} rows), openings {len(building.openings)} rows"
+    )
+    typer.echo(
+        f"  piers/storey  {per_storey.min()} to {per_storey.max()} "
+        f"({len(geom.piers)} storey x pier cases), lintels {len(geom.lintels)}"
+    )
+    typer.echo(
+        f"  combinations  {acts.combination.nunique()} "
+        f"({len(acts)} member action rows, {len(building.core_actions)} core action rows)"
+    )
+    _report(findings)
+    typer.echo(f"  warnings      {len(findings.warnings)}")
+    typer.echo("  results       " + _staleness(raw))
+
+
+def _staleness(raw: RawWorkbook) -> str:
+    stored = pipeline.stored_hash(raw.path)
+    if stored is None:
+        return "none yet (run xlcore compute)"
+    return "up to date" if stored == raw.input_hash else "STALE: inputs changed since the last compute"
+
+
+@app.command()
+def compute(
+    path: Workbook,
+    output: Annotated[
+        Path | None, typer.Option("--output", "-o", help="Write into this copy instead of in place.")
+    ] = None,
+    force: Annotated[
+        bool, typer.Option("--force", help="Write even if a lock file says the workbook is open.")
+    ] = False,
+    strict: Annotated[bool, typer.Option("--strict", help="Exit with 3 when any member fails.")] = False,
+) -> None:
+    """Validate, run every check, and write the result sheets into the workbook."""
+    target = output or path
+    if target.suffix.lower() != path.suffix.lower():
+        _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
+        raise typer.Exit(EXIT_FILE)
+    try:
+        building, findings = pipeline.load(path)
+        outcome = pipeline.compute(building, findings)
+        write_results(path, target, outcome.sheets, force=force)
+    except FileProblem as exc:
+        _err(f"error   {exc}")
+        raise typer.Exit(EXIT_FILE) from None
+    except InputInvalid as exc:
+        _report(exc.findings)
+        _err(f"{len(exc.findings.errors)} error(s); nothing was written")
+        raise typer.Exit(EXIT_INVALID) from None
+    _report(findings)
+    s = outcome.summary
+    typer.echo(
+        f"{target.name}: {len(outcome.shear)} shear rows; pier x storey cases: "
+        f"{(s.status == results.PASS).sum()} pass, {(s.status == results.FAIL).sum()} fail, "
+        f"{(s.status == results.NOT_CHECKED).sum()} not checked"
+    )
+    checked = s[s.status != results.NOT_CHECKED]
+    if len(checked):
+        w = checked.loc[checked.util.idxmax()]
+        typer.echo(
+            f"worst: {w.pier_id} at {w.storey}, {w.combination}, utilisation {w.util:.3f} ({w.clause})"
+        )
+    typer.echo(f"results written to sheets: {', '.join(sh.name for sh in outcome.sheets)}")
+    if target == path:
+        typer.echo(f"previous version kept as {backup_path(path).name}")
+    typer.echo(f"note: {CAUTION}")
+    if strict and outcome.failing:
+        raise typer.Exit(EXIT_FAILING)

@@ -1,0 +1,128 @@
+"""Result tables as data: sheet names, columns, units, formats. The writer and tests read it."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from xlcore.layout import RESULT_PREFIX
+
+MARKER = "xlcore results"  # first words of A1 on every result sheet: how xlcore knows its own
+PASS, FAIL, NOT_CHECKED = "pass", "FAIL", "not checked"
+
+
+@dataclass(frozen=True)
+class ResultColumn:
+    key: str
+    header: str
+    unit: str | None = None
+    fmt: str | None = None  # number format; None = text
+    width: float = 11.0
+
+    @property
+    def title(self) -> str:
+        return f"{self.header} [{self.unit}]" if self.unit else self.header
+
+
+@dataclass
+class ResultSheet:
+    """One sheet of results: a few lines of stamp above a table."""
+
+    name: str
+    title: str
+    columns: list[ResultColumn]
+    table: pd.DataFrame
+    preamble: list[tuple[str, object]] = field(default_factory=list)
+    scale_key: str | None = None  # column that gets the utilisation colour scale
+
+
+def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
+    return ResultColumn(key, header, unit, fmt, width)
+
+
+SHEAR_SHEET = RESULT_PREFIX + "shear"
+SUMMARY_SHEET = RESULT_PREFIX + "summary"
+MEMBERS_SHEET = RESULT_PREFIX + "piers"
+
+SHEAR_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("wall_id", "Wall", width=7),
+    _c("combination", "Combination", width=15),
+    _c("v", "V*", "kN", "0.0"),
+    _c("source", "V* from", width=22),
+    _c("share", "Share", None, "0.000", 8),
+    _c("k", "k", "kN/mm", "0", 9),
+    _c("Lw", "Lw", "mm", "0", 8),
+    _c("tw", "tw", "mm", "0", 7),
+    _c("Hw", "Hw", "mm", "0", 8),
+    _c("hw_lw", "Hw/Lw", None, "0.000", 8),
+    _c("fc", "f'c", "MPa", "0", 7),
+    _c("fsy", "fsy", "MPa", "0", 7),
+    _c("rho_h", "rho_h", None, "0.00000", 9),
+    _c("rho_v", "rho_v", None, "0.00000", 9),
+    _c("rho_w", "rho_w", None, "0.00000", 9),
+    _c("eq1", "Vuc Eq (1)", "kN", "0.0"),
+    _c("eq2", "Vuc Eq (2)", "kN", "0.0"),
+    _c("floor", "Vuc min", "kN", "0.0"),
+    _c("vuc", "Vuc", "kN", "0.0"),
+    _c("vus", "Vus", "kN", "0.0"),
+    _c("vu_max", "Vu.max", "kN", "0.0"),
+    _c("phi", "phi", None, "0.00", 6),
+    _c("phi_vu", "phi Vu", "kN", "0.0"),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=8),
+    _c("clause", "Governing clause", width=24),
+    _c("rho_req", "rho_w needed", None, "0.00000", 10),
+    _c("advice", "What would make it pass", width=40),
+    _c("f_vuc", "Vuc working", width=60),
+    _c("f_vu", "phi Vu working", width=60),
+    _c("f_util", "Utilisation working", width=34),
+]
+
+SUMMARY_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("check", "Check", width=16),
+    _c("combination", "Worst combination", width=16),
+    _c("demand", "Demand", None, "0.0"),
+    _c("capacity", "Capacity", None, "0.0"),
+    _c("unit", "Unit", width=6),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=12),
+    _c("clause", "Governing clause", width=24),
+    _c("note", "Note", width=48),
+]
+
+MEMBER_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("member", "Member", width=9),
+    _c("kind", "Kind", width=7),
+    _c("wall_id", "Wall", width=7),
+    _c("start", "From wall start", "m", "0.000", 12),
+    _c("end", "To", "m", "0.000", 9),
+    _c("Lw", "Length", "mm", "0", 9),
+    _c("tw", "tw", "mm", "0", 7),
+    _c("height", "Height", "mm", "0", 9),
+    _c("Hc", "Storey clear height", "mm", "0", 12),
+    _c("fc", "f'c", "MPa", "0", 7),
+    _c("rho_v", "rho_v", None, "0.00000", 9),
+    _c("rho_h", "rho_h", None, "0.00000", 9),
+    _c("k", "k", "kN/mm", "0", 9),
+    _c("note", "Note", width=40),
+]
+
+
+def utilisation(demand, capacity) -> np.ndarray:
+    """|demand| / capacity; inf where capacity is zero and there is demand."""
+    d = np.abs(np.asarray(demand, dtype=float))
+    c = np.asarray(capacity, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        u = np.where(c > 0, d / np.where(c > 0, c, 1.0), np.where(d > 0, np.inf, 0.0))
+    return u
+
+
+def status(util) -> np.ndarray:
+    return np.where(np.asarray(util) <= 1.0, PASS, FAIL)
