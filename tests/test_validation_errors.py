@@ -1,0 +1,162 @@
+"""Invalid workbooks: each is refused with the exact Sheet!Cell and the gist of the problem,
+and checking never changes the file. Protects: an engineer who types a wrong value is told
+exactly where, and nothing is computed from bad input."""
+
+import datetime as dt
+import hashlib
+
+import openpyxl
+import pytest
+from typer.testing import CliRunner
+
+from conftest import column_letter as col
+from conftest import edit
+from xlcore import layout
+from xlcore.cli import app
+from xlcore.diagnostics import InputInvalid
+from xlcore.pipeline import load
+
+W, S, O, A, C, P = (layout.WALLS, layout.STOREYS, layout.OPENINGS, layout.MEMBER_ACTIONS,
+                    layout.CORE_ACTIONS, layout.PROJECT)
+
+
+def at(t, key, row):
+    return (t.name, f"{col(t, key)}{row}")
+
+
+def where(t, key, row):
+    name = t.name if " " not in t.name else f"'{t.name}'"
+    return f"{name}!{col(t, key)}{row}"
+
+
+def setting_row(key):
+    return 2 + [s.key for s in P.settings].index(key)
+
+
+# (id, changes to the demo, expected Sheet!Cell, words the message must contain)
+CASES = [
+    ("thickness in metres", {at(W, "thickness", 2): 0.25}, where(W, "thickness", 2), "did you enter metres"),
+    ("f'c below range", {at(W, "fc", 2): 15}, where(W, "fc", 2), "20 to 100"),
+    ("fsy above range", {at(W, "fsy", 2): 1000}, where(W, "fsy", 2), "250 to 600"),
+    ("number with unit", {at(W, "thickness", 2): "180mm"}, where(W, "thickness", 2), "number only"),
+    ("text for number", {at(W, "thickness", 2): "thick"}, where(W, "thickness", 2), "expected a number"),
+    ("nan typed as text", {at(W, "cover", 2): "nan"}, where(W, "cover", 2), "expected a number"),
+    ("negative thickness", {at(W, "thickness", 3): -200}, where(W, "thickness", 3), "75 to 1500"),
+    ("unknown storey in walls", {at(W, "storey_from", 2): "L99"}, where(W, "storey_from", 2), "storey name"),
+    ("wall range upside down", {at(W, "storey_to", 2): "GF", at(W, "storey_from", 2): "L4"},
+     where(W, "storey_to", 2), "below the from storey"),
+    ("zero-length wall", {at(W, "x2", 2): 0.0}, where(W, "x2", 2), "length of 0 mm"),
+    ("wall ranges overlap", {at(W, "storey_from", 3): "L4"}, where(W, "storey_from", 3), "overlap"),
+    ("wall ranges leave a gap", {at(W, "storey_from", 3): "L6"}, where(W, "storey_from", 3), "gap"),
+    ("three bar layers", {at(W, "v_layers", 2): 3}, where(W, "v_layers", 2), "1 to 2"),
+    ("fractional layers", {at(W, "h_layers", 2): 1.5}, where(W, "h_layers", 2), "whole number"),
+    ("blank wall ID", {at(W, "wall_id", 2): None}, where(W, "wall_id", 2), "blank"),
+    ("duplicate storey", {at(S, "name", 3): "GF"}, where(S, "name", 3), "used twice"),
+    ("levels not increasing", {at(S, "level", 3): -1.0}, where(S, "level", 3), "lowest first"),
+    ("height disagrees with next level", {at(S, "height", 2): 4.5}, where(S, "height", 2), "next floor"),
+    ("height in millimetres", {at(S, "height", 3): 3150}, where(S, "height", 3), "did you enter millimetres"),
+    ("negative slab", {at(S, "slab", 2): -5}, where(S, "slab", 2), "0 to 2000"),
+    ("opening in unknown wall", {at(O, "wall_id", 2): "LW9"}, where(O, "wall_id", 2), "wall ID"),
+    ("opening past wall end", {at(O, "offset", 3): 5.5}, where(O, "width", 3), "past the end"),
+    ("openings overlap", {at(O, "offset", 3): 1.0}, where(O, "offset", 3), "overlaps the opening of row 2"),
+    ("opening taller than clear height", {at(O, "head", 2): 3.5}, where(O, "head", 2), "clear height"),
+    ("sill above head", {at(O, "sill", 2): 2.5}, where(O, "sill", 2), "below the head"),
+    ("opening where the wall is not", {at(W, k, 4): None for k in W.keys} | {at(W, "storey_to", 3): "L9"},
+     where(O, "storey_from", 2), "does not exist at storey L10"),
+    ("unknown member", {at(A, "member", 2): "LW1-9"}, where(A, "member", 2), "no such wall or pier"),
+    ("unknown storey in actions", {at(A, "storey", 2): "L20"}, where(A, "storey", 2), "storey name"),
+    ("duplicate action row", {at(A, "member", 3): "LW1-1"}, where(A, "member", 3), "also given in row 2"),
+    ("wall and its piers both given", {at(A, "member", 3): "LW1"}, where(A, "member", 3),
+     "both for the whole wall and for its piers"),
+    ("force with unit", {at(A, "n", 2): "12 kN"}, where(A, "n", 2), "number only"),
+    ("error value in input", {at(A, "v", 2): "#DIV/0!"}, where(A, "v", 2), "error value #DIV/0!"),
+    ("date where a number belongs", {at(A, "m", 2): dt.datetime(2026, 3, 4)}, where(A, "m", 2), "date"),
+    ("phi out of range", {(P.name, f"B{setting_row('phi_shear')}"): 1.5}, f"Project!B{setting_row('phi_shear')}",
+     "0.5 to 1"),
+    ("unknown standard", {(P.name, f"B{setting_row('standard')}"): "EC2"}, f"Project!B{setting_row('standard')}",
+     "one of: AS 3600:2018"),
+    ("duplicate core action", {at(C, "combination", 3): "1.35G"}, where(C, "combination", 3), "also given in row 2"),
+    ("header unit changed", {(W.name, f"{col(W, 'thickness')}1"): "Thickness [m]"}, f"Walls!{col(W, 'thickness')}1",
+     "reads this column in mm"),
+    ("required column missing", {(W.name, f"{col(W, 'fsy')}1"): "Steel"}, "Walls!1:1", "'fsy [MPa]' not found"),
+]
+
+
+@pytest.mark.parametrize("changes,cell,gist", [c[1:] for c in CASES], ids=[c[0] for c in CASES])
+def test_invalid_input_names_cell_and_problem(demo_book, changes, cell, gist):
+    edit(demo_book, changes)
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = [str(f) for f in info.value.findings.errors]
+    assert any(f.startswith(f"{cell}: ") and gist in f for f in found), found
+
+
+def test_corpus_is_large_enough():
+    assert len(CASES) >= 25
+
+
+def _remove_sheet(path, name):
+    wb = openpyxl.load_workbook(path)
+    del wb[name]
+    wb.save(path)
+
+
+def _rename_sheet(path, old, new):
+    wb = openpyxl.load_workbook(path)
+    wb[old].title = "temporary name"  # openpyxl would de-duplicate a case-only rename
+    wb["temporary name"].title = new
+    wb.save(path)
+
+
+def test_missing_sheet(demo_book):
+    _remove_sheet(demo_book, O.name)
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    assert any(f.sheet == O.name and "is missing" in f.message for f in info.value.findings.errors)
+
+
+def test_renamed_sheet_is_pointed_out(demo_book):
+    _rename_sheet(demo_book, W.name, "WALLS")
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    assert any("found a sheet named 'WALLS'" in f.message for f in info.value.findings.errors)
+
+
+def test_all_errors_reported_in_one_pass(demo_book):
+    edit(demo_book, {at(W, "fc", 2): 15, at(S, "name", 3): "GF", at(A, "n", 5): "x"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    wheres = {f.where for f in info.value.findings.errors}
+    assert {where(W, "fc", 2), where(S, "name", 3), where(A, "n", 5)} <= wheres
+
+
+def test_columns_may_be_reordered(demo_book):
+    """Columns are found by header, so a moved column still reads (documented tolerance)."""
+    wb = openpyxl.load_workbook(demo_book)
+    ws = wb[W.name]
+    a, b = W.keys.index("fc") + 1, W.keys.index("fsy") + 1
+    for row in ws.iter_rows():
+        row[a - 1].value, row[b - 1].value = row[b - 1].value, row[a - 1].value
+    wb.save(demo_book)
+    building, _ = load(demo_book)
+    assert building.walls[0].fc == 50.0 and building.walls[0].fsy == 500.0
+
+
+def test_check_leaves_file_bytes_unchanged_and_exits_1(demo_book):
+    edit(demo_book, {at(W, "fc", 2): 15})
+    before = hashlib.sha256(demo_book.read_bytes()).hexdigest()
+    result = CliRunner().invoke(app, ["check", str(demo_book)])
+    assert result.exit_code == 1
+    assert where(W, "fc", 2) in result.output
+    assert hashlib.sha256(demo_book.read_bytes()).hexdigest() == before
+    result = CliRunner().invoke(app, ["compute", str(demo_book)])
+    assert result.exit_code == 1 and "nothing was written" in result.output
+    assert hashlib.sha256(demo_book.read_bytes()).hexdigest() == before
+
+
+def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
+    """Numbers stored as text (' 250 ') are accepted; trimmed text IDs match."""
+    edit(demo_book, {at(W, "thickness", 2): " 250 ", at(A, "member", 2): " LW1-1 "})
+    building, findings = load(demo_book)
+    assert building.walls[0].thickness == 250.0
+    assert findings.errors == []
