@@ -11,21 +11,40 @@ from xlcore.model import Opening, Storey, WallRun
 
 
 def storeys():
-    return [Storey(index=0, name="GF", level=0.0, height=4.0, slab=250.0),
-            Storey(index=1, name="L1", level=4.0, height=3.2, slab=200.0)]
+    return [
+        Storey(index=0, name="GF", level=0.0, height=4.0, slab=250.0),
+        Storey(index=1, name="L1", level=4.0, height=3.2, slab=200.0),
+    ]
 
 
 def wall(length=6.0, **kw):
-    base = dict(wall_id="W3", x1=0.0, y1=0.0, x2=length, y2=0.0, thickness=200.0, storey_from="GF",
-                storey_to="L1", fc=40.0, fsy=500.0, v_dia=12.0, v_spacing=200.0, v_layers=2,
-                h_dia=12.0, h_spacing=200.0, h_layers=2, cover=30.0)
+    base = dict(
+        wall_id="W3",
+        x1=0.0,
+        y1=0.0,
+        x2=length,
+        y2=0.0,
+        thickness=200.0,
+        storey_from="GF",
+        storey_to="L1",
+        fc=40.0,
+        fsy=500.0,
+        v_dia=12.0,
+        v_spacing=200.0,
+        v_layers=2,
+        h_dia=12.0,
+        h_spacing=200.0,
+        h_layers=2,
+        cover=30.0,
+    )
     base.update(kw)
     return WallRun(**base)
 
 
 def opening(offset, width, head=2.1, sill=0.0, lo="GF", hi="L1"):
-    return Opening(wall_id="W3", storey_from=lo, storey_to=hi, offset=offset, width=width, sill=sill,
-                   head=head)
+    return Opening(
+        wall_id="W3", storey_from=lo, storey_to=hi, offset=offset, width=width, sill=sill, head=head
+    )
 
 
 def piers_at(g, storey):

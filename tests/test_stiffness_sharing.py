@@ -34,13 +34,21 @@ def test_closed_form_relative_rigidity():
 def _piers(lengths, h=2400.0):
     n = len(lengths)
     k = pier_stiffness(np.array(lengths), 200.0, h, 32800.0, 0.2, 12.0)
-    return pd.DataFrame(dict(storey="L1", wall_id="W1", pier_id=[f"W1-{i + 1}" for i in range(n)],
-                             position=np.arange(1, n + 1), k=k))
+    return pd.DataFrame(
+        dict(
+            storey="L1",
+            wall_id="W1",
+            pier_id=[f"W1-{i + 1}" for i in range(n)],
+            position=np.arange(1, n + 1),
+            k=k,
+        )
+    )
 
 
 def _wall_action(v):
-    return pd.DataFrame(dict(row=[5], storey=["L1"], combination=["C1"], member=["W1"], n=[0.0],
-                             v=[v], m=[0.0]))
+    return pd.DataFrame(
+        dict(row=[5], storey=["L1"], combination=["C1"], member=["W1"], n=[0.0], v=[v], m=[0.0])
+    )
 
 
 def test_equal_piers_share_equally():
@@ -63,7 +71,8 @@ def test_short_pier_takes_far_less_than_its_length_ratio():
 
 
 def test_pier_actions_pass_through_unchanged():
-    acts = pd.DataFrame(dict(row=[2], storey=["L1"], combination=["C1"], member=["W1-2"], n=[10.0],
-                             v=[55.0], m=[7.0]))
+    acts = pd.DataFrame(
+        dict(row=[2], storey=["L1"], combination=["C1"], member=["W1-2"], n=[10.0], v=[55.0], m=[7.0])
+    )
     out = pier_actions(_piers([600.0, 2400.0]), acts)
     assert len(out) == 1 and out.v.item() == 55.0 and out.share.item() == 1.0

@@ -41,10 +41,12 @@ def test_filled_template_reads_back_equal(blank_master, tmp_path):
     assert [s.model_dump(include={"name", "level", "height", "slab"}) for s in b.storeys] == data["storeys"]
     keys = layout.WALLS.keys
     assert [w.model_dump(include=set(keys)) for w in b.walls] == [
-        {k: r[k] for k in keys} for r in data["walls"]]
+        {k: r[k] for k in keys} for r in data["walls"]
+    ]
     keys = layout.OPENINGS.keys
     assert [o.model_dump(include=set(keys)) for o in b.openings] == [
-        {k: r.get(k) for k in keys} for r in data["openings"]]
+        {k: r.get(k) for k in keys} for r in data["openings"]
+    ]
     acts = b.member_actions
     assert len(acts) == len(data["member_actions"])
     for key in ("storey", "combination", "member"):
@@ -61,11 +63,20 @@ def _content(path: Path) -> dict:
     out = {}
     for ws in wb.worksheets:
         out[ws.title] = dict(
-            cells={c.coordinate: (c.value, c.number_format, c.fill.fgColor.rgb,
-                                  c.comment.text if c.comment else None)
-                   for row in ws.iter_rows() for c in row if c.value is not None or c.comment},
-            validations=sorted((str(d.sqref), d.type, d.formula1, d.formula2)
-                               for d in ws.data_validations.dataValidation),
+            cells={
+                c.coordinate: (
+                    c.value,
+                    c.number_format,
+                    c.fill.fgColor.rgb,
+                    c.comment.text if c.comment else None,
+                )
+                for row in ws.iter_rows()
+                for c in row
+                if c.value is not None or c.comment
+            },
+            validations=sorted(
+                (str(d.sqref), d.type, d.formula1, d.formula2) for d in ws.data_validations.dataValidation
+            ),
             freeze=ws.freeze_panes,
             widths={k: v.width for k, v in ws.column_dimensions.items()},
         )
@@ -99,10 +110,15 @@ def test_template_has_every_layout_column_and_help(blank_master):
         assert ws.freeze_panes == "A2"
 
 
-@pytest.mark.parametrize("sheet,key,kind", [
-    (layout.OPENINGS, "wall_id", "list"), (layout.MEMBER_ACTIONS, "storey", "list"),
-    (layout.WALLS, "fc", "decimal"), (layout.WALLS, "v_layers", "whole"),
-])
+@pytest.mark.parametrize(
+    "sheet,key,kind",
+    [
+        (layout.OPENINGS, "wall_id", "list"),
+        (layout.MEMBER_ACTIONS, "storey", "list"),
+        (layout.WALLS, "fc", "decimal"),
+        (layout.WALLS, "v_layers", "whole"),
+    ],
+)
 def test_template_validation_lists_and_ranges(blank_master, sheet, key, kind):
     wb = openpyxl.load_workbook(blank_master)
     letter = openpyxl.utils.get_column_letter(sheet.keys.index(key) + 1)
@@ -112,5 +128,7 @@ def test_template_validation_lists_and_ranges(blank_master, sheet, key, kind):
 
 def test_instructions_carry_the_caution(blank_master):
     wb = openpyxl.load_workbook(blank_master)
-    texts = " ".join(str(c.value) for row in wb[layout.INSTRUCTIONS_SHEET].iter_rows() for c in row if c.value)
+    texts = " ".join(
+        str(c.value) for row in wb[layout.INSTRUCTIONS_SHEET].iter_rows() for c in row if c.value
+    )
     assert "qualified" in texts and "licensed" in texts

@@ -7,17 +7,23 @@ import hashlib
 
 import openpyxl
 import pytest
-from typer.testing import CliRunner
-
 from conftest import column_letter as col
 from conftest import edit
+from typer.testing import CliRunner
+
 from xlcore import layout
 from xlcore.cli import app
 from xlcore.diagnostics import InputInvalid
 from xlcore.pipeline import load
 
-W, S, O, A, C, P = (layout.WALLS, layout.STOREYS, layout.OPENINGS, layout.MEMBER_ACTIONS,
-                    layout.CORE_ACTIONS, layout.PROJECT)
+W, S, OP, A, C, P = (
+    layout.WALLS,
+    layout.STOREYS,
+    layout.OPENINGS,
+    layout.MEMBER_ACTIONS,
+    layout.CORE_ACTIONS,
+    layout.PROJECT,
+)
 
 
 def at(t, key, row):
@@ -43,8 +49,12 @@ CASES = [
     ("nan typed as text", {at(W, "cover", 2): "nan"}, where(W, "cover", 2), "expected a number"),
     ("negative thickness", {at(W, "thickness", 3): -200}, where(W, "thickness", 3), "75 to 1500"),
     ("unknown storey in walls", {at(W, "storey_from", 2): "L99"}, where(W, "storey_from", 2), "storey name"),
-    ("wall range upside down", {at(W, "storey_to", 2): "GF", at(W, "storey_from", 2): "L4"},
-     where(W, "storey_to", 2), "below the from storey"),
+    (
+        "wall range upside down",
+        {at(W, "storey_to", 2): "GF", at(W, "storey_from", 2): "L4"},
+        where(W, "storey_to", 2),
+        "below the from storey",
+    ),
     ("zero-length wall", {at(W, "x2", 2): 0.0}, where(W, "x2", 2), "length of 0 mm"),
     ("wall ranges overlap", {at(W, "storey_from", 3): "L4"}, where(W, "storey_from", 3), "overlap"),
     ("wall ranges leave a gap", {at(W, "storey_from", 3): "L6"}, where(W, "storey_from", 3), "gap"),
@@ -56,29 +66,59 @@ CASES = [
     ("height disagrees with next level", {at(S, "height", 2): 4.5}, where(S, "height", 2), "next floor"),
     ("height in millimetres", {at(S, "height", 3): 3150}, where(S, "height", 3), "did you enter millimetres"),
     ("negative slab", {at(S, "slab", 2): -5}, where(S, "slab", 2), "0 to 2000"),
-    ("opening in unknown wall", {at(O, "wall_id", 2): "LW9"}, where(O, "wall_id", 2), "wall ID"),
-    ("opening past wall end", {at(O, "offset", 3): 5.5}, where(O, "width", 3), "past the end"),
-    ("openings overlap", {at(O, "offset", 3): 1.0}, where(O, "offset", 3), "overlaps the opening of row 2"),
-    ("opening taller than clear height", {at(O, "head", 2): 3.5}, where(O, "head", 2), "clear height"),
-    ("sill above head", {at(O, "sill", 2): 2.5}, where(O, "sill", 2), "below the head"),
-    ("opening where the wall is not", {at(W, k, 4): None for k in W.keys} | {at(W, "storey_to", 3): "L9"},
-     where(O, "storey_from", 2), "does not exist at storey L10"),
+    ("opening in unknown wall", {at(OP, "wall_id", 2): "LW9"}, where(OP, "wall_id", 2), "wall ID"),
+    ("opening past wall end", {at(OP, "offset", 3): 5.5}, where(OP, "width", 3), "past the end"),
+    ("openings overlap", {at(OP, "offset", 3): 1.0}, where(OP, "offset", 3), "overlaps the opening of row 2"),
+    ("opening taller than clear height", {at(OP, "head", 2): 3.5}, where(OP, "head", 2), "clear height"),
+    ("sill above head", {at(OP, "sill", 2): 2.5}, where(OP, "sill", 2), "below the head"),
+    (
+        "opening where the wall is not",
+        {at(W, k, 4): None for k in W.keys} | {at(W, "storey_to", 3): "L9"},
+        where(OP, "storey_from", 2),
+        "does not exist at storey L10",
+    ),
     ("unknown member", {at(A, "member", 2): "LW1-9"}, where(A, "member", 2), "no such wall or pier"),
     ("unknown storey in actions", {at(A, "storey", 2): "L20"}, where(A, "storey", 2), "storey name"),
     ("duplicate action row", {at(A, "member", 3): "LW1-1"}, where(A, "member", 3), "also given in row 2"),
-    ("wall and its piers both given", {at(A, "member", 3): "LW1"}, where(A, "member", 3),
-     "both for the whole wall and for its piers"),
+    (
+        "wall and its piers both given",
+        {at(A, "member", 3): "LW1"},
+        where(A, "member", 3),
+        "both for the whole wall and for its piers",
+    ),
     ("force with unit", {at(A, "n", 2): "12 kN"}, where(A, "n", 2), "number only"),
     ("error value in input", {at(A, "v", 2): "#DIV/0!"}, where(A, "v", 2), "error value #DIV/0!"),
     ("date where a number belongs", {at(A, "m", 2): dt.datetime(2026, 3, 4)}, where(A, "m", 2), "date"),
-    ("phi out of range", {(P.name, f"B{setting_row('phi_shear')}"): 1.5}, f"Project!B{setting_row('phi_shear')}",
-     "0.5 to 1"),
-    ("unknown standard", {(P.name, f"B{setting_row('standard')}"): "EC2"}, f"Project!B{setting_row('standard')}",
-     "one of: AS 3600:2018"),
-    ("duplicate core action", {at(C, "combination", 3): "1.35G"}, where(C, "combination", 3), "also given in row 2"),
-    ("header unit changed", {(W.name, f"{col(W, 'thickness')}1"): "Thickness [m]"}, f"Walls!{col(W, 'thickness')}1",
-     "reads this column in mm"),
-    ("required column missing", {(W.name, f"{col(W, 'fsy')}1"): "Steel"}, "Walls!1:1", "'fsy [MPa]' not found"),
+    (
+        "phi out of range",
+        {(P.name, f"B{setting_row('phi_shear')}"): 1.5},
+        f"Project!B{setting_row('phi_shear')}",
+        "0.5 to 1",
+    ),
+    (
+        "unknown standard",
+        {(P.name, f"B{setting_row('standard')}"): "EC2"},
+        f"Project!B{setting_row('standard')}",
+        "one of: AS 3600:2018",
+    ),
+    (
+        "duplicate core action",
+        {at(C, "combination", 3): "1.35G"},
+        where(C, "combination", 3),
+        "also given in row 2",
+    ),
+    (
+        "header unit changed",
+        {(W.name, f"{col(W, 'thickness')}1"): "Thickness [m]"},
+        f"Walls!{col(W, 'thickness')}1",
+        "reads this column in mm",
+    ),
+    (
+        "required column missing",
+        {(W.name, f"{col(W, 'fsy')}1"): "Steel"},
+        "Walls!1:1",
+        "'fsy [MPa]' not found",
+    ),
 ]
 
 
@@ -109,10 +149,10 @@ def _rename_sheet(path, old, new):
 
 
 def test_missing_sheet(demo_book):
-    _remove_sheet(demo_book, O.name)
+    _remove_sheet(demo_book, OP.name)
     with pytest.raises(InputInvalid) as info:
         load(demo_book)
-    assert any(f.sheet == O.name and "is missing" in f.message for f in info.value.findings.errors)
+    assert any(f.sheet == OP.name and "is missing" in f.message for f in info.value.findings.errors)
 
 
 def test_renamed_sheet_is_pointed_out(demo_book):

@@ -136,6 +136,7 @@ def compute(
     try:
         building, findings = pipeline.load(path)
         outcome = pipeline.compute(building, findings)
+        target.parent.mkdir(parents=True, exist_ok=True)
         write_results(path, target, outcome.sheets, force=force)
     except FileProblem as exc:
         _err(f"error   {exc}")

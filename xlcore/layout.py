@@ -498,3 +498,21 @@ UNIT_SLIPS: tuple[UnitSlip, ...] = (
     UnitSlip("m", 0.001, "did you enter millimetres? this column is in m"),
     UnitSlip("MPa", 1e-6, "did you enter Pa? this column is in MPa"),
 )
+
+
+def markdown() -> str:
+    """The layout as the README's reference tables (a test keeps README in step)."""
+    out = [f"**{PROJECT.name}** — {PROJECT.purpose}", "", "| Setting | Default | Help |", "|---|---|---|"]
+    for s in PROJECT.settings:
+        default = "" if s.default in (None, "") else str(s.default)
+        out.append(f"| {s.label} | {default} | {s.help} |")
+    for t in TABLES:
+        out += ["", f"**{t.name}** — {t.purpose}", "", "| Column | Required | Accepts | Help |",
+                "|---|---|---|---|"]
+        for c in t.columns:
+            out.append(f"| {c.header} | {'yes' if c.required else 'no'} | {c.expectation()} | {c.help} |")
+    return "\n".join(out)
+
+
+if __name__ == "__main__":
+    print(markdown())

@@ -11,7 +11,7 @@ import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results
 from xlcore.checks.shear import check_pier_shear
-from xlcore.diagnostics import Findings
+from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
 from xlcore.results import ResultSheet
 from xlcore.validate import build  # noqa: F401  (re-exported for the CLI)

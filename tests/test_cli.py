@@ -1,0 +1,108 @@
+"""The command line: exit codes, output, and compute on the bundled sample read back."""
+
+from pathlib import Path
+
+import openpyxl
+import pytest
+from conftest import column_letter as col
+from conftest import edit
+from typer.testing import CliRunner
+
+from xlcore import layout, results
+from xlcore.cli import app
+
+runner = CliRunner()
+SAMPLE = Path(__file__).resolve().parents[1] / "sample_workbooks" / "harbourview-lane-demo.xlsx"
+
+
+def test_version():
+    r = runner.invoke(app, ["--version"])
+    assert r.exit_code == 0 and r.output.startswith("xlcore ")
+
+
+def test_template_writes_and_refuses_overwrite(tmp_path):
+    p = tmp_path / "new.xlsx"
+    assert runner.invoke(app, ["template", str(p)]).exit_code == 0
+    assert p.exists()
+    r = runner.invoke(app, ["template", str(p)])
+    assert r.exit_code == 2 and "exists" in r.output
+    assert runner.invoke(app, ["template", str(p), "--overwrite", "--example"]).exit_code == 0
+
+
+def test_check_summary_of_sample():
+    r = runner.invoke(app, ["check", str(SAMPLE)])
+    assert r.exit_code == 0, r.output
+    assert "storeys       15 (GF to L14)" in r.output
+    assert "combinations  8" in r.output
+
+
+@pytest.mark.parametrize(
+    "content,name,gist",
+    [
+        (None, "missing.xlsx", "not found"),
+        (b"", "empty.xlsx", "not an .xlsx"),
+        (b"name,value\n1,2\n", "table.xlsx", "not an .xlsx"),
+        (b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1" + b"\0" * 504, "old.xls", "encrypted"),
+    ],
+)
+def test_file_problems_exit_2(tmp_path, content, name, gist):
+    p = tmp_path / name
+    if content is not None:
+        p.write_bytes(content)
+    for cmd in ("check", "compute"):
+        r = runner.invoke(app, [cmd, str(p)])
+        assert r.exit_code == 2, r.output
+        assert gist in r.output
+
+
+def test_usage_error_exits_2():
+    assert runner.invoke(app, ["compute"]).exit_code == 2
+    assert runner.invoke(app, ["frobnicate"]).exit_code == 2
+
+
+def test_compute_sample_and_read_results_back(tmp_path):
+    out = tmp_path / "out.xlsx"
+    r = runner.invoke(app, ["compute", str(SAMPLE), "--output", str(out)])
+    assert r.exit_code == 0, r.output
+    assert "164 pass, 0 fail" in r.output
+    wb = openpyxl.load_workbook(out, read_only=True)
+    assert {results.SUMMARY_SHEET, results.SHEAR_SHEET, results.MEMBERS_SHEET} <= set(wb.sheetnames)
+    rows = list(wb[results.SHEAR_SHEET].iter_rows(values_only=True))
+    head = next(i for i, row in enumerate(rows) if row[0] == "Storey")
+    header = rows[head]
+    table = [dict(zip(header, row, strict=False)) for row in rows[head + 1 :]]
+    assert len(table) == 1312
+    first = table[0]
+    # Demo storey GF, pier LW1-1: Lw 750, tw 250, Hw 3950 (4.2 m - 0.25 m slab), f'c 50, fsy 500,
+    # N12 @ 200 x 2 horizontal -> rho_h = 2 x 113.097 / (200 x 250) = 0.0045239 (hand evaluation).
+    # Hw/Lw = 5.267 > 1 -> Vuc = floor 0.17 x sqrt(50) x 0.8 x 750 x 250 = 180.3 kN;
+    # Vus = 0.0045239 x 500 x 150 000 = 339.3 kN; phi Vu = 0.7 x 519.6 = 363.7 kN (Cl 11.6).
+    assert (first["Storey"], first["Pier"]) == ("GF", "LW1-1")
+    assert first["Vuc [kN]"] == pytest.approx(180.31, abs=0.01)
+    assert first["Vus [kN]"] == pytest.approx(339.29, abs=0.01)
+    assert first["phi Vu [kN]"] == pytest.approx(363.72, abs=0.01)
+    assert first["Governing clause"] == "Cl 11.6.3 min 0.17 sqrt(f'c)"
+    assert "= 363.7 kN" in first["phi Vu working"]
+    for row in table:
+        assert row["Utilisation"] == pytest.approx(abs(row["V* [kN]"]) / row["phi Vu [kN]"], abs=1e-9)
+    # and check now says the results are current; an input edit makes them stale
+    assert "up to date" in runner.invoke(app, ["check", str(out)]).output
+    edit(out, {(layout.WALLS.name, f"{col(layout.WALLS, 'fc')}2"): 40})
+    assert "STALE" in runner.invoke(app, ["check", str(out)]).output
+
+
+def test_strict_exit_3_when_a_pier_fails(demo_book):
+    a = layout.MEMBER_ACTIONS
+    edit(demo_book, {(a.name, f"{col(a, 'v')}2"): 5000.0})  # GF LW1-1 far beyond 363.7 kN
+    r = runner.invoke(app, ["compute", str(demo_book), "--strict"])
+    assert r.exit_code == 3, r.output
+    assert "1 fail" in r.output
+    r = runner.invoke(app, ["compute", str(demo_book)])
+    assert r.exit_code == 0  # failing members are results, not errors
+
+
+def test_lock_file_exit_2_with_advice(demo_book):
+    demo_book.with_name(f"~${demo_book.name}").write_bytes(b"x")
+    r = runner.invoke(app, ["compute", str(demo_book)])
+    assert r.exit_code == 2 and "--force" in r.output
+    assert runner.invoke(app, ["compute", str(demo_book), "--force"]).exit_code == 0
