@@ -200,3 +200,11 @@ def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
     building, findings = load(demo_book)
     assert building.walls[0].thickness == 250.0
     assert findings.errors == []
+
+
+def test_unusual_but_legal_input_warns(demo_book):
+    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 3): 90})
+    building, findings = load(demo_book)
+    text = [str(f) for f in findings.warnings]
+    assert any(t.startswith(where(W, "fc", 2)) and "not a standard grade" in t for t in text), text
+    assert any(t.startswith(where(W, "cover", 3)) and "cover and bars take" in t for t in text), text

@@ -6,6 +6,8 @@ Exit codes: 0 done, 1 invalid input (nothing written), 2 file or usage problem,
 
 from __future__ import annotations
 
+from collections.abc import Iterator
+from contextlib import contextmanager
 from pathlib import Path
 from typing import Annotated
 
@@ -38,6 +40,20 @@ def _report(findings: Findings, limit: int = 200) -> None:
         _err(f"... and {len(findings.errors) - limit} more errors")
     for f in findings.warnings[:limit]:
         _err(f"warning {f}")
+
+
+@contextmanager
+def _exits(after_errors: str) -> Iterator[None]:
+    """Map the library's two refusals to exit codes: 2 file problem, 1 invalid input."""
+    try:
+        yield
+    except FileProblem as exc:
+        _err(f"error   {exc}")
+        raise typer.Exit(EXIT_FILE) from None
+    except InputInvalid as exc:
+        _report(exc.findings)
+        _err(f"{len(exc.findings.errors)} error(s); {after_errors}")
+        raise typer.Exit(EXIT_INVALID) from None
 
 
 def _version(value: bool) -> None:
@@ -76,16 +92,9 @@ def template(
 @app.command()
 def check(path: Workbook) -> None:
     """Validate the inputs and print a summary; tell whether results are stale."""
-    try:
+    with _exits("fix them and run again"):
         raw = read_workbook(path)
         building, findings = pipeline.build(raw)
-    except FileProblem as exc:
-        _err(f"error   {exc}")
-        raise typer.Exit(EXIT_FILE) from None
-    except InputInvalid as exc:
-        _report(exc.findings)
-        _err(f"{len(exc.findings.errors)} error(s): fix them and run again")
-        raise typer.Exit(EXIT_INVALID) from None
     geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
@@ -133,18 +142,11 @@ def compute(
     if target.suffix.lower() != path.suffix.lower():
         _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
         raise typer.Exit(EXIT_FILE)
-    try:
+    with _exits("nothing was written"):
         building, findings = pipeline.load(path)
         outcome = pipeline.compute(building, findings)
         target.parent.mkdir(parents=True, exist_ok=True)
         write_results(path, target, outcome.sheets, force=force)
-    except FileProblem as exc:
-        _err(f"error   {exc}")
-        raise typer.Exit(EXIT_FILE) from None
-    except InputInvalid as exc:
-        _report(exc.findings)
-        _err(f"{len(exc.findings.errors)} error(s); nothing was written")
-        raise typer.Exit(EXIT_INVALID) from None
     _report(findings)
     s = outcome.summary
     typer.echo(

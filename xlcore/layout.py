@@ -507,8 +507,13 @@ def markdown() -> str:
         default = "" if s.default in (None, "") else str(s.default)
         out.append(f"| {s.label} | {default} | {s.help} |")
     for t in TABLES:
-        out += ["", f"**{t.name}** — {t.purpose}", "", "| Column | Required | Accepts | Help |",
-                "|---|---|---|---|"]
+        out += [
+            "",
+            f"**{t.name}** — {t.purpose}",
+            "",
+            "| Column | Required | Accepts | Help |",
+            "|---|---|---|---|",
+        ]
         for c in t.columns:
             out.append(f"| {c.header} | {'yes' if c.required else 'no'} | {c.expectation()} | {c.help} |")
     return "\n".join(out)

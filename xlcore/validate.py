@@ -11,6 +11,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import geometry, layout
+from xlcore.codes.as3600 import STANDARD_GRADES
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
 from xlcore.model import Building, Opening, Settings, Storey, WallRun
@@ -397,6 +398,13 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
                 "end point away from the start point",
             )
             continue
+        if wall.fc not in STANDARD_GRADES:
+            f.warning(
+                t.name,
+                _at(df, "fc", rec.row),
+                f"f'c {wall.fc:g} MPa is not a standard grade ({', '.join(f'{g:g}' for g in STANDARD_GRADES)} MPa); "
+                "Ec is interpolated",
+            )
         fit = 2 * wall.cover + (wall.v_dia + wall.h_dia) * (2 if max(wall.v_layers, wall.h_layers) > 1 else 1)
         if fit >= wall.thickness:
             f.warning(

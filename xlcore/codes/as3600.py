@@ -20,6 +20,9 @@ PHI_WALL_SHEAR = 0.7
 EC_TABLE_FC = np.array([20.0, 25.0, 32.0, 40.0, 50.0, 65.0, 80.0, 100.0])
 EC_TABLE_E = np.array([24000.0, 26700.0, 30100.0, 32800.0, 34800.0, 37400.0, 39600.0, 42200.0])
 
+STANDARD_GRADES = tuple(float(g) for g in EC_TABLE_FC)
+"""Standard strength grades f'c [MPa] (Table 3.1.2 rows)."""
+
 # Which expression set the shear capacity (codes stored in results; text for people).
 GOV_EQ1, GOV_EQ2, GOV_FLOOR, GOV_VUMAX = 1, 2, 3, 4
 GOVERNING_TEXT = {
