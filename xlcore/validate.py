@@ -402,8 +402,8 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
             f.warning(
                 t.name,
                 _at(df, "fc", rec.row),
-                f"f'c {wall.fc:g} MPa is not a standard grade ({', '.join(f'{g:g}' for g in STANDARD_GRADES)} MPa); "
-                "Ec is interpolated",
+                f"f'c {wall.fc:g} MPa is not a standard grade "
+                f"({', '.join(f'{g:g}' for g in STANDARD_GRADES)} MPa); Ec is interpolated",
             )
         fit = 2 * wall.cover + (wall.v_dia + wall.h_dia) * (2 if max(wall.v_layers, wall.h_layers) > 1 else 1)
         if fit >= wall.thickness:
