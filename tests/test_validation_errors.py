@@ -203,7 +203,8 @@ def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
 
 
 def test_unusual_but_legal_input_warns(demo_book):
-    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 3): 90})
+    # row 3: 250 mm wall, N12 both ways in 2 layers: 2 x 110 + 2 x (12 + 12) = 268 mm > 250 (hand evaluation)
+    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 3): 110})
     building, findings = load(demo_book)
     text = [str(f) for f in findings.warnings]
     assert any(t.startswith(where(W, "fc", 2)) and "not a standard grade" in t for t in text), text
