@@ -258,3 +258,14 @@ def test_result_file_is_a_valid_workbook_for_openpyxl_and_pandas(demo_book):
     header_row = df.index[df[0] == "Storey"][0]
     assert df.iloc[header_row].tolist()[:4] == ["Storey", "Pier", "Wall", "Combination"]
     assert len(df) - header_row - 1 == 1312  # one row per storey x pier x combination of the demo
+
+
+def test_new_output_file_gets_ordinary_permissions(demo_book, tmp_path):
+    import os
+    import stat
+
+    copy = tmp_path / "copy.xlsx"
+    run(demo_book, out=copy)
+    umask = os.umask(0)
+    os.umask(umask)
+    assert stat.S_IMODE(copy.stat().st_mode) == 0o666 & ~umask

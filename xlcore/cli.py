@@ -15,7 +15,7 @@ import typer
 
 from xlcore import CAUTION, __version__, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
-from xlcore.workbook.reader import RawWorkbook, read_workbook
+from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
 from xlcore.workbook.template import write_template
 from xlcore.workbook.writer import backup_path, write_results
 
@@ -120,7 +120,7 @@ def check(path: Workbook) -> None:
 
 
 def _staleness(raw: RawWorkbook) -> str:
-    stored = pipeline.stored_hash(raw.path)
+    stored = stored_input_hash(raw.path)
     if stored is None:
         return "none yet (run xlcore compute)"
     return "up to date" if stored == raw.input_hash else "STALE: inputs changed since the last compute"

@@ -60,7 +60,7 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
             f"{results.MARKER}: in-plane shear of piers, {s.standard} Cl 11.6",
             results.SHEAR_COLUMNS,
             shear,
-            preamble=stamp[:2]
+            preamble=stamp
             + [
                 ("Height for Hw/Lw", s.shear_height),
                 (
@@ -76,29 +76,10 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
             "and openings (IDs to map analysis output to)",
             results.MEMBER_COLUMNS,
             members_table(piers, geom.lintels),
-            preamble=stamp[:2],
+            preamble=stamp,
         ),
     ]
     return Outcome(building, findings, geom, shear, summary, sheets)
-
-
-STAMP_HASH_LABEL = "Input hash (SHA-256)"
-
-
-def stored_hash(path: Path) -> str | None:
-    """The input hash stamped on the summary sheet by the last compute, if any."""
-    import openpyxl
-
-    wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
-    try:
-        if results.SUMMARY_SHEET not in wb.sheetnames:
-            return None
-        for row in wb[results.SUMMARY_SHEET].iter_rows(min_row=1, max_row=40, max_col=2, values_only=True):
-            if row and row[0] == STAMP_HASH_LABEL:
-                return str(row[1])
-    finally:
-        wb.close()
-    return None
 
 
 def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
@@ -108,7 +89,7 @@ def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
         ("Standard", b.settings.standard),
         ("xlcore version", __version__),
         ("Computed (UTC)", now.strftime("%Y-%m-%d %H:%M:%S")),
-        (STAMP_HASH_LABEL, b.input_hash),
+        (results.STAMP_HASH_LABEL, b.input_hash),
     ]
 
 

@@ -11,6 +11,7 @@ from xlcore.layout import RESULT_PREFIX
 
 MARKER = "xlcore results"  # first words of A1 on every result sheet: how xlcore knows its own
 PASS, FAIL, NOT_CHECKED = "pass", "FAIL", "not checked"
+STAMP_HASH_LABEL = "Input hash (SHA-256)"  # stamp line `check` reads to tell stale results
 
 
 @dataclass(frozen=True)

@@ -16,7 +16,7 @@ from pathlib import Path
 
 import openpyxl
 
-from xlcore import layout
+from xlcore import layout, results
 from xlcore.diagnostics import FileProblem, Findings, cell_name
 from xlcore.workbook.package import open_package, sheet_parts
 
@@ -72,6 +72,23 @@ def read_workbook(path: Path) -> RawWorkbook:
     if with_formulas:
         _resolve_formulas(path, sheets, with_formulas, findings)
     return RawWorkbook(path, names, sheets, findings, _hash(sheets))
+
+
+def stored_input_hash(path: Path) -> str | None:
+    """The input hash stamped on the summary sheet by the last compute, if any."""
+    prefix = f"{results.STAMP_HASH_LABEL}: "
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
+    try:
+        if results.SUMMARY_SHEET not in wb.sheetnames:
+            return None
+        for (value,) in wb[results.SUMMARY_SHEET].iter_rows(max_row=40, max_col=1, values_only=True):
+            if isinstance(value, str) and value.startswith(prefix):
+                return value[len(prefix) :].strip()
+    finally:
+        wb.close()
+    return None
 
 
 def _has_formula(xml: bytes) -> bool:

@@ -69,14 +69,13 @@ def sheet_xml(sheet: ResultSheet, styles: Styles, tab_rgb: str = "FF2F4858") -> 
     rows.append(f'<row r="1">{_str_cell("A1", sheet.title, styles.title)}</row>')
     for label, value in sheet.preamble:
         r += 1
-        style = styles.caution if label == "CAUTION" else 0
-        rows.append(
-            f'<row r="{r}">{_str_cell(f"A{r}", label, styles.label)}{_cell(f"B{r}", value, style)}</row>'
-        )
+        # one text cell per line, so it reads in full across the empty cells to its right
+        style = styles.caution if label == "CAUTION" else styles.label
+        rows.append(f'<row r="{r}">{_str_cell(f"A{r}", f"{label}: {value}", style)}</row>')
     r += 2
     header_row = r
     rows.append(
-        f'<row r="{r}">'
+        f'<row r="{r}" ht="45" customHeight="1">'
         + "".join(_str_cell(f"{letters[j]}{r}", c.title, styles.header) for j, c in enumerate(cols))
         + "</row>"
     )

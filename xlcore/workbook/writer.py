@@ -75,6 +75,10 @@ def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool =
             os.fsync(fh.fileno())
         if dst.exists():
             shutil.copymode(dst, tmp)
+        else:  # mkstemp makes the file private (0600); give it the mode a new file gets
+            umask = os.umask(0)
+            os.umask(umask)
+            os.chmod(tmp, 0o666 & ~umask)
         if dst.resolve() == src.resolve():
             shutil.copy2(src, backup_path(dst))
         os.replace(tmp, dst)
