@@ -40,7 +40,7 @@ def test_wall_shear_shared_to_piers_by_stiffness(demo_book):
     k = [1 / (h**3 / (E * t * L**3) + 1.2 * h / (G * t * L)) for L in (750.0, 1800.0, 1050.0)]
     assert rows.share.tolist() == pytest.approx([x / sum(k) for x in k], rel=1e-9)
     assert rows.share.iloc[0] < 750 / 3600  # the short pier takes less than its length ratio
-    assert all(s.startswith("wall LW1 share of 300.0 kN") for s in rows.source)
+    assert all(s.startswith("wall LW1: V* 300.0 kN x share") for s in rows.source)
 
 
 def test_opening_height_setting_changes_hw(demo_book):

@@ -209,3 +209,23 @@ def test_unusual_but_legal_input_warns(demo_book):
     text = [str(f) for f in findings.warnings]
     assert any(t.startswith(where(W, "fc", 2)) and "not a standard grade" in t for t in text), text
     assert any(t.startswith(where(W, "cover", 3)) and "cover and bars take" in t for t in text), text
+
+
+def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):
+    """Two parallel walls only: no stiffness across them or in torsion (statics)."""
+    from xlcore.workbook.template import write_template
+
+    path = tmp_path / "parallel.xlsx"
+    write_template(path)
+    wb = openpyxl.load_workbook(path)
+    wb[S.name].append(["GF", 0.0, 3.0, 200])
+    for wid, y in (("A", 0.0), ("B", 4.0)):
+        wb[W.name].append([wid, 0.0, y, 5.0, y, 200, "GF", "GF", 40, 500, 12, 200, 2, 12, 200, 2, 30])
+    wb[C.name].append(["GF", "wind", 100, 50, 0, 0, 0, 0])
+    wb.save(path)
+    with pytest.raises(InputInvalid) as info:
+        load(path)
+    assert any(
+        str(f).startswith(f"'Core actions'!{col(C, 'storey')}2: the walls at storey GF (A, B)")
+        for f in info.value.findings.errors
+    )

@@ -24,6 +24,14 @@ from xlcore import pipeline, results
 from xlcore.diagnostics import FileProblem
 from xlcore.workbook.writer import backup_path, write_results
 
+# the demo has member and core actions: summary, shear, piers, core section, core shares
+DEMO_RESULT_SHEETS = [
+    results.SUMMARY_SHEET,
+    results.SHEAR_SHEET,
+    results.MEMBERS_SHEET,
+    results.SECTION_SHEET,
+    results.CORE_SHEET,
+]
 INDEX_PARTS = {"xl/workbook.xml", "xl/_rels/workbook.xml.rels", "[Content_Types].xml", "xl/styles.xml"}
 
 
@@ -85,7 +93,7 @@ def test_every_user_part_survives_byte_identical(demo_book):
     run(demo_book)
     after = parts(demo_book)
     ours = result_parts(demo_book)
-    assert len(ours) == 3
+    assert len(ours) == len(DEMO_RESULT_SHEETS)
     for name, data in before.items():
         if name in INDEX_PARTS:
             continue
@@ -118,7 +126,7 @@ def test_user_features_still_there_after_compute(demo_book):
     assert len(ws.data_validations.dataValidation) == 1
     assert len(ws._charts) == 1 and len(ws._images) == 1
     assert "GlobalRate" in wb.defined_names and "LocalRate" in ws.defined_names
-    assert wb.sheetnames[-3:] == [results.SUMMARY_SHEET, results.SHEAR_SHEET, results.MEMBERS_SHEET]
+    assert wb.sheetnames[-len(DEMO_RESULT_SHEETS) :] == DEMO_RESULT_SHEETS
 
 
 def test_rerun_replaces_result_sheets_and_styles_do_not_grow(demo_book):
@@ -127,7 +135,7 @@ def test_rerun_replaces_result_sheets_and_styles_do_not_grow(demo_book):
     run(demo_book)
     second = parts(demo_book)
     wb = openpyxl.load_workbook(demo_book, read_only=True)
-    assert sum(n.startswith("Results ") for n in wb.sheetnames) == 3
+    assert sum(n.startswith("Results ") for n in wb.sheetnames) == len(DEMO_RESULT_SHEETS)
     assert second["xl/styles.xml"] == first["xl/styles.xml"]
     strip_time = re.compile(rb"\d{4}-\d\d-\d\d \d\d:\d\d:\d\d")
     for p in result_parts(demo_book):
@@ -221,7 +229,7 @@ def test_backup_kept_and_output_copy_leaves_source_alone(demo_book, tmp_path):
     copy = tmp_path / "copy.xlsx"
     run(demo_book, out=copy)
     assert demo_book.read_bytes() == original
-    assert len(result_parts(copy)) == 3
+    assert len(result_parts(copy)) == len(DEMO_RESULT_SHEETS)
     run(demo_book)
     assert backup_path(demo_book).read_bytes() == original
     assert not list(tmp_path.glob("*.xlcore-tmp"))

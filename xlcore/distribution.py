@@ -1,62 +1,249 @@
-"""Actions given for a whole wall -> actions of the piers that openings cut it into.
+"""Actions reaching each pier: given directly, shared from a wall's actions, or shared from the
+whole core's storey resultants. Mechanics only: no standard, no workbook.
 
-Mechanics only (no standard, no workbook). V* is shared by lateral stiffness with flexural
-and shear deformation; sharing N* and M* (and core actions) is a later step.
+Forces in kN and kNm, plan in m. Wall in-plane sign convention: V* acts along the wall from its
+start towards its end; M* in-plane positive compresses the wall's end; compression positive.
 """
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 import pandas as pd
 
-from xlcore.codes.as3600 import elastic_modulus
+from xlcore import diaphragm, section
+from xlcore.stiffness import pier_stiffness, with_stiffness  # noqa: F401  (part of this API)
 
-END_FACTOR = {"fixed-fixed": 12.0, "cantilever": 3.0}
+COMPOSITE = "composite section"
+FROM_SHEAR = "pier moments from shear"
+WALL_NM_METHODS = (COMPOSITE, FROM_SHEAR)
+
+ACTION_COLUMNS = [
+    "row",
+    "storey",
+    "combination",
+    "wall_id",
+    "pier_id",
+    "position",
+    "k",
+    "share",
+    "n",
+    "v",
+    "m",
+    "source",
+]
 
 
-def pier_stiffness(Lw, tw, h, E, nu=0.2, c=12.0):
-    """Lateral stiffness k = 1 / (h^3 / (c E I) + 1.2 h / (G A)) [N/mm], all in N and mm.
+def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPOSITE) -> pd.DataFrame:
+    """One row per storey x pier x combination from the member-actions sheet.
 
-    c = 12 fixed against rotation at both ends, 3 cantilever; G = E / (2 (1 + nu));
-    1.2 is the shear shape factor of a rectangle. Flexure plus shear deflection of a pier.
+    `piers` needs the geometry columns and `k`. Actions naming a pier (or an uncut wall) pass
+    through. Actions naming a wall that openings cut at that storey are shared among its piers:
+    V* by stiffness k; N* and M* by `method`:
+    - composite section: linear stress N/A + M s/I over the piers' combined section (full
+      coupling through the lintels): N_i = A_i (N/A + M s_i / I), own M_i = M I_i / I;
+    - pier moments from shear: own M_i = V_i h_i / 2 (contraflexure at mid-height), the rest
+      of M* as an axial couple N_i = A_i N/A + (M - sum M_i) A_i s_i / sum A_j s_j^2.
+    Either way the pier forces sum back to the wall's N*, V* and M* (about the piers' centroid).
     """
-    Lw, tw, h = (np.asarray(a, dtype=float) for a in (Lw, tw, h))
-    E = np.asarray(E, dtype=float)
-    inertia = tw * Lw**3 / 12.0
-    area = tw * Lw
-    shear_modulus = E / (2.0 * (1.0 + nu))
-    return 1.0 / (h**3 / (c * E * inertia) + 1.2 * h / (shear_modulus * area))
-
-
-def with_stiffness(piers: pd.DataFrame, nu: float, fixity: str) -> pd.DataFrame:
-    """Add each pier's free height `h` [mm], Ec [MPa] and stiffness `k` [N/mm]."""
-    out = piers.copy()
-    out["h"] = out.Ho.where(out.Ho.notna(), out.Hc)  # between slab/sill and lintel
-    out["Ec"] = elastic_modulus(out.fc.to_numpy())
-    out["k"] = pier_stiffness(out.Lw, out.tw, out.h, out.Ec, nu, END_FACTOR[fixity])
-    return out
-
-
-def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame) -> pd.DataFrame:
-    """One row per storey x pier x combination with V* and where it came from.
-
-    `piers` needs storey, wall_id, pier_id, position, k. Actions naming a pier (or an uncut
-    wall) pass through with share 1; actions naming a wall that openings cut at that storey
-    are split among its piers in proportion to k. Shares at a storey sum to 1 per wall.
-    """
-    cols = ["storey", "wall_id", "pier_id", "position", "k"]
+    cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
     base = actions[["row", "storey", "combination", "member", "n", "v", "m"]]
     direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
     direct["share"] = 1.0
-    direct["source"] = "given"
+    direct["source"] = "given for the pier"
     cut = piers.loc[piers.position > 0, cols]
     shared = base.merge(cut, left_on=["storey", "member"], right_on=["storey", "wall_id"])
-    total = shared.groupby(["storey", "combination", "wall_id"]).k.transform("sum")
-    shared["share"] = shared.k / total
-    shared["source"] = "wall"
-    shared["v_wall"] = shared.v
-    shared["v"] = shared.v * shared.share
-    shared[["n", "m"]] = np.nan  # not shared yet: only V* is used by the shear check
+    if len(shared):
+        shared = _share_wall(shared, method)
     out = pd.concat([direct, shared], ignore_index=True)
-    out["v_wall"] = out.get("v_wall", pd.Series(np.nan, index=out.index))
-    return out.drop(columns=["member"])
+    return out[ACTION_COLUMNS]
+
+
+def _share_wall(df: pd.DataFrame, method: str) -> pd.DataFrame:
+    g = df.groupby("row")
+    df["share"] = df.k / g.k.transform("sum")
+    area = df.Lw * df.tw / 1e6  # m^2
+    s = (df.start + df.end) / 2
+    a_tot = area.groupby(df.row).transform("sum")
+    s_bar = (area * s).groupby(df.row).transform("sum") / a_tot
+    lever = s - s_bar
+    own_i = df.tw / 1000 * (df.Lw / 1000) ** 3 / 12  # m^4
+    couple_i = (area * lever**2).groupby(df.row).transform("sum")
+    v_wall, n_wall, m_wall = df.v.copy(), df.n.copy(), df.m.copy()
+    df["v"] = v_wall * df.share
+    if method == COMPOSITE:
+        i_tot = couple_i + own_i.groupby(df.row).transform("sum")
+        df["n"] = area * (n_wall / a_tot + m_wall * lever / i_tot)
+        df["m"] = m_wall * own_i / i_tot
+        how = "N*, M* by linear stress over the piers' combined section"
+    else:
+        own_m = df.v * df.h / 1000 / 2
+        rest = m_wall - own_m.groupby(df.row).transform("sum")
+        single = couple_i <= 0
+        couple = rest * area * lever / couple_i.where(~single, 1.0)
+        df["n"] = area * n_wall / a_tot + np.where(single, 0.0, couple)
+        df["m"] = np.where(single, m_wall, own_m)
+        how = "own M* = V* h / 2, rest of M* as an axial couple"
+    df["source"] = [
+        f"wall {w}: V* {v:.1f} kN x share {sh:.3f}; {how}"
+        for w, v, sh in zip(df.wall_id, v_wall, df.share, strict=True)
+    ]
+    return df
+
+
+# ------------------------------------------------------------------ core actions
+
+
+@dataclass
+class StoreyPlan:
+    """One storey's net section, the pieces' area moments and the walls for the diaphragm."""
+
+    section: section.CoreSection
+    piece_moments: np.ndarray  # piers x [A, Qx, Qy, ...], in the storey's pier order
+    walls: diaphragm.Storey
+    centre: tuple[float, float] | None  # centre of rigidity; None when the walls are unstable
+
+
+def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPlan]:
+    """Net section and centre of rigidity of every storey."""
+    out = {}
+    for storey, sp in piers.groupby("storey", sort=False):
+        sw = walls[walls.storey == storey]
+        pieces = section.disjoint_pieces(sp)
+        st = diaphragm.Storey(
+            sw.k.to_numpy(), sw.ux.to_numpy(), sw.uy.to_numpy(), sw.mx.to_numpy(), sw.my.to_numpy()
+        )
+        try:
+            centre = diaphragm.centre_of_rigidity(st)
+        except diaphragm.Unstable:
+            centre = None
+        out[storey] = StoreyPlan(
+            section.section_of(pieces), np.array([section.moments(p) for p in pieces]), st, centre
+        )
+    return out
+
+
+def sections_table(plans: dict[str, StoreyPlan], storey_index: dict[str, int]) -> pd.DataFrame:
+    rows = []
+    for storey, p in plans.items():
+        sec = p.section
+        xr, yr = p.centre if p.centre else (np.nan, np.nan)
+        rows.append(
+            dict(
+                storey=storey,
+                storey_index=storey_index[storey],
+                area=sec.area,
+                xc=sec.xc,
+                yc=sec.yc,
+                ixx=sec.ixx,
+                iyy=sec.iyy,
+                ixy=sec.ixy,
+                i1=sec.i1,
+                i2=sec.i2,
+                angle=sec.angle,
+                xr=xr,
+                yr=yr,
+                bx=sec.xmax - sec.xmin,
+                by=sec.ymax - sec.ymin,
+            )
+        )
+    return pd.DataFrame(rows).sort_values("storey_index", ascending=False).reset_index(drop=True)
+
+
+@dataclass
+class CoreSharing:
+    """Everything the core-sharing step derived, for the checks and for the results."""
+
+    piers: pd.DataFrame  # ACTION_COLUMNS, one row per storey x combination x pier
+    walls: pd.DataFrame  # one row per storey x combination x wall: k, direct, torsion, V, N
+
+
+def core_actions_to_piers(
+    piers: pd.DataFrame,
+    walls: pd.DataFrame,
+    plans: dict[str, StoreyPlan],
+    core: pd.DataFrame,
+    accidental: float = 0.0,
+) -> CoreSharing:
+    """Share each storey's core resultants among walls (rigid diaphragm) and then piers.
+
+    `piers` with stiffness (`with_stiffness`), `walls` from `stiffness.wall_stiffness`, `plans`
+    from `storey_plans`, `core` the core-actions rows. Pier N* from the core's elastic stress
+    N/A +- bending integrated over the pier's net area; pier V* = wall force x pier stiffness
+    share; pier M* = V* h / 2 (contraflexure at mid-height of the pier's free height).
+    Accidental eccentricity: a fraction of the plan dimension across each shear component,
+    added in the sense that increases each wall's force (so with it the wall forces no longer
+    sum exactly to the storey shear).
+    """
+    pier_rows, wall_rows = [], []
+    for storey, cs in core.groupby("storey", sort=False):
+        sp = piers[piers.storey == storey]
+        sw = walls[walls.storey == storey]
+        plan = plans[storey]
+        sec, st = plan.section, plan.walls
+        if plan.centre is None:
+            raise diaphragm.Unstable(
+                f"walls at storey {storey} cannot resist shear in both directions and torsion"
+            )
+        xr, yr = plan.centre
+        vx, vy, t = cs.vx.to_numpy(), cs.vy.to_numpy(), cs.t.to_numpy()
+        xv = cs.x_v.fillna(xr).to_numpy()
+        yv = cs.y_v.fillna(yr).to_numpy()
+        m_cr = t + vy * (xv - xr) - vx * (yv - yr)
+        d_acc = accidental * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
+        base = diaphragm.share(st, vx, vy, m_cr)
+        unit = diaphragm.share(st, 0.0, 0.0, 1.0).torsion[:, 0:1]  # per unit moment, walls x 1
+        sense = np.where(base.total >= 0, 1.0, -1.0) * np.where(unit >= 0, 1.0, -1.0)
+        torsion = base.torsion + sense * unit * d_acc
+        total = base.direct + torsion
+        a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
+        n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
+        wall_index = {w: i for i, w in enumerate(sw.wall_id)}
+        k_wall_piers = sp.groupby("wall_id").k.transform("sum").to_numpy()
+        in_wall = {w: (sp.wall_id == w).to_numpy() for w in sw.wall_id}
+        for j, rec in enumerate(cs.itertuples(index=False)):
+            along = vx[j] * sw.ux.to_numpy() + vy[j] * sw.uy.to_numpy()
+            for i, w in enumerate(sw.wall_id):
+                wall_rows.append(
+                    dict(
+                        row=rec.row,
+                        storey=storey,
+                        combination=rec.combination,
+                        wall_id=w,
+                        k=sw.k.iloc[i] * 1e-3,
+                        direct=base.direct[i, j],
+                        torsion=torsion[i, j],
+                        v=total[i, j],
+                        share_pct=np.nan if abs(along[i]) < 1e-9 else 100 * base.direct[i, j] / along[i],
+                        xr=xr,
+                        yr=yr,
+                        m_cr=m_cr[j],
+                        m_acc=d_acc[j],
+                        n=float(n_piece[in_wall[w], j].sum()),
+                    )
+                )
+            for i, p in enumerate(sp.itertuples(index=False)):
+                share = p.k / k_wall_piers[i]
+                v = total[wall_index[p.wall_id], j] * share
+                pier_rows.append(
+                    dict(
+                        row=rec.row,
+                        storey=storey,
+                        combination=rec.combination,
+                        wall_id=p.wall_id,
+                        pier_id=p.pier_id,
+                        position=p.position,
+                        k=p.k,
+                        share=share,
+                        n=n_piece[i, j],
+                        v=v,
+                        m=v * p.h / 1000 / 2,
+                        source=(
+                            f"core: wall {p.wall_id} {total[wall_index[p.wall_id], j]:.1f} kN x share "
+                            f"{share:.3f}; N* from core stress; M* = V* h/2 = {v:.1f} x "
+                            f"{p.h / 1000:.3f} / 2"
+                        ),
+                    )
+                )
+    return CoreSharing(pd.DataFrame(pier_rows, columns=ACTION_COLUMNS), pd.DataFrame(wall_rows))

@@ -34,6 +34,12 @@ PIER_COLUMNS = [
     "v_layers",
     "h_layers",
     "cover",
+    "wx",  # wall start, plan [m]
+    "wy",
+    "ux",  # unit vector along the wall, start -> end
+    "uy",
+    "wall_length",  # whole wall [m]
+    "strip",  # height of the band holding the wall's openings at this storey [mm], NaN if none
 ]
 LINTEL_COLUMNS = [
     "storey",
@@ -121,7 +127,23 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
             here = cuts.get((s.index, wall_id), [])
             rho_v = bar_ratio(w.v_layers, w.v_dia, w.v_spacing, w.thickness)
             rho_h = bar_ratio(w.h_layers, w.h_dia, w.h_spacing, w.thickness)
-            common = (w.fc, w.fsy, rho_v, rho_h, w.v_layers, w.h_layers, w.cover)
+            ux, uy = (w.x2 - w.x1) / w.length, (w.y2 - w.y1) / w.length
+            strip = max((o.head - o.sill for o in here), default=float("nan")) * 1000.0
+            common = (
+                w.fc,
+                w.fsy,
+                rho_v,
+                rho_h,
+                w.v_layers,
+                w.h_layers,
+                w.cover,
+                w.x1,
+                w.y1,
+                ux,
+                uy,
+                w.length,
+                strip,
+            )
             hc = s.clear_height * 1000.0
             if not here:
                 pier_rows.append(
@@ -173,8 +195,14 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                         o.label or "",
                     )
                 )
+    piers = pd.DataFrame(pier_rows, columns=PIER_COLUMNS)
+    # plan end points and mid-point of each pier's centreline [m]
+    for end, along in (("1", piers.start), ("2", piers.end)):
+        piers["px" + end] = piers.wx + piers.ux * along
+        piers["py" + end] = piers.wy + piers.uy * along
+    piers["mx"], piers["my"] = (piers.px1 + piers.px2) / 2, (piers.py1 + piers.py2) / 2
     return Geometry(
-        piers=pd.DataFrame(pier_rows, columns=PIER_COLUMNS),
+        piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
 

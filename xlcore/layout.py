@@ -188,6 +188,30 @@ PROJECT = SettingsSheet(
             choices=PIER_FIXITY,
         ),
         Setting(
+            "wall_nm",
+            "Wall N* and M* to its piers",
+            None,
+            Kind.CHOICE,
+            "composite section",
+            "Where actions are given for a whole wall that openings cut into piers: 'composite "
+            "section' shares N* and M* by linear stress over the piers' combined section (full "
+            "coupling through the lintels); 'pier moments from shear' gives each pier M* = V* h/2 "
+            "and carries the rest of M* as an axial couple between the piers.",
+            choices=("composite section", "pier moments from shear"),
+        ),
+        Setting(
+            "accidental",
+            "Accidental eccentricity",
+            "fraction",
+            Kind.NUMBER,
+            0.0,
+            "Core actions only: extra eccentricity of the storey shear as a fraction of the "
+            "plan dimension across it, added in the sense that increases each wall's share. "
+            "Blank: 0. The loading standard sets it (commonly 0.05 to 0.10 for earthquake).",
+            min=0.0,
+            max=0.3,
+        ),
+        Setting(
             "poisson",
             "Poisson's ratio of concrete",
             None,
@@ -423,8 +447,22 @@ MEMBER_ACTIONS = TableSheet(
         Column("combination", "Combination", None, Kind.TEXT, "Load combination name.", width=16),
         Column("member", "Member", None, Kind.TEXT, "Pier ID (e.g. W3-1) or wall ID (e.g. W3).", width=10),
         Column("n", "N*", "kN", Kind.NUMBER, "Design axial force, compression positive.", **_FORCE),
-        Column("v", "V* in-plane", "kN", Kind.NUMBER, "Design in-plane shear.", **_FORCE),
-        Column("m", "M* in-plane", "kNm", Kind.NUMBER, "Design in-plane bending moment.", **_FORCE),
+        Column(
+            "v",
+            "V* in-plane",
+            "kN",
+            Kind.NUMBER,
+            "Design in-plane shear, positive from wall start to end.",
+            **_FORCE,
+        ),
+        Column(
+            "m",
+            "M* in-plane",
+            "kNm",
+            Kind.NUMBER,
+            "Design in-plane moment; positive compresses the wall's end (End x, End y).",
+            **_FORCE,
+        ),
         Column(
             "m_out",
             "M* out-of-plane",
@@ -443,8 +481,9 @@ CORE_ACTIONS = TableSheet(
     name="Core actions",
     purpose=(
         "Storey resultants of the whole core per load combination, where only those are known. "
-        "Forces act at the base of the storey; compression positive. Validated now; sharing "
-        "them out to walls and piers by stiffness is planned."
+        "xlcore shares them to walls (rigid floor, stiffness, torsion) and piers. Forces at the "
+        "base of the storey; compression positive. Where the member-actions sheet has rows for "
+        "the same storey and combination, those win."
     ),
     columns=(
         Column("storey", "Storey", None, Kind.STOREY, _STOREY_LIST_HELP, width=10),
@@ -452,15 +491,36 @@ CORE_ACTIONS = TableSheet(
         Column("n", "N*", "kN", Kind.NUMBER, "Total axial force, compression positive.", **_FORCE),
         Column("vx", "Vx*", "kN", Kind.NUMBER, "Storey shear in the x direction.", **_FORCE),
         Column("vy", "Vy*", "kN", Kind.NUMBER, "Storey shear in the y direction.", **_FORCE),
-        Column("mx", "Mx*", "kNm", Kind.NUMBER, "Moment about the x axis.", **_FORCE),
-        Column("my", "My*", "kNm", Kind.NUMBER, "Moment about the y axis.", **_FORCE),
-        Column("t", "T*", "kNm", Kind.NUMBER, "Torsion about the vertical axis.", **_FORCE),
+        Column(
+            "mx",
+            "Mx*",
+            "kNm",
+            Kind.NUMBER,
+            "Moment about the x axis; positive compresses the +y side.",
+            **_FORCE,
+        ),
+        Column(
+            "my",
+            "My*",
+            "kNm",
+            Kind.NUMBER,
+            "Moment about the y axis; positive compresses the +x side.",
+            **_FORCE,
+        ),
+        Column(
+            "t",
+            "T*",
+            "kNm",
+            Kind.NUMBER,
+            "Torsion about the vertical axis, anticlockwise in plan positive.",
+            **_FORCE,
+        ),
         Column(
             "x_v",
             "Shear acts at x",
             "m",
             Kind.NUMBER,
-            "Plan x of the point the storey shear acts at (optional).",
+            "Plan x of the point the storey shear acts at (optional; blank: the centre of rigidity).",
             required=False,
             min=-1000,
             max=1000,
@@ -470,7 +530,7 @@ CORE_ACTIONS = TableSheet(
             "Shear acts at y",
             "m",
             Kind.NUMBER,
-            "Plan y of the point the storey shear acts at (optional).",
+            "Plan y of the point the storey shear acts at (optional; blank: the centre of rigidity).",
             required=False,
             min=-1000,
             max=1000,
@@ -519,5 +579,25 @@ def markdown() -> str:
     return "\n".join(out)
 
 
+def rewrite_readme(path: str) -> None:
+    """Replace the text between the README's layout markers with `markdown()`."""
+    import re
+    from pathlib import Path
+
+    text = Path(path).read_text(encoding="utf-8")
+    new = re.sub(
+        r"(<!-- layout:start[^\n]*\n).*?(<!-- layout:end -->)",
+        lambda m: m.group(1) + markdown() + "\n" + m.group(2),
+        text,
+        flags=re.S,
+    )
+    Path(path).write_text(new, encoding="utf-8")
+
+
 if __name__ == "__main__":
-    print(markdown())
+    import sys
+
+    if len(sys.argv) > 1:
+        rewrite_readme(sys.argv[1])
+    else:
+        print(markdown())

@@ -14,6 +14,8 @@ class Settings(BaseModel):
     phi_shear: float | None = None
     shear_height: str = "storey clear height"
     pier_fixity: str = "fixed-fixed"
+    wall_nm: str = "composite section"
+    accidental: float = 0.0
     poisson: float = 0.2
 
 

@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, distribution, geometry, results
+from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -41,11 +41,14 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     """Run every check on a validated building and lay out the result sheets."""
     s = building.settings
     geom = geometry.derive(building.storeys, building.walls, building.openings)
-    piers = distribution.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
-    acts = distribution.pier_actions(piers, building.member_actions)
+    piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
+    walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
+    plans = distribution.storey_plans(piers, walls)
+    acts, core = pier_actions(building, piers, walls, plans)
     shear = check_pier_shear(piers, acts, s)
     summary = envelope(shear, piers)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
+    sections = distribution.sections_table(plans, building.storey_index())
     sheets = [
         ResultSheet(
             results.SUMMARY_SHEET,
@@ -64,8 +67,8 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
             + [
                 ("Height for Hw/Lw", s.shear_height),
                 (
-                    "Sharing of wall V*",
-                    f"by pier stiffness, {s.pier_fixity}, nu = {s.poisson:g}; N* and M* are not shared yet",
+                    "Wall actions to piers",
+                    f"V* by pier stiffness ({s.pier_fixity}, nu = {s.poisson:g}); N* and M* by {s.wall_nm}",
                 ),
             ],
             scale_key="util",
@@ -78,8 +81,103 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
             members_table(piers, geom.lintels),
             preamble=stamp,
         ),
+        ResultSheet(
+            results.SECTION_SHEET,
+            f"{results.MARKER}: net core section and centre of rigidity per storey (walls as "
+            "centreline rectangles, corner overlaps once, openings removed)",
+            results.SECTION_COLUMNS,
+            sections,
+            preamble=stamp
+            + [
+                (
+                    "Stiffness",
+                    f"flexure + shear, {s.pier_fixity}, nu = {s.poisson:g}; "
+                    "walls with openings: solid - strip + piers in parallel",
+                )
+            ],
+        ),
     ]
+    if core is not None:
+        sheets.append(
+            ResultSheet(
+                results.CORE_SHEET,
+                f"{results.MARKER}: core actions shared to walls (rigid floor) and piers",
+                results.CORE_COLUMNS,
+                core,
+                preamble=stamp
+                + [
+                    (
+                        "Walls",
+                        "direct shear by stiffness through the centre of rigidity; torsion "
+                        "M about CR = T* + Vy* (x - xr) - Vx* (y - yr), shared by k r / sum k r^2",
+                    ),
+                    (
+                        "Accidental eccentricity",
+                        f"{s.accidental:g} x plan dimension, in the sense that increases each wall's force",
+                    ),
+                    (
+                        "Piers",
+                        "V* = wall V* x k / sum k; N* = core stress N/A +- M y / I integrated "
+                        "over the pier; M* = V* h / 2 (contraflexure at mid-height)",
+                    ),
+                    (
+                        "Precedence",
+                        "where member actions exist for a storey and combination they are "
+                        "used and these shares are not (column 'Used')",
+                    ),
+                ],
+            )
+        )
     return Outcome(building, findings, geom, shear, summary, sheets)
+
+
+def pier_actions(
+    building: Building, piers: pd.DataFrame, walls: pd.DataFrame, plans: dict
+) -> tuple[pd.DataFrame, pd.DataFrame | None]:
+    """Pier actions from the member-actions sheet and, for storey x combination pairs it does
+    not cover, from the core-actions sheet. Returns them and the core-sharing table."""
+    s = building.settings
+    member = distribution.pier_actions(piers, building.member_actions, s.wall_nm)
+    member["origin"] = 0
+    if building.core_actions.empty:
+        return member, None
+    core = distribution.core_actions_to_piers(piers, walls, plans, building.core_actions, s.accidental)
+    given = set(zip(building.member_actions.storey, building.member_actions.combination, strict=True))
+    used = np.array(
+        [k not in given for k in zip(core.piers.storey, core.piers.combination, strict=True)], dtype=bool
+    )
+    core_piers = core.piers[used].assign(origin=1)
+    table = core_table(core, given)
+    return pd.concat([member, core_piers], ignore_index=True), table
+
+
+def core_table(core: distribution.CoreSharing, given: set) -> pd.DataFrame:
+    """Walls and piers of the core sharing, one sheet's rows, with the working as text."""
+    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan)
+    w["working"] = [
+        f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
+        f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
+        for d, t, v, m, a in zip(w.direct, w.torsion, w.v, w.m_cr, w.m_acc, strict=True)
+    ]
+    p = core.piers.assign(
+        member=core.piers.pier_id,
+        kind="pier",
+        k=core.piers.k * 1e-3,
+        share_pct=core.piers.share * 100,
+        working=core.piers.source,
+    )
+    out = pd.concat([w, p], ignore_index=True)
+    out["used"] = [
+        "no: member actions given" if (a, b) in given else "yes"
+        for a, b in zip(out.storey, out.combination, strict=True)
+    ]
+    out["kind_order"] = (out.kind == "pier").astype(int)
+    out = out.sort_values(
+        ["row", "kind_order", "member"],
+        kind="stable",
+        key=lambda c: c.map(geometry._natural) if c.name == "member" else c,
+    )
+    return out.reset_index(drop=True)
 
 
 def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:

@@ -44,6 +44,8 @@ def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
 
 
 SHEAR_SHEET = RESULT_PREFIX + "shear"
+SECTION_SHEET = RESULT_PREFIX + "core section"
+CORE_SHEET = RESULT_PREFIX + "core shares"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
 
@@ -113,6 +115,44 @@ MEMBER_COLUMNS = [
     _c("rho_h", "rho_h", None, "0.00000", 9),
     _c("k", "k", "kN/mm", "0", 9),
     _c("note", "Note", width=40),
+]
+
+
+SECTION_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("area", "A", "m2", "0.000", 9),
+    _c("xc", "Centroid x", "m", "0.000"),
+    _c("yc", "Centroid y", "m", "0.000"),
+    _c("ixx", "Ixx", "m4", "0.000"),
+    _c("iyy", "Iyy", "m4", "0.000"),
+    _c("ixy", "Ixy", "m4", "0.000"),
+    _c("i1", "I1", "m4", "0.000"),
+    _c("i2", "I2", "m4", "0.000"),
+    _c("angle", "Axis 1 from x", "deg", "0.0"),
+    _c("xr", "Centre of rigidity x", "m", "0.000", 13),
+    _c("yr", "Centre of rigidity y", "m", "0.000", 13),
+    _c("bx", "Plan width x", "m", "0.000"),
+    _c("by", "Plan width y", "m", "0.000"),
+]
+
+CORE_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("combination", "Combination", width=15),
+    _c("member", "Member", width=9),
+    _c("kind", "Kind", width=6),
+    _c("k", "k", "kN/mm", "0", 9),
+    _c("share_pct", "Share", "%", "0.0", 8),
+    _c("direct", "Direct V*", "kN", "0.0"),
+    _c("torsion", "Torsion V*", "kN", "0.0"),
+    _c("v", "V*", "kN", "0.0"),
+    _c("n", "N*", "kN", "0.0"),
+    _c("m", "M*", "kNm", "0.0"),
+    _c("xr", "CR x", "m", "0.000", 8),
+    _c("yr", "CR y", "m", "0.000", 8),
+    _c("m_cr", "M about CR", "kNm", "0.0"),
+    _c("m_acc", "Accidental M", "kNm", "0.0"),
+    _c("used", "Used", width=22),
+    _c("working", "Working", width=70),
 ]
 
 

@@ -10,7 +10,7 @@ from collections import defaultdict
 import numpy as np
 import pandas as pd
 
-from xlcore import geometry, layout
+from xlcore import diaphragm, geometry, layout
 from xlcore.codes.as3600 import STANDARD_GRADES
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
@@ -36,7 +36,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
         geom = geometry.derive(storeys, walls, openings)
         _pier_warnings(geom, f)
     actions = _member_actions(tables["member_actions"], storeys, geom, f)
-    core = _core_actions(tables["core_actions"], storeys, f)
+    core = _core_actions(tables["core_actions"], storeys, geom, f)
     if f.errors:
         raise InputInvalid(f)
     building = Building(
@@ -603,10 +603,39 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
     return df
 
 
-def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> pd.DataFrame:
+def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:
+    """Core actions need walls that resist both shear directions and torsion at that storey."""
+    first = df.dropna(subset=["storey"]).drop_duplicates("storey")
+    walls = geom.piers.drop_duplicates(["storey", "wall_id"])
+    for rec in first.itertuples(index=False):
+        w = walls[walls.storey == rec.storey]
+        if w.empty:
+            continue
+        st = diaphragm.Storey(
+            np.ones(len(w)),
+            w.ux.to_numpy(),
+            w.uy.to_numpy(),
+            (w.wx + w.ux * w.wall_length / 2).to_numpy(),
+            (w.wy + w.uy * w.wall_length / 2).to_numpy(),
+        )
+        try:
+            diaphragm.centre_of_rigidity(st)
+        except diaphragm.Unstable:
+            f.error(
+                layout.CORE_ACTIONS.name,
+                _at(df, "storey", rec.row),
+                f"the walls at storey {rec.storey} ({', '.join(w.wall_id)}) cannot resist shear in "
+                "both directions and torsion (all parallel or all meeting at one point); expected "
+                "member actions for this storey instead of core actions",
+            )
+
+
+def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findings) -> pd.DataFrame:
     t = layout.CORE_ACTIONS
     if df is None:
         return pd.DataFrame(columns=["row", *t.keys])
+    if geom is not None:
+        _stable_storeys(df, geom, f)
     index = {s.name for s in storeys}
     seen: dict[tuple, int] = {}
     for rec in df[["row", "storey", "combination"]].itertuples(index=False):

@@ -34,11 +34,6 @@ def check_pier_shear(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
     rho_req, capped = as3600.wall_rho_required(df.v * 1e3, r.phi, r.vuc, r.vu_max, df.fsy, df.Lw, df.tw)
     df["rho_req"] = rho_req
     df["advice"] = _advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r.rho_w)
-    df["source"] = np.where(
-        df.source == "wall",
-        [f"wall {w} share of {v:.1f} kN" for w, v in zip(df.wall_id, df.v_wall, strict=True)],
-        "given for the pier",
-    )
     df["f_vuc"] = _vuc_text(df)
     df["f_vu"] = [
         f"Vus = {rw:.5f} x {fy:g} x 0.8 x {lw:.0f} x {t:.0f} = {vs:.1f} kN; "
@@ -53,7 +48,8 @@ def check_pier_shear(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
         for v, pv, u in zip(df.v, df.phi_vu, df.util, strict=True)
     ]
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
-    return df.sort_values(["row", "position"], kind="stable").reset_index(drop=True)
+    order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
+    return df.sort_values(order, kind="stable").reset_index(drop=True)
 
 
 def _vuc_text(df: pd.DataFrame) -> list[str]:

@@ -1,0 +1,70 @@
+"""Storey shear and torsion shared among walls by a rigid floor diaphragm.
+
+Mechanics only. Each wall resists force along its own line (a wall at an angle contributes
+its components). With wall stiffness k, direction (ux, uy) and a point (px, py) on its line,
+the storey's stiffness about the plan origin is K = sum k g g^T, g = (ux, uy, px uy - py ux);
+the displacements (dx, dy, rotation) under the storey loads give each wall's force k g.u.
+For walls in two orthogonal directions this is the textbook centre-of-rigidity method
+(direct shear by k / sum k, torsion by k r / sum k r^2; Taly Ch. 7).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class Storey:
+    """Walls of one storey: arrays of equal length."""
+
+    k: np.ndarray
+    ux: np.ndarray
+    uy: np.ndarray
+    px: np.ndarray
+    py: np.ndarray
+
+    @property
+    def g(self) -> np.ndarray:
+        return np.vstack([self.ux, self.uy, self.px * self.uy - self.py * self.ux])  # 3 x walls
+
+    @property
+    def K(self) -> np.ndarray:
+        g = self.g
+        return (g * self.k) @ g.T
+
+
+class Unstable(ValueError):
+    """The walls cannot resist both shear directions and torsion (parallel or concurrent)."""
+
+
+def centre_of_rigidity(st: Storey) -> tuple[float, float]:
+    """The point through which a horizontal force causes no rotation of the floor."""
+    K = st.K
+    if np.linalg.cond(K) > 1e12:
+        raise Unstable("walls cannot resist shear in both directions and torsion")
+    f = np.linalg.inv(K)[2]
+    return float(-f[1] / f[2]), float(f[0] / f[2])
+
+
+@dataclass(frozen=True)
+class Shares:
+    """Wall forces [force units of the loads], walls x load cases."""
+
+    direct: np.ndarray  # from Vx, Vy acting through the centre of rigidity
+    torsion: np.ndarray  # from the moment about the centre of rigidity
+    total: np.ndarray
+
+
+def share(st: Storey, vx, vy, m_cr) -> Shares:
+    """Forces in each wall for storey shears (vx, vy) and moment m_cr about the centre of
+    rigidity (anticlockwise positive); vx, vy, m_cr are arrays over load cases."""
+    xr, yr = centre_of_rigidity(st)
+    vx, vy, m_cr = np.broadcast_arrays(*(np.atleast_1d(np.asarray(a, dtype=float)) for a in (vx, vy, m_cr)))
+    Kinv = np.linalg.inv(st.K)
+    gk = st.g.T * st.k[:, None]  # walls x 3
+    through_cr = np.vstack([vx, vy, xr * vy - yr * vx])  # force at CR, moment about origin
+    direct = gk @ (Kinv @ through_cr)
+    torsion = gk @ (Kinv @ np.vstack([np.zeros_like(m_cr), np.zeros_like(m_cr), m_cr]))
+    return Shares(direct, torsion, direct + torsion)
