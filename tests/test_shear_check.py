@@ -97,9 +97,11 @@ def test_piers_without_actions_are_listed_not_checked(demo_book):
     assert "no actions" in sw3.note.iloc[0]
 
 
-def test_summary_is_worst_combination_per_pier_per_storey(demo_book):
+def test_summary_is_worst_check_and_combination_per_pier_per_storey(demo_book):
     o = outcome(demo_book)
-    worst = o.shear.groupby(["storey", "pier_id"]).util.max()
-    s = o.summary.set_index(["storey", "pier_id"]).util
-    assert np.allclose(s.loc[worst.index].to_numpy(), worst.to_numpy())
+    s = o.summary.set_index(["storey", "pier_id"])
+    shear_worst = o.shear.groupby(["storey", "pier_id"]).util.max()
+    assert np.allclose(s.loc[shear_worst.index, "u_shear"].to_numpy(), shear_worst.to_numpy())
+    governing = s[["u_shear", "u_nm", "u_simplified"]].max(axis=1)
+    assert np.allclose(s.util.to_numpy(), governing.to_numpy())
     assert len(o.summary) == len(o.geometry.piers)

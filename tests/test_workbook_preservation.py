@@ -28,6 +28,7 @@ from xlcore.workbook.writer import backup_path, write_results
 DEMO_RESULT_SHEETS = [
     results.SUMMARY_SHEET,
     results.SHEAR_SHEET,
+    results.AXIAL_SHEET,
     results.MEMBERS_SHEET,
     results.SECTION_SHEET,
     results.CORE_SHEET,

@@ -6,13 +6,11 @@ base, gravity accumulates down the building); it is example data, not a design.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
 GRAVITY_G = 2300.0  # kN per storey of dead load reaching the core (invented)
 GRAVITY_Q = 650.0  # kN per storey of live load reaching the core (invented)
-BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 6400.0, "Ey": 6400.0}  # kN (invented)
+BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 3800.0, "Ey": 3800.0}  # kN (invented)
 SHEAR_POINT = (7.2, 3.0)  # m: where the storey shear acts (invented centre of mass)
 
 COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
@@ -115,94 +113,64 @@ def openings() -> list[dict]:
     ]
 
 
-def _pieces(storey: int) -> list[tuple[str, str, float, float, float, float]]:
-    """(member, wall, length m, centroid x, centroid y, direction) at a storey; piers listed."""
-    names = [s["name"] for s in storeys()]
-    out = []
-    for wid, x1, y1, x2, y2 in _LIFT + _STAIR:
-        length = math.hypot(x2 - x1, y2 - y1)
-        along_x = abs(x2 - x1) > abs(y2 - y1)
-        cuts = [
-            (o["offset"], o["offset"] + o["width"])
-            for o in openings()
-            if o["wall_id"] == wid and names.index(o["storey_from"]) <= storey <= names.index(o["storey_to"])
-        ]
-        edges = [0.0] + [e for c in cuts for e in c] + [length]
-        parts = [(a, b) for a, b in zip(edges[::2], edges[1::2], strict=True) if b - a > 1e-6]
-        for k, (a, b) in enumerate(parts, start=1):
-            mid = (a + b) / 2 / length
-            name = wid if len(parts) == 1 else f"{wid}-{k}"
-            out.append(
-                (name, wid, b - a, x1 + (x2 - x1) * mid, y1 + (y2 - y1) * mid, 0.0 if along_x else 1.0)
-            )
-    return out
-
-
-def actions() -> tuple[list[dict], list[dict]]:
-    """Member actions for every pier and core actions, per storey and combination."""
+def core_actions() -> list[dict]:
+    """Storey resultants of the whole core per combination (invented loads)."""
     st = storeys()
-    n = len(st)
     tops = np.array([s["level"] + s["height"] for s in st])
-    bases = np.array([s["level"] for s in st])
     weights = tops / tops.sum()  # inverted-triangle floor forces (common practice, no source)
-    member_rows, core_rows = [], []
+    rows = []
     for i, s in enumerate(st):
-        pieces = _pieces(i)
-        length = np.array([p[2] for p in pieces])
-        px = np.array([p[3] for p in pieces])
-        py = np.array([p[4] for p in pieces])
-        in_y = np.array([p[5] for p in pieces])
-        area = length * 0.25
-        cx, cy = (area * px).sum() / area.sum(), (area * py).sum() / area.sum()
-        ix, iy = (area * (py - cy) ** 2).sum(), (area * (px - cx) ** 2).sum()
-        above = n - i
+        above = len(st) - i
         for name, g, q, case, lf in COMBINATIONS:
-            grav = (g * GRAVITY_G + q * GRAVITY_Q) * above
             v = m = 0.0
-            direction = None
             if case:
                 forces = BASE_SHEAR[case] * weights
                 v = lf * forces[i:].sum()
-                m = lf * (forces[i:] * (tops[i:] - bases[i])).sum()
-                direction = 1.0 if case.endswith("y") else 0.0
-            n_member = grav * length / length.sum()
-            v_member = np.zeros_like(length)
-            m_member = np.zeros_like(length)
-            if direction is not None:
-                parallel = in_y == direction
-                share = np.where(parallel, length**2, 0.0)
-                share = share / share.sum()
-                v_member = v * share
-                m_member = 0.35 * m * share  # walls keep part of M; the rest is axial couple
-                lever = (px - cx) / iy if direction == 0.0 else (py - cy) / ix
-                n_member = n_member - 0.65 * m * area * lever
-            for (mem, *_), nn, vv, mm in zip(pieces, n_member, v_member, m_member, strict=True):
-                member_rows.append(
-                    dict(
-                        storey=s["name"],
-                        combination=name,
-                        member=mem,
-                        n=_r(nn),
-                        v=_r(vv),
-                        m=_r(mm),
-                        m_out=None,
-                    )
-                )
-            core_rows.append(
+                m = lf * (forces[i:] * (tops[i:] - s["level"])).sum()
+            along_y = bool(case) and case.endswith("y")
+            rows.append(
                 dict(
                     storey=s["name"],
                     combination=name,
-                    n=_r(grav),
-                    vx=_r(v if direction == 0.0 else 0.0),
-                    vy=_r(v if direction == 1.0 else 0.0),
-                    mx=_r(m if direction == 1.0 else 0.0),
-                    my=_r(m if direction == 0.0 else 0.0),
-                    t=_r(0.05 * 13.2 * abs(v)),
+                    n=_r((g * GRAVITY_G + q * GRAVITY_Q) * above),
+                    vx=_r(0.0 if along_y else v),
+                    vy=_r(v if along_y else 0.0),
+                    mx=_r(m if along_y else 0.0),
+                    my=_r(0.0 if along_y else m),
+                    t=0.0,
                     x_v=SHEAR_POINT[0],
                     y_v=SHEAR_POINT[1],
                 )
             )
-    return member_rows, core_rows
+    return rows
+
+
+def member_actions(core_rows: list[dict]) -> list[dict]:
+    """Pier actions for every storey and combination: the core actions shared out by xlcore's
+    own stiffness method with 5 % accidental eccentricity, as an analysis might report them."""
+    import pandas as pd
+
+    from xlcore import distribution, geometry, stiffness
+    from xlcore.model import Opening, Storey, WallRun
+
+    st = [Storey(index=i, **s) for i, s in enumerate(storeys())]
+    geom = geometry.derive(st, [WallRun(**w) for w in walls()], [Opening(**o) for o in openings()])
+    piers = stiffness.with_stiffness(geom.piers, PROJECT["poisson"], PROJECT["pier_fixity"])
+    wl = stiffness.wall_stiffness(piers, PROJECT["poisson"], PROJECT["pier_fixity"])
+    core = pd.DataFrame(core_rows).assign(row=range(2, len(core_rows) + 2))
+    shares = distribution.core_actions_to_piers(piers, wl, distribution.storey_plans(piers, wl), core, 0.05)
+    return [
+        dict(
+            storey=r.storey,
+            combination=r.combination,
+            member=r.pier_id,
+            n=_r(r.n),
+            v=_r(r.v),
+            m=_r(r.m),
+            m_out=None,
+        )
+        for r in shares.piers.itertuples(index=False)
+    ]
 
 
 def _r(x: float) -> float:
@@ -212,7 +180,8 @@ def _r(x: float) -> float:
 
 def sheets() -> dict[str, list[dict] | dict]:
     """Demo data keyed by layout sheet key; records keyed by layout column key."""
-    member_rows, core_rows = actions()
+    core_rows = core_actions()
+    member_rows = member_actions(core_rows)
     return dict(
         project=PROJECT,
         storeys=storeys(),

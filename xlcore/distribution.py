@@ -48,7 +48,9 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     Either way the pier forces sum back to the wall's N*, V* and M* (about the piers' centroid).
     """
     cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
-    base = actions[["row", "storey", "combination", "member", "n", "v", "m"]]
+    if "m_out" not in actions:  # optional column
+        actions = actions.assign(m_out=np.nan)
+    base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
     direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
     direct["share"] = 1.0
     direct["source"] = "given for the pier"
@@ -72,6 +74,7 @@ def _share_wall(df: pd.DataFrame, method: str) -> pd.DataFrame:
     couple_i = (area * lever**2).groupby(df.row).transform("sum")
     v_wall, n_wall, m_wall = df.v.copy(), df.n.copy(), df.m.copy()
     df["v"] = v_wall * df.share
+    df["m_out"] = df.m_out * df.Lw / df.Lw.groupby(df.row).transform("sum")  # by length
     if method == COMPOSITE:
         i_tot = couple_i + own_i.groupby(df.row).transform("sum")
         df["n"] = area * (n_wall / a_tot + m_wall * lever / i_tot)

@@ -9,6 +9,7 @@ import math
 import re
 from dataclasses import dataclass
 
+import numpy as np
 import pandas as pd
 
 from xlcore.model import Opening, Storey, WallRun
@@ -40,6 +41,10 @@ PIER_COLUMNS = [
     "uy",
     "wall_length",  # whole wall [m]
     "strip",  # height of the band holding the wall's openings at this storey [mm], NaN if none
+    "v_dia",
+    "v_spacing",
+    "h_dia",
+    "h_spacing",
 ]
 LINTEL_COLUMNS = [
     "storey",
@@ -143,6 +148,10 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                 uy,
                 w.length,
                 strip,
+                w.v_dia,
+                w.v_spacing,
+                w.h_dia,
+                w.h_spacing,
             )
             hc = s.clear_height * 1000.0
             if not here:
@@ -201,10 +210,49 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
         piers["px" + end] = piers.wx + piers.ux * along
         piers["py" + end] = piers.wy + piers.uy * along
     piers["mx"], piers["my"] = (piers.px1 + piers.px2) / 2, (piers.py1 + piers.py2) / 2
+    piers["supported_edges"] = supported_edges(piers)
     return Geometry(
         piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
+
+
+def supported_edges(piers: pd.DataFrame) -> np.ndarray:
+    """How many of each pier's vertical edges are braced by a return wall (0, 1 or 2).
+
+    An edge is braced where it is an end of its wall and another, non-parallel wall at the same
+    storey passes within half its thickness (plus 10 mm) of that end point. Edges at openings
+    are free.
+    """
+    out = np.zeros(len(piers), dtype=int)
+    walls = piers.drop_duplicates(["storey", "wall_id"])
+    for storey, sw in walls.groupby("storey", sort=False):
+        ends: dict[tuple[str, int], bool] = {}
+        for w in sw.itertuples(index=False):
+            for which, (x, y) in (
+                (0, (w.wx, w.wy)),
+                (1, (w.wx + w.ux * w.wall_length, w.wy + w.uy * w.wall_length)),
+            ):
+                ends[(w.wall_id, which)] = any(
+                    abs(w.ux * o.uy - w.uy * o.ux) > 0.5
+                    and _distance_to_segment(x, y, o.wx, o.wy, o.ux, o.uy, o.wall_length)
+                    <= o.tw / 2000 + 0.01
+                    for o in sw.itertuples(index=False)
+                    if o.wall_id != w.wall_id
+                )
+        here = (piers.storey == storey).to_numpy()
+        sp = piers[here]
+        at_start = (sp.start <= TOL).to_numpy() & np.array([ends[(w, 0)] for w in sp.wall_id], dtype=bool)
+        at_end = (sp.wall_length - sp.end <= TOL).to_numpy() & np.array(
+            [ends[(w, 1)] for w in sp.wall_id], dtype=bool
+        )
+        out[here] = at_start.astype(int) + at_end.astype(int)
+    return out
+
+
+def _distance_to_segment(x, y, x0, y0, ux, uy, length) -> float:
+    t = min(max((x - x0) * ux + (y - y0) * uy, 0.0), length)
+    return math.hypot(x - (x0 + ux * t), y - (y0 + uy * t))
 
 
 def _natural(text: str) -> tuple:

@@ -212,6 +212,50 @@ PROJECT = SettingsSheet(
             max=0.3,
         ),
         Setting(
+            "phi_compression",
+            "phi0 for compression with bending",
+            None,
+            Kind.NUMBER,
+            None,
+            "Capacity reduction factor where compression dominates (Table 2.2.2). Blank: 0.6 "
+            "(Amendment 2 gives 0.65 k_phi: verify against your edition).",
+            min=0.5,
+            max=0.9,
+        ),
+        Setting(
+            "phi_simplified",
+            "phi for the Cl 11.5 simplified method",
+            None,
+            Kind.NUMBER,
+            None,
+            "Blank: 0.65 (2018; 0.6 in the 2009 edition: verify against your edition).",
+            min=0.5,
+            max=0.9,
+        ),
+        Setting(
+            "ends_restrained",
+            "Walls restrained against rotation at floors",
+            None,
+            Kind.CHOICE,
+            "no",
+            "Cl 11.4 effective height factor for walls braced top and bottom: yes -> k = 0.75, "
+            "no -> k = 1.0. Return walls at a wall's ends are found from the plan and lower k "
+            "by the three- and four-side formulas.",
+            choices=YES_NO,
+        ),
+        Setting(
+            "compression_limit",
+            "Elastic peak compression limit",
+            "x f'c",
+            Kind.NUMBER,
+            0.15,
+            "Core stress check: peak elastic compression above this fraction of f'c is flagged "
+            "(0.15 f'c: boundary elements of limited-ductile walls, AS 3600:2018 Section 14, "
+            "from design notes: verify).",
+            min=0.05,
+            max=1.0,
+        ),
+        Setting(
             "poisson",
             "Poisson's ratio of concrete",
             None,

@@ -16,6 +16,10 @@ class Settings(BaseModel):
     pier_fixity: str = "fixed-fixed"
     wall_nm: str = "composite section"
     accidental: float = 0.0
+    phi_compression: float | None = None
+    phi_simplified: float | None = None
+    ends_restrained: str = "no"
+    compression_limit: float = 0.15
     poisson: float = 0.2
 
 

@@ -10,6 +10,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
+from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -46,7 +47,8 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     plans = distribution.storey_plans(piers, walls)
     acts, core = pier_actions(building, piers, walls, plans)
     shear = check_pier_shear(piers, acts, s)
-    summary = envelope(shear, piers)
+    axial = check_pier_axial(piers, acts, s)
+    summary = envelope(shear, piers, axial)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     sections = distribution.sections_table(plans, building.storey_index())
     sheets = [
@@ -69,6 +71,28 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 (
                     "Wall actions to piers",
                     f"V* by pier stiffness ({s.pier_fixity}, nu = {s.poisson:g}); N* and M* by {s.wall_nm}",
+                ),
+            ],
+            scale_key="util",
+        ),
+        ResultSheet(
+            results.AXIAL_SHEET,
+            f"{results.MARKER}: axial load and in-plane bending of piers ({s.standard} Cl 8.1.3, 10.6, "
+            "Table 2.2.2) and the simplified method Cl 11.5",
+            results.AXIAL_COLUMNS,
+            axial,
+            preamble=stamp
+            + [
+                ("Utilisation", "the larger of |M*| / phiMu at N* and N* / phiNuo (tension: N* / 0.85 Nuot)"),
+                (
+                    "Section",
+                    "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
+                    "spacing, end bars at cover + db/2; stress block Cl 8.1.3; bars displace concrete",
+                ),
+                (
+                    "Cl 11.5",
+                    "uniform N* over the pier; e from out-of-plane M*, at least 0.05 tw; in-plane "
+                    "moment not included (the strain-compatibility check covers it)",
                 ),
             ],
             scale_key="util",
@@ -212,23 +236,77 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
     return lines
 
 
-def envelope(shear: pd.DataFrame, piers: pd.DataFrame) -> pd.DataFrame:
-    """Worst combination per storey x pier; piers without actions listed as not checked."""
+def _candidates(shear: pd.DataFrame, axial: pd.DataFrame) -> pd.DataFrame:
+    """Every check's rows in one shape: storey, pier, check, combination, demand, capacity, U."""
+    cols = [
+        "storey",
+        "pier_id",
+        "check",
+        "combination",
+        "demand",
+        "capacity",
+        "unit",
+        "util",
+        "status",
+        "clause",
+        "note",
+    ]
+    parts = [
+        shear.assign(
+            check=CHECK_SHEAR, demand=shear.v.abs(), capacity=shear.phi_vu, unit="kN", note=shear.advice
+        )[cols]
+    ]
+    if len(axial):
+        parts.append(
+            axial.assign(
+                check=CHECK_NM,
+                demand=axial.m.abs(),
+                capacity=axial.phi_mu,
+                unit="kNm",
+                note=np.where(axial.governs == "axial", "axial force governs", ""),
+            )[cols]
+        )
+        s = axial[axial.status_s != results.NOT_APPLICABLE]
+        parts.append(
+            s.assign(
+                check=CHECK_SIMPLIFIED,
+                demand=s.n,
+                capacity=s.phi_nu_s,
+                unit="kN",
+                util=s.util_s,
+                status=s.status_s,
+                clause="Cl 11.5.1",
+                note="",
+            )[cols]
+        )
+    return pd.concat(parts, ignore_index=True)
+
+
+CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", "axial + bending", "Cl 11.5 compression"
+UTIL_COLUMN = {CHECK_SHEAR: "u_shear", CHECK_NM: "u_nm", CHECK_SIMPLIFIED: "u_simplified"}
+
+
+def envelope(shear: pd.DataFrame, piers: pd.DataFrame, axial: pd.DataFrame | None = None) -> pd.DataFrame:
+    """Governing check and worst combination per storey x pier, with each check's worst
+    utilisation beside it; piers without actions are listed as not checked."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
-    if len(shear):
-        worst = shear.loc[shear.groupby(["storey", "pier_id"], sort=False).util.idxmax()].copy()
+    cand = _candidates(shear, axial if axial is not None else pd.DataFrame())
+    keys = ["storey", "pier_id"]
+    if len(cand):
+        worst = cand.loc[cand.groupby(keys, sort=False).util.idxmax()]
+        per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
+        per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
+        worst = worst.merge(per_check, on=keys, how="left")
     else:
-        worst = shear.copy()
-    worst["check"] = "in-plane shear"
-    worst["demand"] = worst.v.abs()
-    worst["capacity"] = worst.phi_vu
-    worst["unit"] = "kN"
-    worst["note"] = worst.advice
+        worst = cand
     order = piers[["storey", "storey_index", "pier_id", "wall_id", "position"]]
-    table = order.merge(worst, on=["storey", "pier_id"], how="left", suffixes=("", "_w"))
+    table = order.merge(worst, on=keys, how="left")
+    for c in UTIL_COLUMN.values():
+        if c not in table:
+            table[c] = np.nan
     missing = table.util.isna()
     table.loc[missing, "status"] = results.NOT_CHECKED
-    table.loc[missing, "check"] = "in-plane shear"
+    table.loc[missing, "check"] = ""
     table.loc[missing, "note"] = "no actions for this pier or its wall at this storey"
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],

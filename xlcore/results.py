@@ -10,7 +10,7 @@ import pandas as pd
 from xlcore.layout import RESULT_PREFIX
 
 MARKER = "xlcore results"  # first words of A1 on every result sheet: how xlcore knows its own
-PASS, FAIL, NOT_CHECKED = "pass", "FAIL", "not checked"
+PASS, FAIL, NOT_CHECKED, NOT_APPLICABLE = "pass", "FAIL", "not checked", "n/a"
 STAMP_HASH_LABEL = "Input hash (SHA-256)"  # stamp line `check` reads to tell stale results
 
 
@@ -45,6 +45,7 @@ def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
 
 SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
+AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 CORE_SHEET = RESULT_PREFIX + "core shares"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
@@ -88,7 +89,7 @@ SHEAR_COLUMNS = [
 SUMMARY_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("pier_id", "Pier", width=9),
-    _c("check", "Check", width=16),
+    _c("check", "Governing check", width=18),
     _c("combination", "Worst combination", width=16),
     _c("demand", "Demand", None, "0.0"),
     _c("capacity", "Capacity", None, "0.0"),
@@ -96,6 +97,9 @@ SUMMARY_COLUMNS = [
     _c("util", "Utilisation", None, "0.000", 10),
     _c("status", "Status", width=12),
     _c("clause", "Governing clause", width=24),
+    _c("u_shear", "U shear", None, "0.000", 9),
+    _c("u_nm", "U axial + bending", None, "0.000", 10),
+    _c("u_simplified", "U Cl 11.5", None, "0.000", 9),
     _c("note", "Note", width=48),
 ]
 
@@ -117,6 +121,42 @@ MEMBER_COLUMNS = [
     _c("note", "Note", width=40),
 ]
 
+
+AXIAL_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("combination", "Combination", width=15),
+    _c("n", "N*", "kN", "0.0"),
+    _c("m", "M* in-plane", "kNm", "0.0"),
+    _c("m_out", "M* out-of-plane", "kNm", "0.0"),
+    _c("Lw", "Lw", "mm", "0", 8),
+    _c("tw", "tw", "mm", "0", 7),
+    _c("fc", "f'c", "MPa", "0", 7),
+    _c("as_total", "As", "mm2", "0", 8),
+    _c("nuo", "Nuo", "kN", "0.0"),
+    _c("phi_nuo", "phi Nuo", "kN", "0.0"),
+    _c("nuot", "Nuot", "kN", "0.0"),
+    _c("nub", "Nub", "kN", "0.0"),
+    _c("kuo", "kuo", None, "0.000", 7),
+    _c("dn", "dn at N*", "mm", "0", 8),
+    _c("mu", "Mu at N*", "kNm", "0.0"),
+    _c("phi", "phi", None, "0.000", 7),
+    _c("phi_mu", "phi Mu at N*", "kNm", "0.0"),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=8),
+    _c("governs", "Governs", width=13),
+    _c("clause", "Clause", width=22),
+    _c("f_nm", "Working", width=70),
+    _c("k", "k (Cl 11.4)", None, "0.000", 8),
+    _c("hwe", "Hwe", "mm", "0", 8),
+    _c("slender", "Hwe/tw", None, "0.0", 7),
+    _c("e", "e", "mm", "0.0", 7),
+    _c("ea", "ea", "mm", "0.0", 7),
+    _c("phi_nu_s", "phi Nu Cl 11.5", "kN", "0.0"),
+    _c("util_s", "U Cl 11.5", None, "0.000", 9),
+    _c("status_s", "Status Cl 11.5", width=9),
+    _c("f_s", "Cl 11.5 working", width=70),
+]
 
 SECTION_COLUMNS = [
     _c("storey", "Storey", width=8),

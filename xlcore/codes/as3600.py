@@ -150,3 +150,98 @@ def wall_rho_required(v_star, phi, vuc, vu_max, fsy, Lw, tw):
     need = np.abs(np.asarray(v_star, dtype=float)) / np.asarray(phi, dtype=float)
     rho = np.maximum(need - vuc, 0.0) / (np.asarray(fsy, dtype=float) * wall_shear_area(Lw, tw))
     return rho, need > vu_max
+
+
+# ---------------------------------------------------------------- axial load and bending
+
+EPS_CU = 0.003
+"""Cl 8.1.3: maximum concrete strain at the extreme compressive fibre."""
+
+ES = 200_000.0
+"""Cl 3.2.2: modulus of elasticity of reinforcement [MPa]."""
+
+PHI_COMPRESSION = 0.6
+"""Table 2.2.2: phi0 for members in dominant compression (2018 text as commonly quoted;
+Amendment 2 gives 0.65 k_phi - verify; a Project setting)."""
+
+PHI_TENSION = 0.85
+"""Table 2.2.2: phi for members in axial tension, Class N reinforcement."""
+
+
+def alpha2(fc):
+    """alpha2 = 0.85 - 0.0015 f'c, not less than 0.67: stress block intensity, Cl 8.1.3."""
+    return np.maximum(0.85 - 0.0015 * np.asarray(fc, dtype=float), 0.67)
+
+
+def gamma(fc):
+    """gamma = 0.97 - 0.0025 f'c, not less than 0.67: stress block depth ratio, Cl 8.1.3."""
+    return np.maximum(0.97 - 0.0025 * np.asarray(fc, dtype=float), 0.67)
+
+
+def alpha1(fc):
+    """alpha1 = 1 - 0.003 f'c within 0.72..0.85: concrete stress in the squash load, Cl 10.6.2.2."""
+    return np.clip(1.0 - 0.003 * np.asarray(fc, dtype=float), 0.72, 0.85)
+
+
+def squash_load(fc, Ag, As, fsy):
+    """Nuo = alpha1 f'c Ag + As fsy [N], Cl 10.6.2.2 (bar stress capped at the stress at strain
+    0.0025, which is fsy for fsy <= 500 MPa). Ag is the concrete area net of the bars."""
+    steel_stress = np.minimum(np.asarray(fsy, dtype=float), 0.0025 * ES)
+    return alpha1(fc) * np.asarray(fc, dtype=float) * Ag + As * steel_stress
+
+
+def phi_bending(kuo):
+    """phi = 1.24 - 13 kuo / 12 within 0.65..0.85: bending without axial force, Class N bars,
+    Table 2.2.2."""
+    return np.clip(1.24 - 13.0 * np.asarray(kuo, dtype=float) / 12.0, 0.65, 0.85)
+
+
+def phi_axial_bending(Nu, Nub, Nuot, kuo, phi0=PHI_COMPRESSION):
+    """phi for bending with axial force, Table 2.2.2: in compression phi0 for Nu >= Nub, else
+    phi0 + (phi_b - phi0)(1 - Nu/Nub); in tension phi_b + (0.85 - phi_b)(Nu/Nuot) (Nuot < 0)."""
+    Nu = np.asarray(Nu, dtype=float)
+    pb = phi_bending(kuo)
+    comp = np.where(Nu >= Nub, phi0, phi0 + (pb - phi0) * (1.0 - Nu / np.where(Nub > 0, Nub, 1.0)))
+    tens = pb + (PHI_TENSION - pb) * (Nu / np.where(Nuot < 0, Nuot, -1.0))
+    return np.where(Nu > 0, comp, tens)
+
+
+# ---------------------------------------------------------------- walls in compression
+
+
+def effective_height_factor(Hw, L1, supported_edges, restrained=False):
+    """k for the effective height Hwe = k Hw of a braced wall, Cl 11.4.
+
+    Two edges supported top and bottom only: 0.75 where restrained against rotation at both
+    ends, else 1.0. Three sides (one vertical edge supported, L1 from it to the free edge):
+    k = 1 / (1 + (Hw / (3 L1))^2), not less than 0.3. Four sides (both vertical edges, L1
+    apart): k = 1 / (1 + (Hw / L1)^2) for Hw <= L1, else L1 / (2 Hw). The lesser of the
+    top-and-bottom value and the side-support value is used (side supports only help).
+    """
+    Hw, L1 = np.asarray(Hw, dtype=float), np.asarray(L1, dtype=float)
+    edges = np.asarray(supported_edges)
+    base = np.where(restrained, 0.75, 1.0) * np.ones_like(Hw)
+    three = np.maximum(1.0 / (1.0 + (Hw / (3.0 * L1)) ** 2), 0.3)
+    four = np.where(Hw <= L1, 1.0 / (1.0 + (Hw / L1) ** 2), L1 / (2.0 * Hw))
+    side = np.where(edges >= 2, four, np.where(edges == 1, three, base))
+    return np.minimum(base, side)
+
+
+def simplified_eccentricity(e, tw):
+    """e >= 0.05 tw: the least eccentricity of the vertical load, Cl 11.5.1."""
+    return np.maximum(np.abs(np.asarray(e, dtype=float)), 0.05 * np.asarray(tw, dtype=float))
+
+
+def additional_eccentricity(Hwe, tw):
+    """ea = Hwe^2 / (2500 tw): slenderness eccentricity, Cl 11.5.1."""
+    return np.asarray(Hwe, dtype=float) ** 2 / (2500.0 * np.asarray(tw, dtype=float))
+
+
+PHI_SIMPLIFIED = 0.65
+"""Table 2.2.2 as applied to Cl 11.5 walls (2018; 0.6 in 2009 - verify; a Project setting)."""
+
+
+def simplified_capacity(fc, tw, e, ea, length, phi=PHI_SIMPLIFIED):
+    """phi Nu = phi (tw - 1.2 e - 2 ea) 0.6 f'c per unit length, times the length [N], Cl 11.5.1."""
+    per_mm = (np.asarray(tw, dtype=float) - 1.2 * e - 2.0 * ea) * 0.6 * np.asarray(fc, dtype=float)
+    return np.asarray(phi, dtype=float) * np.maximum(per_mm, 0.0) * np.asarray(length, dtype=float)
