@@ -11,6 +11,7 @@ import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
 from xlcore.checks.axial import check_pier_axial
+from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -122,6 +123,36 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
         ),
     ]
     if core is not None:
+        stress = check_core_stress(piers, plans, building.core_actions, s)
+        if len(stress):
+            w = stress.loc[stress.util.idxmax()]
+            sheets[0].preamble.append(
+                (
+                    "Core elastic stress",
+                    f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
+                    f"flagged; worst {w.wall_id} at {w.storey}, {w.combination}: "
+                    f"utilisation {w.util:.3f} ({w.governs})",
+                )
+            )
+        sheets.append(
+            ResultSheet(
+                results.CORE_STRESS_SHEET,
+                f"{results.MARKER}: elastic stress of the whole core per storey and combination",
+                results.CORE_STRESS_COLUMNS,
+                stress,
+                preamble=stamp
+                + [
+                    (
+                        "Method",
+                        "sigma = N/A +- bending over the net core section (compression positive); "
+                        "tension resultant per wall against its vertical steel in the tension zone "
+                        "(phi 0.85, Table 2.2.2); fibres of 0.1 m along each pier",
+                    ),
+                    ("Compression limit", f"{s.compression_limit:g} f'c (Project setting)"),
+                ],
+                scale_key="util",
+            )
+        )
         sheets.append(
             ResultSheet(
                 results.CORE_SHEET,

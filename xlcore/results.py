@@ -46,6 +46,7 @@ def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
 SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
+CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_SHEET = RESULT_PREFIX + "core shares"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
@@ -156,6 +157,26 @@ AXIAL_COLUMNS = [
     _c("util_s", "U Cl 11.5", None, "0.000", 9),
     _c("status_s", "Status Cl 11.5", width=9),
     _c("f_s", "Cl 11.5 working", width=70),
+]
+
+CORE_STRESS_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("combination", "Combination", width=15),
+    _c("wall_id", "Wall", width=7),
+    _c("sigma_start", "sigma at start", "MPa", "0.00"),
+    _c("sigma_end", "sigma at end", "MPa", "0.00"),
+    _c("sigma_max", "Peak compression", "MPa", "0.00"),
+    _c("limit", "Limit", "MPa", "0.00", 8),
+    _c("sigma_min", "Peak tension (-)", "MPa", "0.00"),
+    _c("tension", "Tension T", "kN", "0.0"),
+    _c("as_req", "As needed", "mm2", "0", 9),
+    _c("as_prov", "As in tension zone", "mm2", "0", 11),
+    _c("u_tension", "U tension", None, "0.000", 9),
+    _c("u_compression", "U compression", None, "0.000", 11),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=8),
+    _c("governs", "Governs", width=15),
+    _c("working", "Working", width=80),
 ]
 
 SECTION_COLUMNS = [
