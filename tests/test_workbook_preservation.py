@@ -32,6 +32,7 @@ DEMO_RESULT_SHEETS = [
     results.MEMBERS_SHEET,
     results.SECTION_SHEET,
     results.CORE_STRESS_SHEET,
+    results.CORE_NM_SHEET,
     results.CORE_SHEET,
 ]
 INDEX_PARTS = {"xl/workbook.xml", "xl/_rels/workbook.xml.rels", "[Content_Types].xml", "xl/styles.xml"}

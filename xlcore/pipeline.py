@@ -11,6 +11,7 @@ import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
 from xlcore.checks.axial import check_pier_axial
+from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
@@ -124,16 +125,6 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     ]
     if core is not None:
         stress = check_core_stress(piers, plans, building.core_actions, s)
-        if len(stress):
-            w = stress.loc[stress.util.idxmax()]
-            sheets[0].preamble.append(
-                (
-                    "Core elastic stress",
-                    f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
-                    f"flagged; worst {w.wall_id} at {w.storey}, {w.combination}: "
-                    f"utilisation {w.util:.3f} ({w.governs})",
-                )
-            )
         sheets.append(
             ResultSheet(
                 results.CORE_STRESS_SHEET,
@@ -153,6 +144,53 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 scale_key="util",
             )
         )
+        core_nm = check_core_nm(piers, plans, building.core_actions, s)
+        if len(core_nm):
+            w = core_nm.loc[core_nm.util.idxmax()]
+            sheets[0].preamble.append(
+                (
+                    "Core axial + bending",
+                    f"{int((core_nm.status == results.FAIL).sum())} of {len(core_nm)} storey cases "
+                    f"fail; worst {w.storey}, {w.combination}: utilisation {w.util:.3f}",
+                )
+            )
+            sheets.append(
+                ResultSheet(
+                    results.CORE_NM_SHEET,
+                    f"{results.MARKER}: biaxial strength of the whole core per storey and combination",
+                    results.CORE_NM_COLUMNS,
+                    core_nm,
+                    preamble=stamp
+                    + [
+                        (
+                            "Method",
+                            "strain compatibility over every pier of the net section (Cl 8.1.3 block, "
+                            "bars displace concrete), phi from Table 2.2.2 per neutral-axis angle; the "
+                            "capacity contour at N* over 24 angles, read along the direction of (Mx*, My*)",
+                        ),
+                        (
+                            "Utilisation",
+                            "the larger of |M*| / phiMu along M* and N* / phi Nuo (tension: 0.85 Nuot)",
+                        ),
+                        (
+                            "Discretisation",
+                            "fibres 100 mm along each wall, 4 across; within 1 % of exact "
+                            "clipping in the tests",
+                        ),
+                    ],
+                    scale_key="util",
+                )
+            )
+        if len(stress):
+            w = stress.loc[stress.util.idxmax()]
+            sheets[0].preamble.append(
+                (
+                    "Core elastic stress",
+                    f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
+                    f"flagged; worst {w.wall_id} at {w.storey}, {w.combination}: "
+                    f"utilisation {w.util:.3f} ({w.governs})",
+                )
+            )
         sheets.append(
             ResultSheet(
                 results.CORE_SHEET,

@@ -47,6 +47,7 @@ SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
+CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
@@ -176,6 +177,23 @@ CORE_STRESS_COLUMNS = [
     _c("util", "Utilisation", None, "0.000", 10),
     _c("status", "Status", width=8),
     _c("governs", "Governs", width=15),
+    _c("working", "Working", width=80),
+]
+
+CORE_NM_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("combination", "Combination", width=15),
+    _c("n", "N*", "kN", "0"),
+    _c("mx", "Mx*", "kNm", "0"),
+    _c("my", "My*", "kNm", "0"),
+    _c("m_res", "|M*|", "kNm", "0"),
+    _c("phi_mu", "phi Mu along M*", "kNm", "0", 12),
+    _c("phi_nuo", "phi Nuo", "kN", "0"),
+    _c("phi_nuot", "0.85 Nuot", "kN", "0"),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=8),
+    _c("governs", "Governs", width=13),
+    _c("clause", "Clause", width=28),
     _c("working", "Working", width=80),
 ]
 
