@@ -29,6 +29,7 @@ DEMO_RESULT_SHEETS = [
     results.SUMMARY_SHEET,
     results.SHEAR_SHEET,
     results.AXIAL_SHEET,
+    results.DETAILING_SHEET,
     results.MEMBERS_SHEET,
     results.SECTION_SHEET,
     results.CORE_STRESS_SHEET,

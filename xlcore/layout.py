@@ -244,6 +244,15 @@ PROJECT = SettingsSheet(
             choices=YES_NO,
         ),
         Setting(
+            "shrinkage_restrained",
+            "Walls restrained against shrinkage",
+            None,
+            Kind.CHOICE,
+            "yes",
+            "Cl 11.7 horizontal minimum: yes -> 0.0025; no -> 0.0015, or none for walls up to 2.5 m long.",
+            choices=YES_NO,
+        ),
+        Setting(
             "compression_limit",
             "Elastic peak compression limit",
             "x f'c",

@@ -20,6 +20,7 @@ class Settings(BaseModel):
     phi_simplified: float | None = None
     ends_restrained: str = "no"
     compression_limit: float = 0.15
+    shrinkage_restrained: str = "yes"
     poisson: float = 0.2
 
 

@@ -13,6 +13,7 @@ from xlcore import CAUTION, __version__, distribution, geometry, results, stiffn
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
+from xlcore.checks.detailing import check_detailing
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -50,7 +51,9 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     acts, core = pier_actions(building, piers, walls, plans)
     shear = check_pier_shear(piers, acts, s)
     axial = check_pier_axial(piers, acts, s)
-    summary = envelope(shear, piers, axial)
+    hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
+    detailing = check_detailing(piers, acts, s, hwe)
+    summary = envelope(shear, piers, axial, detailing)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     sections = distribution.sections_table(plans, building.storey_index())
     sheets = [
@@ -96,6 +99,20 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                     "uniform N* over the pier; e from out-of-plane M*, at least 0.05 tw; in-plane "
                     "moment not included (the strain-compatibility check covers it)",
                 ),
+            ],
+            scale_key="util",
+        ),
+        ResultSheet(
+            results.DETAILING_SHEET,
+            f"{results.MARKER}: detailing of piers to {s.standard} Cl 11.7 "
+            "(limits as in the design notes: verify)",
+            results.DETAILING_COLUMNS,
+            detailing,
+            preamble=stamp
+            + [
+                ("Vertical minimum", "from the largest N*/(Lw tw) over the combinations at that storey"),
+                ("Horizontal minimum", f"walls restrained against shrinkage: {s.shrinkage_restrained}"),
+                ("Utilisation", "limit / value for minimums, value / limit for maximums"),
             ],
             scale_key="util",
         ),
@@ -305,7 +322,7 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
     return lines
 
 
-def _candidates(shear: pd.DataFrame, axial: pd.DataFrame) -> pd.DataFrame:
+def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame) -> pd.DataFrame:
     """Every check's rows in one shape: storey, pier, check, combination, demand, capacity, U."""
     cols = [
         "storey",
@@ -348,18 +365,43 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame) -> pd.DataFrame:
                 note="",
             )[cols]
         )
+    if len(detailing):
+        parts.append(
+            detailing.assign(
+                check=CHECK_DETAILING,
+                combination="(all)",
+                demand=detailing.value,
+                capacity=detailing.limit,
+                note=detailing.rule,
+            )[cols]
+        )
     return pd.concat(parts, ignore_index=True)
 
 
 CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", "axial + bending", "Cl 11.5 compression"
-UTIL_COLUMN = {CHECK_SHEAR: "u_shear", CHECK_NM: "u_nm", CHECK_SIMPLIFIED: "u_simplified"}
+CHECK_DETAILING = "detailing Cl 11.7"
+UTIL_COLUMN = {
+    CHECK_SHEAR: "u_shear",
+    CHECK_NM: "u_nm",
+    CHECK_SIMPLIFIED: "u_simplified",
+    CHECK_DETAILING: "u_detailing",
+}
 
 
-def envelope(shear: pd.DataFrame, piers: pd.DataFrame, axial: pd.DataFrame | None = None) -> pd.DataFrame:
+def envelope(
+    shear: pd.DataFrame,
+    piers: pd.DataFrame,
+    axial: pd.DataFrame | None = None,
+    detailing: pd.DataFrame | None = None,
+) -> pd.DataFrame:
     """Governing check and worst combination per storey x pier, with each check's worst
     utilisation beside it; piers without actions are listed as not checked."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
-    cand = _candidates(shear, axial if axial is not None else pd.DataFrame())
+    cand = _candidates(
+        shear,
+        axial if axial is not None else pd.DataFrame(),
+        detailing if detailing is not None else pd.DataFrame(),
+    )
     keys = ["storey", "pier_id"]
     if len(cand):
         worst = cand.loc[cand.groupby(keys, sort=False).util.idxmax()]

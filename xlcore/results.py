@@ -46,6 +46,7 @@ def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
 SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
+DETAILING_SHEET = RESULT_PREFIX + "detailing"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
@@ -102,6 +103,7 @@ SUMMARY_COLUMNS = [
     _c("u_shear", "U shear", None, "0.000", 9),
     _c("u_nm", "U axial + bending", None, "0.000", 10),
     _c("u_simplified", "U Cl 11.5", None, "0.000", 9),
+    _c("u_detailing", "U detailing", None, "0.000", 9),
     _c("note", "Note", width=48),
 ]
 
@@ -195,6 +197,20 @@ CORE_NM_COLUMNS = [
     _c("governs", "Governs", width=13),
     _c("clause", "Clause", width=28),
     _c("working", "Working", width=80),
+]
+
+DETAILING_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("rule", "Rule", width=20),
+    _c("value", "Provided", None, "0.00000", 10),
+    _c("kind", "Must be", width=9),
+    _c("limit", "Limit", None, "0.00000", 10),
+    _c("unit", "Unit", width=6),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=8),
+    _c("clause", "Clause", width=26),
+    _c("working", "Working", width=70),
 ]
 
 SECTION_COLUMNS = [

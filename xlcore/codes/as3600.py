@@ -245,3 +245,101 @@ def simplified_capacity(fc, tw, e, ea, length, phi=PHI_SIMPLIFIED):
     """phi Nu = phi (tw - 1.2 e - 2 ea) 0.6 f'c per unit length, times the length [N], Cl 11.5.1."""
     per_mm = (np.asarray(tw, dtype=float) - 1.2 * e - 2.0 * ea) * 0.6 * np.asarray(fc, dtype=float)
     return np.asarray(phi, dtype=float) * np.maximum(per_mm, 0.0) * np.asarray(length, dtype=float)
+
+
+# ---------------------------------------------------------------- wall detailing, Cl 11.7
+# Limits as transcribed in the design notes (section 5, medium confidence: verify against the
+# standard's text); clause cited as 11.7 with the rule's name.
+
+RHO_V_MIN_LOW = 0.0015
+RHO_V_MIN = 0.0025
+RHO_H_MIN_RESTRAINED = 0.0025
+RHO_H_MIN_FREE = 0.0015
+STRESS_RATIO_LOW = 0.03  # design compressive stress / f'c below which the lower vertical minimum applies
+FREE_SHORT_WALL = 2500.0  # mm: unrestrained walls this short need no horizontal minimum
+MAX_SPACING = 350.0  # mm
+MAX_SPACING_THICKNESS = 2.5
+CLEAR_GAP_DIAMETERS = 3.0
+SINGLE_LAYER_MAX_THICKNESS = 200.0  # mm, from memory: verify
+SINGLE_LAYER_SLENDERNESS = 20.0  # Hwe/tw with one layer (design notes section 4)
+
+
+def wall_rho_v_min(sigma, fc):
+    """Least vertical ratio, Cl 11.7: 0.0015 where the design compressive stress N*/(Lw tw) is at
+    most 0.03 f'c, else 0.0025."""
+    low = np.asarray(sigma, dtype=float) <= STRESS_RATIO_LOW * np.asarray(fc, dtype=float)
+    return np.where(low, RHO_V_MIN_LOW, RHO_V_MIN)
+
+
+def wall_rho_h_min(restrained, wall_length):
+    """Least horizontal ratio, Cl 11.7: 0.0025 where restrained against shrinkage and thermal
+    movement; otherwise 0.0015, or none for walls at most 2.5 m long."""
+    free = np.where(np.asarray(wall_length, dtype=float) <= FREE_SHORT_WALL, 0.0, RHO_H_MIN_FREE)
+    return np.where(restrained, RHO_H_MIN_RESTRAINED, free)
+
+
+def wall_max_spacing(tw):
+    """Largest bar spacing, Cl 11.7: the lesser of 2.5 tw and 350 mm."""
+    return np.minimum(MAX_SPACING_THICKNESS * np.asarray(tw, dtype=float), MAX_SPACING)
+
+
+def wall_min_clear_gap(db):
+    """Least clear gap between parallel bars, Cl 11.7: 3 bar diameters."""
+    return CLEAR_GAP_DIAMETERS * np.asarray(db, dtype=float)
+
+
+# ---------------------------------------------------------------- beams (lintels), Section 8
+# Flexure by the rectangular stress block (Cl 8.1); shear by the simplified method of Cl 8.2
+# as amended (Amendment 2): expressions from memory, checked only against secondary sources
+# for theta_v = 36 degrees and kv = 0.15 (Cl 8.2.4.3): verify before relying on them.
+
+PHI_SHEAR = 0.75
+"""Table 2.2.2: phi for shear in beams (2018; from memory: verify)."""
+
+THETA_V = np.radians(36.0)
+"""Cl 8.2.4.3 simplified method: compression strut angle."""
+
+SQRT_FC_MAX = 8.0
+"""Cl 8.2: sqrt(f'c) not taken above 8 MPa in beam shear (from memory: verify)."""
+
+VU_MAX_FACTOR = 0.55 * 0.9
+"""Eq 8.2.3.3(1) coefficient 0.55, reduced by 10 % in Amendment 2 (secondary source)."""
+
+
+def beam_flexure(b, d, As, fc, fsy):
+    """Singly reinforced rectangular section, Cl 8.1: dn = As fsy / (alpha2 f'c b gamma),
+    ku = dn / d, Muo = As fsy (d - gamma dn / 2) [N mm], phi from Table 2.2.2 with kuo = ku."""
+    a2, g = alpha2(fc), gamma(fc)
+    dn = As * fsy / (a2 * fc * b * g)
+    ku = dn / d
+    muo = As * fsy * (d - g * dn / 2)
+    return muo, ku, phi_bending(ku)
+
+
+def beam_dv(d, D):
+    """Effective shear depth dv = max(0.72 D, 0.9 d), Cl 8.2.1."""
+    return np.maximum(0.72 * np.asarray(D, dtype=float), 0.9 * np.asarray(d, dtype=float))
+
+
+def beam_asv_min(fc, b, s, fsyf):
+    """Asv.min = 0.08 sqrt(f'c) b s / fsy.f [mm^2], Cl 8.2.1.7 (from memory: verify)."""
+    return 0.08 * np.sqrt(fc) * b * s / fsyf
+
+
+def beam_vuc(fc, b, dv, asv, asv_min):
+    """Vuc = kv b dv sqrt(f'c) [N], Cl 8.2.4.1 with the simplified kv of Cl 8.2.4.3: 0.15 where
+    Asv >= Asv.min, else 200 / (1000 + 1.3 dv) but not more than 0.15 (Amendment 2)."""
+    kv = np.where(asv >= asv_min, 0.15, np.minimum(200.0 / (1000.0 + 1.3 * dv), 0.15))
+    return kv * b * dv * np.minimum(np.sqrt(fc), SQRT_FC_MAX), kv
+
+
+def beam_vus(asv, fsyf, dv, s):
+    """Vus = (Asv fsy.f dv / s) cot theta_v [N], Cl 8.2.5.2, vertical fitments."""
+    return asv * fsyf * dv / s / np.tan(THETA_V)
+
+
+def beam_vu_max(fc, b, dv):
+    """Vu.max = 0.55 x 0.9 f'c b dv (cot theta_v) / (1 + cot^2 theta_v) [N], Eq 8.2.3.3(1),
+    vertical fitments (cot alpha_v = 0)."""
+    cot = 1.0 / np.tan(THETA_V)
+    return VU_MAX_FACTOR * fc * b * dv * cot / (1 + cot**2)
