@@ -56,6 +56,14 @@ LINTEL_COLUMNS = [
     "tw",
     "head",
     "label",
+    "cover",
+    "fc",
+    "fsy",
+    "lintel_bars",
+    "lintel_dia",
+    "stirrup_dia",
+    "stirrup_legs",
+    "stirrup_spacing",
 ]
 
 
@@ -67,10 +75,12 @@ class Geometry:
     lintels: pd.DataFrame
 
     def members_at(self) -> dict[str, set[str]]:
-        """Storey name -> every member ID an action may name there (piers and walls)."""
+        """Storey name -> every member ID an action may name there (piers, walls, lintels)."""
         out: dict[str, set[str]] = {}
         for storey, wall, pier in self.piers[["storey", "wall_id", "pier_id"]].itertuples(index=False):
             out.setdefault(storey, set()).update((wall, pier))
+        for storey, lintel in self.lintels[["storey", "lintel_id"]].itertuples(index=False):
+            out.setdefault(storey, set()).add(lintel)
         return out
 
 
@@ -202,6 +212,14 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                         w.thickness,
                         o.head,
                         o.label or "",
+                        w.cover,
+                        w.fc,
+                        w.fsy,
+                        _nan(o.lintel_bars),
+                        _nan(o.lintel_dia),
+                        _nan(o.stirrup_dia),
+                        _nan(o.stirrup_legs),
+                        _nan(o.stirrup_spacing),
                     )
                 )
     piers = pd.DataFrame(pier_rows, columns=PIER_COLUMNS)
@@ -253,6 +271,10 @@ def supported_edges(piers: pd.DataFrame) -> np.ndarray:
 def _distance_to_segment(x, y, x0, y0, ux, uy, length) -> float:
     t = min(max((x - x0) * ux + (y - y0) * uy, 0.0), length)
     return math.hypot(x - (x0 + ux * t), y - (y0 + uy * t))
+
+
+def _nan(x: float | None) -> float:
+    return float("nan") if x is None or (isinstance(x, float) and math.isnan(x)) else float(x)
 
 
 def _natural(text: str) -> tuple:

@@ -21,6 +21,7 @@ class Settings(BaseModel):
     ends_restrained: str = "no"
     compression_limit: float = 0.15
     shrinkage_restrained: str = "yes"
+    lintel_deep_ratio: float = 3.0
     poisson: float = 0.2
 
 
@@ -82,6 +83,11 @@ class Opening(BaseModel):
     sill: float
     head: float
     label: str | None = None
+    lintel_bars: float | None = None
+    lintel_dia: float | None = None
+    stirrup_dia: float | None = None
+    stirrup_legs: float | None = None
+    stirrup_spacing: float | None = None
     row: int = 0
 
 

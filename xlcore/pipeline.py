@@ -14,6 +14,7 @@ from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
+from xlcore.checks.lintels import check_lintels
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -54,7 +55,9 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
     detailing = check_detailing(piers, acts, s, hwe)
     summary = envelope(shear, piers, axial, detailing)
+    lintels = check_lintels(geom.lintels, building.member_actions, s)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
+    lintel_line = _lintel_line(lintels)
     sections = distribution.sections_table(plans, building.storey_index())
     sheets = [
         ResultSheet(
@@ -62,7 +65,7 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
             f"{results.MARKER}: summary (worst combination per pier per storey)",
             results.SUMMARY_COLUMNS,
             summary,
-            preamble=stamp + _counts(summary, shear),
+            preamble=stamp + _counts(summary, shear) + [lintel_line],
             scale_key="util",
         ),
         ResultSheet(
@@ -113,6 +116,31 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 ("Vertical minimum", "from the largest N*/(Lw tw) over the combinations at that storey"),
                 ("Horizontal minimum", f"walls restrained against shrinkage: {s.shrinkage_restrained}"),
                 ("Utilisation", "limit / value for minimums, value / limit for maximums"),
+            ],
+            scale_key="util",
+        ),
+        ResultSheet(
+            results.LINTELS_SHEET,
+            f"{results.MARKER}: lintels over openings as beams, {s.standard} Section 8",
+            results.LINTEL_RESULT_COLUMNS,
+            lintels,
+            preamble=stamp
+            + [
+                (
+                    "Geometry",
+                    "span = opening width; D = head of opening to top of slab above; b = wall "
+                    "thickness; d to the bottom bars",
+                ),
+                (
+                    "Beam shear",
+                    "simplified method Cl 8.2.4.3 (theta 36 deg, kv 0.15 with minimum fitments), "
+                    "phi 0.75, Vu.max per Eq 8.2.3.3(1) less 10 % (Amendment 2): from memory, verify",
+                ),
+                (
+                    "Deep lintels",
+                    f"span/D below {s.lintel_deep_ratio:g} are not checked as beams "
+                    "(strut-and-tie, Section 7)",
+                ),
             ],
             scale_key="util",
         ),
@@ -301,6 +329,20 @@ def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
     ]
 
 
+def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
+    per = lintels.groupby(["storey", "lintel_id"]).status.agg(
+        lambda s: (
+            s.iloc[0] if len(set(s)) == 1 else (results.FAIL if (s == results.FAIL).any() else results.PASS)
+        )
+    )
+    return (
+        "Lintels",
+        f"{len(per)} storey x lintel cases: {int((per == results.PASS).sum())} pass, "
+        f"{int((per == results.FAIL).sum())} fail, {int((per == results.NOT_CHECKED).sum())} not "
+        "checked (reasons on the lintels sheet)",
+    )
+
+
 def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, object]]:
     checked = summary[summary.status != results.NOT_CHECKED]
     worst = checked.loc[checked.util.idxmax()] if len(checked) else None
@@ -450,7 +492,7 @@ def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
         start=np.nan,
         end=np.nan,
         k=np.nan,
-        note="span = opening width; depth = head to top of slab above; not checked yet",
+        note="span = opening width; depth = head to top of slab above; see the lintels sheet",
     )
     out = pd.concat([p, lin], ignore_index=True)
     out = out.sort_values(["storey_index", "kind"], ascending=[False, False], kind="stable")

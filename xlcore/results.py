@@ -47,6 +47,7 @@ SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 DETAILING_SHEET = RESULT_PREFIX + "detailing"
+LINTELS_SHEET = RESULT_PREFIX + "lintels"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
@@ -211,6 +212,31 @@ DETAILING_COLUMNS = [
     _c("status", "Status", width=8),
     _c("clause", "Clause", width=26),
     _c("working", "Working", width=70),
+]
+
+LINTEL_RESULT_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("lintel_id", "Lintel", width=9),
+    _c("combination", "Combination", width=15),
+    _c("span", "Span", "m", "0.000", 8),
+    _c("depth", "D", "mm", "0", 7),
+    _c("tw", "b", "mm", "0", 7),
+    _c("ratio", "Span/D", None, "0.00", 7),
+    _c("d", "d", "mm", "0", 7),
+    _c("As", "As", "mm2", "0", 8),
+    _c("m", "M*", "kNm", "0.0"),
+    _c("ku", "ku", None, "0.000", 7),
+    _c("phi_mu", "phi Muo", "kNm", "0.0"),
+    _c("v", "V*", "kN", "0.0"),
+    _c("dv", "dv", "mm", "0", 7),
+    _c("kv", "kv", None, "0.000", 7),
+    _c("phi_vu", "phi Vu", "kN", "0.0"),
+    _c("u_m", "U flexure", None, "0.000", 9),
+    _c("u_v", "U shear", None, "0.000", 9),
+    _c("util", "Utilisation", None, "0.000", 10),
+    _c("status", "Status", width=11),
+    _c("clause", "Clause", width=22),
+    _c("working", "Working", width=90),
 ]
 
 SECTION_COLUMNS = [

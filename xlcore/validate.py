@@ -19,6 +19,7 @@ from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
 
 NUMBER_TEXT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
 NUMBER_WITH_UNIT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)\s*[^\d\s.].*$")
+REQUIRED_OPENING = {c.key for c in layout.OPENINGS.columns if c.required}
 LEVEL_TOL = 0.005  # m: storey levels and heights must agree within 5 mm
 
 
@@ -460,7 +461,9 @@ def _openings(
         rng = _storey_range(rec, df, t, index, f)
         values = rec._asdict()
         if rng is None or any(
-            v is None or (isinstance(v, float) and math.isnan(v)) for k, v in values.items() if k != "label"
+            v is None or (isinstance(v, float) and math.isnan(v))
+            for k, v in values.items()
+            if k in REQUIRED_OPENING
         ):
             continue
         o = Opening(**values)
