@@ -102,6 +102,12 @@ CASES = [
         "one of: AS 3600:2018",
     ),
     (
+        "price list that does not parse",
+        {(P.name, f"B{setting_row('concrete_prices')}"): "32-260"},
+        f"Project!B{setting_row('concrete_prices')}",
+        "expected pairs like",
+    ),
+    (
         "duplicate core action",
         {at(C, "combination", 3): "1.35G"},
         where(C, "combination", 3),

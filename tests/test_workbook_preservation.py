@@ -31,6 +31,7 @@ DEMO_RESULT_SHEETS = [
     results.AXIAL_SHEET,
     results.DETAILING_SHEET,
     results.LINTELS_SHEET,
+    results.ADVICE_SHEET,
     results.MEMBERS_SHEET,
     results.SECTION_SHEET,
     results.CORE_STRESS_SHEET,

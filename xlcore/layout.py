@@ -9,6 +9,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from enum import StrEnum
 
+from xlcore import costs
+
 
 class Kind(StrEnum):
     """What a cell must hold."""
@@ -275,6 +277,25 @@ PROJECT = SettingsSheet(
             "from design notes: verify).",
             min=0.05,
             max=1.0,
+        ),
+        Setting(
+            "concrete_prices",
+            "Concrete prices by grade",
+            "per m3",
+            Kind.TEXT,
+            costs.DEFAULT_CONCRETE,
+            "For ranking the fixes offered for failing piers: 'grade:price' pairs. The default "
+            "prices are illustrative, not market data.",
+        ),
+        Setting(
+            "steel_price",
+            "Reinforcement price",
+            "per t",
+            Kind.NUMBER,
+            costs.DEFAULT_STEEL,
+            "For ranking fixes. The default is illustrative, not market data.",
+            min=0.0,
+            max=1e6,
         ),
         Setting(
             "poisson",

@@ -5,6 +5,8 @@ from __future__ import annotations
 import pandas as pd
 from pydantic import BaseModel, ConfigDict, computed_field
 
+from xlcore import costs
+
 
 class Settings(BaseModel):
     model_config = ConfigDict(frozen=True)
@@ -22,6 +24,8 @@ class Settings(BaseModel):
     compression_limit: float = 0.15
     shrinkage_restrained: str = "yes"
     lintel_deep_ratio: float = 3.0
+    concrete_prices: str = costs.DEFAULT_CONCRETE
+    steel_price: float = costs.DEFAULT_STEEL
     poisson: float = 0.2
 
 

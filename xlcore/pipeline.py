@@ -10,6 +10,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
+from xlcore.checks.advice import advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
@@ -56,6 +57,8 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
     detailing = check_detailing(piers, acts, s, hwe)
     summary = envelope(shear, piers, axial, detailing)
     lintels = check_lintels(geom.lintels, building.member_actions, s)
+    advice = advise(piers, acts, summary, s)
+    summary = with_cheapest_fix(summary, advice)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     lintel_line = _lintel_line(lintels)
     sections = distribution.sections_table(plans, building.storey_index())
@@ -143,6 +146,27 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 ),
             ],
             scale_key="util",
+        ),
+        ResultSheet(
+            results.ADVICE_SHEET,
+            f"{results.MARKER}: cheapest changes that make each failing pier pass every check at its storey",
+            results.ADVICE_COLUMNS,
+            advice,
+            preamble=stamp
+            + [
+                (
+                    "Search",
+                    "standard grades; horizontal N10-N20 and vertical N12-N28 at 100-300 mm in 25 mm "
+                    "steps, one or two layers; thickness +25 mm steps to +300 mm; each option run "
+                    "through every check (shear, axial + bending, Cl 11.5, detailing) with the actions "
+                    "held as analysed",
+                ),
+                (
+                    "Cost",
+                    f"per metre height of pier: concrete {s.concrete_prices} per m3, reinforcement "
+                    f"{s.steel_price:g} per t (defaults are illustrative, not market data)",
+                ),
+            ],
         ),
         ResultSheet(
             results.MEMBERS_SHEET,
@@ -329,6 +353,22 @@ def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
     ]
 
 
+def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFrame:
+    """Name the cheapest passing change beside each failing pier in the summary."""
+    out = summary.copy()
+    out["fix"] = ""
+    if len(advice):
+        best = advice[advice["rank"] == 1]
+        text = {
+            (r.storey, r.pier_id): f"{r.kind}: {r.option} (+{r.added_cost:.2f} per m)"
+            for r in best.itertuples(index=False)
+        }
+        out["fix"] = [text.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
+        none = (out.status == results.FAIL) & (out.fix == "")
+        out.loc[none, "fix"] = "no single change in the search range passes"
+    return out
+
+
 def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
     per = lintels.groupby(["storey", "lintel_id"]).status.agg(
         lambda s: (
@@ -467,6 +507,7 @@ def envelope(
         key=lambda c: c.map(geometry._natural) if c.name == "wall_id" else c,
     )
     table["util"] = table.util.astype(float)
+    table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
     return table[cols].reset_index(drop=True)
 
 

@@ -48,6 +48,7 @@ SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 DETAILING_SHEET = RESULT_PREFIX + "detailing"
 LINTELS_SHEET = RESULT_PREFIX + "lintels"
+ADVICE_SHEET = RESULT_PREFIX + "advice"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
@@ -105,6 +106,7 @@ SUMMARY_COLUMNS = [
     _c("u_nm", "U axial + bending", None, "0.000", 10),
     _c("u_simplified", "U Cl 11.5", None, "0.000", 9),
     _c("u_detailing", "U detailing", None, "0.000", 9),
+    _c("fix", "Cheapest fix (see the advice sheet)", width=44),
     _c("note", "Note", width=48),
 ]
 
@@ -237,6 +239,18 @@ LINTEL_RESULT_COLUMNS = [
     _c("status", "Status", width=11),
     _c("clause", "Clause", width=22),
     _c("working", "Working", width=90),
+]
+
+ADVICE_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("check", "Failing check now", width=18),
+    _c("util_now", "Utilisation now", None, "0.000", 11),
+    _c("rank", "Rank", None, "0", 6),
+    _c("kind", "Change", width=16),
+    _c("option", "Cheapest passing option", width=44),
+    _c("util", "Worst utilisation after", None, "0.000", 12),
+    _c("added_cost", "Added cost per m height", None, "0.00", 12),
 ]
 
 SECTION_COLUMNS = [

@@ -10,7 +10,7 @@ from collections import defaultdict
 import numpy as np
 import pandas as pd
 
-from xlcore import diaphragm, geometry, layout
+from xlcore import costs, diaphragm, geometry, layout
 from xlcore.codes.as3600 import STANDARD_GRADES
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
@@ -277,6 +277,11 @@ def _settings(sheet: RawSheet | None, f: Findings) -> Settings:
         if blank(v):
             continue
         value, problem = _cell(v, s.column)
+        if problem is None and s.key == "concrete_prices":
+            try:
+                costs.parse_concrete_prices(value)
+            except ValueError as exc:
+                problem = f"found {show(v)}: {exc}; expected pairs like '32:260, 40:285'"
         if problem:
             f.error(spec.name, cell_name(1, r), problem)
             continue

@@ -1,0 +1,135 @@
+"""The cheapest changes that make each failing pier pass every check at its storey.
+
+A search over discrete options, each evaluated with the same vectorised checks as the design
+(shear, axial + bending, Cl 11.5, detailing): a higher standard grade; the lightest horizontal
+or vertical bar arrangement within the detailing limits; a thicker wall in 25 mm steps. The
+actions are held as analysed (a stiffer pier would attract more; re-run the analysis after a
+change). Options are ranked by the added cost per metre height of pier.
+"""
+
+from __future__ import annotations
+
+import itertools
+
+import pandas as pd
+
+from xlcore import costs, geometry
+from xlcore.checks.axial import check_pier_axial
+from xlcore.checks.detailing import check_detailing
+from xlcore.checks.shear import check_pier_shear
+from xlcore.codes import as3600
+from xlcore.model import Settings
+
+H_DIAS = (10.0, 12.0, 16.0, 20.0)
+V_DIAS = (12.0, 16.0, 20.0, 24.0, 28.0)
+SPACINGS = tuple(float(s) for s in range(100, 301, 25))
+LAYERS = (1, 2)
+THICKNESS_STEP, THICKNESS_STEPS = 25.0, 12
+
+
+def _options(p) -> list[tuple[str, str, dict]]:
+    """(kind, description, changed fields) for one pier."""
+    out = [("grade", f"f'c {g:g} MPa", dict(fc=g)) for g in as3600.STANDARD_GRADES if g > p.fc]
+    for kind, dias, prefix in (("horizontal bars", H_DIAS, "h"), ("vertical bars", V_DIAS, "v")):
+        for d, s, n in itertools.product(dias, SPACINGS, LAYERS):
+            rho = geometry.bar_ratio(n, d, s, p.tw)
+            if rho <= getattr(p, f"rho_{prefix}") + 1e-12:
+                continue  # only more steel than now
+            out.append(
+                (
+                    kind,
+                    f"N{d:g} @ {s:g} x {n} layer{'s' if n > 1 else ''}",
+                    {f"{prefix}_dia": d, f"{prefix}_spacing": s, f"{prefix}_layers": n, f"rho_{prefix}": rho},
+                )
+            )
+    for k in range(1, THICKNESS_STEPS + 1):
+        t = p.tw + k * THICKNESS_STEP
+        out.append(
+            (
+                "thickness",
+                f"tw {t:g} mm (same bars)",
+                dict(
+                    tw=t,
+                    rho_v=geometry.bar_ratio(p.v_layers, p.v_dia, p.v_spacing, t),
+                    rho_h=geometry.bar_ratio(p.h_layers, p.h_dia, p.h_spacing, t),
+                ),
+            )
+        )
+    return out
+
+
+def evaluate_options(
+    piers: pd.DataFrame, actions: pd.DataFrame, targets: pd.DataFrame, settings: Settings
+) -> pd.DataFrame:
+    """Every option for every target (storey, pier_id): worst utilisation and added cost per
+    metre height. One batch through the checks."""
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"])
+    variants, meta = [], []
+    for p in base.itertuples(index=False):
+        for i, (kind, text, change) in enumerate(_options(p)):
+            row = p._asdict() | change
+            row["pier_id"] = f"{p.pier_id}#{i}"
+            variants.append(row)
+            meta.append(
+                dict(storey=p.storey, pier_id=p.pier_id, variant=row["pier_id"], kind=kind, option=text)
+            )
+    var = pd.DataFrame(variants)
+    meta = pd.DataFrame(meta)
+    acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
+    acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
+    worst = _worst(var, acts, settings)
+    meta["util"] = meta.variant.map(worst).astype(float)
+
+    def cost(df: pd.DataFrame) -> pd.Series:
+        concrete = df.fc.map(lambda g: costs.concrete_price(prices, g))
+        return costs.per_metre_height(df.Lw, df.tw, df.rho_v, df.rho_h, concrete, settings.steel_price)
+
+    base_cost = dict(zip(zip(base.storey, base.pier_id, strict=True), cost(base), strict=True))
+    meta["added_cost"] = cost(var).to_numpy() - [
+        base_cost[k] for k in zip(meta.storey, meta.pier_id, strict=True)
+    ]
+    for key in ("fc", "tw", "rho_v", "rho_h"):
+        meta[key] = var[key].to_numpy()
+    return meta
+
+
+def advise(
+    piers: pd.DataFrame, actions: pd.DataFrame, summary: pd.DataFrame, settings: Settings
+) -> pd.DataFrame:
+    """One row per failing storey x pier x kind of change: the cheapest passing option of that
+    kind (or 'none in the search range'), its worst utilisation and added cost per metre."""
+    failing = summary[summary.status == "FAIL"][["storey", "pier_id"]]
+    if failing.empty:
+        return pd.DataFrame(
+            columns=["storey", "pier_id", "kind", "option", "util", "added_cost", "rank", "check", "util_now"]
+        )
+    meta = evaluate_options(piers, actions, failing, settings)
+    passing = meta[meta.util <= 1.0].sort_values("added_cost", kind="stable")
+    best = passing.groupby(["storey", "pier_id", "kind"], sort=False).head(1)
+    kinds = meta[["storey", "pier_id", "kind"]].drop_duplicates()
+    out = kinds.merge(best, on=["storey", "pier_id", "kind"], how="left")
+    out["option"] = out.option.fillna("none in the search range passes every check")
+    out["rank"] = out.groupby(["storey", "pier_id"]).added_cost.rank(method="first")
+    out = out.merge(
+        summary[["storey", "pier_id", "check", "util"]].rename(columns={"util": "util_now"}),
+        on=["storey", "pier_id"],
+    )
+    return out.sort_values(["storey", "pier_id", "rank"], na_position="last").reset_index(drop=True)
+
+
+def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series:
+    """Worst utilisation of every variant over every check and combination."""
+    shear = check_pier_shear(var, acts, s)
+    axial = check_pier_axial(var, acts, s)
+    parts = [shear[["pier_id", "util"]]]
+    if len(axial):
+        parts.append(axial[["pier_id", "util"]])
+        simp = axial[axial.util_s.notna()]
+        parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
+    else:
+        hwe = None
+    det = check_detailing(var, acts, s, hwe)
+    parts.append(det[["pier_id", "util"]])
+    return pd.concat(parts).groupby("pier_id").util.max()

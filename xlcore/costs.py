@@ -1,0 +1,48 @@
+"""Cost proxy for comparing design changes: concrete by grade and reinforcement by mass.
+
+The default prices are illustrative only, not market data; the Project sheet sets real ones.
+"""
+
+from __future__ import annotations
+
+import re
+
+STEEL_DENSITY = 7850.0  # kg/m^3
+DEFAULT_CONCRETE = "20:230, 25:240, 32:260, 40:285, 50:315, 65:370, 80:430, 100:520"
+DEFAULT_STEEL = 2400.0  # per tonne
+
+
+def parse_concrete_prices(text: str) -> dict[float, float]:
+    """'32:260, 40:285' -> {32.0: 260.0, 40.0: 285.0}. Raises ValueError naming the bad part."""
+    prices: dict[float, float] = {}
+    for part in re.split(r"[,;]", str(text)):
+        part = part.strip()
+        if not part:
+            continue
+        m = re.fullmatch(r"(\d+(?:\.\d+)?)\s*[:=]\s*(\d+(?:\.\d+)?)", part)
+        if not m:
+            raise ValueError(f"{part!r} is not 'grade:price'")
+        prices[float(m.group(1))] = float(m.group(2))
+    if not prices:
+        raise ValueError("no 'grade:price' pairs")
+    return prices
+
+
+def concrete_price(prices: dict[float, float], fc: float) -> float:
+    """Price for a grade, interpolated (or extended flat) between the grades given."""
+    grades = sorted(prices)
+    if fc <= grades[0]:
+        return prices[grades[0]]
+    if fc >= grades[-1]:
+        return prices[grades[-1]]
+    for a, b in zip(grades, grades[1:], strict=False):
+        if a <= fc <= b:
+            return prices[a] + (prices[b] - prices[a]) * (fc - a) / (b - a)
+    return prices[grades[-1]]
+
+
+def per_metre_height(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t):
+    """Cost of one metre height of pier: concrete plus vertical and horizontal steel."""
+    area = Lw_mm * tw_mm / 1e6  # m^2
+    steel_t = (rho_v + rho_h) * area * STEEL_DENSITY / 1000.0
+    return area * concrete_per_m3 + steel_t * steel_per_t
