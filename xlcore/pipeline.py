@@ -497,10 +497,10 @@ def envelope(
     for c in UTIL_COLUMN.values():
         if c not in table:
             table[c] = np.nan
-    missing = table.util.isna()
-    table.loc[missing, "status"] = results.NOT_CHECKED
-    table.loc[missing, "check"] = ""
-    table.loc[missing, "note"] = "no actions for this pier or its wall at this storey"
+    missing = table.u_shear.isna()  # no actions: strength not checked, whatever detailing says
+    table.loc[missing, ["status", "check", "combination", "clause"]] = [results.NOT_CHECKED, "", "", ""]
+    table.loc[missing, ["util", "demand", "capacity"]] = np.nan
+    table.loc[missing, "note"] = "no actions for this pier or its wall at this storey (detailing only)"
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
         ascending=[False, True, True],

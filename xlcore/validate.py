@@ -471,7 +471,7 @@ def _openings(
             if k in REQUIRED_OPENING
         ):
             continue
-        o = Opening(**values)
+        o = Opening(**{k: None if isinstance(v, float) and math.isnan(v) else v for k, v in values.items()})
         if o.sill >= o.head:
             f.error(
                 t.name,
