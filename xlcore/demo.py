@@ -96,7 +96,18 @@ def walls() -> list[dict]:
 
 
 def openings() -> list[dict]:
-    door = dict(storey_from="GF", storey_to="L14", width=1.2, sill=0.0, head=2.4)
+    door = dict(
+        storey_from="GF",
+        storey_to="L14",
+        width=1.2,
+        sill=0.0,
+        head=2.4,
+        lintel_bars=3,
+        lintel_dia=16.0,
+        stirrup_dia=10.0,
+        stirrup_legs=2,
+        stirrup_spacing=150.0,
+    )
     return [
         dict(wall_id="LW1", offset=0.75, label="lift A door", **door),
         dict(wall_id="LW1", offset=3.75, label="lift B door", **door),
@@ -159,7 +170,7 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
     wl = stiffness.wall_stiffness(piers, PROJECT["poisson"], PROJECT["pier_fixity"])
     core = pd.DataFrame(core_rows).assign(row=range(2, len(core_rows) + 2))
     shares = distribution.core_actions_to_piers(piers, wl, distribution.storey_plans(piers, wl), core, 0.05)
-    return [
+    rows = [
         dict(
             storey=r.storey,
             combination=r.combination,
@@ -171,6 +182,31 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
         )
         for r in shares.piers.itertuples(index=False)
     ]
+    return rows + _lintel_actions(shares.piers, [s["name"] for s in storeys()])
+
+
+def _lintel_actions(piers, names: list[str]) -> list[dict]:
+    """Lift-door lintels: coupling shear = the change in the outer pier's axial force from the
+    storey above (the lintel hands it down), M* = V* x span / 2 (contraflexure at mid-span)."""
+    rows = []
+    for lintel, pier in (("LW1-L1", "LW1-1"), ("LW1-L2", "LW1-3")):
+        n = piers[piers.pier_id == pier].set_index(["storey", "combination"]).n
+        for (storey, comb), value in n.items():
+            i = names.index(storey)
+            above = n.get((names[i + 1], comb), 0.0) if i + 1 < len(names) else 0.0
+            v = abs(value - above)
+            rows.append(
+                dict(
+                    storey=storey,
+                    combination=comb,
+                    member=lintel,
+                    n=0.0,
+                    v=_r(v),
+                    m=_r(v * 1.2 / 2),
+                    m_out=None,
+                )
+            )
+    return rows
 
 
 def _r(x: float) -> float:
