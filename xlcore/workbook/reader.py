@@ -10,6 +10,7 @@ import contextlib
 import datetime as dt
 import hashlib
 import io
+import re
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -50,14 +51,17 @@ class RawWorkbook:
 def read_workbook(path: Path) -> RawWorkbook:
     """Read every input sheet xlcore knows; report formulas that cannot be resolved."""
     path = Path(path)
+    findings = Findings()
     with open_package(path) as zf:
         parts = sheet_parts(zf)
-        with_formulas = {
-            name
-            for name in layout.INPUT_SHEET_NAMES
-            if name in parts and parts[name] in zf.namelist() and _has_formula(zf.read(parts[name]))
-        }
-    findings = Findings()
+        with_formulas = set()
+        for name in layout.INPUT_SHEET_NAMES:
+            if name not in parts or parts[name] not in zf.namelist():
+                continue
+            xml = zf.read(parts[name])
+            if _has_formula(xml):
+                with_formulas.add(name)
+            _layout_warnings(name, xml, findings)
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")  # openpyxl warns about extensions it does not read
@@ -89,6 +93,35 @@ def stored_input_hash(path: Path) -> str | None:
     finally:
         wb.close()
     return None
+
+
+ROW_TAG = re.compile(rb"<(?:\w+:)?row\b[^>]*>")
+MERGE_TAG = re.compile(rb'<(?:\w+:)?mergeCell\b[^>]*ref="([A-Z]+[0-9]+:[A-Z]+[0-9]+)"')
+
+
+def _layout_warnings(sheet: str, xml: bytes, findings: Findings) -> None:
+    """Hidden (or filtered-out) rows are read like any other; merged cells keep a value only in
+    their top-left cell. Both are legal but easy to miss, so say so."""
+    hidden = []
+    for tag in ROW_TAG.finditer(xml):
+        text = tag.group(0)
+        if b'hidden="1"' in text or b'hidden="true"' in text:
+            m = re.search(rb'\br="(\d+)"', text)
+            if m:
+                hidden.append(int(m.group(1)))
+    if hidden:
+        shown = ", ".join(str(r) for r in hidden[:10]) + (" ..." if len(hidden) > 10 else "")
+        findings.warning(
+            sheet, None, f"{len(hidden)} hidden or filtered-out row(s) ({shown}) are read like any other row"
+        )
+    merged = [m.decode() for m in MERGE_TAG.findall(xml)]
+    if merged:
+        shown = ", ".join(merged[:5]) + (" ..." if len(merged) > 5 else "")
+        findings.warning(
+            sheet,
+            None,
+            f"merged cells ({shown}): only the top-left cell of each holds a value; the others read as blank",
+        )
 
 
 def _has_formula(xml: bytes) -> bool:
