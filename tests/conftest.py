@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import shutil
 from pathlib import Path
 
@@ -48,3 +49,16 @@ def edit(path: Path, changes: dict[tuple[str, str], object], out: Path | None = 
         wb[sheet][cell] = value
     wb.save(out or path)
     return out or path
+
+
+# Hypothesis: a CI-sized default; `HYPOTHESIS_PROFILE=slow` runs 10 000 examples per property.
+from hypothesis import HealthCheck  # noqa: E402
+from hypothesis import settings as _hsettings  # noqa: E402
+
+_hsettings.register_profile(
+    "ci", max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
+_hsettings.register_profile(
+    "slow", max_examples=10_000, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
+_hsettings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "ci"))

@@ -283,3 +283,27 @@ def test_new_output_file_gets_ordinary_permissions(demo_book, tmp_path):
     umask = os.umask(0)
     os.umask(umask)
     assert stat.S_IMODE(copy.stat().st_mode) == 0o666 & ~umask
+
+
+@pytest.mark.parametrize(
+    "text", ['=HYPERLINK("http://example.invalid","x")', "+cmd|' /C calc'!A0", "@SUM(1+1)", "-2+3", "=1+1"]
+)
+def test_formula_like_user_text_stays_inert(demo_book, text):
+    """User strings reach the result sheets only as inline text: no formula, hyperlink, external
+    link or macro part is ever added (nothing for a spreadsheet program to ask to enable)."""
+    wb = openpyxl.load_workbook(demo_book)
+    c = wb["Project"]["B2"]
+    c.value = text
+    c.data_type = "s"
+    wb.save(demo_book)
+    before = set(parts(demo_book))
+    run(demo_book)
+    after = parts(demo_book)
+    added = set(after) - before
+    assert added == result_parts(demo_book)  # only our worksheets
+    for p in added:
+        assert b"<f>" not in after[p] and b"<f " not in after[p]
+        assert b"<hyperlink" not in after[p] and b"r:id" not in after[p]
+    assert not any("externalLink" in p or "vbaProject" in p for p in after)
+    summary = openpyxl.load_workbook(demo_book)[results.SUMMARY_SHEET]
+    assert summary["A3"].value == f"Project: {text}" and summary["A3"].data_type == "s"

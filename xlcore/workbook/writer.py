@@ -65,7 +65,14 @@ def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool =
     with open_package(src) as zf:
         package = _build(zf, sheets)
     folder = dst.parent
-    fd, tmp = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".xlcore-tmp", dir=folder)
+    for stale in folder.glob(f".{dst.name}.*.xlcore-tmp"):  # left by a run that was killed
+        _remove(str(stale))
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".xlcore-tmp", dir=folder)
+    except OSError as exc:
+        raise FileProblem(
+            f"{dst}: cannot write in {folder} ({exc.strerror or exc}); the workbook is unchanged"
+        ) from exc
     try:
         with os.fdopen(fd, "wb") as fh:
             with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED, compresslevel=6) as out:
