@@ -107,8 +107,12 @@ def test_lintel_ids_are_accepted_as_members(demo_book):
     from conftest import column_letter, edit
 
     from xlcore import layout, pipeline
+    from xlcore.diagnostics import InputInvalid
 
+    b, _ = pipeline.load(demo_book)  # the demo gives lift-door lintel actions
+    assert {"LW1-L1", "LW1-L2"} <= set(b.member_actions.member)
     a = layout.MEMBER_ACTIONS
-    edit(demo_book, {(a.name, f"{column_letter(a, 'member')}2"): "LW1-L1"})  # row 2 was GF LW1-1
-    b, _ = pipeline.load(demo_book)
-    assert "LW1-L1" in set(b.member_actions.member)
+    # SW2's riser starts at L1, so there is no SW2-L1 lintel at GF
+    edit(demo_book, {(a.name, f"{column_letter(a, 'member')}2"): "SW2-L1"})
+    with pytest.raises(InputInvalid, match="1 input error"):
+        pipeline.load(demo_book)

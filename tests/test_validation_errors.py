@@ -77,7 +77,7 @@ CASES = [
         where(OP, "storey_from", 2),
         "does not exist at storey L10",
     ),
-    ("unknown member", {at(A, "member", 2): "LW1-9"}, where(A, "member", 2), "no such wall or pier"),
+    ("unknown member", {at(A, "member", 2): "LW1-9"}, where(A, "member", 2), "no such wall, pier or lintel"),
     ("unknown storey in actions", {at(A, "storey", 2): "L20"}, where(A, "storey", 2), "storey name"),
     ("duplicate action row", {at(A, "member", 3): "LW1-1"}, where(A, "member", 3), "also given in row 2"),
     (

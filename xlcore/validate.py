@@ -577,7 +577,7 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
             f.error(
                 t.name,
                 _at(df, "member", rec.row),
-                f"found {show(rec.member)}; no such wall or pier at storey {rec.storey} "
+                f"found {show(rec.member)}; no such wall, pier or lintel at storey {rec.storey} "
                 f"(members there: {listed})",
             )
             continue
