@@ -2,6 +2,7 @@
 its kind does not, and the ranking follows the prices given. Engineering values come from the
 checks, which their own test modules tie to outside references; here the search is tested."""
 
+import builders
 import numpy as np
 import pandas as pd
 import pytest
@@ -11,30 +12,12 @@ from hypothesis import strategies as st
 from xlcore import costs, geometry, stiffness
 from xlcore.checks.advice import advise, evaluate_options
 from xlcore.codes import as3600
-from xlcore.model import Settings, Storey, WallRun
+from xlcore.model import Settings, Storey
 
 
 def one_pier(fc=25.0, tw=200.0, Lw=3.0, h_spacing=300.0):
     storeys = [Storey(index=0, name="L1", level=0.0, height=3.2, slab=200.0)]
-    wall = WallRun(
-        wall_id="W1",
-        x1=0.0,
-        y1=0.0,
-        x2=Lw,
-        y2=0.0,
-        thickness=tw,
-        storey_from="L1",
-        storey_to="L1",
-        fc=fc,
-        fsy=500.0,
-        v_dia=12.0,
-        v_spacing=200.0,
-        v_layers=2,
-        h_dia=10.0,
-        h_spacing=h_spacing,
-        h_layers=2,
-        cover=30.0,
-    )
+    wall = builders.wall("W1", 0.0, 0.0, Lw, 0.0, thickness=tw, fc=fc, h_dia=10.0, h_spacing=h_spacing)
     return stiffness.with_stiffness(geometry.derive(storeys, [wall], []).piers, 0.2, "fixed-fixed")
 
 

@@ -2,6 +2,7 @@
 (section 5; marked there as medium confidence, verify): hand evaluation at and either side of
 every boundary."""
 
+import builders
 import numpy as np
 import pandas as pd
 import pytest
@@ -9,7 +10,7 @@ import pytest
 from xlcore import geometry, stiffness
 from xlcore.checks.detailing import check_detailing
 from xlcore.codes import as3600 as a
-from xlcore.model import Settings, Storey, WallRun
+from xlcore.model import Settings, Storey
 
 
 def test_vertical_minimum_switches_at_three_percent_of_fc():
@@ -34,27 +35,8 @@ def test_clear_gap_three_diameters():
 
 def _one_wall(**kw):
     st = [Storey(index=0, name="L1", level=0.0, height=3.2, slab=200.0)]
-    base = dict(
-        wall_id="W1",
-        x1=0.0,
-        y1=0.0,
-        x2=3.0,
-        y2=0.0,
-        thickness=150.0,
-        storey_from="L1",
-        storey_to="L1",
-        fc=32.0,
-        fsy=500.0,
-        v_dia=12.0,
-        v_spacing=400.0,
-        v_layers=1,
-        h_dia=10.0,
-        h_spacing=200.0,
-        h_layers=1,
-        cover=25.0,
-    )
-    base.update(kw)
-    geom = geometry.derive(st, [WallRun(**base)], [])
+    base = dict(thickness=150.0, fc=32.0, v_spacing=400.0, v_layers=1, h_dia=10.0, h_layers=1, cover=25.0)
+    geom = geometry.derive(st, [builders.wall("W1", 0.0, 0.0, 3.0, 0.0, **(base | kw))], [])
     return stiffness.with_stiffness(geom.piers, 0.2, "fixed-fixed")
 
 

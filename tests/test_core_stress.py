@@ -1,33 +1,23 @@
 """Elastic core stress check on a box core, against sigma = N/A + M x / I evaluated by hand
 from the section's own properties (which test_section.py checks against sectionproperties)."""
 
+import builders
 import numpy as np
 import pandas as pd
 import pytest
 
 from xlcore import distribution, geometry, stiffness
 from xlcore.checks.core_stress import check_core_stress
-from xlcore.model import Settings, Storey, WallRun
+from xlcore.model import Settings, Storey
 
 
 def box():
     st = [Storey(index=0, name="GF", level=0.0, height=3.5, slab=200.0)]
-    common = dict(
-        thickness=250.0,
-        storey_from="GF",
-        storey_to="GF",
-        fc=40.0,
-        fsy=500.0,
-        v_dia=16.0,
-        v_spacing=200.0,
-        v_layers=2,
-        h_dia=12.0,
-        h_spacing=200.0,
-        h_layers=2,
-        cover=30.0,
-    )
     lines = [("A", 0, 0, 6, 0), ("B", 6, 0, 6, 4), ("C", 6, 4, 0, 4), ("D", 0, 4, 0, 0)]
-    walls = [WallRun(wall_id=w, x1=x1, y1=y1, x2=x2, y2=y2, **common) for w, x1, y1, x2, y2 in lines]
+    walls = [
+        builders.wall(w, x1, y1, x2, y2, storeys=("GF", "GF"), thickness=250.0, v_dia=16.0)
+        for w, x1, y1, x2, y2 in lines
+    ]
     geom = geometry.derive(st, walls, [])
     piers = stiffness.with_stiffness(geom.piers, 0.2, "fixed-fixed")
     plans = distribution.storey_plans(piers, stiffness.wall_stiffness(piers, 0.2, "fixed-fixed"))

@@ -4,10 +4,11 @@ Expected values are plain arithmetic on the inputs (hand evaluation); pier numbe
 wall start is xlcore's documented convention.
 """
 
+import builders
 import pytest
 
 from xlcore.geometry import bar_ratio, derive
-from xlcore.model import Opening, Storey, WallRun
+from xlcore.model import Opening, Storey
 
 
 def storeys():
@@ -18,27 +19,7 @@ def storeys():
 
 
 def wall(length=6.0, **kw):
-    base = dict(
-        wall_id="W3",
-        x1=0.0,
-        y1=0.0,
-        x2=length,
-        y2=0.0,
-        thickness=200.0,
-        storey_from="GF",
-        storey_to="L1",
-        fc=40.0,
-        fsy=500.0,
-        v_dia=12.0,
-        v_spacing=200.0,
-        v_layers=2,
-        h_dia=12.0,
-        h_spacing=200.0,
-        h_layers=2,
-        cover=30.0,
-    )
-    base.update(kw)
-    return WallRun(**base)
+    return builders.wall("W3", 0.0, 0.0, length, 0.0, storeys=("GF", "L1"), **kw)
 
 
 def opening(offset, width, head=2.1, sill=0.0, lo="GF", hi="L1"):
@@ -107,7 +88,7 @@ def test_lintel_depth_is_head_to_top_of_slab_above():
 
 def test_sloped_wall_length():
     # 3-4-5 triangle: centreline (0,0) -> (3,4) is 5 m long (hand evaluation)
-    g = derive(storeys(), [wall(x2=3.0, y2=4.0)], [])
+    g = derive(storeys(), [builders.wall("W3", 0.0, 0.0, 3.0, 4.0, storeys=("GF", "L1"))], [])
     assert g.piers.Lw.iloc[0] == pytest.approx(5000.0)
 
 

@@ -13,33 +13,16 @@ dv = max(0.72 x 1200, 0.9 x 1150) = 1035; Asv = 157.08 >= Asv.min = 0.08 sqrt(40
 phi Vu = 0.75 x 942.3 = 706.7 kN.
 """
 
+import builders
 import pandas as pd
 import pytest
 
 from xlcore import geometry
 from xlcore.checks.lintels import check_lintels
-from xlcore.model import Opening, Settings, Storey, WallRun
+from xlcore.model import Opening, Settings, Storey
 
 STOREY = [Storey(index=0, name="L1", level=0.0, height=3.6, slab=200.0)]
-WALL = WallRun(
-    wall_id="W1",
-    x1=0.0,
-    y1=0.0,
-    x2=8.0,
-    y2=0.0,
-    thickness=200.0,
-    storey_from="L1",
-    storey_to="L1",
-    fc=40.0,
-    fsy=500.0,
-    v_dia=12.0,
-    v_spacing=200.0,
-    v_layers=2,
-    h_dia=12.0,
-    h_spacing=200.0,
-    h_layers=2,
-    cover=30.0,
-)
+WALL = builders.wall("W1", 0.0, 0.0, 8.0, 0.0)
 
 
 def lintels(**kw):

@@ -5,6 +5,7 @@ and every utilisation is demand over capacity."""
 
 from __future__ import annotations
 
+import builders
 import numpy as np
 import pandas as pd
 from hypothesis import assume, given
@@ -14,7 +15,7 @@ from xlcore import distribution, pipeline, results, stiffness
 from xlcore.checks.axial import interaction, rect_sections
 from xlcore.codes import as3600
 from xlcore.diagnostics import Findings
-from xlcore.model import Building, Opening, Settings, Storey, WallRun
+from xlcore.model import Building, Opening, Settings, Storey
 
 grades = st.sampled_from(as3600.STANDARD_GRADES)
 
@@ -26,22 +27,14 @@ def buildings(draw):
     bx, by = draw(st.floats(3.0, 12.0)), draw(st.floats(2.5, 9.0))
     t = draw(st.sampled_from([150.0, 200.0, 250.0, 300.0]))
     fc = draw(grades)
-    common = dict(
-        thickness=t,
-        storey_from="S0",
-        storey_to=f"S{n_storeys - 1}",
-        fc=fc,
-        fsy=500.0,
-        v_dia=draw(st.sampled_from([12.0, 16.0])),
-        v_spacing=200.0,
-        v_layers=2,
-        h_dia=12.0,
-        h_spacing=draw(st.sampled_from([150.0, 200.0, 250.0])),
-        h_layers=2,
-        cover=30.0,
+    bars = dict(
+        v_dia=draw(st.sampled_from([12.0, 16.0])), h_spacing=draw(st.sampled_from([150.0, 200.0, 250.0]))
     )
     lines = [("A", 0, 0, bx, 0), ("B", bx, 0, bx, by), ("C", bx, by, 0, by), ("D", 0, by, 0, 0)]
-    walls = [WallRun(wall_id=w, x1=x1, y1=y1, x2=x2, y2=y2, **common) for w, x1, y1, x2, y2 in lines]
+    walls = [
+        builders.wall(w, x1, y1, x2, y2, storeys=("S0", f"S{n_storeys - 1}"), thickness=t, fc=fc, **bars)
+        for w, x1, y1, x2, y2 in lines
+    ]
     width = draw(st.floats(0.8, min(2.0, bx - 1.0)))
     offset = draw(st.floats(0.3, bx - width - 0.3))
     openings = [

@@ -119,6 +119,11 @@ def stress_plane(sec: CoreSection, n, mx, my):
     return a, b, c
 
 
+def stress_at(sec: CoreSection, a, b, c, x, y):
+    """sigma = a + b (x - xc) + c (y - yc) at plan points, for the coefficients of `stress_plane`."""
+    return a + b * (x - sec.xc) + c * (y - sec.yc)
+
+
 def piece_forces(sec: CoreSection, piece_moments: np.ndarray, a, b, c) -> np.ndarray:
     """Axial force on each piece, int sigma dA, for stress planes (one per column of a, b, c).
 

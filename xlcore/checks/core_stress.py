@@ -49,10 +49,11 @@ def check_core_stress(
         fib = _fibres(sp)
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
         sigma = (
-            a[None, :]
-            + b[None, :] * (fib.x.to_numpy()[:, None] - sec.xc)
-            + c[None, :] * (fib.y.to_numpy()[:, None] - sec.yc)
-        ) / 1000.0  # kPa -> MPa, fibres x combos
+            section.stress_at(
+                sec, a[None, :], b[None, :], c[None, :], fib.x.to_numpy()[:, None], fib.y.to_numpy()[:, None]
+            )
+            / 1000.0
+        )  # kPa -> MPa, fibres x combos
         walls = sp.drop_duplicates("wall_id")
         for w in walls.itertuples(index=False):
             mask = (fib.wall_id == w.wall_id).to_numpy()
@@ -62,7 +63,7 @@ def check_core_stress(
             tension = (np.maximum(-s, 0) * f.area.to_numpy()[:, None]).sum(axis=0) * 1000.0  # kN
             provided = (f.rho_v.to_numpy()[:, None] * f.area.to_numpy()[:, None] * (s < 0)).sum(axis=0) * 1e6
             ends = [(w.wx, w.wy), (w.wx + w.ux * w.wall_length, w.wy + w.uy * w.wall_length)]
-            end_sigma = [(a + b * (x - sec.xc) + c * (y - sec.yc)) / 1000.0 for x, y in ends]
+            end_sigma = [section.stress_at(sec, a, b, c, x, y) / 1000.0 for x, y in ends]
             for j, rec in enumerate(cs.itertuples(index=False)):
                 rows.append(
                     dict(
