@@ -94,8 +94,3 @@ def solve_dn(sec: Rect, target, lo, hi, iterations: int = 60, scale=None) -> np.
 def tension_capacity(sec: Rect) -> np.ndarray:
     """All bars yielding in tension, concrete cracked: -As fsy (negative)."""
     return -(sec.A * sec.fsy[:, None]).sum(axis=1)
-
-
-def steel_moment_at_tension(sec: Rect) -> np.ndarray:
-    """Moment of the bar forces at pure tension (zero for symmetric bars)."""
-    return (-(sec.A * sec.fsy[:, None]) * (sec.D[:, None] / 2 - sec.d)).sum(axis=1)
