@@ -3,6 +3,9 @@
 from __future__ import annotations
 
 import datetime as dt
+import time
+from collections.abc import Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -32,10 +35,23 @@ class Outcome:
     shear: pd.DataFrame
     summary: pd.DataFrame
     sheets: list[ResultSheet] = field(default_factory=list)
+    timings: dict[str, float] = field(default_factory=dict)
 
     @property
     def failing(self) -> int:
         return int((self.summary.status == results.FAIL).sum())
+
+
+class Timings(dict):
+    """Seconds spent per phase, for the benchmark and progress display."""
+
+    @contextmanager
+    def phase(self, name: str) -> Iterator[None]:
+        start = time.perf_counter()
+        try:
+            yield
+        finally:
+            self[name] = self.get(name, 0.0) + time.perf_counter() - start
 
 
 def load(path: Path) -> tuple[Building, Findings]:
@@ -46,19 +62,24 @@ def load(path: Path) -> tuple[Building, Findings]:
 def compute(building: Building, findings: Findings, now: dt.datetime | None = None) -> Outcome:
     """Run every check on a validated building and lay out the result sheets."""
     s = building.settings
-    geom = geometry.derive(building.storeys, building.walls, building.openings)
-    piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
-    walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
-    plans = distribution.storey_plans(piers, walls)
-    acts, core = pier_actions(building, piers, walls, plans)
-    shear = check_pier_shear(piers, acts, s)
-    axial = check_pier_axial(piers, acts, s)
-    hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
-    detailing = check_detailing(piers, acts, s, hwe)
-    summary = envelope(shear, piers, axial, detailing)
-    lintels = check_lintels(geom.lintels, building.member_actions, s)
-    advice = advise(piers, acts, summary, s)
-    summary = with_cheapest_fix(summary, advice)
+    t = Timings()
+    with t.phase("geometry"):
+        geom = geometry.derive(building.storeys, building.walls, building.openings)
+        piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
+        walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
+        plans = distribution.storey_plans(piers, walls)
+    with t.phase("sharing"):
+        acts, core = pier_actions(building, piers, walls, plans)
+    with t.phase("checks"):
+        shear = check_pier_shear(piers, acts, s)
+        axial = check_pier_axial(piers, acts, s)
+        hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
+        detailing = check_detailing(piers, acts, s, hwe)
+        summary = envelope(shear, piers, axial, detailing)
+        lintels = check_lintels(geom.lintels, building.member_actions, s)
+    with t.phase("advice"):
+        advice = advise(piers, acts, summary, s)
+        summary = with_cheapest_fix(summary, advice)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     lintel_line = _lintel_line(lintels)
     sections = distribution.sections_table(plans, building.storey_index())
@@ -193,7 +214,9 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
         ),
     ]
     if core is not None:
-        stress = check_core_stress(piers, plans, building.core_actions, s)
+        with t.phase("core checks"):
+            stress = check_core_stress(piers, plans, building.core_actions, s)
+            core_nm = check_core_nm(piers, plans, building.core_actions, s)
         sheets.append(
             ResultSheet(
                 results.CORE_STRESS_SHEET,
@@ -213,7 +236,6 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 scale_key="util",
             )
         )
-        core_nm = check_core_nm(piers, plans, building.core_actions, s)
         if len(core_nm):
             w = core_nm.loc[core_nm.util.idxmax()]
             sheets[0].preamble.append(
@@ -290,7 +312,7 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
                 ],
             )
         )
-    return Outcome(building, findings, geom, shear, summary, sheets)
+    return Outcome(building, findings, geom, shear, summary, sheets, timings=t)
 
 
 def pier_actions(
