@@ -15,7 +15,8 @@ from xlcore.results import FAIL, PASS
 ANGLES = 24  # neutral-axis directions around the full circle (15 degrees apart)
 FIBRE = 100.0  # mm along each wall
 ACROSS = 4  # fibres across each wall's thickness (within 1 % of exact clipping: tests)
-CHUNK = 192  # (combination, angle) rows solved together: keeps the working arrays in cache
+SAMPLES = 96  # points on each design curve between pure bending and decompression
+CHUNK = 256  # curve points evaluated together: keeps the working arrays in cache
 
 
 def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> nm_core.Assembly:
@@ -39,10 +40,15 @@ def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> n
     return nm_core.build(
         walls_per_storey,
         fibre=FIBRE,
-        across=2,
+        across=ACROSS,
         block=lambda fc: (as3600.alpha2(fc), as3600.gamma(fc)),
         centroid=centroids,
     )
+
+
+def _section_key(sp: pd.DataFrame, sec) -> tuple:
+    cols = ["px1", "py1", "px2", "py2", "tw", "fc", "fsy", "v_dia", "v_spacing", "v_layers", "cover"]
+    return (tuple(map(tuple, sp[cols].round(6).to_numpy())), round(sec.xc, 9), round(sec.yc, 9))
 
 
 def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings: Settings) -> pd.DataFrame:
@@ -51,11 +57,17 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
     if core.empty:
         return pd.DataFrame()
     phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
-    storeys = list(dict.fromkeys(core.storey))
+    # storeys with the same walls, grades and bars share one section: solve each section once
+    by_key: dict[tuple, str] = {}
+    section_of = {}
+    for storey in dict.fromkeys(core.storey):
+        key = _section_key(piers[piers.storey == storey], plans[storey].section)
+        section_of[storey] = by_key.setdefault(key, storey)
+    storeys = list(by_key.values())
     asm = storey_assemblies(piers, plans, storeys)
     s_index = {s: i for i, s in enumerate(storeys)}
     theta = np.linspace(-np.pi, np.pi, ANGLES, endpoint=False)
-    # per storey x angle: the key points of the interaction diagram
+    # per section x angle: the key points of the interaction diagram
     si = np.repeat(np.arange(len(storeys)), ANGLES)
     th = np.tile(theta, len(storeys))
     full = nm_core.full_depth(asm, si, th)
@@ -79,25 +91,31 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
     phi_b = as3600.phi_bending(kuo)
     phi_d = as3600.phi_axial_bending(nd, nub, nuot[si], kuo, phi0)
 
-    # every combination x angle at once: regular region solved with phi(N) N = N* (clamped)
-    case_storey = np.array([s_index[x] for x in core.storey])
+    # design curves between pure bending and decompression, sampled densely in dn (geometric
+    # spacing), then read at each N* by interpolation on phi(Nu) Nu, which rises with dn
+    u = np.linspace(0.0, 1.0, SAMPLES)
+    dn_s = dn0[:, None] * (full / dn0)[:, None] ** u[None, :]  # rows x samples
+    rows_s = np.repeat(np.arange(len(si)), SAMPLES)
+    n_s, mx_s, my_s = (np.empty(len(rows_s)) for _ in range(3))
+    for part in np.array_split(np.arange(len(rows_s)), max(len(rows_s) // CHUNK, 1)):  # cache-sized blocks
+        fr = nm_core.frame(asm, si[rows_s[part]], th[rows_s[part]])
+        n_s[part], mx_s[part], my_s[part] = nm_core.forces_in(fr, dn_s.ravel()[part])
+    phi_s = as3600.phi_axial_bending(n_s, nub[rows_s], nuot[si[rows_s]], kuo[rows_s], phi0)
+    dn_curve = (phi_s * n_s).reshape(-1, SAMPLES)
+    dmx_curve = (phi_s * mx_s).reshape(-1, SAMPLES)
+    dmy_curve = (phi_s * my_s).reshape(-1, SAMPLES)
+
+    case_storey = np.array([s_index[section_of[x]] for x in core.storey])
     n_star = core.n.to_numpy(dtype=float) * 1e3
     ci = np.repeat(np.arange(len(core)), ANGLES)  # case of each (case, angle) pair
-    kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its storey x angle row
+    kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its section x angle row
     idx = si[kk]
-
     target = np.clip(n_star[ci], 0.0, phi_d[kk] * nd[kk])
     px, py = np.empty(len(kk)), np.empty(len(kk))
-    for part in np.array_split(np.arange(len(kk)), max(len(kk) // CHUNK, 1)):  # cache-sized blocks
-        k_p = kk[part]
-
-        def scale_p(n, k_p=k_p):
-            return as3600.phi_axial_bending(n, nub[k_p], nuot[si[k_p]], kuo[k_p], phi0)
-
-        fr = nm_core.frame(asm, si[k_p], th[k_p])
-        dn = nm_core.solve_dn(asm, si[k_p], th[k_p], target[part], dn0[k_p], full[k_p], scale=scale_p, fr=fr)
-        nn, mx, my = nm_core.forces_in(fr, dn)
-        px[part], py[part] = scale_p(nn) * mx, scale_p(nn) * my
+    for row in np.unique(kk):
+        here = kk == row
+        px[here] = np.interp(target[here], dn_curve[row], dmx_curve[row])
+        py[here] = np.interp(target[here], dn_curve[row], dmy_curve[row])
     top, bottom = phi0 * nuo[idx], as3600.PHI_TENSION * nuot[idx]
     above = n_star[ci] > phi_d[kk] * nd[kk]
     up = np.clip((n_star[ci] - phi_d[kk] * nd[kk]) / np.maximum(top - phi_d[kk] * nd[kk], 1e-9), 0, 1)
