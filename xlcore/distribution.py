@@ -203,10 +203,12 @@ def core_actions_to_piers(
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
         wall_index = {w: i for i, w in enumerate(sw.wall_id)}
+        k_walls = sw.k.to_numpy()
+        ux_w, uy_w = sw.ux.to_numpy(), sw.uy.to_numpy()
         k_wall_piers = sp.groupby("wall_id").k.transform("sum").to_numpy()
         in_wall = {w: (sp.wall_id == w).to_numpy() for w in sw.wall_id}
         for j, rec in enumerate(cs.itertuples(index=False)):
-            along = vx[j] * sw.ux.to_numpy() + vy[j] * sw.uy.to_numpy()
+            along = vx[j] * ux_w + vy[j] * uy_w
             for i, w in enumerate(sw.wall_id):
                 wall_rows.append(
                     dict(
@@ -214,7 +216,7 @@ def core_actions_to_piers(
                         storey=storey,
                         combination=rec.combination,
                         wall_id=w,
-                        k=sw.k.iloc[i] * 1e-3,
+                        k=k_walls[i] * 1e-3,
                         direct=base.direct[i, j],
                         torsion=torsion[i, j],
                         v=total[i, j],

@@ -245,32 +245,25 @@ def supported_edges(piers: pd.DataFrame) -> np.ndarray:
     out = np.zeros(len(piers), dtype=int)
     walls = piers.drop_duplicates(["storey", "wall_id"])
     for storey, sw in walls.groupby("storey", sort=False):
-        ends: dict[tuple[str, int], bool] = {}
-        for w in sw.itertuples(index=False):
-            for which, (x, y) in (
-                (0, (w.wx, w.wy)),
-                (1, (w.wx + w.ux * w.wall_length, w.wy + w.uy * w.wall_length)),
-            ):
-                ends[(w.wall_id, which)] = any(
-                    abs(w.ux * o.uy - w.uy * o.ux) > 0.5
-                    and _distance_to_segment(x, y, o.wx, o.wy, o.ux, o.uy, o.wall_length)
-                    <= o.tw / 2000 + 0.01
-                    for o in sw.itertuples(index=False)
-                    if o.wall_id != w.wall_id
-                )
+        wx, wy, ux, uy = (sw[k].to_numpy(float) for k in ("wx", "wy", "ux", "uy"))
+        length, reach = sw.wall_length.to_numpy(float), sw.tw.to_numpy(float) / 2000 + 0.01
+        ids = sw.wall_id.to_numpy()
+        braced = {}
+        for which, (ex, ey) in enumerate(((wx, wy), (wx + ux * length, wy + uy * length))):
+            # distance from every wall end (rows) to every other wall's centreline (columns)
+            t = np.clip((ex[:, None] - wx) * ux + (ey[:, None] - wy) * uy, 0.0, length)
+            dist = np.hypot(ex[:, None] - (wx + ux * t), ey[:, None] - (wy + uy * t))
+            crossing = np.abs(ux[:, None] * uy - uy[:, None] * ux) > 0.5  # not parallel (and not itself)
+            hit = (crossing & (dist <= reach)).any(axis=1)
+            braced.update({(w, which): h for w, h in zip(ids, hit, strict=True)})
         here = (piers.storey == storey).to_numpy()
         sp = piers[here]
-        at_start = (sp.start <= TOL).to_numpy() & np.array([ends[(w, 0)] for w in sp.wall_id], dtype=bool)
+        at_start = (sp.start <= TOL).to_numpy() & np.array([braced[(w, 0)] for w in sp.wall_id], dtype=bool)
         at_end = (sp.wall_length - sp.end <= TOL).to_numpy() & np.array(
-            [ends[(w, 1)] for w in sp.wall_id], dtype=bool
+            [braced[(w, 1)] for w in sp.wall_id], dtype=bool
         )
         out[here] = at_start.astype(int) + at_end.astype(int)
     return out
-
-
-def _distance_to_segment(x, y, x0, y0, ux, uy, length) -> float:
-    t = min(max((x - x0) * ux + (y - y0) * uy, 0.0), length)
-    return math.hypot(x - (x0 + ux * t), y - (y0 + uy * t))
 
 
 def _nan(x: float | None) -> float:
