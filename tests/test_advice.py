@@ -107,3 +107,17 @@ def test_prices_text_is_parsed_and_interpolated():
     with pytest.raises(ValueError, match="grade:price"):
         costs.parse_concrete_prices("32-260")
     assert as3600.STANDARD_GRADES[0] == 20.0
+
+
+@settings(max_examples=8)
+@given(v=st.floats(min_value=500.0, max_value=1600.0), n=st.floats(min_value=-800.0, max_value=3000.0))
+def test_early_stopping_search_equals_exhaustive_search(v, n):
+    piers = one_pier()
+    a = acts(v, n=n, m=600.0)
+    summary = pd.DataFrame(dict(storey=["L1"], pier_id=["W1"], status=["FAIL"], check=["x"], util=[2.0]))
+    fast = advise(piers, a, summary, Settings()).set_index("kind")
+    every = evaluate_options(piers, a, TARGET, Settings())
+    for kind, g in every.groupby("kind"):
+        ok = g[g.util <= 1.0].sort_values("added_cost", kind="stable")
+        expected = ok.option.iloc[0] if len(ok) else "none in the search range passes every check"
+        assert fast.loc[kind, "option"] == expected

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import itertools
 
+import numpy as np
 import pandas as pd
 
 from xlcore import costs, geometry
@@ -58,11 +59,10 @@ def _options(p) -> list[tuple[str, str, dict]]:
     return out
 
 
-def evaluate_options(
-    piers: pd.DataFrame, actions: pd.DataFrame, targets: pd.DataFrame, settings: Settings
-) -> pd.DataFrame:
-    """Every option for every target (storey, pier_id): worst utilisation and added cost per
-    metre height. One batch through the checks."""
+def _candidates(
+    piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
+) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """Every option for every target as a variant pier row, with its added cost per metre."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"])
     variants, meta = [], []
@@ -76,10 +76,6 @@ def evaluate_options(
             )
     var = pd.DataFrame(variants)
     meta = pd.DataFrame(meta)
-    acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
-    acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
-    worst = _worst(var, acts, settings)
-    meta["util"] = meta.variant.map(worst).astype(float)
 
     def cost(df: pd.DataFrame) -> pd.Series:
         concrete = df.fc.map(lambda g: costs.concrete_price(prices, g))
@@ -91,25 +87,83 @@ def evaluate_options(
     ]
     for key in ("fc", "tw", "rho_v", "rho_h"):
         meta[key] = var[key].to_numpy()
+    return var, meta
+
+
+def _utilisation(
+    var: pd.DataFrame, meta: pd.DataFrame, actions: pd.DataFrame, settings: Settings
+) -> pd.Series:
+    """Worst utilisation of the variants in `meta`, by variant ID."""
+    acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
+    acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
+    return _worst(var[var.pier_id.isin(meta.variant)], acts, settings)
+
+
+def evaluate_options(
+    piers: pd.DataFrame, actions: pd.DataFrame, targets: pd.DataFrame, settings: Settings
+) -> pd.DataFrame:
+    """Every option for every target (storey, pier_id): worst utilisation and added cost per
+    metre height (all options run through the checks; `advise` stops early)."""
+    var, meta = _candidates(piers, targets, settings)
+    meta["util"] = meta.variant.map(_utilisation(var, meta, actions, settings)).astype(float)
     return meta
+
+
+ROUND = 6  # options per (pier, kind) tried in each round, cheapest first
 
 
 def advise(
     piers: pd.DataFrame, actions: pd.DataFrame, summary: pd.DataFrame, settings: Settings
 ) -> pd.DataFrame:
     """One row per failing storey x pier x kind of change: the cheapest passing option of that
-    kind (or 'none in the search range'), its worst utilisation and added cost per metre."""
+    kind (or 'none in the search range'), its worst utilisation and added cost per metre.
+
+    Options are tried in rounds, cheapest first, and a (pier, kind) stops at the first round
+    that holds a passing option: every cheaper option was tried in an earlier round and failed,
+    so the answer is the one an exhaustive search gives, at a fraction of its work."""
     failing = summary[summary.status == "FAIL"][["storey", "pier_id"]]
     if failing.empty:
         return pd.DataFrame(
             columns=["storey", "pier_id", "kind", "option", "util", "added_cost", "rank", "check", "util_now"]
         )
-    meta = evaluate_options(piers, actions, failing, settings)
+    var, meta = _candidates(piers, failing, settings)
+    group = ["storey", "pier_id", "kind"]
+    # horizontal bars change neither axial + bending nor Cl 11.5: where either fails they cannot
+    # help, so those options are not run (exactly what running them would show)
+    cols = [c for c in ("u_nm", "u_simplified") if c in summary]
+    hopeless = (
+        summary[(summary[cols] > 1.0).any(axis=1)][["storey", "pier_id"]] if cols else summary.iloc[0:0]
+    )
+    flagged = (
+        meta.merge(hopeless.assign(_h=True), on=["storey", "pier_id"], how="left")._h.eq(True).to_numpy()
+    )
+    skip = flagged & (meta.kind == "horizontal bars").to_numpy()
+    skipped = meta[skip][group].drop_duplicates()
+    meta = meta[~skip]
+    meta = meta.sort_values([*group, "added_cost"], kind="stable")
+    meta["order"] = meta.groupby(group, sort=False).cumcount()
+    meta["util"] = np.nan
+    open_groups = meta[group].drop_duplicates()
+    for start in range(0, int(meta.order.max()) + 1, ROUND):
+        batch = meta[(meta.order >= start) & (meta.order < start + ROUND)].merge(open_groups, on=group)
+        if batch.empty:
+            break
+        worst = _utilisation(var, batch, actions, settings)
+        meta.loc[meta.variant.isin(batch.variant), "util"] = meta.variant.map(worst)
+        done = batch.assign(util=batch.variant.map(worst))
+        done = done[done.util <= 1.0][group].drop_duplicates()
+        open_groups = open_groups.merge(done, on=group, how="left", indicator=True)
+        open_groups = open_groups[open_groups._merge == "left_only"].drop(columns="_merge")
+        if open_groups.empty:
+            break
     passing = meta[meta.util <= 1.0].sort_values("added_cost", kind="stable")
-    best = passing.groupby(["storey", "pier_id", "kind"], sort=False).head(1)
-    kinds = meta[["storey", "pier_id", "kind"]].drop_duplicates()
-    out = kinds.merge(best, on=["storey", "pier_id", "kind"], how="left")
+    best = passing.groupby(group, sort=False).head(1)
+    kinds = pd.concat([meta[group].drop_duplicates(), skipped], ignore_index=True)
+    out = kinds.merge(best, on=group, how="left")
     out["option"] = out.option.fillna("none in the search range passes every check")
+    out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
+        "none: horizontal bars do not change axial + bending or Cl 11.5, which fail"
+    )
     out["rank"] = out.groupby(["storey", "pier_id"]).added_cost.rank(method="first")
     out = out.merge(
         summary[["storey", "pier_id", "check", "util"]].rename(columns={"util": "util_now"}),
