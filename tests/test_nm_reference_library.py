@@ -16,19 +16,17 @@ from concreteproperties.pre import add_bar  # noqa: E402
 from sectionproperties.pre.library import rectangular_section  # noqa: E402
 
 
+def _bars(Lw, tw, dia, spacing, cover):
+    """The pier's vertical bars as xlcore places them (two layers), for one pier."""
+    return pier_bars(*(np.array([v], dtype=float) for v in (Lw, tw, dia, spacing, 2.0, cover)))
+
+
 def reference(Lw, tw, fc, dia, spacing, cover):
     code = AS3600()
     concrete = code.create_concrete_material(compressive_strength=fc)
     steel = code.create_steel_material()
     geom = rectangular_section(d=Lw, b=tw, material=concrete)
-    depths, _ = pier_bars(
-        np.array([Lw]),
-        np.array([tw]),
-        np.array([dia]),
-        np.array([spacing]),
-        np.array([2.0]),
-        np.array([cover]),
-    )
+    depths, _ = _bars(Lw, tw, dia, spacing, cover)
     area = np.pi * dia**2 / 4
     for y in depths[0][depths[0] > 0]:
         for x in (cover + dia / 2, tw - cover - dia / 2):
@@ -39,14 +37,7 @@ def reference(Lw, tw, fc, dia, spacing, cover):
 
 
 def ours(Lw, tw, fc, dia, spacing, cover):
-    d, A = pier_bars(
-        np.array([Lw]),
-        np.array([tw]),
-        np.array([dia]),
-        np.array([spacing]),
-        np.array([2.0]),
-        np.array([cover]),
-    )
+    d, A = _bars(Lw, tw, dia, spacing, cover)
     f = np.array([float(fc)])
     return nm.Rect(
         D=np.array([Lw]),
