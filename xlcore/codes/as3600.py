@@ -77,9 +77,12 @@ def wall_vuc(fc, Hw_Lw, Lw, tw):
 
     Hw/Lw <= 1: Eq (1); Hw/Lw > 1: lesser of Eq (1) and Eq (2); never below the floor.
     """
-    eq1 = wall_vuc_eq1(fc, Hw_Lw, Lw, tw)
-    eq2 = wall_vuc_eq2(fc, Hw_Lw, Lw, tw)
-    floor = wall_vuc_floor(fc, Lw, tw)
+    return _vuc_of(
+        wall_vuc_eq1(fc, Hw_Lw, Lw, tw), wall_vuc_eq2(fc, Hw_Lw, Lw, tw), wall_vuc_floor(fc, Lw, tw)
+    )
+
+
+def _vuc_of(eq1, eq2, floor):
     lesser = np.minimum(eq1, eq2)
     vuc = np.maximum(lesser, floor)
     gov = np.where(floor > lesser, GOV_FLOOR, np.where(eq2 < eq1, GOV_EQ2, GOV_EQ1))
@@ -118,7 +121,12 @@ def wall_shear(fc, fsy, Lw, tw, Hw, rho_h, rho_v, phi=PHI_WALL_SHEAR) -> WallShe
     """phi Vu of a wall or pier in its plane, Cl 11.6.1-11.6.4: Vu = min(Vuc + Vus, Vu.max)."""
     Lw = np.asarray(Lw, dtype=float)
     ratio = np.asarray(Hw, dtype=float) / Lw
-    vuc, gov = wall_vuc(fc, ratio, Lw, tw)
+    eq1, eq2, floor = (
+        wall_vuc_eq1(fc, ratio, Lw, tw),
+        wall_vuc_eq2(fc, ratio, Lw, tw),
+        wall_vuc_floor(fc, Lw, tw),
+    )
+    vuc, gov = _vuc_of(eq1, eq2, floor)
     rho_w = wall_rho_w(ratio, rho_h, rho_v)
     vus = wall_vus(rho_w, fsy, Lw, tw)
     vmax = wall_vu_max(fc, Lw, tw)
@@ -127,9 +135,9 @@ def wall_shear(fc, fsy, Lw, tw, Hw, rho_h, rho_v, phi=PHI_WALL_SHEAR) -> WallShe
     phi = np.broadcast_to(np.asarray(phi, dtype=float), Lw.shape).copy()
     return WallShear(
         area=wall_shear_area(Lw, tw),
-        eq1=wall_vuc_eq1(fc, ratio, Lw, tw),
-        eq2=wall_vuc_eq2(fc, ratio, Lw, tw),
-        floor=wall_vuc_floor(fc, Lw, tw),
+        eq1=eq1,
+        eq2=eq2,
+        floor=floor,
         vuc=vuc,
         rho_w=rho_w,
         vus=vus,
