@@ -12,7 +12,7 @@ block displace concrete when `deduct` is true. Moments are about mid-depth.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 import numpy as np
 
@@ -58,15 +58,126 @@ class Rect:
         """Depth of the extreme tension bar."""
         return np.where(self.A > 0, self.d, -np.inf).max(axis=1)
 
+    def take(self, rows: np.ndarray) -> Rect:
+        return _take(self, rows)
 
-def forces(sec: Rect, dn) -> tuple[np.ndarray, np.ndarray]:
+
+@dataclass(frozen=True)
+class EvenRect:
+    """Rows of rectangular sections whose bars are evenly spaced, all of one area: `count` bar
+    positions from depth `edge` to D - edge. The steel sums then have closed forms (arithmetic
+    series), so a section costs the same whatever its number of bars; `bars()` gives the same
+    sections as a `Rect` (the tests hold the two equal)."""
+
+    D: np.ndarray
+    b: np.ndarray
+    fc: np.ndarray
+    fsy: np.ndarray
+    edge: np.ndarray  # depth of the first bar position from either face
+    step: np.ndarray  # spacing of bar positions
+    count: np.ndarray  # bar positions per section (>= 2)
+    bar_area: np.ndarray  # steel area at one position (all layers)
+    alpha2: np.ndarray
+    gamma: np.ndarray
+    eps_cu: float = 0.003
+    Es: float = 200_000.0
+    deduct: bool = True
+
+    def flipped(self) -> EvenRect:
+        return self  # symmetric
+
+    @property
+    def As(self) -> np.ndarray:
+        return self.count * self.bar_area
+
+    @property
+    def d0(self) -> np.ndarray:
+        return self.edge + (self.count - 1) * self.step
+
+    def take(self, rows: np.ndarray) -> EvenRect:
+        return _take(self, rows)
+
+    def bars(self) -> Rect:
+        j = np.arange(int(self.count.max()))[None, :]
+        inside = j < self.count[:, None]
+        d = np.where(inside, self.edge[:, None] + j * self.step[:, None], 0.0)
+        A = np.where(inside, self.bar_area[:, None], 0.0)
+        return Rect(
+            self.D,
+            self.b,
+            self.fc,
+            self.fsy,
+            d,
+            A,
+            self.alpha2,
+            self.gamma,
+            self.eps_cu,
+            self.Es,
+            self.deduct,
+        )
+
+
+def _take(sec, rows):
+    return type(sec)(
+        **{
+            f.name: (v[rows] if isinstance(v, np.ndarray) else v)
+            for f in fields(sec)
+            for v in (getattr(sec, f.name),)
+        }
+    )
+
+
+def _even_sums(sec: EvenRect, j0, j1) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Count, sum of depths and sum of squared depths of bar positions j0 <= j < j1."""
+    cnt = j1 - j0
+    sj = (j1 * (j1 - 1) - j0 * (j0 - 1)) / 2
+    sjj = ((j1 - 1) * j1 * (2 * j1 - 1) - (j0 - 1) * j0 * (2 * j0 - 1)) / 6
+    e, s = sec.edge, sec.step
+    return cnt, cnt * e + s * sj, cnt * e * e + 2 * e * s * sj + s * s * sjj
+
+
+def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`forces` for evenly spaced bars: the bars fall in three strain zones (yielded in
+    compression, elastic, yielded in tension), each an arithmetic series of depths."""
+    depth = np.minimum(sec.gamma * dn, sec.D)
+    conc_stress = sec.alpha2 * sec.fc
+    cc = conc_stress * depth * sec.b
+    ey = sec.fsy / sec.Es
+    n = sec.count
+
+    def upto(x, inclusive=True):  # bar positions with depth <= x (or < x)
+        q = (x - sec.edge) / sec.step
+        j = np.floor(q) + 1 if inclusive else np.ceil(q)
+        return np.clip(j, 0, n)
+
+    ja = upto(dn * (1 - ey / sec.eps_cu))  # d <= this: yielded in compression
+    jb = upto(dn * (1 + ey / sec.eps_cu))  # d >= this: yielded in tension
+    zero = np.zeros_like(ja)
+    c0, c1, _ = _even_sums(sec, zero, ja)
+    e0, e1, e2 = _even_sums(sec, ja, jb)
+    t0, t1, _ = _even_sums(sec, jb, n)
+    h = sec.D / 2
+    k = sec.Es * sec.eps_cu / dn
+    fy, area = sec.fsy, sec.bar_area
+    ns = area * (fy * (c0 - t0) + k * (dn * e0 - e1))
+    ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
+    if sec.deduct:
+        b0, b1, _ = _even_sums(sec, zero, upto(depth, inclusive=False))
+        ns = ns - conc_stress * area * b0
+        ms = ms - conc_stress * area * (h * b0 - b1)
+    return cc + ns, cc * (h - depth / 2) + ms
+
+
+def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     """Nominal (N, M) for neutral-axis depths dn (one per row)."""
     dn = np.asarray(dn, dtype=float)
+    if isinstance(sec, EvenRect):
+        return _forces_even(sec, dn)
     depth = np.minimum(sec.gamma * dn, sec.D)
     conc_stress = sec.alpha2 * sec.fc
     cc = conc_stress * depth * sec.b
     strain = sec.eps_cu * (dn[:, None] - sec.d) / dn[:, None]
-    stress = np.clip(sec.Es * strain, -sec.fsy[:, None], sec.fsy[:, None])
+    stress = np.minimum(np.maximum(sec.Es * strain, -sec.fsy[:, None]), sec.fsy[:, None])
     if sec.deduct:
         stress = stress - np.where(sec.d < depth[:, None], conc_stress[:, None], 0.0)
     fs = stress * sec.A
@@ -75,22 +186,57 @@ def forces(sec: Rect, dn) -> tuple[np.ndarray, np.ndarray]:
     return n, m
 
 
-def solve_dn(sec: Rect, target, lo, hi, iterations: int = 60, scale=None) -> np.ndarray:
-    """Neutral-axis depth where g(dn) = target, for g increasing in dn, by bisection on all rows
-    at once. g is N(dn), or N(dn) x scale(N) when `scale` (e.g. phi) is given."""
-    lo = np.asarray(lo, dtype=float).copy()
-    hi = np.asarray(hi, dtype=float).copy()
-    target = np.asarray(target, dtype=float)
-    for _ in range(iterations):
-        mid = 0.5 * (lo + hi)
-        n, _ = forces(sec, mid)
-        g = n * scale(n) if scale else n
-        below = g < target
-        lo = np.where(below, mid, lo)
-        hi = np.where(below, hi, mid)
-    return 0.5 * (lo + hi)
+def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None) -> np.ndarray:
+    """Neutral-axis depth where g(dn) = target, for g increasing in dn, on all rows at once.
+    g is N(dn), or N(dn) x scale(N, rows) when `scale` (e.g. phi) is given; `rows` says which
+    rows N belongs to (None: all).
+
+    Regula falsi with the Illinois modification inside a bracket that always holds the root,
+    every third step a plain bisection (so kinks where bars yield cannot stall it); rows stop
+    when the bracket is below 1e-12 D or g meets the target to 1e-12 of the force scale. The
+    answer is the bisection's to round-off, in about a quarter of the steps."""
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
+    target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
+
+    def g(x: np.ndarray, rows) -> np.ndarray:
+        part = sec if rows is None else sec.take(rows)
+        n, _ = forces(part, x)
+        return (n * scale(n, rows) if scale else n) - (target if rows is None else target[rows])
+
+    glo, ghi = g(lo, None), g(hi, None)
+    tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + np.abs(target))
+    tol_x = 1e-12 * sec.D
+    out = 0.5 * (lo + hi)
+    out = np.where(glo >= 0, lo, np.where(ghi <= 0, hi, out))  # target outside: the nearer end
+    active = np.flatnonzero((glo < 0) & (ghi > 0) & (hi - lo > tol_x))
+    last = np.zeros(sec.D.shape, dtype=np.int8)
+    for it in range(iterations):
+        if active.size == 0:
+            break
+        a, b, ga, gb = lo[active], hi[active], glo[active], ghi[active]
+        mid = 0.5 * (a + b)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            x = (a * gb - b * ga) / (gb - ga)
+        bad = ~np.isfinite(x) | (x <= a) | (x >= b)
+        x = mid if it % 3 == 2 else np.where(bad, mid, x)
+        gx = g(x, None if active.size == sec.D.size else active)
+        below = gx < 0
+        prev = last[active]
+        lo[active] = np.where(below, x, a)
+        hi[active] = np.where(below, b, x)
+        # Illinois: an end kept twice in a row has its g halved, so the next point moves off it
+        glo[active] = np.where(below, gx, np.where(prev == -1, 0.5 * ga, ga))
+        ghi[active] = np.where(below, np.where(prev == 1, 0.5 * gb, gb), gx)
+        last[active] = np.where(below, 1, -1)
+        out[active] = x
+        done = (np.abs(gx) <= tol_g[active]) | (hi[active] - lo[active] <= tol_x[active])
+        active = active[~done]
+    if active.size:
+        out[active] = 0.5 * (lo[active] + hi[active])
+    return out
 
 
-def tension_capacity(sec: Rect) -> np.ndarray:
+def tension_capacity(sec: Rect | EvenRect) -> np.ndarray:
     """All bars yielding in tension, concrete cracked: -As fsy (negative)."""
-    return -(sec.A * sec.fsy[:, None]).sum(axis=1)
+    return -sec.As * sec.fsy

@@ -44,18 +44,23 @@ def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover) -> tuple[np.ndarray, np
     return np.where(j < count[:, None], depth, 0.0), area
 
 
-def rect_sections(df: pd.DataFrame) -> nm.Rect:
-    d, a = pier_bars(
-        *(df[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover"))
+def rect_sections(df: pd.DataFrame) -> nm.EvenRect:
+    """The piers of `df` as sections with the bars of `pier_bars` (evenly spaced, one area)."""
+    Lw, tw, dia, spacing, layers, cover = (
+        df[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover")
     )
+    edge = cover + dia / 2
+    count = np.maximum(np.ceil((Lw - 2 * edge) / spacing).astype(int) + 1, 2)
     fc = df.fc.to_numpy(dtype=float)
-    return nm.Rect(
-        D=df.Lw.to_numpy(dtype=float),
-        b=df.tw.to_numpy(dtype=float),
+    return nm.EvenRect(
+        D=Lw,
+        b=tw,
         fc=fc,
         fsy=df.fsy.to_numpy(dtype=float),
-        d=d,
-        A=a,
+        edge=edge,
+        step=(Lw - 2 * edge) / (count - 1),
+        count=count.astype(float),
+        bar_area=layers * np.pi * dia**2 / 4,
         alpha2=as3600.alpha2(fc),
         gamma=as3600.gamma(fc),
         eps_cu=as3600.EPS_CU,
@@ -63,13 +68,18 @@ def rect_sections(df: pd.DataFrame) -> nm.Rect:
     )
 
 
-def interaction(sec: nm.Rect, n_star, phi0=as3600.PHI_COMPRESSION) -> dict[str, np.ndarray]:
+def interaction(
+    sec, n_star, phi0=as3600.PHI_COMPRESSION, of: np.ndarray | None = None
+) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
     Between pure bending and decompression (dn = D) the neutral axis is found so that
     phi(Nu) Nu = N* (Table 2.2.2 phi varies with Nu); above decompression phi Mu falls linearly
     to zero at phi Nuo (squash, Cl 10.6.2.2), and in tension linearly from pure bending to
-    0.85 Nuot, as AS 3600 practice interpolates (and the concreteproperties library does)."""
+    0.85 Nuot, as AS 3600 practice interpolates (and the concreteproperties library does).
+
+    `sec` may hold each distinct section once and `of` give the section of each N*: the
+    section's own points (squash, balance, pure bending) are then found once per section."""
     n_star = np.asarray(n_star, dtype=float)
     D = sec.D
     As = sec.As
@@ -82,7 +92,14 @@ def interaction(sec: nm.Rect, n_star, phi0=as3600.PHI_COMPRESSION) -> dict[str, 
     _, m0 = nm.forces(sec, dn0)
     kuo = dn0 / d0
     nd, md = nm.forces(sec, D)
-    phi_of = lambda n: as3600.phi_axial_bending(n, nub, nuot, kuo, phi0)  # noqa: E731
+    if of is not None:  # from here on, one row per N*
+        sec = sec.take(of)
+        D, nuo, nuot, nub, dn0, m0, kuo, nd, md = (v[of] for v in (D, nuo, nuot, nub, dn0, m0, kuo, nd, md))
+
+    def phi_of(n, rows=None):  # Table 2.2.2 phi at Nu = n, for all rows or those given
+        pick = (lambda v: v) if rows is None else (lambda v: v[rows])
+        return as3600.phi_axial_bending(n, pick(nub), pick(nuot), pick(kuo), phi0)
+
     phi_d = phi_of(nd)
     phi_b = as3600.phi_bending(kuo)
     # regular region: phi(N) N = N*, N between 0 and decompression
@@ -138,14 +155,16 @@ def check_pier_axial(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
     phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
     if df.empty:
         return df
-    sec = rect_sections(df)
-    r = interaction(sec, df.n.to_numpy() * 1e3, phi0)
+    keys = df.storey.astype(str) + "\x1f" + df.pier_id.astype(str)
+    first, of = np.unique(keys.to_numpy(), return_index=True, return_inverse=True)[1:]
+    sec = rect_sections(df.iloc[first])
+    r = interaction(sec, df.n.to_numpy() * 1e3, phi0, of=of)
     kn, knm = 1e-3, 1e-6
     df["nuo"], df["nuot"], df["nub"] = r["nuo"] * kn, r["nuot"] * kn, r["nub"] * kn
     df["phi_nuo"], df["kuo"], df["dn"] = r["top"] * kn, r["kuo"], np.where(r["region"] == 2, r["dn"], np.nan)
     df["mu"] = np.where(r["region"] == 2, np.abs(r["mu"]) * knm, np.nan)
     df["phi"], df["phi_mu"] = r["phi"], r["phi_mu"] * knm
-    df["as_total"] = sec.As
+    df["as_total"] = sec.As[of]
     beyond = np.isin(r["region"], (4, 5))  # axial capacity exceeded: the axial ratio tells
     with np.errstate(divide="ignore", invalid="ignore"):
         m_ratio = np.abs(df.m.to_numpy()) / df.phi_mu.to_numpy()
