@@ -121,3 +121,52 @@ def test_early_stopping_search_equals_exhaustive_search(v, n):
         ok = g[g.util <= 1.0].sort_values("added_cost", kind="stable")
         expected = ok.option.iloc[0] if len(ok) else "none in the search range passes every check"
         assert fast.loc[kind, "option"] == expected
+
+
+def two_storey_pier():
+    storeys = [builders.storey("L1"), builders.storey("L2", index=1, level=3.2)]
+    wall = builders.wall("W1", 0.0, 0.0, 3.0, 0.0, storeys=("L1", "L2"), fc=25.0, h_dia=10.0, h_spacing=300.0)
+    return stiffness.with_stiffness(geometry.derive(storeys, [wall], []).piers, 0.2, "fixed-fixed")
+
+
+def many_combinations(storey, v, n, m):
+    out = pd.concat([acts(vi, n=ni, m=mi) for vi, ni, mi in zip(v, n, m, strict=True)], ignore_index=True)
+    return out.assign(storey=storey, combination=[f"C{i}" for i in range(len(out))])
+
+
+@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    v=st.lists(st.floats(100.0, 1500.0), min_size=8, max_size=8),
+    n=st.lists(st.floats(-800.0, 4000.0), min_size=8, max_size=8),
+    m=st.lists(st.floats(0.0, 2500.0), min_size=8, max_size=8),
+)
+def test_screened_search_over_storeys_and_combinations_equals_exhaustive_search_per_storey(v, n, m):
+    """The search screens options on the few governing combinations and confirms on all; the
+    answer must be the exhaustive search's, storey by storey (each storey its own search)."""
+    piers = two_storey_pier()
+    a = pd.concat(
+        [many_combinations("L1", v, n, m), many_combinations("L2", v[::-1], n[1:] + n[:1], m[::-1])],
+        ignore_index=True,
+    )
+    summary = pd.DataFrame(
+        dict(
+            storey=["L1", "L2"],
+            pier_id=["W1", "W1"],
+            status=["FAIL", "FAIL"],
+            check=["x", "x"],
+            util=[2.0, 2.0],
+        )
+    )
+    fast = advise(piers, a, summary, Settings()).set_index(["storey", "kind"])
+    for storey in ("L1", "L2"):
+        alone = evaluate_options(
+            piers[piers.storey == storey],
+            a[a.storey == storey],
+            summary[summary.storey == storey],
+            Settings(),
+        )
+        for kind, g in alone.groupby("kind"):
+            ok = g[g.util <= 1.0].sort_values("added_cost", kind="stable")
+            expected = ok.option.iloc[0] if len(ok) else "none in the search range passes every check"
+            got = fast.loc[(storey, kind), "option"]
+            assert got == expected or got.startswith("none: horizontal bars")

@@ -67,9 +67,9 @@ def _candidates(
     base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"])
     variants, meta = [], []
     for p in base.itertuples(index=False):
-        for i, (kind, text, change) in enumerate(_options(p)):
+        for kind, text, change in _options(p):
             row = p._asdict() | change
-            row["pier_id"] = f"{p.pier_id}#{i}"
+            row["pier_id"] = f"{p.pier_id}#{len(variants)}"  # unique over storeys too
             variants.append(row)
             meta.append(
                 dict(storey=p.storey, pier_id=p.pier_id, variant=row["pier_id"], kind=kind, option=text)
@@ -144,13 +144,21 @@ def advise(
     meta["order"] = meta.groupby(group, sort=False).cumcount()
     meta["util"] = np.nan
     open_groups = meta[group].drop_duplicates()
+    screen = _screening_actions(actions, failing)
     for start in range(0, int(meta.order.max()) + 1, ROUND):
         batch = meta[(meta.order >= start) & (meta.order < start + ROUND)].merge(open_groups, on=group)
         if batch.empty:
             break
-        worst = _utilisation(var, batch, actions, settings)
+        # the few combinations that govern now first: an option failing those fails (the worst
+        # over some combinations is at most the worst over all); the rest are confirmed on all
+        util = batch.variant.map(_utilisation(var, batch, screen, settings))
+        hopeful = batch[(util <= 1.0).to_numpy()]
+        if len(hopeful):
+            full = _utilisation(var, hopeful, actions, settings)
+            util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
+        worst = pd.Series(util.to_numpy(), index=batch.variant.to_numpy())
         meta.loc[meta.variant.isin(batch.variant), "util"] = meta.variant.map(worst)
-        done = batch.assign(util=batch.variant.map(worst))
+        done = batch.assign(util=util.to_numpy())
         done = done[done.util <= 1.0][group].drop_duplicates()
         open_groups = open_groups.merge(done, on=group, how="left", indicator=True)
         open_groups = open_groups[open_groups._merge == "left_only"].drop(columns="_merge")
@@ -172,10 +180,42 @@ def advise(
     return out.sort_values(["storey", "pier_id", "rank"], na_position="last").reset_index(drop=True)
 
 
+SCREEN = 2  # combinations per pier and measure of demand in the screening set
+
+
+def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataFrame:
+    """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
+    |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
+    Cl 11.5 for any change of section in the search (a screen only: results are confirmed)."""
+    acts = actions.merge(failing, on=["storey", "pier_id"])
+    if acts.empty:
+        return acts
+    n = acts.n.to_numpy(float)
+    m = np.abs(acts.m.to_numpy(float))
+    measures = {
+        "v": np.abs(acts.v.to_numpy(float)),
+        "n": n,
+        "t": -n,
+        "m": m,
+        "e": m / np.maximum(np.abs(n), 1e-9),
+        "o": np.abs(np.nan_to_num(acts.m_out.to_numpy(float))) if "m_out" in acts else np.zeros(len(acts)),
+    }
+    groups = [acts.storey.to_numpy(), acts.pier_id.to_numpy()]
+    pick = np.zeros(len(acts), dtype=bool)
+    for values in measures.values():
+        rank = (
+            pd.Series(np.nan_to_num(values, nan=-np.inf))
+            .groupby(groups)
+            .rank(method="first", ascending=False)
+        )
+        pick |= (rank <= SCREEN).to_numpy()
+    return acts[pick]
+
+
 def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series:
     """Worst utilisation of every variant over every check and combination."""
-    shear = check_pier_shear(var, acts, s)
-    axial = check_pier_axial(var, acts, s)
+    shear = check_pier_shear(var, acts, s, working=False)
+    axial = check_pier_axial(var, acts, s, working=False)
     parts = [shear[["pier_id", "util"]]]
     if len(axial):
         parts.append(axial[["pier_id", "util"]])

@@ -7,6 +7,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import nm
+from xlcore.checks import per_pier
 from xlcore.codes import as3600
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
@@ -148,15 +149,17 @@ REGION_TEXT = {
 }
 
 
-def check_pier_axial(piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings) -> pd.DataFrame:
-    """In-plane axial force and bending of every pier row, kN and kNm."""
+def check_pier_axial(
+    piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings, working: bool = True
+) -> pd.DataFrame:
+    """In-plane axial force and bending of every pier row, kN and kNm (without `working`, the
+    numbers only)."""
     df = actions.merge(piers[GEOMETRY], on=["storey", "pier_id"], how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
     if df.empty:
         return df
-    keys = df.storey.astype(str) + "\x1f" + df.pier_id.astype(str)
-    first, of = np.unique(keys.to_numpy(), return_index=True, return_inverse=True)[1:]
+    first, of = per_pier(df)
     sec = rect_sections(df.iloc[first])
     r = interaction(sec, df.n.to_numpy() * 1e3, phi0, of=of)
     kn, knm = 1e-3, 1e-6
@@ -178,6 +181,8 @@ def check_pier_axial(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
         np.where(df.n >= 0, "Cl 10.6.2.2 squash, phi0", "Table 2.2.2 tension"),
         "Cl 8.1.3 / Table 2.2.2",
     )
+    if not working:
+        return _simplified(df, settings, working)
     df["f_nm"] = [
         _nm_text(*vals)
         for vals in zip(
@@ -196,7 +201,7 @@ def check_pier_axial(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
             strict=True,
         )
     ]
-    return _simplified(df, settings)
+    return _simplified(df, settings, working)
 
 
 def _nm_text(region, n, m, dn, nu, mu, phi, phi_mu, kuo, nub, phi_nuo, util) -> str:
@@ -210,7 +215,7 @@ def _nm_text(region, n, m, dn, nu, mu, phi, phi_mu, kuo, nub, phi_nuo, util) -> 
     return f"{core}; U = max(|{m:.1f}| / {phi_mu:.1f}, N*/phiN) = {util:.3f}"
 
 
-def _simplified(df: pd.DataFrame, s: Settings) -> pd.DataFrame:
+def _simplified(df: pd.DataFrame, s: Settings, working: bool = True) -> pd.DataFrame:
     """Cl 11.5 simplified method per row, with its applicability evaluated row by row."""
     phi = s.phi_simplified if s.phi_simplified is not None else as3600.PHI_SIMPLIFIED
     tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
@@ -224,26 +229,36 @@ def _simplified(df: pd.DataFrame, s: Settings) -> pd.DataFrame:
     cap = as3600.simplified_capacity(df.fc.to_numpy(float), tw, e, ea, Lw, phi) * 1e-3
     stress = n * 1e3 / (Lw * tw)
     limit = np.where(df.v_layers.to_numpy() >= 2, 30.0, 20.0)
-    reasons = []
-    for nn, sl, lim, st, layers, ee, t in zip(n, hwe / tw, limit, stress, df.v_layers, e, tw, strict=True):
-        why = []
-        if nn <= 0:
-            why.append("not in compression")
-        if sl > lim:
-            why.append(f"Hwe/tw {sl:.1f} > {lim:.0f}")
-        if st > 3.0 and layers < 2:
-            why.append(f"axial stress {st:.1f} MPa > 3 MPa with one layer")
-        if ee > t / 6:
-            why.append("load outside the middle third")
-        reasons.append("; ".join(why))
-    applies = np.array([not r for r in reasons])
+    slender = hwe / tw
+    one_layer = df.v_layers.to_numpy() < 2
+    fails = {  # each condition of Cl 11.5.1 that rules the method out, as a row mask
+        "not in compression": n <= 0,
+        "slender": slender > limit,
+        "stress": (stress > 3.0) & one_layer,
+        "load outside the middle third": e > tw / 6,
+    }
+    applies = ~np.logical_or.reduce(list(fails.values()))
     df["k"], df["hwe"], df["e"], df["ea"] = k, hwe, e, ea
     df["slender"] = hwe / tw
     df["phi_s"] = phi
     df["phi_nu_s"] = np.where(applies, cap, np.nan)
     df["util_s"] = np.where(applies, n / np.where(cap > 0, cap, np.nan), np.nan)
     df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
-    df["why_s"] = [r if r else "" for r in reasons]
+    if not working:
+        return df
+    reasons = [""] * len(df)
+    for i in np.flatnonzero(~applies).tolist():
+        why = []
+        if fails["not in compression"][i]:
+            why.append("not in compression")
+        if fails["slender"][i]:
+            why.append(f"Hwe/tw {slender[i]:.1f} > {limit[i]:.0f}")
+        if fails["stress"][i]:
+            why.append(f"axial stress {stress[i]:.1f} MPa > 3 MPa with one layer")
+        if fails["load outside the middle third"][i]:
+            why.append("load outside the middle third")
+        reasons[i] = "; ".join(why)
+    df["why_s"] = reasons
     df["f_s"] = [
         (
             f"Hwe = {kk:.3f} x {h:.0f} = {he:.0f} mm; e = {ee:.1f} mm; "

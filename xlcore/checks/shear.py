@@ -5,15 +5,19 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from xlcore.checks import per_pier
 from xlcore.codes import as3600
 from xlcore.model import Settings
 from xlcore.results import status, utilisation
 
 
-def check_pier_shear(piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings) -> pd.DataFrame:
+def check_pier_shear(
+    piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings, working: bool = True
+) -> pd.DataFrame:
     """Shear table: one row per storey x pier x combination, forces in kN.
 
-    `piers` from geometry (with stiffness), `actions` from distribution.pier_actions.
+    `piers` from geometry (with stiffness), `actions` from distribution.pier_actions. Without
+    `working` the numbers only (the advice search runs thousands of variants).
     """
     geo = ["storey", "pier_id", "Lw", "tw", "Hc", "Ho", "fc", "fsy", "rho_h", "rho_v"]
     df = actions.merge(piers[geo], on=["storey", "pier_id"], how="left")
@@ -31,11 +35,27 @@ def check_pier_shear(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
     df["util"] = utilisation(df.v, df.phi_vu)
     df["status"] = status(df.util)
     df["clause"] = [as3600.GOVERNING_TEXT[g] for g in r.governs]
+    if not working:
+        return df
     rho_req, capped = as3600.wall_rho_required(df.v * 1e3, r.phi, r.vuc, r.vu_max, df.fsy, df.Lw, df.tw)
     df["rho_req"] = rho_req
     df["advice"] = _advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r.rho_w)
-    df["f_vuc"] = _vuc_text(df)
-    df["f_vu"] = [
+    # capacity working depends on the pier alone: written once per storey x pier, then spread
+    first, of = per_pier(df)
+    once = df.iloc[first]
+    df["f_vuc"] = np.asarray(_vuc_text(once), dtype=object)[of]
+    df["f_vu"] = np.asarray(_vu_text(once), dtype=object)[of]
+    df["f_util"] = [
+        f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
+        for v, pv, u in zip(df.v.tolist(), df.phi_vu.tolist(), df.util.tolist(), strict=True)
+    ]
+    # the engineer's row order; piers shared from one wall row stay together, from the wall start
+    order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
+    return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+def _vu_text(df: pd.DataFrame) -> list[str]:
+    return [
         f"Vus = {rw:.5f} x {fy:g} x 0.8 x {lw:.0f} x {t:.0f} = {vs:.1f} kN; "
         f"Vu.max = 0.2 x {fc:g} x 0.8 x {lw:.0f} x {t:.0f} = {vm:.1f} kN; "
         f"phiVu = {p:.2f} x min({vc:.1f} + {vs:.1f}, {vm:.1f}) = {pv:.1f} kN"
@@ -43,13 +63,6 @@ def check_pier_shear(piers: pd.DataFrame, actions: pd.DataFrame, settings: Setti
             df.rho_w, df.fsy, df.Lw, df.tw, df.vus, df.fc, df.vu_max, df.phi, df.vuc, df.phi_vu, strict=True
         )
     ]
-    df["f_util"] = [
-        f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
-        for v, pv, u in zip(df.v, df.phi_vu, df.util, strict=True)
-    ]
-    # the engineer's row order; piers shared from one wall row stay together, from the wall start
-    order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
-    return df.sort_values(order, kind="stable").reset_index(drop=True)
 
 
 def _vuc_text(df: pd.DataFrame) -> list[str]:
