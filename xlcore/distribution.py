@@ -202,53 +202,73 @@ def core_actions_to_piers(
         total = base.direct + torsion
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
-        wall_index = {w: i for i, w in enumerate(sw.wall_id)}
-        k_walls = sw.k.to_numpy()
-        ux_w, uy_w = sw.ux.to_numpy(), sw.uy.to_numpy()
-        k_wall_piers = sp.groupby("wall_id").k.transform("sum").to_numpy()
-        in_wall = {w: (sp.wall_id == w).to_numpy() for w in sw.wall_id}
-        for j, rec in enumerate(cs.itertuples(index=False)):
-            along = vx[j] * ux_w + vy[j] * uy_w
-            for i, w in enumerate(sw.wall_id):
-                wall_rows.append(
-                    dict(
-                        row=rec.row,
-                        storey=storey,
-                        combination=rec.combination,
-                        wall_id=w,
-                        k=k_walls[i] * 1e-3,
-                        direct=base.direct[i, j],
-                        torsion=torsion[i, j],
-                        v=total[i, j],
-                        share_pct=np.nan if abs(along[i]) < 1e-9 else 100 * base.direct[i, j] / along[i],
-                        xr=xr,
-                        yr=yr,
-                        m_cr=m_cr[j],
-                        m_acc=d_acc[j],
-                        n=float(n_piece[in_wall[w], j].sum()),
-                    )
-                )
-            for i, p in enumerate(sp.itertuples(index=False)):
-                share = p.k / k_wall_piers[i]
-                v = total[wall_index[p.wall_id], j] * share
-                pier_rows.append(
-                    dict(
-                        row=rec.row,
-                        storey=storey,
-                        combination=rec.combination,
-                        wall_id=p.wall_id,
-                        pier_id=p.pier_id,
-                        position=p.position,
-                        k=p.k,
-                        share=share,
-                        n=n_piece[i, j],
-                        v=v,
-                        m=v * p.h / 1000 / 2,
-                        source=(
-                            f"core: wall {p.wall_id} {total[wall_index[p.wall_id], j]:.1f} kN x share "
-                            f"{share:.3f}; N* from core stress; M* = V* h/2 = {v:.1f} x "
-                            f"{p.h / 1000:.3f} / 2"
-                        ),
-                    )
-                )
-    return CoreSharing(pd.DataFrame(pier_rows, columns=ACTION_COLUMNS), pd.DataFrame(wall_rows))
+        walls_here = sw.wall_id.to_numpy()
+        n_w, n_c, n_p = len(walls_here), len(cs), len(sp)
+        wall_of_pier = pd.Index(walls_here).get_indexer(sp.wall_id)
+        member = np.zeros((n_w, n_p))
+        member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
+        along = vx[:, None] * sw.ux.to_numpy()[None, :] + vy[:, None] * sw.uy.to_numpy()[None, :]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
+        rows, combos = cs.row.to_numpy(), cs.combination.to_numpy()
+        wall_rows.append(
+            dict(
+                row=np.repeat(rows, n_w),
+                storey=np.full(n_w * n_c, storey, dtype=object),
+                combination=np.repeat(combos, n_w),
+                wall_id=np.tile(walls_here, n_c),
+                k=np.tile(sw.k.to_numpy() * 1e-3, n_c),
+                direct=base.direct.T.ravel(),
+                torsion=torsion.T.ravel(),
+                v=total.T.ravel(),
+                share_pct=share_pct.ravel(),
+                xr=np.full(n_w * n_c, xr),
+                yr=np.full(n_w * n_c, yr),
+                m_cr=np.repeat(m_cr, n_w),
+                m_acc=np.repeat(d_acc, n_w),
+                n=(member @ n_piece).T.ravel(),
+            )
+        )
+        k_p = sp.k.to_numpy()
+        share = k_p / sp.groupby("wall_id").k.transform("sum").to_numpy()
+        wall_v = total[wall_of_pier, :].T  # combos x piers
+        v = wall_v * share[None, :]
+        h = sp.h.to_numpy() / 1000
+        pier_ids, pier_walls = sp.pier_id.to_numpy(), sp.wall_id.to_numpy()
+        tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
+        source = [
+            f"core: wall {w} {wv:.1f} kN x share {sh:.3f}; N* from core stress; M* = V* h/2 = {vv:.1f} x "
+            f"{hh:.3f} / 2"
+            for w, wv, sh, vv, hh in zip(
+                tiled(pier_walls).tolist(),
+                wall_v.ravel().tolist(),
+                tiled(share).tolist(),
+                v.ravel().tolist(),
+                tiled(h).tolist(),
+                strict=True,
+            )
+        ]
+        pier_rows.append(
+            dict(
+                row=np.repeat(rows, n_p),
+                storey=np.full(n_p * n_c, storey, dtype=object),
+                combination=np.repeat(combos, n_p),
+                wall_id=tiled(pier_walls),
+                pier_id=tiled(pier_ids),
+                position=tiled(sp.position.to_numpy()),
+                k=tiled(k_p),
+                share=tiled(share),
+                n=n_piece.T.ravel(),
+                v=v.ravel(),
+                m=(v * h[None, :] / 2).ravel(),
+                source=np.array(source, dtype=object),
+            )
+        )
+    return CoreSharing(_stack(pier_rows, ACTION_COLUMNS), _stack(wall_rows))
+
+
+def _stack(parts: list[dict[str, np.ndarray]], columns: list[str] | None = None) -> pd.DataFrame:
+    """One table from per-storey column arrays."""
+    if not parts:
+        return pd.DataFrame(columns=columns)
+    return pd.DataFrame({k: np.concatenate([p[k] for p in parts]) for k in parts[0]}, columns=columns)

@@ -273,3 +273,10 @@ def _nan(x: float | None) -> float:
 def _natural(text: str) -> tuple:
     """Sort key that puts W2 before W10."""
     return tuple(int(t) if t.isdigit() else t for t in re.split(r"(\d+)", text))
+
+
+def natural_rank(ids: pd.Series) -> pd.Series:
+    """Each ID's place in natural order (W2 before W10), worked out once per distinct ID: a
+    sort key for tables of many rows."""
+    distinct = sorted(pd.unique(ids), key=lambda t: _natural(str(t)))
+    return ids.map({v: i for i, v in enumerate(distinct)})

@@ -326,16 +326,19 @@ def pier_actions(
     if building.core_actions.empty:
         return member, None
     core = distribution.core_actions_to_piers(piers, walls, plans, building.core_actions, s.accidental)
-    given = set(zip(building.member_actions.storey, building.member_actions.combination, strict=True))
-    used = np.array(
-        [k not in given for k in zip(core.piers.storey, core.piers.combination, strict=True)], dtype=bool
-    )
+    given = _pairs(building.member_actions).unique()
+    used = ~_pairs(core.piers).isin(given)
     core_piers = core.piers[used].assign(origin=1)
     table = core_table(core, given)
     return pd.concat([member, core_piers], ignore_index=True), table
 
 
-def core_table(core: distribution.CoreSharing, given: set) -> pd.DataFrame:
+def _pairs(df: pd.DataFrame) -> pd.Series:
+    """Storey x combination of each row as one key."""
+    return df.storey.astype(str) + "\x1f" + df.combination.astype(str)
+
+
+def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFrame:
     """Walls and piers of the core sharing, one sheet's rows, with the working as text."""
     w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan)
     w["working"] = [
@@ -351,15 +354,12 @@ def core_table(core: distribution.CoreSharing, given: set) -> pd.DataFrame:
         working=core.piers.source,
     )
     out = pd.concat([w, p], ignore_index=True)
-    out["used"] = [
-        "no: member actions given" if (a, b) in given else "yes"
-        for a, b in zip(out.storey, out.combination, strict=True)
-    ]
+    out["used"] = np.where(_pairs(out).isin(given), "no: member actions given", "yes")
     out["kind_order"] = (out.kind == "pier").astype(int)
     out = out.sort_values(
         ["row", "kind_order", "member"],
         kind="stable",
-        key=lambda c: c.map(geometry._natural) if c.name == "member" else c,
+        key=lambda c: geometry.natural_rank(c) if c.name == "member" else c,
     )
     return out.reset_index(drop=True)
 
@@ -526,7 +526,7 @@ def envelope(
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
         ascending=[False, True, True],
-        key=lambda c: c.map(geometry._natural) if c.name == "wall_id" else c,
+        key=lambda c: geometry.natural_rank(c) if c.name == "wall_id" else c,
     )
     table["util"] = table.util.astype(float)
     table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
