@@ -264,10 +264,10 @@ def core_actions_to_piers(
                 source=np.array(source, dtype=object),
             )
         )
-    return CoreSharing(_stack(pier_rows, ACTION_COLUMNS), _stack(wall_rows))
+    return CoreSharing(stack(pier_rows, ACTION_COLUMNS), stack(wall_rows))
 
 
-def _stack(parts: list[dict[str, np.ndarray]], columns: list[str] | None = None) -> pd.DataFrame:
+def stack(parts: list[dict[str, np.ndarray]], columns: list[str] | None = None) -> pd.DataFrame:
     """One table from per-storey column arrays."""
     if not parts:
         return pd.DataFrame(columns=columns)

@@ -10,7 +10,7 @@ import pandas as pd
 
 from xlcore import section
 from xlcore.codes import as3600
-from xlcore.distribution import StoreyPlan
+from xlcore.distribution import StoreyPlan, stack
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -41,50 +41,53 @@ def check_core_stress(
     piers: pd.DataFrame, plans: dict[str, StoreyPlan], core: pd.DataFrame, settings: Settings
 ) -> pd.DataFrame:
     """One row per storey x combination x wall. Stresses in MPa, forces in kN, steel in mm^2."""
-    rows = []
+    parts = []
     limit = settings.compression_limit
     for storey, cs in core.groupby("storey", sort=False):
         sp = piers[piers.storey == storey]
         sec = plans[storey].section
         fib = _fibres(sp)
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
-        sigma = (
-            section.stress_at(
-                sec, a[None, :], b[None, :], c[None, :], fib.x.to_numpy()[:, None], fib.y.to_numpy()[:, None]
-            )
-            / 1000.0
-        )  # kPa -> MPa, fibres x combos
         walls = sp.drop_duplicates("wall_id")
-        for w in walls.itertuples(index=False):
-            mask = (fib.wall_id == w.wall_id).to_numpy()
-            f = fib[mask]
-            s = sigma[mask]
-            tension_area = ((s < 0) * f.area.to_numpy()[:, None]).sum(axis=0)  # m^2
-            tension = (np.maximum(-s, 0) * f.area.to_numpy()[:, None]).sum(axis=0) * 1000.0  # kN
-            provided = (f.rho_v.to_numpy()[:, None] * f.area.to_numpy()[:, None] * (s < 0)).sum(axis=0) * 1e6
-            ends = [(w.wx, w.wy), (w.wx + w.ux * w.wall_length, w.wy + w.uy * w.wall_length)]
-            end_sigma = [section.stress_at(sec, a, b, c, x, y) / 1000.0 for x, y in ends]
-            for j, rec in enumerate(cs.itertuples(index=False)):
-                rows.append(
-                    dict(
-                        row=rec.row,
-                        storey=storey,
-                        combination=rec.combination,
-                        wall_id=w.wall_id,
-                        sigma_start=end_sigma[0][j],
-                        sigma_end=end_sigma[1][j],
-                        sigma_max=s[:, j].max(),
-                        sigma_min=s[:, j].min(),
-                        tension=tension[j],
-                        tension_area=tension_area[j],
-                        as_req=tension[j] * 1000.0 / (as3600.PHI_TENSION * w.fsy),
-                        as_prov=provided[j],
-                        fc=w.fc,
-                        fsy=w.fsy,
-                        limit=limit * w.fc,
-                    )
-                )
-    df = pd.DataFrame(rows)
+        # fibres in wall order, so each wall's fibres are one run for the reductions below
+        wall_of = pd.Index(walls.wall_id).get_indexer(fib.wall_id)
+        order = np.argsort(wall_of, kind="stable")
+        fx, fy_, area = (fib[k].to_numpy()[order] for k in ("x", "y", "area"))
+        rho = fib.rho_v.to_numpy()[order]
+        starts = np.searchsorted(wall_of[order], np.arange(len(walls)))
+        sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], fx[:, None], fy_[:, None]) / 1000.0
+        tens = sigma < 0  # fibres x combos, MPa (kPa / 1000)
+        tension_area = np.add.reduceat(tens * area[:, None], starts, axis=0)  # walls x combos, m^2
+        tension = np.add.reduceat(np.maximum(-sigma, 0) * area[:, None], starts, axis=0) * 1000.0  # kN
+        provided = np.add.reduceat(tens * (rho * area)[:, None], starts, axis=0) * 1e6
+        wx, wy, ux, uy, length = (walls[k].to_numpy() for k in ("wx", "wy", "ux", "uy", "wall_length"))
+        end_sigma = [
+            section.stress_at(sec, a[None, :], b[None, :], c[None, :], x[:, None], y[:, None]) / 1000.0
+            for x, y in ((wx, wy), (wx + ux * length, wy + uy * length))
+        ]
+        n_w, n_c = len(walls), len(cs)
+        fsy, fc = walls.fsy.to_numpy(), walls.fc.to_numpy()
+        per_wall = lambda v, n_c=n_c: np.tile(v, n_c)  # noqa: E731
+        parts.append(
+            dict(
+                row=np.repeat(cs.row.to_numpy(), n_w),
+                storey=np.full(n_w * n_c, storey, dtype=object),
+                combination=np.repeat(cs.combination.to_numpy(), n_w),
+                wall_id=per_wall(walls.wall_id.to_numpy()),
+                sigma_start=end_sigma[0].T.ravel(),
+                sigma_end=end_sigma[1].T.ravel(),
+                sigma_max=np.maximum.reduceat(sigma, starts, axis=0).T.ravel(),
+                sigma_min=np.minimum.reduceat(sigma, starts, axis=0).T.ravel(),
+                tension=tension.T.ravel(),
+                tension_area=tension_area.T.ravel(),
+                as_req=(tension * 1000.0 / (as3600.PHI_TENSION * fsy[:, None])).T.ravel(),
+                as_prov=provided.T.ravel(),
+                fc=per_wall(fc),
+                fsy=per_wall(fsy),
+                limit=per_wall(limit * fc),
+            )
+        )
+    df = stack(parts)
     if df.empty:
         return df
     with np.errstate(divide="ignore", invalid="ignore"):
