@@ -7,6 +7,8 @@ from __future__ import annotations
 
 import re
 
+import numpy as np
+
 STEEL_DENSITY = 7850.0  # kg/m^3
 DEFAULT_CONCRETE = "20:230, 25:240, 32:260, 40:285, 50:315, 65:370, 80:430, 100:520"
 DEFAULT_STEEL = 2400.0  # per tonne
@@ -28,17 +30,12 @@ def parse_concrete_prices(text: str) -> dict[float, float]:
     return prices
 
 
-def concrete_price(prices: dict[float, float], fc: float) -> float:
-    """Price for a grade, interpolated (or extended flat) between the grades given."""
+def concrete_price(prices: dict[float, float], fc):
+    """Price for a grade (or an array of grades), interpolated between the grades given and
+    extended flat beyond them."""
     grades = sorted(prices)
-    if fc <= grades[0]:
-        return prices[grades[0]]
-    if fc >= grades[-1]:
-        return prices[grades[-1]]
-    for a, b in zip(grades, grades[1:], strict=False):
-        if a <= fc <= b:
-            return prices[a] + (prices[b] - prices[a]) * (fc - a) / (b - a)
-    return prices[grades[-1]]
+    out = np.interp(fc, grades, [prices[g] for g in grades])
+    return float(out) if np.ndim(out) == 0 else out
 
 
 def per_metre_height(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t):

@@ -14,7 +14,7 @@ import itertools
 import numpy as np
 import pandas as pd
 
-from xlcore import costs, geometry
+from xlcore import costs
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.shear import check_pier_shear
@@ -28,63 +28,92 @@ LAYERS = (1, 2)
 THICKNESS_STEP, THICKNESS_STEPS = 25.0, 12
 
 
-def _options(p) -> list[tuple[str, str, dict]]:
-    """(kind, description, changed fields) for one pier."""
-    out = [("grade", f"f'c {g:g} MPa", dict(fc=g)) for g in as3600.STANDARD_GRADES if g > p.fc]
+def _option_table() -> pd.DataFrame:
+    """Every option of the search, in the order ties on cost are broken: grades up, then
+    horizontal and vertical bars (diameter, spacing, layers), then thickness steps."""
+    rows = [dict(kind="grade", option=f"f'c {g:g} MPa", grade=g) for g in as3600.STANDARD_GRADES]
     for kind, dias, prefix in (("horizontal bars", H_DIAS, "h"), ("vertical bars", V_DIAS, "v")):
-        for d, s, n in itertools.product(dias, SPACINGS, LAYERS):
-            rho = geometry.bar_ratio(n, d, s, p.tw)
-            if rho <= getattr(p, f"rho_{prefix}") + 1e-12:
-                continue  # only more steel than now
-            out.append(
-                (
-                    kind,
-                    f"N{d:g} @ {s:g} x {n} layer{'s' if n > 1 else ''}",
-                    {f"{prefix}_dia": d, f"{prefix}_spacing": s, f"{prefix}_layers": n, f"rho_{prefix}": rho},
+        for d, sp, n in itertools.product(dias, SPACINGS, LAYERS):
+            rows.append(
+                dict(
+                    kind=kind,
+                    option=f"N{d:g} @ {sp:g} x {n} layer{'s' if n > 1 else ''}",
+                    prefix=prefix,
+                    dia=d,
+                    spacing=sp,
+                    layers=float(n),
                 )
             )
-    for k in range(1, THICKNESS_STEPS + 1):
-        t = p.tw + k * THICKNESS_STEP
-        out.append(
-            (
-                "thickness",
-                f"tw {t:g} mm (same bars)",
-                dict(
-                    tw=t,
-                    rho_v=geometry.bar_ratio(p.v_layers, p.v_dia, p.v_spacing, t),
-                    rho_h=geometry.bar_ratio(p.h_layers, p.h_dia, p.h_spacing, t),
-                ),
-            )
-        )
-    return out
+    rows += [
+        dict(kind="thickness", option="", step=k * THICKNESS_STEP) for k in range(1, THICKNESS_STEPS + 1)
+    ]
+    return pd.DataFrame(rows)
+
+
+OPTIONS = _option_table()
+
+
+def _ratio(layers, dia, spacing, thickness):
+    """geometry.bar_ratio over arrays."""
+    return layers * np.pi * dia**2 / 4.0 / (spacing * thickness)
 
 
 def _candidates(
     piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
 ) -> tuple[pd.DataFrame, pd.DataFrame]:
-    """Every option for every target as a variant pier row, with its added cost per metre."""
+    """Every option for every target as a variant pier row, with its added cost per metre:
+    the targets crossed with the option table, less options that do not add to what is there
+    (a lower grade, less steel), all column by column."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
-    base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"])
-    variants, meta = [], []
-    for p in base.itertuples(index=False):
-        for kind, text, change in _options(p):
-            row = p._asdict() | change
-            row["pier_id"] = f"{p.pier_id}#{len(variants)}"  # unique over storeys too
-            variants.append(row)
-            meta.append(
-                dict(storey=p.storey, pier_id=p.pier_id, variant=row["pier_id"], kind=kind, option=text)
-            )
-    var = pd.DataFrame(variants)
-    meta = pd.DataFrame(meta)
+    base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
+    o = OPTIONS
+    bi = np.repeat(np.arange(len(base)), len(o))
+    oi = np.tile(np.arange(len(o)), len(base))
+    var = base.iloc[bi].reset_index(drop=True)
+    kind = o.kind.to_numpy()[oi]
+    tw0 = var.tw.to_numpy(float)
+    keep = np.ones(len(var), dtype=bool)
+    grade = kind == "grade"
+    keep[grade] = o.grade.to_numpy()[oi][grade] > var.fc.to_numpy(float)[grade]
+    var["fc"] = np.where(grade, o.grade.to_numpy()[oi], var.fc.to_numpy(float))
+    for prefix, name in (("h", "horizontal bars"), ("v", "vertical bars")):
+        sel = kind == name
+        d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
+        rho = _ratio(n, d, sp, tw0)
+        keep[sel] = rho[sel] > var[f"rho_{prefix}"].to_numpy(float)[sel] + 1e-12  # only more steel
+        for field, new in ((f"{prefix}_dia", d), (f"{prefix}_spacing", sp), (f"rho_{prefix}", rho)):
+            var[field] = np.where(sel, new, var[field].to_numpy(float))
+        var[f"{prefix}_layers"] = np.where(sel, n, var[f"{prefix}_layers"].to_numpy(float)).astype(int)
+    thick = kind == "thickness"
+    tw = np.where(thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), tw0)
+    for prefix in ("v", "h"):
+        same = _ratio(*(var[f"{prefix}_{k}"].to_numpy(float) for k in ("layers", "dia", "spacing")), tw)
+        var[f"rho_{prefix}"] = np.where(thick, same, var[f"rho_{prefix}"].to_numpy(float))
+    var["tw"] = tw
+    var, kind, oi = var[keep].reset_index(drop=True), kind[keep], oi[keep]
+    bi = bi[keep]
+    option = o.option.to_numpy()[oi].copy()
+    thick = kind == "thickness"
+    option[thick] = [f"tw {t:g} mm (same bars)" for t in var.tw.to_numpy()[thick].tolist()]
+    variant = [f"{p}#{i}" for i, p in enumerate(var.pier_id.tolist())]  # unique over storeys too
+    meta = pd.DataFrame(
+        dict(
+            storey=var.storey.to_numpy(),
+            pier_id=var.pier_id.to_numpy(),
+            variant=variant,
+            kind=kind,
+            option=option,
+        )
+    )
+    var["pier_id"] = variant
 
-    def cost(df: pd.DataFrame) -> pd.Series:
-        concrete = df.fc.map(lambda g: costs.concrete_price(prices, g))
-        return costs.per_metre_height(df.Lw, df.tw, df.rho_v, df.rho_h, concrete, settings.steel_price)
+    def cost(df: pd.DataFrame) -> np.ndarray:
+        concrete = costs.concrete_price(prices, df.fc.to_numpy(float))
+        return np.asarray(
+            costs.per_metre_height(df.Lw, df.tw, df.rho_v, df.rho_h, concrete, settings.steel_price)
+        )
 
-    base_cost = dict(zip(zip(base.storey, base.pier_id, strict=True), cost(base), strict=True))
-    meta["added_cost"] = cost(var).to_numpy() - [
-        base_cost[k] for k in zip(meta.storey, meta.pier_id, strict=True)
-    ]
+    meta["added_cost"] = cost(var) - cost(base)[bi]
     for key in ("fc", "tw", "rho_v", "rho_h"):
         meta[key] = var[key].to_numpy()
     return var, meta
@@ -150,14 +179,21 @@ def advise(
         if batch.empty:
             break
         # the few combinations that govern now first: an option failing those fails (the worst
-        # over some combinations is at most the worst over all); the rest are confirmed on all
+        # over some combinations is at most the worst over all). Of those passing, the cheapest
+        # per (pier, kind) is confirmed on every combination; if it fails there, the next.
         util = batch.variant.map(_utilisation(var, batch, screen, settings))
-        hopeful = batch[(util <= 1.0).to_numpy()]
-        if len(hopeful):
-            full = _utilisation(var, hopeful, actions, settings)
+        util = util.where(util > 1.0)  # a screen pass proves nothing yet
+        hopeful = batch[util.isna().to_numpy()]
+        while len(hopeful):
+            first = hopeful.groupby(group, sort=False).head(1)
+            full = _utilisation(var, first, actions, settings)
             util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
+            settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
+            hopeful = hopeful[~hopeful.variant.isin(first.variant)]
+            hopeful = hopeful.merge(settled, on=group, how="left", indicator=True)
+            hopeful = hopeful[hopeful._merge == "left_only"].drop(columns="_merge")
         worst = pd.Series(util.to_numpy(), index=batch.variant.to_numpy())
-        meta.loc[meta.variant.isin(batch.variant), "util"] = meta.variant.map(worst)
+        meta.loc[meta.variant.isin(batch.variant), "util"] = meta.variant.map(worst)  # blank: not needed
         done = batch.assign(util=util.to_numpy())
         done = done[done.util <= 1.0][group].drop_duplicates()
         open_groups = open_groups.merge(done, on=group, how="left", indicator=True)
