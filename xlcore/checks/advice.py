@@ -260,6 +260,6 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series:
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
     else:
         hwe = None
-    det = check_detailing(var, acts, s, hwe)
+    det = check_detailing(var, acts, s, hwe, working=False)
     parts.append(det[["pier_id", "util"]])
     return pd.concat(parts).groupby("pier_id").util.max()

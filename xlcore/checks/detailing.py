@@ -23,11 +23,20 @@ RULES = (
 
 
 def check_detailing(
-    piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings, hwe: pd.Series | None = None
+    piers: pd.DataFrame,
+    actions: pd.DataFrame,
+    settings: Settings,
+    hwe: pd.Series | None = None,
+    working: bool = True,
 ) -> pd.DataFrame:
     """One row per storey x pier x rule. `hwe` [mm] per (storey, pier) for the one-layer limit
-    (from the Cl 11.4 effective height of the axial check); storey clear height otherwise."""
+    (from the Cl 11.4 effective height of the axial check); storey clear height otherwise.
+    Without `working`, the numbers only."""
     p = piers.copy()
+
+    def rule(*args):
+        return _rule(*args, text=working)
+
     sigma = actions.assign(s=actions.n * 1e3).merge(
         p[["storey", "pier_id", "Lw", "tw"]], on=["storey", "pier_id"]
     )
@@ -46,52 +55,52 @@ def check_detailing(
     rh_min = as3600.wall_rho_h_min(restrained, p.wall_length * 1000.0)
     smax = as3600.wall_max_spacing(tw)
     parts = [
-        _rule(
+        rule(
             p,
             "vertical ratio",
             p.rho_v,
             rv_min,
             "min",
             "",
-            [
+            lambda: [
                 f"rho_v = {v:.5f} vs {m:.4f} (N*/(Lw tw) = {s:.2f} MPa "
                 f"{'<=' if s <= 0.03 * fc else '>'} 0.03 f'c)"
                 for v, m, s, fc in zip(p.rho_v, rv_min, p.sigma, p.fc, strict=True)
             ],
         ),
-        _rule(
+        rule(
             p,
             "horizontal ratio",
             p.rho_h,
             rh_min,
             "min",
             "",
-            [
+            lambda: [
                 f"rho_h = {v:.5f} vs {m:.4f} ({'restrained' if restrained else 'unrestrained'}, wall "
                 f"{L:.2f} m)"
                 for v, m, L in zip(p.rho_h, rh_min, p.wall_length, strict=True)
             ],
         ),
-        _rule(
+        rule(
             p,
             "vertical spacing",
             p.v_spacing,
             smax,
             "max",
             "mm",
-            [
+            lambda: [
                 f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm"
                 for s, t, m in zip(p.v_spacing, tw, smax, strict=True)
             ],
         ),
-        _rule(
+        rule(
             p,
             "horizontal spacing",
             p.h_spacing,
             smax,
             "max",
             "mm",
-            [
+            lambda: [
                 f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm"
                 for s, t, m in zip(p.h_spacing, tw, smax, strict=True)
             ],
@@ -103,14 +112,14 @@ def check_detailing(
     ):
         gap, need = s - db, as3600.wall_min_clear_gap(db)
         parts.append(
-            _rule(
+            rule(
                 p,
                 name,
                 gap,
                 need,
                 "min",
                 "mm",
-                [
+                lambda gap=gap, db=db, need=need: [
                     f"clear gap = {g:.0f} vs 3 x {d:.0f} = {n:.0f} mm"
                     for g, d, n in zip(gap, db, need, strict=True)
                 ],
@@ -120,26 +129,26 @@ def check_detailing(
     one = p[single]
     if len(one):
         parts.append(
-            _rule(
+            rule(
                 one,
                 "one layer: thickness",
                 one.tw,
                 np.full(len(one), as3600.SINGLE_LAYER_MAX_THICKNESS),
                 "max",
                 "mm",
-                [f"tw = {t:.0f} vs 200 mm with one layer (from memory: verify)" for t in one.tw],
+                lambda: [f"tw = {t:.0f} vs 200 mm with one layer (from memory: verify)" for t in one.tw],
             )
         )
         slender = one.hwe / one.tw
         parts.append(
-            _rule(
+            rule(
                 one,
                 "one layer: Hwe/tw",
                 slender,
                 np.full(len(one), as3600.SINGLE_LAYER_SLENDERNESS),
                 "max",
                 "",
-                [
+                lambda: [
                     f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs 20"
                     for h, t, r in zip(one.hwe, one.tw, slender, strict=True)
                 ],
@@ -151,7 +160,10 @@ def check_detailing(
     return out
 
 
-def _rule(p: pd.DataFrame, name: str, value, limit, kind: str, unit: str, working: list[str]) -> pd.DataFrame:
+def _rule(
+    p: pd.DataFrame, name: str, value, limit, kind: str, unit: str, working, text: bool = True
+) -> pd.DataFrame:
+    """One rule's rows; `working` makes the working text when called (None: no text)."""
     value = np.asarray(value, dtype=float)
     limit = np.asarray(limit, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -171,6 +183,6 @@ def _rule(p: pd.DataFrame, name: str, value, limit, kind: str, unit: str, workin
             kind="at least" if kind == "min" else "at most",
             unit=unit,
             util=util,
-            working=working,
+            working=working() if text else "",
         )
     )
