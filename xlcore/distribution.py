@@ -108,11 +108,23 @@ class StoreyPlan:
     centre: tuple[float, float] | None  # centre of rigidity; None when the walls are unstable
 
 
+def by_storey(df: pd.DataFrame) -> dict[str, pd.DataFrame]:
+    """The table split by storey once (selecting a storey by comparison on every use costs a
+    scan of the whole table each time)."""
+    return dict(tuple(df.groupby("storey", sort=False)))
+
+
 def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPlan]:
     """Net section and centre of rigidity of every storey."""
     out = {}
+    seen: dict[bytes, StoreyPlan] = {}  # storeys alike in plan, thickness and stiffness share one
+    walls_at = by_storey(walls)
     for storey, sp in piers.groupby("storey", sort=False):
-        sw = walls[walls.storey == storey]
+        sw = walls_at[storey]
+        key = _plan_key(sp, sw)
+        if key in seen:
+            out[storey] = seen[key]
+            continue
         pieces = section.disjoint_pieces(sp)
         st = diaphragm.Storey(
             sw.k.to_numpy(), sw.ux.to_numpy(), sw.uy.to_numpy(), sw.mx.to_numpy(), sw.my.to_numpy()
@@ -121,10 +133,21 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
             centre = diaphragm.centre_of_rigidity(st)
         except diaphragm.Unstable:
             centre = None
-        out[storey] = StoreyPlan(
+        out[storey] = seen[key] = StoreyPlan(
             section.section_of(pieces), np.array([section.moments(p) for p in pieces]), st, centre
         )
     return out
+
+
+def _plan_key(sp: pd.DataFrame, sw: pd.DataFrame) -> bytes:
+    """Everything a storey plan is made from: the piers' plan rectangles in order and the
+    walls' stiffness and lines of action."""
+    parts = [
+        sp[["px1", "py1", "px2", "py2", "tw"]].to_numpy(float).tobytes(),
+        sw[["k", "ux", "uy", "mx", "my"]].to_numpy(float).tobytes(),
+        "\x1f".join(map(str, sw.wall_id)).encode(),
+    ]
+    return b"\x1e".join(parts)
 
 
 def sections_table(plans: dict[str, StoreyPlan], storey_index: dict[str, int]) -> pd.DataFrame:
@@ -180,9 +203,9 @@ def core_actions_to_piers(
     sum exactly to the storey shear).
     """
     pier_rows, wall_rows = [], []
+    piers_at, walls_at = by_storey(piers), by_storey(walls)
     for storey, cs in core.groupby("storey", sort=False):
-        sp = piers[piers.storey == storey]
-        sw = walls[walls.storey == storey]
+        sp, sw = piers_at[storey], walls_at[storey]
         plan = plans[storey]
         sec, st = plan.section, plan.walls
         if plan.centre is None:

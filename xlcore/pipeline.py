@@ -326,9 +326,10 @@ def pier_actions(
     if building.core_actions.empty:
         return member, None
     core = distribution.core_actions_to_piers(piers, walls, plans, building.core_actions, s.accidental)
-    given = _pairs(building.member_actions).unique()
-    used = ~_pairs(core.piers).isin(given)
-    core_piers = core.piers[used].assign(origin=1)
+    # core-actions rows (one per storey x combination) whose pair the member actions cover
+    ca = building.core_actions
+    given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()
+    core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
     table = core_table(core, given)
     return pd.concat([member, core_piers], ignore_index=True), table
 
@@ -339,7 +340,8 @@ def _pairs(df: pd.DataFrame) -> pd.Series:
 
 
 def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFrame:
-    """Walls and piers of the core sharing, one sheet's rows, with the working as text."""
+    """Walls and piers of the core sharing, one sheet's rows, with the working as text.
+    `given`: core-actions rows whose storey x combination the member actions cover."""
     w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan)
     w["working"] = [
         f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
@@ -354,7 +356,7 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFram
         working=core.piers.source,
     )
     out = pd.concat([w, p], ignore_index=True)
-    out["used"] = np.where(_pairs(out).isin(given), "no: member actions given", "yes")
+    out["used"] = np.where(out.row.isin(given), "no: member actions given", "yes")
     out["kind_order"] = (out.kind == "pier").astype(int)
     out = out.sort_values(
         ["row", "kind_order", "member"],

@@ -9,6 +9,7 @@ import pandas as pd
 from xlcore import nm_core
 from xlcore.checks.axial import pier_bars
 from xlcore.codes import as3600
+from xlcore.distribution import by_storey
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -22,8 +23,9 @@ CHUNK = 256  # curve points evaluated together: keeps the working arrays in cach
 def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> nm_core.Assembly:
     """One section per storey from its piers (plan in mm), moments about the net centroid."""
     walls_per_storey, centroids = [], []
+    piers_at = by_storey(piers)
     for storey in storeys:
-        sp = piers[piers.storey == storey]
+        sp = piers_at[storey]
         d, area = pier_bars(
             *(sp[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover"))
         )
@@ -60,8 +62,9 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
     # storeys with the same walls, grades and bars share one section: solve each section once
     by_key: dict[tuple, str] = {}
     section_of = {}
+    piers_at = by_storey(piers)
     for storey in dict.fromkeys(core.storey):
-        key = _section_key(piers[piers.storey == storey], plans[storey].section)
+        key = _section_key(piers_at[storey], plans[storey].section)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
     asm = storey_assemblies(piers, plans, storeys)

@@ -10,7 +10,7 @@ import pandas as pd
 
 from xlcore import section
 from xlcore.codes import as3600
-from xlcore.distribution import StoreyPlan, stack
+from xlcore.distribution import StoreyPlan, by_storey, stack
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -43,8 +43,9 @@ def check_core_stress(
     """One row per storey x combination x wall. Stresses in MPa, forces in kN, steel in mm^2."""
     parts = []
     limit = settings.compression_limit
+    piers_at = by_storey(piers)
     for storey, cs in core.groupby("storey", sort=False):
-        sp = piers[piers.storey == storey]
+        sp = piers_at[storey]
         sec = plans[storey].section
         fib = _fibres(sp)
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
