@@ -1,28 +1,38 @@
 """Building-scale timing: generate towers of three sizes in xlcore's workbook layout, time each
-phase of `xlcore compute` and its peak memory, and the floor of merely reading the same input
-cells (python-calamine, when installed) and writing the same result cells as plain sheet XML.
-Prints a table. Not a test: figures vary between machines, so compare ratios from one run.
+phase of `xlcore compute` with its peak memory, and, in the same process on the same data, the
+floor of merely moving the cells: reading the input sheets with python-calamine (a compiled
+reader) and writing the same result cells as plain sheet XML streamed into a zip (no styles,
+no stamp, no other parts). Prints a table of medians over the runs. Not a test: figures vary
+between machines, so compare ratios from one run.
 
-    python benchmarks/building_scale.py            # S and M
-    python benchmarks/building_scale.py S M L      # choose sizes (L takes long today)
+    python benchmarks/building_scale.py                 # S and M, 3 runs each
+    python benchmarks/building_scale.py S M L --runs 3  # choose sizes and runs
 """
 
 from __future__ import annotations
 
+import argparse
 import json
+import math
 import resource
+import statistics
 import subprocess
 import sys
 import tempfile
 import time
 import zipfile
 from pathlib import Path
+from xml.sax.saxutils import escape
 
-SIZES = {"S": (15, 2, 8), "M": (60, 6, 40), "L": (100, 12, 60)}  # storeys, box cores (5 piers each), combos
+# storeys, box cores (5 piers each), combinations
+SIZES = {"S": (15, 2, 8), "M": (60, 6, 40), "L": (100, 12, 60)}
+PHASES = ("read", "validate", "geometry", "sharing", "checks", "core checks", "advice", "write")
+KERNELS = ("geometry", "sharing", "checks", "core checks", "advice")
 
 
 def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
-    """A tower of `boxes` box cores in a row, one door per box, actions for every pier."""
+    """A tower of `boxes` box cores in a row, one door per box, actions for every pier.
+    Returns the number of pier cases (storey x pier x combination)."""
     from openpyxl import Workbook
 
     from xlcore import layout
@@ -77,15 +87,16 @@ def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
 
 
 def measure(path: str) -> dict:
-    """Run in a fresh process: phases of compute and peak memory."""
+    """Run in a fresh process: phases of compute, peak memory, then the floor on the same data."""
     from xlcore import pipeline
     from xlcore.validate import build
     from xlcore.workbook.reader import read_workbook
     from xlcore.workbook.writer import write_results
 
+    src = Path(path)
     out: dict[str, float] = {}
     t = time.perf_counter()
-    raw = read_workbook(Path(path))
+    raw = read_workbook(src)
     out["read"] = time.perf_counter() - t
     t = time.perf_counter()
     b, f = build(raw)
@@ -93,68 +104,110 @@ def measure(path: str) -> dict:
     o = pipeline.compute(b, f)
     out |= o.timings
     t = time.perf_counter()
-    write_results(Path(path), Path(path).with_name("out.xlsx"), o.sheets, force=True)
+    write_results(src, src.with_name("out.xlsx"), o.sheets, force=True)
     out["write"] = time.perf_counter() - t
-    out["cells_written"] = sum(len(s.table) * len(s.columns) for s in o.sheets)
     out["peak_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
-    return out
-
-
-def floor(path: str, cells: int) -> dict:
-    """Reading the input cells with the fastest reader at hand, writing as many numeric cells
-    as plain sheet XML into a zip: what moving the cells alone costs."""
-    out = {}
-    try:
-        from python_calamine import CalamineWorkbook
-
-        t = time.perf_counter()
-        wb = CalamineWorkbook.from_path(path)
-        for name in wb.sheet_names:
-            wb.get_sheet_by_name(name).to_python()
-        out["floor_read"] = time.perf_counter() - t
-    except ImportError:
-        out["floor_read"] = float("nan")
+    out["cells"] = sum(len(s.table) * len(s.columns) for s in o.sheets)
+    out["floor_read"] = floor_read(src)
     t = time.perf_counter()
-    width = 30
-    with zipfile.ZipFile(Path(path).with_name("floor.xlsx"), "w", zipfile.ZIP_DEFLATED, compresslevel=1) as z:
-        rows = (
-            f'<row r="{r}">' + "".join(f'<c r="A{r}"><v>{r * 1.5}</v></c>' for _ in range(width)) + "</row>"
-            for r in range(1, cells // width + 2)
-        )
-        z.writestr(
-            "xl/worksheets/sheet1.xml", "<worksheet><sheetData>" + "".join(rows) + "</sheetData></worksheet>"
-        )
+    floor_write(src.with_name("floor.xlsx"), [(s.table, [c.key for c in s.columns]) for s in o.sheets])
     out["floor_write"] = time.perf_counter() - t
     return out
 
 
-def main(sizes: list[str]) -> None:
+def floor_read(path: Path) -> float:
+    """Every cell of every sheet as Python values, by the compiled reader."""
+    from python_calamine import CalamineWorkbook
+
+    t = time.perf_counter()
+    wb = CalamineWorkbook.from_path(str(path))
+    for name in wb.sheet_names:
+        wb.get_sheet_by_name(name).to_python()
+    return time.perf_counter() - t
+
+
+def floor_write(path: Path, tables: list) -> None:
+    """The same result cells as plain sheet XML (numbers as <v>, text inline), a column at a time
+    and one format per row, streamed into a zip at deflate level 1: the least a writer does."""
+    from openpyxl.utils import get_column_letter
+
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED, compresslevel=1) as z:
+        for k, (table, keys) in enumerate(tables):
+            keys = [c for c in keys if c in table]
+            letters = [get_column_letter(j + 1) for j in range(len(keys))]
+            with z.open(f"xl/worksheets/sheet{k + 1}.xml", "w", force_zip64=True) as part:
+                part.write(b"<worksheet><sheetData>")
+                for lo in range(0, len(table), 4096):
+                    chunk = table.iloc[lo : lo + 4096]
+                    cols = []
+                    for key, letter in zip(keys, letters, strict=True):
+                        vals = chunk[key].tolist()
+                        cells = []
+                        for i, v in enumerate(vals, start=lo + 1):
+                            if isinstance(v, float):
+                                cells.append(
+                                    f'<c r="{letter}{i}"><v>{v!r}</v></c>' if math.isfinite(v) else ""
+                                )
+                            elif isinstance(v, int):
+                                cells.append(f'<c r="{letter}{i}"><v>{v}</v></c>')
+                            elif v is None or v == "":
+                                cells.append("")
+                            else:
+                                cells.append(
+                                    f'<c r="{letter}{i}" t="inlineStr"><is><t>{escape(str(v))}</t></is></c>'
+                                )
+                        cols.append(cells)
+                    rows = (
+                        f'<row r="{lo + 1 + i}">' + "".join(r) + "</row>"
+                        for i, r in enumerate(zip(*cols, strict=True))
+                    )
+                    part.write("".join(rows).encode())
+                part.write(b"</sheetData></worksheet>")
+
+
+def main(sizes: list[str], runs: int) -> None:
+    print(f"medians of {runs} runs, seconds; kernels = geometry + sharing + checks + core checks + advice")
+    head = "".join(f"{p[:7]:>8}" for p in PHASES)
     print(
-        f"{'size':<5}{'rows':>9}{'read':>8}{'valid':>8}{'geom':>8}{'share':>8}{'checks':>8}{'core':>8}"
-        f"{'advice':>8}{'write':>8}{'total':>9}{'floor':>8}{'ratio':>7}{'peak MB':>9}"
+        f"{'size':<5}{'cases':>9}{head}{'total':>8}{'f.read':>8}{'f.write':>8}{'ratio':>7}{'kernel%':>8}{'MB':>7}"
     )
+    totals = {}
     for size in sizes:
         storeys, boxes, combos = SIZES[size]
         with tempfile.TemporaryDirectory() as d:
             path = Path(d) / f"{size}.xlsx"
-            rows = generate(path, storeys, boxes, combos)
-            r = subprocess.run(
-                [sys.executable, __file__, "--measure", str(path)], capture_output=True, text=True
-            )
-            if r.returncode:
-                print(size, "failed:", r.stderr[-500:])
-                continue
-            m = json.loads(r.stdout)
-            fl = floor(str(path), int(m["cells_written"]))
-        total = sum(
-            m.get(k, 0.0)
-            for k in ("read", "validate", "geometry", "sharing", "checks", "core checks", "advice", "write")
-        )
-        fl_total = fl["floor_read"] + fl["floor_write"]
+            cases = generate(path, storeys, boxes, combos)
+            results = []
+            for _ in range(runs):
+                r = subprocess.run(
+                    [sys.executable, __file__, "--measure", str(path)], capture_output=True, text=True
+                )
+                if r.returncode:
+                    print(size, "failed:", r.stderr[-800:])
+                    break
+                results.append(json.loads(r.stdout))
+        if not results:
+            continue
+        for m in results:
+            m["total"] = sum(m.get(p, 0.0) for p in PHASES)
+            m["floor"] = m["floor_read"] + m["floor_write"]
+            m["ratio"] = m["total"] / m["floor"]
+            m["kernel"] = 100 * sum(m.get(p, 0.0) for p in KERNELS) / m["total"]
+
+        def med(key: str, results=results) -> float:
+            return statistics.median(m.get(key, 0.0) for m in results)
+
+        totals[size] = (cases, med("total"))
+        cells = "".join(f"{med(p):>8.2f}" for p in PHASES)
         print(
-            f"{size:<5}{rows:>9,}{m['read']:>8.2f}{m['validate']:>8.2f}{m['geometry']:>8.2f}{m['sharing']:>8.2f}"
-            f"{m['checks']:>8.2f}{m.get('core checks', 0):>8.2f}{m['advice']:>8.2f}{m['write']:>8.2f}"
-            f"{total:>9.2f}{fl_total:>8.2f}{total / fl_total:>7.1f}{m['peak_mb']:>9.0f}"
+            f"{size:<5}{cases:>9,}{cells}{med('total'):>8.2f}{med('floor_read'):>8.2f}{med('floor_write'):>8.2f}"
+            f"{med('ratio'):>7.2f}{med('kernel'):>8.1f}{med('peak_mb'):>7.0f}"
+        )
+    if "M" in totals and "L" in totals:
+        (cm, tm), (cl, tl) = totals["M"], totals["L"]
+        print(
+            f"growth M -> L: cases x{cl / cm:.2f}, time x{tl / tm:.2f} "
+            f"(time ratio / case ratio = {(tl / tm) / (cl / cm):.2f}; linear or better is <= 1.2)"
         )
 
 
@@ -162,4 +215,8 @@ if __name__ == "__main__":
     if len(sys.argv) > 2 and sys.argv[1] == "--measure":
         print(json.dumps(measure(sys.argv[2])))
     else:
-        main(sys.argv[1:] or ["S", "M"])
+        ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+        ap.add_argument("sizes", nargs="*", default=["S", "M"], choices=sorted(SIZES))
+        ap.add_argument("--runs", type=int, default=3)
+        a = ap.parse_args()
+        main(a.sizes, a.runs)

@@ -235,26 +235,61 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
 
 
 def _typed_column(column, rows, c: Column, ci: int | None, sheet: str, f: Findings):
+    """A column's cells typed, with a finding for each bad one. Cells that are plainly right
+    (a finite number in range; text within bounds) are taken column-wise; the rest go through
+    the cell-by-cell rules, which word the findings."""
     numeric = c.kind in (Kind.NUMBER, Kind.INTEGER)
-    out: list[object] = []
-    for v, r in zip(column, rows, strict=True):
-        if numeric and type(v) in (int, float) and math.isfinite(v):
-            x = float(v)  # fast path: a plain number
-            problem = _range_problem(x, c, v)
-            if problem is None and (c.kind is Kind.NUMBER or x.is_integer()):
-                out.append(x)
-                continue
+    out = _plain_numbers(column, c) if numeric else _plain_texts(column, c)
+    for i in np.flatnonzero(pd.isna(out) if numeric else out == _UNSETTLED).tolist():
+        v, r = column[i], rows[i]
         if blank(v):
             if c.required:
                 f.error(sheet, cell_name(ci or 0, r), f"blank; expected {c.expectation()}")
-            out.append(np.nan if numeric else None)
+            out[i] = np.nan if numeric else None
             continue
         value, problem = _cell(v, c)
         if problem:
             f.error(sheet, cell_name(ci or 0, r), problem)
             value = None
-        out.append((np.nan if value is None else value) if numeric else value)
-    return np.array(out, dtype=float) if numeric else np.array(out, dtype=object)
+        out[i] = (np.nan if value is None else value) if numeric else value
+    return out
+
+
+_UNSETTLED = object()  # a text cell the column-wise pass leaves to the cell-by-cell rules
+
+
+def _plain_numbers(column: list, c: Column) -> np.ndarray:
+    """Floats where the cell is a finite number within the column's range (and whole, for
+    integer columns); NaN where the cell needs a closer look."""
+    x = np.array([v if type(v) in (float, int) else np.nan for v in column], dtype=float)
+    bad = ~np.isfinite(x)
+    if c.min is not None:
+        bad |= x <= c.min if c.min_open else x < c.min
+    if c.max is not None:
+        bad |= x > c.max
+    if c.kind is Kind.INTEGER:
+        bad |= x != np.round(x)
+    x[bad] = np.nan
+    return x
+
+
+def _plain_texts(column: list, c: Column) -> np.ndarray:
+    """Stripped text where the cell is a string within bounds (a listed choice, for choice
+    columns); _UNSETTLED where it needs a closer look."""
+    choices = {ch.lower(): ch for ch in c.choices} if c.kind is Kind.CHOICE else None
+    out = np.empty(len(column), dtype=object)
+    for i, v in enumerate(column):
+        if type(v) is not str:
+            out[i] = _UNSETTLED
+            continue
+        t = v.strip()
+        if not t or len(t) > 255 or t in ERROR_VALUES:
+            out[i] = _UNSETTLED
+        elif choices is None:
+            out[i] = t
+        else:
+            out[i] = choices.get(t.lower(), _UNSETTLED)
+    return out
 
 
 def _settings(sheet: RawSheet | None, f: Findings) -> Settings:
@@ -561,7 +596,10 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
     walls_of = dict(zip(geom.piers.pier_id, geom.piers.wall_id, strict=True)) if geom is not None else {}
     seen: dict[tuple, int] = {}
     given: dict[tuple, int] = {}
-    for rec in df[["row", "storey", "combination", "member"]].itertuples(index=False):
+    rows = df[["row", "storey", "combination", "member"]]
+    if members is not None:
+        rows = rows[_suspect_action_rows(rows, index, members, walls_of)]
+    for rec in rows.itertuples(index=False):
         if rec.storey is not None and index and rec.storey not in index:
             f.error(
                 t.name,
@@ -609,6 +647,28 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
         if missing:
             f.warning(t.name, None, "no actions for wall(s) " + ", ".join(missing) + ": they are not checked")
     return df
+
+
+def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of: dict) -> np.ndarray:
+    """Rows that may draw an error (unknown storey or member, a repeated storey x combination x
+    member, a wall given both whole and by piers), found column-wise, so that the row-by-row
+    messages run on those alone. Repeats and mixed walls are marked with every row of their
+    group, so the messages (which name the earlier row) come out as for the whole table."""
+    known = rows.storey.isin(list(index)) | rows.storey.isna()
+    pairs = pd.MultiIndex.from_tuples([(st, m) for st, ms in members.items() for m in ms])
+    valid = pd.MultiIndex.from_arrays([rows.storey, rows.member]).isin(pairs)
+    blank = rows[["storey", "combination", "member"]].isna().any(axis=1).to_numpy()
+    repeated = rows.duplicated(["storey", "combination", "member"], keep=False).to_numpy()
+    wall = rows.member.map(walls_of).fillna(rows.member)
+    level = (wall == rows.member).to_numpy()
+    mixed = (
+        pd.DataFrame(dict(s=rows.storey, c=rows.combination, w=wall, lv=level))
+        .groupby(["s", "c", "w"], dropna=False)
+        .lv.transform("nunique")
+        .gt(1)
+        .to_numpy()
+    )
+    return ~known.to_numpy() | (~valid & ~blank) | repeated | mixed
 
 
 def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:

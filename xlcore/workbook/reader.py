@@ -7,7 +7,6 @@ spreadsheet program saved them; typing and checking happen in `xlcore.validate`.
 from __future__ import annotations
 
 import contextlib
-import datetime as dt
 import hashlib
 import io
 import re
@@ -100,7 +99,7 @@ FORMULA_CELL = re.compile(
     rb"<(?:\w+:)?c\b[^>]*>(?:(?!</(?:\w+:)?c>).)*?<(?:\w+:)?f[ >/].*?</(?:\w+:)?c>", re.S
 )
 VALUE = re.compile(rb"<(?:\w+:)?v>([^<]*)</")
-WIDE = re.compile(rb'<(?:\w+:)?c\b[^>]*?\br="[A-Z]{3}')
+WIDE = re.compile(rb' r="[A-Z]{3}[0-9]')  # a cell in column AAA or beyond
 LAST_ROW = re.compile(rb'<(?:\w+:)?row\b[^>]*?\br="([0-9]+)"')
 
 
@@ -188,7 +187,8 @@ def _layout_warnings(sheet: str, xml: bytes, findings: Findings) -> None:
     """Hidden (or filtered-out) rows are read like any other; merged cells keep a value only in
     their top-left cell. Both are legal but easy to miss, so say so."""
     hidden = []
-    for tag in ROW_TAG.finditer(xml):
+    tags = ROW_TAG.finditer(xml) if b'hidden="1"' in xml or b'hidden="true"' in xml else ()
+    for tag in tags:
         text = tag.group(0)
         if b'hidden="1"' in text or b'hidden="true"' in text:
             m = re.search(rb'\br="(\d+)"', text)
@@ -199,7 +199,7 @@ def _layout_warnings(sheet: str, xml: bytes, findings: Findings) -> None:
         findings.warning(
             sheet, None, f"{len(hidden)} hidden or filtered-out row(s) ({shown}) are read like any other row"
         )
-    merged = [m.decode() for m in MERGE_TAG.findall(xml)]
+    merged = [m.decode() for m in MERGE_TAG.findall(xml)] if b"mergeCell" in xml else []
     if merged:
         shown = ", ".join(merged[:5]) + (" ..." if len(merged) > 5 else "")
         findings.warning(
@@ -215,7 +215,14 @@ def _has_formula(xml: bytes) -> bool:
 
 def _read_sheet(ws) -> RawSheet:
     ws.reset_dimensions()  # a declared dimension may be a lie (phantom extents); read what is there
-    return RawSheet(ws.title, [tuple(r) for r in ws.iter_rows(values_only=True)])
+    # numbers as floats and blanks as None, as the compiled reader gives them
+    return RawSheet(
+        ws.title,
+        [
+            [float(v) if type(v) is int else (None if v == "" else v) for v in r]
+            for r in ws.iter_rows(values_only=True)
+        ],
+    )
 
 
 def _resolve_formulas(path: Path, sheets: dict[str, RawSheet], names: set[str], findings: Findings) -> None:
@@ -292,29 +299,20 @@ def _evaluate(path: Path) -> dict[str, object]:
 
 
 def _hash(sheets: dict[str, RawSheet]) -> str:
-    """Digest of the input values (not the file bytes, which result sheets change)."""
+    """Digest of the input values (not the file bytes, which result sheets change): each row's
+    values up to its last non-blank one, numbers as floats whichever reader typed them."""
     h = hashlib.sha256()
     for name in layout.INPUT_SHEET_NAMES:
         sheet = sheets.get(name)
         h.update(f"\x1e{name}\x1f".encode())
         if sheet is None:
             continue
+        rows = []
         for row in sheet.rows:
-            cells = list(row)
-            while cells and cells[-1] in (None, ""):
-                cells.pop()
-            if not cells:
-                continue
-            h.update("\x1d".join(_canon(v) for v in cells).encode("utf-8", "surrogatepass"))
-            h.update(b"\n")
+            end = len(row)
+            while end and row[end - 1] is None:
+                end -= 1
+            if end:
+                rows.append(list(row[:end]) if end < len(row) or not isinstance(row, list) else row)
+        h.update(repr(rows).encode("utf-8", "surrogatepass"))
     return h.hexdigest()
-
-
-def _canon(v: object) -> str:
-    if v is None:
-        return ""
-    if isinstance(v, float):  # whole numbers as integers, whichever reader typed them
-        return str(int(v)) if v.is_integer() else repr(v)
-    if isinstance(v, dt.datetime | dt.date | dt.time):
-        return v.isoformat()
-    return str(v)
