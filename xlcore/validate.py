@@ -216,18 +216,20 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
     if cols is None:
         return None
     idx = [cols.get(c.key) for c in t.columns]
-    rows: list[int] = []
-    values: list[list[object]] = []
-    for r in range(2, len(sheet.rows) + 1):
-        raw = sheet.rows[r - 1]
-        vals = [raw[i] if i is not None and i < len(raw) else None for i in idx]
-        if all(blank(v) for v in vals):
-            continue
-        rows.append(r)
-        values.append(vals)
+    body = sheet.rows[1:]
+    columns = [
+        [r[i] if i < len(r) else None for r in body] if i is not None else [None] * len(body) for i in idx
+    ]
+    filled = np.zeros(len(body), dtype=bool)  # rows with anything in xlcore's columns
+    for col in columns:
+        filled |= np.array(
+            [not (v is None or (v.__class__ is str and not v.strip())) for v in col], dtype=bool
+        )
+    keep = np.flatnonzero(filled)
+    rows = (keep + 2).tolist()
     data: dict[str, object] = {"row": np.array(rows, dtype=int)}
     for j, c in enumerate(t.columns):
-        column = [v[j] for v in values]
+        column = np.array(columns[j], dtype=object)[keep].tolist() if len(body) else []
         data[c.key] = _typed_column(column, rows, c, idx[j], t.name, f)
     df = pd.DataFrame(data)
     df.attrs["columns"] = cols

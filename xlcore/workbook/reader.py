@@ -33,7 +33,7 @@ class RawSheet:
     rows: list[tuple] = field(default_factory=list)
 
     def value(self, row: int, col: int) -> object:
-        """Value at a 1-based row and 0-based column, None when absent."""
+        """Value at a 1-based row and 0-based column, None when absent ('' when blank)."""
         if row - 1 >= len(self.rows):
             return None
         r = self.rows[row - 1]
@@ -98,6 +98,7 @@ ERROR_CELL = re.compile(
 FORMULA_CELL = re.compile(
     rb"<(?:\w+:)?c\b[^>]*>(?:(?!</(?:\w+:)?c>).)*?<(?:\w+:)?f[ >/].*?</(?:\w+:)?c>", re.S
 )
+FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[ >/]")
 VALUE = re.compile(rb"<(?:\w+:)?v>([^<]*)</")
 WIDE = re.compile(rb' r="[A-Z]{3}[0-9]')  # a cell in column AAA or beyond
 LAST_ROW = re.compile(rb'<(?:\w+:)?row\b[^>]*?\br="([0-9]+)"')
@@ -125,7 +126,8 @@ def _no_value(cell: bytes) -> bool:
 
 
 def _read_calamine(path: Path, names: list[str]) -> dict[str, RawSheet]:
-    """Values of the named sheets, row 1 first, blank cells as None (as openpyxl gives them)."""
+    """Values of the named sheets, row 1 first; blank cells are '' (validation treats '' and
+    None alike)."""
     try:
         wb = CalamineWorkbook.from_path(str(path))
     except Exception:  # damaged package: let the openpyxl reader report it in its words
@@ -136,7 +138,7 @@ def _read_calamine(path: Path, names: list[str]) -> dict[str, RawSheet]:
             rows = wb.get_sheet_by_name(name).to_python(skip_empty_area=False)
         except Exception:
             continue
-        out[name] = RawSheet(name, [[None if v == "" else v for v in r] if "" in r else r for r in rows])
+        out[name] = RawSheet(name, rows)
     return out
 
 
@@ -210,16 +212,16 @@ def _layout_warnings(sheet: str, xml: bytes, findings: Findings) -> None:
 
 
 def _has_formula(xml: bytes) -> bool:
-    return b"<f>" in xml or b"<f " in xml or b":f>" in xml or b":f " in xml
+    return (b"<f" in xml or b":f" in xml) and FORMULA_TAG.search(xml) is not None
 
 
 def _read_sheet(ws) -> RawSheet:
     ws.reset_dimensions()  # a declared dimension may be a lie (phantom extents); read what is there
-    # numbers as floats and blanks as None, as the compiled reader gives them
+    # numbers as floats and blanks as '', as the compiled reader gives them
     return RawSheet(
         ws.title,
         [
-            [float(v) if type(v) is int else (None if v == "" else v) for v in r]
+            ["" if v is None else float(v) if type(v) is int else v for v in r]
             for r in ws.iter_rows(values_only=True)
         ],
     )
@@ -298,21 +300,34 @@ def _evaluate(path: Path) -> dict[str, object]:
     return out
 
 
+def _filled(v: object) -> bool:
+    return v is not None and not (v.__class__ is str and v == "")
+
+
+def _canonical(rows: list) -> list:
+    """The rows as one rectangle as wide as the last filled column, blanks as '', without
+    trailing blank rows: the same for either reader. The compiled reader's rows already are
+    (it gives the bounding box of the values), so only other rows are refitted."""
+    if not rows:
+        return []
+    width = len(rows[0])
+    if not all(r.__class__ is list and len(r) == width for r in rows):
+        width = max((max((i + 1 for i, v in enumerate(r) if _filled(v)), default=0) for r in rows), default=0)
+        rows = [["" if v is None else v for v in r[:width]] + [""] * (width - len(r)) for r in rows]
+    end = len(rows)
+    while end and not any(_filled(v) for v in rows[end - 1]):
+        end -= 1
+    return rows[:end]
+
+
 def _hash(sheets: dict[str, RawSheet]) -> str:
-    """Digest of the input values (not the file bytes, which result sheets change): each row's
-    values up to its last non-blank one, numbers as floats whichever reader typed them."""
+    """Digest of the input values (not the file bytes, which result sheets change), numbers as
+    floats and blanks as '' whichever reader read them."""
     h = hashlib.sha256()
     for name in layout.INPUT_SHEET_NAMES:
         sheet = sheets.get(name)
         h.update(f"\x1e{name}\x1f".encode())
         if sheet is None:
             continue
-        rows = []
-        for row in sheet.rows:
-            end = len(row)
-            while end and row[end - 1] is None:
-                end -= 1
-            if end:
-                rows.append(list(row[:end]) if end < len(row) or not isinstance(row, list) else row)
-        h.update(repr(rows).encode("utf-8", "surrogatepass"))
+        h.update(repr(_canonical(sheet.rows)).encode("utf-8", "surrogatepass"))
     return h.hexdigest()
