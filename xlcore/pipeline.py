@@ -13,6 +13,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
+from xlcore.checks import plain
 from xlcore.checks.advice import advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
@@ -346,7 +347,7 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFram
     w["working"] = [
         f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
         f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
-        for d, t, v, m, a in zip(w.direct, w.torsion, w.v, w.m_cr, w.m_acc, strict=True)
+        for d, t, v, m, a in zip(*plain(w.direct, w.torsion, w.v, w.m_cr, w.m_acc), strict=True)
     ]
     p = core.piers.assign(
         member=core.piers.pier_id,

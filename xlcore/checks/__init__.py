@@ -12,3 +12,19 @@ def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     keys = (df.storey.astype(str) + "\x1f" + df.pier_id.astype(str)).to_numpy()
     _, first, of = np.unique(keys, return_index=True, return_inverse=True)
     return first, of
+
+
+def plain(*columns) -> list[list]:
+    """Columns as lists of Python numbers: formatting those into working text is several times
+    faster than formatting numpy scalars (what iterating an array or a Series yields)."""
+    return [np.asarray(c).tolist() for c in columns]
+
+
+def once_per(df: pd.DataFrame, keys: list, make) -> np.ndarray:
+    """Working text made by `make` (rows -> list of str) once per distinct combination of the
+    `keys` columns (or arrays), and spread to every row that has it."""
+    codes = pd.MultiIndex.from_arrays([df[k] if isinstance(k, str) else k for k in keys]).factorize(
+        use_na_sentinel=False
+    )[0]
+    _, first = np.unique(codes, return_index=True)
+    return np.asarray(make(df.iloc[first]), dtype=object)[codes]

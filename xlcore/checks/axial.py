@@ -7,7 +7,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import nm
-from xlcore.checks import per_pier
+from xlcore.checks import once_per, per_pier, plain
 from xlcore.codes import as3600
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
@@ -186,18 +186,20 @@ def check_pier_axial(
     df["f_nm"] = [
         _nm_text(*vals)
         for vals in zip(
-            r["region"],
-            df.n,
-            df.m,
-            df.dn,
-            r["nu"] * kn,
-            df.mu,
-            df.phi,
-            df.phi_mu,
-            df.kuo,
-            df.nub,
-            df.phi_nuo,
-            df.util,
+            *plain(
+                r["region"],
+                df.n,
+                df.m,
+                df.dn,
+                r["nu"] * kn,
+                df.mu,
+                df.phi,
+                df.phi_mu,
+                df.kuo,
+                df.nub,
+                df.phi_nuo,
+                df.util,
+            ),
             strict=True,
         )
     ]
@@ -259,7 +261,16 @@ def _simplified(df: pd.DataFrame, s: Settings, working: bool = True) -> pd.DataF
             why.append("load outside the middle third")
         reasons[i] = "; ".join(why)
     df["why_s"] = reasons
-    df["f_s"] = [
+    # the same for every combination of a pier unless e or the reason differs: made once each
+    first, of = per_pier(df)
+    work = pd.DataFrame(dict(k=k, Hc=Hc, hwe=hwe, e=e, tw=tw, ea=ea, fc=df.fc, Lw=Lw, cap=cap, ok=applies))
+    work["why"] = reasons
+    df["f_s"] = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    return df
+
+
+def _simplified_text(w: pd.DataFrame, phi: float) -> list[str]:
+    return [
         (
             f"Hwe = {kk:.3f} x {h:.0f} = {he:.0f} mm; e = {ee:.1f} mm; "
             f"ea = {he:.0f}^2 / (2500 x {t:.0f}) = {a:.1f} mm; "
@@ -269,7 +280,6 @@ def _simplified(df: pd.DataFrame, s: Settings, working: bool = True) -> pd.DataF
         if ok
         else f"not applicable: {why}"
         for kk, h, he, ee, t, a, fc, lw, c, ok, why in zip(
-            k, Hc, hwe, e, tw, ea, df.fc, Lw, cap, applies, reasons, strict=True
+            *plain(w.k, w.Hc, w.hwe, w.e, w.tw, w.ea, w.fc, w.Lw, w.cap, w.ok), w.why.tolist(), strict=True
         )
     ]
-    return df

@@ -9,6 +9,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import section
+from xlcore.checks import plain
 from xlcore.codes import as3600
 from xlcore.distribution import StoreyPlan, by_storey, stack
 from xlcore.model import Settings
@@ -102,7 +103,8 @@ def check_core_stress(
         f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / (0.85 x {fy:g}) = {ar:.0f} mm2 "
         f"vs {ap:.0f} mm2; sigma max {sm:.2f} MPa vs {lim:.2f} MPa"
         for t, ta, fy, ar, ap, sm, lim in zip(
-            df.tension, df.tension_area, df.fsy, df.as_req, df.as_prov, df.sigma_max, df.limit, strict=True
+            *plain(df.tension, df.tension_area, df.fsy, df.as_req, df.as_prov, df.sigma_max, df.limit),
+            strict=True,
         )
     ]
     return df

@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import per_pier
+from xlcore.checks import per_pier, plain
 from xlcore.codes import as3600
 from xlcore.model import Settings
 from xlcore.results import status, utilisation
@@ -85,7 +85,7 @@ def _vuc_text(df: pd.DataFrame) -> list[str]:
 
 def _advice(util, rho_req, capped, ratio, rho_w) -> list[str]:
     out = []
-    for u, need, cap, hl, have in zip(util, rho_req, capped, ratio, rho_w, strict=True):
+    for u, need, cap, hl, have in zip(*plain(util, rho_req, capped, ratio, rho_w), strict=True):
         if u <= 1.0:
             out.append("")
         elif cap:
