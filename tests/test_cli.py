@@ -110,3 +110,59 @@ def test_lock_file_exit_2_with_advice(demo_book):
     r = runner.invoke(app, ["compute", str(demo_book)])
     assert r.exit_code == 2 and "--force" in r.output
     assert runner.invoke(app, ["compute", str(demo_book), "--force"]).exit_code == 0
+
+
+class Recorder:
+    """A reporter that keeps what it hears."""
+
+    def __init__(self):
+        self.phases: list[tuple[str, int | None]] = []
+        self.done: dict[str, int] = {}
+
+    def begin(self, phase, total=None):
+        self.phases.append((phase, total))
+        self.done[phase] = 0
+
+    def advance(self, done):
+        self.done[self.phases[-1][0]] += done
+
+    def end(self):
+        pass
+
+
+def test_progress_hears_every_phase_and_every_result_row(demo_book):
+    from xlcore import pipeline
+    from xlcore.workbook.writer import write_results
+
+    rec = Recorder()
+    b, f = pipeline.load(demo_book, rec)
+    outcome = pipeline.compute(b, f, reporter=rec)
+    write_results(demo_book, demo_book, outcome.sheets, reporter=rec)
+    names = [p for p, _ in rec.phases]
+    assert names[:2] == ["reading the input sheets", "checking the inputs"]
+    assert any(p.startswith("cheapest fixes") for p in names)
+    checks = next(p for p in rec.phases if p[0].startswith("shear, axial"))
+    assert checks[1] == len(outcome.shear) == rec.done[checks[0]]  # pier cases
+    writing, rows = rec.phases[-1]
+    assert writing.startswith("writing") and rows == sum(len(s.table) for s in outcome.sheets)
+    assert rec.done[writing] == rows
+
+
+def test_progress_display_on_a_terminal_only(demo_book):
+    import io
+
+    from rich.console import Console
+
+    from xlcore import cli, pipeline
+
+    screen = io.StringIO()
+    with cli._progress(False, Console(file=screen, force_terminal=True, width=100)) as reporter:
+        assert isinstance(reporter, cli._Display)
+        pipeline.compute(*pipeline.load(demo_book, reporter), reporter=reporter)
+    assert "sharing actions to walls and piers" in screen.getvalue()
+    with cli._progress(True, Console(file=io.StringIO(), force_terminal=True)) as reporter:
+        assert reporter is cli.SILENT  # --quiet
+    with cli._progress(False, Console(file=io.StringIO(), force_terminal=False)) as reporter:
+        assert reporter is cli.SILENT  # output not to a terminal (a pipe, a log, CI)
+    r = runner.invoke(app, ["compute", str(demo_book), "--quiet"])
+    assert r.exit_code == 0 and "sharing actions" not in r.output

@@ -15,6 +15,7 @@ import typer
 
 from xlcore import CAUTION, __version__, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
+from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
 from xlcore.workbook.template import write_template
 from xlcore.workbook.writer import backup_path, write_results
@@ -56,6 +57,63 @@ def _exits(after_errors: str) -> Iterator[None]:
         raise typer.Exit(EXIT_INVALID) from None
 
 
+Quiet = Annotated[
+    bool, typer.Option("--quiet", "-q", help="No progress display (it is shown only on a terminal).")
+]
+
+
+class _Display(Reporter):
+    """Phases and counts on stderr, by rich; gone once the run ends."""
+
+    def __init__(self, console) -> None:
+        from rich.progress import (
+            BarColumn,
+            MofNCompleteColumn,
+            Progress,
+            SpinnerColumn,
+            TextColumn,
+            TimeElapsedColumn,
+        )
+
+        self.bar = Progress(
+            SpinnerColumn(),
+            TextColumn("{task.description}"),
+            BarColumn(),
+            MofNCompleteColumn(),
+            TimeElapsedColumn(),
+            console=console,
+            transient=True,
+        )
+        self.task = None
+
+    def begin(self, phase: str, total: int | None = None) -> None:
+        self.end()
+        self.task = self.bar.add_task(phase, total=total)
+
+    def advance(self, done: int) -> None:
+        if self.task is not None:
+            self.bar.advance(self.task, done)
+
+    def end(self) -> None:
+        if self.task is not None:
+            self.bar.remove_task(self.task)
+            self.task = None
+
+
+@contextmanager
+def _progress(quiet: bool, console=None) -> Iterator[Reporter]:
+    """A progress display on stderr when it is a terminal and not --quiet; else silence."""
+    from rich.console import Console
+
+    console = console or Console(stderr=True)
+    if quiet or not console.is_terminal:
+        yield SILENT
+        return
+    display = _Display(console)
+    with display.bar:
+        yield display
+
+
 def _version(value: bool) -> None:
     if value:
         typer.echo(f"xlcore {__version__}")
@@ -90,11 +148,14 @@ def template(
 
 
 @app.command()
-def check(path: Workbook) -> None:
+def check(path: Workbook, quiet: Quiet = False) -> None:
     """Validate the inputs and print a summary; tell whether results are stale."""
-    with _exits("fix them and run again"):
+    with _exits("fix them and run again"), _progress(quiet) as reporter:
+        reporter.begin("reading the input sheets")
         raw = read_workbook(path)
+        reporter.begin("checking the inputs")
         building, findings = pipeline.build(raw)
+        reporter.end()
     geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
@@ -136,17 +197,18 @@ def compute(
         bool, typer.Option("--force", help="Write even if a lock file says the workbook is open.")
     ] = False,
     strict: Annotated[bool, typer.Option("--strict", help="Exit with 3 when any member fails.")] = False,
+    quiet: Quiet = False,
 ) -> None:
     """Validate, run every check, and write the result sheets into the workbook."""
     target = output or path
     if target.suffix.lower() != path.suffix.lower():
         _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
         raise typer.Exit(EXIT_FILE)
-    with _exits("nothing was written"):
-        building, findings = pipeline.load(path)
-        outcome = pipeline.compute(building, findings)
+    with _exits("nothing was written"), _progress(quiet) as reporter:
+        building, findings = pipeline.load(path, reporter)
+        outcome = pipeline.compute(building, findings, reporter=reporter)
         target.parent.mkdir(parents=True, exist_ok=True)
-        write_results(path, target, outcome.sheets, force=force)
+        write_results(path, target, outcome.sheets, force=force, reporter=reporter)
     _report(findings)
     s = outcome.summary
     typer.echo(

@@ -23,6 +23,7 @@ from xlcore.checks.lintels import check_lintels
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
+from xlcore.progress import SILENT, Reporter
 from xlcore.results import ResultSheet
 from xlcore.validate import build  # noqa: F401  (re-exported for the CLI)
 from xlcore.workbook.reader import read_workbook
@@ -44,41 +45,56 @@ class Outcome:
 
 
 class Timings(dict):
-    """Seconds spent per phase, for the benchmark and progress display."""
+    """Seconds spent per phase, for the benchmark; each phase is also told to the reporter."""
+
+    def __init__(self, reporter: Reporter = SILENT) -> None:
+        super().__init__()
+        self.reporter = reporter
 
     @contextmanager
-    def phase(self, name: str) -> Iterator[None]:
+    def phase(self, name: str, label: str | None = None, total: int | None = None) -> Iterator[None]:
         start = time.perf_counter()
+        self.reporter.begin(label or name, total)
         try:
             yield
         finally:
             self[name] = self.get(name, 0.0) + time.perf_counter() - start
+            if total:
+                self.reporter.advance(total)
+            self.reporter.end()
 
 
-def load(path: Path) -> tuple[Building, Findings]:
+def load(path: Path, reporter: Reporter = SILENT) -> tuple[Building, Findings]:
     """Read and validate; raises InputInvalid or FileProblem."""
-    return build(read_workbook(path))
+    t = Timings(reporter)
+    with t.phase("read", "reading the input sheets"):
+        raw = read_workbook(path)
+    with t.phase("validate", "checking the inputs"):
+        return build(raw)
 
 
-def compute(building: Building, findings: Findings, now: dt.datetime | None = None) -> Outcome:
+def compute(
+    building: Building, findings: Findings, now: dt.datetime | None = None, reporter: Reporter = SILENT
+) -> Outcome:
     """Run every check on a validated building and lay out the result sheets."""
     s = building.settings
-    t = Timings()
-    with t.phase("geometry"):
+    t = Timings(reporter)
+    with t.phase("geometry", "piers, lintels, stiffness and storey plans"):
         geom = geometry.derive(building.storeys, building.walls, building.openings)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
         plans = distribution.storey_plans(piers, walls)
-    with t.phase("sharing"):
+    with t.phase("sharing", "sharing actions to walls and piers"):
         acts, core = pier_actions(building, piers, walls, plans)
-    with t.phase("checks"):
+    with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):
         shear = check_pier_shear(piers, acts, s)
         axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe)
         summary = envelope(shear, piers, axial, detailing)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
-    with t.phase("advice"):
+    failing = int((summary.status == results.FAIL).sum())
+    with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
         advice = advise(piers, acts, summary, s)
         summary = with_cheapest_fix(summary, advice)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
@@ -215,7 +231,9 @@ def compute(building: Building, findings: Findings, now: dt.datetime | None = No
         ),
     ]
     if core is not None:
-        with t.phase("core checks"):
+        with t.phase(
+            "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
+        ):
             stress = check_core_stress(piers, plans, building.core_actions, s)
             core_nm = check_core_nm(piers, plans, building.core_actions, s)
         sheets.append(

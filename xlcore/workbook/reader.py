@@ -158,8 +158,8 @@ def _read_openpyxl(path: Path, names: list[str]) -> dict[str, RawSheet]:
 def _put(sheet: RawSheet, r: int, c: int, value: object) -> None:
     while len(sheet.rows) < r:
         sheet.rows.append([])
-    row = list(sheet.rows[r - 1])
-    row += [None] * (c + 1 - len(row))
+    row = list(sheet.rows[r - 1])  # a list, as both readers give
+    row += [""] * (c + 1 - len(row))
     row[c] = value
     sheet.rows[r - 1] = row
 
@@ -305,19 +305,20 @@ def _filled(v: object) -> bool:
 
 
 def _canonical(rows: list) -> list:
-    """The rows as one rectangle as wide as the last filled column, blanks as '', without
-    trailing blank rows: the same for either reader. The compiled reader's rows already are
-    (it gives the bounding box of the values), so only other rows are refitted."""
-    if not rows:
-        return []
-    width = len(rows[0])
-    if not all(r.__class__ is list and len(r) == width for r in rows):
-        width = max((max((i + 1 for i, v in enumerate(r) if _filled(v)), default=0) for r in rows), default=0)
-        rows = [["" if v is None else v for v in r[:width]] + [""] * (width - len(r)) for r in rows]
-    end = len(rows)
-    while end and not any(_filled(v) for v in rows[end - 1]):
+    """Each row up to its last filled cell (a blank row as []), without trailing blank rows:
+    the same from either reader, whatever width of blank cells it pads rows with."""
+    out = [r if r and _filled(r[-1]) else _trim(r) for r in rows]
+    end = len(out)
+    while end and not out[end - 1]:
         end -= 1
-    return rows[:end]
+    return out[:end]
+
+
+def _trim(row) -> list:
+    end = len(row)
+    while end and not _filled(row[end - 1]):
+        end -= 1
+    return list(row[:end])
 
 
 def _hash(sheets: dict[str, RawSheet]) -> str:

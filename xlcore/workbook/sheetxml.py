@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Iterator
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 
 import numpy as np
@@ -106,13 +106,19 @@ def sheet_xml(sheet: ResultSheet, styles: Styles, tab_rgb: str = "FF2F4858") -> 
     return b"".join(sheet_pieces(sheet, styles, tab_rgb))
 
 
-def sheet_pieces(sheet: ResultSheet, styles: Styles, tab_rgb: str = "FF2F4858") -> Iterator[bytes]:
+def sheet_pieces(
+    sheet: ResultSheet,
+    styles: Styles,
+    tab_rgb: str = "FF2F4858",
+    on_rows: Callable[[int], None] | None = None,
+) -> Iterator[bytes]:
     """The worksheet part for one result sheet, in pieces of CHUNK rows, so a sheet of any
     length streams into the package in flat memory.
 
     Each table row is one `str.format` of a row template: a column of plain numbers (or of
     text with no blanks) goes in as its values; a column with blanks (NaN, None, '') goes in
-    as ready-made cells, blank ones omitted."""
+    as ready-made cells, blank ones omitted. `on_rows` hears how many table rows each piece
+    held, once it has been taken."""
     cols = sheet.columns
     letters = [get_column_letter(j + 1) for j in range(len(cols))]
     header_row = _header_row(sheet)
@@ -159,6 +165,8 @@ def sheet_pieces(sheet: ResultSheet, styles: Styles, tab_rgb: str = "FF2F4858") 
         hi = min(n, lo + CHUNK)
         template, values = _row_template(cols, letters, styles, columns, lo, hi, first)
         yield "".join(map(template.format, range(first + lo, first + hi), *values)).encode("utf-8")
+        if on_rows:
+            on_rows(hi - lo)
     tail = ["</sheetData>", f'<autoFilter ref="A{header_row}:{last_col}{last_row}"/>']
     if sheet.scale_key and sheet.scale_key in [c.key for c in cols] and n:
         letter = letters[[c.key for c in cols].index(sheet.scale_key)]

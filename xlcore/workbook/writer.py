@@ -14,13 +14,14 @@ import os
 import shutil
 import tempfile
 import zipfile
-from collections.abc import Iterator
+from collections.abc import Callable, Iterator
 from pathlib import Path
 
 from lxml import etree
 
 from xlcore.diagnostics import FileProblem
 from xlcore.layout import RESULT_PREFIX
+from xlcore.progress import SILENT, Reporter
 from xlcore.results import MARKER, ResultSheet
 from xlcore.workbook.package import (
     NS_CT,
@@ -50,10 +51,13 @@ def backup_path(path: Path) -> Path:
     return path.with_name(f"{path.stem}.xlcore-backup{path.suffix}")
 
 
-def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool = False) -> None:
+def write_results(
+    src: Path, dst: Path, sheets: list[ResultSheet], force: bool = False, reporter: Reporter = SILENT
+) -> None:
     """Replace xlcore's result sheets in `src` with `sheets`, saving to `dst` atomically.
 
-    When dst is src, the previous file is kept as a backup beside it.
+    When dst is src, the previous file is kept as a backup beside it. The reporter hears the
+    result rows as they are written.
     """
     src, dst = Path(src), Path(dst)
     locks = lock_files(dst)
@@ -64,7 +68,7 @@ def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool =
             "(left by a crash): delete it, or run with --force."
         )
     with open_package(src) as zf:
-        package = _build(zf, sheets)
+        package = _build(zf, sheets, reporter.advance)
     folder = dst.parent
     for stale in folder.glob(f".{dst.name}.*.xlcore-tmp"):  # left by a run that was killed
         _remove(str(stale))
@@ -75,6 +79,7 @@ def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool =
             f"{dst}: cannot write in {folder} ({exc.strerror or exc}); the workbook is unchanged"
         ) from exc
     try:
+        reporter.begin(f"writing {len(sheets)} result sheets", sum(len(s.table) for s in sheets))
         with os.fdopen(fd, "wb") as fh:
             with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED) as out:
                 for info, data in package:
@@ -96,6 +101,7 @@ def write_results(src: Path, dst: Path, sheets: list[ResultSheet], force: bool =
         if dst.resolve() == src.resolve():
             shutil.copy2(src, backup_path(dst))
         os.replace(tmp, dst)
+        reporter.end()
     except OSError as exc:
         _remove(tmp)
         raise FileProblem(
@@ -123,7 +129,7 @@ FAST, BIG = 1, 1 << 20  # deflate level for parts over BIG bytes: 3-4x faster th
 
 
 def _build(
-    zf: zipfile.ZipFile, sheets: list[ResultSheet]
+    zf: zipfile.ZipFile, sheets: list[ResultSheet], on_rows: Callable[[int], None] | None = None
 ) -> list[tuple[zipfile.ZipInfo, bytes | Iterator[bytes]]]:
     """The new package's parts: the old ones (less our previous results) as bytes, the result
     sheets as generators of XML pieces, written into the package as they are made."""
@@ -185,7 +191,7 @@ def _build(
         ):
             n += 1
         part = f"xl/worksheets/sheet{n}.xml"
-        new_parts[part] = sheet_pieces(sheet, styles)
+        new_parts[part] = sheet_pieces(sheet, styles, on_rows=on_rows)
         rid = _fresh(used_ids, "rIdXlc")
         etree.SubElement(
             rels,

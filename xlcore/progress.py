@@ -1,0 +1,20 @@
+"""Where a long run says what it is doing. The library reports phases and rows through a
+`Reporter`; the default one says nothing, the command line shows a progress display."""
+
+from __future__ import annotations
+
+
+class Reporter:
+    """Receives the phase in progress and, where the work is counted, how much is done."""
+
+    def begin(self, phase: str, total: int | None = None) -> None:
+        """A phase starts; `total` is its count of cases or rows when known."""
+
+    def advance(self, done: int) -> None:
+        """`done` more cases or rows of the current phase are finished."""
+
+    def end(self) -> None:
+        """The current phase is finished."""
+
+
+SILENT = Reporter()
