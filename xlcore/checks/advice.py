@@ -120,12 +120,13 @@ def _candidates(
 
 
 def _utilisation(
-    var: pd.DataFrame, meta: pd.DataFrame, actions: pd.DataFrame, settings: Settings
+    var: pd.DataFrame, meta: pd.DataFrame, actions: pd.DataFrame, settings: Settings, only_axial: bool = False
 ) -> pd.Series:
-    """Worst utilisation of the variants in `meta`, by variant ID."""
+    """Worst utilisation of the variants in `meta`, by variant ID (of the axial checks alone
+    with `only_axial`)."""
     acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
     acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
-    return _worst(var[var.pier_id.isin(meta.variant)], acts, settings)
+    return _worst(var[var.pier_id.isin(meta.variant)], acts, settings, only_axial)
 
 
 def evaluate_options(
@@ -181,12 +182,20 @@ def advise(
         # the few combinations that govern now first: an option failing those fails (the worst
         # over some combinations is at most the worst over all). Of those passing, the cheapest
         # per (pier, kind) is confirmed on every combination; if it fails there, the next.
-        util = batch.variant.map(_utilisation(var, batch, screen, settings))
+        screened = _utilisation(var, batch, screen, settings)
+        util = batch.variant.map(screened)
         util = util.where(util > 1.0)  # a screen pass proves nothing yet
         hopeful = batch[util.isna().to_numpy()]
         while len(hopeful):
             first = hopeful.groupby(group, sort=False).head(1)
-            full = _utilisation(var, first, actions, settings)
+            # shear governs at the largest |V*| and detailing at the largest N*, both in the
+            # screen; axial + bending and Cl 11.5 need every combination
+            on_screen = first.variant.map(screened).to_numpy()
+            axial = first.variant.map(_utilisation(var, first, actions, settings, only_axial=True))
+            full = pd.Series(np.fmax(on_screen, axial.to_numpy()), index=first.variant.to_numpy())
+            unseen = first[np.isnan(on_screen)]  # no screen rows (not expected): every check
+            if len(unseen):
+                full.update(_utilisation(var, unseen, actions, settings))
             util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
             settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
             hopeful = hopeful[~hopeful.variant.isin(first.variant)]
@@ -248,11 +257,11 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     return acts[pick]
 
 
-def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series:
-    """Worst utilisation of every variant over every check and combination."""
-    shear = check_pier_shear(var, acts, s, working=False)
+def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False) -> pd.Series:
+    """Worst utilisation of every variant over every check and combination (over axial +
+    bending and Cl 11.5 alone with `only_axial`)."""
     axial = check_pier_axial(var, acts, s, working=False)
-    parts = [shear[["pier_id", "util"]]]
+    parts = [] if only_axial else [check_pier_shear(var, acts, s, working=False)[["pier_id", "util"]]]
     if len(axial):
         parts.append(axial[["pier_id", "util"]])
         simp = axial[axial.util_s.notna()]
@@ -260,6 +269,8 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series:
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
     else:
         hwe = None
-    det = check_detailing(var, acts, s, hwe, working=False)
-    parts.append(det[["pier_id", "util"]])
+    if not only_axial:
+        parts.append(check_detailing(var, acts, s, hwe, working=False)[["pier_id", "util"]])
+    if not parts:
+        return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
