@@ -139,7 +139,7 @@ def evaluate_options(
     return meta
 
 
-ROUND = 6  # options per (pier, kind) tried in each round, cheapest first
+ROUND = 6  # options per (pier, kind) tried in the first round, cheapest first; doubling after
 
 
 def advise(
@@ -175,8 +175,10 @@ def advise(
     meta["util"] = np.nan
     open_groups = meta[group].drop_duplicates()
     screen = _screening_actions(actions, failing)
-    for start in range(0, int(meta.order.max()) + 1, ROUND):
-        batch = meta[(meta.order >= start) & (meta.order < start + ROUND)].merge(open_groups, on=group)
+    start, size, last = 0, ROUND, int(meta.order.max())
+    while start <= last:
+        batch = meta[(meta.order >= start) & (meta.order < start + size)].merge(open_groups, on=group)
+        start, size = start + size, 2 * size  # later rounds larger: the piers still open need more
         if batch.empty:
             break
         # the few combinations that govern now first: an option failing those fails (the worst
