@@ -56,3 +56,24 @@ def test_long_result_sheets_are_split_in_the_workbook_and_replaced_on_rerun(demo
     wb = openpyxl.load_workbook(demo_book, read_only=True)
     assert not any(n.startswith(results.SHEAR_SHEET + " (") for n in wb.sheetnames)
     wb.close()
+
+
+def test_no_zip64_extension_unless_a_part_needs_it(demo_book, monkeypatch):
+    """Excel refuses or repairs packages whose small parts carry the ZIP64 extension (reported
+    against other xlsx writers, e.g. duckdb-excel PR #64, XlsxWriter issue #656): every part of
+    an ordinary result workbook is plain (version needed to extract 2.0)."""
+    import zipfile
+
+    b, f = pipeline.load(demo_book)
+    sheets = pipeline.compute(b, f).sheets
+    write_results(demo_book, demo_book, sheets)
+    with zipfile.ZipFile(demo_book) as z:
+        assert {i.extract_version for i in z.infolist()} == {20}
+    # a part beyond the ZIP64 limit (lowered here) makes the writer start again with ZIP64 on
+    monkeypatch.setattr(zipfile, "ZIP64_LIMIT", 50_000)
+    write_results(demo_book, demo_book, sheets)
+    with zipfile.ZipFile(demo_book) as z:
+        assert z.testzip() is None
+        assert 45 in {i.extract_version for i in z.infolist()}
+    monkeypatch.undo()
+    assert stored_input_hash(demo_book) == b.input_hash  # and it reads back

@@ -10,6 +10,7 @@ repair otherwise. The new file is written beside the old one and swapped in atom
 
 from __future__ import annotations
 
+import functools
 import os
 import shutil
 import tempfile
@@ -81,15 +82,12 @@ def write_results(
     try:
         reporter.begin(f"writing {len(sheets)} result sheets", sum(len(s.table) for s in sheets))
         with os.fdopen(fd, "wb") as fh:
-            with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED) as out:
-                for info, data in package:
-                    if isinstance(data, bytes):
-                        out.writestr(info, data, compresslevel=FAST if len(data) > BIG else 6)
-                        continue
-                    _set_level(info, FAST)
-                    with out.open(info, "w", force_zip64=True) as part:
-                        for piece in data:
-                            part.write(piece)
+            try:
+                _write_package(fh, package, zip64=False)
+            except _NeedsZip64:  # a part over 4 GiB (not expected below the row limit): again
+                fh.seek(0)
+                fh.truncate()
+                _write_package(fh, package, zip64=True)
             fh.flush()
             os.fsync(fh.fileno())
         if dst.exists():
@@ -112,6 +110,30 @@ def write_results(
         raise
 
 
+class _NeedsZip64(Exception):
+    pass
+
+
+def _write_package(fh, package: list, zip64: bool) -> None:
+    """The parts into a zip: old parts as bytes, result sheets streamed from their generators.
+    Without need, no part carries the ZIP64 extension: Excel refuses or repairs packages whose
+    small parts do (seen by other writers), so it is used only when a part outgrows 4 GiB."""
+    with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED) as out:
+        for info, data in package:
+            if isinstance(data, bytes):
+                out.writestr(info, data, compresslevel=FAST if len(data) > BIG else 6)
+                continue
+            _set_level(info, FAST)
+            try:
+                with out.open(info, "w", force_zip64=zip64) as part:
+                    for piece in data():
+                        part.write(piece)
+            except RuntimeError as exc:
+                if "force_zip64" in str(exc):
+                    raise _NeedsZip64 from exc
+                raise
+
+
 def _set_level(info: zipfile.ZipInfo, level: int) -> None:
     """Deflate level of a part written through ZipFile.open (no public way to pass it)."""
     name = "compress_level" if hasattr(info, "compress_level") else "_compresslevel"  # 3.13 / 3.11
@@ -130,9 +152,9 @@ FAST, BIG = 1, 1 << 20  # deflate level for parts over BIG bytes: 3-4x faster th
 
 def _build(
     zf: zipfile.ZipFile, sheets: list[ResultSheet], on_rows: Callable[[int], None] | None = None
-) -> list[tuple[zipfile.ZipInfo, bytes | Iterator[bytes]]]:
+) -> list[tuple[zipfile.ZipInfo, bytes | Callable[[], Iterator[bytes]]]]:
     """The new package's parts: the old ones (less our previous results) as bytes, the result
-    sheets as generators of XML pieces, written into the package as they are made."""
+    sheets as makers of XML pieces, written into the package as they are made."""
     sheets = [part for s in sheets for part in split(s)]
     wb_part = "xl/workbook.xml"
     rels_part = "xl/_rels/workbook.xml.rels"
@@ -180,7 +202,7 @@ def _build(
         read_xml(zf, styles_part) if styles_part in names else None,
         [c.fmt for s in sheets for c in s.columns if c.fmt],
     )
-    new_parts: dict[str, Iterator[bytes]] = {}
+    new_parts: dict[str, Callable[[], Iterator[bytes]]] = {}
     used_ids = {r.get("Id") for r in rels}
     sheet_ids = [int(s.get("sheetId")) for s in sheets_el]
     next_sheet_id = max(sheet_ids, default=0) + 1
@@ -191,7 +213,7 @@ def _build(
         ):
             n += 1
         part = f"xl/worksheets/sheet{n}.xml"
-        new_parts[part] = sheet_pieces(sheet, styles, on_rows=on_rows)
+        new_parts[part] = functools.partial(sheet_pieces, sheet, styles, on_rows=on_rows)
         rid = _fresh(used_ids, "rIdXlc")
         etree.SubElement(
             rels,
@@ -211,7 +233,7 @@ def _build(
         "[Content_Types].xml": _xml(ct),
         styles_part: styles_xml,
     }
-    out: list[tuple[zipfile.ZipInfo, bytes | Iterator[bytes]]] = []
+    out: list[tuple[zipfile.ZipInfo, bytes | Callable[[], Iterator[bytes]]]] = []
     for info in zf.infolist():
         if info.filename in drop_parts:
             continue
