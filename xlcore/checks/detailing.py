@@ -31,7 +31,7 @@ def check_detailing(
 ) -> pd.DataFrame:
     """One row per storey x pier x rule. `hwe` [mm] per (storey, pier) for the one-layer limit
     (from the Cl 11.4 effective height of the axial check); storey clear height otherwise.
-    Without `working`, the numbers only."""
+    Without `working`, only each rule's pier and utilisation."""
     p = piers.copy()
 
     def rule(*args):
@@ -155,6 +155,8 @@ def check_detailing(
             )
         )
     out = pd.concat(parts, ignore_index=True)
+    if not working:
+        return out
     out["status"] = np.where(out.util <= 1.0 + 1e-9, PASS, FAIL)
     out["clause"] = "Cl 11.7 " + out.rule
     return out
@@ -163,7 +165,8 @@ def check_detailing(
 def _rule(
     p: pd.DataFrame, name: str, value, limit, kind: str, unit: str, working, text: bool = True
 ) -> pd.DataFrame:
-    """One rule's rows; `working` makes the working text when called (None: no text)."""
+    """One rule's rows; `working` makes the working text when called. Without `text`, the
+    pier and utilisation alone (what the advice search needs)."""
     value = np.asarray(value, dtype=float)
     limit = np.asarray(limit, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -171,6 +174,8 @@ def _rule(
             util = np.where(limit <= 0, 0.0, np.where(value > 0, limit / value, np.inf))
         else:
             util = value / limit
+    if not text:
+        return pd.DataFrame({"pier_id": p.pier_id.reset_index(drop=True), "util": util})
     return pd.DataFrame(
         dict(
             storey=p.storey.to_numpy(),
