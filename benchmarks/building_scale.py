@@ -31,17 +31,17 @@ KERNELS = ("geometry", "sharing", "checks", "core checks", "advice")
 
 
 def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
-    """A tower of `boxes` box cores in a row, one door per box, actions for every pier.
-    Returns the number of pier cases (storey x pier x combination)."""
-    from openpyxl import Workbook
+    """A tower of `boxes` box cores in a row, one door per box, actions for every pier, filled
+    into the project's own blank template (`xlcore template`). Returns the number of pier cases
+    (storey x pier x combination)."""
+    import openpyxl
 
     from xlcore import layout
+    from xlcore.workbook.template import write_template
 
-    wb = Workbook(write_only=True)
-    sheets = {t.key: wb.create_sheet(t.name) for t in (layout.PROJECT, *layout.TABLES)}
-    sheets["project"].append(list(layout.PROJECT.headers))
-    for t in layout.TABLES:
-        sheets[t.key].append([c.header for c in t.columns])
+    write_template(path)
+    wb = openpyxl.load_workbook(path)
+    sheets = {t.key: wb[t.name] for t in layout.TABLES}
     names = [f"L{i:02d}" for i in range(storeys)]
     for i, n in enumerate(names):
         sheets["storeys"].append([n, 3.2 * i, 3.2, 200])
