@@ -84,8 +84,9 @@ class Geometry:
         return out
 
 
-def bar_ratio(layers: float, dia: float, spacing: float, thickness: float) -> float:
-    """rho = n_layers * A_bar / (s * tw): steel area per unit of concrete section."""
+def bar_ratio(layers, dia, spacing, thickness):
+    """rho = n_layers * A_bar / (s * tw): steel area per unit of concrete section (numbers or
+    arrays)."""
     return layers * math.pi * dia**2 / 4.0 / (spacing * thickness)
 
 

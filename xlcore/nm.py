@@ -193,8 +193,11 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
 
     Regula falsi with the Illinois modification inside a bracket that always holds the root,
     every third step a plain bisection (so kinks where bars yield cannot stall it); rows stop
-    when the bracket is below 1e-12 D or g meets the target to 1e-12 of the force scale. The
-    answer is the bisection's to round-off, in about a quarter of the steps."""
+    when the bracket is below 1e-12 D or g meets the target to 1e-12 of the force scale
+    (`iterations` caps the steps). Where the root is unique the answer is a bisection's to
+    round-off, in about a quarter of the steps; where N(dn) dips as a bar enters the stress
+    block (bars displace concrete) there may be several roots, and either method may give
+    any of them."""
     lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
     hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
     target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)

@@ -14,7 +14,7 @@ import itertools
 import numpy as np
 import pandas as pd
 
-from xlcore import costs
+from xlcore import costs, geometry
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.shear import check_pier_shear
@@ -53,11 +53,6 @@ def _option_table() -> pd.DataFrame:
 OPTIONS = _option_table()
 
 
-def _ratio(layers, dia, spacing, thickness):
-    """geometry.bar_ratio over arrays."""
-    return layers * np.pi * dia**2 / 4.0 / (spacing * thickness)
-
-
 def _candidates(
     piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
 ) -> tuple[pd.DataFrame, pd.DataFrame]:
@@ -79,7 +74,7 @@ def _candidates(
     for prefix, name in (("h", "horizontal bars"), ("v", "vertical bars")):
         sel = kind == name
         d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
-        rho = _ratio(n, d, sp, tw0)
+        rho = geometry.bar_ratio(n, d, sp, tw0)
         keep[sel] = rho[sel] > var[f"rho_{prefix}"].to_numpy(float)[sel] + 1e-12  # only more steel
         for field, new in ((f"{prefix}_dia", d), (f"{prefix}_spacing", sp), (f"rho_{prefix}", rho)):
             var[field] = np.where(sel, new, var[field].to_numpy(float))
@@ -87,7 +82,9 @@ def _candidates(
     thick = kind == "thickness"
     tw = np.where(thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), tw0)
     for prefix in ("v", "h"):
-        same = _ratio(*(var[f"{prefix}_{k}"].to_numpy(float) for k in ("layers", "dia", "spacing")), tw)
+        same = geometry.bar_ratio(
+            *(var[f"{prefix}_{k}"].to_numpy(float) for k in ("layers", "dia", "spacing")), tw
+        )
         var[f"rho_{prefix}"] = np.where(thick, same, var[f"rho_{prefix}"].to_numpy(float))
     var["tw"] = tw
     var, kind, oi = var[keep].reset_index(drop=True), kind[keep], oi[keep]

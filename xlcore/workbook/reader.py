@@ -30,7 +30,7 @@ class RawSheet:
     """Cell values of one sheet, row 1 first; rows may be ragged."""
 
     name: str
-    rows: list[tuple] = field(default_factory=list)
+    rows: list[list] = field(default_factory=list)
 
     def value(self, row: int, col: int) -> object:
         """Value at a 1-based row and 0-based column, None when absent ('' when blank)."""

@@ -101,11 +101,6 @@ def _header_row(sheet: ResultSheet, extra: int = 0) -> int:
     return 1 + len(sheet.preamble) + extra + 2
 
 
-def sheet_xml(sheet: ResultSheet, styles: Styles, tab_rgb: str = "FF2F4858") -> bytes:
-    """The worksheet part for one result sheet, whole (see `sheet_pieces`)."""
-    return b"".join(sheet_pieces(sheet, styles, tab_rgb))
-
-
 def sheet_pieces(
     sheet: ResultSheet,
     styles: Styles,
