@@ -231,7 +231,7 @@ def core_actions_to_piers(
         member = np.zeros((n_w, n_p))
         member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
         along = vx[:, None] * sw.ux.to_numpy()[None, :] + vy[:, None] * sw.uy.to_numpy()[None, :]
-        with np.errstate(divide="ignore", invalid="ignore"):
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank when not finite
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
         rows, combos = cs.row.to_numpy(), cs.combination.to_numpy()
         wall_rows.append(
