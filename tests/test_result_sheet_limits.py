@@ -1,7 +1,7 @@
 """Result sheets stay within the worksheet limit of 1,048,576 rows (Excel's published
-specification and limits; LibreOffice Calc has the same since version 7.4): a longer table is
-split into consecutive sheets, each with the stamp, the header and a line naming its rows.
-The limit is lowered here so that the demo's tables cross it."""
+specifications and limits; LibreOffice Calc has the same row limit, from memory since 3.3):
+a longer table is split into consecutive sheets, each with the stamp, the header and a line
+naming its table rows. The limit is lowered here so that the demo's tables cross it."""
 
 import openpyxl
 import pandas as pd

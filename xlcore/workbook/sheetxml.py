@@ -61,7 +61,7 @@ def _cell(ref: str, v: object, style: int = 0) -> str:
     return _str_cell(ref, v, style)
 
 
-ROW_LIMIT = 1_048_576  # rows in a worksheet (Excel, LibreOffice and the Open XML format)
+ROW_LIMIT = 1_048_576  # rows in a worksheet: Excel's limit, and LibreOffice Calc's
 CHUNK = 4096  # table rows rendered per piece written into the package
 
 
