@@ -92,19 +92,24 @@ def _number(v: object, col: Column) -> tuple[float | None, str | None]:
     return x, _range_problem(x, col, v)
 
 
+def _outside(x, col: Column):
+    """Where x (a number or an array) lies outside the column's range."""
+    x = np.asarray(x, dtype=float)
+    bad = np.zeros(x.shape, dtype=bool)
+    if col.min is not None:
+        bad |= x <= col.min if col.min_open else x < col.min
+    if col.max is not None:
+        bad |= x > col.max
+    return bad
+
+
 def _range_problem(x: float, col: Column, v: object) -> str | None:
-    low_bad = col.min is not None and (x <= col.min if col.min_open else x < col.min)
-    high_bad = col.max is not None and x > col.max
-    if not (low_bad or high_bad):
+    if not _outside(x, col):
         return None
     msg = f"found {show(v)}; expected {col.expectation()}"
     for slip in layout.UNIT_SLIPS:
-        if slip.unit == col.unit and x != 0:
-            y = x * slip.factor
-            lo_ok = col.min is None or (y > col.min if col.min_open else y >= col.min)
-            hi_ok = col.max is None or y <= col.max
-            if lo_ok and hi_ok:
-                msg += f" ({slip.hint})"
+        if slip.unit == col.unit and x != 0 and not _outside(x * slip.factor, col):
+            msg += f" ({slip.hint})"
     return msg
 
 
@@ -222,9 +227,7 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
     ]
     filled = np.zeros(len(body), dtype=bool)  # rows with anything in xlcore's columns
     for col in columns:
-        filled |= np.array(
-            [not (v is None or (v.__class__ is str and not v.strip())) for v in col], dtype=bool
-        )
+        filled |= ~np.fromiter(map(blank, col), dtype=bool, count=len(col))
     keep = np.flatnonzero(filled)
     rows = (keep + 2).tolist()
     data: dict[str, object] = {"row": np.array(rows, dtype=int)}
@@ -264,11 +267,7 @@ def _plain_numbers(column: list, c: Column) -> np.ndarray:
     """Floats where the cell is a finite number within the column's range (and whole, for
     integer columns); NaN where the cell needs a closer look."""
     x = np.array([v if type(v) in (float, int) else np.nan for v in column], dtype=float)
-    bad = ~np.isfinite(x)
-    if c.min is not None:
-        bad |= x <= c.min if c.min_open else x < c.min
-    if c.max is not None:
-        bad |= x > c.max
+    bad = ~np.isfinite(x) | _outside(x, c)
     if c.kind is Kind.INTEGER:
         bad |= x != np.round(x)
     x[bad] = np.nan

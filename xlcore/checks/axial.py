@@ -182,7 +182,7 @@ def check_pier_axial(
         "Cl 8.1.3 / Table 2.2.2",
     )
     if not working:
-        return _simplified(df, settings, working)
+        return _simplified(df, settings, of, working)
     df["f_nm"] = [
         _nm_text(*vals)
         for vals in zip(
@@ -203,7 +203,7 @@ def check_pier_axial(
             strict=True,
         )
     ]
-    return _simplified(df, settings, working)
+    return _simplified(df, settings, of, working)
 
 
 def _nm_text(region, n, m, dn, nu, mu, phi, phi_mu, kuo, nub, phi_nuo, util) -> str:
@@ -217,8 +217,9 @@ def _nm_text(region, n, m, dn, nu, mu, phi, phi_mu, kuo, nub, phi_nuo, util) -> 
     return f"{core}; U = max(|{m:.1f}| / {phi_mu:.1f}, N*/phiN) = {util:.3f}"
 
 
-def _simplified(df: pd.DataFrame, s: Settings, working: bool = True) -> pd.DataFrame:
-    """Cl 11.5 simplified method per row, with its applicability evaluated row by row."""
+def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True) -> pd.DataFrame:
+    """Cl 11.5 simplified method per row, with its applicability evaluated row by row; `of`
+    gives each row's storey x pier group (`per_pier`)."""
     phi = s.phi_simplified if s.phi_simplified is not None else as3600.PHI_SIMPLIFIED
     tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
     k = as3600.effective_height_factor(Hc, Lw, df.supported_edges.to_numpy(), s.ends_restrained == "yes")
@@ -262,7 +263,6 @@ def _simplified(df: pd.DataFrame, s: Settings, working: bool = True) -> pd.DataF
         reasons[i] = "; ".join(why)
     df["why_s"] = reasons
     # the same for every combination of a pier unless e or the reason differs: made once each
-    first, of = per_pier(df)
     work = pd.DataFrame(dict(k=k, Hc=Hc, hwe=hwe, e=e, tw=tw, ea=ea, fc=df.fc, Lw=Lw, cap=cap, ok=applies))
     work["why"] = reasons
     df["f_s"] = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
