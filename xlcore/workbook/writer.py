@@ -392,7 +392,8 @@ def _build(
             keep_positions[i] = len(keep_positions)
             continue
         text, inline = stamps.get(i, (None, False))
-        if not (text or "").startswith(MARKER) or not (name.casefold() in marked or inline):
+        # inline A1 without any mark: written by an xlcore before the marks, never saved since
+        if not (text or "").startswith(MARKER) or not (name.casefold() in marked or (inline and not marked)):
             raise FileProblem(_foreign(name, text))
         rel = rel_by_id[s.get(f"{{{NS_REL}}}id")]
         sheets_el.remove(s)
