@@ -195,8 +195,8 @@ def test_disk_full_while_backing_up_keeps_the_previous_backup(tmp_path):
     backup.write_bytes(b"previous backup " * 100)
     limit = book.stat().st_size - 500_000
     code = (
-        "import resource,sys;resource.setrlimit(resource.RLIMIT_FSIZE,(%d,%d));"
-        "from xlcore.cli import app;sys.argv=['xlcore','compute',%r,'-q'];app()" % (limit, limit, str(book))
+        f"import resource,sys;resource.setrlimit(resource.RLIMIT_FSIZE,({limit},{limit}));"
+        f"from xlcore.cli import app;sys.argv=['xlcore','compute',{str(book)!r},'-q'];app()"
     )
     before = book.read_bytes()
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
