@@ -175,8 +175,11 @@ PROJECT = SettingsSheet(
             None,
             Kind.CHOICE,
             HEIGHT_BASES[0],
-            "Hw used in Hw/Lw of Cl 11.6: the storey clear height (default, conservative for "
-            "slender piers) or, for piers beside an opening, the opening's clear height.",
+            "Hw used in Hw/Lw of Cl 11.6.3: the overall height of the wall, base to top "
+            "(default: the conservative reading of Amendment 2, since Eq (2) falls as Hw/Lw "
+            "grows), the storey clear height, or for piers beside an opening the opening's "
+            "clear height. A pier beside an opening takes the larger of its own ratio and "
+            "the whole wall's (common practice). See docs/engineering-basis.md.",
             choices=HEIGHT_BASES,
         ),
         Setting(

@@ -14,7 +14,7 @@ class Settings(BaseModel):
     project_name: str = ""
     standard: str = "AS 3600:2018"
     phi_shear: float | None = None
-    shear_height: str = "storey clear height"
+    shear_height: str = "overall wall height"
     pier_fixity: str = "fixed-fixed"
     wall_nm: str = "composite section"
     accidental: float = 0.0

@@ -132,7 +132,12 @@ def compute(
             axial,
             preamble=stamp
             + [
-                ("Utilisation", "the larger of |M*| / phiMu at N* and N* / phiNuo (tension: N* / 0.85 Nuot)"),
+                (
+                    "Utilisation",
+                    "radial overload factor: (N*, M*) / U lies on the factored interaction curve "
+                    "along the ray from the origin (1.2 = 20 % over); M* at least N* x 0.05 Lw "
+                    "(Cl 10.1.2); the ratio at fixed N* is kept as a column",
+                ),
                 (
                     "Section",
                     "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
@@ -471,10 +476,10 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
         parts.append(
             axial.assign(
                 check=CHECK_NM,
-                demand=axial.m.abs(),
-                capacity=axial.phi_mu,
+                demand=axial.m_design,
+                capacity=axial.m_ray,  # M where the ray from the origin meets the curve
                 unit="kNm",
-                note=np.where(axial.governs == "axial", "axial force governs", ""),
+                note=axial.governs,
             )[cols]
         )
         s = axial[axial.status_s != results.NOT_APPLICABLE]
