@@ -275,11 +275,21 @@ PROJECT = SettingsSheet(
             "x f'c",
             Kind.NUMBER,
             0.15,
-            "Core stress check: peak elastic compression above this fraction of f'c is flagged "
-            "(0.15 f'c: boundary elements of limited-ductile walls, AS 3600:2018 Section 14, "
-            "from design notes: verify).",
+            "Core stress check, earthquake combinations only: peak elastic compression above "
+            "this fraction of f'c flags end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6, "
+            "from memory: verify). A flag, never a failing utilisation.",
             min=0.05,
             max=1.0,
+        ),
+        Setting(
+            "earthquake_combinations",
+            "Earthquake combinations",
+            None,
+            Kind.TEXT,
+            "",
+            "Names of the load combinations that include earthquake actions, separated by "
+            "commas (blank: none). Only these get the 0.15 f'c end-zone detailing flag of the "
+            "core stress check (AS 3600:2018 Cl 14.6, a trigger for detailing, not a capacity).",
         ),
         Setting(
             "concrete_prices",

@@ -145,8 +145,9 @@ def compute(
                 ),
                 (
                     "Cl 11.5",
-                    "uniform N* over the pier; e from out-of-plane M*, at least 0.05 tw; in-plane "
-                    "moment not included (the strain-compatibility check covers it)",
+                    "N* per length at the pier's more compressed end, N*/Lw + 6 M*/Lw^2 (in-plane "
+                    "moment considered; an end in tension: not applicable, designed as a column); "
+                    "e from out-of-plane M*, at least 0.05 tw",
                 ),
             ],
             scale_key="util",
@@ -302,10 +303,11 @@ def compute(
                 (
                     "Core elastic stress",
                     f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
-                    f"flagged; worst {w.wall_id} at {w.storey}, {w.combination}: "
+                    f"fail; worst {w.wall_id} at {w.storey}, {w.combination}: "
                     f"utilisation {w.util:.3f} ({w.governs})",
                 )
             )
+            sheets[0].preamble.append(_end_zone_line(stress, s))
         sheets.append(
             ResultSheet(
                 results.CORE_SHEET,
@@ -417,6 +419,23 @@ def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFra
     return out
 
 
+def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
+    """The Cl 14.6 end-zone flag in one summary line: a flag, never a failing utilisation."""
+    quake = stress[stress.earthquake == "yes"]
+    if quake.empty:
+        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet: not applied")
+    hit = quake[quake.u_compression > 1.0]
+    if hit.empty:
+        return ("End-zone flag (Cl 14.6)", f"none: peak compression within {s.compression_limit:g} f'c")
+    w = hit.loc[hit.u_compression.idxmax()]
+    return (
+        "End-zone flag (Cl 14.6)",
+        f"{len(hit)} wall cases over {s.compression_limit:g} f'c under earthquake combinations "
+        f"(detailing required, not a failure); highest {w.wall_id} at {w.storey}, {w.combination}: "
+        f"{w.sigma_max:.2f} MPa vs {w.limit:.2f} MPa",
+    )
+
+
 def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
     per = lintels.groupby(["storey", "lintel_id"]).status.agg(
         lambda s: (
@@ -486,7 +505,7 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
         parts.append(
             s.assign(
                 check=CHECK_SIMPLIFIED,
-                demand=s.n,
+                demand=s.n_end,  # N* at the pier's more compressed end, per length x Lw
                 capacity=s.phi_nu_s,
                 unit="kN",
                 util=s.util_s,

@@ -364,12 +364,16 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     e = as3600.simplified_eccentricity(e_given, tw)
     ea = as3600.additional_eccentricity(hwe, tw)
     cap = as3600.simplified_capacity(df.fc.to_numpy(float), tw, e, ea, Lw, phi) * 1e-3
-    stress = n * 1e3 / (Lw * tw)
+    # in-plane moment considered: the design axial force per unit length at the pier's more
+    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with the Cl 10.1.2 minimum is for the column check)
+    hi, lo = as3600.wall_end_axial_per_length(n * 1e3, df.m.to_numpy(float) * 1e6, Lw)
+    stress = hi / tw
     limit = np.where(df.v_layers.to_numpy() >= 2, 30.0, 20.0)
     slender = hwe / tw
     one_layer = df.v_layers.to_numpy() < 2
     fails = {  # each condition of Cl 11.5.1 that rules the method out, as a row mask
         "not in compression": n <= 0,
+        "end in tension": (n > 0) & (lo < 0),
         "slender": slender > limit,
         "stress": (stress > 3.0) & one_layer,
         "load outside the middle third": e > tw / 6,
@@ -379,7 +383,9 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     df["slender"] = hwe / tw
     df["phi_s"] = phi
     df["phi_nu_s"] = np.where(applies, cap, np.nan)
-    df["util_s"] = np.where(applies, n / np.where(cap > 0, cap, np.nan), np.nan)
+    df["n_end"] = hi * Lw * 1e-3  # end force per length over the whole length [kN]
+    df["n_end_lo"] = lo * Lw * 1e-3
+    df["util_s"] = np.where(applies, df.n_end / np.where(cap > 0, cap, np.nan), np.nan)
     df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
     if not working:
         return df
@@ -388,6 +394,8 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
         why = []
         if fails["not in compression"][i]:
             why.append("not in compression")
+        if fails["end in tension"][i]:
+            why.append(f"one end in tension under in-plane M* ({lo[i]:.0f} N/mm): designed as a column")
         if fails["slender"][i]:
             why.append(f"Hwe/tw {slender[i]:.1f} > {limit[i]:.0f}")
         if fails["stress"][i]:
@@ -399,7 +407,16 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     # the same for every combination of a pier unless e or the reason differs: made once each
     work = pd.DataFrame(dict(k=k, Hc=Hc, hwe=hwe, e=e, tw=tw, ea=ea, fc=df.fc, Lw=Lw, cap=cap, ok=applies))
     work["why"] = reasons
-    df["f_s"] = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    text = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    df["f_s"] = [
+        f"{t}; end: {nn:.1f} kN / {lw:.0f} + 6 x |{mm:.1f}| kNm / {lw:.0f}^2 = {h:.1f} N/mm -> "
+        f"{h:.1f} x {lw:.0f} = {ne:.1f} kN; U = {ne:.1f} / {c:.1f} = {u:.3f}"
+        if ok
+        else t
+        for t, nn, mm, lw, h, ne, c, u, ok in zip(
+            text.tolist(), *plain(n, df.m, Lw, hi, df.n_end, cap, df.util_s, applies), strict=True
+        )
+    ]
     return df
 
 
