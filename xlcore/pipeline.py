@@ -423,7 +423,7 @@ def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
     """The Cl 14.6 end-zone flag in one summary line: a flag, never a failing utilisation."""
     quake = stress[stress.earthquake == "yes"]
     if quake.empty:
-        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet: not applied")
+        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet")
     hit = quake[quake.u_compression > 1.0]
     if hit.empty:
         return ("End-zone flag (Cl 14.6)", f"none: peak compression within {s.compression_limit:g} f'c")
