@@ -1,7 +1,7 @@
 """The pier shear check end to end on the demo building: sharing, settings, envelope.
 
 Engineering values are hand evaluations of AS 3600:2018 Cl 11.6 and of the stiffness formula
-k = 1 / (h^3/(12 E I) + 1.2 h/(G A)) (engineering notes, section 6)."""
+k = 1 / (h^3/(12 E I) + 1.2 h/(G A)) (docs/engineering-basis.md, Sharing actions)."""
 
 import numpy as np
 import pytest

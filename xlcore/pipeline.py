@@ -155,7 +155,7 @@ def compute(
         ResultSheet(
             results.DETAILING_SHEET,
             f"{results.MARKER}: detailing of piers to {s.standard} Cl 11.7 "
-            "(limits as in the design notes: verify)",
+            "(limits as in docs/engineering-basis.md: verify)",
             results.DETAILING_COLUMNS,
             detailing,
             preamble=stamp

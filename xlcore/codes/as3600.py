@@ -323,7 +323,7 @@ def simplified_capacity(fc, tw, e, ea, length, phi=PHI_SIMPLIFIED):
 
 
 # ---------------------------------------------------------------- wall detailing, Cl 11.7
-# Limits as transcribed in the design notes (section 5, medium confidence: verify against the
+# Limits as in docs/engineering-basis.md (Detailing, medium confidence: verify against the
 # standard's text); clause cited as 11.7 with the rule's name.
 
 RHO_V_MIN_LOW = 0.0015
@@ -336,7 +336,7 @@ MAX_SPACING = 350.0  # mm
 MAX_SPACING_THICKNESS = 2.5
 CLEAR_GAP_DIAMETERS = 3.0
 SINGLE_LAYER_MAX_THICKNESS = 200.0  # mm, from memory: verify
-SINGLE_LAYER_SLENDERNESS = 20.0  # Hwe/tw with one layer (design notes section 4)
+SINGLE_LAYER_SLENDERNESS = 20.0  # Hwe/tw with one layer (docs/engineering-basis.md, Cl 11.5)
 
 
 def wall_rho_v_min(sigma, fc):
