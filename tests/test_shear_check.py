@@ -105,3 +105,18 @@ def test_summary_is_worst_check_and_combination_per_pier_per_storey(demo_book):
     governing = s[["u_shear", "u_nm", "u_simplified", "u_detailing"]].max(axis=1)
     assert np.allclose(s.util.to_numpy(), governing.to_numpy())
     assert len(o.summary) == len(o.geometry.piers)
+
+
+def test_overall_wall_height_is_the_default_and_written_on_every_row(demo_book):
+    o = outcome(demo_book)
+    st = o.building.storeys
+    walls = o.geometry.piers[o.geometry.piers.wall_id == "LW1"]
+    here = [s for s in st if s.name in set(walls.storey)]
+    # base of the lowest storey LW1 stands at to the top of its highest (hand evaluation)
+    H = (max(s.level + s.height for s in here) - min(s.level for s in here)) * 1000.0
+    lw1 = o.shear[(o.shear.storey == "GF") & (o.shear.pier_id == "LW1-2")]
+    # Cl 11.6.3 as amended, conservative reading: Hw = overall height; the pier beside the door
+    # takes the larger of H / 1800 and the whole wall's H / 6000 (common practice)
+    assert lw1.hw_lw.to_numpy() == pytest.approx(H / 1800.0)
+    assert lw1.hw_basis.str.startswith("larger of pier overall wall height").all()
+    assert o.shear.hw_basis.str.len().gt(0).all()

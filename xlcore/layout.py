@@ -137,7 +137,7 @@ class SettingsSheet:
 
 YES_NO = ("yes", "no")
 STANDARDS = ("AS 3600:2018",)
-HEIGHT_BASES = ("storey clear height", "opening height")
+HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 
 INSTRUCTIONS_SHEET = "Read me"
