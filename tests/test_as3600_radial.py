@@ -101,3 +101,39 @@ def test_scaled_actions_on_concreteproperties_factored_diagram():
         lam = r["lam"][0]
         factored, _, _ = code.ultimate_bending_capacity(theta=0, n_design=n / lam)
         assert abs(factored.m_xy) == pytest.approx(m / lam, rel=0.005)  # concreteproperties
+
+
+def test_axial_working_text_substitutes_every_number_and_quotes_the_tension_capacity():
+    from xlcore.checks.axial import check_pier_axial
+    from xlcore.model import Settings
+
+    k = 3
+    piers = _piers(k).assign(
+        storey="GF", pier_id=["P1", "P2", "P3"], Hc=3000.0, rho_v=0.008, supported_edges=0
+    )
+    acts = pd.DataFrame(
+        dict(
+            storey="GF",
+            pier_id=["P1", "P2", "P3"],
+            combination="C",
+            n=[-500.0, 2000.0, 12000.0],
+            m=[900.0, 100.0, 10.0],
+            m_out=0.0,
+        )
+    )
+    out = check_pier_axial(piers, acts, Settings())
+    t = out.set_index("pier_id").f_nm
+    # tension: the tension capacity 0.85 Nuot is quoted, not phi Nuo
+    tens = out.set_index("pier_id").loc["P1"]
+    assert f"{tens.phi_nuot:.1f}" in t["P1"] and f"{tens.nuot:.1f}" in t["P1"]
+    assert f"{tens.util:.3f}" in t["P1"] and "phiNuo =" not in t["P1"]
+    # Cl 10.1.2: 0.05 x 1800 x 2000 kN = 180 kNm > 100 kNm (hand evaluation)
+    assert out.set_index("pier_id").loc["P2", "m_design"] == pytest.approx(180.0)
+    assert "0.05 x 1800 mm x 2000.0 kN = 180.0" in t["P2"]
+    assert "N*/phiNuo = 2000.0 / " in t["P2"]  # every ratio has its numbers
+    # Cl 11.5 with the in-plane moment: P1 is in tension -> n/a; P2 end force hand evaluation
+    p2 = out.set_index("pier_id").loc["P2"]
+    # N*/Lw + 6 M*/Lw^2 = 1111.1 + 185.2 = 1296.3 N/mm, x 1800 mm = 2333.3 kN (hand evaluation)
+    assert p2.n_end == pytest.approx((2000e3 / 1800 + 6 * 100e6 / 1800**2) * 1800 / 1e3)
+    assert p2.n_end == pytest.approx(2333.3, abs=0.1)
+    assert out.set_index("pier_id").loc["P1", "status_s"] == "n/a"

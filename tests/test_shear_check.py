@@ -120,3 +120,28 @@ def test_overall_wall_height_is_the_default_and_written_on_every_row(demo_book):
     assert lw1.hw_lw.to_numpy() == pytest.approx(H / 1800.0)
     assert lw1.hw_basis.str.startswith("larger of pier overall wall height").all()
     assert o.shear.hw_basis.str.len().gt(0).all()
+
+
+def test_unknown_earthquake_combination_is_an_error_at_its_cell(demo_book):
+    from xlcore.diagnostics import InputInvalid
+
+    sheet, cell = setting_cell("earthquake_combinations")
+    edit(demo_book, {(sheet, cell): "1.35G, Ex-typo"})
+    with pytest.raises(InputInvalid) as err:
+        pipeline.load(demo_book)
+    found = [e for e in err.value.findings.errors if e.cell == cell]
+    assert found and "Ex-typo" in found[0].message and "1.35G" not in found[0].message
+
+
+def test_end_zone_flag_has_its_own_summary_line(demo_book):
+    b, _ = pipeline.load(demo_book)
+    combos = sorted(set(b.core_actions.combination))
+    quake = [c for c in combos if "E" in c]
+    edit(demo_book, {setting_cell("earthquake_combinations"): ", ".join(quake)})
+    o = outcome(demo_book)
+    lines = dict(o.sheets[0].preamble)
+    assert "End-zone flag (Cl 14.6)" in lines
+    stress = next(s for s in o.sheets if s.name == results.CORE_STRESS_SHEET).table
+    assert set(stress[stress.earthquake == "yes"].combination) == set(quake)
+    assert (stress[stress.earthquake == "no"].flag.str.startswith("n/a")).all()
+    assert (stress.util == stress.u_tension).all()  # the flag never enters the utilisation

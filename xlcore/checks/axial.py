@@ -348,7 +348,11 @@ def _nm_text(
         )
     else:
         body = "no actions: U = 0"
-    return f"{head}{body}; at fixed N*: max(M*/phiMu = {md_:.1f} / {phi_mu:.1f}, N*/phiN) = {u_old:.3f}"
+    cap, name = (phi_nuo, "phiNuo") if n >= 0 else (phi_nuot, "phiNuot")
+    return (
+        f"{head}{body}; at fixed N*: max(M*/phiMu = {md_:.1f} / {phi_mu:.1f}, "
+        f"N*/{name} = {n:.1f} / {cap:.1f}) = {u_old:.3f}"
+    )
 
 
 def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True) -> pd.DataFrame:
