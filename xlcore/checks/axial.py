@@ -252,7 +252,7 @@ def check_pier_axial(
     df["governs"] = [RAY_TEXT[int(k)] for k in ray.tolist()]
     df["clause"] = np.select(
         [ray == RAY_TENSION, ray == RAY_SQUASH],
-        ["Table 2.2.2 tension, Cl 10.1.2", "Cl 10.6.2.2 squash, phi0, Cl 10.1.2"],
+        ["Table 2.2.2 tension", "Cl 10.6.2.2 squash, phi0, Cl 10.1.2"],
         "Cl 8.1.3 / Table 2.2.2, Cl 10.1.2",
     )
     if not working:
