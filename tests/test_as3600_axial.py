@@ -2,10 +2,10 @@
 Table 2.2.2 phi, Cl 11.4 effective height and Cl 11.5 simplified method.
 
 References: Warner, Foster & Kilpatrick, "Reinforced Concrete Basics" (2007), Example 5.2
-(values as quoted in the project's engineering notes, section 7; that example uses the 2001
+(Warner, Foster & Kilpatrick values; that example uses the 2001
 stress block alpha2 0.85, gamma 0.77 and does not deduct concrete displaced by bars, so those
 are injected); the concreteproperties library (PyPI) for rectangular piers; everything else
-hand evaluation of the clause expressions as transcribed in the engineering notes.
+hand evaluation of the clause expressions as listed in docs/engineering-basis.md.
 """
 
 import numpy as np

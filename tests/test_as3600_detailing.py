@@ -1,4 +1,4 @@
-"""Wall detailing limits, AS 3600:2018 Cl 11.7, as transcribed in the project's design notes
+"""Wall detailing limits, AS 3600:2018 Cl 11.7, as listed in docs/engineering-basis.md
 (section 5; marked there as medium confidence, verify): hand evaluation at and either side of
 every boundary."""
 

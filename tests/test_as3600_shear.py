@@ -1,7 +1,7 @@
 """AS 3600:2018 Cl 11.6, in-plane shear of walls, against hand evaluation of the clause.
 
 Reference: AS 3600:2018 Cl 11.6.2 (Vu.max), 11.6.3 Eq (1), Eq (2) and the 0.17 sqrt(f'c)
-floor, 11.6.4 (Vus, rho_w), as transcribed in the project's engineering notes. Every expected
+floor, 11.6.4 (Vus, rho_w), as listed in docs/engineering-basis.md. Every expected
 value below was evaluated by hand (calculator) from those expressions, not by xlcore.
 Common case: Lw 3000 mm, tw 200 mm, f'c 40 MPa, fsy 500 MPa, so 0.8 Lw tw = 480 000 mm^2 and
 sqrt(40) = 6.324555.
@@ -135,6 +135,6 @@ def test_vectorised_rows_match_scalar_calls():
 
 
 def test_elastic_modulus_table_3_1_2():
-    # AS 3600:2018 Table 3.1.2 values (engineering notes): 25 -> 26 700, 40 -> 32 800,
+    # AS 3600:2018 Table 3.1.2 values (docs/engineering-basis.md): 25 -> 26 700, 40 -> 32 800,
     # 100 -> 42 200 MPa; 45 MPa interpolates to (32 800 + 34 800) / 2 = 33 800 (hand evaluation)
     assert a.elastic_modulus([25, 40, 45, 100]).tolist() == [26700.0, 32800.0, 33800.0, 42200.0]

@@ -75,3 +75,17 @@ def test_compression_limit_setting_is_used():
     out = check_core_stress(piers, plans, core(20_000.0, 0.0), Settings(compression_limit=0.2))
     assert out.limit.to_numpy() == pytest.approx(0.2 * 40.0)
     assert out.u_compression.to_numpy() == pytest.approx(out.sigma_max.to_numpy() / 8.0)
+
+
+def test_end_zone_flag_on_earthquake_combinations_only_never_a_failure():
+    # 60 000 kN on the box: sigma = N/A = 60e6 / ((2 x 6000 + 2 x 4000 - corner overlaps) x 250),
+    # above 0.15 x 40 = 6 MPa (hand evaluation: A < 5.0e6 mm2 -> sigma > 12 MPa)
+    piers, plans = box()
+    actions = core(60_000.0, 0.0)
+    plain = check_core_stress(piers, plans, actions, Settings())
+    assert (plain.sigma_max > 6.0).all()
+    assert (plain.flag == "n/a (not an earthquake combination)").all()
+    assert (plain.status == "pass").all()  # compression over 0.15 f'c is not a failure (Cl 14.6)
+    quake = check_core_stress(piers, plans, actions, Settings(earthquake_combinations="C"))
+    assert (quake.flag == "end-zone detailing (Cl 14.6)").all()
+    assert (quake.status == "pass").all() and (quake.util == quake.u_tension).all()

@@ -1,7 +1,7 @@
 """Storey shear and torsion shared among walls by a rigid diaphragm.
 
 Reference: Taly, "Design of Reinforced Masonry Structures", Ch. 7, Example 7.12 (values as
-quoted in the project's engineering notes, section 6): walls A (R 4.5, x 0 ft) and B (R 5.5,
+quoted in docs/engineering-basis.md, Sharing actions): walls A (R 4.5, x 0 ft) and B (R 5.5,
 x 90 ft) parallel to V = 100 kips, walls C and D (R 4 each) 60 ft apart in the other direction,
 centre of mass at x 45 ft. Printed: centre of rigidity x 49.5 ft, J = 27 248, direct shears
 45 / 55 kips, accidental eccentricity 4.5 ft, torsional shear 7.36 kips per wall.

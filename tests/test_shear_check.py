@@ -1,7 +1,7 @@
 """The pier shear check end to end on the demo building: sharing, settings, envelope.
 
 Engineering values are hand evaluations of AS 3600:2018 Cl 11.6 and of the stiffness formula
-k = 1 / (h^3/(12 E I) + 1.2 h/(G A)) (engineering notes, section 6)."""
+k = 1 / (h^3/(12 E I) + 1.2 h/(G A)) (docs/engineering-basis.md, Sharing actions)."""
 
 import numpy as np
 import pytest
@@ -72,7 +72,7 @@ def test_failing_pier_gets_required_steel_and_advice(demo_book):
     assert row.rho_req == pytest.approx((900 / 0.7 - 432.75) / (500 * 360.0), rel=1e-3)
     assert "raise horizontal steel" in row.advice
     s = o.summary[(o.summary.storey == "GF") & (o.summary.pier_id == "LW1-2")].iloc[0]
-    assert s.status == results.FAIL and s.combination == "1.35G"
+    assert s.status == results.FAIL and s.u_shear == pytest.approx(row.util)
 
 
 def test_vu_max_capped_pier_says_only_section_helps(demo_book):
@@ -105,3 +105,43 @@ def test_summary_is_worst_check_and_combination_per_pier_per_storey(demo_book):
     governing = s[["u_shear", "u_nm", "u_simplified", "u_detailing"]].max(axis=1)
     assert np.allclose(s.util.to_numpy(), governing.to_numpy())
     assert len(o.summary) == len(o.geometry.piers)
+
+
+def test_overall_wall_height_is_the_default_and_written_on_every_row(demo_book):
+    o = outcome(demo_book)
+    st = o.building.storeys
+    walls = o.geometry.piers[o.geometry.piers.wall_id == "LW1"]
+    here = [s for s in st if s.name in set(walls.storey)]
+    # base of the lowest storey LW1 stands at to the top of its highest (hand evaluation)
+    H = (max(s.level + s.height for s in here) - min(s.level for s in here)) * 1000.0
+    lw1 = o.shear[(o.shear.storey == "GF") & (o.shear.pier_id == "LW1-2")]
+    # Cl 11.6.3 as amended, conservative reading: Hw = overall height; the pier beside the door
+    # takes the larger of H / 1800 and the whole wall's H / 6000 (common practice)
+    assert lw1.hw_lw.to_numpy() == pytest.approx(H / 1800.0)
+    assert lw1.hw_basis.str.startswith("larger of pier overall wall height").all()
+    assert o.shear.hw_basis.str.len().gt(0).all()
+
+
+def test_unknown_earthquake_combination_is_an_error_at_its_cell(demo_book):
+    from xlcore.diagnostics import InputInvalid
+
+    sheet, cell = setting_cell("earthquake_combinations")
+    edit(demo_book, {(sheet, cell): "1.35G, Ex-typo"})
+    with pytest.raises(InputInvalid) as err:
+        pipeline.load(demo_book)
+    found = [e for e in err.value.findings.errors if e.cell == cell]
+    assert found and "Ex-typo" in found[0].message and "1.35G" not in found[0].message
+
+
+def test_end_zone_flag_has_its_own_summary_line(demo_book):
+    b, _ = pipeline.load(demo_book)
+    combos = sorted(set(b.core_actions.combination))
+    quake = [c for c in combos if "E" in c]
+    edit(demo_book, {setting_cell("earthquake_combinations"): ", ".join(quake)})
+    o = outcome(demo_book)
+    lines = dict(o.sheets[0].preamble)
+    assert "End-zone flag (Cl 14.6)" in lines
+    stress = next(s for s in o.sheets if s.name == results.CORE_STRESS_SHEET).table
+    assert set(stress[stress.earthquake == "yes"].combination) == set(quake)
+    assert (stress[stress.earthquake == "no"].flag.str.startswith("n/a")).all()
+    assert (stress.util == stress.u_tension).all()  # the flag never enters the utilisation

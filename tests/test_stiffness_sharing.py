@@ -3,7 +3,7 @@
 Reference: Taly, "Design of Reinforced Masonry Structures", Ch. 7, relative rigidity
 R E t = 1 / ((h/d)^3 + 3 (h/d)) fixed-fixed and 1 / (4 (h/d)^3 + 3 (h/d)) cantilever, which is
 k = 1 / (h^3/(c E I) + 1.2 h/(G A)) with G = 0.4 E (nu = 0.25). Tabulated 10R values as quoted
-in the project's engineering notes (section 6).
+in docs/engineering-basis.md (Sharing actions).
 """
 
 import numpy as np

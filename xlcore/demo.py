@@ -44,7 +44,7 @@ PROJECT = dict(
     project_name="Harbourview Lane offices (demo)",
     standard="AS 3600:2018",
     phi_shear=None,
-    shear_height="storey clear height",
+    shear_height="overall wall height",
     pier_fixity="fixed-fixed",
     poisson=0.2,
 )

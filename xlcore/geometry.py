@@ -230,10 +230,24 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
         piers["py" + end] = piers.wy + piers.uy * along
     piers["mx"], piers["my"] = (piers.px1 + piers.px2) / 2, (piers.py1 + piers.py2) / 2
     piers["supported_edges"] = supported_edges(piers)
+    piers["H_wall"] = overall_height(piers, storeys)
     return Geometry(
         piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
+
+
+def overall_height(piers: pd.DataFrame, storeys: list[Storey]) -> np.ndarray:
+    """Overall height of each pier's wall [mm]: from the floor of the lowest storey the wall ID
+    stands at to the top of the slab above its highest (the height in the Cl 11.6.3 aspect
+    ratio by default; docs/engineering-basis.md, Geometry)."""
+    if piers.empty:
+        return np.zeros(0)
+    base = {s.name: s.level for s in storeys}
+    top = {s.name: s.level + s.height for s in storeys}
+    lo = piers.storey.map(base).groupby(piers.wall_id).transform("min")
+    hi = piers.storey.map(top).groupby(piers.wall_id).transform("max")
+    return ((hi - lo) * 1000.0).to_numpy(dtype=float)
 
 
 def supported_edges(piers: pd.DataFrame) -> np.ndarray:

@@ -137,7 +137,7 @@ class SettingsSheet:
 
 YES_NO = ("yes", "no")
 STANDARDS = ("AS 3600:2018",)
-HEIGHT_BASES = ("storey clear height", "opening height")
+HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
 
@@ -176,8 +176,11 @@ PROJECT = SettingsSheet(
             None,
             Kind.CHOICE,
             HEIGHT_BASES[0],
-            "Hw used in Hw/Lw of Cl 11.6: the storey clear height (default, conservative for "
-            "slender piers) or, for piers beside an opening, the opening's clear height.",
+            "Hw used in Hw/Lw of Cl 11.6.3: the overall height of the wall, base to top "
+            "(default: the conservative reading of Amendment 2, since Eq (2) falls as Hw/Lw "
+            "grows), the storey clear height, or for piers beside an opening the opening's "
+            "clear height. A pier beside an opening takes the larger of its own ratio and "
+            "the whole wall's (common practice). See docs/engineering-basis.md.",
             choices=HEIGHT_BASES,
         ),
         Setting(
@@ -285,11 +288,21 @@ PROJECT = SettingsSheet(
             "x f'c",
             Kind.NUMBER,
             0.15,
-            "Core stress check: peak elastic compression above this fraction of f'c is flagged "
-            "(0.15 f'c: boundary elements of limited-ductile walls, AS 3600:2018 Section 14, "
-            "from design notes: verify).",
+            "Core stress check, earthquake combinations only: peak elastic compression above "
+            "this fraction of f'c flags end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6, "
+            "from memory: verify). A flag, never a failing utilisation.",
             min=0.05,
             max=1.0,
+        ),
+        Setting(
+            "earthquake_combinations",
+            "Earthquake combinations",
+            None,
+            Kind.TEXT,
+            "",
+            "Names of the load combinations that include earthquake actions, separated by "
+            "commas (blank: none). Only these get the 0.15 f'c end-zone detailing flag of the "
+            "core stress check (AS 3600:2018 Cl 14.6, a trigger for detailing, not a capacity).",
         ),
         Setting(
             "concrete_prices",

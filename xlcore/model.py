@@ -14,7 +14,7 @@ class Settings(BaseModel):
     project_name: str = ""
     standard: str = "AS 3600:2018"
     phi_shear: float | None = None
-    shear_height: str = "storey clear height"
+    shear_height: str = "overall wall height"
     pier_fixity: str = "fixed-fixed"
     wall_nm: str = "composite section"
     accidental: float = 0.0
@@ -23,6 +23,12 @@ class Settings(BaseModel):
     phi_simplified: float | None = None
     ends_restrained: str = "no"
     compression_limit: float = 0.15
+    earthquake_combinations: str = ""
+
+    @property
+    def earthquake(self) -> set[str]:
+        """Names of the earthquake combinations (Project setting, comma separated)."""
+        return {n.strip() for n in self.earthquake_combinations.split(",") if n.strip()}
     shrinkage_restrained: str = "yes"
     lintel_deep_ratio: float = 3.0
     concrete_prices: str = costs.DEFAULT_CONCRETE

@@ -207,13 +207,40 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
         n, _ = forces(part, x)
         return (n * scale(n, rows) if scale else n) - (target if rows is None else target[rows])
 
+    return _illinois(g, lo, hi, np.abs(target), sec.D, iterations)
+
+
+def solve_ray(sec: Rect | EvenRect, n_dir, m_dir, lo, hi, phi_of, iterations: int = 60) -> np.ndarray:
+    """Neutral-axis depth where the factored point (phi N, phi |M|)(dn) lies on the ray from the
+    origin along (n_dir, m_dir), m_dir >= 0: the root of the cross product
+    g(dn) = phi N m_dir - phi |M| n_dir, which rises with dn between pure bending and
+    decompression (the point's polar angle falls). `phi_of(N, rows)` gives phi at Nu = N.
+    Same bracketing solver as `solve_dn`."""
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
+    n_dir = np.broadcast_to(np.asarray(n_dir, dtype=float), sec.D.shape)
+    m_dir = np.broadcast_to(np.asarray(m_dir, dtype=float), sec.D.shape)
+
+    def g(x: np.ndarray, rows) -> np.ndarray:
+        part = sec if rows is None else sec.take(rows)
+        n, m = forces(part, x)
+        phi = phi_of(n, rows)
+        a, b = (m_dir, n_dir) if rows is None else (m_dir[rows], n_dir[rows])
+        return phi * (n * a - np.abs(m) * b)
+
+    return _illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations)
+
+
+def _illinois(g, lo, hi, scale_g, D, iterations) -> np.ndarray:
+    """Root of g (increasing) in [lo, hi] per row; `scale_g` adds to the force scale of the
+    tolerance. Regula falsi, Illinois modification, every third step a bisection."""
     glo, ghi = g(lo, None), g(hi, None)
-    tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + np.abs(target))
-    tol_x = 1e-12 * sec.D
+    tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + scale_g)
+    tol_x = 1e-12 * D
     out = 0.5 * (lo + hi)
     out = np.where(glo >= 0, lo, np.where(ghi <= 0, hi, out))  # target outside: the nearer end
     active = np.flatnonzero((glo < 0) & (ghi > 0) & (hi - lo > tol_x))
-    last = np.zeros(sec.D.shape, dtype=np.int8)
+    last = np.zeros(D.shape, dtype=np.int8)
     for it in range(iterations):
         if active.size == 0:
             break
@@ -223,7 +250,7 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
             x = (a * gb - b * ga) / (gb - ga)
         bad = ~np.isfinite(x) | (x <= a) | (x >= b)
         x = mid if it % 3 == 2 else np.where(bad, mid, x)
-        gx = g(x, None if active.size == sec.D.size else active)
+        gx = g(x, None if active.size == D.size else active)
         below = gx < 0
         prev = last[active]
         lo[active] = np.where(below, x, a)

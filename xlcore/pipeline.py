@@ -132,7 +132,12 @@ def compute(
             axial,
             preamble=stamp
             + [
-                ("Utilisation", "the larger of |M*| / phiMu at N* and N* / phiNuo (tension: N* / 0.85 Nuot)"),
+                (
+                    "Utilisation",
+                    "radial overload factor: (N*, M*) / U lies on the factored interaction curve "
+                    "along the ray from the origin (1.2 = 20 % over); M* at least N* x 0.05 Lw "
+                    "(Cl 10.1.2); the ratio at fixed N* is kept as a column",
+                ),
                 (
                     "Section",
                     "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
@@ -140,8 +145,9 @@ def compute(
                 ),
                 (
                     "Cl 11.5",
-                    "uniform N* over the pier; e from out-of-plane M*, at least 0.05 tw; in-plane "
-                    "moment not included (the strain-compatibility check covers it)",
+                    "N* per length at the pier's more compressed end, N*/Lw + 6 M*/Lw^2 (in-plane "
+                    "moment considered; an end in tension: not applicable, designed as a column); "
+                    "e from out-of-plane M*, at least 0.05 tw",
                 ),
             ],
             scale_key="util",
@@ -149,7 +155,7 @@ def compute(
         ResultSheet(
             results.DETAILING_SHEET,
             f"{results.MARKER}: detailing of piers to {s.standard} Cl 11.7 "
-            "(limits as in the design notes: verify)",
+            "(limits as in docs/engineering-basis.md: verify)",
             results.DETAILING_COLUMNS,
             detailing,
             preamble=stamp
@@ -297,10 +303,11 @@ def compute(
                 (
                     "Core elastic stress",
                     f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
-                    f"flagged; worst {w.wall_id} at {w.storey}, {w.combination}: "
+                    f"fail; worst {w.wall_id} at {w.storey}, {w.combination}: "
                     f"utilisation {w.util:.3f} ({w.governs})",
                 )
             )
+            sheets[0].preamble.append(_end_zone_line(stress, s))
         sheets.append(
             ResultSheet(
                 results.CORE_SHEET,
@@ -420,6 +427,23 @@ def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFra
     return out
 
 
+def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
+    """The Cl 14.6 end-zone flag in one summary line: a flag, never a failing utilisation."""
+    quake = stress[stress.earthquake == "yes"]
+    if quake.empty:
+        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet")
+    hit = quake[quake.u_compression > 1.0]
+    if hit.empty:
+        return ("End-zone flag (Cl 14.6)", f"none: peak compression within {s.compression_limit:g} f'c")
+    w = hit.loc[hit.u_compression.idxmax()]
+    return (
+        "End-zone flag (Cl 14.6)",
+        f"{len(hit)} wall cases over {s.compression_limit:g} f'c under earthquake combinations "
+        f"(detailing required, not a failure); highest {w.wall_id} at {w.storey}, {w.combination}: "
+        f"{w.sigma_max:.2f} MPa vs {w.limit:.2f} MPa",
+    )
+
+
 def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
     per = lintels.groupby(["storey", "lintel_id"]).status.agg(
         lambda s: (
@@ -479,17 +503,17 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
         parts.append(
             axial.assign(
                 check=CHECK_NM,
-                demand=axial.m.abs(),
-                capacity=axial.phi_mu,
+                demand=axial.m_design,
+                capacity=axial.m_ray,  # M where the ray from the origin meets the curve
                 unit="kNm",
-                note=np.where(axial.governs == "axial", "axial force governs", ""),
+                note=axial.governs,
             )[cols]
         )
         s = axial[axial.status_s != results.NOT_APPLICABLE]
         parts.append(
             s.assign(
                 check=CHECK_SIMPLIFIED,
-                demand=s.n,
+                demand=s.n_end,  # N* at the pier's more compressed end, per length x Lw
                 capacity=s.phi_nu_s,
                 unit="kN",
                 util=s.util_s,

@@ -17,7 +17,7 @@ def flexibility(L, t, h, E, nu=0.2, c=12.0):
     """Deflection per unit force h^3 / (c E I) + 1.2 h / (G A) [mm/N] of a rectangular member.
 
     c = 12 fixed against rotation at both ends, 3 cantilever; G = E / (2 (1 + nu)); 1.2 is the
-    shear shape factor of a rectangle (ENGINEERING notes section 6; Taly Ch. 7)."""
+    shear shape factor of a rectangle (docs/engineering-basis.md, Sharing actions; Taly Ch. 7)."""
     L, t, h, E = (np.asarray(a, dtype=float) for a in (L, t, h, E))
     return h**3 / (c * E * t * L**3 / 12.0) + 1.2 * h / (E / (2.0 * (1.0 + nu)) * t * L)
 

@@ -38,6 +38,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
         _pier_warnings(geom, f)
     actions = _member_actions(tables["member_actions"], storeys, geom, f)
     core = _core_actions(tables["core_actions"], storeys, geom, f)
+    _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
     if f.errors:
         raise InputInvalid(f)
     building = Building(
@@ -326,6 +327,28 @@ def _settings(sheet: RawSheet | None, f: Findings) -> Settings:
         if s.key not in seen:
             f.warning(spec.name, None, f"setting {s.label!r} not found in column A; default used")
     return Settings(**values)
+
+
+def _earthquake_names(sheet: RawSheet | None, s: Settings, actions, core, f: Findings) -> None:
+    """Every name in the earthquake-combinations setting must be a combination on an action
+    sheet: a typing slip would silently drop the Cl 14.6 flag."""
+    if sheet is None or not s.earthquake:
+        return
+    known = set()
+    for df in (actions, core):
+        if df is not None and "combination" in df:
+            known |= set(df.combination.dropna().astype(str))
+    unknown = sorted(s.earthquake - known)
+    if not unknown or not known:
+        return
+    label = _norm(layout.PROJECT.setting("earthquake_combinations").label)
+    row = next((r for r in range(2, len(sheet.rows) + 1) if _norm(sheet.value(r, 0)) == label), 2)
+    f.error(
+        layout.PROJECT.name,
+        cell_name(1, row),
+        f"found combination name(s) {', '.join(map(repr, unknown))} that no action sheet has; "
+        f"expected names from the action sheets, separated by commas",
+    )
 
 
 # ---------------------------------------------------------------- cross-sheet checks

@@ -70,7 +70,7 @@ def rect_sections(df: pd.DataFrame) -> nm.EvenRect:
 
 
 def interaction(
-    sec, n_star, phi0=as3600.PHI_COMPRESSION, of: np.ndarray | None = None
+    sec, n_star, phi0=as3600.PHI_COMPRESSION, of: np.ndarray | None = None, m_star=None
 ) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
@@ -80,7 +80,9 @@ def interaction(
     0.85 Nuot, as AS 3600 practice interpolates (and the concreteproperties library does).
 
     `sec` may hold each distinct section once and `of` give the section of each N*: the
-    section's own points (squash, balance, pure bending) are then found once per section."""
+    section's own points (squash, balance, pure bending) are then found once per section.
+
+    With `m_star` [N mm] also the radial overload factor `lam` (see `radial`)."""
     n_star = np.asarray(n_star, dtype=float)
     D = sec.D
     As = sec.As
@@ -120,7 +122,7 @@ def interaction(
     region = np.where(
         n_star > top, 4, np.where(above, 3, np.where(tension, np.where(n_star < bottom, 5, 1), 2))
     )
-    return dict(
+    out = dict(
         nuo=nuo,
         nuot=nuot,
         nub=nub,
@@ -130,6 +132,7 @@ def interaction(
         md=md,
         phi_d=phi_d,
         dn=dn,
+        dn0=dn0,
         nu=nu,
         mu=mu,
         phi=np.where(above, phi0, np.where(tension, phi_b, phi)),
@@ -138,6 +141,65 @@ def interaction(
         bottom=bottom,
         region=region,
     )
+    if m_star is not None:
+        out |= radial(sec, n_star, m_star, out, phi_of)
+    return out
+
+
+RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE = 1, 2, 3, 0
+RAY_TEXT = {
+    RAY_TENSION: "tension side",
+    RAY_CURVE: "strain compatibility",
+    RAY_SQUASH: "near squash",
+    RAY_NONE: "no actions",
+}
+
+
+def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_of) -> dict[str, np.ndarray]:
+    """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
+    diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
+    compression alike (docs/engineering-basis.md, "Axial + bending utilisation").
+
+    The factored diagram is the one `interaction` uses: on the tension side the straight line
+    from (0, phi Muo) to (phi Nuot, 0); between pure bending and decompression the
+    strain-compatibility points (phi Nu, phi Mu)(dn); from decompression the straight line to
+    (phi0 Nuo, 0). `r` is `interaction`'s per-row dict, `sec` one section per row; N, N mm."""
+    n = np.asarray(n_star, dtype=float)
+    m = np.abs(np.asarray(m_star, dtype=float))
+    phi_b = as3600.phi_bending(r["kuo"])
+    phi_mo = phi_b * np.abs(r["m0"])
+    n1, m1 = r["phi_d"] * r["nd"], r["phi_d"] * np.abs(r["md"])
+    tension = n < 0
+    squash = (n >= 0) & (m * n1 < n * m1)  # ray below the decompression point's
+    curve = ~tension & ~squash
+    lam = np.zeros(n.shape)
+    where = RAY_CURVE * np.ones(n.shape, dtype=int)
+    lam = np.where(tension, as3600.tension_side_utilisation(n, m, r["bottom"], phi_mo), lam)
+    lam = np.where(squash, as3600.ray_segment_utilisation(n, m, n1, m1, r["top"], 0.0), lam)
+    where = np.where(tension, RAY_TENSION, np.where(squash, RAY_SQUASH, where))
+    dn_ray = np.full(n.shape, np.nan)
+    nu_ray = np.full(n.shape, np.nan)
+    mu_ray = np.full(n.shape, np.nan)
+    phi_ray = np.full(n.shape, np.nan)
+    rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
+    if rows.size:
+        part = sec.take(rows)
+        dn = nm.solve_ray(
+            part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, k: phi_of(v, _sub(rows, k))
+        )
+        nu, mu = nm.forces(part, dn)
+        phi = phi_of(nu, rows)
+        dn_ray[rows], nu_ray[rows], mu_ray[rows], phi_ray[rows] = dn, nu, np.abs(mu), phi
+        lam[rows] = (n[rows] + m[rows]) / (phi * (nu + np.abs(mu)))
+    where = np.where((n == 0) & (m == 0), RAY_NONE, where)
+    return dict(
+        lam=lam, ray=where, dn_ray=dn_ray, nu_ray=nu_ray, mu_ray=mu_ray, phi_ray=phi_ray, phi_mo=phi_mo
+    )
+
+
+def _sub(rows: np.ndarray, k: np.ndarray | None) -> np.ndarray:
+    """Rows of the whole table for the solver's subset `k` of `rows` (None: all of them)."""
+    return rows if k is None else rows[k]
 
 
 REGION_TEXT = {
@@ -161,60 +223,136 @@ def check_pier_axial(
         return df
     first, of = per_pier(df)
     sec = rect_sections(df.iloc[first])
-    r = interaction(sec, df.n.to_numpy() * 1e3, phi0, of=of)
+    n_star = df.n.to_numpy(float) * 1e3
+    m_design = as3600.min_eccentricity_moment(df.m.to_numpy(float) * 1e6, n_star, df.Lw.to_numpy(float))
+    r = interaction(sec, n_star, phi0, of=of, m_star=m_design)
     kn, knm = 1e-3, 1e-6
+    df["m_design"] = m_design * knm
+    df["m_min"] = np.maximum(n_star, 0.0) * as3600.MIN_ECCENTRICITY * df.Lw.to_numpy(float) * knm
     df["nuo"], df["nuot"], df["nub"] = r["nuo"] * kn, r["nuot"] * kn, r["nub"] * kn
     df["phi_nuo"], df["kuo"], df["dn"] = r["top"] * kn, r["kuo"], np.where(r["region"] == 2, r["dn"], np.nan)
+    df["phi_nuot"] = r["bottom"] * kn
     df["mu"] = np.where(r["region"] == 2, np.abs(r["mu"]) * knm, np.nan)
     df["phi"], df["phi_mu"] = r["phi"], r["phi_mu"] * knm
     df["as_total"] = sec.As[of]
+    # the ratio at fixed N* (kept as a column: what earlier versions called the utilisation)
     beyond = np.isin(r["region"], (4, 5))  # axial capacity exceeded: the axial ratio tells
     with np.errstate(divide="ignore", invalid="ignore"):
-        m_ratio = np.abs(df.m.to_numpy()) / df.phi_mu.to_numpy()
-    m_ratio = np.where(beyond | (df.m.abs().to_numpy() == 0), 0.0, m_ratio)
-    n_ratio = np.where(df.n >= 0, df.n / df.phi_nuo, df.n / (r["bottom"] * kn))
-    df["util"] = np.maximum(m_ratio, n_ratio)
+        m_ratio = df.m_design.to_numpy() / df.phi_mu.to_numpy()
+    m_ratio = np.where(beyond | (df.m_design.to_numpy() == 0), 0.0, m_ratio)
+    n_ratio = np.where(df.n >= 0, df.n / df.phi_nuo, df.n / df.phi_nuot)
+    df["u_fixed_n"] = np.maximum(m_ratio, n_ratio)
+    lam = r["lam"]
+    df["util"] = lam
+    with np.errstate(divide="ignore", invalid="ignore"):
+        df["n_ray"] = np.where(lam > 0, df.n / lam, 0.0)
+        df["m_ray"] = np.where(lam > 0, df.m_design / lam, 0.0)
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
-    df["governs"] = np.where(n_ratio >= m_ratio, "axial", "moment at N*")
-    df["clause"] = np.where(
-        n_ratio >= m_ratio,
-        np.where(df.n >= 0, "Cl 10.6.2.2 squash, phi0", "Table 2.2.2 tension"),
-        "Cl 8.1.3 / Table 2.2.2",
+    ray = r["ray"]
+    df["governs"] = [RAY_TEXT[int(k)] for k in ray.tolist()]
+    df["clause"] = np.select(
+        [ray == RAY_TENSION, ray == RAY_SQUASH],
+        ["Table 2.2.2 tension", "Cl 10.6.2.2 squash, phi0, Cl 10.1.2"],
+        "Cl 8.1.3 / Table 2.2.2, Cl 10.1.2",
     )
     if not working:
         return _simplified(df, settings, of, working)
-    df["f_nm"] = [
-        _nm_text(*vals)
-        for vals in zip(
-            *plain(
-                r["region"],
-                df.n,
-                df.m,
-                df.dn,
-                r["nu"] * kn,
-                df.mu,
-                df.phi,
-                df.phi_mu,
-                df.kuo,
-                df.nub,
-                df.phi_nuo,
-                df.util,
-            ),
-            strict=True,
-        )
-    ]
+    phi_b = as3600.phi_bending(r["kuo"])
+    cols = plain(
+        ray,
+        df.n,
+        df.m,
+        df.Lw,
+        df.m_min,
+        df.m_design,
+        r["dn_ray"],
+        r["nu_ray"] * kn,
+        r["mu_ray"] * knm,
+        r["phi_ray"],
+        df.kuo,
+        df.nub,
+        phi_b,
+        np.abs(r["m0"]) * knm,
+        df.nuot,
+        df.phi_nuot,
+        r["phi_d"],
+        r["nd"] * kn,
+        np.abs(r["md"]) * knm,
+        df.nuo,
+        df.phi_nuo,
+        df.util,
+        df.phi_mu,
+        df.u_fixed_n,
+    )
+    df["f_nm"] = [_nm_text(*vals, phi0) for vals in zip(*cols, strict=True)]
     return _simplified(df, settings, of, working)
 
 
-def _nm_text(region, n, m, dn, nu, mu, phi, phi_mu, kuo, nub, phi_nuo, util) -> str:
-    if region == 2:
-        core = (
-            f"dn = {dn:.0f} mm: Nu = {nu:.1f} kN, Mu = {mu:.1f} kNm; phi = {phi:.3f} "
-            f"(kuo {kuo:.3f}, Nub {nub:.0f} kN); phiMu = {phi_mu:.1f} kNm"
+def _nm_text(
+    ray,
+    n,
+    m,
+    lw,
+    m_min,
+    md_,
+    dn,
+    nu,
+    mu,
+    phi,
+    kuo,
+    nub,
+    phi_b,
+    m0,
+    nuot,
+    phi_nuot,
+    phi_d,
+    nd,
+    mdc,
+    nuo,
+    phi_nuo,
+    util,
+    phi_mu,
+    u_old,
+    phi0,
+) -> str:
+    """Working of the radial utilisation with every number substituted (kN, kNm)."""
+    if n > 0:
+        head = (
+            f"M* = max(|{m:.1f}|, 0.05 x {lw:.0f} mm x {n:.1f} kN = {m_min:.1f}) = {md_:.1f} kNm "
+            "(Cl 10.1.2); "
         )
     else:
-        core = f"{REGION_TEXT[int(region)]}; phiMu = {phi_mu:.1f} kNm; phiNuo = {phi_nuo:.1f} kN"
-    return f"{core}; U = max(|{m:.1f}| / {phi_mu:.1f}, N*/phiN) = {util:.3f}"
+        head = f"M* = |{m:.1f}| = {md_:.1f} kNm; "
+    if ray == RAY_TENSION:
+        mo = phi_b * m0
+        body = (
+            f"tension side: line from (0, phiMuo = {phi_b:.3f} x {m0:.1f} = {mo:.1f} kNm) to "
+            f"(phiNuot = 0.85 x {nuot:.1f} = {phi_nuot:.1f} kN, 0); "
+            f"U = N*/phiNuot + M*/phiMuo = {n:.1f} / {phi_nuot:.1f} + {md_:.1f} / {mo:.1f} = {util:.3f}"
+        )
+    elif ray == RAY_SQUASH:
+        n1, m1 = phi_d * nd, phi_d * mdc
+        dN, dM = phi_nuo - n1, -m1
+        body = (
+            f"ray below decompression (phiNu, phiMu) = ({phi_d:.3f} x {nd:.1f}, {phi_d:.3f} x {mdc:.1f}) = "
+            f"({n1:.1f}, {m1:.1f}); line to (phiNuo = {phi0:.2f} x {nuo:.1f} = {phi_nuo:.1f} kN, 0); "
+            f"U = (N* dM - M* dN) / (N1 dM - M1 dN) = ({n:.1f} x {dM:.1f} - {md_:.1f} x {dN:.1f}) / "
+            f"({n1:.1f} x {dM:.1f} - {m1:.1f} x {dN:.1f}) = {util:.3f}"
+        )
+    elif ray == RAY_CURVE:
+        pn, pm = phi * nu, phi * mu
+        body = (
+            f"ray meets the curve at dn = {dn:.0f} mm: Nu = {nu:.1f} kN, Mu = {mu:.1f} kNm, "
+            f"phi = {phi:.3f} (kuo {kuo:.3f}, Nub {nub:.0f} kN) -> ({pn:.1f}, {pm:.1f}); "
+            f"U = (N* + M*) / (phiNu + phiMu) = ({n:.1f} + {md_:.1f}) / ({pn:.1f} + {pm:.1f}) = {util:.3f}"
+        )
+    else:
+        body = "no actions: U = 0"
+    cap, name = (phi_nuo, "phiNuo") if n >= 0 else (phi_nuot, "phiNuot")
+    return (
+        f"{head}{body}; at fixed N*: max(M*/phiMu = {md_:.1f} / {phi_mu:.1f}, "
+        f"N*/{name} = {n:.1f} / {cap:.1f}) = {u_old:.3f}"
+    )
 
 
 def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True) -> pd.DataFrame:
@@ -230,12 +368,16 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     e = as3600.simplified_eccentricity(e_given, tw)
     ea = as3600.additional_eccentricity(hwe, tw)
     cap = as3600.simplified_capacity(df.fc.to_numpy(float), tw, e, ea, Lw, phi) * 1e-3
-    stress = n * 1e3 / (Lw * tw)
+    # in-plane moment considered: the design axial force per unit length at the pier's more
+    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with the Cl 10.1.2 minimum is for the column check)
+    hi, lo = as3600.wall_end_axial_per_length(n * 1e3, df.m.to_numpy(float) * 1e6, Lw)
+    stress = hi / tw
     limit = np.where(df.v_layers.to_numpy() >= 2, 30.0, 20.0)
     slender = hwe / tw
     one_layer = df.v_layers.to_numpy() < 2
     fails = {  # each condition of Cl 11.5.1 that rules the method out, as a row mask
         "not in compression": n <= 0,
+        "end in tension": (n > 0) & (lo < 0),
         "slender": slender > limit,
         "stress": (stress > 3.0) & one_layer,
         "load outside the middle third": e > tw / 6,
@@ -245,7 +387,9 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     df["slender"] = hwe / tw
     df["phi_s"] = phi
     df["phi_nu_s"] = np.where(applies, cap, np.nan)
-    df["util_s"] = np.where(applies, n / np.where(cap > 0, cap, np.nan), np.nan)
+    df["n_end"] = hi * Lw * 1e-3  # end force per length over the whole length [kN]
+    df["n_end_lo"] = lo * Lw * 1e-3
+    df["util_s"] = np.where(applies, df.n_end / np.where(cap > 0, cap, np.nan), np.nan)
     df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
     if not working:
         return df
@@ -254,6 +398,8 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
         why = []
         if fails["not in compression"][i]:
             why.append("not in compression")
+        if fails["end in tension"][i]:
+            why.append(f"one end in tension under in-plane M* ({lo[i]:.0f} N/mm): designed as a column")
         if fails["slender"][i]:
             why.append(f"Hwe/tw {slender[i]:.1f} > {limit[i]:.0f}")
         if fails["stress"][i]:
@@ -265,7 +411,16 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     # the same for every combination of a pier unless e or the reason differs: made once each
     work = pd.DataFrame(dict(k=k, Hc=Hc, hwe=hwe, e=e, tw=tw, ea=ea, fc=df.fc, Lw=Lw, cap=cap, ok=applies))
     work["why"] = reasons
-    df["f_s"] = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    text = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    df["f_s"] = [
+        f"{t}; end: {nn:.1f} kN / {lw:.0f} + 6 x |{mm:.1f}| kNm / {lw:.0f}^2 = {h:.1f} N/mm -> "
+        f"{h:.1f} x {lw:.0f} = {ne:.1f} kN; U = {ne:.1f} / {c:.1f} = {u:.3f}"
+        if ok
+        else t
+        for t, nn, mm, lw, h, ne, c, u, ok in zip(
+            text.tolist(), *plain(n, df.m, Lw, hi, df.n_end, cap, df.util_s, applies), strict=True
+        )
+    ]
     return df
 
 

@@ -16,6 +16,7 @@ from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
 FIBRE = 0.1  # m: fibre length along each pier
+FLAG_END_ZONE = "end-zone detailing (Cl 14.6)"
 
 
 def _fibres(sp: pd.DataFrame) -> pd.DataFrame:
@@ -96,12 +97,19 @@ def check_core_stress(
         u_t = np.where(df.tension > 0, df.as_req / df.as_prov, 0.0)
     df["u_tension"] = np.where(np.isfinite(u_t), u_t, np.inf)
     df["u_compression"] = np.maximum(df.sigma_max, 0) / df.limit
-    df["util"] = np.maximum(df.u_tension, df.u_compression)
+    # Cl 14.6: 0.15 f'c extreme-fibre compression is a trigger for end-zone detailing under
+    # earthquake actions, not a capacity: a flag on earthquake combinations only
+    quake = df.combination.astype(str).isin(settings.earthquake).to_numpy()
+    df["earthquake"] = np.where(quake, "yes", "no")
+    df["flag"] = np.where(
+        quake, np.where(df.u_compression > 1.0, FLAG_END_ZONE, "none"), "n/a (not an earthquake combination)"
+    )
+    df["util"] = df.u_tension
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
-    df["governs"] = np.where(df.u_tension >= df.u_compression, "tension steel", "peak compression")
+    df["governs"] = "tension steel"
     df["working"] = [
         f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / (0.85 x {fy:g}) = {ar:.0f} mm2 "
-        f"vs {ap:.0f} mm2; sigma max {sm:.2f} MPa vs {lim:.2f} MPa"
+        f"vs {ap:.0f} mm2; sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(
             *plain(df.tension, df.tension_area, df.fsy, df.as_req, df.as_prov, df.sigma_max, df.limit),
             strict=True,

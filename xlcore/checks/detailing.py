@@ -1,5 +1,5 @@
 """Detailing of every pier at every storey against AS 3600:2018 Cl 11.7 (limits as transcribed
-in the design notes: verify), from the bars given and the largest design compressive stress."""
+in docs/engineering-basis.md: verify), from the bars given and the largest design compressive stress."""
 
 from __future__ import annotations
 

@@ -19,13 +19,43 @@ def check_pier_shear(
     `piers` from geometry (with stiffness), `actions` from distribution.pier_actions. Without
     `working` the numbers only (the advice search runs thousands of variants).
     """
-    geo = ["storey", "pier_id", "Lw", "tw", "Hc", "Ho", "fc", "fsy", "rho_h", "rho_v"]
+    geo = [
+        "storey",
+        "pier_id",
+        "Lw",
+        "tw",
+        "Hc",
+        "Ho",
+        "H_wall",
+        "wall_length",
+        "fc",
+        "fsy",
+        "rho_h",
+        "rho_v",
+    ]
     df = actions.merge(piers[geo], on=["storey", "pier_id"], how="left")
-    use_opening = settings.shear_height == "opening height"
-    df["Hw"] = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc)
-    df["hw_lw"] = df.Hw / df.Lw
+    place = piers.set_index(["storey", "pier_id"]).position  # > 0: a pier beside an opening
+    basis = settings.shear_height
+    if basis == as3600.HEIGHT_OVERALL:
+        df["Hw"], h_whole = df.H_wall, df.H_wall
+    else:
+        use_opening = basis == as3600.HEIGHT_OPENING
+        df["Hw"], h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
+    beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
+    ratio, wall_governs = as3600.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
+    df["hw_lw"] = ratio
+    df["hw_basis"] = _basis_text(
+        basis,
+        df.Hw.to_numpy(float),
+        df.Lw.to_numpy(float),
+        np.asarray(h_whole, float),
+        df.wall_length.to_numpy(float) * 1000.0,
+        beside,
+        wall_governs,
+    )
     phi = settings.phi_shear if settings.phi_shear is not None else as3600.PHI_WALL_SHEAR
-    r = as3600.wall_shear(df.fc, df.fsy, df.Lw, df.tw, df.Hw, df.rho_h, df.rho_v, phi)
+    # Hw passed so that Hw / Lw is the governing ratio (the whole wall's where it is larger)
+    r = as3600.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio * df.Lw, df.rho_h, df.rho_v, phi)
     kn = 1e-3
     for key in ("eq1", "eq2", "floor", "vuc", "vus", "vu_max", "phi_vu"):
         df[key] = getattr(r, key) * kn
@@ -52,6 +82,22 @@ def check_pier_shear(
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
     order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
     return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+def _basis_text(basis, hw, lw, h_whole, l_whole, beside, wall_governs) -> list[str]:
+    """The height used in Hw/Lw on every row, and which ratio governs (Cl 11.6.3)."""
+    out = []
+    for b, h, length, hh, ll, side, gov in zip(
+        [basis] * len(hw), *plain(hw, lw, h_whole, l_whole, beside, wall_governs), strict=True
+    ):
+        own = f"{b}: {h:.0f} / {length:.0f} = {h / length:.3f}"
+        if not side:
+            out.append(own)
+            continue
+        whole = f"whole wall {hh:.0f} / {ll:.0f} = {hh / ll:.3f}"
+        pick = "whole wall governs" if gov else "pier governs"
+        out.append(f"larger of pier {own} and {whole} ({pick}; common practice)")
+    return out
 
 
 def _vu_text(df: pd.DataFrame) -> list[str]:

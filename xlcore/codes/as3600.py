@@ -1,8 +1,9 @@
 """AS 3600:2018 Concrete structures: the rules xlcore uses, vectorised over rows.
 
 Units inside: N, mm, MPa. Every function takes and returns numpy arrays (scalars broadcast).
-Expressions are from public secondary sources and memory of the standard (see
-ENGINEERING notes in the project's design documents); each docstring cites the clause.
+Expressions are from public secondary sources and memory of the standard; each docstring cites
+the clause, and docs/engineering-basis.md gives every provision's source, confidence and the
+Project setting that changes it.
 """
 
 from __future__ import annotations
@@ -87,6 +88,25 @@ def _vuc_of(eq1, eq2, floor):
     vuc = np.maximum(lesser, floor)
     gov = np.where(floor > lesser, GOV_FLOOR, np.where(eq2 < eq1, GOV_EQ2, GOV_EQ1))
     return vuc, gov
+
+
+HEIGHT_OVERALL, HEIGHT_STOREY, HEIGHT_OPENING = "overall wall height", "storey clear height", "opening height"
+"""Bases for the height Hw in the Cl 11.6.3 aspect ratio (Project setting). Amendment 2 (2021)
+amended Cl 11.6 and 11.6.3; the reading that Hw is the overall height of the wall (base to top)
+is the conservative one, since Eq (2) falls as Hw/Lw grows: it is the default."""
+
+
+def wall_aspect_ratio(Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
+    """Hw/Lw for Cl 11.6.3 Eq (1) and (2), and whether the whole wall's ratio governs.
+
+    A pier beside an opening takes the larger of its own ratio Hw_pier / Lw_pier and the whole
+    wall's Hw_wall / Lw_wall (common practice for wall segments; ACI 318-19 states the same rule
+    for wall segments, see docs/engineering-basis.md); a wall without openings its own ratio.
+    Lengths and heights in one unit (mm)."""
+    own = np.asarray(Hw_pier, dtype=float) / np.asarray(Lw_pier, dtype=float)
+    whole = np.asarray(Hw_wall, dtype=float) / np.asarray(Lw_wall, dtype=float)
+    wall_governs = np.asarray(beside_opening, dtype=bool) & (whole > own)
+    return np.where(wall_governs, whole, own), wall_governs
 
 
 def wall_rho_w(Hw_Lw, rho_h, rho_v):
@@ -214,6 +234,42 @@ def phi_axial_bending(Nu, Nub, Nuot, kuo, phi0=PHI_COMPRESSION):
     return np.where(Nu > 0, comp, tens)
 
 
+MIN_ECCENTRICITY = 0.05
+"""Cl 10.1.2: the least eccentricity of the axial force in a column, as a fraction of D."""
+
+
+def min_eccentricity_moment(m_star, n_star, D):
+    """|M*| not less than N* x 0.05 D for a member in compression designed as a column,
+    Cl 10.1.2 (D the overall depth in the plane of bending; for a pier in its plane, Lw).
+    N in N, D in mm, M in N mm; in tension (N* <= 0) |M*| unchanged."""
+    m = np.abs(np.asarray(m_star, dtype=float))
+    n = np.asarray(n_star, dtype=float)
+    return np.where(n > 0, np.maximum(m, n * MIN_ECCENTRICITY * np.asarray(D, dtype=float)), m)
+
+
+def tension_side_utilisation(n_star, m_star, phi_nuot, phi_mo):
+    """Radial overload factor lambda on the tension side of the factored interaction diagram,
+    which Table 2.2.2 practice draws as the straight line from (0, phi Muo) to (phi Nuot, 0):
+    (N*/lambda) / phi Nuot + (|M*|/lambda) / phi Muo = 1, so lambda = N*/phi Nuot + |M*|/phi Muo.
+    `phi_nuot` negative (tension), N* <= 0; any consistent units."""
+    n = np.asarray(n_star, dtype=float)
+    m = np.abs(np.asarray(m_star, dtype=float))
+    return n / np.asarray(phi_nuot, dtype=float) + m / np.asarray(phi_mo, dtype=float)
+
+
+def ray_segment_utilisation(n_star, m_star, n1, m1, n2, m2):
+    """Radial overload factor lambda where the ray from the origin through (N*, |M*|) crosses
+    the straight segment (n1, m1)-(n2, m2) of a factored interaction diagram: the point
+    (N*, |M*|) / lambda lies on the segment's line, lambda = (N* dm - |M*| dn) / (n1 dm - m1 dn)
+    with dn = n2 - n1, dm = m2 - m1 (the cross product of the ray and the segment)."""
+    n = np.asarray(n_star, dtype=float)
+    m = np.abs(np.asarray(m_star, dtype=float))
+    dn, dm = np.asarray(n2, dtype=float) - n1, np.asarray(m2, dtype=float) - m1
+    den = n1 * dm - m1 * dn
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(den != 0, (n * dm - m * dn) / np.where(den != 0, den, 1.0), np.inf)
+
+
 # ---------------------------------------------------------------- walls in compression
 
 
@@ -245,6 +301,17 @@ def additional_eccentricity(Hwe, tw):
     return np.asarray(Hwe, dtype=float) ** 2 / (2500.0 * np.asarray(tw, dtype=float))
 
 
+def wall_end_axial_per_length(n_star, m_star, Lw):
+    """Largest design axial force per unit length of a wall in compression with an in-plane
+    moment, n = N*/Lw + 6 |M*| / Lw^2 (linear elastic distribution along the wall: the stress
+    at the pier's more compressed end), with the least value at the other end, for the Cl 11.5.1
+    simplified method, which takes the design axial force per unit length. N, N mm, mm."""
+    n = np.asarray(n_star, dtype=float)
+    lw = np.asarray(Lw, dtype=float)
+    bend = 6.0 * np.abs(np.asarray(m_star, dtype=float)) / lw**2
+    return n / lw + bend, n / lw - bend
+
+
 PHI_SIMPLIFIED = 0.65
 """Table 2.2.2 as applied to Cl 11.5 walls (2018; 0.6 in 2009 - verify; a Project setting)."""
 
@@ -256,7 +323,7 @@ def simplified_capacity(fc, tw, e, ea, length, phi=PHI_SIMPLIFIED):
 
 
 # ---------------------------------------------------------------- wall detailing, Cl 11.7
-# Limits as transcribed in the design notes (section 5, medium confidence: verify against the
+# Limits as in docs/engineering-basis.md (Detailing, medium confidence: verify against the
 # standard's text); clause cited as 11.7 with the rule's name.
 
 RHO_V_MIN_LOW = 0.0015
@@ -269,7 +336,7 @@ MAX_SPACING = 350.0  # mm
 MAX_SPACING_THICKNESS = 2.5
 CLEAR_GAP_DIAMETERS = 3.0
 SINGLE_LAYER_MAX_THICKNESS = 200.0  # mm, from memory: verify
-SINGLE_LAYER_SLENDERNESS = 20.0  # Hwe/tw with one layer (design notes section 4)
+SINGLE_LAYER_SLENDERNESS = 20.0  # Hwe/tw with one layer (docs/engineering-basis.md, Cl 11.5)
 
 
 def wall_rho_v_min(sigma, fc):
