@@ -66,7 +66,8 @@ def test_compute_sample_and_read_results_back(tmp_path):
     assert r.exit_code == 0, r.output
     wb = openpyxl.load_workbook(out, read_only=True)
     summary = [row for row in wb[results.SUMMARY_SHEET].iter_rows(values_only=True)]
-    statuses = [row[8] for row in summary[summary.index(next(r for r in summary if r[0] == "Storey")) + 1 :]]
+    at = [c.key for c in results.SUMMARY_COLUMNS].index("status")
+    statuses = [row[at] for row in summary[summary.index(next(r for r in summary if r[0] == "Storey")) + 1 :]]
     assert len(statuses) == 164  # 15 storeys: GF has 10 piers, L1-L14 have 11 each
     passing, failing = statuses.count(results.PASS), statuses.count(results.FAIL)
     assert f"{passing} pass, {failing} fail, 0 not checked" in r.output

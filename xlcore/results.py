@@ -35,7 +35,9 @@ class ResultColumn:
     @property
     def banded(self) -> bool:
         """A utilisation column: coloured by the bands below."""
-        return self.fmt is not None and (self.key in ("util", "util_s", "util_now") or self.key.startswith("u_"))
+        return self.fmt is not None and (
+            self.key in ("util", "util_s", "util_now") or self.key.startswith("u_")
+        )
 
 
 @dataclass

@@ -109,9 +109,7 @@ def lines(sheet: ResultSheet) -> list[tuple[str, object]]:
     """The lines above the table: the sheet's preamble, and the colour key where it has bands."""
     out = list(sheet.preamble)
     if any(c.banded for c in sheet.columns):
-        out.append(
-            ("Colours", "; ".join(f"{name}: {meaning}" for name, meaning, _, _ in results.BANDS))
-        )
+        out.append(("Colours", "; ".join(f"{name}: {meaning}" for name, meaning, _, _ in results.BANDS)))
     return out
 
 
@@ -222,7 +220,8 @@ def _bands(sheet: ResultSheet, styles: Styles, letters: list[str], first: int, l
         if u_ref:
             rules += rule(s_letter, close, f'AND({s_ref}="{results.PASS}",ISNUMBER({u_ref}),{u_ref}>{lim})')
         rules += rule(s_letter, comfortable, f'{s_ref}="{results.PASS}"')
-        out.append(f'<conditionalFormatting sqref="{s_letter}{first}:{s_letter}{last_row}">{rules}</conditionalFormatting>')
+        sqref = f"{s_letter}{first}:{s_letter}{last_row}"
+        out.append(f'<conditionalFormatting sqref="{sqref}">{rules}</conditionalFormatting>')
     return "".join(out)
 
 

@@ -20,10 +20,10 @@ from pathlib import Path
 
 from lxml import etree
 
+from xlcore import results
 from xlcore.diagnostics import FileProblem
 from xlcore.layout import RESULT_PREFIX
 from xlcore.progress import SILENT, Reporter
-from xlcore import results
 from xlcore.results import MARKER, ResultSheet
 from xlcore.workbook.package import (
     NS_CT,
@@ -280,8 +280,18 @@ def _renumber_local_names(wb: etree._Element, keep: dict[int, int]) -> None:
 
 
 PRINT_TITLES = "_xlnm.Print_Titles"
-_AFTER_NAMES = ("calcPr", "oleSize", "customWorkbookViews", "pivotCaches", "smartTagPr", "smartTagTypes",
-                "webPublishing", "fileRecoveryPr", "webPublishObjects", "extLst")
+_AFTER_NAMES = (
+    "calcPr",
+    "oleSize",
+    "customWorkbookViews",
+    "pivotCaches",
+    "smartTagPr",
+    "smartTagTypes",
+    "webPublishing",
+    "fileRecoveryPr",
+    "webPublishObjects",
+    "extLst",
+)
 
 
 def add_print_titles(wb: etree._Element, first: int, sheets: list[ResultSheet]) -> None:
