@@ -235,3 +235,22 @@ def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):
         str(f).startswith(f"'Core actions'!{col(C, 'storey')}2: the walls at storey GF (A, B)")
         for f in info.value.findings.errors
     )
+
+
+def test_typing_error_in_one_wall_does_not_hide_an_opening_overrunning_another(demo_book):
+    """Issue 12: cross-sheet checks run on every row that parsed (LW2's bad thickness, LW1's
+    opening past its end: both in one pass)."""
+    edit(demo_book, {at(W, "thickness", 5): "x", at(OP, "offset", 2): 5.5})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert where(W, "thickness", 5) in found
+    assert "past the end" in found.get(where(OP, "width", 2), ""), found
+
+
+def test_unknown_storey_gets_a_close_match(demo_book):
+    edit(demo_book, {at(A, "storey", 2): "Gf"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "did you mean 'GF'" in found[where(A, "storey", 2)]
