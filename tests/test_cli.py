@@ -167,3 +167,12 @@ def test_progress_display_on_a_terminal_only(demo_book):
         assert reporter is cli.SILENT  # output not to a terminal (a pipe, a log, CI)
     r = runner.invoke(app, ["compute", str(demo_book), "--quiet"])
     assert r.exit_code == 0 and "sharing actions" not in r.output
+
+
+def test_check_counts_combinations_over_both_sheets_and_lists_members_per_storey():
+    out = runner.invoke(app, ["check", str(SAMPLE)]).output
+    assert "over both action sheets" in out
+    assert "on Member actions" in out and "on Core actions" in out
+    # the demo's GF has the lift-door lintels; pier IDs are those the piers sheet uses
+    gf = next(line for line in out.splitlines() if line.strip().startswith("GF:"))
+    assert "LW1-1" in gf and "lintels LW1-L1" in gf
