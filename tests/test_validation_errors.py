@@ -254,3 +254,11 @@ def test_unknown_storey_gets_a_close_match(demo_book):
         load(demo_book)
     found = {f.where: f.message for f in info.value.findings.errors}
     assert "did you mean 'GF'" in found[where(A, "storey", 2)]
+
+
+def test_combination_names_differing_by_case_and_partial_storeys_warn(demo_book):
+    edit(demo_book, {at(A, "combination", 2): "1.35 g"})
+    _, findings = load(demo_book)
+    text = " ".join(w.message for w in findings.warnings)
+    assert "differ only by case or spacing" in text and "'1.35 g'" in text
+    assert "'1.35 g' is given at 1 of 15 storeys" in text

@@ -39,6 +39,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
         _pier_warnings(geom, f)
     actions = _member_actions(tables["member_actions"], storeys, geom, f)
     core = _core_actions(tables["core_actions"], storeys, geom, f)
+    _combination_warnings(actions, core, f)
     if f.errors:
         raise InputInvalid(f)
     building = Building(
@@ -767,3 +768,36 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
             )
         seen.setdefault(key, rec.row)
     return df
+
+
+def _combination_warnings(member: pd.DataFrame, core: pd.DataFrame, f: Findings) -> None:
+    """Combination names that differ only by case or spacing (likely one combination typed two
+    ways), and combinations given at some storeys only (over both action sheets)."""
+    frames = [d[["storey", "combination"]] for d in (member, core) if len(d)]
+    if not frames:
+        return
+    both = pd.concat(frames, ignore_index=True).dropna()
+    names = sorted(set(both.combination))
+    groups: dict[str, list[str]] = defaultdict(list)
+    for n in names:
+        groups[re.sub(r"\s+", "", str(n)).lower()].append(n)
+    for spelled in groups.values():
+        if len(spelled) > 1:
+            f.warning(
+                layout.MEMBER_ACTIONS.name,
+                None,
+                "combinations " + ", ".join(repr(n) for n in spelled) + " differ only by case or "
+                "spacing; xlcore treats them as different combinations (use one spelling if they are one)",
+            )
+    storeys = set(both.storey)
+    at = both.groupby("combination").storey.agg(lambda s: set(s))
+    for name, where in at.items():
+        if where != storeys:
+            missing = sorted(storeys - where)
+            f.warning(
+                layout.MEMBER_ACTIONS.name,
+                None,
+                f"combination {name!r} is given at {len(where)} of {len(storeys)} storeys (not at "
+                f"{', '.join(missing[:6])}{' ...' if len(missing) > 6 else ''}): those storeys are "
+                "not checked for it",
+            )
