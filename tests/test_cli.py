@@ -66,7 +66,8 @@ def test_compute_sample_and_read_results_back(tmp_path):
     assert r.exit_code == 0, r.output
     wb = openpyxl.load_workbook(out, read_only=True)
     summary = [row for row in wb[results.SUMMARY_SHEET].iter_rows(values_only=True)]
-    statuses = [row[8] for row in summary[summary.index(next(r for r in summary if r[0] == "Storey")) + 1 :]]
+    at = [c.key for c in results.SUMMARY_COLUMNS].index("status")
+    statuses = [row[at] for row in summary[summary.index(next(r for r in summary if r[0] == "Storey")) + 1 :]]
     assert len(statuses) == 164  # 15 storeys: GF has 10 piers, L1-L14 have 11 each
     passing, failing = statuses.count(results.PASS), statuses.count(results.FAIL)
     assert f"{passing} pass, {failing} fail, 0 not checked" in r.output
@@ -166,3 +167,12 @@ def test_progress_display_on_a_terminal_only(demo_book):
         assert reporter is cli.SILENT  # output not to a terminal (a pipe, a log, CI)
     r = runner.invoke(app, ["compute", str(demo_book), "--quiet"])
     assert r.exit_code == 0 and "sharing actions" not in r.output
+
+
+def test_check_counts_combinations_over_both_sheets_and_lists_members_per_storey():
+    out = runner.invoke(app, ["check", str(SAMPLE)]).output
+    assert "over both action sheets" in out
+    assert "on Member actions" in out and "on Core actions" in out
+    # the demo's GF has the lift-door lintels; pier IDs are those the piers sheet uses
+    gf = next(line for line in out.splitlines() if line.strip().startswith("GF:"))
+    assert "LW1-1" in gf and "lintels LW1-L1" in gf

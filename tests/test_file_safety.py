@@ -140,7 +140,7 @@ def test_replacing_resaved_result_sheets_leaves_nothing_orphaned(tmp_path):
     run(book)
     resave(book)
     wb = openpyxl.load_workbook(book)
-    wb[results.SHEAR_SHEET]["B9"].comment = Comment("checked", "checker")
+    wb[results.SHEAR_SHEET]["B60"].comment = Comment("checked", "checker")  # below the merged stamp lines
     wb[results.SUMMARY_SHEET].print_area = "A1:F20"
     wb.defined_names["MyWorst"] = DefinedName("MyWorst", attr_text=f"'{results.SUMMARY_SHEET}'!$B$9")
     wb.save(book)

@@ -102,8 +102,11 @@ def test_summary_is_worst_check_and_combination_per_pier_per_storey(demo_book):
     s = o.summary.set_index(["storey", "pier_id"])
     shear_worst = o.shear.groupby(["storey", "pier_id"]).util.max()
     assert np.allclose(s.loc[shear_worst.index, "u_shear"].to_numpy(), shear_worst.to_numpy())
-    governing = s[["u_shear", "u_nm", "u_simplified", "u_detailing"]].max(axis=1)
+    # detailing is compliance, reported beside the structural result: it never governs
+    governing = s[["u_shear", "u_nm", "u_simplified"]].max(axis=1)
     assert np.allclose(s.util.to_numpy(), governing.to_numpy())
+    det_fail = s.detailing.str.startswith(results.FAIL)
+    assert (s.status[det_fail] == results.FAIL).all()
     assert len(o.summary) == len(o.geometry.piers)
 
 

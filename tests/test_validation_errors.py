@@ -235,3 +235,30 @@ def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):
         str(f).startswith(f"'Core actions'!{col(C, 'storey')}2: the walls at storey GF (A, B)")
         for f in info.value.findings.errors
     )
+
+
+def test_typing_error_in_one_wall_does_not_hide_an_opening_overrunning_another(demo_book):
+    """Issue 12: cross-sheet checks run on every row that parsed (LW2's bad thickness, LW1's
+    opening past its end: both in one pass)."""
+    edit(demo_book, {at(W, "thickness", 5): "x", at(OP, "offset", 2): 5.5})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert where(W, "thickness", 5) in found
+    assert "past the end" in found.get(where(OP, "width", 2), ""), found
+
+
+def test_unknown_storey_gets_a_close_match(demo_book):
+    edit(demo_book, {at(A, "storey", 2): "Gf"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "did you mean 'GF'" in found[where(A, "storey", 2)]
+
+
+def test_combination_names_differing_by_case_and_partial_storeys_warn(demo_book):
+    edit(demo_book, {at(A, "combination", 2): "1.35 g"})
+    _, findings = load(demo_book)
+    text = " ".join(w.message for w in findings.warnings)
+    assert "differ only by case or spacing" in text and "'1.35 g'" in text
+    assert "'1.35 g' is given at 1 of 15 storeys" in text

@@ -13,7 +13,7 @@ from typing import Annotated
 
 import typer
 
-from xlcore import CAUTION, __version__, pipeline, results
+from xlcore import CAUTION, __version__, layout, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
@@ -171,10 +171,22 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
         f"  piers/storey  {per_storey.min()} to {per_storey.max()} "
         f"({len(geom.piers)} storey x pier cases), lintels {len(geom.lintels)}"
     )
+    core = building.core_actions
+    combos = set(acts.combination.dropna()) | set(core.combination.dropna())
     typer.echo(
-        f"  combinations  {acts.combination.nunique()} "
-        f"({len(acts)} member action rows, {len(building.core_actions)} core action rows)"
+        f"  combinations  {len(combos)} over both action sheets "
+        f"({acts.combination.nunique()} on {layout.MEMBER_ACTIONS.name}, "
+        f"{core.combination.nunique()} on {layout.CORE_ACTIONS.name})"
     )
+    typer.echo(
+        f"  action rows   {len(acts)} on {layout.MEMBER_ACTIONS.name}, "
+        f"{len(core)} on {layout.CORE_ACTIONS.name}"
+    )
+    typer.echo("  members derived per storey (IDs to map analysis output to):")
+    lintels_at = geom.lintels.groupby("storey", sort=False).lintel_id.apply(list).to_dict()
+    for storey, ids in geom.piers.groupby("storey", sort=False).pier_id.apply(list).items():
+        lin = lintels_at.get(storey, [])
+        typer.echo(f"    {storey}: piers {', '.join(ids)}" + (f"; lintels {', '.join(lin)}" if lin else ""))
     _report(findings)
     typer.echo(f"  warnings      {len(findings.warnings)}")
     typer.echo("  results       " + _staleness(raw))

@@ -97,16 +97,27 @@ def compute(
     with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
         advice = advise(piers, acts, summary, s)
         summary = with_cheapest_fix(summary, advice)
+    stress = core_nm = None
+    if core is not None:
+        with t.phase(
+            "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
+        ):
+            stress = check_core_stress(piers, plans, building.core_actions, s)
+            core_nm = check_core_nm(piers, plans, building.core_actions, s)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     lintel_line = _lintel_line(lintels)
     sections = distribution.sections_table(plans, building.storey_index())
     sheets = [
         ResultSheet(
             results.SUMMARY_SHEET,
-            f"{results.MARKER}: summary (worst combination per pier per storey)",
+            f"{results.MARKER}: summary (failing and nearest-to-failing piers first; worst "
+            "combination per pier per storey)",
             results.SUMMARY_COLUMNS,
-            summary,
-            preamble=stamp + _counts(summary, shear) + [lintel_line],
+            attention_first(summary),
+            preamble=stamp
+            + _counts(summary, shear)
+            + worst_per_check(summary, lintels, stress, core_nm)
+            + [lintel_line],
             scale_key="util",
         ),
         ResultSheet(
@@ -237,11 +248,6 @@ def compute(
         ),
     ]
     if core is not None:
-        with t.phase(
-            "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
-        ):
-            stress = check_core_stress(piers, plans, building.core_actions, s)
-            core_nm = check_core_nm(piers, plans, building.core_actions, s)
         sheets.append(
             ResultSheet(
                 results.CORE_STRESS_SHEET,
@@ -262,14 +268,6 @@ def compute(
             )
         )
         if len(core_nm):
-            w = core_nm.loc[core_nm.util.idxmax()]
-            sheets[0].preamble.append(
-                (
-                    "Core axial + bending",
-                    f"{int((core_nm.status == results.FAIL).sum())} of {len(core_nm)} storey cases "
-                    f"fail; worst {w.storey}, {w.combination}: utilisation {w.util:.3f}",
-                )
-            )
             sheets.append(
                 ResultSheet(
                     results.CORE_NM_SHEET,
@@ -297,16 +295,7 @@ def compute(
                     scale_key="util",
                 )
             )
-        if len(stress):
-            w = stress.loc[stress.util.idxmax()]
-            sheets[0].preamble.append(
-                (
-                    "Core elastic stress",
-                    f"{int((stress.status == results.FAIL).sum())} of {len(stress)} wall cases "
-                    f"fail; worst {w.wall_id} at {w.storey}, {w.combination}: "
-                    f"utilisation {w.util:.3f} ({w.governs})",
-                )
-            )
+        if stress is not None and len(stress):
             sheets[0].preamble.append(_end_zone_line(stress, s))
         sheets.append(
             ResultSheet(
@@ -471,11 +460,12 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
     if worst is not None:
         lines.append(
             (
-                "Building's worst",
+                "Building's worst pier",
                 f"{worst.pier_id} at {worst.storey}, {worst.combination}: "
                 f"utilisation {worst.util:.3f} ({worst.check}, {worst.clause})",
             )
         )
+    lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
     return lines
 
 
@@ -551,8 +541,12 @@ def envelope(
     axial: pd.DataFrame | None = None,
     detailing: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
-    """Governing check and worst combination per storey x pier, with each check's worst
-    utilisation beside it; piers without actions are listed as not checked."""
+    """Governing structural check and worst combination per storey x pier, with each check's
+    worst utilisation beside it; piers without actions are listed as not checked.
+
+    Detailing (Cl 11.7) is compliance, not strength: it is reported beside the structural
+    result as pass/FAIL with its ratio and makes the status FAIL, but it never becomes the
+    governing check, whose utilisation is the one the engineer needs to see."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
     cand = _candidates(
         shear,
@@ -560,22 +554,44 @@ def envelope(
         detailing if detailing is not None else pd.DataFrame(),
     )
     keys = ["storey", "pier_id"]
-    if len(cand):
-        worst = cand.loc[cand.groupby(keys, sort=False).util.idxmax()]
+    structural = cand[cand.check != CHECK_DETAILING] if len(cand) else cand
+    if len(structural):
+        worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
         per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
         per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
         worst = worst.merge(per_check, on=keys, how="left")
     else:
-        worst = cand
+        worst = structural
     order = piers[["storey", "storey_index", "pier_id", "wall_id", "position"]]
     table = order.merge(worst, on=keys, how="left")
     for c in UTIL_COLUMN.values():
         if c not in table:
             table[c] = np.nan
+    det = cand[cand.check == CHECK_DETAILING] if len(cand) else cand
+    if len(det):
+        det_worst = det.loc[det.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "status", "note"]]
+        det_worst = det_worst.rename(columns={"util": "u_det", "status": "s_det", "note": "rule_det"})
+        table = table.merge(det_worst, on=keys, how="left")
+        table["u_detailing"] = table.u_det
+    else:
+        table["s_det"], table["rule_det"] = np.nan, ""
     missing = table.u_shear.isna()  # no actions: strength not checked, whatever detailing says
     table.loc[missing, ["status", "check", "combination", "clause"]] = [results.NOT_CHECKED, "", "", ""]
     table.loc[missing, ["util", "demand", "capacity"]] = np.nan
     table.loc[missing, "note"] = "no actions for this pier or its wall at this storey (detailing only)"
+    u_det = table.u_detailing.to_numpy(dtype=float)
+    det_fails = (table.s_det == results.FAIL).to_numpy()
+    table["detailing"] = [
+        "" if not np.isfinite(u) else f"{results.FAIL if bad else results.PASS} {u:.2f}"
+        for u, bad in zip(u_det, det_fails, strict=True)
+    ]
+    checked = ~missing.to_numpy()
+    table.loc[checked & det_fails, "status"] = results.FAIL
+    note = table.note.fillna("").astype(str)
+    extra = np.where(det_fails, "detailing fails: " + table.rule_det.fillna("").astype(str), "")
+    table["note"] = [
+        "; ".join(x for x in (a, b) if x) for a, b in zip(note.tolist(), extra.tolist(), strict=True)
+    ]
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
         ascending=[False, True, True],
@@ -584,6 +600,57 @@ def envelope(
     table["util"] = table.util.astype(float)
     table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
     return table[cols].reset_index(drop=True)
+
+
+def attention_first(summary: pd.DataFrame) -> pd.DataFrame:
+    """The summary as the checker reads it: failing piers first, then the rest from the
+    nearest to failing down, piers without actions last (storey order within ties)."""
+    rank = np.select(
+        [summary.status == results.FAIL, summary.status == results.NOT_CHECKED], [0, 2], default=1
+    )
+    u = summary.util.to_numpy(dtype=float)
+    key = pd.DataFrame({"rank": rank, "u": -np.nan_to_num(u, nan=-np.inf, posinf=np.inf), "i": range(len(u))})
+    order = key.sort_values(["rank", "u", "i"], kind="stable").index
+    return summary.iloc[order].reset_index(drop=True)
+
+
+def worst_per_check(
+    summary: pd.DataFrame,
+    lintels: pd.DataFrame | None = None,
+    stress: pd.DataFrame | None = None,
+    core_nm: pd.DataFrame | None = None,
+) -> list[tuple[str, str]]:
+    """The building's worst case of every check, one line each, for the summary's top."""
+    out: list[tuple[str, str]] = []
+
+    def line(label: str, df: pd.DataFrame | None, col: str, what) -> None:
+        if df is None or not len(df) or col not in df or not np.isfinite(df[col].to_numpy(float)).any():
+            out.append((f"Worst {label}", "not checked (no rows)"))
+            return
+        u = df[col].to_numpy(dtype=float)
+        u = np.where(np.isnan(u), -np.inf, u)
+        r = df.iloc[int(np.argmax(u))]
+        n_fail = int((u > 1.0).sum())
+        verdict = results.FAIL if r[col] > 1.0 else results.PASS
+        out.append(
+            (f"Worst {label}", f"{r[col]:.3f} {verdict} at {what(r)} ({n_fail} of {len(df)} rows over 1.0)")
+        )
+
+    checked = summary[summary.status != results.NOT_CHECKED]
+    for label, col in (
+        ("in-plane shear", "u_shear"),
+        ("axial + bending", "u_nm"),
+        ("Cl 11.5 compression", "u_simplified"),
+        ("detailing Cl 11.7", "u_detailing"),
+    ):
+        src = checked if col != "u_detailing" else summary
+        line(label, src, col, lambda r: f"{r.pier_id}, {r.storey}")
+    line("lintel", lintels, "util", lambda r: f"{r.lintel_id}, {r.storey}, {r.combination}")
+    if stress is not None:
+        line("core elastic stress", stress, "util", lambda r: f"{r.wall_id}, {r.storey}, {r.combination}")
+    if core_nm is not None:
+        line("core axial + bending", core_nm, "util", lambda r: f"{r.storey}, {r.combination}")
+    return out
 
 
 def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:

@@ -26,6 +26,19 @@ class ResultColumn:
     def title(self) -> str:
         return f"{self.header} [{self.unit}]" if self.unit else self.header
 
+    @property
+    def wraps(self) -> bool:
+        """Long text (working, advice, notes) wraps within its column, so it prints complete
+        instead of being cut at the cell edge."""
+        return self.fmt is None and self.width >= 30
+
+    @property
+    def banded(self) -> bool:
+        """A utilisation column: coloured by the bands below."""
+        return self.fmt is not None and (
+            self.key in ("util", "util_s", "util_now") or self.key.startswith("u_")
+        )
+
 
 @dataclass
 class ResultSheet:
@@ -95,20 +108,21 @@ SHEAR_COLUMNS = [
 SUMMARY_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("pier_id", "Pier", width=9),
-    _c("check", "Governing check", width=18),
-    _c("combination", "Worst combination", width=16),
-    _c("demand", "Demand", None, "0.0"),
-    _c("capacity", "Capacity", None, "0.0"),
+    _c("status", "Status", width=8),
+    _c("util", "Utilisation", None, "0.000", 11),
+    _c("check", "Governing check", width=15),
+    _c("combination", "Worst combination", width=13),
+    _c("demand", "Demand", None, "0.0", 9),
+    _c("capacity", "Capacity", None, "0.0", 9),
     _c("unit", "Unit", width=6),
-    _c("util", "Utilisation", None, "0.000", 10),
-    _c("status", "Status", width=12),
-    _c("clause", "Governing clause", width=24),
-    _c("u_shear", "U shear", None, "0.000", 9),
-    _c("u_nm", "U axial + bending", None, "0.000", 10),
-    _c("u_simplified", "U Cl 11.5", None, "0.000", 9),
+    _c("clause", "Governing clause", width=16),
+    _c("u_shear", "U shear", None, "0.000", 8),
+    _c("u_nm", "U axial + bending", None, "0.000", 9),
+    _c("u_simplified", "U Cl 11.5", None, "0.000", 8),
+    _c("detailing", "Detailing Cl 11.7", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
-    _c("fix", "Cheapest fix (see the advice sheet)", width=44),
-    _c("note", "Note", width=48),
+    _c("fix", "Cheapest fix (see the advice sheet)", width=30),
+    _c("note", "Note", width=30),
 ]
 
 MEMBER_COLUMNS = [
@@ -298,6 +312,29 @@ CORE_COLUMNS = [
     _c("used", "Used", width=22),
     _c("working", "Working", width=70),
 ]
+
+
+# Discrete bands of our own on utilisation (not a continuous scale, where a comfortable 0.57
+# would already read as a warning colour): comfortable up to CLOSE, close up to 1.0, over above.
+# The status cell beside a utilisation takes the same band. Common practice, no source: a
+# margin of 10 % is where checkers usually start to look twice.
+CLOSE = 0.9
+BANDS = (
+    ("comfortable", f"utilisation up to {CLOSE:g}", "FF1E5631", "FFD9EAD3"),
+    ("close", f"utilisation above {CLOSE:g} up to 1.0", "FF6B4E00", "FFFCE8B2"),
+    ("over", "utilisation above 1.0 (or FAIL)", "FF7A0C00", "FFF4C7C3"),
+)  # name, meaning, font colour, fill colour
+ID_KEYS = ("storey", "pier_id", "lintel_id", "member", "wall_id")  # repeated when printing
+
+
+def band(util) -> np.ndarray:
+    """Band name per utilisation: comfortable, close, over ('' where there is none)."""
+    u = np.asarray(util, dtype=float)
+    out = np.full(u.shape, "", dtype=object)
+    out[u <= CLOSE] = BANDS[0][0]
+    out[(u > CLOSE) & (u <= 1.0)] = BANDS[1][0]
+    out[u > 1.0] = BANDS[2][0]
+    return out
 
 
 def utilisation(demand, capacity) -> np.ndarray:

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import datetime as dt
+import difflib
 import math
 import re
 from collections import defaultdict
@@ -31,7 +32,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     tables = {t.key: _table(raw.sheets.get(t.name), t, f) for t in layout.TABLES}
     storeys = _storeys(tables["storeys"], f)
     walls = _walls(tables["walls"], storeys, f)
-    openings = _openings(tables["openings"], storeys, walls, f)
+    openings = _openings(tables["openings"], storeys, walls, f, _unsound_ids(tables["walls"], walls))
     geom = None
     if storeys and walls and not f.errors:
         geom = geometry.derive(storeys, walls, openings)
@@ -39,6 +40,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     actions = _member_actions(tables["member_actions"], storeys, geom, f)
     core = _core_actions(tables["core_actions"], storeys, geom, f)
     _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
+    _combination_warnings(actions, core, f)
     if f.errors:
         raise InputInvalid(f)
     building = Building(
@@ -54,6 +56,22 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
 
 
 # ---------------------------------------------------------------- cells
+
+
+def did_you_mean(found: object, known) -> str:
+    """' (did you mean 'GF'?)' for the closest known names, or ''. Case is compared as typed
+    and ignoring case, so `Gf` finds `GF` (difflib's ratio, cutoff 0.6)."""
+    if found is None:
+        return ""
+    names = [str(k) for k in known]
+    by_lower: dict[str, str] = {}
+    for n in names:
+        by_lower.setdefault(n.lower(), n)
+    f = str(found)
+    hits = [by_lower[m] for m in difflib.get_close_matches(f.lower(), list(by_lower), n=2, cutoff=0.6)]
+    if not hits:
+        return ""
+    return " (did you mean " + " or ".join(repr(h) for h in hits) + "?)"
 
 
 def blank(v: object) -> bool:
@@ -424,7 +442,8 @@ def _storey_range(
             f.error(
                 t.name,
                 _at(df, key, rec.row),
-                f"found {show(name)}; expected a storey name from the {layout.STOREYS.name} sheet",
+                f"found {show(name)}; expected a storey name from the {layout.STOREYS.name} sheet"
+                + did_you_mean(name, index),
             )
     if lo is None or hi is None:
         return None
@@ -500,26 +519,48 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
     return out
 
 
+def _unsound_ids(df: pd.DataFrame | None, walls: list[WallRun]) -> set[str] | None:
+    """Wall IDs with a row that did not parse or was refused (None: the sheet did not parse)."""
+    if df is None:
+        return None
+    bad = df.drop(columns=["row"]).isna().any(axis=1) & df.wall_id.notna()
+    good = {w.wall_id for w in walls}
+    return set(df.wall_id[bad]) | (set(df.wall_id.dropna()) - good)
+
+
 def _openings(
-    df: pd.DataFrame | None, storeys: list[Storey], walls: list[WallRun], f: Findings
+    df: pd.DataFrame | None,
+    storeys: list[Storey],
+    walls: list[WallRun],
+    f: Findings,
+    unsound: set[str] | None = frozenset(),
 ) -> list[Opening]:
+    """Openings checked against every wall that parsed; only openings in a wall with a bad
+    row (whose extent is unknown) are skipped, so a typing error in one wall does not hide an
+    opening that overruns another."""
     t = layout.OPENINGS
-    if df is None or df.empty:
+    if df is None or df.empty or unsound is None or not walls:
         return []
     index = {s.name: s.index for s in storeys}
-    if any(e.sheet == layout.WALLS.name for e in f.errors):
-        return []  # openings are checked against walls only once the walls are sound
+    if any(
+        e.sheet == layout.WALLS.name and ("overlap" in e.message or "no row for" in e.message)
+        for e in f.errors
+    ):
+        return []  # storey ranges of walls unsound: where a wall stands is not known
     runs = geometry.run_at(walls, storeys) if storeys else {}
     wall_ids = {w.wall_id for w in walls}
     out: list[Opening] = []
     placed: dict[tuple[int, str], list[tuple[float, float, int]]] = defaultdict(list)
     for rec in df.itertuples(index=False):
         c = lambda key, r=rec.row: _at(df, key, r)  # noqa: E731
+        if rec.wall_id in unsound:
+            continue  # its wall has a bad cell: checked once that is fixed
         if rec.wall_id is not None and wall_ids and rec.wall_id not in wall_ids:
             f.error(
                 t.name,
                 c("wall_id"),
-                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet",
+                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet"
+                + did_you_mean(rec.wall_id, wall_ids),
             )
             continue
         rng = _storey_range(rec, df, t, index, f)
@@ -628,7 +669,8 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
-                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
+                + did_you_mean(rec.storey, index),
             )
             continue
         if None in (rec.storey, rec.member, rec.combination) or members is None:
@@ -639,8 +681,8 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
             f.error(
                 t.name,
                 _at(df, "member", rec.row),
-                f"found {show(rec.member)}; no such wall, pier or lintel at storey {rec.storey} "
-                f"(members there: {listed})",
+                f"found {show(rec.member)}; no such wall, pier or lintel at storey {rec.storey}"
+                + (did_you_mean(rec.member, here) or f" (members there: {listed})"),
             )
             continue
         key = (rec.storey, rec.combination, rec.member)
@@ -735,7 +777,8 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
-                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
+                + did_you_mean(rec.storey, index),
             )
             continue
         key = (rec.storey, rec.combination)
@@ -748,3 +791,36 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
             )
         seen.setdefault(key, rec.row)
     return df
+
+
+def _combination_warnings(member: pd.DataFrame, core: pd.DataFrame, f: Findings) -> None:
+    """Combination names that differ only by case or spacing (likely one combination typed two
+    ways), and combinations given at some storeys only (over both action sheets)."""
+    frames = [d[["storey", "combination"]] for d in (member, core) if len(d)]
+    if not frames:
+        return
+    both = pd.concat(frames, ignore_index=True).dropna()
+    names = sorted(set(both.combination))
+    groups: dict[str, list[str]] = defaultdict(list)
+    for n in names:
+        groups[re.sub(r"\s+", "", str(n)).lower()].append(n)
+    for spelled in groups.values():
+        if len(spelled) > 1:
+            f.warning(
+                layout.MEMBER_ACTIONS.name,
+                None,
+                "combinations " + ", ".join(repr(n) for n in spelled) + " differ only by case or "
+                "spacing; xlcore treats them as different combinations (use one spelling if they are one)",
+            )
+    storeys = set(both.storey)
+    at = both.groupby("combination").storey.agg(lambda s: set(s))
+    for name, where in at.items():
+        if where != storeys:
+            missing = sorted(storeys - where)
+            f.warning(
+                layout.MEMBER_ACTIONS.name,
+                None,
+                f"combination {name!r} is given at {len(where)} of {len(storeys)} storeys (not at "
+                f"{', '.join(missing[:6])}{' ...' if len(missing) > 6 else ''}): those storeys are "
+                "not checked for it",
+            )

@@ -14,14 +14,15 @@ from dataclasses import dataclass
 import numpy as np
 from openpyxl.utils import get_column_letter
 
+from xlcore import results
 from xlcore.results import ResultSheet
 
 NS = 'xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"'
 NS_R = 'xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships"'
 _ILLEGAL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
 MAX_TEXT = 32767
-# Our own colour scale for utilisation: sage below, sand near, brick at and above 1.0.
-SCALE = (("0", "FFD8E8D0"), ("0.85", "FFF3DFA2"), ("1", "FFE3907F"))
+LINE_HEIGHT = 15.0  # points per line of 11 pt text
+PRINT_CAUTION = "An aid to a qualified engineer: check it; local codes and licensed practice govern."
 
 
 @dataclass(frozen=True)
@@ -33,6 +34,9 @@ class Styles:
     label: int
     header: int
     number: dict[str, int]  # number format code -> xf index
+    text: int = 0  # short text in a table cell (top aligned, beside wrapped text)
+    wrap: int = 0  # long text in a table cell, wrapped within its column
+    bands: tuple[int, ...] = ()  # dxf index per results.BANDS entry (conditional formats)
 
 
 def text(s: object) -> str:
@@ -98,7 +102,127 @@ def split(sheet: ResultSheet, row_limit: int | None = None) -> list[ResultSheet]
 
 
 def _header_row(sheet: ResultSheet, extra: int = 0) -> int:
-    return 1 + len(sheet.preamble) + extra + 2
+    return 1 + len(lines(sheet)) + extra + 2
+
+
+def lines(sheet: ResultSheet) -> list[tuple[str, object]]:
+    """The lines above the table: the sheet's preamble, and the colour key where it has bands."""
+    out = list(sheet.preamble)
+    if any(c.banded for c in sheet.columns):
+        out.append(("Colours", "; ".join(f"{name}: {meaning}" for name, meaning, _, _ in results.BANDS)))
+    return out
+
+
+def width(c: results.ResultColumn) -> float:
+    """Column width: the declared one, widened so that no header word breaks mid-word."""
+    longest = max((len(w) for w in c.title.split()), default=0)
+    return max(c.width, round(longest * 1.2 + 1.5, 1))
+
+
+def _wrapped_lines(text: str, w: float) -> int:
+    """Lines a text takes when wrapped at word boundaries in a column `w` characters wide."""
+    n, used = 1, 0
+    room = max(1, int(w * 0.95))
+    for word in text.split():
+        need = len(word) + (1 if used else 0)
+        if used + need > room and used:
+            n += 1 + (len(word) - 1) // room
+            used = len(word) % room or room
+        else:
+            used += need
+    return n
+
+
+def id_columns(sheet: ResultSheet) -> int:
+    """How many leading columns identify a row (storey, pier, ...): repeated on every page."""
+    n = 0
+    for c in sheet.columns:
+        if c.key not in results.ID_KEYS:
+            break
+        n += 1
+    return max(n, 1)
+
+
+def _quoted(name: str) -> str:
+    return "'" + name.replace("'", "''") + "'"
+
+
+def print_titles(sheet: ResultSheet) -> str:
+    """The sheet-scoped `_xlnm.Print_Titles` value: identifying columns and the header row."""
+    q = _quoted(sheet.name)
+    last = get_column_letter(id_columns(sheet))
+    r = _header_row(sheet)
+    return f"{q}!$A:${last},{q}!${r}:${r}"
+
+
+def _hf(text: object) -> str:
+    """Text inside a header/footer: '&' starts a code there, so it is doubled."""
+    return str(text).replace("&", "&&")
+
+
+def header_footer(sheet: ResultSheet) -> str:
+    """Printed header (project, sheet name, stamp) and footer (caution, page x of y)."""
+    pre = dict(sheet.preamble)
+    project = pre.get("Project") or "xlcore"
+    stamp = " ".join(
+        str(v)
+        for v in (
+            f"xlcore {pre['xlcore version']}" if "xlcore version" in pre else "",
+            pre.get("Computed (UTC)", ""),
+            f"hash {str(pre[results.STAMP_HASH_LABEL])[:12]}" if results.STAMP_HASH_LABEL in pre else "",
+        )
+        if v
+    )
+    head = f'&L&"-,Bold"{_hf(project)[:80]}&C{_hf(sheet.name)}&R{_hf(stamp)[:90]}'
+    foot = f"&L{_hf(PRINT_CAUTION)}&RPage &P of &N"
+    return (
+        f'<headerFooter differentFirst="0"><oddHeader>{text(head)}</oddHeader>'
+        f"<oddFooter>{text(foot)}</oddFooter></headerFooter>"
+    )
+
+
+def _bands(sheet: ResultSheet, styles: Styles, letters: list[str], first: int, last_row: int) -> str:
+    """Conditional formats: discrete bands on every utilisation column, and the status cell
+    beside one in the band of its utilisation (red wherever it says FAIL)."""
+    if len(styles.bands) != len(results.BANDS):
+        return ""
+    keys = [c.key for c in sheet.columns]
+    comfortable, close, over = styles.bands
+    out, prio = [], 1
+    lim = f"{results.CLOSE:g}"
+
+    def rule(letter: str, dxf: int, formula: str) -> str:
+        nonlocal prio
+        prio += 1
+        return (
+            f'<cfRule type="expression" dxfId="{dxf}" priority="{prio - 1}" stopIfTrue="1">'
+            f"<formula>{text(formula)}</formula></cfRule>"
+        )
+
+    for j, c in enumerate(sheet.columns):
+        if not c.banded:
+            continue
+        ref = f"{letters[j]}{first}"
+        out.append(
+            f'<conditionalFormatting sqref="{letters[j]}{first}:{letters[j]}{last_row}">'
+            + rule(letters[j], over, f"AND(ISNUMBER({ref}),{ref}>1)")
+            + rule(letters[j], close, f"AND(ISNUMBER({ref}),{ref}>{lim})")
+            + rule(letters[j], comfortable, f"ISNUMBER({ref})")
+            + "</conditionalFormatting>"
+        )
+    for status_key, util_key in (("status", "util"), ("status_s", "util_s")):
+        if status_key not in keys:
+            continue
+        s_letter = letters[keys.index(status_key)]
+        s_ref = f"${s_letter}{first}"
+        u_ref = f"${letters[keys.index(util_key)]}{first}" if util_key in keys else None
+        rules = rule(s_letter, over, f'{s_ref}="{results.FAIL}"')
+        if u_ref:
+            rules += rule(s_letter, close, f'AND({s_ref}="{results.PASS}",ISNUMBER({u_ref}),{u_ref}>{lim})')
+        rules += rule(s_letter, comfortable, f'{s_ref}="{results.PASS}"')
+        sqref = f"{s_letter}{first}:{s_letter}{last_row}"
+        out.append(f'<conditionalFormatting sqref="{sqref}">{rules}</conditionalFormatting>')
+    return "".join(out)
 
 
 def sheet_pieces(
@@ -116,18 +240,19 @@ def sheet_pieces(
     held, once it has been taken."""
     cols = sheet.columns
     letters = [get_column_letter(j + 1) for j in range(len(cols))]
+    widths_of = [width(c) for c in cols]
     header_row = _header_row(sheet)
     n = len(sheet.table)
     first = header_row + 1
     last_row = max(first + n - 1, header_row)
     last_col = letters[-1]
     widths = "".join(
-        f'<col min="{j + 1}" max="{j + 1}" width="{c.width:g}" customWidth="1"/>' for j, c in enumerate(cols)
+        f'<col min="{j + 1}" max="{j + 1}" width="{w:g}" customWidth="1"/>' for j, w in enumerate(widths_of)
     )
     head = [
         '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n',
         f"<worksheet {NS} {NS_R}>",
-        f'<sheetPr><tabColor rgb="{tab_rgb}"/></sheetPr>',
+        f'<sheetPr><tabColor rgb="{tab_rgb}"/><pageSetUpPr fitToPage="1"/></sheetPr>',
         f'<dimension ref="A1:{last_col}{last_row}"/>',
         '<sheetViews><sheetView workbookViewId="0">',
         f'<pane ySplit="{header_row}" topLeftCell="A{first}" activePane="bottomLeft" state="frozen"/>',
@@ -139,13 +264,22 @@ def sheet_pieces(
         f'<row r="1">{_str_cell("A1", sheet.title, styles.title)}</row>',
     ]
     r = 1
-    for label, value in sheet.preamble:
+    total = sum(widths_of)
+    merges = []
+    for label, value in lines(sheet):
         r += 1
-        # one text cell per line, so it reads in full across the empty cells to its right
+        # one text cell per line, merged across the table's width and wrapped there, so it
+        # reads (and prints) in full within the page
         style = styles.caution if label == "CAUTION" else styles.label
-        head.append(f'<row r="{r}">{_str_cell(f"A{r}", f"{label}: {value}", style)}</row>')
+        line = f"{label}: {value}"
+        k = _wrapped_lines(line, total)
+        ht = f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else ""
+        head.append(f'<row r="{r}"{ht}>{_str_cell(f"A{r}", line, style)}</row>')
+        if len(cols) > 1:
+            merges.append(f'<mergeCell ref="A{r}:{last_col}{r}"/>')
+    k = max(_wrapped_lines(c.title, w) for c, w in zip(cols, widths_of, strict=True))
     head.append(
-        f'<row r="{header_row}" ht="45" customHeight="1">'
+        f'<row r="{header_row}" ht="{LINE_HEIGHT * k + 4:g}" customHeight="1">'
         + "".join(_str_cell(f"{letters[j]}{header_row}", c.title, styles.header) for j, c in enumerate(cols))
         + "</row>"
     )
@@ -158,30 +292,40 @@ def sheet_pieces(
             columns.append(None)
     for lo in range(0, n, CHUNK):
         hi = min(n, lo + CHUNK)
-        template, values = _row_template(cols, letters, styles, columns, lo, hi, first)
+        template, values = _row_template(cols, letters, styles, columns, lo, hi, first, widths_of)
         yield "".join(map(template.format, range(first + lo, first + hi), *values)).encode("utf-8")
         if on_rows:
             on_rows(hi - lo)
     tail = ["</sheetData>", f'<autoFilter ref="A{header_row}:{last_col}{last_row}"/>']
-    if sheet.scale_key and sheet.scale_key in [c.key for c in cols] and n:
-        letter = letters[[c.key for c in cols].index(sheet.scale_key)]
-        cfvo = "".join(f'<cfvo type="num" val="{v}"/>' for v, _ in SCALE)
-        colors = "".join(f'<color rgb="{rgb}"/>' for _, rgb in SCALE)
-        tail.append(
-            f'<conditionalFormatting sqref="{letter}{first}:{letter}{last_row}">'
-            f'<cfRule type="colorScale" priority="1"><colorScale>{cfvo}{colors}'
-            "</colorScale></cfRule></conditionalFormatting>"
-        )
-    tail.append('<pageMargins left="0.5" right="0.5" top="0.75" bottom="0.75" header="0.3" footer="0.3"/>')
-    tail.append('<pageSetup orientation="landscape" paperSize="9"/>')
+    if merges:
+        tail.append(f'<mergeCells count="{len(merges)}">{"".join(merges)}</mergeCells>')
+    if n:
+        tail.append(_bands(sheet, styles, letters, first, last_row))
+    # print: landscape A4, every column on one page width, as many pages down as it takes
+    tail.append('<printOptions horizontalCentered="0"/>')
+    tail.append('<pageMargins left="0.4" right="0.4" top="0.75" bottom="0.75" header="0.3" footer="0.3"/>')
+    tail.append('<pageSetup paperSize="9" orientation="landscape" fitToWidth="1" fitToHeight="0"/>')
+    tail.append(header_footer(sheet))
     tail.append("</worksheet>")
     yield "".join(tail).encode("utf-8")
 
 
-def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, first: int):
-    """`str.format` template of one table row ({0} is the row number) and its column values."""
-    parts = ['<row r="{0}">']
-    values: list[list] = []
+def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, first: int, widths_of=None):
+    """`str.format` template of one table row ({0} is the row number) and its column values.
+    Rows whose long text wraps get a height for the lines it takes ({1})."""
+    widths_of = widths_of or [c.width for c in cols]
+    parts = ['<row r="{0}"{1}>']
+    heights = np.ones(hi - lo, dtype=int)
+    for j, c in enumerate(cols):
+        if c.wraps and columns[j] is not None:
+            room = max(1.0, widths_of[j] * 0.95)
+            lengths = np.fromiter(
+                (len(v) if type(v) is str else 0 for v in columns[j][lo:hi]), dtype=float, count=hi - lo
+            )
+            heights = np.maximum(heights, np.ceil(lengths / room).astype(int))
+    values: list[list] = [
+        [f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else "" for k in heights.tolist()]
+    ]
     for j, c in enumerate(cols):
         arr = columns[j]
         k = len(values) + 1
@@ -209,14 +353,16 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
             continue
         vals = chunk.tolist()
         kinds = set(map(type, vals))
+        style = styles.wrap if c.wraps else styles.text
+        st = f' s="{style}"' if style else ""
         if kinds == {str} and "" not in vals:
             cache: dict[str, str] = {}
             parts.append(
-                f'<c r="{letter}{{0}}" t="inlineStr"><is><t xml:space="preserve">{{{k}}}</t></is></c>'
+                f'<c r="{letter}{{0}}" t="inlineStr"{st}><is><t xml:space="preserve">{{{k}}}</t></is></c>'
             )
             values.append([cache[v] if v in cache else cache.setdefault(v, text(v)) for v in vals])
         else:
             parts.append(f"{{{k}}}")
-            values.append([_cell(f"{letter}{first + lo + i}", v) for i, v in enumerate(vals)])
+            values.append([_cell(f"{letter}{first + lo + i}", v, style) for i, v in enumerate(vals)])
     parts.append("</row>")
     return "".join(parts), values

@@ -27,6 +27,10 @@ TITLE_FONT = Font(bold=True, size=14)
 THIN = Side(style="thin", color="C9BFAE")
 INPUT_BORDER = Border(left=THIN, right=THIN, top=THIN, bottom=THIN)
 FIXED_TIME = dt.datetime(2026, 1, 1)  # stable document properties, so the template is reproducible
+# Input cells show what was typed: a fixed format such as "0" would show 0.25 typed in a mm
+# column as 0 and hide the slip (xlcore's own checks still catch it, with a unit hint).
+INPUT_FORMAT = "General"
+LAST_ROW = 1_048_576  # validation covers every row an engineer may fill (one range, small file)
 
 
 def write_template(path: Path, example: bool = False) -> None:
@@ -111,18 +115,18 @@ def _table(ws, t: TableSheet, rows: list[dict]) -> None:
             v = rec.get(c.key)
             if v is not None:
                 ws.cell(i, j, v)
-    last = t.max_rows + 1
+    last = LAST_ROW
     for j, c in enumerate(t.columns, start=1):
         letter = get_column_letter(j)
         dim = ws.column_dimensions[letter]
         dim.fill, dim.border = INPUT_FILL, INPUT_BORDER  # whole column styled: small file
         if c.kind in (Kind.NUMBER, Kind.INTEGER):
-            dim.number_format = c.number_format
+            dim.number_format = INPUT_FORMAT
         for i in range(2, len(rows) + 2):
             cell = ws.cell(i, j)
             cell.fill, cell.border = INPUT_FILL, INPUT_BORDER
             if c.kind in (Kind.NUMBER, Kind.INTEGER):
-                cell.number_format = c.number_format
+                cell.number_format = INPUT_FORMAT
         dv = _validation(c, t.name)
         if dv is not None:
             dv.add(f"{letter}2:{letter}{last}")
@@ -138,7 +142,7 @@ def _list_source(kind: Kind) -> str | None:
     else:
         return None
     letter = get_column_letter(t.keys.index(key) + 1)
-    return f"{sheet_ref(t.name)}!${letter}$2:${letter}${t.max_rows + 1}"
+    return f"{sheet_ref(t.name)}!${letter}$2:${letter}${LAST_ROW}"
 
 
 def _validation(c: Column, sheet: str) -> DataValidation | None:

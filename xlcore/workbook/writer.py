@@ -31,6 +31,7 @@ from pathlib import Path
 
 from lxml import etree
 
+from xlcore import results
 from xlcore.diagnostics import FileProblem
 from xlcore.layout import RESULT_PREFIX
 from xlcore.progress import SILENT, Reporter
@@ -46,7 +47,7 @@ from xlcore.workbook.package import (
     part_path,
     read_xml,
 )
-from xlcore.workbook.sheetxml import Styles, sheet_pieces, split
+from xlcore.workbook.sheetxml import Styles, print_titles, sheet_pieces, split
 
 WORKSHEET_CT = "application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"
 CALC_CHAIN_REL = NS_REL + "/calcChain"
@@ -448,6 +449,7 @@ def _build(
     gone = removed - {s.name.casefold() for s in sheets}
     _update_names(wb, keep_positions, gone, [s.name for s in sheets])
 
+    add_print_titles(wb, len(sheets_el) - len(sheets), sheets)
     changed = {
         wb_part: _xml(wb),
         rels_part: _xml(rels),
@@ -546,6 +548,38 @@ def _update_names(wb: etree._Element, keep: dict[int, int], gone: set[str], ours
             for attr in ("activeTab", "firstSheet"):
                 if v.get(attr) is not None:
                     v.set(attr, str(keep.get(int(v.get(attr)), 0)))
+
+
+PRINT_TITLES = "_xlnm.Print_Titles"
+_AFTER_NAMES = (
+    "calcPr",
+    "oleSize",
+    "customWorkbookViews",
+    "pivotCaches",
+    "smartTagPr",
+    "smartTagTypes",
+    "webPublishing",
+    "fileRecoveryPr",
+    "webPublishObjects",
+    "extLst",
+)
+
+
+def add_print_titles(wb: etree._Element, first: int, sheets: list[ResultSheet]) -> None:
+    """A sheet-scoped `_xlnm.Print_Titles` for each result sheet (header row and identifying
+    columns repeated on every printed page). `first` is the position of the first result
+    sheet in the sheet list; earlier names scoped to result sheets were dropped with them."""
+    names = wb.find(f"{M}definedNames")
+    if names is None:
+        names = etree.Element(f"{M}definedNames")
+        anchor = next((wb.find(f"{M}{t}") for t in _AFTER_NAMES if wb.find(f"{M}{t}") is not None), None)
+        if anchor is not None:
+            anchor.addprevious(names)
+        else:
+            wb.append(names)
+    for i, sheet in enumerate(sheets):
+        el = etree.SubElement(names, f"{M}definedName", name=PRINT_TITLES, localSheetId=str(first + i))
+        el.text = print_titles(sheet)
 
 
 def _a1_texts(
@@ -759,14 +793,25 @@ def _add_styles(root: etree._Element | None, formats: list[str]) -> tuple[bytes,
         numfmts.set("count", str(len(numfmts)))
         return new_id
 
-    def xf(num: int = 0, font: int = 0, fill: int = 0, wrap: bool = False) -> int:
+    def xf(num: int = 0, font: int = 0, fill: int = 0, wrap: bool = False, top: bool = False) -> int:
         attrs = f'numFmtId="{num}" fontId="{font}" fillId="{fill}" borderId="0" xfId="0"'
         attrs += (
             f' applyNumberFormat="{int(num > 0)}" applyFont="{int(font > 0)}" applyFill="{int(fill > 0)}"'
         )
         inner = '<alignment wrapText="1" vertical="top"/>' if wrap else ""
-        attrs += ' applyAlignment="1"' if wrap else ""
+        inner = inner or ('<alignment vertical="top"/>' if top else "")
+        attrs += ' applyAlignment="1"' if inner else ""
         return _intern(xfs, f"<xf {attrs}>{inner}</xf>" if inner else f"<xf {attrs}/>")
+
+    dxfs = _child(root, "dxfs", before=("tableStyles", "colors", "extLst"))
+    bands = tuple(
+        _intern(
+            dxfs,
+            f'<dxf><font><color rgb="{font_rgb}"/></font><fill><patternFill patternType="solid">'
+            f'<fgColor rgb="{fill_rgb}"/><bgColor rgb="{fill_rgb}"/></patternFill></fill></dxf>',
+        )
+        for _, _, font_rgb, fill_rgb in results.BANDS
+    )
 
     bold = _intern(fonts, '<font><b/><sz val="11"/><name val="Calibri"/></font>')
     title = _intern(fonts, '<font><b/><sz val="14"/><name val="Calibri"/></font>')
@@ -779,10 +824,13 @@ def _add_styles(root: etree._Element | None, formats: list[str]) -> tuple[bytes,
     )
     styles = Styles(
         title=xf(font=title),
-        caution=xf(font=warn),
-        label=xf(font=bold),
+        caution=xf(font=warn, wrap=True),
+        label=xf(font=bold, wrap=True),
         header=xf(font=white, fill=slate, wrap=True),
-        number={code: xf(num=fmt_id(code)) for code in dict.fromkeys(formats)},
+        number={code: xf(num=fmt_id(code), top=True) for code in dict.fromkeys(formats)},
+        text=xf(top=True),
+        wrap=xf(wrap=True),
+        bands=bands,
     )
     if len(numfmts) == 0:
         root.remove(numfmts)
