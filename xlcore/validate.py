@@ -19,6 +19,9 @@ from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
 
 NUMBER_TEXT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
 NUMBER_WITH_UNIT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)\s*[^\d\s.].*$")
+THOUSANDS = re.compile(r"^[+-]?\d{1,3}(,\d{3})+(\.\d*)?$")
+DECIMAL_COMMA = re.compile(r"^[+-]?\d*,\d+$")
+INVISIBLE = re.compile("[\u00a0\u00ad\u200b-\u200f\u2060\ufeff\u202f]")
 REQUIRED_OPENING = {c.key for c in layout.OPENINGS.columns if c.required}
 LEVEL_TOL = 0.005  # m: storey levels and heights must agree within 5 mm
 
@@ -71,6 +74,16 @@ def _number(v: object, col: Column) -> tuple[float | None, str | None]:
             return None, f"found the error value {s}; expected {col.expectation()} (fix the formula)"
         if NUMBER_TEXT.match(s):
             x = float(s)
+        elif THOUSANDS.match(s):
+            return None, (
+                f"found {show(v)}; expected {col.expectation()}: a thousands separator (or a decimal "
+                "comma) is not read; enter the digits only, with a full stop for decimals"
+            )
+        elif DECIMAL_COMMA.match(s):
+            return None, (
+                f"found {show(v)}; expected {col.expectation()}: a decimal comma is not read; write "
+                f"{s.replace(',', '.')} with a full stop"
+            )
         elif NUMBER_WITH_UNIT.match(s):
             return None, (
                 f"found {show(v)}; expected {col.expectation()}: enter the number only, the unit "
@@ -90,6 +103,23 @@ def _number(v: object, col: Column) -> tuple[float | None, str | None]:
     if col.kind is Kind.INTEGER and not x.is_integer():
         return None, f"found {show(v)}; expected {col.expectation()}"
     return x, _range_problem(x, col, v)
+
+
+def near_miss(found: object, known) -> str:
+    """' (differs from X only by case / by an invisible character)' when `found` is a known name
+    but for that; else ''. Such slips look right on screen and so are hard to see."""
+    if not isinstance(found, str):
+        return ""
+    names = list(known)
+    plain = INVISIBLE.sub("", found).replace("\u00a0", " ")
+    if plain != found and plain in names:
+        return (
+            f" (it differs from {plain!r} by an invisible character such as a no-break or zero-width space)"
+        )
+    low = {n.lower(): n for n in names if isinstance(n, str)}
+    if plain.lower() in low:
+        return f" (it differs from {low[plain.lower()]!r} only by case)"
+    return ""
 
 
 def _outside(x, col: Column):
@@ -605,7 +635,8 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
-                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
+                + near_miss(rec.storey, index),
             )
             continue
         if None in (rec.storey, rec.member, rec.combination) or members is None:
@@ -617,7 +648,7 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
                 t.name,
                 _at(df, "member", rec.row),
                 f"found {show(rec.member)}; no such wall, pier or lintel at storey {rec.storey} "
-                f"(members there: {listed})",
+                f"(members there: {listed})" + near_miss(rec.member, here),
             )
             continue
         key = (rec.storey, rec.combination, rec.member)
@@ -712,7 +743,8 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
-                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet",
+                f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
+                + near_miss(rec.storey, index),
             )
             continue
         key = (rec.storey, rec.combination)

@@ -295,7 +295,7 @@ def _resolve_formulas(path: Path, sheets: dict[str, RawSheet], names: set[str], 
         wb.close()
     if not pending:
         return
-    solved = _evaluate(path)
+    solved = _evaluate(path, set(layout.INPUT_SHEET_NAMES))
     for (name, r, c), formula in pending.items():
         key = f"{name.upper()}!{cell_name(c, r)}"
         value = solved.get(key, _Unsolved)
@@ -315,12 +315,55 @@ class _Unsolved:
     pass
 
 
-def _evaluate(path: Path) -> dict[str, object]:
-    """Evaluate the workbook's formulas with the `formulas` library: 'SHEET!A1' -> value."""
+EMPTY_SHEET = (
+    b'<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData/></worksheet>'
+)
+
+
+def _slim_copy(path: Path, inputs: set[str], dst: Path) -> Path:
+    """A copy of the package in which only the input sheets, and the sheets their formulas name
+    (followed to closure), keep their cells; every other sheet (result sheets above all) is
+    empty, so evaluating the formulas costs what the inputs cost, not the whole workbook."""
+    import zipfile
+
+    with open_package(path) as zf:
+        parts = sheet_parts(zf)
+        keep = {n for n in inputs if n in parts}
+        todo = list(keep)
+        while todo:
+            part = parts[todo.pop()]
+            xml = read_part(zf, part, path) if part in zf.namelist() else b""
+            for name in parts:
+                if name in keep:
+                    continue
+                quoted = "'" + name.replace("'", "''") + "'"
+                if any(f"{form}!".encode() in xml for form in (name, quoted, quoted.replace("'", "&apos;"))):
+                    keep.add(name)
+                    todo.append(name)
+        drop = {part for name, part in parts.items() if name not in keep}
+        with zipfile.ZipFile(dst, "w", zipfile.ZIP_DEFLATED) as out:
+            for info in zf.infolist():
+                out.writestr(
+                    info.filename,
+                    EMPTY_SHEET if info.filename in drop else read_part(zf, info.filename, path),
+                )
+    return dst
+
+
+def _evaluate(path: Path, inputs: set[str]) -> dict[str, object]:
+    """Evaluate the formulas of the input sheets (and of what they reference) with the
+    `formulas` library: 'SHEET!A1' -> value."""
+    import tempfile
+
     try:
         import formulas  # imported here: slow to import and needed only for such files
     except ImportError:  # pragma: no cover - it is a declared dependency
         return {}
+    with tempfile.TemporaryDirectory(prefix="xlcore-eval-") as tmp:
+        return _solve(formulas, _slim_copy(path, inputs, Path(tmp) / "inputs.xlsx"))
+
+
+def _solve(formulas, path: Path) -> dict[str, object]:
     try:
         with contextlib.redirect_stderr(io.StringIO()), warnings.catch_warnings():
             warnings.simplefilter("ignore")
