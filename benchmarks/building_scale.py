@@ -104,7 +104,7 @@ def measure(path: str) -> dict:
     o = pipeline.compute(b, f)
     out |= o.timings
     t = time.perf_counter()
-    write_results(src, src.with_name("out.xlsx"), o.sheets, force=True)
+    write_results(src, src.with_name("out.xlsx"), o.sheets, force=True, overwrite=True)
     out["write"] = time.perf_counter() - t
     out["peak_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     out["cells"] = sum(len(s.table) * len(s.columns) for s in o.sheets)

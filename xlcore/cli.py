@@ -7,7 +7,7 @@ Exit codes: 0 done, 1 invalid input (nothing written), 2 file or usage problem,
 from __future__ import annotations
 
 from collections.abc import Iterator
-from contextlib import contextmanager
+from contextlib import contextmanager, nullcontext
 from pathlib import Path
 from typing import Annotated
 
@@ -20,7 +20,7 @@ from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
 from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
 from xlcore.workbook.template import write_template
-from xlcore.workbook.writer import backup_path, write_results
+from xlcore.workbook.writer import check_target, workbook_lock, write_results
 
 app = typer.Typer(
     add_completion=False,
@@ -216,6 +216,13 @@ def compute(
     force: Annotated[
         bool, typer.Option("--force", help="Write even if a lock file says the workbook is open.")
     ] = False,
+    overwrite: Annotated[
+        bool,
+        typer.Option(
+            "--overwrite",
+            help="Replace an existing --output file, or a read-only workbook (a backup is kept).",
+        ),
+    ] = False,
     strict: Annotated[bool, typer.Option("--strict", help="Exit with 3 when any member fails.")] = False,
     quiet: Quiet = False,
 ) -> None:
@@ -226,10 +233,15 @@ def compute(
         raise typer.Exit(EXIT_FILE)
     _folder_must_exist(target, create=True)
     with _exits("nothing was written"), _progress(quiet) as reporter:
-        building, findings = pipeline.load(path, reporter)
-        outcome = pipeline.compute(building, findings, reporter=reporter)
-        target.parent.mkdir(parents=True, exist_ok=True)
-        write_results(path, target, outcome.sheets, force=force, reporter=reporter)
+        # held from the start, so a second compute of the same file refuses before it works
+        with workbook_lock(target) if target.parent.is_dir() else nullcontext():
+            check_target(path, target, force=force, overwrite=overwrite)
+            building, findings = pipeline.load(path, reporter)
+            outcome = pipeline.compute(building, findings, reporter=reporter)
+            target.parent.mkdir(parents=True, exist_ok=True)
+            backup = write_results(
+                path, target, outcome.sheets, force=force, reporter=reporter, overwrite=overwrite
+            )
     _report(findings)
     s = outcome.summary
     typer.echo(
@@ -244,8 +256,8 @@ def compute(
             f"worst: {w.pier_id} at {w.storey}, {w.combination}, utilisation {w.util:.3f} ({w.clause})"
         )
     typer.echo(f"results written to sheets: {', '.join(sh.name for sh in outcome.sheets)}")
-    if target == path:
-        typer.echo(f"previous version kept as {backup_path(path).name}")
+    if backup is not None:
+        typer.echo(f"previous version of {target.name} kept as {backup}")
     typer.echo(f"note: {CAUTION}")
     if strict and outcome.failing:
         raise typer.Exit(EXIT_FAILING)

@@ -18,6 +18,8 @@ from xlcore.stiffness import pier_stiffness, with_stiffness  # noqa: F401  (part
 COMPOSITE = "composite section"
 FROM_SHEAR = "pier moments from shear"
 WALL_NM_METHODS = (COMPOSITE, FROM_SHEAR)
+LOCAL_BESIDE_OPENINGS = "add V* h/2 beside openings"  # layout.CORE_LOCAL_MOMENT[0]
+CORE_PIER_EXTRA = ["m_curv", "m_local", "m_oop"]  # core path: own bending, V* h/2, across the wall
 
 ACTION_COLUMNS = [
     "row",
@@ -191,13 +193,19 @@ def core_actions_to_piers(
     plans: dict[str, StoreyPlan],
     core: pd.DataFrame,
     accidental: float = 0.0,
+    local_moment: str = LOCAL_BESIDE_OPENINGS,
 ) -> CoreSharing:
     """Share each storey's core resultants among walls (rigid diaphragm) and then piers.
 
     `piers` with stiffness (`with_stiffness`), `walls` from `stiffness.wall_stiffness`, `plans`
     from `storey_plans`, `core` the core-actions rows. Pier N* from the core's elastic stress
     N/A +- bending integrated over the pier's net area; pier V* = wall force x pier stiffness
-    share; pier M* = V* h / 2 (contraflexure at mid-height of the pier's free height).
+    share; pier M* = its own in-plane moment from the core's curvature, the stress plane's
+    moment over the pier's own net area about its own centroid (M_i = M_core I_i / I_core per
+    direction, resolved into the wall's plane), plus V* h / 2 (contraflexure over the pier's
+    free height) for piers beside openings when `local_moment` asks for it. Statics: the pier
+    N* sum to N*, and sum N_i d_i + sum of own moments (in-plane and the small out-of-plane
+    part, column `m_oop`) give Mx*, My* about the section centroid (parallel-axis theorem).
     Accidental eccentricity: a fraction of the plan dimension across each shear component,
     added in the sense that increases each wall's force (so with it the wall forces no longer
     sum exactly to the storey shear).
@@ -225,6 +233,7 @@ def core_actions_to_piers(
         total = base.direct + torsion
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
+        m_in, m_oop = own_moments(plan.piece_moments, b, c, sp.ux.to_numpy(), sp.uy.to_numpy())
         walls_here = sw.wall_id.to_numpy()
         n_w, n_c, n_p = len(walls_here), len(cs), len(sp)
         wall_of_pier = pd.Index(walls_here).get_indexer(sp.wall_id)
@@ -257,17 +266,20 @@ def core_actions_to_piers(
         wall_v = total[wall_of_pier, :].T  # combos x piers
         v = wall_v * share[None, :]
         h = sp.h.to_numpy() / 1000
+        beside = (sp.position.to_numpy() > 0) & (local_moment == LOCAL_BESIDE_OPENINGS)
+        m_loc = np.where(beside[None, :], np.where(m_in.T >= 0, 1.0, -1.0) * np.abs(v) * h[None, :] / 2, 0.0)
+        m_pier = m_in.T + m_loc  # combos x piers
         pier_ids, pier_walls = sp.pier_id.to_numpy(), sp.wall_id.to_numpy()
         tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
         source = [
-            f"core: wall {w} {wv:.1f} kN x share {sh:.3f}; N* from core stress; M* = V* h/2 = {vv:.1f} x "
-            f"{hh:.3f} / 2"
-            for w, wv, sh, vv, hh in zip(
+            f"core: wall {w} {wv:.1f} kN x share {sh:.3f}; N* from core stress; M* = own share of core "
+            f"bending {mc:.1f}" + (f" + V* h/2 {ml:.1f} = {mc + ml:.1f} kNm" if ml else " kNm")
+            for w, wv, sh, mc, ml in zip(
                 tiled(pier_walls).tolist(),
                 wall_v.ravel().tolist(),
                 tiled(share).tolist(),
-                v.ravel().tolist(),
-                tiled(h).tolist(),
+                m_in.T.ravel().tolist(),
+                m_loc.ravel().tolist(),
                 strict=True,
             )
         ]
@@ -283,11 +295,33 @@ def core_actions_to_piers(
                 share=tiled(share),
                 n=n_piece.T.ravel(),
                 v=v.ravel(),
-                m=(v * h[None, :] / 2).ravel(),
+                m=m_pier.ravel(),
                 source=np.array(source, dtype=object),
+                m_curv=m_in.T.ravel(),
+                m_local=m_loc.ravel(),
+                m_oop=m_oop.T.ravel(),
             )
         )
-    return CoreSharing(stack(pier_rows, ACTION_COLUMNS), stack(wall_rows))
+    return CoreSharing(stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA), stack(wall_rows))
+
+
+def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np.ndarray]:
+    """Each piece's own moment of the stress plane sigma = a + b (x - xc) + c (y - yc) about
+    the piece's own centroid, split into the wall's plane and across it; pieces x planes.
+
+    My_i = int sigma (x - x_i) dA = b Iyy_i + c Ixy_i and Mx_i = int sigma (y - y_i) dA =
+    b Ixy_i + c Ixx_i with the piece's second moments about its own centroid: the same
+    curvature as the core, so M_i = M_core I_i / I_core per direction (ENGINEERING basis 6a;
+    elastic bending of a plane section, any strength-of-materials text). In-plane (positive
+    compresses the wall's end) = My_i ux + Mx_i uy; across the wall = Mx_i ux - My_i uy."""
+    area, qx, qy, ixx0, iyy0, ixy0 = (piece_moments[:, k : k + 1] for k in range(6))
+    safe = np.where(area > 0, area, 1.0)
+    xi, yi = np.where(area > 0, qx / safe, 0.0), np.where(area > 0, qy / safe, 0.0)
+    iyy, ixx, ixy = iyy0 - area * xi**2, ixx0 - area * yi**2, ixy0 - area * xi * yi
+    b, c = np.atleast_1d(b)[None, :], np.atleast_1d(c)[None, :]
+    my, mx = b * iyy + c * ixy, b * ixy + c * ixx
+    ux, uy = np.asarray(ux)[:, None], np.asarray(uy)[:, None]
+    return my * ux + mx * uy, mx * ux - my * uy
 
 
 def stack(parts: list[dict[str, np.ndarray]], columns: list[str] | None = None) -> pd.DataFrame:

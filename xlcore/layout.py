@@ -139,6 +139,7 @@ YES_NO = ("yes", "no")
 STANDARDS = ("AS 3600:2018",)
 HEIGHT_BASES = ("storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
+CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
 
 INSTRUCTIONS_SHEET = "Read me"
 
@@ -200,6 +201,18 @@ PROJECT = SettingsSheet(
             "coupling through the lintels); 'pier moments from shear' gives each pier M* = V* h/2 "
             "and carries the rest of M* as an axial couple between the piers.",
             choices=("composite section", "pier moments from shear"),
+        ),
+        Setting(
+            "core_local_moment",
+            "Core actions: local pier moment",
+            None,
+            Kind.CHOICE,
+            CORE_LOCAL_MOMENT[0],
+            "Core actions only. Every pier and wall gets its own in-plane moment from the core's "
+            "curvature (M_i = M_core x I_i / I_core about its own centroid) and N* from the linear "
+            "stress. 'add V* h/2 beside openings' adds the contraflexure moment V* h/2 of a pier "
+            "between openings (in the sense that increases |M*|); 'none' leaves it out.",
+            choices=CORE_LOCAL_MOMENT,
         ),
         Setting(
             "accidental",

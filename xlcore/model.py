@@ -18,6 +18,7 @@ class Settings(BaseModel):
     pier_fixity: str = "fixed-fixed"
     wall_nm: str = "composite section"
     accidental: float = 0.0
+    core_local_moment: str = "add V* h/2 beside openings"
     phi_compression: float | None = None
     phi_simplified: float | None = None
     ends_restrained: str = "no"

@@ -321,7 +321,13 @@ def compute(
                     (
                         "Piers",
                         "V* = wall V* x k / sum k; N* = core stress N/A +- M y / I integrated "
-                        "over the pier; M* = V* h / 2 (contraflexure at mid-height)",
+                        "over the pier; M* = the pier's own share of the core's bending, M_core x "
+                        "I_pier / I_core about its own centroid, resolved into the wall's plane"
+                        + (
+                            " + V* h / 2 (contraflexure) for piers beside openings"
+                            if s.core_local_moment == distribution.LOCAL_BESIDE_OPENINGS
+                            else " (no V* h / 2 added: Project setting)"
+                        ),
                     ),
                     (
                         "Precedence",
@@ -344,7 +350,9 @@ def pier_actions(
     member["origin"] = 0
     if building.core_actions.empty:
         return member, None
-    core = distribution.core_actions_to_piers(piers, walls, plans, building.core_actions, s.accidental)
+    core = distribution.core_actions_to_piers(
+        piers, walls, plans, building.core_actions, s.accidental, s.core_local_moment
+    )
     # core-actions rows (one per storey x combination) whose pair the member actions cover
     ca = building.core_actions
     given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()

@@ -2,7 +2,9 @@
 the `uno` module (python3-uno); the project's virtual environment does not.
 
     lo_driver.py resave SRC DST                  open SRC, save as .xlsx DST
-    lo_driver.py type SRC DST SHEET CELL TEXT    type TEXT into SHEET!CELL (as keystrokes), save DST
+    lo_driver.py type SRC DST SHEET CELL TEXT [SHEET CELL TEXT ...]
+                                                 type each TEXT into SHEET!CELL (as keystrokes), save DST
+    lo_driver.py addsheet SRC DST NAME TEXT      insert a sheet NAME at the end with TEXT in A1, save DST
     lo_driver.py pdf SRC DST                     export SRC to PDF
     lo_driver.py read SRC SHEET CELL [CELL ...]  print each cell's value, one per line
 """
@@ -84,15 +86,25 @@ def main(argv: list[str]) -> int:
                 (prop("FilterName", "Calc MS Excel 2007 XML"),),
             )
         elif cmd == "type":
-            dst, sheet, cell, text = argv[2:6]
+            dst, triples = argv[2], argv[3:]
             frame = doc.getCurrentController().getFrame()
             dispatch = office.smgr.createInstanceWithContext("com.sun.star.frame.DispatchHelper", office.ctx)
-            col = "".join(ch for ch in cell if ch.isalpha())
-            row = "".join(ch for ch in cell if ch.isdigit())
-            target = f"$'{sheet}'.${col}${row}"
-            dispatch.executeDispatch(frame, ".uno:GoToCell", "", 0, (prop("ToPoint", target),))
-            dispatch.executeDispatch(frame, ".uno:EnterString", "", 0, (prop("StringName", text),))
+            for k in range(0, len(triples), 3):
+                sheet, cell, text = triples[k : k + 3]
+                col = "".join(ch for ch in cell if ch.isalpha())
+                row = "".join(ch for ch in cell if ch.isdigit())
+                target = f"$'{sheet}'.${col}${row}"
+                dispatch.executeDispatch(frame, ".uno:GoToCell", "", 0, (prop("ToPoint", target),))
+                dispatch.executeDispatch(frame, ".uno:EnterString", "", 0, (prop("StringName", text),))
             doc.calculateAll()
+            doc.storeToURL(
+                uno.systemPathToFileUrl(str(Path(dst).resolve())),
+                (prop("FilterName", "Calc MS Excel 2007 XML"),),
+            )
+        elif cmd == "addsheet":
+            dst, name, text = argv[2:5]
+            doc.Sheets.insertNewByName(name, doc.Sheets.getCount())
+            doc.Sheets.getByName(name).getCellRangeByName("A1").setString(text)
             doc.storeToURL(
                 uno.systemPathToFileUrl(str(Path(dst).resolve())),
                 (prop("FilterName", "Calc MS Excel 2007 XML"),),

@@ -1,18 +1,29 @@
 """Result sheets into the engineer's workbook, by editing the package surgically.
 
 Only four kinds of part change: xlcore's own result sheets (replaced), the workbook part and
-its relationships (which list sheets), the content-type index, and the style sheet (entries
-appended, never renumbered). Every other part is copied unchanged, so nothing the engineer
-made (charts, images, macros, comments, validations, formatting) is lost. The calculation
-chain, a cache the spreadsheet program rebuilds, is dropped as the program would ask to
-repair otherwise. The new file is written beside the old one and swapped in atomically.
+its relationships (which list sheets and defined names), the content-type index, and the style
+sheet (entries appended, never renumbered). Every other part is copied unchanged, so nothing
+the engineer made (charts, images, macros, comments, validations, formatting) is lost. The
+calculation chain, a cache the spreadsheet program rebuilds, is dropped as the program would
+ask to repair otherwise. The new file is written beside the old one and swapped in atomically.
+
+How xlcore knows its own sheets: a spreadsheet program that saves the workbook rewrites every
+sheet (our inline text moves to the shared-strings table, styles are renumbered), so no raw
+bytes survive. Two marks do: a hidden workbook-level defined name per result sheet
+(`xlcore_sheet_1` = `'Results summary'!$A$1`, ...), which the program keeps and follows through
+a rename, and the stamp text in A1 (read through the shared strings). A sheet is replaced only
+when its name starts with `Results ` (any case), its A1 starts with the stamp, and a mark names
+it (or A1 is still our inline text, i.e. no program has saved the sheet since we wrote it).
 """
 
 from __future__ import annotations
 
+import contextlib
 import functools
 import os
+import re
 import shutil
+import stat
 import tempfile
 import zipfile
 from collections.abc import Callable, Iterator
@@ -40,47 +51,209 @@ from xlcore.workbook.sheetxml import Styles, sheet_pieces, split
 WORKSHEET_CT = "application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"
 CALC_CHAIN_REL = NS_REL + "/calcChain"
 M = f"{{{NS_MAIN}}}"
+MARK_NAME = "xlcore_sheet_"  # + 1, 2, ...: hidden workbook-level names, one per result sheet
+LOCK_SUFFIX = ".xlcore-lock"
 
 
 def lock_files(path: Path) -> list[Path]:
-    """Lock files that Excel (~$name) and LibreOffice (.~lock.name#) leave beside an open file."""
-    names = [f"~${path.name}", f".~lock.{path.name}#"]
-    return [path.with_name(n) for n in names if path.with_name(n).exists()]
+    """Lock files that Excel (~$name) and LibreOffice (.~lock.name#) leave beside an open file
+    (beside the link and beside its target, where the workbook is a symbolic link)."""
+    path = Path(path)
+    found = []
+    for p in dict.fromkeys([path, _real(path)]):
+        for n in (f"~${p.name}", f".~lock.{p.name}#"):
+            if p.with_name(n).exists():
+                found.append(p.with_name(n))
+    return found
 
 
 def backup_path(path: Path) -> Path:
-    return path.with_name(f"{path.stem}.xlcore-backup{path.suffix}")
+    """Where the previous version of `path` is kept: beside the real file (a link's target)."""
+    real = _real(Path(path))
+    return real.with_name(f"{real.stem}.xlcore-backup{real.suffix}")
+
+
+def _real(path: Path) -> Path:
+    """The file a path names, through symbolic links (written through, never replaced)."""
+    return Path(os.path.realpath(path)) if os.path.islink(path) else path
+
+
+def _read_only(path: Path) -> bool:
+    """No write permission bit set, or no write access for this user (root has it always, so
+    the bits are asked too)."""
+    try:
+        mode = path.stat().st_mode
+    except FileNotFoundError:
+        return False
+    return not (mode & (stat.S_IWUSR | stat.S_IWGRP | stat.S_IWOTH)) or not os.access(path, os.W_OK)
+
+
+_HELD: dict[str, int] = {}  # lock files this process holds -> depth (the lock is re-entrant)
+
+
+def lock_path(path: Path) -> Path:
+    real = _real(Path(path))
+    return real.with_name(f".{real.name}{LOCK_SUFFIX}")
+
+
+@contextlib.contextmanager
+def workbook_lock(path: Path) -> Iterator[Path]:
+    """An exclusive lock of xlcore's own on the workbook at `path` for as long as the block
+    runs, so a second compute writing the same file refuses at once instead of deleting the
+    first one's temporary file or backing up its half-done output.
+
+    The lock is an OS lock (flock; on Windows msvcrt.locking) on `.NAME.xlcore-lock` beside
+    the file: the OS releases it when the process ends, however it ends, so it never goes
+    stale. The file is removed on release; a lock taken on a file that another run removed in
+    the meantime is taken again on the new one."""
+    lock = lock_path(path)
+    key = str(lock)
+    if key in _HELD:
+        _HELD[key] += 1
+        try:
+            yield lock
+        finally:
+            _HELD[key] -= 1
+        return
+    fd = _take(lock, Path(path))
+    _HELD[key] = 1
+    try:
+        yield lock
+    finally:
+        del _HELD[key]
+        with contextlib.suppress(OSError):
+            os.unlink(lock)
+        os.close(fd)
+
+
+def _take(lock: Path, path: Path) -> int:
+    for _ in range(100):
+        try:
+            fd = os.open(lock, os.O_RDWR | os.O_CREAT, 0o666)
+        except OSError as exc:
+            raise FileProblem(
+                f"{path}: cannot create the lock file {lock.name} in {lock.parent} "
+                f"({exc.strerror or exc}); the workbook is unchanged"
+            ) from exc
+        if not _lock_fd(fd):
+            try:
+                holder = os.read(fd, 64).decode("ascii", "replace").strip()
+            except OSError:
+                holder = ""
+            os.close(fd)
+            who = f" (process {holder})" if holder.isdigit() else ""
+            raise FileProblem(
+                f"{path}: another xlcore run{who} is writing this workbook now; wait for it to "
+                f"finish and run again (its lock is {lock.name}, released when that run ends)"
+            )
+        try:
+            same = os.fstat(fd).st_ino == os.stat(lock).st_ino
+        except FileNotFoundError:
+            same = False
+        if same:
+            os.ftruncate(fd, 0)
+            os.write(fd, f"{os.getpid()}\n".encode())
+            return fd
+        os.close(fd)  # the previous holder removed the file between our open and our lock
+    raise FileProblem(f"{path}: could not take the lock {lock.name}; run again")
+
+
+def _lock_fd(fd: int) -> bool:
+    try:
+        import fcntl
+    except ImportError:  # Windows
+        import msvcrt
+
+        try:
+            msvcrt.locking(fd, msvcrt.LK_NBLCK, 1)
+        except OSError:
+            return False
+        return True
+    try:
+        fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+    except BlockingIOError:
+        return False
+    return True
 
 
 def write_results(
-    src: Path, dst: Path, sheets: list[ResultSheet], force: bool = False, reporter: Reporter = SILENT
-) -> None:
+    src: Path,
+    dst: Path,
+    sheets: list[ResultSheet],
+    force: bool = False,
+    reporter: Reporter = SILENT,
+    overwrite: bool = False,
+) -> Path | None:
     """Replace xlcore's result sheets in `src` with `sheets`, saving to `dst` atomically.
 
-    When dst is src, the previous file is kept as a backup beside it. The reporter hears the
-    result rows as they are written.
+    Whenever `dst` exists, its previous version is kept as a backup beside it (written like the
+    workbook: temporary file, then rename). A `dst` other than `src` that exists, and a
+    read-only `dst`, are replaced only with `overwrite`; a lock file of a spreadsheet program
+    only with `force`. A symbolic link is written through to its target. The reporter hears
+    the result rows as they are written. Returns the backup written, if any.
     """
     src, dst = Path(src), Path(dst)
+    real, shown, backup = check_target(src, dst, force=force, overwrite=overwrite)
+    with workbook_lock(dst):
+        existed = real.exists()
+        with open_package(src) as zf:
+            package = _build(zf, sheets, reporter.advance)
+        _save(package, real, shown, backup, len(sheets), sum(len(s.table) for s in sheets), reporter)
+    return backup if existed else None
+
+
+def check_target(
+    src: Path, dst: Path, force: bool = False, overwrite: bool = False
+) -> tuple[Path, str, Path]:
+    """Refuse, before any work, to write where the engineer would lose something: a workbook
+    open in a spreadsheet program (unless `force`), an existing other file or a read-only one
+    (unless `overwrite`), a read-only backup. Returns the real file (a link's target), how to
+    name it in messages, and its backup."""
+    src, dst = Path(src), Path(dst)
+    real = _real(dst)
+    shown = f"{dst} (a link to {real})" if real != dst else str(dst)
     locks = lock_files(dst)
     if locks and not force:
         raise FileProblem(
-            f"{dst} looks open in a spreadsheet program (lock file {locks[0].name} beside it). "
+            f"{shown} looks open in a spreadsheet program (lock file {locks[0].name} beside it). "
             "Close it there and run again. If no program has it open, the lock file is stale "
             "(left by a crash): delete it, or run with --force."
         )
-    with open_package(src) as zf:
-        package = _build(zf, sheets, reporter.advance)
-    folder = dst.parent
-    for stale in folder.glob(f".{dst.name}.*.xlcore-tmp"):  # left by a run that was killed
-        _remove(str(stale))
+    in_place = real.exists() and src.exists() and os.path.samefile(src, real)
+    if real.exists() and not in_place and not overwrite:
+        raise FileProblem(
+            f"{shown} exists; choose another name or pass --overwrite to replace it "
+            f"(its previous version is then kept as {backup_path(dst).name})"
+        )
+    if real.exists() and _read_only(real) and not overwrite:
+        raise FileProblem(
+            f"{shown} is read-only; make it writable, or pass --overwrite to replace it anyway; "
+            "the workbook is unchanged"
+        )
+    backup = backup_path(dst)
+    if real.exists() and backup.exists() and _read_only(backup):
+        raise FileProblem(
+            f"the backup {backup} is read-only (kept on purpose?); move it away or make it "
+            f"writable and run again; {shown} is unchanged"
+        )
+    return real, shown, backup
+
+
+def _save(package: list, real: Path, shown: str, backup: Path, n_sheets: int, n_rows: int, reporter) -> None:
+    """The package into a temporary file beside `real`, the previous `real` into the backup
+    (temporary file, then rename), then the new file over `real`. Called holding the lock."""
+    folder = real.parent
+    for pattern in (f".{real.name}.*.xlcore-tmp", f".{backup.name}.*.xlcore-tmp"):
+        for stale in folder.glob(pattern):  # left by a run that was killed (none runs now: locked)
+            _remove(str(stale))
     try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".xlcore-tmp", dir=folder)
+        fd, tmp = tempfile.mkstemp(prefix=f".{real.name}.", suffix=".xlcore-tmp", dir=folder)
     except OSError as exc:
         raise FileProblem(
-            f"{dst}: cannot write in {folder} ({exc.strerror or exc}); the workbook is unchanged"
+            f"{shown}: cannot write in {folder} ({exc.strerror or exc}); the workbook is unchanged"
         ) from exc
     try:
-        reporter.begin(f"writing {len(sheets)} result sheets", sum(len(s.table) for s in sheets))
+        reporter.begin(f"writing {n_sheets} result sheets", n_rows)
         with os.fdopen(fd, "wb") as fh:
             try:
                 _write_package(fh, package, zip64=False)
@@ -90,21 +263,58 @@ def write_results(
                 _write_package(fh, package, zip64=True)
             fh.flush()
             os.fsync(fh.fileno())
-        if dst.exists():
-            shutil.copymode(dst, tmp)
+        if real.exists():
+            shutil.copymode(real, tmp)
         else:  # mkstemp makes the file private (0600); give it the mode a new file gets
             umask = os.umask(0)
             os.umask(umask)
             os.chmod(tmp, 0o666 & ~umask)
-        if dst.resolve() == src.resolve():
-            shutil.copy2(src, backup_path(dst))
-        os.replace(tmp, dst)
+    except OSError as exc:
+        _remove(tmp)
+        raise FileProblem(
+            f"{shown}: could not write the new version in {folder} ({exc.strerror or exc}); "
+            "the workbook is unchanged"
+        ) from exc
+    except BaseException:
+        _remove(tmp)
+        raise
+    try:
+        if real.exists():
+            _copy_atomic(real, backup)
+    except OSError as exc:
+        _remove(tmp)
+        raise FileProblem(
+            f"could not write the backup {backup} ({exc.strerror or exc}); {shown} is unchanged "
+            "and the previous backup is as it was"
+        ) from exc
+    except BaseException:
+        _remove(tmp)
+        raise
+    try:
+        os.replace(tmp, real)
         reporter.end()
     except OSError as exc:
         _remove(tmp)
         raise FileProblem(
-            f"{dst}: could not save ({exc.strerror or exc}); the workbook is unchanged"
+            f"{shown}: could not save ({exc.strerror or exc}); the workbook is unchanged"
         ) from exc
+    except BaseException:
+        _remove(tmp)
+        raise
+
+
+def _copy_atomic(src: Path, dst: Path) -> None:
+    """Copy src to dst the way the workbook is written: a temporary file beside dst, synced,
+    then renamed over it, so a full disk or a kill leaves the previous dst whole."""
+    fd, tmp = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".xlcore-tmp", dir=dst.parent)
+    try:
+        with os.fdopen(fd, "wb") as out, open(src, "rb") as inp:
+            shutil.copyfileobj(inp, out, 1 << 20)
+            out.flush()
+            os.fsync(out.fileno())
+        shutil.copystat(src, tmp)
+        os.chmod(tmp, stat.S_IMODE(os.stat(tmp).st_mode) | stat.S_IWUSR)  # ours to replace next run
+        os.replace(tmp, dst)
     except BaseException:
         _remove(tmp)
         raise
@@ -153,8 +363,8 @@ FAST, BIG = 1, 1 << 20  # deflate level for parts over BIG bytes: 3-4x faster th
 def _build(
     zf: zipfile.ZipFile, sheets: list[ResultSheet], on_rows: Callable[[int], None] | None = None
 ) -> list[tuple[zipfile.ZipInfo, bytes | Callable[[], Iterator[bytes]]]]:
-    """The new package's parts: the old ones (less our previous results) as bytes, the result
-    sheets as makers of XML pieces, written into the package as they are made."""
+    """The new package's parts: the old ones (less our previous results and what only they
+    used) as bytes, the result sheets as makers of XML pieces, written as they are made."""
     sheets = [part for s in sheets for part in split(s)]
     wb_part = "xl/workbook.xml"
     rels_part = "xl/_rels/workbook.xml.rels"
@@ -166,33 +376,42 @@ def _build(
 
     sheets_el = wb.find(f"{M}sheets")
     old = list(sheets_el)
+    marked = _marked_sheets(wb)
+    candidates: dict[int, str] = {}
+    for i, s in enumerate(old):
+        if s.get("name", "").casefold().startswith(RESULT_PREFIX.casefold()):
+            rel = rel_by_id.get(s.get(f"{{{NS_REL}}}id"))
+            candidates[i] = part_path(wb_part, rel.get("Target")) if rel is not None else ""
+    stamps = _a1_texts(zf, rels, wb_part, {i: p for i, p in candidates.items() if p in names})
     drop_parts: set[str] = set()
     keep_positions: dict[int, int] = {}
+    removed: set[str] = set()  # casefolded names of the sheets removed
     for i, s in enumerate(old):
         name = s.get("name")
-        rid = s.get(f"{{{NS_REL}}}id")
-        rel = rel_by_id.get(rid)
-        part = part_path(wb_part, rel.get("Target")) if rel is not None else ""
-        if name.startswith(RESULT_PREFIX):
-            if part not in names or MARKER.encode() not in zf.read(part)[:4000]:
-                raise FileProblem(
-                    f"sheet {name!r} has the name of an xlcore result sheet but was not written by "
-                    f"xlcore; rename it (result sheets start with {RESULT_PREFIX!r}) and run again"
-                )
-            sheets_el.remove(s)
-            rels.remove(rel)
-            drop_parts.add(part)
-            sheet_rels = posixpath_rels(part)
-            if sheet_rels in names:
-                drop_parts.add(sheet_rels)
-        else:
+        if i not in candidates:
             keep_positions[i] = len(keep_positions)
-    _renumber_local_names(wb, keep_positions)
+            continue
+        text, inline = stamps.get(i, (None, False))
+        # inline A1 without any mark: written by an xlcore before the marks, never saved since
+        if not (text or "").startswith(MARKER) or not (name.casefold() in marked or (inline and not marked)):
+            raise FileProblem(_foreign(name, text))
+        rel = rel_by_id[s.get(f"{{{NS_REL}}}id")]
+        sheets_el.remove(s)
+        rels.remove(rel)
+        drop_parts.add(candidates[i])
+        removed.add(name.casefold())
+    kept_names = {s.get("name", "").casefold() for s in sheets_el}
+    for sheet in sheets:
+        if sheet.name.casefold() in kept_names:  # cannot happen past the check above; never two
+            raise FileProblem(
+                f"sheet {sheet.name!r} clashes with a sheet of the workbook (names ignore case)"
+            )
 
     for rel in list(rels):
         if rel.get("Type") == CALC_CHAIN_REL:
             drop_parts.add(part_path(wb_part, rel.get("Target")))
             rels.remove(rel)
+    drop_parts |= _only_used_by(zf, names, drop_parts, rels, wb_part)
     for o in list(ct):
         if o.get("PartName", "").lstrip("/") in drop_parts:
             ct.remove(o)
@@ -206,13 +425,13 @@ def _build(
     used_ids = {r.get("Id") for r in rels}
     sheet_ids = [int(s.get("sheetId")) for s in sheets_el]
     next_sheet_id = max(sheet_ids, default=0) + 1
+    taken = {p.casefold() for p in names - drop_parts}  # part names ignore case (OPC)
     n = 1
     for sheet in sheets:
-        while (
-            f"xl/worksheets/sheet{n}.xml" in names - drop_parts or f"xl/worksheets/sheet{n}.xml" in new_parts
-        ):
+        while f"xl/worksheets/sheet{n}.xml" in taken:
             n += 1
         part = f"xl/worksheets/sheet{n}.xml"
+        taken.add(part)
         new_parts[part] = functools.partial(sheet_pieces, sheet, styles, on_rows=on_rows)
         rid = _fresh(used_ids, "rIdXlc")
         etree.SubElement(
@@ -226,6 +445,8 @@ def _build(
         el.set(f"{{{NS_REL}}}id", rid)
         next_sheet_id += 1
         etree.SubElement(ct, f"{{{NS_CT}}}Override", PartName=f"/{part}", ContentType=WORKSHEET_CT)
+    gone = removed - {s.name.casefold() for s in sheets}
+    _update_names(wb, keep_positions, gone, [s.name for s in sheets])
 
     changed = {
         wb_part: _xml(wb),
@@ -248,33 +469,213 @@ def _build(
     return out
 
 
-def posixpath_rels(part: str) -> str:
-    head, _, tail = part.rpartition("/")
-    return f"{head}/_rels/{tail}.rels"
+def _foreign(name: str, a1: str | None) -> str:
+    prefix = RESULT_PREFIX.strip()
+    why = (
+        "it carries xlcore's stamp but xlcore did not make this sheet (a copy of a result sheet?)"
+        if (a1 or "").startswith(MARKER)
+        else "it was not written by xlcore"
+    )
+    return (
+        f"sheet {name!r} has the name of an xlcore result sheet ({why}). xlcore replaces only "
+        f"its own sheets, and every sheet whose name starts with {RESULT_PREFIX!r} (in any case) "
+        f"is reserved for them: rename it so that it does not start with {prefix!r} (for example "
+        f"'My {name}'), or delete it, and run again; the workbook is unchanged"
+    )
 
 
-def _renumber_local_names(wb: etree._Element, keep: dict[int, int]) -> None:
-    """Sheet-scoped defined names refer to sheets by position: follow the kept sheets, drop
-    names scoped to removed result sheets, and keep the active tab on a sheet that exists."""
+def _marked_sheets(wb: etree._Element) -> set[str]:
+    """Casefolded names of the sheets our hidden defined names point at."""
+    out: set[str] = set()
     names = wb.find(f"{M}definedNames")
-    if names is not None:
-        for dn in list(names):
-            local = dn.get("localSheetId")
-            if local is None:
-                continue
+    for dn in names if names is not None else ():
+        if dn.get("localSheetId") is None and dn.get("name", "").casefold().startswith(MARK_NAME):
+            out.update(n.casefold() for n in _sheet_refs(dn.text or ""))
+    return out
+
+
+SHEET_REF = re.compile(r"'((?:[^']|'')+)'!|(?<![\w.'\"])([A-Za-z_\\][\w.]*)!")
+
+
+def _sheet_refs(formula: str) -> list[str]:
+    """Sheet names a defined name's formula refers to ('Name'!A1 or Name!A1)."""
+    return [q.replace("''", "'") if q else u for q, u in SHEET_REF.findall(formula)]
+
+
+def _update_names(wb: etree._Element, keep: dict[int, int], gone: set[str], ours: list[str]) -> None:
+    """Defined names after the result sheets are replaced: names scoped to a removed sheet
+    (print areas, print titles, filters) go; sheet-scoped names follow their sheet's new
+    position; a reference to a result sheet that no longer exists becomes #REF! (as a
+    spreadsheet program does when a sheet is deleted); our marks are written afresh; the active
+    tab stays on a sheet that exists."""
+    names = wb.find(f"{M}definedNames")
+    if names is None:
+        names = etree.Element(f"{M}definedNames")
+        anchor = wb.find(f"{M}externalReferences")
+        anchor = anchor if anchor is not None else wb.find(f"{M}functionGroups")
+        (anchor if anchor is not None else wb.find(f"{M}sheets")).addnext(names)
+    for dn in list(names):
+        local = dn.get("localSheetId")
+        if local is None and dn.get("name", "").casefold().startswith(MARK_NAME):
+            names.remove(dn)
+            continue
+        if local is not None:
             new = keep.get(int(local))
             if new is None:
                 names.remove(dn)
-            else:
-                dn.set("localSheetId", str(new))
-        if len(names) == 0:
-            wb.remove(names)
+                continue
+            dn.set("localSheetId", str(new))
+        if gone and dn.text and any(r.casefold() in gone for r in _sheet_refs(dn.text)):
+            dn.text = SHEET_REF.sub(
+                lambda m: (
+                    "#REF!"
+                    if (m.group(1) or m.group(2)).replace("''", "'").casefold() in gone
+                    else m.group(0)
+                ),
+                dn.text,
+            )
+    for k, name in enumerate(ours, start=1):
+        quoted = name.replace("'", "''")
+        el = etree.SubElement(names, f"{M}definedName", name=f"{MARK_NAME}{k}", hidden="1")
+        el.text = f"'{quoted}'!$A$1"
+    if len(names) == 0:
+        wb.remove(names)
     views = wb.find(f"{M}bookViews")
     if views is not None:
         for v in views:
             for attr in ("activeTab", "firstSheet"):
                 if v.get(attr) is not None:
                     v.set(attr, str(keep.get(int(v.get(attr)), 0)))
+
+
+def _a1_texts(
+    zf: zipfile.ZipFile, rels: etree._Element, wb_part: str, parts: dict[int, str]
+) -> dict[int, tuple[str | None, bool]]:
+    """Text of cell A1 of each sheet part, read as a spreadsheet program would have saved it
+    (inline, a formula's text or a shared string), and whether it was inline (never saved by a
+    program since xlcore wrote it). Each part is read only up to its first cell."""
+    out: dict[int, tuple[str | None, bool]] = {}
+    shared: dict[int, int] = {}  # sheet position -> shared-string index
+    for i, part in parts.items():
+        kind, value = _first_cell(zf, part)
+        if kind == "s" and value is not None and value.strip().isdigit():
+            shared[i] = int(value)
+        out[i] = (value if kind in ("inlineStr", "str") else None, kind == "inlineStr")
+    if shared:
+        sst = _shared_strings(zf, rels, wb_part, set(shared.values()))
+        for i, k in shared.items():
+            out[i] = (sst.get(k), False)
+    return out
+
+
+def _first_cell(zf: zipfile.ZipFile, part: str) -> tuple[str | None, str | None]:
+    """(type, text) of A1 when it is the sheet's first cell, else (None, None)."""
+    try:
+        with zf.open(part) as fh:
+            for _, el in etree.iterparse(
+                fh, events=("end",), tag=f"{M}c", resolve_entities=False, no_network=True
+            ):
+                if el.get("r", "A1") != "A1":
+                    return None, None
+                kind = el.get("t", "n")
+                if kind == "inlineStr":
+                    box = el.find(f"{M}is")
+                    return kind, _string_item(box) if box is not None else ""
+                v = el.find(f"{M}v")
+                return kind, v.text if v is not None else None
+    except (etree.XMLSyntaxError, zipfile.BadZipFile, OSError, EOFError):
+        return None, None
+    return None, None
+
+
+def _string_item(el: etree._Element) -> str:
+    """Text of a string item (plain <t> or rich-text runs), without phonetic runs."""
+    return "".join(t.text or "" for t in el.iter(f"{M}t") if t.getparent().tag != f"{M}rPh")
+
+
+def _shared_strings(
+    zf: zipfile.ZipFile, rels: etree._Element, wb_part: str, want: set[int]
+) -> dict[int, str]:
+    part = next(
+        (part_path(wb_part, r.get("Target")) for r in rels if r.get("Type", "").endswith("/sharedStrings")),
+        "xl/sharedStrings.xml",
+    )
+    out: dict[int, str] = {}
+    if part not in zf.namelist() or not want:
+        return out
+    last = max(want)
+    try:
+        with zf.open(part) as fh:
+            for k, (_, el) in enumerate(
+                etree.iterparse(fh, events=("end",), tag=f"{M}si", resolve_entities=False, no_network=True)
+            ):
+                if k in want:
+                    out[k] = _string_item(el)
+                el.clear()
+                if k >= last:
+                    break
+    except (etree.XMLSyntaxError, zipfile.BadZipFile, OSError, EOFError):
+        pass
+    return out
+
+
+def _only_used_by(
+    zf: zipfile.ZipFile, names: set[str], dropped: set[str], wb_rels: etree._Element, wb_part: str
+) -> set[str]:
+    """Parts to drop with `dropped`: their relationship parts and every part they reach that
+    nothing kept reaches (a comment or drawing a program added to a result sheet, its VML,
+    printer settings). Parts nothing refers to at all are the engineer's and stay. One pass
+    over the relationships reached from each side: linear in the package."""
+    cache: dict[str, list[str]] = {}
+
+    def targets(part: str) -> list[str]:
+        if part in cache:
+            return cache[part]
+        if part == wb_part:
+            rel_el = wb_rels
+        else:
+            rp = "_rels/.rels" if part == "" else _rels_of(part)
+            if rp not in names:
+                cache[part] = []
+                return []
+            try:
+                rel_el = read_xml(zf, rp)
+            except (etree.XMLSyntaxError, KeyError, zipfile.BadZipFile):
+                cache[part] = []
+                return []
+        src = part or "/"
+        cache[part] = [
+            part_path(src, r.get("Target", "")) if part else r.get("Target", "").lstrip("/")
+            for r in rel_el.iter(f"{{{NS_PKG_REL}}}Relationship")
+            if r.get("TargetMode") != "External" and r.get("Target")
+        ]
+        return cache[part]
+
+    def reach(starts: list[str], stop: set[str]) -> set[str]:
+        seen: set[str] = set()
+        todo = list(starts)
+        while todo:
+            p = todo.pop()
+            for t in targets(p):
+                if t not in seen and t not in stop:
+                    seen.add(t)
+                    todo.append(t)
+        return seen
+
+    kept = reach([""], dropped)
+    theirs = reach(sorted(dropped), set()) - kept - dropped
+    out = {p for p in theirs if p in names}
+    out |= {_rels_of(p) for p in dropped | out if _rels_of(p) in names}
+    return out
+
+
+def _rels_of(part: str) -> str:
+    head, _, tail = part.rpartition("/")
+    return f"{head}/_rels/{tail}.rels" if head else f"_rels/{tail}.rels"
+
+
+def posixpath_rels(part: str) -> str:
+    return _rels_of(part)
 
 
 def _styles_part(rels: etree._Element, wb_part: str) -> str:
