@@ -66,3 +66,27 @@ def test_unresolvable_formulas_are_named(demo_book, formula, gist):
     msgs = [str(f) for f in info.value.findings.errors]
     assert any(m.startswith(f"Walls!{cell}:") and gist in m for m in msgs), msgs
     assert any("open the workbook in your spreadsheet program" in m for m in msgs)
+
+
+def test_evaluation_reads_the_inputs_not_the_result_sheets(demo_book, monkeypatch):
+    """A formula without a saved value in a computed workbook: only the input sheets (and what
+    they reference) are evaluated, never the result sheets (issue 17: 62 s and 950 MB)."""
+    from xlcore import results
+    from xlcore.pipeline import compute
+    from xlcore.workbook import reader
+    from xlcore.workbook.writer import write_results
+
+    b, f = load(demo_book)
+    write_results(demo_book, demo_book, compute(b, f).sheets, force=True)
+    edit(demo_book, {(W.name, f"{col(W, 'thickness')}2"): "=200+50"})
+    seen: dict[str, object] = {}
+    solve = reader._solve
+
+    def spy(formulas, path):
+        seen.update(solve(formulas, path))
+        return seen
+
+    monkeypatch.setattr(reader, "_solve", spy)
+    b, _ = load(demo_book)
+    assert b.walls[0].thickness == pytest.approx(250.0)  # hand evaluation: 200 + 50
+    assert not [k for k in seen if k.startswith(results.SUMMARY_SHEET.upper()) and seen[k] is not None]

@@ -12,10 +12,12 @@ from pathlib import Path
 from typing import Annotated
 
 import typer
+from lxml import etree
 
 from xlcore import CAUTION, __version__, layout, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
+from xlcore.workbook.package import DAMAGE
 from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
 from xlcore.workbook.template import write_template
 from xlcore.workbook.writer import check_target, workbook_lock, write_results
@@ -50,6 +52,9 @@ def _exits(after_errors: str) -> Iterator[None]:
         yield
     except FileProblem as exc:
         _err(f"error   {exc}")
+        raise typer.Exit(EXIT_FILE) from None
+    except DAMAGE + (etree.XMLSyntaxError,) as exc:  # a part found broken only when copied
+        _err(f"error   the workbook package is damaged ({type(exc).__name__}: {exc}); nothing was written")
         raise typer.Exit(EXIT_FILE) from None
     except InputInvalid as exc:
         _report(exc.findings)
@@ -143,8 +148,23 @@ def template(
     if path.suffix.lower() != ".xlsx":
         _err(f"{path}: expected a file name ending in .xlsx")
         raise typer.Exit(EXIT_FILE)
+    _folder_must_exist(path)
     write_template(path, example=example)
     typer.echo(f"wrote {path}" + (" (demo building)" if example else ""))
+
+
+def _folder_must_exist(path: Path, create: bool = False) -> None:
+    """A file where a folder should be cannot hold the new file; a missing folder is refused
+    unless it will be created (for --output): for `template` it is more often a typing slip."""
+    for up in path.parents:
+        if up.exists() or up == up.parent:
+            if not up.is_dir():
+                _err(f"error   {path}: {up} is a file, not a folder; choose another place")
+                raise typer.Exit(EXIT_FILE)
+            break
+    if not create and not path.parent.is_dir():
+        _err(f"error   {path}: no such folder {path.parent}; create it first or choose another place")
+        raise typer.Exit(EXIT_FILE)
 
 
 @app.command()
@@ -223,6 +243,7 @@ def compute(
     if target.suffix.lower() != path.suffix.lower():
         _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
         raise typer.Exit(EXIT_FILE)
+    _folder_must_exist(target, create=True)
     with _exits("nothing was written"), _progress(quiet) as reporter:
         # held from the start, so a second compute of the same file refuses before it works
         with workbook_lock(target) if target.parent.is_dir() else nullcontext():

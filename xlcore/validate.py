@@ -20,6 +20,9 @@ from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
 
 NUMBER_TEXT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
 NUMBER_WITH_UNIT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)\s*[^\d\s.].*$")
+THOUSANDS = re.compile(r"^[+-]?\d{1,3}(,\d{3})+(\.\d*)?$")
+DECIMAL_COMMA = re.compile(r"^[+-]?\d*,\d+$")
+INVISIBLE = re.compile("[\u00a0\u00ad\u200b-\u200f\u2060\ufeff\u202f]")
 REQUIRED_OPENING = {c.key for c in layout.OPENINGS.columns if c.required}
 LEVEL_TOL = 0.005  # m: storey levels and heights must agree within 5 mm
 
@@ -74,6 +77,12 @@ def did_you_mean(found: object, known) -> str:
     return " (did you mean " + " or ".join(repr(h) for h in hits) + "?)"
 
 
+def suggest(found: object, known) -> str:
+    """The most telling hint for an unknown name: a slip by case or an invisible character
+    first (the name looks right on screen), else the closest known names."""
+    return near_miss(found, known) or did_you_mean(found, known)
+
+
 def blank(v: object) -> bool:
     return v is None or (isinstance(v, str) and v.strip() == "")
 
@@ -90,6 +99,16 @@ def _number(v: object, col: Column) -> tuple[float | None, str | None]:
             return None, f"found the error value {s}; expected {col.expectation()} (fix the formula)"
         if NUMBER_TEXT.match(s):
             x = float(s)
+        elif THOUSANDS.match(s):
+            return None, (
+                f"found {show(v)}; expected {col.expectation()}: a thousands separator (or a decimal "
+                "comma) is not read; enter the digits only, with a full stop for decimals"
+            )
+        elif DECIMAL_COMMA.match(s):
+            return None, (
+                f"found {show(v)}; expected {col.expectation()}: a decimal comma is not read; write "
+                f"{s.replace(',', '.')} with a full stop"
+            )
         elif NUMBER_WITH_UNIT.match(s):
             return None, (
                 f"found {show(v)}; expected {col.expectation()}: enter the number only, the unit "
@@ -109,6 +128,23 @@ def _number(v: object, col: Column) -> tuple[float | None, str | None]:
     if col.kind is Kind.INTEGER and not x.is_integer():
         return None, f"found {show(v)}; expected {col.expectation()}"
     return x, _range_problem(x, col, v)
+
+
+def near_miss(found: object, known) -> str:
+    """' (differs from X only by case / by an invisible character)' when `found` is a known name
+    but for that; else ''. Such slips look right on screen and so are hard to see."""
+    if not isinstance(found, str):
+        return ""
+    names = list(known)
+    plain = INVISIBLE.sub("", found).replace("\u00a0", " ")
+    if plain != found and plain in names:
+        return (
+            f" (it differs from {plain!r} by an invisible character such as a no-break or zero-width space)"
+        )
+    low = {n.lower(): n for n in names if isinstance(n, str)}
+    if plain.lower() in low:
+        return f" (did you mean {low[plain.lower()]!r}? it differs only by case)"
+    return ""
 
 
 def _outside(x, col: Column):
@@ -670,7 +706,7 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
                 t.name,
                 _at(df, "storey", rec.row),
                 f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
-                + did_you_mean(rec.storey, index),
+                + suggest(rec.storey, index),
             )
             continue
         if None in (rec.storey, rec.member, rec.combination) or members is None:
@@ -682,7 +718,7 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
                 t.name,
                 _at(df, "member", rec.row),
                 f"found {show(rec.member)}; no such wall, pier or lintel at storey {rec.storey}"
-                + (did_you_mean(rec.member, here) or f" (members there: {listed})"),
+                + (suggest(rec.member, here) or f" (members there: {listed})"),
             )
             continue
         key = (rec.storey, rec.combination, rec.member)
@@ -778,7 +814,7 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
                 t.name,
                 _at(df, "storey", rec.row),
                 f"found {show(rec.storey)}; expected a storey name from the {layout.STOREYS.name} sheet"
-                + did_you_mean(rec.storey, index),
+                + suggest(rec.storey, index),
             )
             continue
         key = (rec.storey, rec.combination)

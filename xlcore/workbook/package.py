@@ -3,7 +3,9 @@
 from __future__ import annotations
 
 import posixpath
+import stat
 import zipfile
+import zlib
 from pathlib import Path
 
 from lxml import etree
@@ -22,12 +24,25 @@ OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
 PARSER = etree.XMLParser(resolve_entities=False, no_network=True, huge_tree=False)
 
 
+STRICT_NS = "http://purl.oclc.org/ooxml/"
+DAMAGE = (zipfile.BadZipFile, zlib.error, EOFError, OSError, NotImplementedError, RuntimeError, ValueError)
+
+
 def open_package(path: Path) -> zipfile.ZipFile:
-    """Open a workbook's zip, refusing what is not an .xlsx/.xlsm or would exhaust memory."""
-    if not path.exists():
-        raise FileProblem(f"{path}: file not found")
-    if path.is_dir():
+    """Open a workbook's zip, refusing what is not an .xlsx/.xlsm or would exhaust memory, and a
+    package no spreadsheet program writes (see `check_package`)."""
+    try:
+        mode = path.stat().st_mode
+    except FileNotFoundError:
+        raise FileProblem(f"{path}: file not found") from None
+    except OSError as exc:
+        raise FileProblem(f"{path}: cannot be read ({exc.strerror})") from None
+    if stat.S_ISDIR(mode):
         raise FileProblem(f"{path}: is a folder, expected an .xlsx or .xlsm workbook")
+    if not stat.S_ISREG(mode):  # a device or a pipe would block or never end
+        raise FileProblem(
+            f"{path}: not a regular file (a device or a pipe); expected an .xlsx or .xlsm workbook"
+        )
     with path.open("rb") as fh:
         head = fh.read(8)
     if head == OLE_MAGIC:
@@ -40,7 +55,7 @@ def open_package(path: Path) -> zipfile.ZipFile:
     try:
         zf = zipfile.ZipFile(path)
         names = set(zf.namelist())
-    except (zipfile.BadZipFile, OSError) as exc:
+    except DAMAGE as exc:
         raise FileProblem(f"{path}: damaged workbook package ({exc})") from exc
     if "xl/workbook.xml" not in names or "[Content_Types].xml" not in names:
         zf.close()
@@ -55,17 +70,81 @@ def open_package(path: Path) -> zipfile.ZipFile:
             f"{path}: the package declares {total / 1e6:.0f} MB of content "
             f"({total / packed:.0f}:1 compression); refused as unsafe to open"
         )
+    try:
+        check_package(path, zf)
+    except BaseException:
+        zf.close()
+        raise
     return zf
 
 
-def read_xml(zf: zipfile.ZipFile, name: str) -> etree._Element:
-    return etree.fromstring(zf.read(name), PARSER)
+def check_package(path: Path, zf: zipfile.ZipFile) -> None:
+    """Refuse a package that is legal zip but no workbook: parts listed twice, names that climb
+    out of the package or clash ignoring case (ECMA-376 Part 2 makes part names unique ignoring
+    case), encrypted entries, and workbook, relationship and style parts that do not parse (cut
+    short, nested beyond 256 levels, or carrying a DTD, which Part 2 forbids in package XML;
+    from memory). Such a package is never read further nor copied into an output."""
+    infos = zf.infolist()
+    seen: dict[str, str] = {}
+    for info in infos:
+        name = info.filename
+        parts = name.replace("\\", "/").split("/")
+        if name.startswith("/") or ".." in parts or ":" in parts[0]:
+            raise FileProblem(
+                f"{path}: damaged workbook package: part {name!r} lies outside the package; refused"
+            )
+        key = name.lower()
+        if key in seen:
+            how = "is listed twice" if seen[key] == name else f"clashes with {seen[key]!r} ignoring case"
+            raise FileProblem(f"{path}: damaged workbook package: part {name!r} {how}; refused")
+        seen[key] = name
+        if info.flag_bits & 0x1:
+            raise FileProblem(
+                f"{path}: part {name!r} is encrypted inside the package; remove the password in your "
+                "spreadsheet program and save again"
+            )
+    rels = "xl/_rels/workbook.xml.rels"
+    if rels not in seen:
+        raise FileProblem(
+            f"{path}: damaged workbook package: {rels} (the list of the workbook's sheets) is missing"
+        )
+    for part in ("xl/workbook.xml", rels, "xl/styles.xml", "xl/sharedStrings.xml"):
+        if part in seen:
+            read_xml(zf, part, path)
+    if STRICT_NS.encode() in zf.read("xl/workbook.xml")[:4096]:
+        raise FileProblem(
+            f"{path}: saved as Strict Open XML Spreadsheet, which xlcore does not read; save it as "
+            "Excel Workbook (.xlsx) and try again"
+        )
+
+
+def read_part(zf: zipfile.ZipFile, name: str, path: Path | str = "workbook") -> bytes:
+    """A part's bytes; a bad checksum or a broken deflate stream is a file problem."""
+    try:
+        return zf.read(name)
+    except KeyError:
+        raise FileProblem(f"{path}: damaged workbook package: part {name} is missing") from None
+    except DAMAGE as exc:
+        raise FileProblem(f"{path}: damaged workbook package: part {name} cannot be read ({exc})") from None
+
+
+def read_xml(zf: zipfile.ZipFile, name: str, path: Path | str = "workbook") -> etree._Element:
+    """A part parsed safely: no DTD, no entities, no network, lxml's depth and size limits."""
+    data = read_part(zf, name, path)
+    if b"<!DOCTYPE" in data[:4096] or b"<!ENTITY" in data[:4096]:
+        raise FileProblem(f"{path}: {name} declares a DTD (entities), which a workbook never does; refused")
+    try:
+        return etree.fromstring(data, PARSER)
+    except etree.XMLSyntaxError as exc:
+        raise FileProblem(
+            f"{path}: damaged workbook package: {name} is not well-formed XML ({exc})"
+        ) from None
 
 
 def sheet_parts(zf: zipfile.ZipFile) -> dict[str, str]:
     """Sheet name -> part path inside the package (e.g. 'xl/worksheets/sheet3.xml'), in order."""
-    wb = read_xml(zf, "xl/workbook.xml")
-    rels = read_xml(zf, "xl/_rels/workbook.xml.rels")
+    wb = read_xml(zf, "xl/workbook.xml", zf.filename or "workbook")
+    rels = read_xml(zf, "xl/_rels/workbook.xml.rels", zf.filename or "workbook")
     targets = {r.get("Id"): r.get("Target") for r in rels.iter(f"{{{NS_PKG_REL}}}Relationship")}
     out: dict[str, str] = {}
     for sheet in wb.iter(f"{{{NS_MAIN}}}sheet"):

@@ -20,7 +20,7 @@ from python_calamine import CalamineWorkbook
 
 from xlcore import layout, results
 from xlcore.diagnostics import FileProblem, Findings, cell_name
-from xlcore.workbook.package import open_package, sheet_parts
+from xlcore.workbook.package import open_package, read_part, sheet_parts
 
 ERROR_VALUES = ("#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A", "#GETTING_DATA")
 
@@ -63,11 +63,13 @@ def read_workbook(path: Path) -> RawWorkbook:
     with open_package(path) as zf:
         parts = sheet_parts(zf)
         names = list(parts)
+        strings = _shared_string_count(zf, path)
         for name in layout.INPUT_SHEET_NAMES:
             if name not in parts or parts[name] not in zf.namelist():
                 continue
-            xml = zf.read(parts[name])
+            xml = read_part(zf, parts[name], path)
             scans[name] = _scan(xml)
+            _check_sheet(path, name, xml, strings)
             _layout_warnings(name, xml, findings)
     fast = [n for n, sc in scans.items() if sc.compact]
     sheets = _read_calamine(path, fast) if fast else {}
@@ -91,38 +93,61 @@ class _Scan:
     compact: bool  # the cells' extent is near the rows present (safe to read as a dense grid)
 
 
-CELL_REF = re.compile(rb"([A-Z]{1,3})([0-9]+)")
+CELL_REF = re.compile(rb"([A-Za-z]{1,3})([0-9]+)")
+_Q = rb"""\s*=\s*["']"""
+# An error cell, whatever the order and quoting of its attributes: the lookahead stays inside the
+# start tag and each piece after it stops at the next '<', so the scan is linear.
 ERROR_CELL = re.compile(
-    rb'<(?:\w+:)?c\b[^>]*?\br="([A-Z]{1,3}[0-9]+)"[^>]*?\bt="e"[^>]*>(.*?)</(?:\w+:)?c>', re.S
+    rb"<(?:\w+:)?c\b(?=[^>]*\bt" + _Q + rb"e[\"'])([^>]*)>\s*"
+    rb"(?:<(?:\w+:)?f\b[^>]*?(?:/>|>[^<]*</(?:\w+:)?f>)\s*)?<(?:\w+:)?v>([^<]*)</"
 )
-FORMULA_CELL = re.compile(
-    rb"<(?:\w+:)?c\b[^>]*>(?:(?!</(?:\w+:)?c>).)*?<(?:\w+:)?f[ >/].*?</(?:\w+:)?c>", re.S
+CELL_R = re.compile(rb"\br" + _Q + rb"([A-Za-z]{1,3})([0-9]+)")
+# a formula and the value saved after it (group 1 empty: none saved); linear as above
+FORMULA_VALUE = re.compile(
+    rb"<(?:\w+:)?f\b[^>]*?(?:/>|>[^<]*</(?:\w+:)?f>)\s*(?:<(?:\w+:)?v>\s*([^<\s][^<]*)?</(?:\w+:)?v>)?"
 )
-FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[ >/]")
+FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[\s>/]")
 VALUE = re.compile(rb"<(?:\w+:)?v>([^<]*)</")
-WIDE = re.compile(rb' r="[A-Z]{3}[0-9]')  # a cell in column AAA or beyond
-LAST_ROW = re.compile(rb'<(?:\w+:)?row\b[^>]*?\br="([0-9]+)"')
+# the reference of a cell (in any quoting) whose column has two or more letters, or whose row
+# number has at least {n} digits: the only cells that can make the extent large
+LONG_COLUMN = re.compile(rb"<(?:\w+:)?c\b[^>]*?\br" + _Q + rb"([A-Za-z]{2,})[0-9]")
+CELL_WITHOUT_R = re.compile(rb"<(?:\w+:)?c(?:\s(?![^>]*\br\s*=)[^>]*)?>")
+MAX_GRID = 4_000_000  # cells the compiled reader may lay out beyond 8 per cell present
 
 
 def _scan(xml: bytes) -> _Scan:
+    """What the compiled reader does not give, in passes linear in the sheet's size."""
     errors: dict[tuple[int, int], str] = {}
-    if b't="e"' in xml:
-        for ref, body in ERROR_CELL.findall(xml):
-            v = VALUE.search(body)
-            if v:
-                col, row = CELL_REF.match(ref).groups()
-                errors[(int(row), column_index_from_string(col.decode()) - 1)] = v.group(1).decode()
-    uncached = _has_formula(xml) and any(_no_value(cell.group(0)) for cell in FORMULA_CELL.finditer(xml))
-    rows = xml.count(b"<row ") + xml.count(b":row ")
-    tail = LAST_ROW.findall(xml[-65536:])
-    last = int(tail[-1]) if tail else 0
-    compact = WIDE.search(xml) is None and last <= 2 * rows + 1000
-    return _Scan(errors, uncached, compact)
+    if re.search(rb"\bt" + _Q + rb"e[\"']", xml):
+        for attrs, value in ERROR_CELL.findall(xml):
+            ref = CELL_R.search(attrs)
+            if ref:
+                col, row = ref.groups()
+                errors[(int(row), column_index_from_string(col.decode().upper()) - 1)] = (
+                    value.decode().strip()
+                )
+    uncached = _has_formula(xml) and any(m.group(1) is None for m in FORMULA_VALUE.finditer(xml))
+    return _Scan(errors, uncached, _compact(xml))
 
 
-def _no_value(cell: bytes) -> bool:
-    v = VALUE.search(cell)
-    return v is None or not v.group(1).strip()
+def _compact(xml: bytes) -> bool:
+    """Whether the grid from A1 to the farthest cell, wherever it stands in the XML and however
+    its reference is quoted, is small enough to lay out densely (the compiled reader does). Only
+    references with a long column or a long row number are collected, so memory stays flat."""
+    cells = xml.count(b"<c ") + xml.count(b":c ") + xml.count(b"<c>")
+    budget = MAX_GRID + 8 * cells
+    letters = set(LONG_COLUMN.findall(xml))
+    if any(len(c) > 3 for c in letters):
+        return False
+    width = max([26, *(column_index_from_string(c.decode().upper()) for c in letters)])
+    height = budget // width
+    digits = len(str(height))
+    far = re.compile(rb"<(?:\w+:)?c\b[^>]*?\br" + _Q + rb"[A-Za-z]{1,3}([0-9]{%d,})" % digits)
+    rows = [int(r) for r in far.findall(xml)]
+    if CELL_WITHOUT_R.search(xml):  # such a cell stands in the row its row tag names
+        row_tag = re.compile(rb"<(?:\w+:)?row\b[^>]*?\br" + _Q + rb"([0-9]{%d,})" % digits)
+        rows += [int(r) for r in row_tag.findall(xml)]
+    return max(rows, default=0) <= height
 
 
 def _read_calamine(path: Path, names: list[str]) -> dict[str, RawSheet]:
@@ -215,6 +240,30 @@ def _has_formula(xml: bytes) -> bool:
     return (b"<f" in xml or b":f" in xml) and FORMULA_TAG.search(xml) is not None
 
 
+SST_INDEX = re.compile(rb"<(?:\w+:)?c\b(?=[^>]*\bt" + _Q + rb"s[\"'])[^>]*>\s*<(?:\w+:)?v>\s*([0-9]+)")
+
+
+def _shared_string_count(zf, path: Path) -> int:
+    if "xl/sharedStrings.xml" not in zf.namelist():
+        return 0
+    data = read_part(zf, "xl/sharedStrings.xml", path)
+    return data.count(b"<si>") + data.count(b"<si ") + data.count(b":si>") + data.count(b":si ")
+
+
+def _check_sheet(path: Path, sheet: str, xml: bytes, strings: int) -> None:
+    """Refuse an input sheet cut short or pointing past the shared strings: both readers would
+    fail in their own words (or read the rest as blank)."""
+    if not re.search(rb"</(?:\w+:)?worksheet>\s*$", xml[-256:]):
+        raise FileProblem(f"{path}: damaged workbook package: sheet {sheet!r} is cut short (no end of sheet)")
+    if b"<v>" in xml:
+        top = max((int(i) for i in SST_INDEX.findall(xml)), default=-1)
+        if top >= strings:
+            raise FileProblem(
+                f"{path}: damaged workbook package: sheet {sheet!r} uses shared string {top}, but the "
+                f"workbook holds {strings}"
+            )
+
+
 def _read_sheet(ws) -> RawSheet:
     ws.reset_dimensions()  # a declared dimension may be a lie (phantom extents); read what is there
     # numbers as floats and blanks as '', as the compiled reader gives them
@@ -246,7 +295,7 @@ def _resolve_formulas(path: Path, sheets: dict[str, RawSheet], names: set[str], 
         wb.close()
     if not pending:
         return
-    solved = _evaluate(path)
+    solved = _evaluate(path, set(layout.INPUT_SHEET_NAMES))
     for (name, r, c), formula in pending.items():
         key = f"{name.upper()}!{cell_name(c, r)}"
         value = solved.get(key, _Unsolved)
@@ -266,12 +315,55 @@ class _Unsolved:
     pass
 
 
-def _evaluate(path: Path) -> dict[str, object]:
-    """Evaluate the workbook's formulas with the `formulas` library: 'SHEET!A1' -> value."""
+EMPTY_SHEET = (
+    b'<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData/></worksheet>'
+)
+
+
+def _slim_copy(path: Path, inputs: set[str], dst: Path) -> Path:
+    """A copy of the package in which only the input sheets, and the sheets their formulas name
+    (followed to closure), keep their cells; every other sheet (result sheets above all) is
+    empty, so evaluating the formulas costs what the inputs cost, not the whole workbook."""
+    import zipfile
+
+    with open_package(path) as zf:
+        parts = sheet_parts(zf)
+        keep = {n for n in inputs if n in parts}
+        todo = list(keep)
+        while todo:
+            part = parts[todo.pop()]
+            xml = read_part(zf, part, path) if part in zf.namelist() else b""
+            for name in parts:
+                if name in keep:
+                    continue
+                quoted = "'" + name.replace("'", "''") + "'"
+                if any(f"{form}!".encode() in xml for form in (name, quoted, quoted.replace("'", "&apos;"))):
+                    keep.add(name)
+                    todo.append(name)
+        drop = {part for name, part in parts.items() if name not in keep}
+        with zipfile.ZipFile(dst, "w", zipfile.ZIP_DEFLATED) as out:
+            for info in zf.infolist():
+                out.writestr(
+                    info.filename,
+                    EMPTY_SHEET if info.filename in drop else read_part(zf, info.filename, path),
+                )
+    return dst
+
+
+def _evaluate(path: Path, inputs: set[str]) -> dict[str, object]:
+    """Evaluate the formulas of the input sheets (and of what they reference) with the
+    `formulas` library: 'SHEET!A1' -> value."""
+    import tempfile
+
     try:
         import formulas  # imported here: slow to import and needed only for such files
     except ImportError:  # pragma: no cover - it is a declared dependency
         return {}
+    with tempfile.TemporaryDirectory(prefix="xlcore-eval-") as tmp:
+        return _solve(formulas, _slim_copy(path, inputs, Path(tmp) / "inputs.xlsx"))
+
+
+def _solve(formulas, path: Path) -> dict[str, object]:
     try:
         with contextlib.redirect_stderr(io.StringIO()), warnings.catch_warnings():
             warnings.simplefilter("ignore")
