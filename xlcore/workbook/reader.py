@@ -14,6 +14,7 @@ import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 
+import numpy as np
 import openpyxl
 from openpyxl.utils import column_index_from_string
 from python_calamine import CalamineWorkbook
@@ -250,11 +251,23 @@ def _shared_string_count(zf, path: Path) -> int:
     return data.count(b"<si>") + data.count(b"<si ") + data.count(b":si>") + data.count(b":si ")
 
 
+ROW_NUMBER = re.compile(rb"<(?:\w+:)?row\b[^>]*?\br" + _Q + rb"([0-9]+)")
+
+
 def _check_sheet(path: Path, sheet: str, xml: bytes, strings: int) -> None:
-    """Refuse an input sheet cut short or pointing past the shared strings: both readers would
-    fail in their own words (or read the rest as blank)."""
+    """Refuse an input sheet cut short, pointing past the shared strings, or with its rows out of
+    order (ECMA-376 Part 1, 18.3.1.73: rows stand in ascending order): the readers would fail
+    in their own words, read the rest as blank, or misplace the header row."""
     if not re.search(rb"</(?:\w+:)?worksheet>\s*$", xml[-256:]):
         raise FileProblem(f"{path}: damaged workbook package: sheet {sheet!r} is cut short (no end of sheet)")
+    rows = np.array(ROW_NUMBER.findall(xml), dtype=np.int64)
+    back = np.flatnonzero(rows[1:] <= rows[:-1])
+    if back.size:
+        i = int(back[0])
+        raise FileProblem(
+            f"{path}: damaged workbook package: sheet {sheet!r} lists row {rows[i + 1]} after row "
+            f"{rows[i]} (rows must ascend); open the file in a spreadsheet program and save it again"
+        )
     if b"<v>" in xml:
         top = max((int(i) for i in SST_INDEX.findall(xml)), default=-1)
         if top >= strings:
