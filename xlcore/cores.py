@@ -130,6 +130,7 @@ def _share_storey(storey: str, cores: list[str], piers_at, plans, cs: pd.DataFra
     my_core = np.einsum("cj,jk->ck", ei[:, 0, :], curvature)  # cores x combos
     mx_core = np.einsum("cj,jk->ck", ei[:, 1, :], curvature)
     arm = (centres[:, 0:1] - xr) * fy - (centres[:, 1:2] - yr) * fx  # moment about the building CR
+    arm_t = (centres[:, 0:1] - xr) * (fy - dy) - (centres[:, 1:2] - yr) * (fx - dx)  # its torsional part
 
     rows, combos = cs.row.to_numpy(), cs.combination.to_numpy()
     tile = lambda a: np.tile(np.asarray(a), len(cs))  # noqa: E731  (per core -> combo-major rows)
@@ -171,12 +172,13 @@ def _share_storey(storey: str, cores: list[str], piers_at, plans, cs: pd.DataFra
         direct_x=flat(dx),
         direct_y=flat(dy),
         m_res=flat(arm),
+        m_tors=flat(arm_t),
         m_cr=np.repeat(m_cr, n_c),
         m_acc=np.repeat(d_acc, n_c),
         share_n=flat(pct(n_core, n[None, :])),
         share_vx=flat(pct(fx, vx[None, :])),
         share_vy=flat(pct(fy, vy[None, :])),
-        share_t=flat(pct(arm, m_cr[None, :])),
+        share_t=flat(pct(arm_t, m_cr[None, :])),
         share_mx=flat(pct(mx_core, cs.mx.to_numpy(float)[None, :])),
         share_my=flat(pct(my_core, cs.my.to_numpy(float)[None, :])),
     )
