@@ -257,3 +257,27 @@ def test_random_two_core_buildings_add_back(case):
     split = cores.share_among_cores(piers, plans, building, 0.0)
     assert assert_cores_add_back(piers, plans, building, split) == len(rows)
     assert assert_each_core_adds_back(piers, wl, plans, split) == 2 * len(rows)
+
+
+def test_whole_height_sharing_among_unequal_walls_by_hand():
+    """A C of two parallel walls 6 m and 3 m long and a 4 m back wall: Vx at the core's centre
+    of rigidity splits between the two parallel walls in proportion to their whole-height
+    cantilever stiffness, k = 1 / (H^3 / (3 E I) + 1.2 H / (G A)) (hand evaluation)."""
+    sts = [storey(f"L{i}", index=i, level=3.2 * i, height=3.2) for i in range(6)]
+    level = ("L0", "L5")
+    walls = [
+        wall("Ka", 0.0, 0.0, 6.0, 0.0, storeys=level, thickness=250.0, core="C"),
+        wall("Kb", 0.0, 4.0, 0.0, 0.0, storeys=level, thickness=250.0, core="C"),
+        wall("Kc", 0.0, 4.0, 3.0, 4.0, storeys=level, thickness=250.0, core="C"),
+    ]
+    piers, wl, plans = prepare(sts, walls, [], stiffness.WHOLE_HEIGHT)
+    rows = frame([dict(storey="L0", combination="x", n=0.0, vx=600.0, vy=0.0, mx=0.0, my=0.0, t=0.0,
+                       x_v=np.nan, y_v=np.nan)])
+    split = cores.share_among_cores(piers, plans, rows, 0.0)
+    out = cores.core_actions_to_piers(piers, wl, plans, split.actions).walls.set_index("wall_id")
+    e = wl.Ec.iloc[0]
+    h = 6 * 3200.0
+    k = {n: 1.0 / (h**3 / (3 * e * 250.0 * length**3 / 12) + 1.2 * h / (e / 2.4 * 250.0 * length))
+         for n, length in (("Ka", 6000.0), ("Kc", 3000.0))}
+    assert out.loc["Ka", "v"] == pytest.approx(600.0 * k["Ka"] / (k["Ka"] + k["Kc"]), rel=1e-9)
+    assert out.loc["Kc", "v"] == pytest.approx(600.0 * k["Kc"] / (k["Ka"] + k["Kc"]), rel=1e-9)

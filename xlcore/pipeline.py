@@ -85,7 +85,7 @@ def compute(
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
         walls = stiffness.sharing_stiffness(walls, s.poisson, s.wall_sharing)
         plans = cores.plans_by_core(piers, walls)
-    with t.phase("sharing", "sharing actions to cores, walls and piers"):
+    with t.phase("sharing", "sharing actions to walls and piers"):
         acts, core, split = pier_actions(building, piers, walls, plans)
     named = building.cores != [""]  # walls carry core IDs: result tables get a core column
     with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):

@@ -548,6 +548,16 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
         if rng is not None:
             spans[wall.wall_id].append((rng[0], rng[1], rec.row))
             out.append(wall)
+    named = sorted({c for c, _ in cores.values() if c})
+    unnamed = sorted((r, w) for w, (c, r) in cores.items() if not c)
+    if named and unnamed:
+        r, w = unnamed[0]
+        f.error(
+            t.name,
+            _at(df, "core", r),
+            f"blank core for wall {w!r} ({len(unnamed)} wall(s) without one) while other walls name "
+            f"cores ({', '.join(map(repr, named))}); expected a core ID on every wall, or on none",
+        )
     for wall_id, lst in spans.items():
         lst.sort()
         for (_a0, a1, ra), (b0, _b1, rb) in zip(lst, lst[1:], strict=False):
