@@ -77,7 +77,7 @@ def test_compute_sample_and_read_results_back(tmp_path):
     header = rows[head]
     table = [dict(zip(header, row, strict=False)) for row in rows[head + 1 :]]
     assert len(table) == 1312
-    first = table[0]
+    first = next(row for row in table if (row["Storey"], row["Pier"]) == ("GF", "LiftS-1"))
     # Demo storey GF, pier LiftS-1 (beside the car 1 door): Lw 950, tw 250, f'c 50, fsy 500,
     # N12 @ 200 x 2 horizontal -> rho_h = 2 x 113.097 / (200 x 250) = 0.0045239 (hand evaluation).
     # Hw = overall wall height 4.35 + 14 x 3.2 = 49.15 m, Hw/Lw = 51.7 > 1: Eq (2) gives

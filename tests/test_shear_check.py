@@ -67,16 +67,18 @@ def test_phi_setting_is_used_and_reported(demo_book):
 
 
 def test_failing_pier_gets_required_steel_and_advice(demo_book):
-    edit(demo_book, {(A.name, f"{col(A, 'v')}{action_row(demo_book, 'LiftS-2')}"): 900.0})
+    edit(demo_book, {(A.name, f"{col(A, 'v')}{action_row(demo_book, 'LiftS-2')}"): 1300.0})
     o = outcome(demo_book)
     row = o.shear[
         (o.shear.storey == "GF") & (o.shear.combination == "1.35G") & (o.shear.pier_id == "LiftS-2")
     ].iloc[0]
     # LiftS-2: Lw 2150, tw 250, Hw/Lw = 49 150/2150 = 22.9 > 1 -> floor 0.17 sqrt(50) 0.8 x 2150 x 250
-    # = 516.9 kN; needed rho_h = (900/0.7 - 516.9) / (500 x 430 000 / 1000) = 0.003576 (hand evaluation)
+    # = 516.9 kN; Vus = 0.0045239 x 500 x 430 000 = 972.6 kN, phi Vu = 0.7 x 1489.5 = 1042.7 kN
+    # < 1300 kN; needed rho_h = (1300/0.7 - 516.9) / (500 x 430 000 / 1000) = 0.006234 (hand evaluation)
     assert row.vuc == pytest.approx(516.89, abs=0.05)
+    assert row.phi_vu == pytest.approx(1042.7, abs=0.1)
     assert row.status == results.FAIL
-    assert row.rho_req == pytest.approx((900 / 0.7 - 516.89) / (500 * 430.0), rel=1e-3)
+    assert row.rho_req == pytest.approx((1300 / 0.7 - 516.89) / (500 * 430.0), rel=1e-3)
     assert "raise horizontal steel" in row.advice
     s = o.summary[(o.summary.storey == "GF") & (o.summary.pier_id == "LiftS-2")].iloc[0]
     assert s.status == results.FAIL and s.u_shear == pytest.approx(row.util)

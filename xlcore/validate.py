@@ -508,7 +508,8 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
     for rec in df.itertuples(index=False):
         rng = _storey_range(rec, df, t, index, f)
         values = rec._asdict()
-        values["core"] = values.get("core") or ""  # optional: blank = the building's one core
+        core = values.get("core")
+        values["core"] = "" if core is None or core != core else core  # blank (None/NaN): one core
         if any(v is None or (isinstance(v, float) and math.isnan(v)) for v in values.values()):
             continue
         wall = WallRun(**values)
@@ -910,6 +911,7 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
         return pd.DataFrame(columns=["row", *t.keys])
     if "core" not in df:
         df = df.assign(core=None)
+    df["core"] = df.core.where(df.core.notna(), "").astype(object)  # blank: the building's row
     n_errors = len(f.errors)
     _core_names(df, geom, f)
     if geom is not None and len(f.errors) == n_errors:
@@ -935,7 +937,6 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
                 "expected one row per storey and combination" + (" and core" if rec.core else ""),
             )
         seen.setdefault(key, rec.row)
-    df["core"] = df.core.fillna("").astype(object)
     return df
 
 
