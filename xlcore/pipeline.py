@@ -378,6 +378,11 @@ def compute(
                         "as the moment of the cores' shears at their CRs",
                     ),
                     ("Within each core", _wall_sharing_text(s)),
+                    (
+                        "Used for",
+                        "core checks only: member actions are given for that storey and combination, "
+                        "so the piers take those",
+                    ),
                 ],
             )
         )
@@ -406,7 +411,7 @@ def pier_actions(
     if len(split.shares):
         split.shares["used"] = np.where(
             split.shares.row.isin(given),
-            "core checks; piers: member actions given",
+            "core checks only",
             "core checks and piers",
         )
     return pd.concat([member, core_piers], ignore_index=True), table, split

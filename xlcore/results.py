@@ -338,7 +338,6 @@ CORES_COLUMNS = [
     _c("mx", "Mx", "kNm", "0.0"),
     _c("my", "My", "kNm", "0.0"),
     _c("m_tors", "Moment of its torsional shear about building CR", "kNm", "0.0", 14),
-    _c("m_res", "Moment of its whole shear about building CR", "kNm", "0.0", 14),
     _c("m_cr", "Storey moment about building CR", "kNm", "0.0", 13),
     _c("m_acc", "Accidental moment", "kNm", "0.0", 10),
     _c("xc", "Core centroid x", "m", "0.000", 9),
@@ -347,7 +346,7 @@ CORES_COLUMNS = [
     _c("yr_core", "Core CR y", "m", "0.000", 9),
     _c("xr", "Building CR x", "m", "0.000", 9),
     _c("yr", "Building CR y", "m", "0.000", 9),
-    _c("used", "Used", width=22),
+    _c("used", "Used for", width=18),
     _c("working", "Working", width=90),
 ]
 
