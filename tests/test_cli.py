@@ -34,6 +34,7 @@ def test_check_summary_of_sample():
     assert r.exit_code == 0, r.output
     assert "storeys       15 (GF to L14)" in r.output
     assert "combinations  8" in r.output
+    assert "cores         2, each its own section (lift: 5 walls, stair: 3 walls)" in r.output
 
 
 @pytest.mark.parametrize(
