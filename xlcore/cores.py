@@ -87,6 +87,8 @@ def share_among_cores(
     piers_at = {(s, c): g for (s, c), g in piers.groupby(["storey", "core"], sort=False)}
     for storey, cs in rows[rows.core == ""].groupby("storey", sort=False):
         here = [c for c in plans if storey in plans[c]]
+        if not here:  # no walls at this storey: nothing to share to
+            continue
         if len(here) == 1:
             parts.append(cs.assign(core=here[0], acc=accidental))
             continue

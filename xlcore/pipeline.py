@@ -424,7 +424,9 @@ def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) 
         for c, rows in actions.groupby("core", sort=False)
     ]
     parts = [p for p in parts if len(p)]
-    return pd.concat(parts, ignore_index=True) if parts else pd.DataFrame()
+    if len(parts) > 1:  # several cores: each storey x combination's cores together
+        return pd.concat(parts, ignore_index=True).sort_values("row", kind="stable", ignore_index=True)
+    return parts[0] if parts else pd.DataFrame()
 
 
 def _cols(columns: list[results.ResultColumn], named: bool) -> list[results.ResultColumn]:
