@@ -321,7 +321,13 @@ def compute(
                     ("Wall stiffness for sharing", _wall_sharing_text(s)),
                     (
                         "Accidental eccentricity",
-                        f"{s.accidental:g} x plan dimension, in the sense that increases each wall's force",
+                        f"{s.accidental:g} x plan dimension, in the sense that increases each wall's force"
+                        + (
+                            "; for the building's rows shared among several cores it acts at the "
+                            "building level instead (Results cores)"
+                            if named
+                            else ""
+                        ),
                     ),
                     (
                         "Piers",
