@@ -176,7 +176,7 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
         reporter.begin("checking the inputs")
         building, findings = pipeline.build(raw)
         reporter.end()
-    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
+    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
     typer.echo(f"{path.name}: valid")

@@ -80,7 +80,7 @@ def compute(
     s = building.settings
     t = Timings(reporter)
     with t.phase("geometry", "piers, lintels, stiffness and storey plans"):
-        geom = geometry.derive(building.storeys, building.walls, building.openings)
+        geom = geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
         plans = distribution.storey_plans(piers, walls)
