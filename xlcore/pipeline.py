@@ -151,8 +151,12 @@ def compute(
                 ),
                 (
                     "Section",
-                    "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
-                    "spacing, end bars at cover + db/2; stress block Cl 8.1.3; bars displace concrete",
+                    "rectangle Lw x tw; end-zone bars (End zones sheet) at their places, evenly from "
+                    "cover + tie + db/2 at the free edge to tie + db/2 inside the zone; the wall's "
+                    "bars evenly between the zones at or closer than the given spacing (at a side "
+                    "without a zone from cover + db/2); where the zones differ, M* > 0 compresses "
+                    "the pier's end, M* < 0 its start, and a minimum-eccentricity M* is checked both "
+                    "ways; stress block Cl 8.1.3; bars displace concrete",
                 ),
                 (
                     "Cl 11.5",
