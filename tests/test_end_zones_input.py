@@ -1,8 +1,8 @@
 """The End zones sheet (issue 14 §1): every bad row is refused at its Sheet!Cell with the value
 found and what was expected; the file is never changed; the sheet is optional; the demo's
 zones reach the piers they name. Demo rows (from `demo.end_zones`): row 2 is LW1 GF-L4 'start'
-(6N28 in 350 mm, N10 ties; pier LW1-1 is 750 mm long), row 3 LW1 L5-L9 'start', row 4 LW1
-GF-L4 'opening 1 near' (6N28 in 350 mm)."""
+(6N28 in 350 mm, N10 ties; pier LW1-1 is 750 mm long), row 3 LW1 GF-L4 'opening 1 near' (6N28
+in 350 mm), row 8 LW1 L5-L9 'start'."""
 
 import hashlib
 
@@ -36,7 +36,11 @@ def test_demo_rows_are_as_these_tests_assume():
         28.0,
         350.0,
     )
-    assert (rows[1]["storey_from"], rows[2]["location"]) == ("L5", "opening 1 near")
+    assert (rows[1]["location"], rows[6]["location"], rows[6]["storey_from"]) == (
+        "opening 1 near",
+        "start",
+        "L5",
+    )
 
 
 CASES = [
@@ -52,8 +56,8 @@ CASES = [
     ({at("wall_id", 2): "LW9"}, ("wall_id", 2), ["found 'LW9'", "a wall ID from the Walls sheet"]),
     ({at("storey_to", 2): "L99"}, ("storey_to", 2), ["found 'L99'", "a storey name"]),
     (
-        {at("storey_from", 3): "L3"},
-        ("storey_from", 3),
+        {at("storey_from", 8): "L3"},
+        ("storey_from", 8),
         ["storeys overlap row 2", "each storey in one row only"],
     ),
     ({at("location", 2): "opening 3 near"}, ("location", 2), ["'opening 3 near'", "no such free edge at GF"]),
@@ -62,7 +66,7 @@ CASES = [
     ({at("tie_spacing", 2): None}, ("tie_spacing", 2), ["blank", "tie spacing as well"]),
     ({at("bars", 2): 0}, ("bars", 2), ["found 0", "a whole number from 1 to 60"]),
     # pier LW1-1 (750 mm): 350 mm at its start and 450 mm at the door jamb overlap
-    ({at("length", 4): 450}, ("length", 4), ["found 450 mm", "pier LW1-1 at GF", "350 + 450 mm"]),
+    ({at("length", 3): 450}, ("length", 3), ["found 450 mm", "pier LW1-1 at GF", "350 + 450 mm"]),
 ]
 
 
@@ -80,9 +84,9 @@ def test_bad_end_zone_row_is_refused_at_its_cell(demo_book, changes, cell, words
 
 
 def test_location_is_read_ignoring_case_and_spacing(demo_book):
-    edit(demo_book, {at("location", 4): "  Opening 1   NEAR "})
+    edit(demo_book, {at("location", 3): "  Opening 1   NEAR "})
     building, _ = load(demo_book)
-    z = next(z for z in building.end_zones if z.row == 4)
+    z = next(z for z in building.end_zones if z.row == 3)
     assert (z.which, z.opening, z.location) == ("near", 1, "opening 1 near")
 
 

@@ -182,6 +182,17 @@ def end_zones() -> list[dict]:
                 )
             )
             start = j
+    # wall by wall, lowest storeys first, edges in order along the wall
+    wall_rank = {w: i for i, w in enumerate(dict.fromkeys(w.wall_id for w in runs))}
+    edge_rank = {k: i for i, k in enumerate(found)}
+    storey_rank = {s.name: s.index for s in st}
+    rows.sort(
+        key=lambda r: (
+            wall_rank[r["wall_id"]],
+            storey_rank[r["storey_from"]],
+            edge_rank[(r["wall_id"], r["location"])],
+        )
+    )
     return rows
 
 

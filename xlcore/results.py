@@ -157,7 +157,7 @@ AXIAL_COLUMNS = [
     _c("fc", "f'c", "MPa", "0", 7),
     _c("as_total", "As", "mm2", "0", 8),
     _c("bars", "Vertical bars (end zones, field)", width=30),
-    _c("compressed", "End M* compresses", width=11),
+    _c("compressed", "Compressed end (M* sense)", width=11),
     _c("nuo", "Nuo", "kN", "0.0"),
     _c("phi_nuo", "phi Nuo", "kN", "0.0"),
     _c("nuot", "Nuot", "kN", "0.0"),

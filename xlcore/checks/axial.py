@@ -262,7 +262,7 @@ def check_pier_axial(
     worse = r["lam"][other] > r["lam"][np.flatnonzero(both)]
     pick[np.flatnonzero(both)[worse]] = other[worse]
     r = {k: v[pick] for k, v in r.items()}
-    df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either (symmetric)")
+    df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either")
     section_of = (of[rows] + len(first) * sense)[pick]
     kn, knm = 1e-3, 1e-6
     df["m_design"] = m_design * knm
