@@ -196,3 +196,53 @@ def test_closed_form_with_zone_bars_equals_bar_by_bar(
     # field spacing never above the given spacing (Cl 11.7 rule read on the field bars)
     if lay.field_count[0] > 0:
         assert lay.field_step[0] <= spacing + 1e-9
+
+
+def _checked(m_values, n_values):
+    """check_pier_axial on CASES[0] (8N28 at the start, 4N24 at the end) for the given
+    (N* kN, M* kNm) rows."""
+    from xlcore.checks.axial import check_pier_axial
+    from xlcore.model import Settings
+
+    p = pier(*CASES[0][0], za=CASES[0][1], zb=CASES[0][2]).assign(
+        storey="GF", pier_id="P1", Hc=3000.0, rho_v=0.008, supported_edges=0, edge_a="start", edge_b="end"
+    )
+    acts = pd.DataFrame(
+        dict(
+            storey="GF",
+            pier_id="P1",
+            combination=[f"C{i}" for i in range(len(m_values))],
+            n=n_values,
+            v=0.0,
+            m=m_values,
+            m_out=np.nan,
+        )
+    )
+    return check_pier_axial(p, acts, Settings())
+
+
+def test_sense_of_the_moment_picks_the_section():
+    """M* > 0 compresses the pier's end (actions sheets' convention): the heavy 8N28 zone at
+    the start is then in tension, so the pier is stronger that way; each row's utilisation is
+    M* / phi Mu of its own sense at N* = 0 (pure bending, radial ray along the M axis)."""
+    out = _checked([500.0, -500.0], [0.0, 0.0])
+    df, start_compressed = _ours(CASES[0], False)
+    r_start = interaction(start_compressed, np.array([0.0]))
+    r_end = interaction(start_compressed.flipped(), np.array([0.0]))
+    assert list(out.compressed) == ["end", "start"]
+    assert out.util.iloc[0] == pytest.approx(500e6 / r_end["phi_mu"][0], rel=1e-6)
+    assert out.util.iloc[1] == pytest.approx(500e6 / r_start["phi_mu"][0], rel=1e-6)
+    assert out.util.iloc[0] < out.util.iloc[1]
+    assert "start: 8N28 in 450 mm" in out.bars.iloc[0] and "end: 4N24 in 250 mm" in out.bars.iloc[0]
+
+
+def test_minimum_eccentricity_checks_both_senses_and_keeps_the_worse():
+    """M* = 0 under N*: the Cl 10.1.2 moment N* x 0.05 Lw has no sense of its own, so both
+    are run and the larger utilisation is reported."""
+    n = 3000.0
+    out = _checked([0.0], [n])
+    both = [_checked([s * n * 0.05 * 1.5], [n]).util.iloc[0] for s in (1.0, -1.0)]
+    # 0.05 x 1500 mm = 75 mm: M* = 3000 kN x 0.075 m = 225 kNm either way (hand evaluation)
+    assert out.m_design.iloc[0] == pytest.approx(225.0)
+    assert both[0] != pytest.approx(both[1], rel=1e-3)  # the senses differ for this pier
+    assert out.util.iloc[0] == pytest.approx(max(both), rel=1e-9)
