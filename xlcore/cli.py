@@ -185,7 +185,8 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
     )
     typer.echo(
         f"  walls         {len({w.wall_id for w in building.walls})} "
-        f"({len(building.walls)} rows), openings {len(building.openings)} rows"
+        f"({len(building.walls)} rows), openings {len(building.openings)} rows, "
+        f"end zones {len(building.end_zones)} rows"
     )
     typer.echo(
         f"  piers/storey  {per_storey.min()} to {per_storey.max()} "

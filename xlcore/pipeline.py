@@ -14,7 +14,7 @@ import pandas as pd
 
 from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
 from xlcore.checks import plain
-from xlcore.checks.advice import advise
+from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
@@ -529,7 +529,7 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
     return pd.concat(parts, ignore_index=True)
 
 
-CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", "axial + bending", "Cl 11.5 compression"
+CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", AXIAL_CHECK, "Cl 11.5 compression"
 CHECK_DETAILING = "detailing Cl 11.7"
 UTIL_COLUMN = {
     CHECK_SHEAR: "u_shear",
