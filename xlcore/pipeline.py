@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
+from xlcore import CAUTION, __version__, bars, distribution, geometry, results, stiffness
 from xlcore.checks import plain
 from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
@@ -664,6 +664,7 @@ def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
         height=piers.h,
         k=piers.k * 1e-3,
         note=np.where(piers.position > 0, "between openings / wall ends", "wall without openings"),
+        bars=bars.describe(piers) if len(piers) else [],
     )
     lin = lintels.merge(
         piers.drop_duplicates(["storey", "wall_id"])[
