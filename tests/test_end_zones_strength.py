@@ -234,6 +234,7 @@ def test_sense_of_the_moment_picks_the_section():
     assert out.util.iloc[1] == pytest.approx(500e6 / r_start["phi_mu"][0], rel=1e-6)
     assert out.util.iloc[0] < out.util.iloc[1]
     assert "start: 8N28 in 450 mm" in out.bars.iloc[0] and "end: 4N24 in 250 mm" in out.bars.iloc[0]
+    assert out.f_nm.iloc[0].startswith("M* compresses the pier's end (its end zones differ); ")
 
 
 def test_minimum_eccentricity_checks_both_senses_and_keeps_the_worse():

@@ -323,7 +323,11 @@ def check_pier_axial(
         df.phi_mu,
         df.u_fixed_n,
     )
-    df["f_nm"] = [_nm_text(*vals, phi0) for vals in zip(*cols, strict=True)]
+    df["f_nm"] = [
+        ("" if c == "either" else f"M* compresses the pier's {c} (its end zones differ); ")
+        + _nm_text(*v, phi0)
+        for c, *v in zip(df.compressed.tolist(), *cols, strict=True)
+    ]
     return _simplified(df, settings, of, working)
 
 
