@@ -1,8 +1,8 @@
 """The End zones sheet (issue 14 §1): every bad row is refused at its Sheet!Cell with the value
 found and what was expected; the file is never changed; the sheet is optional; the demo's
 zones reach the piers they name. Demo rows (from `demo.end_zones`): row 2 is LW1 GF-L4 'start'
-(6N28 in 350 mm, N10 ties; pier LW1-1 is 750 mm long), row 3 LW1 GF-L4 'opening 1 near' (6N28
-in 350 mm), row 8 LW1 L5-L9 'start'."""
+(4N28 in 200 mm, N10 ties; pier LW1-1 is 750 mm long), row 3 LW1 GF-L4 'opening 1 near' (4N28
+in 200 mm), row 8 LW1 L5-L9 'start'."""
 
 import hashlib
 
@@ -32,9 +32,9 @@ def test_demo_rows_are_as_these_tests_assume():
     assert (rows[0]["wall_id"], rows[0]["location"], rows[0]["bars"], rows[0]["dia"], rows[0]["length"]) == (
         "LW1",
         "start",
-        6,
+        4,
         28.0,
-        350.0,
+        200.0,
     )
     assert (rows[1]["location"], rows[6]["location"], rows[6]["storey_from"]) == (
         "opening 1 near",
@@ -50,9 +50,9 @@ CASES = [
         ("length", 2),
         ["found 800 mm", "at most the length of pier LW1-1 (750 mm at GF)"],
     ),
-    # 3 N28 a face, cover 30, N10 ties, clear gap 3 x 28 = 84 (Cl 11.7 as transcribed):
-    # 30 + 2 x 10 + 3 x 28 + 2 x 84 = 302 mm (hand evaluation)
-    ({at("length", 2): 300}, ("length", 2), ["found 300 mm", "at least 302 mm", "3 N28 a face"]),
+    # 2 N28 a face, cover 30, N10 ties, clear gap 3 x 28 = 84 (Cl 11.7 as transcribed):
+    # 30 + 2 x 10 + 2 x 28 + 1 x 84 = 190 mm (hand evaluation)
+    ({at("length", 2): 180}, ("length", 2), ["found 180 mm", "at least 190 mm", "2 N28 a face"]),
     ({at("wall_id", 2): "LW9"}, ("wall_id", 2), ["found 'LW9'", "a wall ID from the Walls sheet"]),
     ({at("storey_to", 2): "L99"}, ("storey_to", 2), ["found 'L99'", "a storey name"]),
     (
@@ -65,8 +65,15 @@ CASES = [
     ({at("bars", 2): 7}, ("bars", 2), ["found 7 bars", "multiple of wall 'LW1''s 2 vertical layers"]),
     ({at("tie_spacing", 2): None}, ("tie_spacing", 2), ["blank", "tie spacing as well"]),
     ({at("bars", 2): 0}, ("bars", 2), ["found 0", "a whole number from 1 to 60"]),
-    # pier LW1-1 (750 mm): 350 mm at its start and 450 mm at the door jamb overlap
-    ({at("length", 3): 450}, ("length", 3), ["found 450 mm", "pier LW1-1 at GF", "350 + 450 mm"]),
+    # pier LW1-1 (750 mm): 200 mm at its start and 600 mm at the door jamb overlap
+    ({at("length", 3): 600}, ("length", 3), ["found 600 mm", "pier LW1-1 at GF", "200 + 600 mm"]),
+    # zones of 360 mm facing each other in LW1-1: innermost bars at 360 - 10 - 14 = 336 mm from
+    # each edge, 750 - 2 x 336 = 78 mm apart, 78 - 28 = 50 mm clear < 3 x 28 = 84 (hand evaluation)
+    (
+        {at("length", 2): 360, at("length", 3): 360},
+        ("length", 2),
+        ["found 360 mm", "pier LW1-1 at GF", "50 mm clear", "at least 3 db = 84 mm"],
+    ),
 ]
 
 

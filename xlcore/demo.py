@@ -133,7 +133,8 @@ def end_zones() -> list[dict]:
     """End-zone bars as a designer might give them: at every free edge of every wall (its
     ends and the jambs of its openings) in the lower two thirds of the storeys, N28 in the
     lowest third and N24 in the middle third. Each zone holds the most bars a face (4, 3 or
-    2) that fit at the clear-gap rule within the lesser of 600 mm and half its pier. Walls,
+    2) that fit at the clear-gap rule within the lesser of 600 mm and half its pier less 2 db (so that two
+    zones facing each other keep the clear gap between their innermost bars). Walls,
     storeys and edges come from `walls()`, `openings()` and `storeys()`, so the function
     follows any change to those."""
     from xlcore import bars, geometry
@@ -156,7 +157,7 @@ def end_zones() -> list[dict]:
         gap = float(as3600.wall_min_clear_gap(dia))
         for per_face in (4, 3, 2):
             length = float(np.ceil(bars.zone_min_length(per_face, 1, dia, run.cover, tie, gap) / 50.0) * 50.0)
-            if length <= min(ZONE_MAX, lw / 2):
+            if length <= min(ZONE_MAX, lw / 2 - 2 * dia):  # 3 db clear between facing zones
                 for edge in (ea, eb):
                     found.setdefault((wall_id, edge), []).append((si, per_face * run.v_layers, dia, length))
                 break

@@ -863,6 +863,62 @@ def _zones_apart(geom: geometry.Geometry, zones: list[EndZone], storeys, df, f: 
             f"{za.length:g} + {zb.length:g} mm) overlap in its {lw:.0f} mm; expected them to add up to "
             "at most the pier's length",
         )
+    if not seen:
+        _zone_neighbours(geometry.with_zones(p, at), at, df, f)
+
+
+def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
+    """Where no field bar is left between a zone and the other side of its pier (the field is
+    one span: `bars.layout`), the zone's innermost bar and the bar facing it (the other zone's
+    innermost bar, or the wall's edge bar) at least the clear gap of the larger bar apart (3 db,
+    Cl 11.7 as transcribed). Gaps to field bars follow the idealised even layout and are not
+    judged here."""
+    zoned = piers[(piers.za_n > 0) | (piers.zb_n > 0)]
+    if zoned.empty:
+        return
+    lay = bars.layout(zoned)
+    spans = lay.field_count + (zoned.za_n > 0).to_numpy() + (zoned.zb_n > 0).to_numpy() - 1
+    zoned = zoned[spans <= 1]
+    if zoned.empty:
+        return
+    lay = bars.layout(zoned)
+    d, A = lay.all_bars()
+    dia_of = np.hstack(
+        [
+            np.where(
+                np.arange(d.shape[1] - lay.zone_d.shape[1])[None, :] < lay.field_count[:, None],
+                zoned.v_dia.to_numpy(float)[:, None],
+                0.0,
+            ),
+            np.where(
+                lay.zone_A > 0, np.sqrt(4 * lay.zone_A / np.pi / zoned.v_layers.to_numpy(float)[:, None]), 0.0
+            ),
+        ]
+    )
+    in_zone = np.hstack([np.zeros(d.shape[1] - lay.zone_d.shape[1]), np.ones(lay.zone_d.shape[1])]) > 0
+    seen = set()
+    for i, rec in enumerate(zoned.itertuples(index=False)):
+        live = A[i] > 0
+        order = np.argsort(d[i][live])
+        pos, dia, zone = d[i][live][order], dia_of[i][live][order], in_zone[live][order]
+        clear = np.diff(pos) - (dia[1:] + dia[:-1]) / 2
+        need = as3600.wall_min_clear_gap(np.maximum(dia[1:], dia[:-1]))
+        bad = np.flatnonzero((clear < need - 1e-6) & (zone[1:] | zone[:-1]))
+        if not bad.size:
+            continue
+        j = int(bad[0])
+        side = "a" if pos[j] < rec.Lw / 2 else "b"
+        z = at.get((rec.storey_index, rec.wall_id, rec.edge_a if side == "a" else rec.edge_b))
+        if z is None or z.row in seen:
+            continue
+        seen.add(z.row)
+        f.error(
+            layout.END_ZONES.name,
+            _at(df, "length", z.row),
+            f"found {z.length:g} mm; in pier {rec.pier_id} at {rec.storey} the bar beside this zone's "
+            f"innermost bar is {clear[j]:.0f} mm clear of it; expected at least 3 db = {need[j]:.0f} mm "
+            "(Cl 11.7): a shorter zone, or a longer one holding that bar",
+        )
 
 
 def _geometry(

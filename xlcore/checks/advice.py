@@ -144,8 +144,9 @@ def _candidates(
 def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.ndarray) -> np.ndarray:
     """Put the end-zone options `sel` (n bars of `dia` at both free edges of the pier) into the
     variant rows; which of them to keep: a whole number of bars a face, a zone (the least
-    length holding the bars at the clear-gap rule, rounded up to ZONE_ROUND) within half the
-    pier, and more zone steel at each side than the pier has."""
+    length holding the bars at the clear-gap rule, rounded up to ZONE_ROUND) short enough that
+    the two zones' innermost bars keep that gap, and more zone steel at each side than the pier
+    has."""
     keep = np.ones(len(var), dtype=bool)
     if not sel.any():
         return keep
@@ -162,7 +163,9 @@ def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.nda
             np.nan_to_num(var[f"z{side}_dia"].to_numpy(float))
         )
         more &= area > now + 1e-9
-    fits = (count % np.maximum(layers, 1) == 0) & (length <= var.Lw.to_numpy(float) / 2) & more
+    # the two zones' innermost bars (no ties) stay 3 db clear of each other: 2 L <= Lw - 3 db
+    room = (var.Lw.to_numpy(float) - as3600.wall_min_clear_gap(d)) / 2
+    fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
     keep[sel] = fits[sel]
     for side in "ab":
         for k, v in (("n", count), ("dia", d), ("len", length), ("tie", 0.0), ("ties", np.nan)):
