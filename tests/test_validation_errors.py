@@ -209,12 +209,14 @@ def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
 
 
 def test_unusual_but_legal_input_warns(demo_book):
-    # row 3: 250 mm wall, N12 both ways in 2 layers: 2 x 110 + 2 x (12 + 12) = 268 mm > 250 (hand evaluation)
-    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 3): 110})
+    # row 4 (the top run, which has no end zones: a cover this large would leave no room for
+    # their bars): 200 mm wall, N12 vertical and N10 horizontal in 2 layers:
+    # 2 x 80 + 2 x (12 + 10) = 204 mm > 200 (hand evaluation)
+    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 4): 80})
     building, findings = load(demo_book)
     text = [str(f) for f in findings.warnings]
     assert any(t.startswith(where(W, "fc", 2)) and "not a standard grade" in t for t in text), text
-    assert any(t.startswith(where(W, "cover", 3)) and "cover and bars take" in t for t in text), text
+    assert any(t.startswith(where(W, "cover", 4)) and "cover and bars take" in t for t in text), text
 
 
 def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):

@@ -176,7 +176,7 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
         reporter.begin("checking the inputs")
         building, findings = pipeline.build(raw)
         reporter.end()
-    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
+    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
     typer.echo(f"{path.name}: valid")
@@ -185,7 +185,8 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
     )
     typer.echo(
         f"  walls         {len({w.wall_id for w in building.walls})} "
-        f"({len(building.walls)} rows), openings {len(building.openings)} rows"
+        f"({len(building.walls)} rows), openings {len(building.openings)} rows, "
+        f"end zones {len(building.end_zones)} rows"
     )
     if building.cores != [""]:
         walls_of = {c: len({w.wall_id for w in building.walls if w.core == c}) for c in building.cores}

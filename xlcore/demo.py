@@ -137,6 +137,79 @@ def openings() -> list[dict]:
     ]
 
 
+ZONE_DIAS = (28.0, 24.0)  # end-zone bars of the lowest third of the storeys, then the next (invented)
+ZONE_TIE = (10.0, 150.0)  # tie diameter and spacing around end-zone bars [mm] (invented)
+ZONE_MAX = 600.0  # mm: longest end zone the demo uses
+
+
+def end_zones() -> list[dict]:
+    """End-zone bars as a designer might give them: at every free edge of every wall (its
+    ends and the jambs of its openings) in the lower two thirds of the storeys, N28 in the
+    lowest third and N24 in the middle third. Each zone holds the most bars a face (4, 3 or
+    2) that fit at the clear-gap rule within the lesser of 600 mm and half its pier less 2 db (so that two
+    zones facing each other keep the clear gap between their innermost bars). Walls,
+    storeys and edges come from `walls()`, `openings()` and `storeys()`, so the function
+    follows any change to those."""
+    from xlcore import bars, geometry
+    from xlcore.codes import as3600
+    from xlcore.model import Opening, Storey, WallRun
+
+    st = [Storey(index=i, **s) for i, s in enumerate(storeys())]
+    runs = [WallRun(**w) for w in walls()]
+    at = geometry.run_at(runs, st)
+    piers = geometry.derive(st, runs, [Opening(**o) for o in openings()]).piers
+    piers = piers[piers.storey_index < len(st) * len(ZONE_DIAS) // 3]
+    tie, tie_s = ZONE_TIE
+    # (wall, edge) -> storey by storey: (storey index, bars, dia, length)
+    found: dict[tuple[str, str], list[tuple[int, int, float, float]]] = {}
+    for si, wall_id, lw, ea, eb in zip(
+        piers.storey_index, piers.wall_id, piers.Lw, piers.edge_a, piers.edge_b, strict=True
+    ):
+        run = at[(si, wall_id)]
+        dia = ZONE_DIAS[si * 3 // len(st)]
+        gap = float(as3600.wall_min_clear_gap(dia))
+        for per_face in (4, 3, 2):
+            length = float(np.ceil(bars.zone_min_length(per_face, 1, dia, run.cover, tie, gap) / 50.0) * 50.0)
+            if length <= min(ZONE_MAX, lw / 2 - 2 * dia):  # 3 db clear between facing zones
+                for edge in (ea, eb):
+                    found.setdefault((wall_id, edge), []).append((si, per_face * run.v_layers, dia, length))
+                break
+    rows: list[dict] = []
+    for (wall_id, edge), lst in found.items():
+        lst.sort()
+        start = 0
+        for j in range(1, len(lst) + 1):
+            if j < len(lst) and lst[j][1:] == lst[start][1:] and lst[j][0] == lst[j - 1][0] + 1:
+                continue
+            _, n, dia, length = lst[start]
+            rows.append(
+                dict(
+                    wall_id=wall_id,
+                    storey_from=st[lst[start][0]].name,
+                    storey_to=st[lst[j - 1][0]].name,
+                    location=edge,
+                    bars=n,
+                    dia=dia,
+                    length=length,
+                    tie_dia=tie,
+                    tie_spacing=tie_s,
+                )
+            )
+            start = j
+    # wall by wall, lowest storeys first, edges in order along the wall
+    wall_rank = {w: i for i, w in enumerate(dict.fromkeys(w.wall_id for w in runs))}
+    edge_rank = {k: i for i, k in enumerate(found)}
+    storey_rank = {s.name: s.index for s in st}
+    rows.sort(
+        key=lambda r: (
+            wall_rank[r["wall_id"]],
+            storey_rank[r["storey_from"]],
+            edge_rank[(r["wall_id"], r["location"])],
+        )
+    )
+    return rows
+
+
 def core_actions() -> list[dict]:
     """The building's storey resultants per combination (invented loads), for the two cores
     together: xlcore shares them among the cores (blank core)."""
@@ -242,6 +315,7 @@ def sheets() -> dict[str, list[dict] | dict]:
         storeys=storeys(),
         walls=walls(),
         openings=openings(),
+        end_zones=end_zones(),
         member_actions=member_rows,
         core_actions=core_rows,
     )

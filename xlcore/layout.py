@@ -6,6 +6,7 @@ module; nothing else spells a sheet name or a column header.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from enum import StrEnum
 
@@ -81,6 +82,7 @@ class TableSheet:
     purpose: str
     columns: tuple[Column, ...]
     max_rows: int = 2000  # rows covered by the template's validation and styling
+    optional: bool = False  # a workbook without this sheet reads as one with no rows (older files)
 
     def column(self, key: str) -> Column:
         for c in self.columns:
@@ -633,6 +635,119 @@ OPENINGS = TableSheet(
     ),
 )
 
+LOCATION_START, LOCATION_END = "start", "end"
+LOCATION_NEAR, LOCATION_FAR = "near", "far"
+LOCATION_FORMS = "'start', 'end', 'opening K near' or 'opening K far'"
+_LOCATION = re.compile(r"^\s*(?:(?:wall\s+)?(start|end)|opening\s+(\d+)\s+(near|far)(?:\s+jamb)?)\s*$", re.I)
+
+
+def parse_location(text: str) -> tuple[str, int] | None:
+    """An end-zone location as (which, K): ('start', 0) or ('end', 0) for the wall's ends,
+    ('near', K) or ('far', K) for the jambs of the wall's K-th opening counted from its start
+    (the jamb nearer the wall start is 'near'); None when the text is none of those forms."""
+    m = _LOCATION.match(str(text))
+    if m is None:
+        return None
+    if m.group(1):
+        return m.group(1).lower(), 0
+    k = int(m.group(2))
+    return (m.group(3).lower(), k) if k >= 1 else None
+
+
+END_ZONES = TableSheet(
+    key="end_zones",
+    name="End zones",
+    purpose=(
+        "Bars concentrated at a pier's free edge: at a wall's start or end, or at a jamb of an "
+        "opening. One row per wall, location and storey range (ranges of one wall and location "
+        "must not overlap; storeys without a row have no end zone there). The wall's own "
+        "vertical bars run between the zones at their given spacing or closer. Optional sheet."
+    ),
+    columns=(
+        Column("wall_id", "Wall ID", None, Kind.WALL, "Wall the zone is in. Pick from the list.", width=10),
+        Column(
+            "storey_from", "From storey", None, Kind.STOREY, "Lowest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "storey_to", "To storey", None, Kind.STOREY, "Highest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "location",
+            "Location",
+            None,
+            Kind.TEXT,
+            "Which free edge: 'start' or 'end' of the wall, or a jamb: 'opening K near' / "
+            "'opening K far', K = the opening's number along the wall from its start at those "
+            "storeys (as in lintel W3-LK); the near jamb is the one nearer the wall start (the "
+            "end of pier W3-K), the far jamb the start of pier W3-(K+1).",
+            width=16,
+        ),
+        Column(
+            "bars",
+            "Bars",
+            None,
+            Kind.INTEGER,
+            "Number of vertical bars in the zone over all faces (8 for 4 on each face of a "
+            "two-layer wall); a multiple of the wall's vertical layers.",
+            min=1,
+            max=60,
+            number_format="0",
+            width=8,
+        ),
+        Column(
+            "dia",
+            "Bar dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the zone's bars (same fsy as the wall's).",
+            min=10,
+            max=40,
+            number_format="0",
+            width=9,
+        ),
+        Column(
+            "length",
+            "Zone length",
+            "mm",
+            Kind.NUMBER,
+            "Length of the zone along the wall from the free edge. Its bars on each face are "
+            "evenly spaced from cover + tie + db/2 at the free edge to tie + db/2 inside the "
+            "zone's inner boundary.",
+            min=0,
+            max=5000,
+            min_open=True,
+            number_format="0",
+            width=10,
+        ),
+        Column(
+            "tie_dia",
+            "Tie dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the ties around the zone's bars (optional; blank: no ties).",
+            required=False,
+            min=6,
+            max=20,
+            number_format="0",
+            width=8,
+        ),
+        Column(
+            "tie_spacing",
+            "Tie spacing",
+            "mm",
+            Kind.NUMBER,
+            "Spacing of those ties up the wall (given with the tie diameter).",
+            required=False,
+            min=50,
+            max=600,
+            number_format="0",
+            width=9,
+        ),
+    ),
+    max_rows=2000,
+    optional=True,
+)
+
 _FORCE = dict(min=-1e7, max=1e7, number_format="0.0")
 
 MEMBER_ACTIONS = TableSheet(
@@ -762,7 +877,8 @@ CORE_ACTIONS = TableSheet(
     max_rows=5000,
 )
 
-TABLES: tuple[TableSheet, ...] = (STOREYS, WALLS, OPENINGS, MEMBER_ACTIONS, CORE_ACTIONS)
+TABLES: tuple[TableSheet, ...] = (STOREYS, WALLS, OPENINGS, END_ZONES, MEMBER_ACTIONS, CORE_ACTIONS)
+OPTIONAL_SHEETS: frozenset[str] = frozenset(t.name for t in TABLES if t.optional)
 INPUT_SHEET_NAMES: tuple[str, ...] = (PROJECT.name,) + tuple(t.name for t in TABLES)
 RESULT_PREFIX = "Results "  # every sheet xlcore writes starts with this; only those are rewritten
 

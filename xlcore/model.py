@@ -104,6 +104,27 @@ class Opening(BaseModel):
     row: int = 0
 
 
+class EndZone(BaseModel):
+    """One row of the end-zones sheet: bars concentrated at one free edge of a wall's piers
+    over a range of storeys. `which` is 'start' or 'end' (the wall's ends) or 'near' / 'far'
+    (the jambs of the wall's `opening`-th opening from its start)."""
+
+    model_config = ConfigDict(frozen=True)
+
+    wall_id: str
+    storey_from: str
+    storey_to: str
+    location: str
+    which: str
+    opening: int = 0
+    bars: int
+    dia: float
+    length: float  # mm
+    tie_dia: float | None = None
+    tie_spacing: float | None = None
+    row: int = 0
+
+
 class Building(BaseModel):
     """Everything `compute` needs, already checked."""
 
@@ -113,6 +134,7 @@ class Building(BaseModel):
     storeys: list[Storey]
     walls: list[WallRun]
     openings: list[Opening]
+    end_zones: list[EndZone] = []
     member_actions: pd.DataFrame  # columns: layout MEMBER_ACTIONS keys + "row"
     core_actions: pd.DataFrame  # columns: layout CORE_ACTIONS keys + "row"; core "" = building
     input_hash: str = ""

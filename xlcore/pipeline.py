@@ -12,9 +12,9 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, cores, distribution, geometry, results, stiffness
+from xlcore import CAUTION, __version__, bars, cores, distribution, geometry, results, stiffness
 from xlcore.checks import plain
-from xlcore.checks.advice import advise
+from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
@@ -80,7 +80,7 @@ def compute(
     s = building.settings
     t = Timings(reporter)
     with t.phase("geometry", "piers, lintels, stiffness and storey plans"):
-        geom = geometry.derive(building.storeys, building.walls, building.openings)
+        geom = geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
         walls = stiffness.sharing_stiffness(walls, s.poisson, s.wall_sharing)
@@ -159,8 +159,12 @@ def compute(
                 ),
                 (
                     "Section",
-                    "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
-                    "spacing, end bars at cover + db/2; stress block Cl 8.1.3; bars displace concrete",
+                    "rectangle Lw x tw; end-zone bars (End zones sheet) at their places, evenly from "
+                    "cover + tie + db/2 at the free edge to tie + db/2 inside the zone; the wall's "
+                    "bars evenly between the zones at or closer than the given spacing (at a side "
+                    "without a zone from cover + db/2); where the zones differ, M* > 0 compresses "
+                    "the pier's end, M* < 0 its start, and a minimum-eccentricity M* is checked both "
+                    "ways; stress block Cl 8.1.3; bars displace concrete",
                 ),
                 (
                     "Cl 11.5",
@@ -619,7 +623,7 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
     return pd.concat(parts, ignore_index=True)
 
 
-CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", "axial + bending", "Cl 11.5 compression"
+CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", AXIAL_CHECK, "Cl 11.5 compression"
 CHECK_DETAILING = "detailing Cl 11.7"
 UTIL_COLUMN = {
     CHECK_SHEAR: "u_shear",
@@ -759,6 +763,7 @@ def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
         height=piers.h,
         k=piers.k * 1e-3,
         note=np.where(piers.position > 0, "between openings / wall ends", "wall without openings"),
+        bars=bars.describe(piers) if len(piers) else [],
     )
     lin = lintels.merge(
         piers.drop_duplicates(["storey", "wall_id"])[
