@@ -199,7 +199,8 @@ def test_diagonal_mechanics_against_aci_318_19_eq_18_10_7_4():
 def test_lintel_without_bars_is_designed_and_fails_with_the_bars_it_needs():
     # deep lintel, no bars: ties carry nothing -> FAIL; tie area needed as above (N16 assumed):
     # a = 30 + 10 + 8 = 48, z = 1104, T* = 100 x 1500/1104 = 135.87 kN -> 339.7 mm^2
-    out = check_lintels(lintels(**DEEP, lintel_bars=None, lintel_dia=None), actions(v=100.0), Settings()).iloc[0]
+    bare = lintels(**DEEP, lintel_bars=None, lintel_dia=None)
+    out = check_lintels(bare, actions(v=100.0), Settings()).iloc[0]
     assert out.status == "FAIL" and out.model == "strut-and-tie"
     assert out.as_req == pytest.approx(100e3 * 1500 / 1104 / 400, abs=0.1)
     assert "not given" in out.need

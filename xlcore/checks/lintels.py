@@ -196,7 +196,8 @@ def _needs(df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_re
             text = (
                 f"bars As >= {r.as_req:,.0f} mm2 top and bottom"
                 if np.isfinite(r.as_req)
-                else "no tension steel suffices for M* (compression zone too deep): deeper lintel or diagonal bars"
+                else "no tension steel suffices for M* (compression zone too deep): deeper lintel "
+                "or diagonal bars"
             )
             text += (
                 "; V*/phi above Vu.max: deeper or thicker lintel, stronger concrete or diagonal bars"
@@ -236,7 +237,8 @@ def _working(df, s, D, b, fc, fsy, cover, fit, db, dd, a_t, z, a_g, phi_m, muo) 
         if r.model == BEAM:
             out.append(
                 f"beam ({head} >= {s.lintel_deep_ratio:g}): d = {D[i]:.0f} - {a_t[i]:.0f} = {r.d:.0f}; "
-                f"As = {0 if np.isnan(r.As) else r.As:.0f}; dn = As fsy/(alpha2 f'c b gamma) -> ku = {r.ku:.3f}; "
+                f"As = {0 if np.isnan(r.As) else r.As:.0f}; dn = As fsy/(alpha2 f'c b gamma) -> "
+                f"ku = {r.ku:.3f}; "
                 f"phiMuo = {phi_m[i]:.3f} x {muo[i] * 1e-6:.1f} = {r.phi_mu:.1f} kNm; "
                 f"dv = max(0.72 D, 0.9 d) = {r.dv:.0f}, kv = {r.kv:.3f}: Vuc = {r.vuc:.1f}, "
                 f"Vus = {r.vus:.1f}, Vu.max = {r.vu_max:.1f} -> phiVu = 0.75 x min({r.vuc:.1f} + "
