@@ -152,6 +152,7 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
         t_star=np.where(is_stm, t_star * 1e-3, np.nan),
         tie_cap=np.where(is_stm, tie_cap * 1e-3, np.nan),
         alpha=np.where(is_diag, np.degrees(alpha), np.nan),
+        angle=np.select([is_stm, is_diag], [np.degrees(theta), np.degrees(alpha)], np.nan),
         A_sd=np.where(is_diag, A_sd, np.nan),
         vu_diag=np.where(is_diag, vu_diag * 1e-3, np.nan),
         v_cap=np.where(is_diag, v_cap * 1e-3, np.nan),
