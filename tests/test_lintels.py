@@ -230,3 +230,16 @@ def test_lintel_ids_are_accepted_as_members(demo_book):
     edit(demo_book, {(a.name, f"{column_letter(a, 'member')}2"): "NOWALL-L1"})
     with pytest.raises(InputInvalid, match="1 input error"):
         pipeline.load(demo_book)
+
+
+def test_lintel_as_shallow_as_its_bars_fails_in_words():
+    # no slab and a door to the ceiling: D = 3.0 - 2.95 = 50 mm < 2 x (30 + 10 + 10) = 100 mm:
+    # ln/D = 30 (beam) but d = 0: nothing carries V* (a degenerate input the sheet allows)
+    storey = [Storey(index=0, name="L1", level=0.0, height=3.0, slab=0.0)]
+    opening = Opening(
+        wall_id="W1", storey_from="L1", storey_to="L1", offset=2.0, width=1.5, sill=0.0, head=2.95,
+        lintel_bars=3, lintel_dia=20.0, stirrup_dia=10.0, stirrup_legs=2, stirrup_spacing=150.0,
+    )
+    lin = geometry.derive(storey, [WALL], [opening]).lintels
+    out = check_lintels(lin, actions(v=10.0, m=5.0), Settings()).iloc[0]
+    assert out.status == "FAIL" and np.isinf(out.util) and "too shallow" in out.need

@@ -124,6 +124,14 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
         asd_req = v_star / (2.0 * s.phi_tie * fsy * np.sin(alpha))
     diag_capped = v_star / s.phi_tie > v_cap
 
+    # a lintel too shallow for its bars (D at most twice their cover to centroid; D can be as
+    # little as the slab) carries nothing by any model: infinite utilisation, said in words
+    u_m = np.where(d > 0, u_m, np.inf)
+    u_vb = np.where(d > 0, u_vb, np.inf)
+    u_strut, u_node, u_tie = (np.where(z > 0, u, np.inf) for u in (u_strut, u_node, u_tie))
+    stm_vu = np.where(z > 0, stm_vu, 0.0)
+    u_vd = np.where(alpha > 0, u_vd, np.inf)
+    diag_vu = np.where(alpha > 0, diag_vu, 0.0)
     is_beam, is_stm, is_diag = model == BEAM, model == STM, model == DIAGONAL
     util = np.select(
         [is_beam, is_stm, is_diag],
@@ -179,19 +187,23 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
         "",
     )
     out["basis"] = [BASIS.get(mo, "") for mo in model]
-    out["need"] = _needs(out, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, fsy)
+    shallow = np.select([is_beam, is_stm, is_diag], [d <= 0, z <= 0, alpha <= 0], False)
+    out["need"] = _needs(out, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow)
     out["working"] = _working(out, s, D, b, fc, fsy, cover, fit_geom, db, dd, a_t, z, a_g, phi_m, muo)
     return out.sort_values(["storey_index", "lintel_id"], ascending=[False, True], kind="stable").reset_index(
         drop=True
     )
 
 
-def _needs(df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, fsy) -> list[str]:
+def _needs(df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow) -> list[str]:
     """The reinforcement that would make each row pass, in words (areas in the numeric columns)."""
     out = []
     for i, r in enumerate(df.itertuples(index=False)):
         if r.model == "":
             out.append("not checked: no lintel actions in the member-actions sheet")
+            continue
+        if shallow[i]:
+            out.append("lintel too shallow for its bars to work (D at most twice their cover to centroid)")
             continue
         if r.model == BEAM:
             text = (
