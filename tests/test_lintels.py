@@ -182,14 +182,17 @@ def test_diagonal_mechanics_against_aci_318_19_eq_18_10_7_4():
     # b = 16 in, h = 72 in, f'c = 4000 psi, fy = 60 ksi, 4 #9 bars per group (Avd = 4.00 in^2),
     # alpha = 36 deg: Vn = 2 x 4.00 x 60 x sin 36 = 282.13 kips; 10 sqrt(4000) x 16 x 72 / 1000
     # = 728.57 kips (so the bars govern). The threshold for mandatory diagonals, 4 sqrt(f'c) Acw
-    # = 291.4 kips, is the figure a public ACI 318-14 design sheet prints for this beam.
+    # = 291.4 kips, is the figure an engineer's public ACI 318-14 design sheet prints for this beam
+    # (Scribd document 644232321, "CouplingBeam.xlsx": a sheet, not a book; its other figures
+    # depend on an angle it does not show, so only this one is used).
     kip, inch, ksi = 4.448222e3, 25.4, 6.894757
     alpha = math.radians(36.0)
     vn = as3600.diagonal_shear(4.00 * inch**2, 60 * ksi, alpha)
     assert vn / kip == pytest.approx(282.13, abs=0.01)
     fc = 4.0 * ksi  # MPa
     cap = as3600.diagonal_cap(fc, 16 * inch, 72 * inch)  # 0.83 sqrt(f'c) Acw, SI
-    # 0.83 in SI is 10 in psi units rounded: 10 / sqrt(6894.757 Pa/psi) x ... = 0.8304
+    # 0.83 in SI is the psi coefficient 10 converted: 10 sqrt(145.038 f'c) psi x 0.006 894 757
+    # MPa/psi = 0.8303 sqrt(f'c) MPa, so the SI cap sits within 0.04 % of the psi one
     assert cap / kip == pytest.approx(728.57, rel=0.001)
     assert 4 / 10 * cap / kip == pytest.approx(291.4, rel=0.001)
     # the angle from the geometry, ACI R18.10.7 figure: tan alpha = (h - 2 y) / ln
