@@ -145,6 +145,10 @@ def test_beta_s_limits_and_setting():
     assert as3600.strut_efficiency(steep) == pytest.approx(1 / (1 + 0.66 / math.tan(steep) ** 2))
     out = check_lintels(lintels(**DEEP), actions(v=100.0), Settings(lintel_beta_s=0.5)).iloc[0]
     assert out.beta_s == 0.5 and out.strut_cap == pytest.approx(240.52 * 0.5 / 0.44898, abs=0.01)
+    # the 0.9 f'c of Cl 7.2.1 (from memory) is a setting too: strut and node scale with it
+    low = check_lintels(lintels(**DEEP), actions(v=100.0), Settings(strut_stress=0.85)).iloc[0]
+    assert low.strut_cap == pytest.approx(240.52 * 0.85 / 0.9, abs=0.01)
+    assert low.node_cap == pytest.approx(428.57 * 0.85 / 0.9, abs=0.01)
 
 
 # Diagonal bars given (4N20 per group) on the deep lintel. Hand evaluation:

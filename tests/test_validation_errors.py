@@ -121,6 +121,18 @@ CASES = [
         "0.5 to 1",
     ),
     (
+        "strut phi out of range",
+        {(P.name, f"B{setting_row('phi_strut')}"): 1.2},
+        f"Project!B{setting_row('phi_strut')}",
+        "0.4 to 0.9",
+    ),
+    (
+        "beta_s above one",
+        {(P.name, f"B{setting_row('lintel_beta_s')}"): 1.5},
+        f"Project!B{setting_row('lintel_beta_s')}",
+        "0.3 to 1",
+    ),
+    (
         "unknown standard",
         {(P.name, f"B{setting_row('standard')}"): "EC2"},
         f"Project!B{setting_row('standard')}",

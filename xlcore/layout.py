@@ -335,6 +335,17 @@ PROJECT = SettingsSheet(
             max=1.0,
         ),
         Setting(
+            "strut_stress",
+            "Strut and node concrete stress",
+            "x f'c",
+            Kind.NUMBER,
+            0.9,
+            "Deep lintels: struts and node faces are taken to beta x this x f'c (AS 3600:2018 "
+            "Cl 7.2.1 and 7.4, 0.9 from memory: verify).",
+            min=0.5,
+            max=1.0,
+        ),
+        Setting(
             "coupling_cap",
             "Diagonal lintel shear limit",
             "x sqrt(f'c) b D",

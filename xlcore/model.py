@@ -35,6 +35,7 @@ class Settings(BaseModel):
     phi_tie: float = 0.8
     lintel_beta_s: float | None = None
     lintel_beta_n: float = 0.8
+    strut_stress: float = 0.9
     coupling_cap: float = 0.83
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL

@@ -205,7 +205,7 @@ def compute(
                 (
                     "Strut-and-tie",
                     "one strut between the pier faces, top and bottom ties anchored in the piers: "
-                    "C* = V*/sin theta, T* = V* ln/z; strut phi beta_s 0.9 f'c b w_s, beta_s "
+                    f"C* = V*/sin theta, T* = V* ln/z; strut phi beta_s {s.strut_stress:g} f'c b w_s, beta_s "
                     + (
                         f"{s.lintel_beta_s:g} (setting)"
                         if s.lintel_beta_s is not None

@@ -36,8 +36,8 @@ that a lintel with actions but no bars is still designed: its needed reinforceme
 
 BASIS = {
     BEAM: "Section 8; shear Cl 8.2.4.3 simplified (theta 36 deg, phi 0.75): from memory, verify",
-    STM: "Section 7 strut-and-tie: beta_s Cl 7.2.2, beta_n Cl 7.4, 0.9 f'c, phi Table 2.2.2: "
-    "from memory, verify (Project settings)",
+    STM: "Section 7 strut-and-tie: beta_s Cl 7.2.2, beta_n Cl 7.4, 0.9 f'c Cl 7.2.1, phi Table "
+    "2.2.2: from memory, verify (Project settings)",
     DIAGONAL: "ACI 318-19 Eq (18.10.7.4) mechanics (no AS 3600 clause); cap and phi from memory "
     "(Project settings)",
 }
@@ -101,8 +101,8 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
     w_s = as3600.strut_width(w_t, theta)
     c_star = v_star / np.sin(theta)
     t_star = v_star / np.tan(theta)
-    strut_cap = as3600.strut_capacity(fc, b, w_s, beta_s, s.phi_strut)
-    node_cap = as3600.node_capacity(fc, b, w_s, s.lintel_beta_n, s.phi_strut)
+    strut_cap = as3600.strut_capacity(fc, b, w_s, beta_s, s.phi_strut, s.strut_stress)
+    node_cap = as3600.node_capacity(fc, b, w_s, s.lintel_beta_n, s.phi_strut, s.strut_stress)
     tie_cap = as3600.tie_capacity(As, fsy, s.phi_tie)
     with np.errstate(divide="ignore", invalid="ignore"):
         u_strut = c_star / strut_cap
@@ -271,9 +271,11 @@ def _working(df, s, D, b, fc, fsy, cover, fit, db, dd, a_t, z, a_g, phi_m, muo) 
                 f"{db[i]:.0f}/2 = {a_t[i]:.0f}; z = {D[i]:.0f} - 2 x {a_t[i]:.0f} = {z[i]:.0f}; theta = "
                 f"atan({z[i]:.0f}/{r.span * 1000:.0f}) = {r.theta:.1f} deg; {beta}; w_s = 2a/cos theta = "
                 f"{r.w_s:.0f}; strut C* = V*/sin theta = {v:.1f}/{np.sin(th):.3f} = {r.c_star:.1f} kN vs "
-                f"phi beta_s 0.9 f'c b w_s = {s.phi_strut:g} x {r.beta_s:.3f} x 0.9 x {fc[i]:.0f} x "
+                f"phi beta_s {s.strut_stress:g} f'c b w_s = {s.phi_strut:g} x {r.beta_s:.3f} x "
+                f"{s.strut_stress:g} x {fc[i]:.0f} x "
                 f"{b[i]:.0f} x {r.w_s:.0f} = {r.strut_cap:.1f} kN; node {s.phi_strut:g} x "
-                f"{s.lintel_beta_n:g} x 0.9 x {fc[i]:.0f} x {b[i]:.0f} x {r.w_s:.0f} = {r.node_cap:.1f} kN; "
+                f"{s.lintel_beta_n:g} x {s.strut_stress:g} x {fc[i]:.0f} x {b[i]:.0f} x {r.w_s:.0f} = "
+                f"{r.node_cap:.1f} kN; "
                 f"tie T* = V* ln/z = {v:.1f} x {r.span * 1000:.0f}/{z[i]:.0f} = {r.t_star:.1f} kN vs "
                 f"phi As fsy = {s.phi_tie:g} x {As:.0f} x {fsy[i]:.0f} = {r.tie_cap:.1f} kN; "
                 f"U = max({r.u_strut:.3f}, {r.u_node:.3f}, {r.u_tie:.3f}) = {r.util:.3f}"

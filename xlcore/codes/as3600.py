@@ -476,14 +476,14 @@ def strut_width(w_tie, theta):
     return np.asarray(w_tie, dtype=float) / np.cos(np.asarray(theta, dtype=float))
 
 
-def strut_capacity(fc, b, w, beta_s, phi=PHI_STRUT):
-    """phi Fc.s = phi beta_s 0.9 f'c b w [N], Cl 7.2.1 (from memory: verify)."""
-    return phi * np.asarray(beta_s, dtype=float) * STRUT_STRESS * np.asarray(fc, dtype=float) * b * w
+def strut_capacity(fc, b, w, beta_s, phi=PHI_STRUT, stress=STRUT_STRESS):
+    """phi Fc.s = phi beta_s 0.9 f'c b w [N], Cl 7.2.1 (from memory: verify; 0.9 a setting)."""
+    return phi * np.asarray(beta_s, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
 
 
-def node_capacity(fc, b, w, beta_n=BETA_N_CCT, phi=PHI_STRUT):
+def node_capacity(fc, b, w, beta_n=BETA_N_CCT, phi=PHI_STRUT, stress=STRUT_STRESS):
     """phi beta_n 0.9 f'c b w [N] on a node face of width w, Cl 7.4 (from memory: verify)."""
-    return phi * np.asarray(beta_n, dtype=float) * STRUT_STRESS * np.asarray(fc, dtype=float) * b * w
+    return phi * np.asarray(beta_n, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
 
 
 def tie_capacity(As, fsy, phi=PHI_TIE):
