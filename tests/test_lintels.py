@@ -268,3 +268,10 @@ def test_demo_designs_every_lintel_and_the_summary_says_so(demo_master):
     assert summary["Lintels"].startswith(f"{len(cases)} storey x lintel cases")
     for model, n in cases.model.value_counts().items():
         assert f"{n} {model}" in summary["Lintels"]
+
+
+def test_no_demand_on_a_lintel_without_bars_is_not_a_failure():
+    # V* = M* = 0: nothing to carry, so no bars are needed (0/0 is read as 0, not infinity)
+    bare = lintels(**DEEP, lintel_bars=None, lintel_dia=None)
+    out = check_lintels(bare, actions(v=0.0, m=0.0), Settings()).iloc[0]
+    assert out.util == 0.0 and out.status == "pass" and out.as_req == 0.0

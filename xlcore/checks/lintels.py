@@ -27,7 +27,7 @@ import pandas as pd
 
 from xlcore.codes import as3600
 from xlcore.model import Settings
-from xlcore.results import FAIL, NOT_CHECKED, PASS
+from xlcore.results import FAIL, NOT_CHECKED, PASS, utilisation
 
 BEAM, STM, DIAGONAL = "beam", "strut-and-tie", "diagonal bars"
 ASSUMED_BAR, ASSUMED_FITMENT, ASSUMED_DIAGONAL = 16.0, 10.0, 20.0
@@ -84,8 +84,8 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
     beam_vu = phi_v * np.minimum(vuc + vus, vmax)
     beam_mu = phi_m * muo
     with np.errstate(divide="ignore", invalid="ignore"):
-        u_m = np.where(beam_mu > 0, m_star / np.where(beam_mu > 0, beam_mu, 1.0), np.inf)
-        u_vb = v_star / beam_vu
+        u_m = utilisation(m_star, beam_mu)  # inf only where there is demand and no capacity
+        u_vb = utilisation(v_star, beam_vu)
     as_beam = as3600.beam_as_required(m_star, np.where(As > 0, phi_m, 0.85), b, d, fc, fsy)
     vuc_min_fit, _ = as3600.beam_vuc(fc, b, dv, np.inf, 0.0)  # kv 0.15: with at least minimum fitments
     asv_s_req = np.maximum(
@@ -105,9 +105,9 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
     node_cap = as3600.node_capacity(fc, b, w_s, s.lintel_beta_n, s.phi_strut, s.strut_stress)
     tie_cap = as3600.tie_capacity(As, fsy, s.phi_tie)
     with np.errstate(divide="ignore", invalid="ignore"):
-        u_strut = c_star / strut_cap
-        u_node = c_star / node_cap
-        u_tie = np.where(tie_cap > 0, t_star / np.where(tie_cap > 0, tie_cap, 1.0), np.inf)
+        u_strut = utilisation(c_star, strut_cap)
+        u_node = utilisation(c_star, node_cap)
+        u_tie = utilisation(t_star, tie_cap)
     stm_vu = np.minimum(np.minimum(strut_cap, node_cap) * np.sin(theta), tie_cap * np.tan(theta))
     as_tie = t_star / (s.phi_tie * fsy)
 
@@ -120,7 +120,7 @@ def check_lintels(lintels: pd.DataFrame, actions: pd.DataFrame, settings: Settin
     v_cap = as3600.diagonal_cap(fc, b, D, s.coupling_cap)
     diag_vu = s.phi_tie * np.minimum(vu_diag, v_cap)
     with np.errstate(divide="ignore", invalid="ignore"):
-        u_vd = v_star / diag_vu
+        u_vd = utilisation(v_star, diag_vu)
         asd_req = v_star / (2.0 * s.phi_tie * fsy * np.sin(alpha))
     diag_capped = v_star / s.phi_tie > v_cap
 
