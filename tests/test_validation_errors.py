@@ -94,7 +94,7 @@ CASES = [
         # head at the clear height leaves D = slab = 200 mm above the door from L1; groups of N40
         # in N20 ties sit 30 + 20 + 1.5 x 40 = 110 mm from each face: 2 x 110 > 200
         {
-            at(OP, "head", 2): 2.95,
+            at(OP, "head", 2): 3.0,
             at(OP, "storey_to", 2): "L13",
             at(OP, "diag_dia", 2): 40,
             at(OP, "stirrup_dia", 2): 20,
