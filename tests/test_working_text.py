@@ -64,6 +64,37 @@ RULES: dict[str, list] = {
         ("working", lambda t: t.n >= 0, [("phi_nuo", _int)]),
         ("working", lambda t: t.n < 0, [("phi_nuot", _int)]),
     ],
+    results.LINTELS_SHEET: [
+        (
+            "working",
+            lambda t: t.model == "strut-and-tie",
+            [
+                ("v", _abs(".1f")),
+                ("theta", F1),
+                ("beta_s", F3),
+                ("c_star", F1),
+                ("strut_cap", F1),
+                ("node_cap", F1),
+                ("t_star", F1),
+                ("tie_cap", F1),
+                ("u_strut", F3),
+                ("util", F3),
+            ],
+        ),
+        (
+            "working",
+            lambda t: t.model == "diagonal bars",
+            [
+                ("v", _abs(".1f")),
+                ("alpha", F1),
+                ("A_sd", _int),
+                ("vu_diag", F1),
+                ("v_cap", F1),
+                ("phi_vu", F1),
+                ("util", F3),
+            ],
+        ),
+    ],
 }
 
 

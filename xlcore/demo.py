@@ -120,6 +120,8 @@ def openings() -> list[dict]:
         stirrup_dia=10.0,
         stirrup_legs=2,
         stirrup_spacing=150.0,
+        diag_bars=4,  # coupling beams over the lift doors: two groups of 4N24 (invented)
+        diag_dia=24.0,
     )
     return [
         dict(wall_id="LiftS", offset=0.95, label="car 1 door", **door),
@@ -133,6 +135,11 @@ def openings() -> list[dict]:
             sill=1.15,
             head=2.05,
             label="services riser",
+            lintel_bars=4,  # a deep lintel without diagonals: strut-and-tie (invented)
+            lintel_dia=20.0,
+            stirrup_dia=10.0,
+            stirrup_legs=2,
+            stirrup_spacing=150.0,
         ),
     ]
 
@@ -274,31 +281,69 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
         )
         for r in ordered.itertuples(index=False)
     ]
-    return rows + _lintel_actions(shares.piers, [s["name"] for s in storeys()])
+    return rows + _lintel_actions(shares.piers, geom)
 
 
-def _lintel_actions(piers, names: list[str]) -> list[dict]:
-    """Lift-door lintels: coupling shear = the change in the outer pier's axial force from the
-    storey above (the lintel hands it down), M* = V* x span / 2 (contraflexure at mid-span)."""
+COUPLING_DEGREE = 0.5
+"""Share of a coupled wall's overturning moment carried as an axial couple between the piers
+either side of an opening (invented example value; coupled walls commonly lie between about 0.3
+and 0.7)."""
+
+CONCRETE_WEIGHT = 25.0  # kN/m3, for the lintels' self-weight
+
+
+def _lintel_actions(pier_actions, geom) -> list[dict]:
+    """Lintel actions for every lintel the demo's openings make (example data, derived, not
+    analysed). Coupling statics: the piers either side of an opening carry COUPLING_DEGREE of
+    their wall's overturning moment M as an axial couple N L_c (L_c between the two piers'
+    centroids); the lintels hand that N down storey by storey, so the lintel at a storey takes
+    dN = kappa dM / L_c = kappa V_wall h / L_c (dM/dh = V, h the storey height, V_wall the sum
+    of the wall's pier shears there). An opening with a sill shares that with the wall below the
+    sill, in proportion to depth: the lintel takes D / (D + sill). Added: the lintel's own weight
+    at each pier face, G factor x 25 kN/m3 x b D ln / 2. M* = V* ln / 2 (contraflexure at
+    mid-span). An opening at a wall end (no pier on one side) gets the self-weight only."""
+    heights = {s["name"]: s["height"] for s in storeys()}
+    g_factor = {name: g for name, g, *_ in COMBINATIONS}
+    v_wall = pier_actions.groupby(["storey", "combination", "wall_id"]).v.sum()
     rows = []
-    for lintel, pier in (("LiftS-L1", "LiftS-1"), ("LiftS-L2", "LiftS-3")):
-        n = piers[piers.pier_id == pier].set_index(["storey", "combination"]).n
-        for (storey, comb), value in n.items():
-            i = names.index(storey)
-            above = n.get((names[i + 1], comb), 0.0) if i + 1 < len(names) else 0.0
-            v = abs(value - above)
+    piers = geom.piers
+    for lin in geom.lintels.itertuples(index=False):
+        here = piers[(piers.storey == lin.storey) & (piers.wall_id == lin.wall_id)]
+        left = here[(here.end - lin.offset).abs() < 1e-6]
+        right = here[(here.start - (lin.offset + lin.span)).abs() < 1e-6]
+        lever = (
+            float((right.start + right.end).iloc[0] - (left.start + left.end).iloc[0]) / 2
+            if len(left) and len(right)
+            else None
+        )
+        depth = lin.depth / 1000.0
+        sill = _sill(lin)
+        share = depth / (depth + sill)
+        weight = CONCRETE_WEIGHT * lin.tw / 1000.0 * depth * lin.span / 2
+        for comb in g_factor:
+            vw = float(v_wall.get((lin.storey, comb, lin.wall_id), 0.0))
+            couple = COUPLING_DEGREE * abs(vw) * heights[lin.storey] / lever * share if lever else 0.0
+            v = couple + g_factor[comb] * weight
             rows.append(
                 dict(
-                    storey=storey,
+                    storey=lin.storey,
                     combination=comb,
-                    member=lintel,
+                    member=lin.lintel_id,
                     n=0.0,
                     v=_r(v),
-                    m=_r(v * DOOR_WIDTH / 2),
+                    m=_r(v * lin.span / 2),
                     m_out=None,
                 )
             )
     return rows
+
+
+def _sill(lintel) -> float:
+    """Sill height [m] of the opening under a lintel, from the demo's openings."""
+    for o in openings():
+        if o["wall_id"] == lintel.wall_id and abs(o["offset"] - lintel.offset) < 1e-9:
+            return float(o["sill"])
+    return 0.0
 
 
 def _r(x: float) -> float:

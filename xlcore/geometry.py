@@ -71,6 +71,9 @@ LINTEL_COLUMNS = [
     "stirrup_dia",
     "stirrup_legs",
     "stirrup_spacing",
+    "diag_bars",
+    "diag_dia",
+    "offset",  # opening's near edge from the wall start [m]
 ]
 
 
@@ -267,6 +270,9 @@ def derive(
                         _nan(o.stirrup_dia),
                         _nan(o.stirrup_legs),
                         _nan(o.stirrup_spacing),
+                        _nan(o.diag_bars),
+                        _nan(o.diag_dia),
+                        o.offset,
                     )
                 )
     piers = pd.DataFrame(pier_rows, columns=PIER_COLUMNS)

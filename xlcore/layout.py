@@ -295,12 +295,84 @@ PROJECT = SettingsSheet(
             "Lintel span/depth limit for the beam method",
             None,
             Kind.NUMBER,
-            3.0,
-            "Below this clear span / overall depth a lintel is reported as a deep (non-flexural) "
-            "member for strut-and-tie design (Section 7) instead of being checked as a beam "
-            "(AS 3600:2018 Section 12; threshold from memory: verify).",
+            4.0,
+            "At or above this clear span / overall depth a lintel is designed as a beam (Section 8); "
+            "below it as a deep member by a strut-and-tie model (Section 7), or by its diagonal bars "
+            "where the openings sheet gives them. AS 3600:2018 Cl 12.1.1 (from memory: verify) makes "
+            "a member non-flexural below 4 when continuous, 3 simply supported, 1.5 as a cantilever; "
+            "a lintel built into piers at both ends is taken as continuous (4, the conservative "
+            "reading; ACI 318-19 18.10.7.1 also uses 4).",
             min=1.0,
             max=10.0,
+        ),
+        Setting(
+            "phi_strut",
+            "phi for struts and nodes",
+            None,
+            Kind.NUMBER,
+            0.6,
+            "Strut-and-tie design of deep lintels: capacity reduction factor for the concrete strut "
+            "and its nodes (AS 3600:2018 Table 2.2.2, 0.6 from memory: verify).",
+            min=0.4,
+            max=0.9,
+        ),
+        Setting(
+            "phi_tie",
+            "phi for ties and diagonal bars",
+            None,
+            Kind.NUMBER,
+            0.8,
+            "Strut-and-tie design of deep lintels: capacity reduction factor for the steel ties, and "
+            "for the diagonal bars of a diagonally reinforced lintel (AS 3600:2018 Table 2.2.2, 0.8 "
+            "for ties, from memory: verify).",
+            min=0.5,
+            max=0.9,
+        ),
+        Setting(
+            "lintel_beta_s",
+            "Strut efficiency factor beta_s",
+            None,
+            Kind.NUMBER,
+            None,
+            "Blank: beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3 to 1.0, theta the strut's angle "
+            "to the ties (AS 3600:2018 Cl 7.2.2, bottle-shaped strut with transverse bars, from "
+            "memory: verify). A number here is used for every deep lintel instead.",
+            min=0.3,
+            max=1.0,
+        ),
+        Setting(
+            "lintel_beta_n",
+            "Node efficiency factor beta_n",
+            None,
+            Kind.NUMBER,
+            0.8,
+            "Deep lintels: the strut's end nodes hold a tie (C-C-T); their faces are taken to "
+            "beta_n x 0.9 f'c (AS 3600:2018 Cl 7.4, 0.8 for C-C-T nodes, from memory: verify).",
+            min=0.4,
+            max=1.0,
+        ),
+        Setting(
+            "strut_stress",
+            "Strut and node concrete stress",
+            "x f'c",
+            Kind.NUMBER,
+            0.9,
+            "Deep lintels: struts and node faces are taken to beta x this x f'c (AS 3600:2018 "
+            "Cl 7.2.1 and 7.4, 0.9 from memory: verify).",
+            min=0.5,
+            max=1.0,
+        ),
+        Setting(
+            "coupling_cap",
+            "Diagonal lintel shear limit",
+            "x sqrt(f'c) b D",
+            Kind.NUMBER,
+            0.83,
+            "Diagonally reinforced lintels: the shear their bars may carry, Vu = 2 A_sd fsy sin "
+            "alpha, is capped at this times sqrt(f'c) b D [MPa, mm] (ACI 318-19 Eq (18.10.7.4), "
+            "0.83 in SI; AS 3600:2018 has no coupling-beam clause).",
+            min=0.3,
+            max=1.5,
         ),
         Setting(
             "compression_limit",
@@ -577,7 +649,10 @@ OPENINGS = TableSheet(
             "Lintel bottom bars",
             None,
             Kind.INTEGER,
-            "Number of tension bars in the lintel over this opening (optional; blank: lintel not checked).",
+            "Number of bars in the lintel's bottom layer over this opening, taken the same in its "
+            "top layer (coupling actions reverse): the beam's tension bars, or each tie of the "
+            "strut-and-tie model. Optional; blank with actions given: the lintel fails and the "
+            "bars it needs are reported.",
             required=False,
             min=1,
             max=20,
@@ -631,6 +706,33 @@ OPENINGS = TableSheet(
             max=600,
             number_format="0",
             width=11,
+        ),
+        Column(
+            "diag_bars",
+            "Lintel diagonal bars per group",
+            None,
+            Kind.INTEGER,
+            "Bars in each of the two diagonal groups crossing the lintel (optional). Given, the "
+            "lintel is designed by its diagonal bars: Vu = 2 A_sd fsy sin alpha, alpha from the "
+            "geometry, capped by the concrete (Project sheet). Each group in two layers, so half "
+            "the bars side by side across the wall.",
+            required=False,
+            min=2,
+            max=20,
+            number_format="0",
+            width=11,
+        ),
+        Column(
+            "diag_dia",
+            "Lintel diagonal bar dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the diagonal bars.",
+            required=False,
+            min=10,
+            max=40,
+            number_format="0",
+            width=10,
         ),
     ),
 )

@@ -31,7 +31,13 @@ class Settings(BaseModel):
         """Names of the earthquake combinations (Project setting, comma separated)."""
         return {n.strip() for n in self.earthquake_combinations.split(",") if n.strip()}
     shrinkage_restrained: str = "yes"
-    lintel_deep_ratio: float = 3.0
+    lintel_deep_ratio: float = 4.0
+    phi_strut: float = 0.6
+    phi_tie: float = 0.8
+    lintel_beta_s: float | None = None
+    lintel_beta_n: float = 0.8
+    strut_stress: float = 0.9
+    coupling_cap: float = 0.83
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL
     poisson: float = 0.2
@@ -101,6 +107,8 @@ class Opening(BaseModel):
     stirrup_dia: float | None = None
     stirrup_legs: float | None = None
     stirrup_spacing: float | None = None
+    diag_bars: float | None = None
+    diag_dia: float | None = None
     row: int = 0
 
 

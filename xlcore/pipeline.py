@@ -191,25 +191,46 @@ def compute(
         ),
         ResultSheet(
             results.LINTELS_SHEET,
-            f"{results.MARKER}: lintels over openings as beams, {s.standard} Section 8",
+            f"{results.MARKER}: lintels (coupling beams) over openings designed, {s.standard} "
+            "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars",
             results.LINTEL_RESULT_COLUMNS,
             lintels,
             preamble=stamp
             + [
                 (
                     "Geometry",
-                    "span = opening width; D = head of opening to top of slab above; b = wall "
-                    "thickness; d to the bottom bars",
+                    "span ln = opening width; D = head of opening to top of slab above; b = wall "
+                    "thickness; lintel bars the same top and bottom, at cover + fitment + db/2",
                 ),
                 (
-                    "Beam shear",
-                    "simplified method Cl 8.2.4.3 (theta 36 deg, kv 0.15 with minimum fitments), "
-                    "phi 0.75, Vu.max per Eq 8.2.3.3(1) less 10 % (Amendment 2): from memory, verify",
+                    "Model",
+                    f"diagonal bars where given; else beam where ln/D >= {s.lintel_deep_ratio:g}, "
+                    f"strut-and-tie below (Cl 12.1.1 non-flexural limit for a member continuous at "
+                    "both ends, from memory: verify)",
                 ),
                 (
-                    "Deep lintels",
-                    f"span/D below {s.lintel_deep_ratio:g} are not checked as beams "
-                    "(strut-and-tie, Section 7)",
+                    "Beam",
+                    "flexure Cl 8.1; shear simplified method Cl 8.2.4.3 (theta 36 deg, kv 0.15 with "
+                    "minimum fitments), phi 0.75, Vu.max per Eq 8.2.3.3(1) less 10 % (Amendment 2): "
+                    "from memory, verify",
+                ),
+                (
+                    "Strut-and-tie",
+                    "one strut between the pier faces, top and bottom ties anchored in the piers: "
+                    f"C* = V*/sin theta, T* = V* ln/z; strut phi beta_s {s.strut_stress:g} f'c b w_s, beta_s "
+                    + (
+                        f"{s.lintel_beta_s:g} (setting)"
+                        if s.lintel_beta_s is not None
+                        else "1/(1 + 0.66 cot^2 theta) within 0.3..1.0"
+                    )
+                    + f"; C-C-T nodes beta_n {s.lintel_beta_n:g}; phi {s.phi_strut:g} struts and nodes, "
+                    f"{s.phi_tie:g} ties (from memory, verify: Project settings)",
+                ),
+                (
+                    "Diagonal bars",
+                    f"phi Vu = {s.phi_tie:g} x min(2 A_sd fsy sin alpha, {s.coupling_cap:g} sqrt(f'c) b D) "
+                    "(ACI 318-19 Eq (18.10.7.4) mechanics; alpha from the geometry, group centroid at "
+                    "cover + fitment + 1.5 db)",
                 ),
             ],
             scale_key="util",
@@ -532,16 +553,19 @@ def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
 
 
 def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
+    """Storey x lintel cases by outcome and by the model that designed them, one line."""
     per = lintels.groupby(["storey", "lintel_id"]).status.agg(
         lambda s: (
             s.iloc[0] if len(set(s)) == 1 else (results.FAIL if (s == results.FAIL).any() else results.PASS)
         )
     )
+    models = lintels[lintels.model != ""].drop_duplicates(["storey", "lintel_id"]).model.value_counts()
+    by_model = ", ".join(f"{n} {m}" for m, n in models.items())
     return (
         "Lintels",
         f"{len(per)} storey x lintel cases: {int((per == results.PASS).sum())} pass, "
         f"{int((per == results.FAIL).sum())} fail, {int((per == results.NOT_CHECKED).sum())} not "
-        "checked (reasons on the lintels sheet)",
+        "checked (no actions)" + (f"; designed as {by_model}" if by_model else ""),
     )
 
 
@@ -743,7 +767,7 @@ def worst_per_check(
     ):
         src = checked if col != "u_detailing" else summary
         line(label, src, col, lambda r: f"{r.pier_id}, {r.storey}")
-    line("lintel", lintels, "util", lambda r: f"{r.lintel_id}, {r.storey}, {r.combination}")
+    line("lintel", lintels, "util", lambda r: f"{r.lintel_id} ({r.model}), {r.storey}, {r.combination}")
     if stress is not None:
         line("core elastic stress", stress, "util", lambda r: f"{r.wall_id}, {r.storey}, {r.combination}")
     if core_nm is not None:

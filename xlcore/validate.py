@@ -704,6 +704,8 @@ def _openings(
                 break
         if bad:
             continue
+        if _lintel_bar_problems(o, rng, storeys, runs, c, f):
+            continue
         for i in range(rng[0], rng[1] + 1):
             placed[(i, o.wall_id)].append((o.offset, o.offset + o.width, o.row))
         out.append(o)
@@ -944,6 +946,75 @@ def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
             f"innermost bar is {clear[j]:.0f} mm clear of it; expected at least 3 db = {need[j]:.0f} mm "
             "(Cl 11.7): a shorter zone, or a longer one holding that bar",
         )
+
+
+
+
+LINTEL_BAR_GROUPS = (
+    ("lintel_bars", "lintel_dia"),
+    ("stirrup_dia", "stirrup_legs", "stirrup_spacing"),
+    ("diag_bars", "diag_dia"),
+)
+"""Openings-sheet cells that mean something only together: a lintel's bars, its fitments, its
+diagonal groups. Half a group is refused rather than silently ignored."""
+
+
+def _lintel_bar_problems(o: Opening, rng, storeys: list[Storey], runs, c, f: Findings) -> bool:
+    """Lintel reinforcement that is incomplete, or diagonal groups too deep to cross in the
+    lintel: an error at the cell (True: the opening is not used). Groups wider than the wall
+    leaves inside its cover: a warning.
+
+    Diagonal groups lie in two layers (common practice, no source; ACI 318-19 18.10.7.4 asks for
+    at least four bars in two layers), so ceil(n/2) bars stand side by side across the wall with a
+    clear gap of one bar diameter, and each group's centroid sits cover + fitment + 1.5 db from
+    the lintel's top and bottom faces: the lintel must be deeper than twice that for the groups
+    to cross (checks/lintels.py uses the same geometry)."""
+    t = layout.OPENINGS
+    bad = False
+    for keys in LINTEL_BAR_GROUPS:
+        given = [k for k in keys if getattr(o, k) is not None]
+        if given and len(given) < len(keys):
+            missing = next(k for k in keys if getattr(o, k) is None)
+            names = ", ".join(repr(t.column(k).header) for k in given)
+            f.error(
+                t.name,
+                c(missing),
+                f"found blank; expected {t.column(missing).expectation()} since {names} "
+                "is given on this row (or clear the row's other cells of this group)",
+            )
+            bad = True
+    if bad or o.diag_bars is None or o.diag_dia is None:
+        return bad
+    n, db = int(o.diag_bars), float(o.diag_dia)
+    across = math.ceil(n / 2)
+    fit = o.stirrup_dia or 0.0
+    crowded = False
+    for i in range(rng[0], rng[1] + 1):
+        w = runs[(i, o.wall_id)]
+        room = w.thickness - 2.0 * w.cover
+        need = (2 * across - 1) * db
+        if need > room + 1e-9 and not crowded:
+            # a warning, like a wall whose cover and bars overfill it: the design still runs
+            f.warning(
+                t.name,
+                c("diag_bars"),
+                f"found {n} bars of {db:g} mm per diagonal group: {across} side by side need "
+                f"{need:g} mm but wall {o.wall_id!r} leaves {room:g} mm inside its cover at "
+                f"{storeys[i].name}; check the bars fit",
+            )
+            crowded = True
+        depth = (storeys[i].height - o.head) * 1000.0
+        a_g = w.cover + fit + 1.5 * db
+        if depth <= 2.0 * a_g:
+            f.error(
+                t.name,
+                c("diag_dia"),
+                f"found {db:g} mm diagonal bars: their groups need a lintel deeper than "
+                f"2 x {a_g:g} mm, but the lintel at {storeys[i].name} is {depth:.0f} mm deep; "
+                "expected smaller bars (or no diagonal bars)",
+            )
+            return True
+    return False
 
 
 def _geometry(

@@ -418,3 +418,113 @@ def beam_vu_max(fc, b, dv):
     vertical fitments (cot alpha_v = 0)."""
     cot = 1.0 / np.tan(THETA_V)
     return VU_MAX_FACTOR * fc * b * dv * cot / (1 + cot**2)
+
+
+# ---------------------------------------------------------------- deep lintels, Section 7 / 12
+# AS 3600:2018 has no coupling-beam clause of its own. A lintel whose clear span / overall depth
+# is below the non-flexural limit (Cl 12.1.1, from memory: 1.5 cantilevers, 3 simply supported,
+# 4 continuous; a lintel built into piers at both ends is taken as continuous) is designed by a
+# strut-and-tie model (Section 7). Every value below is from memory (docs/engineering-basis.md,
+# "Lintels"): each is a Project setting, and the basis is written on every result row.
+
+NON_FLEXURAL_RATIO = 4.0
+"""Cl 12.1.1 (from memory): clear span / overall depth below which a member built in at both
+ends is non-flexural (4 for continuous members; 3 simply supported, 1.5 cantilevers)."""
+
+PHI_STRUT = 0.6
+"""Table 2.2.2 (from memory): phi for struts and nodes in strut-and-tie models."""
+
+PHI_TIE = 0.8
+"""Table 2.2.2 (from memory): phi for ties in strut-and-tie models."""
+
+STRUT_STRESS = 0.9
+"""Cl 7.2.1 and Cl 7.4 (from memory): struts and nodes are taken to 0.9 f'c times their factor."""
+
+BETA_S_COEFF = 0.66
+BETA_S_MIN, BETA_S_MAX = 0.3, 1.0
+"""Cl 7.2.2 (from memory): beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3..1.0 for a
+bottle-shaped strut with transverse reinforcement."""
+
+BETA_N_CCT = 0.8
+"""Cl 7.4 (from memory): node efficiency beta_n, 1.0 C-C-C, 0.8 C-C-T, 0.6 C-T-T."""
+
+COUPLING_CAP = 0.83
+"""ACI 318-19 Eq (18.10.7.4), SI (10 sqrt(f'c) Acw in psi units): the concrete limit on the
+nominal shear of a diagonally reinforced coupling beam, 0.83 sqrt(f'c) Acw [MPa, mm^2]."""
+
+
+def strut_angle(z, span):
+    """theta [rad] of the one diagonal strut between the pier faces: atan(z / ln), z the lever
+    arm between the top and bottom ties, ln the clear span (Section 7 geometry)."""
+    return np.arctan2(np.asarray(z, dtype=float), np.asarray(span, dtype=float))
+
+
+def strut_efficiency(theta, fixed=None):
+    """beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3..1.0, Cl 7.2.2 (from memory: verify); a
+    fixed value where the Project sheet gives one. theta is the angle between the strut and the
+    tie through its node."""
+    cot = 1.0 / np.tan(np.asarray(theta, dtype=float))
+    beta = np.clip(1.0 / (1.0 + BETA_S_COEFF * cot**2), BETA_S_MIN, BETA_S_MAX)
+    return beta if fixed is None else np.full_like(beta, float(fixed))
+
+
+def strut_width(w_tie, theta):
+    """Width of the strut where it meets a hydrostatic C-C-T node [mm]: the node's face on the tie
+    has the tie's height w_t, its bearing face w_t tan theta (equal stress on every face), so the
+    strut face is w_t cos theta + w_t tan theta sin theta = w_t / cos theta (Section 7 geometry;
+    the tie height is twice its cover to centroid, common practice)."""
+    return np.asarray(w_tie, dtype=float) / np.cos(np.asarray(theta, dtype=float))
+
+
+def strut_capacity(fc, b, w, beta_s, phi=PHI_STRUT, stress=STRUT_STRESS):
+    """phi Fc.s = phi beta_s 0.9 f'c b w [N], Cl 7.2.1 (from memory: verify; 0.9 a setting)."""
+    return phi * np.asarray(beta_s, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
+
+
+def node_capacity(fc, b, w, beta_n=BETA_N_CCT, phi=PHI_STRUT, stress=STRUT_STRESS):
+    """phi beta_n 0.9 f'c b w [N] on a node face of width w, Cl 7.4 (from memory: verify)."""
+    return phi * np.asarray(beta_n, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
+
+
+def tie_capacity(As, fsy, phi=PHI_TIE):
+    """phi As fsy [N], Cl 7.3 with phi for ties (Table 2.2.2, from memory)."""
+    return phi * np.asarray(As, dtype=float) * np.asarray(fsy, dtype=float)
+
+
+def diagonal_angle(D, a_group, span):
+    """alpha [rad] of two diagonal bar groups crossing at mid-span, from the geometry: the group
+    centroids sit a_group from the top and bottom faces at the pier faces, so
+    tan alpha = (D - 2 a_group) / ln (ACI 318-19 R18.10.7 figure; the angle is geometry)."""
+    rise = np.asarray(D, dtype=float) - 2.0 * np.asarray(a_group, dtype=float)
+    return np.arctan2(rise, np.asarray(span, dtype=float))
+
+
+def diagonal_shear(A_group, fsy, alpha):
+    """Vu = 2 A_sd fsy sin alpha [N]: the vertical components of the two diagonal groups, one in
+    tension and one in compression, carry the shear (ACI 318-19 Eq (18.10.7.4), Vn = 2 Avd fy
+    sin alpha; mechanics, no AS 3600 clause)."""
+    return 2.0 * np.asarray(A_group, dtype=float) * np.asarray(fsy, dtype=float) * np.sin(alpha)
+
+
+def diagonal_cap(fc, b, D, coeff=COUPLING_CAP):
+    """coeff sqrt(f'c) b D [N]: the concrete limit on the shear a diagonally reinforced lintel may
+    carry (ACI 318-19 Eq (18.10.7.4), 0.83 in SI: a Project setting)."""
+    return coeff * np.sqrt(np.asarray(fc, dtype=float)) * np.asarray(b, dtype=float) * D
+
+
+def beam_as_required(m_star, phi, b, d, fc, fsy):
+    """Least As [mm^2] of a singly reinforced rectangle with phi Muo >= M*, Cl 8.1 rearranged:
+    M*/phi = X d - X^2 / (2 alpha2 f'c b), X = As fsy. NaN where no tension steel suffices (the
+    concrete crushes first; compression steel or a deeper lintel is needed). N mm."""
+    k = alpha2(fc) * np.asarray(fc, dtype=float) * b
+    disc = np.asarray(d, dtype=float) ** 2 - 2.0 * np.abs(m_star) / (phi * k)
+    with np.errstate(invalid="ignore"):
+        x = k * (d - np.sqrt(disc))
+    return np.where(disc >= 0, x / fsy, np.nan)
+
+
+def beam_asv_s_required(v_star, phi, vuc, fsyf, dv):
+    """Least Asv/s [mm^2/mm] of vertical fitments with phi (Vuc + Vus) >= V*, Cl 8.2.5.2
+    rearranged with theta_v of the simplified method."""
+    need = np.maximum(np.abs(v_star) / phi - vuc, 0.0)
+    return need * np.tan(THETA_V) / (np.asarray(fsyf, dtype=float) * dv)
