@@ -47,6 +47,8 @@ PROJECT = dict(
     shear_height="overall wall height",
     pier_fixity="fixed-fixed",
     poisson=0.2,
+    earthquake_combinations="G+0.3Q+Ex, G+0.3Q+Ey",
+    ductility="limited ductile (mu = 2)",
 )
 
 _LIFT = [
