@@ -113,7 +113,9 @@ def test_least_ratio_each_way_at_and_either_side_of_0_0025():
     assert v.util.tolist() == pytest.approx([0.0025 / 0.0024, 1.0, 0.0025 / 0.0026])
     assert (v.limit == 0.0025).all()
     # a stricter setting moves the limit: 0.003 -> 0.0026 fails
-    strict = check_section14(p, _acts(p.pier_id, 0.0), Settings(earthquake_combinations="E", eq_rho_min=0.003))
+    strict = check_section14(
+        p, _acts(p.pier_id, 0.0), Settings(earthquake_combinations="E", eq_rho_min=0.003)
+    )
     assert _rule(strict, "vertical ratio").status.tolist() == ["FAIL", "FAIL", "FAIL"]
 
 
@@ -183,7 +185,11 @@ def test_only_earthquake_combinations_trigger_end_zones():
     p = _piers(2)
     # P0: a huge gravity N* under a non-earthquake combination and a small one under E
     acts = pd.concat(
-        [_acts(["P0"], 9000.0, combination="1.35G"), _acts(["P0"], 100.0), _acts(["P1"], 9000.0, combination="W")]
+        [
+            _acts(["P0"], 9000.0, combination="1.35G"),
+            _acts(["P0"], 100.0),
+            _acts(["P1"], 9000.0, combination="W"),
+        ]
     )
     t = _rule(check_section14(p, acts, QUAKE), "end-zone trigger")
     assert t.loc["P0", "value"] == pytest.approx(100e3 / 4e5)  # 0.25 MPa from E only (hand)
@@ -225,7 +231,14 @@ def test_moderately_ductile_says_what_is_not_checked():
 def test_every_row_names_its_clause_and_basis():
     p = _piers(2)
     out = check_section14(p, _acts(p.pier_id, [100.0, 5000.0]), QUAKE)
-    assert set(out.rule) == {"both faces", "vertical ratio", "horizontal ratio", "Hwe/tw", "end-zone trigger", "end-zone ties"}
+    assert set(out.rule) == {
+        "both faces",
+        "vertical ratio",
+        "horizontal ratio",
+        "Hwe/tw",
+        "end-zone trigger",
+        "end-zone ties",
+    }
     assert out.clause.str.match(r"(Cl 14\.6|Section 14)").all()
     assert out.basis.str.contains("limited ductile").all()
     assert out.working.str.len().gt(0).all()

@@ -111,7 +111,7 @@ def check_section14(
                 f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
                 for v, h, n in zip(*plain(p.v_layers, p.h_layers, layers), strict=True)
             ],
-            f"bars in both faces (Project setting), {MEMORY}",
+            f"both faces (Project setting), {MEMORY}",
         )
     rho_min = as3600.eq_wall_rho_min(settings.eq_rho_min)
     for name, rho, dia, s, n in (
@@ -133,7 +133,7 @@ def check_section14(
                 f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
                 for k, d, sp, t, r in zip(*plain(n, dia, s, p.tw, rho), strict=True)
             ],
-            f"{rho_min:g} each way whatever the stress or restraint (Project setting), {MEMORY}",
+            f"{rho_min:g} each way, no Cl 11.7 relaxation (Project setting), {MEMORY}",
         )
     slender = as3600.eq_wall_slenderness(p.hwe, p.tw)
     limit = settings.eq_slenderness
@@ -151,8 +151,7 @@ def check_section14(
             f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
             for h, t, r in zip(*plain(p.hwe, p.tw, slender), strict=True)
         ],
-        f"Hwe by Cl 11.4 (storey clear height where the pier has no actions); limit {limit:g} "
-        f"(Project setting), {MEMORY}",
+        f"Hwe by Cl 11.4 (clear height where no actions); {limit:g} (Project setting), {MEMORY}",
     )
     _end_zones(p, actions, settings, rule)
     out = pd.concat(parts, ignore_index=True)
@@ -222,7 +221,7 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule)
                 f"({t:.0f} x {L:.0f}^2) = {s1:.2f} MPa (other end {s2:.2f}) vs {ratio:g} f'c = {lim:.2f} MPa"
             )
             if s1 > lim:
-                text += f"; end zone required over {z:.0f} mm from each end (stress above the trigger)"
+                text += "; end zone required " + _zone_words(z, L)
             out.append(text)
         return out
 
@@ -236,30 +235,26 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule)
         status,
         u,
         trigger_text,
-        f"worst of the earthquake combinations ({names}); linear elastic, gross pier section, |M*| "
-        f"as earthquake actions reverse; a trigger for detailing, not a failure; {ratio:g} f'c "
-        "(Project setting), Low confidence",
+        f"worst of {names}; gross section, linear elastic, |M*| (actions reverse); {ratio:g} f'c "
+        "(Project setting); a trigger, not a failure; Low confidence",
     )
     if not over.any():
         return
     z = p[over].reset_index(drop=True)
     zlen = zone[over]
-    described = all(k in z for k in END_BARS) and z[list(END_BARS)].notna().all(axis=1).to_numpy()
-    described = np.broadcast_to(np.asarray(described, dtype=bool), (len(z),))
-    db = np.where(
-        described, z[END_BARS[0]].to_numpy(float) if END_BARS[0] in z else np.nan, z.v_dia.to_numpy(float)
-    )
+    bars = _end_bars(z)  # end-zone bar diameter and tie spacing; NaN where not described
+    described = ~np.isnan(bars).any(axis=1)
+    db = np.where(described, bars[:, 0], z.v_dia.to_numpy(float))  # else the wall's vertical bar
     need = as3600.end_zone_tie_spacing(db, settings.eq_tie_diameters, settings.eq_tie_max)
-    given = z[END_BARS[1]].to_numpy(float) if END_BARS[1] in z else np.full(len(z), np.nan)
-    given = np.where(described, given, np.nan)
+    given = np.where(described, bars[:, 1], np.nan)
     u = np.where(described, given / need, np.nan)
     status = np.where(described, _pass_fail(u), CHECK).astype(object)
     k, cap = settings.eq_tie_diameters, settings.eq_tie_max
 
     def ties_text() -> list[str]:
         out = []
-        for d, s, n, L, ok in zip(*plain(db, given, need, zlen), described.tolist(), strict=True):
-            req = f"ties at most min({k:g} x {d:g}, {cap:g}) = {n:.0f} mm over {L:.0f} mm from each end"
+        for d, s, n, zl, L, ok in zip(*plain(db, given, need, zlen, z.Lw), described.tolist(), strict=True):
+            req = f"ties at most min({k:g} x {d:g}, {cap:g}) = {n:.0f} mm {_zone_words(zl, L)}"
             if ok:
                 out.append(f"s = {s:.0f} mm vs {req}")
             else:
@@ -279,9 +274,25 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule)
         status,
         u,
         ties_text,
-        f"end zone where the trigger is exceeded; spacing min({k:g} db, {cap:g} mm) (Project settings), "
-        f"{MEMORY}; status 'check' until end-zone bars are described",
+        f"where the trigger is exceeded; min({k:g} db, {cap:g} mm) (Project settings), {MEMORY}; "
+        "'check' until end-zone bars are described",
     )
+
+
+def _end_bars(p: pd.DataFrame) -> np.ndarray:
+    """The `END_BARS` columns of the pier table as rows x 2 floats (NaN where absent): the one
+    place that reads the end-zone bars, so wiring their input in changes nothing else."""
+    return np.column_stack(
+        [p[k].to_numpy(float) if k in p else np.full(len(p), np.nan) for k in END_BARS]
+    ).reshape(len(p), len(END_BARS))
+
+
+def _zone_words(zone: float, Lw: float) -> str:
+    """Where the end zones lie: from each end (the actions reverse), or the whole pier where the
+    two zones meet."""
+    if 2.0 * zone >= Lw:
+        return f"over the whole pier ({Lw:.0f} mm: the zones from each end, {zone:.0f} mm, meet)"
+    return f"over {zone:.0f} mm from each end"
 
 
 def _pass_fail(util) -> np.ndarray:
