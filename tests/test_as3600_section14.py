@@ -318,3 +318,17 @@ def test_settings_are_validated_at_their_project_cell(demo_book, key, value, wor
     found = [e for e in err.value.findings.errors if e.sheet == sheet and e.cell == cell]
     assert found, [str(e) for e in err.value.findings.errors]
     assert words in found[0].message
+
+
+def test_without_working_only_pass_fail_rows_count():
+    # what the advice search sees: P0 rho_v 0.002 -> 0.0025 / 0.002 = 1.25; P1 rho_v 0.003 ->
+    # 0.833, above its horizontal 2 x 113.1 / (200 x 200) = 0.00565 -> 0.442 and Hwe/tw 15 / 20 =
+    # 0.75 (hand). The end-zone trigger (3000 kN / 4e5 mm2 = 7.5 MPa > 6.0) is never counted.
+    p = _piers(2)
+    p["rho_v"] = [0.002, 0.003]
+    worst = check_section14(p, _acts(p.pier_id, 3000.0), QUAKE, working=False).groupby("pier_id").util.max()
+    assert worst.tolist() == pytest.approx([1.25, 0.0025 / 0.003])
+    # ties counted once described: 200 mm vs min(6 x 16, 150) = 96 -> 2.083 (from memory)
+    p["end_bar_dia"], p["end_tie_spacing"] = 16.0, 200.0
+    worst = check_section14(p, _acts(p.pier_id, 3000.0), QUAKE, working=False).groupby("pier_id").util.max()
+    assert worst.tolist() == pytest.approx([200 / 96] * 2)
