@@ -161,12 +161,13 @@ def check_section14(
     if not working:
         return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
     out["clause"] = out.rule.map(CLAUSE)
-    order = pd.Series(range(len(RULES)), index=RULES)
-    out["rule_order"] = out.rule.map(order)
-    out = out.sort_values(
-        ["storey_index", "pier_id", "rule_order"], ascending=[False, True, True], kind="stable"
-    )
-    return out.drop(columns="rule_order").reset_index(drop=True)
+    # piers in the pier table's order (storeys top down, walls and piers in natural order), each
+    # pier's rules in the order of RULES
+    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
+    out = out.sort_values(["storey_index", "_pier", "_rule"], ascending=[False, True, True], kind="stable")
+    return out.drop(columns=["_pier", "_rule"]).reset_index(drop=True)
 
 
 def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule) -> None:
