@@ -332,3 +332,15 @@ def test_without_working_only_pass_fail_rows_count():
     p["end_bar_dia"], p["end_tie_spacing"] = 16.0, 200.0
     worst = check_section14(p, _acts(p.pier_id, 3000.0), QUAKE, working=False).groupby("pier_id").util.max()
     assert worst.tolist() == pytest.approx([200 / 96] * 2)
+
+
+def test_ductile_structure_without_earthquake_combinations_is_warned_at_the_cell(demo_book):
+    sheet, cell = setting_cell("earthquake_combinations")
+    edit(demo_book, {(sheet, cell): None})
+    _, findings = pipeline.load(demo_book)
+    said = [w for w in findings.warnings if w.cell == cell and "Section 14" in w.message]
+    assert said and "limited ductile (mu = 2)" in said[0].message
+    # an elastic design needs no earthquake combination for Section 14: no such warning
+    edit(demo_book, {setting_cell("ductility"): "elastic (mu = 1)"})
+    _, findings = pipeline.load(demo_book)
+    assert not [w for w in findings.warnings if "Section 14" in w.message]
