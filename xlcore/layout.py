@@ -327,7 +327,7 @@ PROJECT = SettingsSheet(
         ),
         Setting(
             "eq_two_layers",
-            "Section 14: reinforcement in both faces",
+            "Section 14: bars in both faces",
             None,
             Kind.CHOICE,
             "yes",
@@ -359,7 +359,7 @@ PROJECT = SettingsSheet(
         ),
         Setting(
             "eq_tie_diameters",
-            "Section 14: end-zone tie spacing, bar diameters",
+            "Section 14: tie spacing in db",
             "x db",
             Kind.NUMBER,
             6.0,
@@ -371,7 +371,7 @@ PROJECT = SettingsSheet(
         ),
         Setting(
             "eq_tie_max",
-            "Section 14: end-zone tie spacing cap",
+            "Section 14: tie spacing cap",
             "mm",
             Kind.NUMBER,
             150.0,
