@@ -271,21 +271,21 @@ def test_single_layer_wall_fails_section_14_in_the_summary(demo_book):
     # the top run of the lift walls with one layer of vertical bars: Cl 14.6 both faces fails
     # (from memory), and N12 @ 250 in one layer in 200 mm is 113.1 / (250 x 200) = 0.00226 < 0.0025
     b, _ = pipeline.load(demo_book)
-    rows = [w.row for w in b.walls if w.storey_from == "L10" and w.wall_id.startswith("LW")]
+    rows = [w.row for w in b.walls if w.storey_from == "L10" and w.wall_id.startswith("Lift")]
     edit(demo_book, {(W.name, f"{col(W, 'v_layers')}{r}"): 1 for r in rows})
     o = outcome(demo_book)
     s = o.summary[o.summary.storey == "L12"].set_index("pier_id")
-    lift = s[s.index.str.startswith("LW")]
+    lift = s[s.index.str.startswith("Lift")]
     assert (lift.status == results.FAIL).all()
     assert lift.section14.str.startswith("FAIL").all()
     assert lift.note.str.contains("Section 14 fails").all()
     assert (lift.check != pipeline.CHECK_SECTION14).all()
     sec = _sheet(o, results.SECTION14_SHEET).table
-    v = sec[(sec.storey == "L12") & (sec.pier_id == "LW2") & (sec.rule == "vertical ratio")]
+    v = sec[(sec.storey == "L12") & (sec.pier_id == "LiftE") & (sec.rule == "vertical ratio")]
     assert v.value.iloc[0] == pytest.approx(np.pi * 36 / (250 * 200))
     # the advice's cheapest fix must pass Section 14 too: vertical bars in two layers, never one
     advice = _sheet(o, results.ADVICE_SHEET).table
-    mine = advice[(advice.storey == "L12") & advice.pier_id.str.startswith("LW") & (advice["rank"] == 1)]
+    mine = advice[(advice.storey == "L12") & advice.pier_id.str.startswith("Lift") & (advice["rank"] == 1)]
     assert len(mine) and mine.option.str.contains("2 layers").all()
 
 

@@ -67,6 +67,9 @@ RULES: dict[str, list] = {
         ),
         ("working", lambda t: t.rule == "end-zone ties", [("limit", _int)]),
     ],
+    results.CORES_SHEET: [
+        ("working", None, [("vx", F1), ("vy", F1), ("n", F1), ("my", F1), ("mx", F1)]),
+    ],
     results.CORE_NM_SHEET: [
         ("working", None, [("n", _int), ("phi_mu", _int), ("m_res", _int), ("util", F3)]),
         ("working", lambda t: t.n >= 0, [("phi_nuo", _int)]),
