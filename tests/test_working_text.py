@@ -56,6 +56,17 @@ RULES: dict[str, list] = {
     results.CORE_STRESS_SHEET: [
         ("working", None, [("tension", F1), ("as_req", _int), ("as_prov", _int), ("sigma_max", F2)]),
     ],
+    results.SECTION14_SHEET: [
+        ("working", lambda t: t.rule == "both faces", [("value", _int)]),
+        ("working", lambda t: t.rule.str.endswith("ratio"), [("value", _f(".5f")), ("limit", _f("g"))]),
+        ("working", lambda t: t.rule == "Hwe/tw", [("value", F1), ("limit", _f("g"))]),
+        (
+            "working",
+            lambda t: (t.rule == "end-zone trigger") & (t.status != results.NOT_APPLICABLE),
+            [("value", F2), ("limit", F2)],
+        ),
+        ("working", lambda t: t.rule == "end-zone ties", [("limit", _int)]),
+    ],
     results.CORES_SHEET: [
         ("working", None, [("vx", F1), ("vy", F1), ("n", F1), ("my", F1), ("mx", F1)]),
     ],

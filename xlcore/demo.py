@@ -51,6 +51,7 @@ PROJECT = dict(
     pier_fixity="fixed-fixed",
     earthquake_combinations=EARTHQUAKE,
     poisson=0.2,
+    ductility="limited ductile (mu = 2)",
 )
 
 # Two cores 3.55 m apart, joined only by the floor slabs: each its own section (core IDs).

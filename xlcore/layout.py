@@ -146,6 +146,9 @@ HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
 WALL_SHARING = ("one storey's stiffness", "whole-height cantilever")
+# Structural ductility factor mu as the earthquake standard (AS 1170.4) assigns it; AS 3600:2018
+# Section 14 covers limited ductile (mu = 2) and moderately ductile (mu = 3) structures
+DUCTILITY = ("elastic (mu = 1)", "limited ductile (mu = 2)", "moderately ductile (mu = 3)")
 
 INSTRUCTIONS_SHEET = "Read me"
 
@@ -380,9 +383,10 @@ PROJECT = SettingsSheet(
             "x f'c",
             Kind.NUMBER,
             0.15,
-            "Core stress check, earthquake combinations only: peak elastic compression above "
-            "this fraction of f'c flags end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6, "
-            "from memory: verify). A flag, never a failing utilisation.",
+            "Earthquake combinations only: peak elastic compression above this fraction of f'c "
+            "calls for end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6.2, from memory: "
+            "verify): a flag on the core stress check and the trigger of the Section 14 end-zone "
+            "rule of every pier (N*/A + M*/Z). Never a failing utilisation.",
             min=0.05,
             max=1.0,
         ),
@@ -394,7 +398,76 @@ PROJECT = SettingsSheet(
             "",
             "Names of the load combinations that include earthquake actions, separated by "
             "commas (blank: none). Only these get the 0.15 f'c end-zone detailing flag of the "
-            "core stress check (AS 3600:2018 Cl 14.6, a trigger for detailing, not a capacity).",
+            "core stress check and the Section 14 end-zone rule of the piers (AS 3600:2018 "
+            "Cl 14.6, a trigger for detailing, not a capacity).",
+        ),
+        Setting(
+            "ductility",
+            "Structural ductility factor mu",
+            None,
+            Kind.CHOICE,
+            DUCTILITY[1],
+            "As the earthquake design (AS 1170.4) assigns it. 'limited ductile (mu = 2)' and "
+            "'moderately ductile (mu = 3)' get the wall rules of AS 3600:2018 Section 14 on the "
+            "earthquake detailing sheet (moderately ductile: the limited-ductile rules as a floor; "
+            "its further provisions are not checked); 'elastic (mu = 1)' gets none. Default: the "
+            "conservative one that applies the rules.",
+            choices=DUCTILITY,
+        ),
+        Setting(
+            "eq_two_layers",
+            "Section 14: bars in both faces",
+            None,
+            Kind.CHOICE,
+            "yes",
+            "Walls of a limited- or moderately-ductile structure need vertical and horizontal "
+            "bars in two layers, one near each face (AS 3600:2018 Cl 14.6, from memory: verify).",
+            choices=YES_NO,
+        ),
+        Setting(
+            "eq_rho_min",
+            "Section 14: least ratio each way",
+            None,
+            Kind.NUMBER,
+            0.0025,
+            "Least vertical and least horizontal reinforcement ratio of walls of a limited- or "
+            "moderately-ductile structure (0.0025, AS 3600:2018 Cl 14.6, from memory: verify).",
+            min=0.001,
+            max=0.02,
+        ),
+        Setting(
+            "eq_slenderness",
+            "Section 14: Hwe/tw limit",
+            None,
+            Kind.NUMBER,
+            20.0,
+            "Largest effective height / thickness (Cl 11.4 Hwe) of walls of a limited- or "
+            "moderately-ductile structure (20, AS 3600:2018 Section 14, from memory: verify).",
+            min=5.0,
+            max=50.0,
+        ),
+        Setting(
+            "eq_tie_diameters",
+            "Section 14: tie spacing in db",
+            "x db",
+            Kind.NUMBER,
+            6.0,
+            "Where an end zone is required (compression above the peak compression limit under an "
+            "earthquake combination), ties restraining its vertical bars at most this many "
+            "vertical-bar diameters apart (6, AS 3600:2018 Cl 14.6.2, from memory: verify).",
+            min=3.0,
+            max=20.0,
+        ),
+        Setting(
+            "eq_tie_max",
+            "Section 14: tie spacing cap",
+            "mm",
+            Kind.NUMBER,
+            150.0,
+            "End-zone ties at most this far apart whatever the bar size (150 mm, AS 3600:2018 "
+            "Cl 14.6.2, from memory: verify).",
+            min=50.0,
+            max=400.0,
         ),
         Setting(
             "concrete_prices",

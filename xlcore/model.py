@@ -26,10 +26,23 @@ class Settings(BaseModel):
     compression_limit: float = 0.15
     earthquake_combinations: str = ""
 
+    ductility: str = "limited ductile (mu = 2)"
+    eq_two_layers: str = "yes"
+    eq_rho_min: float = 0.0025
+    eq_slenderness: float = 20.0
+    eq_tie_diameters: float = 6.0
+    eq_tie_max: float = 150.0
+
     @property
     def earthquake(self) -> set[str]:
         """Names of the earthquake combinations (Project setting, comma separated)."""
         return {n.strip() for n in self.earthquake_combinations.split(",") if n.strip()}
+
+    @property
+    def mu(self) -> int:
+        """Structural ductility factor mu of the ductility setting (1, 2 or 3)."""
+        return int(self.ductility.split("mu = ")[1].rstrip(")"))
+
     shrinkage_restrained: str = "yes"
     lintel_deep_ratio: float = 4.0
     phi_strut: float = 0.6

@@ -20,6 +20,7 @@ from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
+from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -93,7 +94,8 @@ def compute(
         axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe)
-        summary = envelope(shear, piers, axial, detailing)
+        section14 = check_section14(piers, acts, s, hwe)
+        summary = envelope(shear, piers, axial, detailing, section14)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())
     with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
@@ -125,7 +127,7 @@ def compute(
             preamble=stamp
             + _counts(summary, shear)
             + worst_per_check(summary, lintels, stress, core_nm)
-            + [lintel_line],
+            + [section14_line(section14, s), lintel_line],
             scale_key="util",
         ),
         ResultSheet(
@@ -190,6 +192,15 @@ def compute(
             scale_key="util",
         ),
         ResultSheet(
+            results.SECTION14_SHEET,
+            f"{results.MARKER}: earthquake detailing of piers, {s.standard} Section 14 "
+            "(rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
+            results.SECTION14_COLUMNS,
+            section14,
+            preamble=stamp + section14_preamble(s),
+            scale_key="util",
+        ),
+        ResultSheet(
             results.LINTELS_SHEET,
             f"{results.MARKER}: lintels (coupling beams) over openings designed, {s.standard} "
             "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars",
@@ -246,8 +257,8 @@ def compute(
                     "Search",
                     "standard grades; horizontal N10-N20 and vertical N12-N28 at 100-300 mm in 25 mm "
                     "steps, one or two layers; thickness +25 mm steps to +300 mm; each option run "
-                    "through every check (shear, axial + bending, Cl 11.5, detailing) with the actions "
-                    "held as analysed",
+                    "through every check (shear, axial + bending, Cl 11.5, detailing, Section 14) "
+                    "with the actions held as analysed",
                 ),
                 (
                     "Cost",
@@ -588,10 +599,15 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
             )
         )
     lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
+    lines.append(
+        ("Earthquake Section 14 failing", int((summary.section14.str.startswith(results.FAIL)).sum()))
+    )
     return lines
 
 
-def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame) -> pd.DataFrame:
+def _candidates(
+    shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame, section14: pd.DataFrame | None = None
+) -> pd.DataFrame:
     """Every check's rows in one shape: storey, pier, check, combination, demand, capacity, U."""
     cols = [
         "storey",
@@ -644,16 +660,32 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
                 note=detailing.rule,
             )[cols]
         )
+    if section14 is not None and len(section14):
+        # compliance rows only: an end zone required is a trigger, "check" a requirement that
+        # cannot be verified yet; neither is a pass or a failure
+        e = section14[section14.status.isin((results.PASS, results.FAIL))]
+        parts.append(
+            e.assign(
+                check=CHECK_SECTION14,
+                combination="(all)",
+                demand=e.value,
+                capacity=e.limit,
+                note=e.rule,
+            )[cols]
+        )
     return pd.concat(parts, ignore_index=True)
 
 
 CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", AXIAL_CHECK, "Cl 11.5 compression"
 CHECK_DETAILING = "detailing Cl 11.7"
+CHECK_SECTION14 = "earthquake Section 14"
+COMPLIANCE = (CHECK_DETAILING, CHECK_SECTION14)  # reported beside the governing check, never it
 UTIL_COLUMN = {
     CHECK_SHEAR: "u_shear",
     CHECK_NM: "u_nm",
     CHECK_SIMPLIFIED: "u_simplified",
     CHECK_DETAILING: "u_detailing",
+    CHECK_SECTION14: "u_section14",
 }
 
 
@@ -662,21 +694,25 @@ def envelope(
     piers: pd.DataFrame,
     axial: pd.DataFrame | None = None,
     detailing: pd.DataFrame | None = None,
+    section14: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
     """Governing structural check and worst combination per storey x pier, with each check's
     worst utilisation beside it; piers without actions are listed as not checked.
 
-    Detailing (Cl 11.7) is compliance, not strength: it is reported beside the structural
-    result as pass/FAIL with its ratio and makes the status FAIL, but it never becomes the
-    governing check, whose utilisation is the one the engineer needs to see."""
+    Detailing (Cl 11.7) and earthquake detailing (Section 14) are compliance, not strength:
+    each is reported beside the structural result as pass/FAIL with its ratio and makes the
+    status FAIL, but never becomes the governing check, whose utilisation is the one the
+    engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
+    described) shows as 'check' beside it."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
     cand = _candidates(
         shear,
         axial if axial is not None else pd.DataFrame(),
         detailing if detailing is not None else pd.DataFrame(),
+        section14,
     )
     keys = ["storey", "pier_id"]
-    structural = cand[cand.check != CHECK_DETAILING] if len(cand) else cand
+    structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
     if len(structural):
         worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
         per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
@@ -689,30 +725,40 @@ def envelope(
     for c in UTIL_COLUMN.values():
         if c not in table:
             table[c] = np.nan
-    det = cand[cand.check == CHECK_DETAILING] if len(cand) else cand
-    if len(det):
-        det_worst = det.loc[det.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "status", "note"]]
-        det_worst = det_worst.rename(columns={"util": "u_det", "status": "s_det", "note": "rule_det"})
-        table = table.merge(det_worst, on=keys, how="left")
-        table["u_detailing"] = table.u_det
-    else:
-        table["s_det"], table["rule_det"] = np.nan, ""
     missing = table.u_shear.isna()  # no actions: strength not checked, whatever detailing says
     table.loc[missing, ["status", "check", "combination", "clause"]] = [results.NOT_CHECKED, "", "", ""]
     table.loc[missing, ["util", "demand", "capacity"]] = np.nan
     table.loc[missing, "note"] = "no actions for this pier or its wall at this storey (detailing only)"
-    u_det = table.u_detailing.to_numpy(dtype=float)
-    det_fails = (table.s_det == results.FAIL).to_numpy()
-    table["detailing"] = [
-        "" if not np.isfinite(u) else f"{results.FAIL if bad else results.PASS} {u:.2f}"
-        for u, bad in zip(u_det, det_fails, strict=True)
-    ]
     checked = ~missing.to_numpy()
-    table.loc[checked & det_fails, "status"] = results.FAIL
-    note = table.note.fillna("").astype(str)
-    extra = np.where(det_fails, "detailing fails: " + table.rule_det.fillna("").astype(str), "")
+    notes = [table.note.fillna("").astype(str).to_numpy()]
+    to_check = _section14_checks(section14, table[keys])
+    for check, text_col, util_col, label in (
+        (CHECK_DETAILING, "detailing", "u_detailing", "detailing fails: "),
+        (CHECK_SECTION14, "section14", "u_section14", "Section 14 fails: "),
+    ):
+        u, fails, rule = _compliance(cand, table[keys], check)
+        table[util_col] = u
+        text = np.array(
+            [
+                "" if not np.isfinite(x) else f"{results.FAIL if bad else results.PASS} {x:.2f}"
+                for x, bad in zip(u, fails, strict=True)
+            ],
+            dtype=object,
+        )
+        if check == CHECK_SECTION14:
+            text = np.array(
+                [
+                    ", ".join(x for x in (t, results.CHECK if c else "") if x)
+                    for t, c in zip(text, to_check, strict=True)
+                ],
+                dtype=object,
+            )
+        table[text_col] = text
+        table.loc[checked & fails, "status"] = results.FAIL
+        notes.append(np.where(fails, label + rule, ""))
+    notes.append(np.where(to_check, "Section 14: end-zone ties to check (bars not described)", ""))
     table["note"] = [
-        "; ".join(x for x in (a, b) if x) for a, b in zip(note.tolist(), extra.tolist(), strict=True)
+        "; ".join(x for x in parts if x) for parts in zip(*(n.tolist() for n in notes), strict=True)
     ]
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
@@ -722,6 +768,101 @@ def envelope(
     table["util"] = table.util.astype(float)
     table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
     return table[cols].reset_index(drop=True)
+
+
+def _compliance(
+    cand: pd.DataFrame, at: pd.DataFrame, check: str
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per row of `at` (storey, pier): the worst utilisation of a compliance check's rules,
+    whether any fails, and the worst rule's name (NaN, False, '' where it has no rows)."""
+    keys = ["storey", "pier_id"]
+    rows = cand[cand.check == check] if len(cand) else cand
+    if not len(rows):
+        n = len(at)
+        return np.full(n, np.nan), np.zeros(n, dtype=bool), np.full(n, "", dtype=object)
+    worst = rows.loc[rows.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "note"]]
+    fails = rows[rows.status == results.FAIL].groupby(keys, sort=False).size().rename("n_fail").reset_index()
+    m = at.merge(worst, on=keys, how="left").merge(fails, on=keys, how="left")
+    return (
+        m.util.to_numpy(dtype=float),
+        m.n_fail.fillna(0).to_numpy() > 0,
+        m.note.fillna("").astype(str).to_numpy(),
+    )
+
+
+def _section14_checks(section14: pd.DataFrame | None, at: pd.DataFrame) -> np.ndarray:
+    """Per row of `at`: whether a Section 14 requirement awaits checking (status 'check')."""
+    if section14 is None or not len(section14):
+        return np.zeros(len(at), dtype=bool)
+    open_ = section14[section14.status == results.CHECK][["storey", "pier_id"]].drop_duplicates()
+    m = at.merge(open_.assign(_c=True), on=["storey", "pier_id"], how="left")
+    return m._c.eq(True).to_numpy()
+
+
+def section14_preamble(s) -> list[tuple[str, str]]:
+    """Lines above the Section 14 table: the ductility, the combinations, the settings."""
+    why = not_applicable_reason(s)
+    lines = [("Structural ductility factor", s.ductility + " (Project setting, as AS 1170.4 assigns it)")]
+    if why is not None:
+        return lines + [("Not applicable", f"no rows: {why}")]
+    lines += [
+        (
+            "Earthquake combinations",
+            ", ".join(sorted(s.earthquake))
+            or "none named (Project setting): the end-zone trigger is not evaluated",
+        ),
+        (
+            "Rules",
+            f"both faces: {s.eq_two_layers}; least ratio {s.eq_rho_min:g} each way; Hwe/tw at most "
+            f"{s.eq_slenderness:g}; end zones where N*/A + |M*|/Z exceeds {s.compression_limit:g} f'c "
+            f"under an earthquake combination, ties at most min({s.eq_tie_diameters:g} db, "
+            f"{s.eq_tie_max:g} mm) (Project settings; from memory: verify)",
+        ),
+        (
+            "Status",
+            "pass / FAIL: a rule met or not; required / not required: the end-zone trigger (not a "
+            "failure); check: a requirement xlcore cannot verify (end-zone bars not described yet)",
+        ),
+    ]
+    if s.mu >= 3:
+        lines.append(
+            (
+                "Moderately ductile",
+                "the limited-ductile rules are applied as a floor; the further provisions for "
+                "moderately-ductile walls are not checked by xlcore: verify them by hand",
+            )
+        )
+    return lines
+
+
+def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
+    """The building's Section 14 result in one summary line."""
+    label = "Earthquake detailing Section 14"
+    why = not_applicable_reason(s)
+    if why is not None:
+        return (label, f"not applicable: {why}")
+    if section14 is None or not len(section14):
+        return (label, "not checked (no rows)")
+    comp = section14[section14.status.isin((results.PASS, results.FAIL))]
+    parts = []
+    if len(comp):
+        r = comp.loc[comp.util.astype(float).idxmax()]
+        n_fail = int((comp.status == results.FAIL).sum())
+        verdict = results.FAIL if r.util > 1.0 else results.PASS
+        parts.append(
+            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}; "
+            f"{n_fail} of {len(comp)} rule rows fail)"
+        )
+    zones = section14[section14.status == results.REQUIRED]
+    checks = int((section14.status == results.CHECK).sum())
+    if not s.earthquake:
+        parts.append("end zones not evaluated: no earthquake combinations named")
+    else:
+        parts.append(
+            f"end zones required at {len(zones)} storey x pier cases"
+            + (f" ({checks} with end-zone bars not described: check)" if checks else "")
+        )
+    return (label, f"{s.ductility}: " + "; ".join(parts))
 
 
 def attention_first(summary: pd.DataFrame) -> pd.DataFrame:

@@ -11,6 +11,9 @@ from xlcore.layout import RESULT_PREFIX
 
 MARKER = "xlcore results"  # first words of A1 on every result sheet: how xlcore knows its own
 PASS, FAIL, NOT_CHECKED, NOT_APPLICABLE = "pass", "FAIL", "not checked", "n/a"
+# Section 14 statuses that are neither pass nor FAIL: an end zone required (a trigger for
+# detailing, not a failure) or not, and a requirement xlcore cannot verify (bars not described)
+REQUIRED, NOT_REQUIRED, CHECK = "required", "not required", "check"
 STAMP_HASH_LABEL = "Input hash (SHA-256)"  # stamp line `check` reads to tell stale results
 
 
@@ -60,6 +63,7 @@ SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 DETAILING_SHEET = RESULT_PREFIX + "detailing"
+SECTION14_SHEET = RESULT_PREFIX + "earthquake detailing"
 LINTELS_SHEET = RESULT_PREFIX + "lintels"
 ADVICE_SHEET = RESULT_PREFIX + "advice"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
@@ -122,6 +126,8 @@ SUMMARY_COLUMNS = [
     _c("u_simplified", "U Cl 11.5", None, "0.000", 8),
     _c("detailing", "Detailing Cl 11.7", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
+    _c("section14", "Earthquake Section 14", width=12),
+    _c("u_section14", "U Section 14", None, "0.000", 9),
     _c("fix", "Cheapest fix (see the advice sheet)", width=30),
     _c("note", "Note", width=30),
 ]
@@ -245,6 +251,21 @@ DETAILING_COLUMNS = [
     _c("status", "Status", width=8),
     _c("clause", "Clause", width=26),
     _c("working", "Working", width=70),
+]
+
+SECTION14_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("rule", "Rule", width=16),
+    _c("value", "Value", None, "0.0####", 10),
+    _c("kind", "Must be", width=9),
+    _c("limit", "Limit", None, "0.0####", 10),
+    _c("unit", "Unit", width=6),
+    _c("util", "Ratio", None, "0.000", 8),
+    _c("status", "Status", width=11),
+    _c("clause", "Clause", width=20),
+    _c("basis", "Basis", width=40),
+    _c("working", "Working", width=60),
 ]
 
 LINTEL_RESULT_COLUMNS = [

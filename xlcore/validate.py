@@ -48,6 +48,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     actions = _member_actions(tables["member_actions"], storeys, geom, f, set() if complete else unsound)
     core = _core_actions(tables["core_actions"], storeys, geom if complete else None, f)
     _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
+    _ductile_without_earthquake(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
     _combination_warnings(actions, core, f)
     if f.errors:
         raise InputInvalid(f)
@@ -408,6 +409,24 @@ def _earthquake_names(sheet: RawSheet | None, s: Settings, actions, core, f: Fin
         cell_name(1, row),
         f"found combination name(s) {', '.join(map(repr, unknown))} that no action sheet has; "
         f"expected names from the action sheets, separated by commas",
+    )
+
+
+def _ductile_without_earthquake(sheet: RawSheet | None, s: Settings, actions, core, f: Findings) -> None:
+    """A structure designed as limited or moderately ductile has earthquake combinations; with
+    none named, Section 14's end-zone trigger is not evaluated: say so once (a warning, as the
+    result sheets would only show it as n/a)."""
+    if sheet is None or s.earthquake or s.mu < 2:
+        return
+    if not any(df is not None and len(df) for df in (actions, core)):
+        return
+    label = _norm(layout.PROJECT.setting("earthquake_combinations").label)
+    row = next((r for r in range(2, len(sheet.rows) + 1) if _norm(sheet.value(r, 0)) == label), None)
+    f.warning(
+        layout.PROJECT.name,
+        cell_name(1, row) if row else None,
+        f"ductility {s.ductility} but no earthquake combinations named: the Section 14 end-zone "
+        "trigger (0.15 f'c) is not evaluated; name them here, separated by commas",
     )
 
 

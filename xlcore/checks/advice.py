@@ -1,11 +1,11 @@
 """The cheapest changes that make each failing pier pass every check at its storey.
 
 A search over discrete options, each evaluated with the same vectorised checks as the design
-(shear, axial + bending, Cl 11.5, detailing): a higher standard grade; the lightest horizontal
-or vertical bar arrangement within the detailing limits; end-zone bars at both free edges of
-the pier (offered first where axial + bending fails); a thicker wall in 25 mm steps. The
-actions are held as analysed (a stiffer pier would attract more; re-run the analysis after a
-change). Options are ranked by the added cost per metre height of pier.
+(shear, axial + bending, Cl 11.5, detailing Cl 11.7 and Section 14): a higher standard grade;
+the lightest horizontal or vertical bar arrangement within the detailing limits; end-zone bars
+at both free edges of the pier (offered first where axial + bending fails); a thicker wall in
+25 mm steps. The actions are held as analysed (a stiffer pier would attract more; re-run the
+analysis after a change). Options are ranked by the added cost per metre height of pier.
 """
 
 from __future__ import annotations
@@ -18,6 +18,7 @@ import pandas as pd
 from xlcore import bars, costs, geometry
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
+from xlcore.checks.section14 import check_section14
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import as3600
 from xlcore.model import Settings
@@ -332,6 +333,7 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
         hwe = None
     if not only_axial:
         parts.append(check_detailing(var, acts, s, hwe, working=False)[["pier_id", "util"]])
+        parts.append(check_section14(var, acts, s, hwe, working=False))
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()

@@ -363,6 +363,85 @@ def wall_min_clear_gap(db):
     return CLEAR_GAP_DIAMETERS * np.asarray(db, dtype=float)
 
 
+# ---------------------------------------------------------------- earthquake detailing, Section 14
+# Walls of structures designed as limited ductile (mu = 2) or moderately ductile (mu = 3) for the
+# earthquake actions of AS 1170.4. The standard's text was not at hand: the rules and values below
+# are from memory and secondary sources (docs/engineering-basis.md, "Earthquake detailing"),
+# Low / Med confidence, each value a Project setting with these defaults: verify.
+
+SECTION14_MIN_MU = 2  # mu from which Section 14's wall rules apply (limited ductile)
+SECTION14_LAYERS = 2  # two layers, one near each face (Cl 14.6, from memory)
+SECTION14_RHO_MIN = 0.0025  # each way (Cl 14.6, from memory; one secondary source: Cl 14.6.7)
+SECTION14_SLENDERNESS = 20.0  # Hwe/tw (Section 14, from memory: verify)
+END_ZONE_STRESS_RATIO = 0.15  # extreme-fibre compression / f'c (Cl 14.6.2.1, secondary sources)
+END_ZONE_TIE_DIAMETERS = 6.0  # tie spacing / vertical bar diameter (Cl 14.6.2, from memory)
+END_ZONE_TIE_MAX = 150.0  # mm (Cl 14.6.2, from memory)
+
+
+def section14_applies(mu):
+    """Section 14's wall rules apply to structures designed with mu of 2 (limited ductile) or
+    more; an elastic design (mu = 1) takes the earthquake actions without relying on ductility
+    and needs none of them (AS 3600:2018 Section 14 scope, from memory: verify)."""
+    return np.asarray(mu) >= SECTION14_MIN_MU
+
+
+def eq_wall_layers(v_layers, h_layers):
+    """Layers of the lesser-layered direction: the quantity of the both-faces rule (Cl 14.6,
+    from memory): vertical and horizontal bars in two layers, one near each face."""
+    return np.minimum(np.asarray(v_layers, dtype=float), np.asarray(h_layers, dtype=float))
+
+
+def eq_wall_rho_min(rho_min=SECTION14_RHO_MIN):
+    """Least vertical and least horizontal ratio of a wall of a limited- or moderately-ductile
+    structure, Cl 14.6 (0.0025 each way, from memory; one secondary source cites Cl 14.6.7),
+    irrespective of the stress and restraint conditions that relax Cl 11.7."""
+    return float(rho_min)
+
+
+def eq_wall_slenderness(Hwe, tw):
+    """Hwe / tw of Section 14's slenderness limit (20 from memory: verify), Hwe by Cl 11.4."""
+    return np.asarray(Hwe, dtype=float) / np.asarray(tw, dtype=float)
+
+
+def pier_extreme_fibre_stress(n_star, m_star, Lw, tw):
+    """Elastic extreme-fibre stresses of a rectangular pier [MPa], compression positive, for the
+    Cl 14.6.2.1 trigger: sigma = N*/A +- |M*|/Z with A = Lw tw, Z = tw Lw^2 / 6 (gross section,
+    linear elastic). N* in N, M* in N mm, Lw, tw in mm. Returns (more compressed end, other end);
+    |M*| because earthquake actions reverse, so either end may be the compressed one."""
+    Lw = np.asarray(Lw, dtype=float)
+    tw = np.asarray(tw, dtype=float)
+    axial = np.asarray(n_star, dtype=float) / (Lw * tw)
+    bending = np.abs(np.asarray(m_star, dtype=float)) * 6.0 / (tw * Lw**2)
+    return axial + bending, axial - bending
+
+
+def end_zone_trigger(fc, ratio=END_ZONE_STRESS_RATIO):
+    """Extreme-fibre compression above which a wall end needs end-zone (boundary) detailing under
+    earthquake actions: 0.15 f'c [MPa], Cl 14.6.2.1 (secondary sources; Low confidence). A
+    trigger for detailing, not a capacity."""
+    return ratio * np.asarray(fc, dtype=float)
+
+
+def end_zone_length(sigma_max, sigma_min, trigger, Lw):
+    """Length from the compressed end over which the linear elastic stress exceeds the trigger
+    [mm], Cl 14.6.2.1 as practice reads it (the zone where the stress is above 0.15 f'c): 0 where
+    the peak is within it, the whole Lw where even the other end exceeds it."""
+    smax = np.asarray(sigma_max, dtype=float)
+    smin = np.asarray(sigma_min, dtype=float)
+    Lw = np.asarray(Lw, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = Lw * (smax - trigger) / (smax - smin)
+    x = np.where(smax - smin > 0, x, np.where(smax > trigger, Lw, 0.0))
+    return np.clip(np.where(smax > trigger, x, 0.0), 0.0, Lw)
+
+
+def end_zone_tie_spacing(db, diameters=END_ZONE_TIE_DIAMETERS, cap=END_ZONE_TIE_MAX):
+    """Largest spacing of the ties restraining the vertical bars of an end zone [mm], the lesser
+    of `diameters` x db (db of the vertical bars) and `cap`: 6 db and 150 mm by default, Cl 14.6.2
+    from memory (verify)."""
+    return np.minimum(diameters * np.asarray(db, dtype=float), cap)
+
+
 # ---------------------------------------------------------------- beams (lintels), Section 8
 # Flexure by the rectangular stress block (Cl 8.1); shear by the simplified method of Cl 8.2
 # as amended (Amendment 2): expressions from memory, checked only against secondary sources
