@@ -38,6 +38,8 @@ class Outcome:
     summary: pd.DataFrame
     sheets: list[ResultSheet] = field(default_factory=list)
     timings: dict[str, float] = field(default_factory=dict)
+    # tables whose rows the workbook holds only in part (`select_detail`), every row: for Parquet
+    full_tables: list[ResultSheet] = field(default_factory=list)
 
     @property
     def failing(self) -> int:
@@ -334,6 +336,78 @@ def compute(
             )
         )
     return Outcome(building, findings, geom, shear, summary, sheets, timings=t)
+
+
+DETAIL_MODES = ("auto", "governing", "all")
+
+
+def select_detail(
+    outcome: Outcome,
+    mode: str = "auto",
+    tables_folder: str = "",
+    limit: int = results.DETAIL_ROW_LIMIT,
+) -> list[ResultSheet]:
+    """Choose the rows each result sheet holds, in place on `outcome.sheets`.
+
+    `all`: every row. `governing`: every table with a rule in `results.GOVERNING` holds its
+    governing rows (plus every failing row). `auto`: every row while a table has at most
+    `limit` rows, its governing rows above (a workbook of a few hundred thousand rows takes a
+    spreadsheet program the better part of a minute to open or save). A table cut so says
+    which rows it holds and where every row is (`tables_folder`, one Parquet file per table,
+    written with the workbook); the summary says it once more. Returns the full tables, also
+    kept as `outcome.full_tables`."""
+    from xlcore.workbook.tables import file_name
+
+    if mode not in DETAIL_MODES:
+        raise ValueError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {mode!r}")
+    full: list[ResultSheet] = []
+    notes: list[str] = []
+    if mode != "all":
+        for k, sheet in enumerate(outcome.sheets):
+            rule = results.GOVERNING.get(sheet.name)
+            n = len(sheet.table)
+            if rule is None or (mode == "auto" and n <= limit):
+                continue
+            keep = results.governing_rows(sheet.table, rule)
+            if keep.all():
+                continue
+            kept = int(keep.sum())
+            where = f"{tables_folder}/{file_name(sheet.name)}" if tables_folder else file_name(sheet.name)
+            outcome.sheets[k] = ResultSheet(
+                sheet.name,
+                sheet.title,
+                sheet.columns,
+                sheet.table[keep].reset_index(drop=True),
+                [
+                    *sheet.preamble,
+                    (
+                        "Rows shown",
+                        f"governing rows only ({kept:,} of {n:,}): {rule.meaning}. Every row, "
+                        f"without the working text: {where} (Parquet, beside this workbook)",
+                    ),
+                ],
+                sheet.scale_key,
+            )
+            full.append(sheet)
+            notes.append(f"{sheet.name} {kept:,} of {n:,} rows ({file_name(sheet.name)})")
+    outcome.full_tables = full
+    if full and outcome.sheets and outcome.sheets[0].name == results.SUMMARY_SHEET:
+        why = (
+            f"--detail auto: tables over {limit:,} rows"
+            if mode == "auto"
+            else "--detail governing: the per-combination tables"
+        )
+        outcome.sheets[0].preamble.append(
+            (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus every failing row): {'; '.join(notes)}. Every row is in the "
+                f"folder {tables_folder or 'beside this workbook'}, one Parquet file per table "
+                "(numbers without the working text); compute with --detail all to write every "
+                "row here",
+            )
+        )
+    return full
 
 
 def pier_actions(
