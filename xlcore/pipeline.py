@@ -345,7 +345,7 @@ def select_detail(
     outcome: Outcome,
     mode: str = "auto",
     tables_folder: str = "",
-    limit: int = results.DETAIL_ROW_LIMIT,
+    limit: int | None = None,
 ) -> list[ResultSheet]:
     """Choose the rows each result sheet holds, in place on `outcome.sheets`.
 
@@ -358,6 +358,7 @@ def select_detail(
     kept as `outcome.full_tables`."""
     from xlcore.workbook.tables import file_name
 
+    limit = results.DETAIL_ROW_LIMIT if limit is None else limit
     if mode not in DETAIL_MODES:
         raise ValueError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {mode!r}")
     full: list[ResultSheet] = []

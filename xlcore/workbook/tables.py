@@ -76,10 +76,14 @@ def arrow_table(sheet: ResultSheet, stamp: dict[str, str]):
     import pyarrow as pa
 
     arrays, names = [], []
+    n = len(sheet.table)
     for c in sheet.columns:
-        if c.is_working or c.key not in sheet.table:
+        if c.is_working:
             continue
-        arrays.append(_array(sheet.table[c.key], numeric=c.fmt is not None))
+        if c.key in sheet.table:
+            arrays.append(_array(sheet.table[c.key], numeric=c.fmt is not None))
+        else:  # a column the sheet shows blank (this building has no values for it)
+            arrays.append(pa.nulls(n, type=pa.float64() if c.fmt is not None else pa.string()))
         names.append(c.title)
     t = pa.table(arrays, names=names)
     return t.replace_schema_metadata(
