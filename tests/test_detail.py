@@ -8,6 +8,7 @@ kept row occurs: governing rows, failing rows that are not governing, and groups
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import os
 import shutil
@@ -24,6 +25,7 @@ from typer.testing import CliRunner
 
 from xlcore import layout, pipeline, results
 from xlcore.cli import app
+from xlcore.diagnostics import FileProblem
 from xlcore.workbook import tables, writer
 from xlcore.workbook.reader import stored_input_hash
 
@@ -52,6 +54,24 @@ def full(failing_master) -> dict[str, pd.DataFrame]:
     """Every result table in full, as computed (no selection)."""
     b, f = pipeline.load(failing_master)
     return {s.name: s.table for s in pipeline.compute(b, f).sheets}
+
+
+@pytest.fixture(scope="module")
+def computed(failing_master) -> pipeline.Outcome:
+    b, f = pipeline.load(failing_master)
+    return pipeline.compute(b, f)
+
+
+def run(computed: pipeline.Outcome, book: Path, mode: str, limit: int | None = None, out: Path | None = None):
+    """What `compute --detail MODE` does after computing, on a copy of the module's outcome
+    (the command line itself is run by the first two tests)."""
+    o = dataclasses.replace(
+        computed, sheets=[dataclasses.replace(s, preamble=list(s.preamble)) for s in computed.sheets]
+    )
+    target = out or book
+    pipeline.select_detail(o, mode, tables.folder_for(target).name, limit)
+    writer.write_results(book, target, o.sheets, tables=o.full_tables, overwrite=True)
+    return o
 
 
 @pytest.fixture
@@ -109,13 +129,15 @@ def by_hand(df: pd.DataFrame, rule: results.Governing) -> set[int]:
 
 def row_keys(df: pd.DataFrame, cols: list[str]) -> list[str]:
     """Each row's identifying cells as one text ('' for a blank)."""
-    return ["|".join("" if v is None or v != v else str(v) for v in row) for row in zip(*(df[c] for c in cols))]
+    rows = zip(*(df[c] for c in cols), strict=True)
+    return ["|".join("" if v is None or v != v else str(v) for v in row) for row in rows]
 
 
 def key_columns(name: str) -> list[str]:
     """Columns that identify a row of a table (storey, member, combination), as keys."""
     cols = [c.key for c in next(_columns(name))]
-    return [k for k in ("storey", "pier_id", "lintel_id", "wall_id", "member", "combination", "kind") if k in cols]
+    ids = ("storey", "pier_id", "lintel_id", "wall_id", "member", "combination", "kind")
+    return [k for k in ids if k in cols]
 
 
 def _columns(name: str):
@@ -196,12 +218,11 @@ def test_auto_switches_at_the_limit(book, full, monkeypatch):
     assert sheet_line(book, results.SHEAR_SHEET, "Rows shown") is None
 
 
-def test_parquet_holds_every_row_with_the_values_of_a_detail_all_workbook(book, tmp_path):
+def test_parquet_holds_every_row_with_the_values_of_a_detail_all_workbook(computed, book, tmp_path):
     every = tmp_path / "every.xlsx"
-    assert runner.invoke(app, ["compute", str(book), "-o", str(every), "--detail", "all", "-q"]).exit_code == 0
+    run(computed, book, "all", out=every)
     assert not tables.folder_for(every).exists()
-    r = runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"])
-    assert r.exit_code == 0, r.output
+    run(computed, book, "governing")
     folder = tables.folder_for(book)
     stored = stored_input_hash(book)
     assert stored is not None and stored == stored_input_hash(every)
@@ -225,9 +246,9 @@ def test_parquet_holds_every_row_with_the_values_of_a_detail_all_workbook(book, 
             assert [blank(x) for x in g] == [blank(x) for x in w], (name, c.title)
 
 
-def test_stale_files_of_an_earlier_run_go_and_the_users_files_stay(book, tmp_path):
+def test_stale_files_of_an_earlier_run_go_and_the_users_files_stay(computed, book):
     folder = tables.folder_for(book)
-    assert runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"]).exit_code == 0
+    run(computed, book, "governing")
     ours = sorted(p.name for p in folder.iterdir())
     assert tables.file_name(results.SHEAR_SHEET) in ours and len(ours) >= 4
     # the user's files: a Parquet file without our mark, a renamed copy of ours (its mark names
@@ -243,8 +264,7 @@ def test_stale_files_of_an_earlier_run_go_and_the_users_files_stay(book, tmp_pat
     (folder / ".shear.parquet.abc123.xlcore-tmp").write_bytes(b"half")
     assert tables.is_ours(folder / "retired.parquet")
     assert not tables.is_ours(folder / "shear-copy.parquet") and not tables.is_ours(folder / "notes.parquet")
-    r = runner.invoke(app, ["compute", str(book), "--detail", "all", "-q"])
-    assert r.exit_code == 0, r.output
+    run(computed, book, "all")
     left = sorted(p.name for p in folder.iterdir())
     assert left == ["notes.parquet", "old", "readme.txt", "shear-copy.parquet"]
     assert (folder / "old" / "shear.parquet").exists()
@@ -258,16 +278,16 @@ def _remark(path: Path) -> None:
     pq.write_table(t.replace_schema_metadata(meta), path)
 
 
-def test_fewer_tables_on_the_next_run_leave_only_that_runs_files(book, full, monkeypatch):
+def test_fewer_tables_on_the_next_run_leave_only_that_runs_files(computed, book, full):
     folder = tables.folder_for(book)
-    assert runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"]).exit_code == 0
+    run(computed, book, "governing")
     first = {p.name for p in folder.iterdir()}
-    monkeypatch.setattr(results, "DETAIL_ROW_LIMIT", len(full[results.CORE_SHEET]) - 1)
-    assert runner.invoke(app, ["compute", str(book), "-q"]).exit_code == 0
+    run(computed, book, "auto", limit=len(full[results.CORE_SHEET]) - 1)
     assert {p.name for p in folder.iterdir()} == {tables.file_name(results.CORE_SHEET)} < first
 
 
 def test_a_users_file_of_the_same_name_stops_the_run_before_anything_is_written(book):
+    """Through the command line: exit 2 and the message."""
     folder = tables.folder_for(book)
     folder.mkdir()
     mine = folder / tables.file_name(results.SHEAR_SHEET)
@@ -279,19 +299,20 @@ def test_a_users_file_of_the_same_name_stops_the_run_before_anything_is_written(
     assert sorted(os.listdir(folder)) == [mine.name]
 
 
-def test_a_file_where_the_folder_goes_stops_the_run(book):
+def test_a_file_where_the_folder_goes_stops_the_run(computed, book):
     folder = tables.folder_for(book)
     folder.write_text("in the way")
     before = book.read_bytes()
-    r = runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"])
-    assert r.exit_code == 2 and "in the way" in r.output
+    with pytest.raises(FileProblem, match="in the way"):
+        run(computed, book, "governing")
     assert book.read_bytes() == before and folder.read_text() == "in the way"
-    assert runner.invoke(app, ["compute", str(book), "--detail", "all", "-q"]).exit_code == 0  # none needed
+    run(computed, book, "all")  # no tables needed: the file is no obstacle, and stays
+    assert folder.read_text() == "in the way"
 
 
-def test_a_save_that_fails_leaves_the_earlier_tables_as_they_were(book, monkeypatch):
+def test_a_save_that_fails_leaves_the_earlier_tables_as_they_were(computed, book, monkeypatch):
     folder = tables.folder_for(book)
-    assert runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"]).exit_code == 0
+    run(computed, book, "governing")
     before = {p.name: p.read_bytes() for p in folder.iterdir()}
     workbook = book.read_bytes()
 
@@ -299,8 +320,8 @@ def test_a_save_that_fails_leaves_the_earlier_tables_as_they_were(book, monkeypa
         raise OSError(28, "No space left on device")
 
     monkeypatch.setattr(writer, "_write_package", broken)
-    r = runner.invoke(app, ["compute", str(book), "--detail", "governing", "-q"])
-    assert r.exit_code == 2, r.output
+    with pytest.raises(FileProblem, match="No space left"):
+        run(computed, book, "governing")
     assert {p.name: p.read_bytes() for p in folder.iterdir()} == before  # no temporary file either
     assert book.read_bytes() == workbook
 

@@ -288,7 +288,7 @@ def compute(
     _report(findings)
     if outcome.full_tables:
         why = (
-            f"over {results.DETAIL_ROW_LIMIT:,} rows (--detail auto; a limit of ours: a bigger workbook is slow to open)"
+            f"over {results.DETAIL_ROW_LIMIT:,} rows (--detail auto: a bigger workbook is slow to open)"
             if detail is Detail.auto
             else "(--detail governing)"
         )
