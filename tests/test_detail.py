@@ -342,3 +342,31 @@ def test_governing_rows_rule_by_rule_on_a_small_table():
     # A: |v| largest row 0, n largest row 1, FAIL row 2; B: v tie -> first (3), n -> 4; C: first
     assert np.flatnonzero(keep).tolist() == [0, 1, 2, 3, 4, 5]
     assert sorted(by_hand(df, rule)) == [0, 1, 2, 3, 4, 5]
+
+
+def test_auto_leaves_the_failing_rows_out_too_when_they_alone_pass_the_limit():
+    """Three piers x four combinations; pier P1 fails in every combination: governing rows 3,
+    with the failing ones 6. Limit 12: every row; 6: governing + failing; 5: governing only."""
+    keys = ("storey", "pier_id", "combination", "util", "status")
+    cols = [c for c in results.SHEAR_COLUMNS if c.key in keys]
+    util = [1.5, 1.2, 1.1, 1.3, 0.2, 0.5, 0.4, 0.3, 0.9, 0.1, 0.95, 0.6]
+    table = pd.DataFrame(
+        {
+            "storey": ["L1"] * 12,
+            "pier_id": [f"P{i // 4 + 1}" for i in range(12)],
+            "combination": [f"C{i % 4}" for i in range(12)],
+            "util": util,
+            "status": [results.FAIL if u > 1 else results.PASS for u in util],
+        }
+    )
+
+    def rows(limit: int) -> list[str]:
+        sheet = results.ResultSheet(results.SHEAR_SHEET, "t", cols, table)
+        o = pipeline.Outcome(None, None, None, table, table, [sheet])
+        pipeline.select_detail(o, "auto", "x.xlcore-tables", limit)
+        t = o.sheets[0].table
+        return [f"{p}{c}" for p, c in zip(t.pier_id, t.combination, strict=True)]
+
+    assert len(rows(12)) == 12
+    assert rows(6) == ["P1C0", "P1C1", "P1C2", "P1C3", "P2C1", "P3C2"]
+    assert rows(5) == ["P1C0", "P2C1", "P3C2"]

@@ -350,12 +350,14 @@ def select_detail(
     """Choose the rows each result sheet holds, in place on `outcome.sheets`.
 
     `all`: every row. `governing`: every table with a rule in `results.GOVERNING` holds its
-    governing rows (plus every failing row). `auto`: every row while a table has at most
-    `limit` rows, its governing rows above (a workbook of a few hundred thousand rows takes a
-    spreadsheet program the better part of a minute to open or save). A table cut so says
-    which rows it holds and where every row is (`tables_folder`, one Parquet file per table,
-    written with the workbook); the summary says it once more. Returns the full tables, also
-    kept as `outcome.full_tables`."""
+    governing rows plus every failing row. `auto`: every row while a table has at most `limit`
+    rows (a workbook of a few hundred thousand rows takes a spreadsheet program the better part
+    of a minute to open or save); above it the governing rows plus every failing row while
+    those stay within `limit`, else the governing rows alone (a harsh tower fails in tens of
+    thousands of rows; its summary still names every failing pier). A table cut so says which
+    rows it holds and where every row is (`tables_folder`, one Parquet file per table, written
+    with the workbook); the summary says it once more. Returns the full tables, also kept as
+    `outcome.full_tables`."""
     from xlcore.workbook.tables import file_name
 
     limit = results.DETAIL_ROW_LIMIT if limit is None else limit
@@ -370,10 +372,19 @@ def select_detail(
             if rule is None or (mode == "auto" and n <= limit):
                 continue
             keep = results.governing_rows(sheet.table, rule)
+            meaning = rule.meaning + ("; plus every failing row" if rule.failing else "")
+            if mode == "auto" and keep.sum() > limit:
+                fails = int(keep.sum())
+                keep = results.governing_rows(sheet.table, rule, failing=False)
+                meaning = (
+                    f"{rule.meaning}; the other failing rows are left out too ({fails:,} rows with "
+                    f"them, over {limit:,}): filter the Parquet file's Status for every one"
+                )
             if keep.all():
                 continue
             kept = int(keep.sum())
-            where = f"{tables_folder}/{file_name(sheet.name)}" if tables_folder else file_name(sheet.name)
+            name = file_name(sheet.name)
+            where = f"{tables_folder}/{name}" if tables_folder else name
             outcome.sheets[k] = ResultSheet(
                 sheet.name,
                 sheet.title,
@@ -383,14 +394,14 @@ def select_detail(
                     *sheet.preamble,
                     (
                         "Rows shown",
-                        f"governing rows only ({kept:,} of {n:,}): {rule.meaning}. Every row, "
-                        f"without the working text: {where} (Parquet, beside this workbook)",
+                        f"governing rows only ({kept:,} of {n:,}): {meaning}. Every row, without "
+                        f"the working text: {where} (Parquet, beside this workbook)",
                     ),
                 ],
                 sheet.scale_key,
             )
             full.append(sheet)
-            notes.append(f"{sheet.name} {kept:,} of {n:,} rows ({file_name(sheet.name)})")
+            notes.append(f"{sheet.name} {kept:,} of {n:,} rows ({name})")
     outcome.full_tables = full
     if full and outcome.sheets and outcome.sheets[0].name == results.SUMMARY_SHEET:
         why = (
@@ -400,6 +411,15 @@ def select_detail(
         )
         outcome.sheets[0].preamble.append(
             (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus the failing rows where they stay within {limit:,}; each sheet "
+                f"says which): {'; '.join(notes)}. Every row is in the folder "
+                f"{tables_folder or 'beside this workbook'}, one Parquet file per table (numbers "
+                "without the working text); compute with --detail all to write every row here",
+            )
+            if mode == "auto"
+            else (
                 "Rows left out",
                 f"{why} hold their governing rows only (per storey x member x check the worst "
                 f"combination, plus every failing row): {'; '.join(notes)}. Every row is in the "

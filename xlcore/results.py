@@ -334,7 +334,8 @@ class Governing:
     """Rows kept of one result table: per group (e.g. storey x pier), the row with the largest
     value of each `worst` column (compared by magnitude where also in `magnitude`; ties: the
     first row; a group with no value at all keeps its first row, e.g. a lintel not checked),
-    plus every row where a `failing` column says FAIL. The table's order is kept."""
+    plus every row where a `failing` column says FAIL (the sheet says so after `meaning`). The
+    table's order is kept."""
 
     group: tuple[str, ...]
     worst: tuple[str, ...]
@@ -347,31 +348,31 @@ GOVERNING: dict[str, Governing] = {
     SHEAR_SHEET: Governing(
         ("storey", "pier_id"),
         ("util",),
-        meaning="per storey x pier the combination with the largest utilisation, plus every failing row",
+        meaning="per storey x pier the combination with the largest utilisation",
     ),
     AXIAL_SHEET: Governing(
         ("storey", "pier_id"),
         ("util", "util_s"),
         failing=("status", "status_s"),
         meaning="per storey x pier the combination with the largest radial utilisation and the one "
-        "with the largest Cl 11.5 utilisation (often the same row), plus every row failing either",
+        "with the largest Cl 11.5 utilisation (often the same row)",
     ),
     LINTELS_SHEET: Governing(
         ("storey", "lintel_id"),
         ("util",),
         meaning="per storey x lintel the combination with the largest utilisation (a lintel not "
-        "checked: its first row, which says why), plus every failing row",
+        "checked: its first row, which says why)",
     ),
     CORE_STRESS_SHEET: Governing(
         ("storey", "wall_id"),
         ("util", "u_compression"),
         meaning="per storey x wall the combination with the largest tension-steel utilisation and "
-        "the one with the largest peak compression / limit, plus every failing row",
+        "the one with the largest peak compression / limit",
     ),
     CORE_NM_SHEET: Governing(
         ("storey",),
         ("util",),
-        meaning="per storey the combination with the largest utilisation, plus every failing row",
+        meaning="per storey the combination with the largest utilisation",
     ),
     CORE_SHEET: Governing(
         ("storey", "member"),
@@ -384,9 +385,10 @@ GOVERNING: dict[str, Governing] = {
 }
 
 
-def governing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
+def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -> np.ndarray:
     """Boolean mask of the rows `rule` keeps (see `Governing`), vectorised: one stable sort
-    per `worst` column, the first row of each group after it."""
+    per `worst` column, the first row of each group after it; without `failing`, the failing
+    rows that do not govern are left out too."""
     n = len(table)
     keep = np.zeros(n, dtype=bool)
     if n == 0:
@@ -404,7 +406,7 @@ def governing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
         first = np.ones(n, dtype=bool)
         first[1:] = gid[order][1:] != gid[order][:-1]
         keep[order[first]] = True
-    for col in rule.failing:
+    for col in rule.failing if failing else ():
         if col in table:
             keep |= (table[col] == FAIL).to_numpy()
     return keep

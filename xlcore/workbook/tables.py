@@ -100,18 +100,22 @@ def arrow_table(sheet: ResultSheet, stamp: dict[str, str]):
 
 
 def _array(col: pd.Series, numeric: bool):
+    """One column as Arrow: a numeric column as it is, text as strings (blank: null)."""
     import pyarrow as pa
 
     if col.dtype == bool:
         return pa.array(np.where(col.to_numpy(), "yes", "no"), type=pa.string())
-    if numeric:
-        if pd.api.types.is_integer_dtype(col.dtype):
-            return pa.array(col.to_numpy(), type=pa.int64())
+    if pd.api.types.is_numeric_dtype(col.dtype):
+        return pa.array(col.to_numpy(), from_pandas=True)  # NaN: null (a blank cell)
+    if numeric:  # numbers held as objects (with None): float64 unless some cell is text
         x = pd.to_numeric(col, errors="coerce")
-        if not (x.isna() & col.notna() & (col.astype(str) != "")).any():  # nothing was text
+        if not (x.isna() & col.notna() & (col != "")).any():
             return pa.array(x.to_numpy(dtype=float), type=pa.float64())
-    s = col.astype(object).where(col.notna(), None)
-    return pa.array([None if v is None else str(v) for v in s], type=pa.string())
+    vals = col.to_numpy(dtype=object, na_value=None)
+    try:
+        return pa.array(vals, type=pa.string(), from_pandas=True)
+    except (pa.ArrowInvalid, pa.ArrowTypeError):  # numbers among the text: as the sheet shows them
+        return pa.array([None if v is None else str(v) for v in vals], type=pa.string())
 
 
 @dataclass
