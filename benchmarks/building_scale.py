@@ -108,7 +108,7 @@ def measure(path: str, detail: str = "auto", spawned: float | None = None) -> di
     t = time.perf_counter()
     b, f = build(raw)
     out["validate"] = time.perf_counter() - t
-    o = pipeline.compute(b, f)
+    o = pipeline.compute(b, f, detail=detail)
     out |= o.timings
     stage = tables.stage
 

@@ -58,8 +58,15 @@ def full(failing_master) -> dict[str, pd.DataFrame]:
 
 @pytest.fixture(scope="module")
 def computed(failing_master) -> pipeline.Outcome:
+    """Computed for governing rows: the cut tables without their working text until written."""
     b, f = pipeline.load(failing_master)
-    return pipeline.compute(b, f)
+    o = pipeline.compute(b, f, detail="governing")
+    assert {s.name for s in o.sheets if s.rework} == {
+        results.SHEAR_SHEET,
+        results.AXIAL_SHEET,
+        results.CORE_SHEET,
+    }
+    return o
 
 
 def run(computed: pipeline.Outcome, book: Path, mode: str, limit: int | None = None, out: Path | None = None):
@@ -179,6 +186,10 @@ def test_governing_keeps_the_worst_row_per_group_and_every_failing_row(book, ful
             continue
         assert got_keys == want_keys, name  # the same rows, in the table's order
         assert len(got) < len(table), name
+        # the working text, made for the rows written only, is the text of those rows in full
+        for c in next(_columns(name)):
+            if c.is_working:
+                assert [blank(x) for x in got[c.title]] == [blank(x) for x in want[c.key]], (name, c.key)
     shear = sheet_frame(book, results.SHEAR_SHEET)
     t = titles(results.SHEAR_SHEET)
     assert (shear[t["status"]] == results.FAIL).sum() == 3  # every failing row is there
@@ -220,7 +231,8 @@ def test_auto_switches_at_the_limit(book, full, monkeypatch):
 
 def test_parquet_holds_every_row_with_the_values_of_a_detail_all_workbook(computed, book, tmp_path):
     every = tmp_path / "every.xlsx"
-    run(computed, book, "all", out=every)
+    r = runner.invoke(app, ["compute", str(book), "-o", str(every), "--detail", "all", "-q"])
+    assert r.exit_code == 0, r.output
     assert not tables.folder_for(every).exists()
     run(computed, book, "governing")
     folder = tables.folder_for(book)
@@ -370,3 +382,24 @@ def test_auto_leaves_the_failing_rows_out_too_when_they_alone_pass_the_limit():
     assert len(rows(12)) == 12
     assert rows(6) == ["P1C0", "P1C1", "P1C2", "P1C3", "P2C1", "P3C2"]
     assert rows(5) == ["P1C0", "P2C1", "P3C2"]
+
+
+def test_every_row_written_from_an_outcome_made_for_governing_rows_has_its_working_text(computed, full):
+    """`all` after a compute that left the working text for later: every row gets the text the
+    direct path gives, in the same order, with the same numbers."""
+    o = run_in_memory(computed, "all")
+    for sheet in o.sheets:
+        want = full[sheet.name].reset_index(drop=True)
+        got = sheet.table.reset_index(drop=True)
+        assert len(got) == len(want), sheet.name
+        for c in sheet.columns:
+            if c.key in want:
+                assert [blank(x) for x in got[c.key]] == [blank(x) for x in want[c.key]], (sheet.name, c.key)
+
+
+def run_in_memory(computed: pipeline.Outcome, mode: str) -> pipeline.Outcome:
+    o = dataclasses.replace(
+        computed, sheets=[dataclasses.replace(s, preamble=list(s.preamble)) for s in computed.sheets]
+    )
+    pipeline.select_detail(o, mode, "x")
+    return o

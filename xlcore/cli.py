@@ -272,7 +272,7 @@ def compute(
         with workbook_lock(target) if target.parent.is_dir() else nullcontext():
             check_target(path, target, force=force, overwrite=overwrite)
             building, findings = pipeline.load(path, reporter)
-            outcome = pipeline.compute(building, findings, reporter=reporter)
+            outcome = pipeline.compute(building, findings, reporter=reporter, detail=detail.value)
             folder = tables_folder(target)
             pipeline.select_detail(outcome, detail.value, folder.name)
             target.parent.mkdir(parents=True, exist_ok=True)

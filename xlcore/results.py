@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -56,6 +57,9 @@ class ResultSheet:
     table: pd.DataFrame
     preamble: list[tuple[str, object]] = field(default_factory=list)
     scale_key: str | None = None  # column that gets the utilisation colour scale
+    # rows of `table` -> the same rows with their working text: set where the text was left out
+    # to be made for the rows written only (`pipeline.select_detail` calls it)
+    rework: Callable[[pd.DataFrame], pd.DataFrame] | None = None
 
 
 def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
