@@ -110,6 +110,7 @@ def measure(path: str, detail: str = "auto", spawned: float | None = None) -> di
     out["validate"] = time.perf_counter() - t
     o = pipeline.compute(b, f, detail=detail)
     out |= o.timings
+    out["peak_compute_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     stage = tables.stage
 
     def timed_stage(*args, **kwargs):  # the Parquet files' share of the write phase
@@ -278,7 +279,16 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool) -> None:
         )
     print()
     print("end to end = interpreter start and imports + the phases above (last run); rows and sizes of it")
-    head = ("size", "start", "end to end", "rows computed", "rows written", "workbook MB", "Parquet MB")
+    head = (
+        "size",
+        "start",
+        "end to end",
+        "rows computed",
+        "rows written",
+        "workbook MB",
+        "Parquet MB",
+        "peak@compute",
+    )
     print(f"{head[0]:<5}" + "".join(f"{h:>14}" for h in head[1:]) + f"{'LibreOffice open s':>20}")
     for size, (m, lo_s) in books.items():
         shown = (
@@ -289,7 +299,7 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool) -> None:
         cells = (m["startup"], m["startup"] + m["total"], m["rows_full"], m["rows_written"])
         print(
             f"{size:<5}{cells[0]:>14.2f}{cells[1]:>14.2f}{cells[2]:>14,.0f}{cells[3]:>14,.0f}"
-            f"{m['book_mb']:>14.1f}{m['parquet_mb']:>14.1f}{shown:>20}"
+            f"{m['book_mb']:>14.1f}{m['parquet_mb']:>14.1f}{m['peak_compute_mb']:>14.0f}{shown:>20}"
         )
     if "M" in totals and "L" in totals:
         (cm, tm), (cl, tl) = totals["M"], totals["L"]
