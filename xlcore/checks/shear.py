@@ -50,15 +50,16 @@ def check_pier_shear(
     beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
     ratio, wall_governs = as3600.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
     df["hw_lw"] = ratio
-    df["hw_basis"] = _basis_text(
-        basis,
-        df.Hw.to_numpy(float),
-        df.Lw.to_numpy(float),
-        np.asarray(h_whole, float),
-        df.wall_length.to_numpy(float) * 1000.0,
-        beside,
-        wall_governs,
-    )
+    if working:  # text on every row: not for the advice search's variants (10 % of its time)
+        df["hw_basis"] = _basis_text(
+            basis,
+            df.Hw.to_numpy(float),
+            df.Lw.to_numpy(float),
+            np.asarray(h_whole, float),
+            df.wall_length.to_numpy(float) * 1000.0,
+            beside,
+            wall_governs,
+        )
     phi = settings.phi_shear if settings.phi_shear is not None else as3600.PHI_WALL_SHEAR
     # Hw passed so that Hw / Lw is the governing ratio (the whole wall's where it is larger)
     r = as3600.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio * df.Lw, df.rho_h, df.rho_v, phi)
