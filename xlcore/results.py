@@ -75,6 +75,7 @@ ADVICE_SHEET = RESULT_PREFIX + "advice"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
+CORES_SHEET = RESULT_PREFIX + "cores"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
 
@@ -125,7 +126,7 @@ SUMMARY_COLUMNS = [
     _c("demand", "Demand", None, "0.0", 9),
     _c("capacity", "Capacity", None, "0.0", 9),
     _c("unit", "Unit", width=6),
-    _c("clause", "Governing clause", width=16),
+    _c("clause", "Governing clause", width=21),
     _c("u_shear", "U shear", None, "0.000", 8),
     _c("u_nm", "U axial + bending", None, "0.000", 9),
     _c("u_simplified", "U Cl 11.5", None, "0.000", 8),
@@ -199,6 +200,7 @@ AXIAL_COLUMNS = [
 CORE_STRESS_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("wall_id", "Wall", width=7),
     _c("sigma_start", "sigma at start", "MPa", "0.00"),
     _c("sigma_end", "sigma at end", "MPa", "0.00"),
@@ -221,6 +223,7 @@ CORE_STRESS_COLUMNS = [
 CORE_NM_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("n", "N*", "kN", "0"),
     _c("mx", "Mx*", "kNm", "0"),
     _c("my", "My*", "kNm", "0"),
@@ -288,6 +291,7 @@ ADVICE_COLUMNS = [
 
 SECTION_COLUMNS = [
     _c("storey", "Storey", width=8),
+    _c("core", "Core", width=9),
     _c("area", "A", "m2", "0.000", 9),
     _c("xc", "Centroid x", "m", "0.000"),
     _c("yc", "Centroid y", "m", "0.000"),
@@ -306,6 +310,7 @@ SECTION_COLUMNS = [
 CORE_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("member", "Member", width=9),
     _c("kind", "Kind", width=6),
     _c("k", "k", "kN/mm", "0", 9),
@@ -321,6 +326,38 @@ CORE_COLUMNS = [
     _c("m_acc", "Accidental M", "kNm", "0.0"),
     _c("used", "Used", width=22),
     _c("working", "Working", width=70),
+]
+
+CORES_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
+    _c("ei_yy", "EI about y", "GNm2", "0", 10),
+    _c("ei_xx", "EI about x", "GNm2", "0", 10),
+    _c("ei_xy", "EI product", "GNm2", "0", 10),
+    _c("area", "Area", "m2", "0.000", 8),
+    _c("share_vx", "Share of Vx*", "%", "0.0", 8),
+    _c("share_vy", "Share of Vy*", "%", "0.0", 8),
+    _c("share_t", "Share of torsion", "%", "0.0", 9),
+    _c("share_n", "Share of N*", "%", "0.0", 8),
+    _c("share_mx", "Share of Mx*", "%", "0.0", 8),
+    _c("share_my", "Share of My*", "%", "0.0", 8),
+    _c("n", "N", "kN", "0.0"),
+    _c("vx", "Vx", "kN", "0.0"),
+    _c("vy", "Vy", "kN", "0.0"),
+    _c("mx", "Mx", "kNm", "0.0"),
+    _c("my", "My", "kNm", "0.0"),
+    _c("m_tors", "Moment of its torsional shear about building CR", "kNm", "0.0", 14),
+    _c("m_cr", "Storey moment about building CR", "kNm", "0.0", 13),
+    _c("m_acc", "Accidental moment", "kNm", "0.0", 10),
+    _c("xc", "Core centroid x", "m", "0.000", 9),
+    _c("yc", "Core centroid y", "m", "0.000", 9),
+    _c("xr_core", "Core CR x", "m", "0.000", 9),
+    _c("yr_core", "Core CR y", "m", "0.000", 9),
+    _c("xr", "Building CR x", "m", "0.000", 9),
+    _c("yr", "Building CR y", "m", "0.000", 9),
+    _c("used", "Used for", width=18),
+    _c("working", "Working", width=90),
 ]
 
 
@@ -374,9 +411,17 @@ GOVERNING: dict[str, Governing] = {
         "the one with the largest peak compression / limit",
     ),
     CORE_NM_SHEET: Governing(
-        ("storey",),
+        ("storey", "core"),
         ("util",),
-        meaning="per storey the combination with the largest utilisation",
+        meaning="per storey (and core) the combination with the largest utilisation",
+    ),
+    CORES_SHEET: Governing(
+        ("storey", "core"),
+        ("vx", "vy", "n", "mx", "my"),
+        failing=(),
+        magnitude=("vx", "vy", "mx", "my"),
+        meaning="per storey x core the combinations with the largest |Vx|, |Vy|, N, |Mx| and |My| "
+        "(a sharing table: nothing fails here)",
     ),
     CORE_SHEET: Governing(
         ("storey", "member"),
@@ -397,7 +442,8 @@ def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -
     keep = np.zeros(n, dtype=bool)
     if n == 0:
         return keep
-    gid = table.groupby(list(rule.group), sort=False, dropna=False).ngroup().to_numpy()
+    group = [g for g in rule.group if g in table]  # e.g. `core` only where the table has it
+    gid = table.groupby(group, sort=False, dropna=False).ngroup().to_numpy() if group else np.zeros(n, int)
     pos = np.arange(n)
     for col in rule.worst:
         if col not in table:
