@@ -406,3 +406,14 @@ def run_in_memory(computed: pipeline.Outcome, mode: str) -> pipeline.Outcome:
     )
     pipeline.select_detail(o, mode, "x")
     return o
+
+
+def test_a_sheet_written_without_select_detail_still_gets_every_rows_working_text(computed, full, book):
+    """The writer makes the text left for later when nobody chose the rows (every row written)."""
+    shear = next(s for s in computed.sheets if s.name == results.SHEAR_SHEET)
+    assert shear.rework is not None and "f_vu" not in shear.table
+    writer.write_results(book, book, [shear])
+    got = sheet_frame(book, results.SHEAR_SHEET)
+    t = titles(results.SHEAR_SHEET)
+    want = full[results.SHEAR_SHEET]
+    assert got[t["f_vu"]].tolist() == want.f_vu.tolist() and len(got) == len(want)

@@ -19,6 +19,7 @@ it (or A1 is still our inline text, i.e. no program has saved the sheet since we
 from __future__ import annotations
 
 import contextlib
+import dataclasses
 import functools
 import os
 import re
@@ -202,6 +203,12 @@ def write_results(
     """
     src, dst = Path(src), Path(dst)
     real, shown, backup = check_target(src, dst, force=force, overwrite=overwrite)
+    # a sheet whose working text was left for the rows written (compute(detail=...)) but that
+    # did not pass through pipeline.select_detail: every row written, so every row's text
+    sheets = [
+        s if s.rework is None else dataclasses.replace(s, table=s.rework(s.table), rework=None)
+        for s in sheets
+    ]
     with workbook_lock(dst):
         existed = real.exists()
         stamp = {str(k): str(v) for k, v in (sheets[0].preamble if sheets else [])}
