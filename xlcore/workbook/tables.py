@@ -72,7 +72,8 @@ def is_ours(path: Path) -> bool:
 
 def arrow_table(sheet: ResultSheet, stamp: dict[str, str]):
     """The sheet's table as an Arrow table: its columns but the working text, under the sheet's
-    headers; numbers as float64 (inf kept, where the sheet shows a blank), text as strings."""
+    headers; numbers as they are (no value: null; inf kept, where the sheet shows a blank),
+    text as strings."""
     import pyarrow as pa
 
     arrays, names = [], []
@@ -110,7 +111,7 @@ def _array(col: pd.Series, numeric: bool):
     if numeric:  # numbers held as objects (with None): float64 unless some cell is text
         x = pd.to_numeric(col, errors="coerce")
         if not (x.isna() & col.notna() & (col != "")).any():
-            return pa.array(x.to_numpy(dtype=float), type=pa.float64())
+            return pa.array(x.to_numpy(dtype=float), type=pa.float64(), from_pandas=True)
     vals = col.to_numpy(dtype=object, na_value=None)
     try:
         return pa.array(vals, type=pa.string(), from_pandas=True)
