@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 from contextlib import contextmanager, nullcontext
+from enum import StrEnum
 from pathlib import Path
 from typing import Annotated
 
@@ -19,6 +20,8 @@ from xlcore.diagnostics import FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
 from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
+from xlcore.workbook.tables import file_name
+from xlcore.workbook.tables import folder_for as tables_folder
 from xlcore.workbook.template import write_template
 from xlcore.workbook.writer import check_target, workbook_lock, write_results
 
@@ -29,6 +32,16 @@ app = typer.Typer(
 )
 
 EXIT_INVALID, EXIT_FILE, EXIT_FAILING = 1, 2, 3
+
+
+class Detail(StrEnum):
+    """`compute --detail`: which rows of the per-combination tables the workbook holds."""
+
+    auto = "auto"
+    governing = "governing"
+    all = "all"
+
+
 Workbook = Annotated[Path, typer.Argument(help="The .xlsx or .xlsm workbook.", show_default=False)]
 
 
@@ -244,6 +257,16 @@ def compute(
         ),
     ] = False,
     strict: Annotated[bool, typer.Option("--strict", help="Exit with 3 when any member fails.")] = False,
+    detail: Annotated[
+        Detail,
+        typer.Option(
+            "--detail",
+            help="Rows per combination table: 'all' every row; 'governing' per storey x member x "
+            "check the worst combination plus every failing row; 'auto' every row up to "
+            f"{results.DETAIL_ROW_LIMIT:,} rows per table, governing above. Rows left out of the "
+            "workbook are in NAME.xlcore-tables/ beside it (Parquet).",
+        ),
+    ] = Detail.auto,
     quiet: Quiet = False,
 ) -> None:
     """Validate, run every check, and write the result sheets into the workbook."""
@@ -257,12 +280,32 @@ def compute(
         with workbook_lock(target) if target.parent.is_dir() else nullcontext():
             check_target(path, target, force=force, overwrite=overwrite)
             building, findings = pipeline.load(path, reporter)
-            outcome = pipeline.compute(building, findings, reporter=reporter)
+            outcome = pipeline.compute(building, findings, reporter=reporter, detail=detail.value)
+            folder = tables_folder(target)
+            pipeline.select_detail(outcome, detail.value, folder.name)
             target.parent.mkdir(parents=True, exist_ok=True)
             backup = write_results(
-                path, target, outcome.sheets, force=force, reporter=reporter, overwrite=overwrite
+                path,
+                target,
+                outcome.sheets,
+                force=force,
+                reporter=reporter,
+                overwrite=overwrite,
+                tables=outcome.full_tables,
             )
     _report(findings)
+    if outcome.full_tables:
+        why = (
+            f"over {results.DETAIL_ROW_LIMIT:,} rows (--detail auto: a bigger workbook is slow to open)"
+            if detail is Detail.auto
+            else "(--detail governing)"
+        )
+        _err(
+            f"note    {len(outcome.full_tables)} tables {why}: the workbook holds their governing "
+            f"rows only; every row is in {folder}/ (Parquet: "
+            + ", ".join(file_name(t.name) for t in outcome.full_tables)
+            + "); --detail all writes every row into the workbook"
+        )
     s = outcome.summary
     typer.echo(
         f"{target.name}: {len(outcome.shear)} shear rows; pier x storey cases: "

@@ -39,6 +39,8 @@ class Outcome:
     summary: pd.DataFrame
     sheets: list[ResultSheet] = field(default_factory=list)
     timings: dict[str, float] = field(default_factory=dict)
+    # tables whose rows the workbook holds only in part (`select_detail`), every row: for Parquet
+    full_tables: list[ResultSheet] = field(default_factory=list)
 
     @property
     def failing(self) -> int:
@@ -75,11 +77,26 @@ def load(path: Path, reporter: Reporter = SILENT) -> tuple[Building, Findings]:
 
 
 def compute(
-    building: Building, findings: Findings, now: dt.datetime | None = None, reporter: Reporter = SILENT
+    building: Building,
+    findings: Findings,
+    now: dt.datetime | None = None,
+    reporter: Reporter = SILENT,
+    detail: str = "all",
+    limit: int | None = None,
 ) -> Outcome:
-    """Run every check on a validated building and lay out the result sheets."""
+    """Run every check on a validated building and lay out the result sheets.
+
+    `detail` (see `select_detail`, which must then be called before writing): with `governing`,
+    or `auto` above `limit` rows, the tables whose rows will be cut are made without their
+    working text (most of the checks' time at building scale), and the sheets carry a `rework`
+    that makes it for the rows written."""
     s = building.settings
     t = Timings(reporter)
+    limit = results.DETAIL_ROW_LIMIT if limit is None else limit
+
+    def defer(rows: int) -> bool:
+        return detail == "governing" or (detail == "auto" and rows > limit)
+
     with t.phase("geometry", "piers, lintels, stiffness and storey plans"):
         geom = geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
@@ -89,9 +106,21 @@ def compute(
     with t.phase("sharing", "sharing actions to walls and piers"):
         acts, core, split = pier_actions(building, piers, walls, plans)
     named = building.cores != [""]  # walls carry core IDs: result tables get a core column
+    rework: dict[str, object] = {}
+    if core is not None and defer(len(core)):
+        rework[results.CORE_SHEET] = core_working
+    elif core is not None:
+        core = core_working(core)
     with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):
-        shear = check_pier_shear(piers, acts, s)
-        axial = check_pier_axial(piers, acts, s)
+        if defer(len(acts)):  # numbers now, working text for the rows written (select_detail)
+            acts_i = acts.assign(_act=np.arange(len(acts)))
+            shear = check_pier_shear(piers, acts_i, s, text=False)
+            axial = check_pier_axial(piers, acts_i, s, working=False)
+            rework[results.SHEAR_SHEET] = _rework_rows(lambda a: check_pier_shear(piers, a, s), acts_i)
+            rework[results.AXIAL_SHEET] = _rework_rows(lambda a: check_pier_axial(piers, a, s), acts_i)
+        else:
+            shear = check_pier_shear(piers, acts, s)
+            axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe)
         section14 = check_section14(piers, acts, s, hwe)
@@ -428,7 +457,108 @@ def compute(
                 ],
             )
         )
+    for sheet in sheets:
+        sheet.rework = rework.get(sheet.name)
     return Outcome(building, findings, geom, shear, summary, sheets, timings=t)
+
+
+DETAIL_MODES = ("auto", "governing", "all")
+
+
+def select_detail(
+    outcome: Outcome,
+    mode: str = "auto",
+    tables_folder: str = "",
+    limit: int | None = None,
+) -> list[ResultSheet]:
+    """Choose the rows each result sheet holds, in place on `outcome.sheets`.
+
+    `all`: every row. `governing`: every table with a rule in `results.GOVERNING` holds its
+    governing rows plus every failing row. `auto`: every row while a table has at most `limit`
+    rows (a workbook of a few hundred thousand rows takes a spreadsheet program the better part
+    of a minute to open or save); above it the governing rows plus every failing row while
+    those stay within `limit`, else the governing rows alone (a harsh tower fails in tens of
+    thousands of rows; its summary still names every failing pier). A table cut so says which
+    rows it holds and where every row is (`tables_folder`, one Parquet file per table, written
+    with the workbook); the summary says it once more. Returns the full tables, also kept as
+    `outcome.full_tables`."""
+    from xlcore.workbook.tables import file_name
+
+    limit = results.DETAIL_ROW_LIMIT if limit is None else limit
+    if mode not in DETAIL_MODES:
+        raise ValueError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {mode!r}")
+    full: list[ResultSheet] = []
+    notes: list[str] = []
+    for k, sheet in enumerate(outcome.sheets):
+        rule = results.GOVERNING.get(sheet.name)
+        n = len(sheet.table)
+        if mode == "all" or rule is None or (mode == "auto" and n <= limit):
+            if sheet.rework is not None:  # every row written: every row's working text
+                outcome.sheets[k] = _reworked(sheet, sheet.table, sheet.preamble)
+            continue
+        keep = results.governing_rows(sheet.table, rule)
+        meaning = rule.meaning + ("; plus every failing row" if rule.failing else "")
+        if mode == "auto" and keep.sum() > limit:
+            fails = int(keep.sum())
+            keep = results.governing_rows(sheet.table, rule, failing=False)
+            meaning = (
+                f"{rule.meaning}; the other failing rows are left out too ({fails:,} rows with "
+                f"them, over {limit:,}): filter the Parquet file's Status for every one"
+            )
+        if keep.all():
+            if sheet.rework is not None:
+                outcome.sheets[k] = _reworked(sheet, sheet.table, sheet.preamble)
+            continue
+        kept = int(keep.sum())
+        name = file_name(sheet.name)
+        where = f"{tables_folder}/{name}" if tables_folder else name
+        outcome.sheets[k] = _reworked(
+            sheet,
+            sheet.table[keep].reset_index(drop=True),
+            [
+                *sheet.preamble,
+                (
+                    "Rows shown",
+                    f"governing rows only ({kept:,} of {n:,}): {meaning}. Every row, without "
+                    f"the working text: {where} (Parquet, beside this workbook)",
+                ),
+            ],
+        )
+        full.append(sheet)
+        notes.append(f"{sheet.name} {kept:,} of {n:,} rows ({name})")
+    outcome.full_tables = full
+    if full and outcome.sheets and outcome.sheets[0].name == results.SUMMARY_SHEET:
+        why = (
+            f"--detail auto: tables over {limit:,} rows"
+            if mode == "auto"
+            else "--detail governing: the per-combination tables"
+        )
+        outcome.sheets[0].preamble.append(
+            (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus the failing rows where they stay within {limit:,}; each sheet "
+                f"says which): {'; '.join(notes)}. Every row is in the folder "
+                f"{tables_folder or 'beside this workbook'}, one Parquet file per table (numbers "
+                "without the working text); compute with --detail all to write every row here",
+            )
+            if mode == "auto"
+            else (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus every failing row): {'; '.join(notes)}. Every row is in the "
+                f"folder {tables_folder or 'beside this workbook'}, one Parquet file per table "
+                "(numbers without the working text); compute with --detail all to write every "
+                "row here",
+            )
+        )
+    return full
+
+
+def _reworked(sheet: ResultSheet, rows: pd.DataFrame, preamble: list) -> ResultSheet:
+    """The sheet holding `rows`, with their working text where it was left for now."""
+    table = sheet.rework(rows) if sheet.rework is not None else rows
+    return ResultSheet(sheet.name, sheet.title, sheet.columns, table, preamble, sheet.scale_key)
 
 
 def pier_actions(
@@ -448,7 +578,7 @@ def pier_actions(
     ca = building.core_actions
     given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()
     core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
-    table = core_table(core, given)
+    table = core_table(core, given, text=False)  # the walls' working: compute, on the rows written
     core_piers = core_piers.drop(columns=["core"])
     if len(split.shares):
         split.shares["used"] = np.where(
@@ -491,15 +621,11 @@ def _pairs(df: pd.DataFrame) -> pd.Series:
     return df.storey.astype(str) + "\x1f" + df.combination.astype(str)
 
 
-def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFrame:
-    """Walls and piers of the core sharing, one sheet's rows, with the working as text.
-    `given`: core-actions rows whose storey x combination the member actions cover."""
-    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan)
-    w["working"] = [
-        f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
-        f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
-        for d, t, v, m, a in zip(*plain(w.direct, w.torsion, w.v, w.m_cr, w.m_acc), strict=True)
-    ]
+def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = True) -> pd.DataFrame:
+    """Walls and piers of the core sharing, one sheet's rows, with the working as text
+    (without `text`, the walls' working is left blank for `core_working` to make on the rows
+    written). `given`: core-actions rows whose storey x combination the member actions cover."""
+    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan, working=None)
     p = core.piers.assign(
         member=core.piers.pier_id,
         kind="pier",
@@ -516,7 +642,34 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFram
         kind="stable",
         key=lambda c: geometry.natural_rank(c) if c.name == "member" else c,
     )
-    return out.reset_index(drop=True)
+    out = out.reset_index(drop=True)
+    return core_working(out) if text else out
+
+
+def core_working(rows: pd.DataFrame) -> pd.DataFrame:
+    """The walls' working text on rows of the core-shares table (piers carry theirs)."""
+    out = rows.copy()
+    w = out[out.kind == "wall"]
+    out.loc[w.index, "working"] = [
+        f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
+        f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
+        for d, t, v, m, a in zip(*plain(w.direct, w.torsion, w.v, w.m_cr, w.m_acc), strict=True)
+    ]
+    return out
+
+
+def _rework_rows(check, acts: pd.DataFrame):
+    """The working text for the rows written: the check run again, with its text, on the action
+    rows of those rows only (`_act`: each table row's action row). Every check used so is row by
+    row (a row's numbers depend on its own action row and pier), so the numbers are the same;
+    the rows come back in the order asked."""
+
+    def rework(rows: pd.DataFrame) -> pd.DataFrame:
+        ask = rows._act.to_numpy()
+        out = check(acts.iloc[np.unique(ask)])
+        return out.set_index("_act").loc[ask].reset_index()
+
+    return rework
 
 
 def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -36,6 +37,12 @@ class ResultColumn:
         return self.fmt is None and self.width >= 30
 
     @property
+    def is_working(self) -> bool:
+        """Working text (formulas with numbers substituted): `working` or `f_...`. Left out of
+        the full tables in Parquet, whose numbers it only repeats."""
+        return self.fmt is None and (self.key == "working" or self.key.startswith("f_"))
+
+    @property
     def banded(self) -> bool:
         """A utilisation column: coloured by the bands below."""
         return self.fmt is not None and (
@@ -53,6 +60,9 @@ class ResultSheet:
     table: pd.DataFrame
     preamble: list[tuple[str, object]] = field(default_factory=list)
     scale_key: str | None = None  # column that gets the utilisation colour scale
+    # rows of `table` -> the same rows with their working text: set where the text was left out
+    # to be made for the rows written only (`pipeline.select_detail` calls it)
+    rework: Callable[[pd.DataFrame], pd.DataFrame] | None = None
 
 
 def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
@@ -386,6 +396,107 @@ CORES_COLUMNS = [
     _c("used", "Used for", width=18),
     _c("working", "Working", width=90),
 ]
+
+
+# What "governing" keeps of each table that has a combination dimension, when the workbook
+# holds only the governing rows (`compute --detail governing`, or `auto` above
+# DETAIL_ROW_LIMIT rows). One rule per table, declared here beside its columns so that a new
+# result table gets its rule in the same place. Tables without a rule (summary, advice, piers,
+# core section, detailing: already one row per storey x member, or x rule) are always written
+# in full. See DEVELOPERS.md "Decisions" and `governing_rows`.
+DETAIL_ROW_LIMIT = 50_000  # rows per table above which `auto` writes the governing rows only
+
+
+@dataclass(frozen=True)
+class Governing:
+    """Rows kept of one result table: per group (e.g. storey x pier), the row with the largest
+    value of each `worst` column (compared by magnitude where also in `magnitude`; ties: the
+    first row; a group with no value at all keeps its first row, e.g. a lintel not checked),
+    plus every row where a `failing` column says FAIL (the sheet says so after `meaning`). The
+    table's order is kept."""
+
+    group: tuple[str, ...]
+    worst: tuple[str, ...]
+    failing: tuple[str, ...] = ("status",)
+    magnitude: tuple[str, ...] = ()
+    meaning: str = ""  # in words, for the sheet's preamble
+
+
+GOVERNING: dict[str, Governing] = {
+    SHEAR_SHEET: Governing(
+        ("storey", "pier_id"),
+        ("util",),
+        meaning="per storey x pier the combination with the largest utilisation",
+    ),
+    AXIAL_SHEET: Governing(
+        ("storey", "pier_id"),
+        ("util", "util_s"),
+        failing=("status", "status_s"),
+        meaning="per storey x pier the combination with the largest radial utilisation and the one "
+        "with the largest Cl 11.5 utilisation (often the same row)",
+    ),
+    LINTELS_SHEET: Governing(
+        ("storey", "lintel_id"),
+        ("util",),
+        meaning="per storey x lintel the combination with the largest utilisation (a lintel not "
+        "checked: its first row, which says why)",
+    ),
+    CORE_STRESS_SHEET: Governing(
+        ("storey", "wall_id"),
+        ("util", "u_compression"),
+        meaning="per storey x wall the combination with the largest tension-steel utilisation and "
+        "the one with the largest peak compression / limit",
+    ),
+    CORE_NM_SHEET: Governing(
+        ("storey", "core"),
+        ("util",),
+        meaning="per storey (and core) the combination with the largest utilisation",
+    ),
+    CORES_SHEET: Governing(
+        ("storey", "core"),
+        ("vx", "vy", "n", "mx", "my"),
+        failing=(),
+        magnitude=("vx", "vy", "mx", "my"),
+        meaning="per storey x core the combinations with the largest |Vx|, |Vy|, N, |Mx| and |My| "
+        "(a sharing table: nothing fails here)",
+    ),
+    CORE_SHEET: Governing(
+        ("storey", "member"),
+        ("v", "n", "m"),
+        failing=(),
+        magnitude=("v", "m"),
+        meaning="per storey x wall or pier the combinations with the largest |V*|, the largest N* "
+        "and the largest |M*| (a sharing table: nothing fails here)",
+    ),
+}
+
+
+def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -> np.ndarray:
+    """Boolean mask of the rows `rule` keeps (see `Governing`), vectorised: one stable sort
+    per `worst` column, the first row of each group after it; without `failing`, the failing
+    rows that do not govern are left out too."""
+    n = len(table)
+    keep = np.zeros(n, dtype=bool)
+    if n == 0:
+        return keep
+    group = [g for g in rule.group if g in table]  # e.g. `core` only where the table has it
+    gid = table.groupby(group, sort=False, dropna=False).ngroup().to_numpy() if group else np.zeros(n, int)
+    pos = np.arange(n)
+    for col in rule.worst:
+        if col not in table:
+            continue
+        v = pd.to_numeric(table[col], errors="coerce").to_numpy(dtype=float)
+        if col in rule.magnitude:
+            v = np.abs(v)
+        v = np.where(np.isnan(v), -np.inf, v)
+        order = np.lexsort((pos, -v, gid))  # by group, largest first, then table order
+        first = np.ones(n, dtype=bool)
+        first[1:] = gid[order][1:] != gid[order][:-1]
+        keep[order[first]] = True
+    for col in rule.failing if failing else ():
+        if col in table:
+            keep |= (table[col] == FAIL).to_numpy()
+    return keep
 
 
 # Discrete bands of our own on utilisation (not a continuous scale, where a comfortable 0.57

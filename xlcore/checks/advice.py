@@ -114,7 +114,10 @@ def _candidates(
             *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
         )
     ]
-    variant = [f"{p}#{i}" for i, p in enumerate(var.pier_id.tolist())]  # unique over storeys too
+    # each variant's own pier ID, unique over storeys too: an integer, so that the checks' joins
+    # on (storey, pier) and the maps by variant hash numbers, not text (a text ID per variant cost
+    # a Python format per row and string factorising in every join)
+    variant = np.arange(len(var), dtype=np.int64)
     meta = pd.DataFrame(
         dict(
             storey=var.storey.to_numpy(),
