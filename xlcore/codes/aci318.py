@@ -144,22 +144,20 @@ class WallShear:
 
 
 def wall_shear(fc, fyt, Lw, tw, hw_lw, rho_t, lam=1.0, phi=PHI_SHEAR, segment=False) -> WallShear:
-    """phi Vn of a wall (or, with `segment`, one vertical segment of a special wall) in its plane,
-    11.5.4.2-11.5.4.3 and 18.10.4: Vn = min((alpha_c lambda sqrt(f'c) + rho_t fyt) Acv, limit);
-    limit 0.66 sqrt(f'c) Acv, and for a segment also 0.83 sqrt(f'c) Acw (Acw = Lw tw here).
+    """phi Vn of a wall in its plane, 11.5.4.2-11.5.4.3 and 18.10.4:
+    Vn = min((alpha_c lambda sqrt(f'c) + rho_t fyt) Acv, limit). The limit is 0.66 sqrt(f'c) Acv
+    (11.5.4.2), or with `segment` (one vertical segment of a special wall, 18.10.4.4)
+    0.83 sqrt(f'c) Acw with Acw = Lw tw of the segment; the 0.66 limit then applies to the sum
+    over the segments sharing the lateral force (`wall_vn_max` on their total Acv, the caller's).
     `hw_lw` is the governing ratio (see `segment_aspect_ratio`)."""
     acv = wall_shear_area(Lw, tw)
     ac = alpha_c(hw_lw)
-    root = _a(lam) * np.sqrt(_a(fc))
-    vc = ac * root * acv
+    vc = ac * _a(lam) * np.sqrt(_a(fc)) * acv
     vs = _a(rho_t) * np.minimum(_a(fyt), FYT_MAX_SHEAR) * acv
-    wall_cap = wall_vn_max(fc, acv)
-    seg_cap = np.where(segment, segment_vn_max(fc, acv), np.inf)
-    cap = np.minimum(wall_cap, seg_cap)
+    seg = np.asarray(segment, dtype=bool)
+    cap = np.where(seg, segment_vn_max(fc, acv), wall_vn_max(fc, acv))
     vn = np.minimum(vc + vs, cap)
-    gov = np.where(
-        vc + vs <= cap, GOV_FORMULA, np.where(seg_cap < wall_cap, GOV_SEGMENT_LIMIT, GOV_WALL_LIMIT)
-    )
+    gov = np.where(vc + vs <= cap, GOV_FORMULA, np.where(seg, GOV_SEGMENT_LIMIT, GOV_WALL_LIMIT))
     p = np.broadcast_to(_a(phi), vn.shape).copy()
     return WallShear(acv, ac, vc, vs, cap, vn, p, p * vn, gov)
 
@@ -490,6 +488,24 @@ def boundary_ash_ratio(fc, fyt, Ag, Ach):
     """Ash / (s bc) >= greater of 0.3 (Ag/Ach - 1) f'c/fyt and 0.09 f'c/fyt, Table 18.10.6.4(g)."""
     r = _a(fc) / _a(fyt)
     return np.maximum(0.3 * (_a(Ag) / _a(Ach) - 1.0) * r, 0.09 * r)
+
+
+# --- 18.10.2 special-wall web reinforcement
+
+
+def special_web_min_ratio(v_u, fc, Lw, tw, lam=1.0):
+    """rho_l and rho_t at least 0.0025 in a special structural wall, 18.10.2.1; where Vu does not
+    exceed 0.083 lambda sqrt(f'c) Acv (lambda sqrt(f'c) Acv in psi) rho_t may follow 11.6
+    instead: returns (0.0025, True where the 11.6 minimum may be used for rho_t)."""
+    low = np.abs(_a(v_u)) <= 0.083 * _a(lam) * np.sqrt(_a(fc)) * wall_shear_area(Lw, tw)
+    return np.full(low.shape, RHO_HIGH_SHEAR), low
+
+
+def special_two_curtains(v_u, fc, Lw, tw, hw_lw, lam=1.0):
+    """Two curtains of reinforcement where Vu > 0.17 lambda sqrt(f'c) Acv or hw/lw >= 2.0,
+    18.10.2.2."""
+    high = np.abs(_a(v_u)) > 0.17 * _a(lam) * np.sqrt(_a(fc)) * wall_shear_area(Lw, tw)
+    return high | (_a(hw_lw) >= 2.0)
 
 
 # --- 18.10.7 coupling beams
