@@ -24,9 +24,22 @@ PROTOCOL_ATTRIBUTES = [name for name in base.Standard.__annotations__]
 
 def test_protocol_lists_the_quantities_the_checks_ask_for():
     # the interface is not empty: every group of the brief has a member
-    for name in ("wall_shear", "stress_block", "phi_axial_bending", "squash_load", "tension_capacity",
-                 "simplified_capacity", "effective_height_factor", "min_ratios", "max_spacing",
-                 "beam_flexure", "beam_shear", "coupling_beam_shear", "boundary_stress_limits", "clause"):  # fmt: skip
+    for name in (
+        "wall_shear",
+        "stress_block",
+        "phi_axial_bending",
+        "squash_load",
+        "tension_capacity",
+        "simplified_capacity",
+        "effective_height_factor",
+        "min_ratios",
+        "max_spacing",
+        "beam_flexure",
+        "beam_shear",
+        "coupling_beam_shear",
+        "boundary_stress_limits",
+        "clause",
+    ):
         assert name in PROTOCOL_METHODS
     assert set(PROTOCOL_ATTRIBUTES) >= {"name", "Es", "eps_cu", "phi_wall_shear", "phi_compression"}
 
@@ -62,8 +75,15 @@ def test_methods_return_arrays_over_rows(std):
     assert a.shape == g.shape == (3,)
     assert np.all(std.tension_capacity(1000.0, fy) < 0)
     assert np.all(std.max_compression(fc, 600_000.0, 3000.0, fy) < std.squash_load(fc, 600_000.0, 3000.0, fy))
-    excl = std.simplified_exclusions(np.array([1e6, -1e5, 1e6]), np.array([1.0, -1.0, -1.0]), tw,
-                                     3000.0, np.array([10.0, 10.0, 10.0]), 2, 1.0)  # fmt: skip
+    excl = std.simplified_exclusions(
+        np.array([1e6, -1e5, 1e6]),
+        np.array([1.0, -1.0, -1.0]),
+        tw,
+        3000.0,
+        np.array([10.0, 10.0, 10.0]),
+        2,
+        1.0,
+    )
     assert excl["not in compression"].tolist() == [False, True, False]
     assert excl["end in tension"].tolist() == [False, False, True]
 
@@ -119,23 +139,37 @@ def test_as3600_adapter_axial_and_detailing_equal_as3600():
     np.testing.assert_array_equal(g, as3600.gamma(FC))
     np.testing.assert_array_equal(s.squash_load(FC, 6e5, 3e3, FSY), as3600.squash_load(FC, 6e5, 3e3, FSY))
     state = base.SectionState(
-        nu=np.array([-1e5, 2e5, 3e6]), dn=np.ones(3), d0=np.ones(3), fy=FSY,
-        nub=np.array([1e6, 1e6, 1e6]), nuot=np.array([-5e5, -5e5, -5e5]), kuo=np.array([0.1, 0.3, 0.5]),
-    )  # fmt: skip
+        nu=np.array([-1e5, 2e5, 3e6]),
+        dn=np.ones(3),
+        d0=np.ones(3),
+        fy=FSY,
+        nub=np.array([1e6, 1e6, 1e6]),
+        nuot=np.array([-5e5, -5e5, -5e5]),
+        kuo=np.array([0.1, 0.3, 0.5]),
+    )
     np.testing.assert_array_equal(
         s.phi_axial_bending(state), as3600.phi_axial_bending(state.nu, state.nub, state.nuot, state.kuo)
     )
-    np.testing.assert_array_equal(
-        s.design_moment(1e6, 2e6, LW), as3600.min_eccentricity_moment(1e6, 2e6, LW)
-    )
+    np.testing.assert_array_equal(s.design_moment(1e6, 2e6, LW), as3600.min_eccentricity_moment(1e6, 2e6, LW))
     k = s.effective_height_factor(np.array([3000.0] * 3), LW, np.array([0, 1, 2]), True)
     np.testing.assert_array_equal(k, as3600.effective_height_factor(3000.0, LW, np.array([0, 1, 2]), True))
     e = np.array([5.0, 20.0, 60.0])
     cap = s.simplified_capacity(FC, TW, LW, 2700.0, e)
     ecc, ea = as3600.simplified_eccentricity(e, TW), as3600.additional_eccentricity(2700.0, TW)
     np.testing.assert_array_equal(cap, as3600.simplified_capacity(FC, TW, ecc, ea, LW, as3600.PHI_SIMPLIFIED))
-    v, h = s.min_ratios(fc=FC, fy=FSY, tw=TW, Lw=LW, wall_length=LW, sigma=np.array([0.5, 2.0, 3.0]),
-                        v_star=0.0, hw_lw=1.0, rho_h=0.003, bar_dia=12.0, restrained=True)  # fmt: skip
+    v, h = s.min_ratios(
+        fc=FC,
+        fy=FSY,
+        tw=TW,
+        Lw=LW,
+        wall_length=LW,
+        sigma=np.array([0.5, 2.0, 3.0]),
+        v_star=0.0,
+        hw_lw=1.0,
+        rho_h=0.003,
+        bar_dia=12.0,
+        restrained=True,
+    )
     np.testing.assert_array_equal(v, as3600.wall_rho_v_min(np.array([0.5, 2.0, 3.0]), FC))
     np.testing.assert_array_equal(h, as3600.wall_rho_h_min(True, LW))
     sv, sh = s.max_spacing(TW, LW)
@@ -153,5 +187,7 @@ def test_as3600_adapter_beams_equal_as3600():
     dv = as3600.beam_dv(450.0, 500.0)
     vuc, _ = as3600.beam_vuc(40.0, 200.0, dv, 157.0, as3600.beam_asv_min(40.0, 200.0, 150.0, 500.0))
     assert bs.concrete == vuc
-    assert bs.nominal == min(vuc + as3600.beam_vus(157.0, 500.0, dv, 150.0), as3600.beam_vu_max(40.0, 200.0, dv))
+    assert bs.nominal == min(
+        vuc + as3600.beam_vus(157.0, 500.0, dv, 150.0), as3600.beam_vu_max(40.0, 200.0, dv)
+    )
     assert np.isnan(s.coupling_beam_shear(1000.0, 500.0, 0.5, 40.0, 1e5))  # no such clause in AS 3600

@@ -285,7 +285,8 @@ def min_clear_spacing(db, aggregate=None):
 def beta1(fc):
     """beta1 = 0.85 for 17 <= f'c <= 28 MPa, 0.85 - 0.05 (f'c - 28) / 7 between, 0.65 for
     f'c >= 55 MPa, Table 22.2.2.4.3: depth of the stress block a = beta1 c."""
-    return np.clip(0.85 - 0.05 * (_a(fc) - 28.0) / 7.0, 0.65, 0.85)
+    f = _a(fc)
+    return np.where(f >= 55.0, 0.65, np.clip(0.85 - 0.05 * (f - 28.0) / 7.0, 0.65, 0.85))
 
 
 STRESS_INTENSITY = 0.85
