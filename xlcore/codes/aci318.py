@@ -44,7 +44,8 @@ PHI_TENSION_CONTROLLED = 0.90
 """Table 21.2.2: phi for tension-controlled sections."""
 
 PHI_SIMPLIFIED = 0.65
-"""21.2.2 / 11.5.3.1: the simplified wall method's Pn is compression-controlled."""
+"""21.2.2 / 11.5.3.1: the simplified wall method's Pn is compression-controlled (from memory,
+verify; 0.70 in editions before 2002)."""
 
 PHI_DIAGONAL_COUPLING = 0.85
 """21.2.4.4: phi for shear of diagonally reinforced coupling beams (from memory, verify)."""
@@ -180,7 +181,8 @@ K_BRACED_RESTRAINED, K_BRACED_FREE, K_UNBRACED = 0.8, 1.0, 2.0
 def effective_length_factor(braced=True, restrained=False):
     """k of Table 11.5.3.2: braced and restrained against rotation at one or both ends 0.8;
     braced and unrestrained at both ends 1.0; not braced against lateral translation 2.0.
-    (ACI has no three- or four-side factor like AS 3600 Cl 11.4: side supports are ignored.)"""
+    (ACI has no three- or four-side factor like AS 3600 Cl 11.4: side supports are ignored.)
+    Values from memory, verify."""
     b = np.asarray(braced, dtype=bool)
     r = np.asarray(restrained, dtype=bool)
     return np.where(b, np.where(r, K_BRACED_RESTRAINED, K_BRACED_FREE), K_UNBRACED)
@@ -274,7 +276,7 @@ def two_layers_required(h):
 
 def min_clear_spacing(db, aggregate=None):
     """Least clear spacing of parallel bars in a layer: max(25 mm, db, 4/3 d_agg), 25.2.1
-    (aggregate size optional)."""
+    (aggregate size optional; from memory, verify)."""
     out = np.maximum(25.0, _a(db))
     return out if aggregate is None else np.maximum(out, 4.0 / 3.0 * _a(aggregate))
 
@@ -356,7 +358,8 @@ def beam_flexure(b, d, As, fc, fy):
 
 
 def beam_av_min(fc, b, s, fyt):
-    """Av,min = max(0.062 sqrt(f'c), 0.35) b s / fyt [mm^2], 9.6.3.4 (Table 9.6.3.4)."""
+    """Av,min = max(0.062 sqrt(f'c), 0.35) b s / fyt [mm^2], 9.6.3.4 (Table 9.6.3.4; from memory,
+    verify)."""
     return np.maximum(0.062 * np.sqrt(_a(fc)), 0.35) * _a(b) * _a(s) / np.minimum(_a(fyt), FYT_MAX_SHEAR)
 
 
@@ -367,7 +370,9 @@ def beam_vc(fc, b, d, av, av_min, rho_w, lam=1.0):
     """Vc of a nonprestressed beam without axial force, Table 22.5.5.1 [N]: with Av >= Av,min the
     greater of 0.17 lambda sqrt(f'c) b d (a) and 0.66 lambda rho_w^(1/3) sqrt(f'c) b d (b);
     otherwise 0.66 lambda_s lambda rho_w^(1/3) sqrt(f'c) b d (c), lambda_s = sqrt(2/(1 + 0.004 d))
-    <= 1 (22.5.5.1.3). sqrt(f'c) <= 8.3 MPa (22.5.3.1); Vc <= 0.42 lambda sqrt(f'c) b d."""
+    <= 1 (22.5.5.1.3). sqrt(f'c) <= 8.3 MPa (22.5.3.1); Vc <= 0.42 lambda sqrt(f'c) b d.
+    (a)-(c) and the 8.3 MPa limit from a public summary; lambda_s and the 0.42 cap from memory,
+    verify."""
     root = np.minimum(np.sqrt(_a(fc)), SQRT_FC_MAX)
     bd = _a(b) * _a(d)
     lam_s = np.minimum(np.sqrt(2.0 / (1.0 + 0.004 * _a(d))), 1.0)
@@ -393,7 +398,8 @@ def beam_vn_max(fc, b, d, vc):
 
 def omega_v(hwcs_lw, mpr_mu=1.5):
     """Flexural overstrength factor Omega_v, Table 18.10.3.1.2: 1.0 for hwcs/lw <= 1.5; else the
-    greater of Mpr/Mu and 1.5 (as a published ACI code case on 18.10.3.1 summarises the table)."""
+    greater of Mpr/Mu and 1.5 (as a published ACI code case on 18.10.3.1 summarises the table;
+    the table's alternatives not transcribed: verify)."""
     return np.where(_a(hwcs_lw) <= 1.5, 1.0, np.maximum(_a(mpr_mu), 1.5))
 
 
@@ -418,7 +424,8 @@ DRIFT_FLOOR = 0.005
 def boundary_c_limit(lw, delta_u, hw):
     """lw / (600 (1.5 delta_u / hw)) [mm], with delta_u/hw not less than 0.005: special boundary
     elements are required where c >= this, 18.10.6.2(a) Eq. (18.10.6.2) (walls effectively
-    continuous from base to top with one critical section, hwcs/lw >= 2.0)."""
+    continuous from base to top with one critical section, hwcs/lw >= 2.0). The 0.005 floor is
+    from memory, verify."""
     drift = np.maximum(_a(delta_u) / _a(hw), DRIFT_FLOOR)
     return _a(lw) / (600.0 * 1.5 * drift)
 
@@ -452,7 +459,7 @@ def boundary_required_stress(sigma, fc):
 
 def boundary_may_stop(sigma, fc):
     """A special boundary element may be discontinued where the stress falls below 0.15 f'c,
-    18.10.6.3."""
+    18.10.6.3 (0.15 from memory, verify)."""
     return _a(sigma) < STRESS_DISCONTINUE * _a(fc)
 
 
@@ -473,7 +480,8 @@ def boundary_min_width(hu, hwcs_lw, c, lw):
 def hoop_spacing_max(b_least, db_long, hx, fy_long=420.0):
     """Vertical spacing of boundary-element hoops, 18.10.6.4(e) with 18.7.5.3: the least of one
     third of the boundary element's least dimension, 6 db of the smallest longitudinal bar
-    (5 db for Grade 550, fy > 420 MPa), and so = 100 + (350 - hx)/3 within 100..150 mm [mm]."""
+    (5 db for Grade 550, fy > 420 MPa: from memory, verify), and so = 100 + (350 - hx)/3 within
+    100..150 mm [mm]."""
     so = np.clip(100.0 + (350.0 - _a(hx)) / 3.0, 100.0, 150.0)
     mult = np.where(_a(fy_long) > 420.0, 5.0, 6.0)
     return np.minimum(np.minimum(_a(b_least) / 3.0, mult * _a(db_long)), so)
@@ -514,7 +522,7 @@ def special_two_curtains(v_u, fc, Lw, tw, hw_lw, lam=1.0):
 
 def coupling_diagonal_required(ln, h, v_u, fc, Acw, lam=1.0):
     """Diagonal reinforcement required where ln/h < 2 and Vu > 0.33 lambda sqrt(f'c) Acw,
-    18.10.7.3 (numbered 18.10.7.2 in some printings: verify)."""
+    18.10.7.2."""
     return (_a(ln) / _a(h) < 2.0) & (np.abs(_a(v_u)) > 0.33 * _a(lam) * np.sqrt(_a(fc)) * _a(Acw))
 
 
