@@ -459,7 +459,7 @@ def boundary_required_stress(sigma, fc):
 
 def boundary_may_stop(sigma, fc):
     """A special boundary element may be discontinued where the stress falls below 0.15 f'c,
-    18.10.6.3 (0.15 from memory, verify)."""
+    18.10.6.3."""
     return _a(sigma) < STRESS_DISCONTINUE * _a(fc)
 
 
