@@ -234,3 +234,9 @@ def test_special_wall_web_minimum_and_curtains():
     assert low.tolist() == [True, False]
     two = aci.special_two_curtains([645_104.0, 645_105.0, 1.0], FC, LW, TW, [1.0, 1.0, 2.0])
     assert two.tolist() == [False, True, True]
+
+
+def test_vn_formula_function_equals_the_wall_shear_record():
+    # Eq. (11.5.4.3) on its own: 0.21 x 6.324555 x 600 000 + 0.003 x 420 x 600 000 = 1 552 894.0 (hand)
+    assert aci.wall_vn_formula(FC, FY, 0.003, LW * TW, 1.75) == pytest.approx(1_552_894.0, abs=0.5)
+    assert aci.wall_shear(FC, FY, LW, TW, 1.75, 0.003).vn == pytest.approx(1_552_894.0, abs=0.5)
