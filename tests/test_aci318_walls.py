@@ -240,3 +240,8 @@ def test_vn_formula_function_equals_the_wall_shear_record():
     # Eq. (11.5.4.3) on its own: 0.21 x 6.324555 x 600 000 + 0.003 x 420 x 600 000 = 1 552 894.0 (hand)
     assert aci.wall_vn_formula(FC, FY, 0.003, LW * TW, 1.75) == pytest.approx(1_552_894.0, abs=0.5)
     assert aci.wall_shear(FC, FY, LW, TW, 1.75, 0.003).vn == pytest.approx(1_552_894.0, abs=0.5)
+
+
+def test_special_wall_rho_l_at_least_rho_t_up_to_hw_lw_2():
+    # 18.10.4.3 (up.codes 18.10.4 text): hw/lw <= 2.0 -> rho_l >= rho_t; above: no such rule
+    assert aci.special_rho_l_min([1.0, 2.0, 2.01], 0.004).tolist() == [0.004, 0.004, 0.0]

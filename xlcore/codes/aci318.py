@@ -510,6 +510,13 @@ def special_web_min_ratio(v_u, fc, Lw, tw, lam=1.0):
     return np.full(low.shape, RHO_HIGH_SHEAR), low
 
 
+def special_rho_l_min(hw_lw, rho_t):
+    """Where hw/lw does not exceed 2.0, rho_l at least rho_t, 18.10.4.3 (special walls; the
+    vertical steel then shares the shear of a squat wall). Returns the minimum rho_l from this
+    rule (0 where hw/lw > 2.0)."""
+    return np.where(_a(hw_lw) <= 2.0, _a(rho_t), 0.0)
+
+
 def special_two_curtains(v_u, fc, Lw, tw, hw_lw, lam=1.0):
     """Two curtains of reinforcement where Vu > 0.17 lambda sqrt(f'c) Acv or hw/lw >= 2.0,
     18.10.2.2."""
