@@ -270,7 +270,8 @@ def wall_max_spacing(h, Lw, shear_steel_required=False):
 
 def two_layers_required(h):
     """Walls thicker than 250 mm (other than basement and cantilever retaining walls) have two
-    layers of reinforcement, 11.7.2.3 and 11.7.3.3 (from memory, verify the numbering)."""
+    layers of reinforcement, 11.7.2.3 (the 10 in. rule of earlier editions' 14.3.4; the 2019
+    numbering from memory, verify)."""
     return _a(h) > TWO_LAYER_THICKNESS
 
 
