@@ -276,3 +276,22 @@ def test_block_in_nm_core_gives_the_hand_balanced_point():
     n, mx, my = nm_core.forces(asm, [0], theta, dn)
     assert dn[0] == pytest.approx(317.647, rel=1e-4)
     assert np.hypot(mx[0], my[0]) == pytest.approx(678_596_576.0, rel=0.001)
+
+
+def test_design_points_phi_and_the_0_80_po_cut():
+    """Hand section, design points (21.2.2, 22.4.2.1):
+    - balanced (c 317.647): phi 0.65, phi Pn = 0.65 x 2 224 189.5 = 1 445 723.2 N;
+    - tension-controlled (c 200): phi 0.90, phi Pn = 1 245 770.6, phi Mn = 540 473 389 N mm;
+    - c = 800 > h: block over the whole depth, Cc = 0.85 x 35 x 600 x 300 = 5 355 000; top bars
+      0.003 x 740/800 = 0.002775 -> 420 - 29.75 -> 574 690.6; bottom bars 0.003 x 260/800
+      = 0.000975 -> 195 - 29.75 -> 243 350.7; Pn = 6 173 041.3, phi Pn = 4 012 476.8 > phi 0.80 Po
+      = 3 382 278.2 -> cut to it (hand evaluation)."""
+    sec = hand_section()
+    po = aci.nominal_axial_strength(FC, B * H, 2 * A3, FY)
+    c = np.array([0.003 / 0.0051 * 540.0, 200.0, 800.0])
+    pn, mn = nm.forces(sec.take(np.zeros(3, dtype=int)), c)
+    assert pn[2] == pytest.approx(6_173_041.3, abs=1.0)
+    phi, phi_pn, phi_mn = aci.design_axial_flexure(pn, mn, c, 540.0, FY, po)
+    assert phi.tolist() == pytest.approx([0.65, 0.90, 0.65])
+    assert phi_pn.tolist() == pytest.approx([1_445_723.2, 1_245_770.6, 3_382_278.2], abs=1.0)
+    assert phi_mn[1] == pytest.approx(540_473_389.0, rel=1e-7)

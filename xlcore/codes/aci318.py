@@ -344,6 +344,18 @@ def phi_axial_flexure(eps_t, fy, Es=ES, spiral=False):
     return low + (PHI_TENSION_CONTROLLED - low) * frac
 
 
+def design_axial_flexure(pn, mn, c, dt, fy, po, spiral=False, Es=ES, eps_cu=EPS_CU):
+    """A point of the design interaction diagram from a nominal one: (phi, phi Pn, phi Mn) for
+    (Pn, Mn) at neutral-axis depth c with the extreme tension bar at depth dt [N, N mm, mm].
+    phi by the net tensile strain (Table 21.2.2); phi Pn not above phi Pn,max (Table 22.4.2.1):
+    the design diagram is cut horizontally at phi 0.80 Po (0.85 with spirals), the moment kept.
+    Compression positive; `po` from `nominal_axial_strength`. (Nominal points come from
+    xlcore.nm with `stress_block`.)"""
+    phi = phi_axial_flexure(net_tensile_strain(c, dt, eps_cu), fy, Es, spiral)
+    cap = phi * max_axial_strength(po, spiral)
+    return phi, np.minimum(phi * _a(pn), cap), phi * _a(mn)
+
+
 # ---------------------------------------------------------------- beams (lintels), Ch. 9 / 22
 
 
