@@ -541,9 +541,9 @@ def special_two_curtains(v_u, fc, Lw, tw, hw_lw, lam=1.0):
 
 
 def coupling_diagonal_required(ln, h, v_u, fc, Acw, lam=1.0):
-    """Diagonal reinforcement required where ln/h < 2 and Vu > 0.33 lambda sqrt(f'c) Acw,
-    18.10.7.2."""
-    return (_a(ln) / _a(h) < 2.0) & (np.abs(_a(v_u)) > 0.33 * _a(lam) * np.sqrt(_a(fc)) * _a(Acw))
+    """Diagonal reinforcement required where ln/h < 2 and Vu >= 0.33 lambda sqrt(f'c) Acw,
+    18.10.7.2 (at equality required: the conservative reading where sources differ on > or >=)."""
+    return (_a(ln) / _a(h) < 2.0) & (np.abs(_a(v_u)) >= 0.33 * _a(lam) * np.sqrt(_a(fc)) * _a(Acw))
 
 
 def coupling_vn_diagonal(Avd, fy, alpha, fc, Acw):
