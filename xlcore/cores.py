@@ -157,7 +157,7 @@ def _share_storey(storey: str, cores: list[str], piers_at, plans, cs: pd.DataFra
 
     def pct(part, whole):
         whole = np.broadcast_to(whole, part.shape)
-        with np.errstate(divide="ignore", invalid="ignore"):
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank where not finite
             return np.where(np.abs(whole) > 1e-9, 100.0 * part / np.where(whole == 0, 1.0, whole), np.nan)
 
     table = actions.drop(columns=["acc", "t", "x_v", "y_v"]).assign(
