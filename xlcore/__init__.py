@@ -7,3 +7,16 @@ CAUTION = (
     "Check every input and result; local codes, the standard's full text and licensed "
     "engineering practice govern."
 )
+
+
+_API = ("check", "compute", "read_results", "InputInvalid", "FileProblem", "Run", "Inputs")
+
+
+def __getattr__(name: str):
+    """The Python API (`xlcore.compute`, `xlcore.read_results`, ...; see `xlcore.api`), loaded
+    on first use so that `import xlcore.layout` and the command line's start stay light."""
+    if name in _API:
+        from xlcore import api
+
+        return getattr(api, name)
+    raise AttributeError(f"module 'xlcore' has no attribute {name!r}")

@@ -38,6 +38,8 @@ class Outcome:
     summary: pd.DataFrame
     sheets: list[ResultSheet] = field(default_factory=list)
     timings: dict[str, float] = field(default_factory=dict)
+    piers: pd.DataFrame | None = None  # with stiffness: what the report draws and re-solves
+    plans: dict = field(default_factory=dict)  # storey -> distribution.StoreyPlan
 
     @property
     def failing(self) -> int:
@@ -333,7 +335,7 @@ def compute(
                 ],
             )
         )
-    return Outcome(building, findings, geom, shear, summary, sheets, timings=t)
+    return Outcome(building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans)
 
 
 def pier_actions(
