@@ -341,3 +341,30 @@ def compute(
     typer.echo(f"note: {CAUTION}")
     if code:
         raise typer.Exit(code)
+
+
+@app.command()
+def report(
+    path: Workbook,
+    output: Annotated[
+        Path | None,
+        typer.Option(
+            "--output", "-o", help="Write the PDF here instead of NAME-report.pdf beside the workbook."
+        ),
+    ] = None,
+    stale_ok: Annotated[
+        bool,
+        typer.Option(
+            "--stale-ok",
+            help="Report even when the result sheets are stale (the report is then of the inputs as they are now).",
+        ),
+    ] = False,
+    quiet: Quiet = False,
+) -> None:
+    """Write the calculation report (PDF) of a computed workbook, beside it."""
+    from xlcore.report import make_report
+
+    with _exits("no report was written"), _progress(quiet) as reporter:
+        rep = make_report(path, output, stale_ok=stale_ok, reporter=reporter)
+    typer.echo(f"wrote {rep.path} ({rep.pages} pages)" + (" from STALE results" if rep.stale else ""))
+    typer.echo(f"note: {CAUTION}")

@@ -1,0 +1,157 @@
+"""The report's drawings, by matplotlib: utilisation up the height, storey plans, N-M diagrams.
+
+Each function draws into an Axes it is given, from tables it is given: no file, no workbook.
+Plan in m, forces in kN and kNm, compression positive.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+from matplotlib.axes import Axes
+from matplotlib.patches import Polygon as Patch
+
+from xlcore import results
+from xlcore.section import rectangle
+
+OVER, CLOSE_C, OK = "#b2182b", "#c48a00", "#1e5631"  # our own: over, close, comfortable
+HIGHLIGHT = ("#1f4e79", "#b35806", "#542788", "#01665e", "#8c510a", "#c51b7d")  # worst members
+NAMED = 6  # members named in a utilisation plot's legend (the worst ones); the rest grey
+
+
+def utilisation_up_height(ax: Axes, df: pd.DataFrame, member: str | None, util: str, title: str) -> None:
+    """Worst utilisation over the combinations per storey, one line per member (pier, wall or
+    lintel; one line for the whole core when `member` is None), floor level up the y axis, the
+    1.0 line marked. `df` has storey, level, the member column and the utilisation column."""
+    ax.set_title(title, fontsize=9, loc="left")
+    ax.axvline(1.0, color=OVER, lw=1.2, ls="--")
+    ax.axvline(results.CLOSE, color=CLOSE_C, lw=0.6, ls=":")
+    ax.set_xlabel("utilisation", fontsize=7)
+    ax.set_ylabel("floor level [m]", fontsize=7)
+    ax.tick_params(labelsize=7)
+    ax.grid(True, lw=0.3, color="#cccccc")
+    if df.empty:
+        ax.text(0.5, 0.5, "no rows: not checked", transform=ax.transAxes, ha="center", fontsize=8)
+        ax.set_xlim(0, 1.2)
+        return
+    key = [member] if member else []
+    per = df.groupby([*key, "storey", "level"], sort=False)[util].max().reset_index()
+    peak = per.groupby(key)[util].max().sort_values(ascending=False) if key else None
+    named = list(peak.index[:NAMED]) if peak is not None else []
+    groups = per.groupby(key, sort=False) if key else [(None, per)]
+    for name, g in groups:
+        name = name[0] if isinstance(name, tuple) else name
+        g = g.sort_values("level")
+        if name is None or name in named:
+            i = named.index(name) if name in named else 0
+            ax.plot(
+                g[util], g.level, lw=1.3, marker="o", ms=2.2, color=HIGHLIGHT[i % len(HIGHLIGHT)], label=name
+            )
+        else:
+            ax.plot(g[util], g.level, lw=0.6, color="#9a9a9a", alpha=0.7)
+    top = float(np.nanmax(per[util].to_numpy(dtype=float)))
+    ax.set_xlim(0, max(1.1, top * 1.08) if np.isfinite(top) else 1.1)
+    if named:
+        rest = len(peak) - len(named)
+        title_ = f"worst {len(named)} named" + (f"; {rest} more in grey" if rest > 0 else "")
+        ax.legend(fontsize=6, loc="lower right", title=title_, title_fontsize=6, framealpha=0.85)
+
+
+def storey_plan(
+    ax: Axes,
+    piers: pd.DataFrame,
+    openings: list[tuple[str, str, float, float, float, float, float]],
+    centroid: tuple[float, float],
+    centre: tuple[float, float] | None,
+) -> None:
+    """Walls as their pier rectangles, openings dashed with their lintel IDs, pier IDs beside
+    each pier, the net section's centroid and the centre of rigidity. `openings`: (lintel ID,
+    wall ID, x1, y1, x2, y2, thickness m) of each opening's centreline."""
+    for r in piers.itertuples(index=False):
+        poly = rectangle(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0)
+        ax.add_patch(Patch(np.asarray(poly.exterior.coords), closed=True, fc="#b8b8b8", ec="#333333", lw=0.7))
+        ux, uy = r.px2 - r.px1, r.py2 - r.py1
+        length = float(np.hypot(ux, uy)) or 1.0
+        nx, ny = -uy / length, ux / length  # left of the wall's direction
+        off = r.tw / 1000.0 / 2 + 0.18
+        angle = np.degrees(np.arctan2(uy, ux))
+        angle = angle - 180 if angle > 90 else angle + 180 if angle <= -90 else angle
+        ax.text(
+            (r.px1 + r.px2) / 2 + nx * off,
+            (r.py1 + r.py2) / 2 + ny * off,
+            r.pier_id,
+            fontsize=6.5,
+            ha="center",
+            va="center",
+            rotation=angle,
+            color="#1f4e79",
+        )
+    for lintel_id, _wall, x1, y1, x2, y2, t in openings:
+        poly = rectangle(x1, y1, x2, y2, t)
+        ax.add_patch(
+            Patch(np.asarray(poly.exterior.coords), closed=True, fill=False, ec="#8c510a", lw=0.6, ls="--")
+        )
+        ux, uy = x2 - x1, y2 - y1
+        length = float(np.hypot(ux, uy)) or 1.0
+        nx, ny = uy / length, -ux / length  # right of the wall: the other side from pier IDs
+        off = t / 2 + 0.18
+        ax.text(
+            (x1 + x2) / 2 + nx * off,
+            (y1 + y2) / 2 + ny * off,
+            lintel_id,
+            fontsize=6,
+            ha="center",
+            va="center",
+            color="#8c510a",
+        )
+    ax.plot(
+        *centroid, marker="+", ms=11, mew=1.6, color="#000000", ls="none", label="centroid of the net section"
+    )
+    if centre is not None:
+        ax.plot(*centre, marker="x", ms=9, mew=1.6, color=OVER, ls="none", label="centre of rigidity")
+    ax.set_aspect("equal")
+    ax.autoscale_view()
+    x0, x1_ = ax.get_xlim()
+    y0, y1_ = ax.get_ylim()
+    pad = 0.08 * max(x1_ - x0, y1_ - y0) + 0.5
+    ax.set_xlim(x0 - pad, x1_ + pad)
+    ax.set_ylim(y0 - pad, y1_ + pad)
+    ax.set_xlabel("x [m]", fontsize=7)
+    ax.set_ylabel("y [m]", fontsize=7)
+    ax.tick_params(labelsize=7)
+    ax.grid(True, lw=0.3, color="#dddddd")
+    ax.legend(fontsize=6.5, loc="upper left", bbox_to_anchor=(0.0, -0.08), ncol=2, frameon=False)
+
+
+def interaction(
+    ax: Axes,
+    curve_m: np.ndarray,
+    curve_n: np.ndarray,
+    points: pd.DataFrame,
+    governing: tuple[float, float],
+    on_curve: tuple[float, float] | None,
+    title: str,
+    note: str = "",
+) -> None:
+    """The factored N-M diagram (M >= 0 side, N up) with every combination's design point
+    (grey), the governing one (red) and the ray from the origin to where it meets the curve.
+    `points` has columns m and n (kNm, kN)."""
+    ax.set_title(title, fontsize=9, loc="left")
+    ax.fill_betweenx(curve_n, 0, curve_m, color="#d9ead3", alpha=0.6, lw=0)
+    ax.plot(curve_m, curve_n, color=OK, lw=1.4, label="factored capacity (phi Nu, phi Mu)")
+    ax.plot(points.m, points.n, "o", ms=3, color="#7a7a7a", label="design points, every combination")
+    gm, gn = governing
+    ax.plot([0, gm], [0, gn], color=OVER, lw=0.7, ls=":")
+    ax.plot([gm], [gn], "o", ms=5.5, color=OVER, label="governing design point")
+    if on_curve is not None and np.all(np.isfinite(on_curve)):
+        ax.plot([on_curve[0]], [on_curve[1]], "s", ms=4.5, mfc="none", mec=OVER, label="ray meets the curve")
+    ax.axhline(0, color="#555555", lw=0.5)
+    ax.axvline(0, color="#555555", lw=0.5)
+    ax.set_xlabel("M [kNm]", fontsize=7)
+    ax.set_ylabel("N [kN] (compression +)", fontsize=7)
+    ax.tick_params(labelsize=7)
+    ax.grid(True, lw=0.3, color="#dddddd")
+    ax.set_xlim(left=0, right=max(float(np.nanmax(curve_m)), float(points.m.max()), gm) * 1.1)
+    ax.legend(fontsize=6.5, loc="upper right", framealpha=0.9)
+    if note:
+        ax.text(0.0, -0.16, note, transform=ax.transAxes, fontsize=6.5, va="top", wrap=True)
