@@ -356,7 +356,7 @@ def report(
         bool,
         typer.Option(
             "--stale-ok",
-            help="Report even when the result sheets are stale (the report is then of the inputs as they are now).",
+            help="Report even when the result sheets are stale (of the inputs as they are now).",
         ),
     ] = False,
     quiet: Quiet = False,

@@ -164,7 +164,7 @@ def _summary(flow: Flow, run: Run) -> None:
     flow.table(
         ["Check", "U", "Status", "Where", "Clause", "Rows over 1.0"],
         rows,
-        [0.18, 0.07, 0.08, 0.33, 0.22, 0.12],
+        [0.18, 0.07, 0.1, 0.31, 0.22, 0.12],
         colours=colours,
     )
     flow.heading("Pier x storey cases, failing and nearest to failing first")
@@ -172,11 +172,22 @@ def _summary(flow: Flow, run: Run) -> None:
     t = summ.table
     shown = t.head(MAX_SUMMARY_ROWS)
     keys = ["storey", "pier_id", "status", "util", "check", "combination", "clause", "detailing", "fix"]
+    heads = [
+        "Storey",
+        "Pier",
+        "Status",
+        "U",
+        "Governing check",
+        "Combination",
+        "Clause",
+        "Detailing",
+        "Cheapest fix",
+    ]
     cols = [column(summ, k) for k in keys]
     flow.table(
-        [c.title if c.key != "fix" else "Cheapest fix" for c in cols],
+        heads,
         [[fmt(r[k], c.fmt) for k, c in zip(keys, cols, strict=True)] for _, r in shown.iterrows()],
-        [0.07, 0.08, 0.07, 0.08, 0.14, 0.13, 0.17, 0.09, 0.17],
+        [0.07, 0.08, 0.07, 0.06, 0.15, 0.13, 0.18, 0.09, 0.17],
         size=6.5,
         colours=[_colour(u) for u in shown.util.to_numpy(dtype=float)],
     )
@@ -244,7 +255,7 @@ def _utilisation_pages(flow: Flow, sheets, checks, levels, name: str, members) -
         fig = flow.fig
         row, col = divmod(k, 2)
         h = (top - BOTTOM - 0.03) / 3
-        ax = fig.add_axes((LEFT + 0.05 + col * 0.44, top - (row + 1) * h + 0.045, 0.36, h - 0.075))
+        ax = fig.add_axes((LEFT + 0.05 + col * 0.44, top - (row + 1) * h + 0.045, 0.27, h - 0.075))
         fg.utilisation_up_height(ax, df, c.member, c.util, c.label)
 
 
@@ -260,18 +271,15 @@ def _plans(flow: Flow, run: Run) -> None:
     for s in b.storeys:
         sp = piers[piers.storey == s.name]
         plan = out.plans.get(s.name)
+        centre = None if plan is None or plan.centre is None else tuple(np.round(plan.centre, 3))
         key = (
-            sp[["pier_id", "px1", "py1", "px2", "py2", "tw"]].round(4).to_records(index=False).tobytes(),
+            tuple(
+                sp[["pier_id", "px1", "py1", "px2", "py2", "tw"]].round(4).itertuples(index=False, name=None)
+            ),
             tuple(
                 (w, o.offset, o.width) for (i, w), lst in sorted(cuts.items()) if i == s.index for o in lst
             ),
-            None
-            if plan is None
-            else (
-                round(plan.section.xc, 3),
-                round(plan.section.yc, 3),
-                plan.centre and tuple(np.round(plan.centre, 3)),
-            ),
+            None if plan is None else (round(plan.section.xc, 3), round(plan.section.yc, 3), centre),
         )
         groups.setdefault(key, []).append(s.name)
     flow.section("Storey plans")
@@ -289,7 +297,7 @@ def _plans(flow: Flow, run: Run) -> None:
             )
             break
         if not first:
-            flow.room(0.42)
+            flow.room(0.39)
         first = False
         storey = names[0]
         span = names[0] if len(names) == 1 else f"{names[0]} to {names[-1]} ({len(names)} storeys)"
@@ -306,7 +314,7 @@ def _plans(flow: Flow, run: Run) -> None:
                 x2, y2 = w.wx + w.ux * (o.offset + o.width), w.wy + w.uy * (o.offset + o.width)
                 openings.append((f"{wall_id}-L{k}", wall_id, x1, y1, x2, y2, w.tw / 1000.0))
         plan = out.plans[storey]
-        ax = flow.axes(0.33, (LEFT + 0.08, 0, RIGHT - LEFT - 0.16, 0))
+        ax = flow.axes(0.24, (LEFT + 0.08, 0, RIGHT - LEFT - 0.16, 0), below=0.07)
         fg.storey_plan(ax, sp, openings, (plan.section.xc, plan.section.yc), plan.centre)
         sec = plan.section
         cr = (
@@ -314,7 +322,6 @@ def _plans(flow: Flow, run: Run) -> None:
             if plan.centre
             else "none (walls unstable in plan)"
         )
-        flow.y -= 0.035
         flow.para(
             f"Net section: A = {sec.area:.3f} m2; centroid ({sec.xc:.3f}, {sec.yc:.3f}) m; centre of "
             f"rigidity {cr} m; Ixx {sec.ixx:.3f}, Iyy {sec.iyy:.3f} m4.",
@@ -329,9 +336,8 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
     sheets = run.sheets
     sheet = sheets[c.table]
     w = tables.worst(c, sheets)
-    where = ", ".join(str(w[k]) for k in c.ids if k in w and str(w[k]))
     flow.section(f"Calculation: {c.label}")
-    flow.para(f"Governing case of the building: {where} (sheet '{sheet.name}').", size=8.5)
+    flow.para(f"Governing case of the building: {_case(c, w)} (sheet '{sheet.name}').", size=8.5)
     u = float(w[c.util])
     status = results.PASS if u <= 1.0 else results.FAIL
     clause = "Cl 11.5.1" if c.util == "util_s" else str(w.get("clause", ""))
@@ -357,9 +363,10 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
                     f"N{r.h_dia:g} at {r.h_spacing:g} mm, {int(r.h_layers)} layer(s)",
                 )
             )
+    shown = {key for key, *_ in PIER_FACTS} if pairs else set()
     for key in c.inputs:
         col = column(sheet, key)
-        if col is None or key not in w or fmt(w[key], col.fmt) == "":
+        if col is None or key in shown or key not in w or fmt(w[key], col.fmt) == "":
             continue
         pairs.append((col.title, fmt(w[key], col.fmt)))
     flow.lines(pairs, size=8)
@@ -376,7 +383,7 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
         flow.heading("Every combination of this case")
         keys = [k for k in ("combination", "demand", "capacity", "util", "status") if k in others]
         flow.table(
-            [k if k != "util" else "U" for k in keys],
+            [{"util": "U"}.get(k, k.capitalize()) for k in keys],
             [
                 [
                     fmt(r[k], "0.000" if k == "util" else "0.0" if k in ("demand", "capacity") else None)
@@ -387,6 +394,16 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
             [0.3, 0.2, 0.2, 0.15, 0.15][: len(keys)],
             colours=[_colour(u) for u in others.util.to_numpy(dtype=float)],
         )
+
+
+def _case(c: tables.Check, w: pd.Series) -> str:
+    """'pier SW2-2 at L5, combination G+0.3Q+Ey' (what names the governing row)."""
+    kind = {"pier_id": "pier", "lintel_id": "lintel", "wall_id": "wall"}
+    parts = [f"{kind[c.member]} {w[c.member]}" if c.member in kind else "the core"]
+    if "storey" in w:
+        parts[0] += f" at {w.storey}"
+    parts += [f"{k} {w[k]}" for k in ("combination", "rule") if k in c.ids and k in w]
+    return ", ".join(parts)
 
 
 def _same_member(run: Run, c: tables.Check, w: pd.Series) -> pd.DataFrame | None:
@@ -450,7 +467,7 @@ def _pier_nm(flow: Flow, run: Run, storey: str, pier: str, why: str) -> None:
     r = interaction(sec, n, phi0, of=np.zeros(len(n), dtype=int))
     g = rows.loc[rows.util.astype(float).idxmax()]
     pts = pd.DataFrame({"m": rows.m_design.astype(float), "n": rows.n.astype(float)})
-    ax = flow.axes(0.36, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
+    ax = flow.axes(0.28, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
     fg.interaction(
         ax,
         r["phi_mu"] * 1e-6,
@@ -458,9 +475,8 @@ def _pier_nm(flow: Flow, run: Run, storey: str, pier: str, why: str) -> None:
         pts,
         (float(g.m_design), float(g.n)),
         (float(g.m_ray), float(g.n_ray)),
-        f"Pier {pier} at {storey} (governs {why})",
+        f"Pier {pier} at {storey} (the pier governing {why}); red: its worst axial + bending case",
     )
-    flow.y -= 0.05
     flow.para(
         f"Governing: {g.combination}: N* = {g.n:.1f} kN, M* = {g.m_design:.1f} kNm; the ray meets the "
         f"curve at N = {g.n_ray:.1f} kN, M = {g.m_ray:.1f} kNm; U = {float(g.util):.3f} ({g.clause}). "
@@ -489,7 +505,7 @@ def _core_nm(flow: Flow, run: Run, c: tables.Check) -> None:
     curve = check_core_nm(out.piers, out.plans, synth, out.building.settings)
     m = np.concatenate([[0.0], curve.phi_mu.to_numpy(float), [0.0]])
     nn = np.concatenate([[float(w.phi_nuot)], n, [float(w.phi_nuo)]])
-    ax = flow.axes(0.36, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
+    ax = flow.axes(0.28, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
     pts = pd.DataFrame({"m": here.m_res.astype(float), "n": here.n.astype(float)})
     fg.interaction(
         ax,
@@ -499,8 +515,8 @@ def _core_nm(flow: Flow, run: Run, c: tables.Check) -> None:
         (float(w.m_res), float(w.n)),
         (float(w.phi_mu), float(w.n)),
         f"Whole core at {w.storey} (governing core axial + bending)",
+        ray=False,
     )
-    flow.y -= 0.05
     flow.para(
         f"Capacity along the governing combination's moment direction ({np.degrees(theta):.0f} deg from the "
         f"x axis; Mx* = {w.mx:.0f}, My* = {w.my:.0f} kNm); other combinations are drawn at their |M*|, "

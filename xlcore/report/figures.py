@@ -54,7 +54,15 @@ def utilisation_up_height(ax: Axes, df: pd.DataFrame, member: str | None, util: 
     if named:
         rest = len(peak) - len(named)
         title_ = f"worst {len(named)} named" + (f"; {rest} more in grey" if rest > 0 else "")
-        ax.legend(fontsize=6, loc="lower right", title=title_, title_fontsize=6, framealpha=0.85)
+        ax.legend(
+            fontsize=6,
+            loc="upper left",
+            bbox_to_anchor=(1.01, 1.0),
+            title=title_,
+            title_fontsize=5.5,
+            frameon=False,
+            alignment="left",
+        )
 
 
 def storey_plan(
@@ -120,7 +128,7 @@ def storey_plan(
     ax.set_ylabel("y [m]", fontsize=7)
     ax.tick_params(labelsize=7)
     ax.grid(True, lw=0.3, color="#dddddd")
-    ax.legend(fontsize=6.5, loc="upper left", bbox_to_anchor=(0.0, -0.08), ncol=2, frameon=False)
+    ax.legend(fontsize=6.5, loc="upper left", bbox_to_anchor=(0.0, -0.13), ncol=2, frameon=False)
 
 
 def interaction(
@@ -132,19 +140,24 @@ def interaction(
     on_curve: tuple[float, float] | None,
     title: str,
     note: str = "",
+    ray: bool = True,
 ) -> None:
     """The factored N-M diagram (M >= 0 side, N up) with every combination's design point
-    (grey), the governing one (red) and the ray from the origin to where it meets the curve.
-    `points` has columns m and n (kNm, kN)."""
+    (grey), the governing one (red) and the ray from the origin to where it meets the curve
+    (with `ray` False: the capacity at the governing N* instead). `points`: columns m, n."""
     ax.set_title(title, fontsize=9, loc="left")
     ax.fill_betweenx(curve_n, 0, curve_m, color="#d9ead3", alpha=0.6, lw=0)
     ax.plot(curve_m, curve_n, color=OK, lw=1.4, label="factored capacity (phi Nu, phi Mu)")
     ax.plot(points.m, points.n, "o", ms=3, color="#7a7a7a", label="design points, every combination")
     gm, gn = governing
-    ax.plot([0, gm], [0, gn], color=OVER, lw=0.7, ls=":")
+    if ray:
+        ax.plot([0, gm], [0, gn], color=OVER, lw=0.7, ls=":")
+    else:
+        ax.plot([gm, on_curve[0]], [gn, on_curve[1]], color=OVER, lw=0.7, ls=":")
     ax.plot([gm], [gn], "o", ms=5.5, color=OVER, label="governing design point")
     if on_curve is not None and np.all(np.isfinite(on_curve)):
-        ax.plot([on_curve[0]], [on_curve[1]], "s", ms=4.5, mfc="none", mec=OVER, label="ray meets the curve")
+        what = "ray meets the curve" if ray else "capacity at N* along M*"
+        ax.plot([on_curve[0]], [on_curve[1]], "s", ms=4.5, mfc="none", mec=OVER, label=what)
     ax.axhline(0, color="#555555", lw=0.5)
     ax.axvline(0, color="#555555", lw=0.5)
     ax.set_xlabel("M [kNm]", fontsize=7)

@@ -128,12 +128,14 @@ class Flow:
             self.y -= step
         self.y -= 4 * PT
 
-    def axes(self, height: float, rect: tuple[float, float, float, float] | None = None):
-        """An Axes `height` tall (figure fraction) at the cursor, across the text width."""
-        self.room(height)
+    def axes(self, height: float, rect: tuple[float, float, float, float] | None = None, below: float = 0.05):
+        """An Axes `height` tall (figure fraction) at the cursor, across the text width, with
+        room above for its title and `below` for its axis labels."""
+        title = 0.025
+        self.room(title + height + below)
         left, width = (LEFT + 0.06, RIGHT - LEFT - 0.08) if rect is None else (rect[0], rect[2])
-        ax = self.fig.add_axes((left, self.y - height, width, height))
-        self.y -= height
+        ax = self.fig.add_axes((left, self.y - title - height, width, height))
+        self.y -= title + height + below
         return ax
 
 
