@@ -15,7 +15,7 @@ from xlcore import results
 from xlcore.section import rectangle
 
 OVER, CLOSE_C, OK = "#b2182b", "#c48a00", "#1e5631"  # our own: over, close, comfortable
-HIGHLIGHT = ("#1f4e79", "#b35806", "#542788", "#01665e", "#8c510a", "#c51b7d")  # worst members
+HIGHLIGHT = ("#1f77b4", "#ff7f0e", "#2ca02c", "#9467bd", "#8c564b", "#e377c2")  # worst members
 NAMED = 6  # members named in a utilisation plot's legend (the worst ones); the rest grey
 
 
@@ -52,9 +52,12 @@ def utilisation_up_height(ax: Axes, df: pd.DataFrame, member: str | None, util: 
     top = float(np.nanmax(per[util].to_numpy(dtype=float)))
     ax.set_xlim(0, max(1.1, top * 1.08) if np.isfinite(top) else 1.1)
     if named:
+        by_label = {h.get_label(): h for h in ax.get_lines()}
+        handles = [by_label[str(n)] for n in named if str(n) in by_label]  # worst first
         rest = len(peak) - len(named)
         title_ = f"worst {len(named)} named" + (f"; {rest} more in grey" if rest > 0 else "")
         ax.legend(
+            handles=handles,
             fontsize=6,
             loc="upper left",
             bbox_to_anchor=(1.01, 1.0),
