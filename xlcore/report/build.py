@@ -13,6 +13,7 @@ from xlcore.checks.axial import interaction, rect_sections
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.codes import as3600
 from xlcore.report import (
+    MAX_NM_CORES,
     MAX_NM_PIERS,
     MAX_PLANS,
     MAX_SUMMARY_ROWS,
@@ -262,16 +263,27 @@ def _utilisation_pages(flow: Flow, sheets, checks, levels, name: str, members) -
 # ---------------------------------------------------------------- plans
 
 
+def plans_by_core(out) -> dict[str, dict]:
+    """Storey plans keyed by core, then storey (a building without core IDs: one core "")."""
+    plans = out.plans or {}
+    if plans and all(isinstance(v, dict) for v in plans.values()):
+        return plans
+    return {"": plans}
+
+
 def _plans(flow: Flow, run: Run) -> None:
     out = run.outcome
     b = out.building
     piers = out.piers
+    by_core = plans_by_core(out)
     cuts = geometry.openings_at(b.openings, b.storeys)
     groups: dict[tuple, list[str]] = {}
     for s in b.storeys:
         sp = piers[piers.storey == s.name]
-        plan = out.plans.get(s.name)
-        centre = None if plan is None or plan.centre is None else tuple(np.round(plan.centre, 3))
+        marks = tuple(
+            (c, round(p.section.xc, 3), round(p.section.yc, 3), p.centre and tuple(np.round(p.centre, 3)))
+            for c, p in _cores_at(by_core, s.name)
+        )
         key = (
             tuple(
                 sp[["pier_id", "px1", "py1", "px2", "py2", "tw"]].round(4).itertuples(index=False, name=None)
@@ -279,14 +291,14 @@ def _plans(flow: Flow, run: Run) -> None:
             tuple(
                 (w, o.offset, o.width) for (i, w), lst in sorted(cuts.items()) if i == s.index for o in lst
             ),
-            None if plan is None else (round(plan.section.xc, 3), round(plan.section.yc, 3), centre),
+            marks,
         )
         groups.setdefault(key, []).append(s.name)
     flow.section("Storey plans")
     flow.para(
         f"{len(groups)} distinct plan(s) over {len(b.storeys)} storeys. Walls drawn as their piers "
         "(centreline rectangles), openings dashed with the lintel over each; + centroid of the net "
-        "section, x centre of rigidity (both as on the sheet 'Results core section').",
+        "section, x centre of rigidity, of each core (as on the sheet 'Results core section').",
         size=7.5,
     )
     first = True
@@ -306,27 +318,30 @@ def _plans(flow: Flow, run: Run) -> None:
         idx = next(s.index for s in b.storeys if s.name == storey)
         openings = []
         for (i, wall_id), lst in cuts.items():
-            if i != idx:
+            if i != idx or not (sp.wall_id == wall_id).any():
                 continue
             w = sp[sp.wall_id == wall_id].iloc[0]
             for k, o in enumerate(lst, start=1):
                 x1, y1 = w.wx + w.ux * o.offset, w.wy + w.uy * o.offset
                 x2, y2 = w.wx + w.ux * (o.offset + o.width), w.wy + w.uy * (o.offset + o.width)
                 openings.append((f"{wall_id}-L{k}", wall_id, x1, y1, x2, y2, w.tw / 1000.0))
-        plan = out.plans[storey]
+        here = _cores_at(by_core, storey)
+        marks = [(c, (p.section.xc, p.section.yc), p.centre) for c, p in here]
         ax = flow.axes(0.24, (LEFT + 0.08, 0, RIGHT - LEFT - 0.16, 0), below=0.07)
-        fg.storey_plan(ax, sp, openings, (plan.section.xc, plan.section.yc), plan.centre)
-        sec = plan.section
-        cr = (
-            f"({plan.centre[0]:.3f}, {plan.centre[1]:.3f})"
-            if plan.centre
-            else "none (walls unstable in plan)"
-        )
-        flow.para(
-            f"Net section: A = {sec.area:.3f} m2; centroid ({sec.xc:.3f}, {sec.yc:.3f}) m; centre of "
-            f"rigidity {cr} m; Ixx {sec.ixx:.3f}, Iyy {sec.iyy:.3f} m4.",
-            size=7.5,
-        )
+        fg.storey_plan(ax, sp, openings, marks)
+        for c, p in here:
+            sec = p.section
+            cr = f"({p.centre[0]:.3f}, {p.centre[1]:.3f})" if p.centre else "none (walls unstable in plan)"
+            flow.para(
+                (f"Core {c}: " if c else "Net section: ")
+                + f"A = {sec.area:.3f} m2; centroid ({sec.xc:.3f}, {sec.yc:.3f}) m; centre of "
+                f"rigidity {cr} m; Ixx {sec.ixx:.3f}, Iyy {sec.iyy:.3f} m4.",
+                size=7.5,
+            )
+
+
+def _cores_at(by_core: dict[str, dict], storey: str) -> list[tuple[str, object]]:
+    return [(c, plans[storey]) for c, plans in by_core.items() if storey in plans]
 
 
 # ---------------------------------------------------------------- calculation pages
@@ -399,7 +414,8 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
 def _case(c: tables.Check, w: pd.Series) -> str:
     """'pier SW2-2 at L5, combination G+0.3Q+Ey' (what names the governing row)."""
     kind = {"pier_id": "pier", "lintel_id": "lintel", "wall_id": "wall"}
-    parts = [f"{kind[c.member]} {w[c.member]}" if c.member in kind else "the core"]
+    core = f"core {w.core}" if "core" in w and str(w.core) else "the core"
+    parts = [f"{kind[c.member]} {w[c.member]}" if c.member in kind else core]
     if "storey" in w:
         parts[0] += f" at {w.storey}"
     parts += [f"{k} {w[k]}" for k in ("combination", "rule") if k in c.ids and k in w]
@@ -486,10 +502,21 @@ def _pier_nm(flow: Flow, run: Run, storey: str, pier: str, why: str) -> None:
 
 
 def _core_nm(flow: Flow, run: Run, c: tables.Check) -> None:
+    """The governing core N-M case of each core (all cores' rows in one table, with a core
+    column when walls carry core IDs)."""
     out = run.outcome
-    w = tables.worst(c, run.sheets)
-    t = run.sheets[c.table].table
-    here = t[t.storey == w.storey]
+    t = tables.rows_of(c, run.sheets)
+    by_core = plans_by_core(out)
+    groups = dict(tuple(t.groupby("core", sort=False))) if "core" in t else {"": t}
+    worst = sorted(groups.items(), key=lambda kv: -float(kv[1][c.util].astype(float).max()))
+    for name, rows in worst[:MAX_NM_CORES]:
+        w = rows.loc[rows[c.util].astype(float).idxmax()]
+        plans = by_core.get(name, by_core.get("", {}))
+        piers = out.piers if "core" not in out.piers or not name else out.piers[out.piers.core == name]
+        _one_core_nm(flow, out, w, rows[rows.storey == w.storey], piers, plans, name)
+
+
+def _one_core_nm(flow: Flow, out, w: pd.Series, here: pd.DataFrame, piers, plans, name: str) -> None:
     theta = float(np.arctan2(w.my, w.mx)) if (w.mx or w.my) else 0.0
     n = np.linspace(float(w.phi_nuot) * 0.999, float(w.phi_nuo) * 0.999, 61)
     synth = pd.DataFrame(
@@ -502,7 +529,7 @@ def _core_nm(flow: Flow, run: Run, c: tables.Check) -> None:
             "my": np.sin(theta),
         }
     )
-    curve = check_core_nm(out.piers, out.plans, synth, out.building.settings)
+    curve = check_core_nm(piers, plans, synth, out.building.settings)
     m = np.concatenate([[0.0], curve.phi_mu.to_numpy(float), [0.0]])
     nn = np.concatenate([[float(w.phi_nuot)], n, [float(w.phi_nuo)]])
     ax = flow.axes(0.28, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
@@ -514,7 +541,7 @@ def _core_nm(flow: Flow, run: Run, c: tables.Check) -> None:
         pts,
         (float(w.m_res), float(w.n)),
         (float(w.phi_mu), float(w.n)),
-        f"Whole core at {w.storey} (governing core axial + bending)",
+        f"{'Core ' + name if name else 'Whole core'} at {w.storey} (its governing axial + bending case)",
         ray=False,
     )
     flow.para(

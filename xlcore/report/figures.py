@@ -72,12 +72,12 @@ def storey_plan(
     ax: Axes,
     piers: pd.DataFrame,
     openings: list[tuple[str, str, float, float, float, float, float]],
-    centroid: tuple[float, float],
-    centre: tuple[float, float] | None,
+    marks: list[tuple[str, tuple[float, float], tuple[float, float] | None]],
 ) -> None:
     """Walls as their pier rectangles, openings dashed with their lintel IDs, pier IDs beside
-    each pier, the net section's centroid and the centre of rigidity. `openings`: (lintel ID,
-    wall ID, x1, y1, x2, y2, thickness m) of each opening's centreline."""
+    each pier, and for each core (name, centroid, centre of rigidity) its net section's
+    centroid and centre of rigidity. `openings`: (lintel ID, wall ID, x1, y1, x2, y2,
+    thickness m) of each opening's centreline."""
     for r in piers.itertuples(index=False):
         poly = rectangle(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0)
         ax.add_patch(Patch(np.asarray(poly.exterior.coords), closed=True, fc="#b8b8b8", ec="#333333", lw=0.7))
@@ -115,11 +115,16 @@ def storey_plan(
             va="center",
             color="#8c510a",
         )
-    ax.plot(
-        *centroid, marker="+", ms=11, mew=1.6, color="#000000", ls="none", label="centroid of the net section"
-    )
-    if centre is not None:
-        ax.plot(*centre, marker="x", ms=9, mew=1.6, color=OVER, ls="none", label="centre of rigidity")
+    for k, (name, centroid, centre) in enumerate(marks):
+        first = {} if k else {"label": "centroid of the net section"}
+        ax.plot(*centroid, marker="+", ms=11, mew=1.6, color="#000000", ls="none", **first)
+        if centre is not None:
+            first = {} if k else {"label": "centre of rigidity"}
+            ax.plot(*centre, marker="x", ms=9, mew=1.6, color=OVER, ls="none", **first)
+        if name:
+            ax.annotate(
+                name, centroid, xytext=(6, -10), textcoords="offset points", fontsize=7, fontweight="bold"
+            )
     ax.set_aspect("equal")
     ax.autoscale_view()
     x0, x1_ = ax.get_xlim()
