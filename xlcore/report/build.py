@@ -414,8 +414,11 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
 def _case(c: tables.Check, w: pd.Series) -> str:
     """'pier SW2-2 at L5, combination G+0.3Q+Ey' (what names the governing row)."""
     kind = {"pier_id": "pier", "lintel_id": "lintel", "wall_id": "wall"}
-    core = f"core {w.core}" if "core" in w and str(w.core) else "the core"
-    parts = [f"{kind[c.member]} {w[c.member]}" if c.member in kind else core]
+    core = f"core {w.core}" if "core" in w and str(w.core) not in ("", "nan") else ""
+    if c.member in kind:
+        parts = [f"{kind[c.member]} {w[c.member]}" + (f" of {core}" if core else "")]
+    else:
+        parts = [core or "the core"]
     if "storey" in w:
         parts[0] += f" at {w.storey}"
     parts += [f"{k} {w[k]}" for k in ("combination", "rule") if k in c.ids and k in w]
