@@ -173,3 +173,18 @@ def test_big_tower_report_stays_short(tmp_path):
     xlcore.compute(path).write()
     rep = make_report(path)
     assert rep.pages <= 24
+
+
+def test_cover_lists_the_settings_that_differ_from_the_defaults():
+    """Against the layout's own defaults (layout.PROJECT): a changed phi and a named earthquake
+    combination are listed with their defaults; unchanged settings are not."""
+    from xlcore.model import Settings
+    from xlcore.report import changed_settings
+
+    rows = changed_settings(Settings(phi_shear=0.75, earthquake_combinations="E1"))
+    label = {s.key: s.label for s in layout.PROJECT.settings}
+    assert rows == [
+        (label["phi_shear"], "0.75", "blank (the standard's value)"),
+        (label["earthquake_combinations"], "E1", "blank (none)"),
+    ]
+    assert changed_settings(Settings()) == []

@@ -20,3 +20,8 @@ def __getattr__(name: str):
 
         return getattr(api, name)
     raise AttributeError(f"module 'xlcore' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    """The API names too, so a notebook's completion offers them."""
+    return sorted(set(globals()) | set(_API))

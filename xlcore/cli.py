@@ -192,9 +192,7 @@ def _json_exits(as_json: bool, base: dict) -> Iterator[None]:
     except InputInvalid as exc:
         _emit(base | {"valid": False, "exit_code": EXIT_INVALID, "findings": _records(exc.findings)})
         raise
-    except typer.Exit:
-        raise
-    except Exception as exc:  # a file problem, mapped to exit 2 by _exits
+    except (FileProblem, etree.XMLSyntaxError, *DAMAGE) as exc:  # exit 2 by _exits
         _emit(base | {"exit_code": EXIT_FILE, "error": str(exc)})
         raise
 

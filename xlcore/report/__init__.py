@@ -145,8 +145,10 @@ def changed_settings(s: Settings) -> list[tuple[str, str, str]]:
 
 
 def _show(v: object) -> str:
-    if v is None or v == "":
+    if v is None:
         return "blank (the standard's value)"
+    if v == "":
+        return "blank (none)"
     return f"{v:g}" if isinstance(v, float) else str(v)
 
 
