@@ -99,7 +99,9 @@ class Run:
     @property
     def stamp(self) -> dict[str, str]:
         """Version, standard, time and input hash, as written above every result table."""
-        return {k: str(v) for k, v in self.outcome.sheets[0].preamble[:6]}
+        keep = ("Project", "Standard", "xlcore version", "Computed (UTC)", results.STAMP_HASH_LABEL)
+        lines = dict(self.outcome.sheets[0].preamble)
+        return {k: str(lines[k]) for k in keep if k in lines}
 
     @property
     def failing(self) -> int:

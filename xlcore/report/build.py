@@ -165,7 +165,7 @@ def _summary(flow: Flow, run: Run) -> None:
     flow.table(
         ["Check", "U", "Status", "Where", "Clause", "Rows over 1.0"],
         rows,
-        [0.18, 0.07, 0.1, 0.31, 0.22, 0.12],
+        [0.18, 0.07, 0.1, 0.29, 0.24, 0.12],
         colours=colours,
     )
     flow.heading("Pier x storey cases, failing and nearest to failing first")
@@ -188,7 +188,7 @@ def _summary(flow: Flow, run: Run) -> None:
     flow.table(
         heads,
         [[fmt(r[k], c.fmt) for k, c in zip(keys, cols, strict=True)] for _, r in shown.iterrows()],
-        [0.07, 0.08, 0.07, 0.06, 0.15, 0.13, 0.18, 0.09, 0.17],
+        [0.06, 0.07, 0.06, 0.06, 0.16, 0.12, 0.22, 0.09, 0.16],
         size=6.5,
         colours=[_colour(u) for u in shown.util.to_numpy(dtype=float)],
     )
