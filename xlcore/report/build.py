@@ -328,7 +328,12 @@ def _plans(flow: Flow, run: Run) -> None:
         here = _cores_at(by_core, storey)
         marks = [(c, (p.section.xc, p.section.yc), p.centre) for c, p in here]
         ax = flow.axes(0.24, (LEFT + 0.08, 0, RIGHT - LEFT - 0.16, 0), below=0.07)
-        fg.storey_plan(ax, sp, openings, marks)
+        hidden = fg.storey_plan(ax, sp, openings, marks)
+        if hidden:
+            flow.para(
+                f"{hidden} IDs too long for their member at this scale are left off: see 'Results piers'.",
+                size=7.5,
+            )
         for c, p in here:
             sec = p.section
             cr = f"({p.centre[0]:.3f}, {p.centre[1]:.3f})" if p.centre else "none (walls unstable in plan)"

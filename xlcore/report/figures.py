@@ -73,48 +73,58 @@ def storey_plan(
     piers: pd.DataFrame,
     openings: list[tuple[str, str, float, float, float, float, float]],
     marks: list[tuple[str, tuple[float, float], tuple[float, float] | None]],
-) -> None:
+) -> int:
     """Walls as their pier rectangles, openings dashed with their lintel IDs, pier IDs beside
     each pier, and for each core (name, centroid, centre of rigidity) its net section's
     centroid and centre of rigidity. `openings`: (lintel ID, wall ID, x1, y1, x2, y2,
-    thickness m) of each opening's centreline."""
+    thickness m) of each opening's centreline. An ID much longer on paper than its member is
+    left off (a large plan drawn small); returns how many were."""
     for r in piers.itertuples(index=False):
         poly = rectangle(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0)
         ax.add_patch(Patch(np.asarray(poly.exterior.coords), closed=True, fc="#b8b8b8", ec="#333333", lw=0.7))
-        ux, uy = r.px2 - r.px1, r.py2 - r.py1
-        length = float(np.hypot(ux, uy)) or 1.0
-        nx, ny = -uy / length, ux / length  # left of the wall's direction
-        off = r.tw / 1000.0 / 2 + 0.18
-        angle = np.degrees(np.arctan2(uy, ux))
-        angle = angle - 180 if angle > 90 else angle + 180 if angle <= -90 else angle
-        ax.text(
-            (r.px1 + r.px2) / 2 + nx * off,
-            (r.py1 + r.py2) / 2 + ny * off,
-            r.pier_id,
-            fontsize=6.5,
-            ha="center",
-            va="center",
-            rotation=angle,
-            color="#1f4e79",
-        )
-    for lintel_id, _wall, x1, y1, x2, y2, t in openings:
+    for _id, _wall, x1, y1, x2, y2, t in openings:
         poly = rectangle(x1, y1, x2, y2, t)
         ax.add_patch(
             Patch(np.asarray(poly.exterior.coords), closed=True, fill=False, ec="#8c510a", lw=0.6, ls="--")
         )
+    ax.set_aspect("equal")
+    ax.autoscale_view()
+    x0, x1_ = ax.get_xlim()
+    y0, y1_ = ax.get_ylim()
+    pad = 0.08 * max(x1_ - x0, y1_ - y0) + 0.5
+    ax.set_xlim(x0 - pad, x1_ + pad)
+    ax.set_ylim(y0 - pad, y1_ + pad)
+    box = ax.get_position()
+    w_in, h_in = ax.figure.get_size_inches()
+    scale = min(box.width * w_in * 72 / (x1_ - x0 + 2 * pad), box.height * h_in * 72 / (y1_ - y0 + 2 * pad))
+    left_off = 0
+
+    def label(x1, y1, x2, y2, t, text, size, colour, side) -> None:
+        nonlocal left_off
         ux, uy = x2 - x1, y2 - y1
         length = float(np.hypot(ux, uy)) or 1.0
-        nx, ny = uy / length, -ux / length  # right of the wall: the other side from pier IDs
-        off = t / 2 + 0.18
+        if 1.6 * length * scale < 0.62 * size * len(text):  # points along the member vs the text
+            left_off += 1
+            return
+        nx, ny = -uy / length * side, ux / length * side
+        off = t / 2 + 0.7 * size / scale
+        angle = np.degrees(np.arctan2(uy, ux))
+        angle = angle - 180 if angle > 90 else angle + 180 if angle <= -90 else angle
         ax.text(
             (x1 + x2) / 2 + nx * off,
             (y1 + y2) / 2 + ny * off,
-            lintel_id,
-            fontsize=6,
+            text,
+            fontsize=size,
             ha="center",
             va="center",
-            color="#8c510a",
+            rotation=angle,
+            color=colour,
         )
+
+    for r in piers.itertuples(index=False):
+        label(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0, r.pier_id, 6.5, "#1f4e79", 1)
+    for lintel_id, _wall, x1, y1, x2, y2, t in openings:  # the other side from the pier IDs
+        label(x1, y1, x2, y2, t, lintel_id, 6, "#8c510a", -1)
     for k, (name, centroid, centre) in enumerate(marks):
         first = {} if k else {"label": "centroid of the net section"}
         ax.plot(*centroid, marker="+", ms=11, mew=1.6, color="#000000", ls="none", **first)
@@ -125,18 +135,12 @@ def storey_plan(
             ax.annotate(
                 name, centroid, xytext=(6, -10), textcoords="offset points", fontsize=7, fontweight="bold"
             )
-    ax.set_aspect("equal")
-    ax.autoscale_view()
-    x0, x1_ = ax.get_xlim()
-    y0, y1_ = ax.get_ylim()
-    pad = 0.08 * max(x1_ - x0, y1_ - y0) + 0.5
-    ax.set_xlim(x0 - pad, x1_ + pad)
-    ax.set_ylim(y0 - pad, y1_ + pad)
     ax.set_xlabel("x [m]", fontsize=7)
     ax.set_ylabel("y [m]", fontsize=7)
     ax.tick_params(labelsize=7)
     ax.grid(True, lw=0.3, color="#dddddd")
     ax.legend(fontsize=6.5, loc="upper left", bbox_to_anchor=(0.0, -0.13), ncol=2, frameon=False)
+    return left_off
 
 
 def interaction(
