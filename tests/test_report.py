@@ -140,6 +140,10 @@ def test_refuses_without_results_and_when_stale(demo_book, tmp_path):
     res = CliRunner().invoke(app, ["report", str(demo_book)])
     assert res.exit_code == 2 and "stale" in res.stderr and "--stale-ok" in res.stderr
     assert not report_path(demo_book).exists()
+    folder = tmp_path / "reports"
+    folder.mkdir()
+    res = CliRunner().invoke(app, ["report", str(demo_book), "--stale-ok", "--output", str(folder)])
+    assert res.exit_code == 0 and (folder / report_path(demo_book).name).exists()  # a folder: name inside
     out = tmp_path / "stale.pdf"
     res = CliRunner().invoke(app, ["report", str(demo_book), "--stale-ok", "--output", str(out)])
     assert res.exit_code == 0, res.stderr

@@ -62,6 +62,8 @@ def make_report(
     says so on every page."""
     path = Path(path)
     target = Path(output) if output is not None else report_path(path)
+    if target.is_dir():  # a folder given: the usual name inside it
+        target = target / report_path(path).name
     inputs = api.check(path, reporter)
     stamp = inputs.stamp or {}
     if inputs.results_state == api.NO_RESULTS:
@@ -124,6 +126,8 @@ def _save(pages, target: Path, run: api.Run) -> None:
             for fig in pages:
                 pdf.savefig(fig)
         os.replace(tmp, target)
+    except OSError as exc:  # a full disk, a read-only folder, the old report open elsewhere
+        raise FileProblem(f"could not write the report {target}: {exc}; nothing was changed") from None
     finally:
         for fig in pages:
             plt.close(fig)
