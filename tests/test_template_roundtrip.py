@@ -132,3 +132,16 @@ def test_instructions_carry_the_caution(blank_master):
         str(c.value) for row in wb[layout.INSTRUCTIONS_SHEET].iter_rows() for c in row if c.value
     )
     assert "qualified" in texts and "licensed" in texts
+
+
+def test_member_column_offers_wall_ids_without_refusing_pier_ids(blank_master):
+    """Issue 12 §2: the member drop-down lists the wall IDs (what the workbook can know) but
+    accepts any text, since pier and lintel IDs are derived; the reader stays the judge."""
+    wb = openpyxl.load_workbook(blank_master)
+    t = layout.MEMBER_ACTIONS
+    letter = openpyxl.utils.get_column_letter(t.keys.index("member") + 1)
+    dvs = [d for d in wb[t.name].data_validations.dataValidation if str(d.sqref).startswith(letter + "2")]
+    assert len(dvs) == 1 and dvs[0].type == "list"
+    wall_col = openpyxl.utils.get_column_letter(layout.WALLS.keys.index("wall_id") + 1)
+    assert dvs[0].formula1.startswith(f"{layout.WALLS.name}!${wall_col}$2")
+    assert not dvs[0].showErrorMessage

@@ -262,3 +262,41 @@ def test_combination_names_differing_by_case_and_partial_storeys_warn(demo_book)
     text = " ".join(w.message for w in findings.warnings)
     assert "differ only by case or spacing" in text and "'1.35 g'" in text
     assert "'1.35 g' is given at 1 of 15 storeys" in text
+
+
+def _cell(path, t, key, row):
+    return openpyxl.load_workbook(path, read_only=True)[t.name][f"{col(t, key)}{row}"].value
+
+
+def test_typing_error_does_not_hide_an_unknown_member(demo_book):
+    """Issue 12 §2: a bad thickness on the Walls sheet and an unknown pier on the actions sheet
+    are both reported in one pass (piers are derived from the rows that parsed)."""
+    edit(demo_book, {at(W, "thickness", 2): "x", at(A, "member", 2): "ZZ9-1"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert where(W, "thickness", 2) in found
+    assert "no such wall, pier or lintel" in found.get(where(A, "member", 2), ""), found
+
+
+def test_storeys_error_does_not_hide_a_wall_storey_typo(demo_book):
+    """Issue 12 §2: storey names are still known when a storey's height disagrees, so a wall's
+    unknown storey is reported in the same pass."""
+    edit(demo_book, {at(S, "height", 2): 4.5, at(W, "storey_from", 2): "L99"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "next floor" in found.get(where(S, "height", 2), ""), found
+    assert "storey name" in found.get(where(W, "storey_from", 2), ""), found
+
+
+def test_bad_row_of_a_wall_draws_no_false_member_errors(demo_book):
+    """The piers of a wall with a bad cell are not known; actions naming them are not judged
+    (only the bad cell is reported), while members of other walls still are."""
+    wall = _cell(demo_book, W, "wall_id", 2)
+    edit(demo_book, {at(W, "fc", 2): "forty"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    errors = info.value.findings.errors
+    assert [e.where for e in errors] == [where(W, "fc", 2)], [str(e) for e in errors]
+    assert not any(f"'{wall}" in e.message for e in errors if e.sheet == A.name)

@@ -37,6 +37,9 @@ class Column:
     choices: tuple[str, ...] = ()
     width: float = 13.0
     number_format: str = "0.00"
+    # a drop-down of this kind's names offered in the template without refusing other text
+    # (members: wall IDs are listed, pier and lintel IDs derived from them are typed)
+    suggest: Kind | None = None
 
     @property
     def header(self) -> str:
@@ -617,7 +620,16 @@ MEMBER_ACTIONS = TableSheet(
     columns=(
         Column("storey", "Storey", None, Kind.STOREY, _STOREY_LIST_HELP, width=10),
         Column("combination", "Combination", None, Kind.TEXT, "Load combination name.", width=16),
-        Column("member", "Member", None, Kind.TEXT, "Pier ID (e.g. W3-1) or wall ID (e.g. W3).", width=10),
+        Column(
+            "member",
+            "Member",
+            None,
+            Kind.TEXT,
+            "Pier ID (e.g. W3-1), lintel ID (e.g. W3-L1) or wall ID (e.g. W3); the drop-down lists "
+            "the wall IDs, `xlcore check` lists the piers and lintels per storey.",
+            width=10,
+            suggest=Kind.WALL,
+        ),
         Column("n", "N*", "kN", Kind.NUMBER, "Design axial force, compression positive.", **_FORCE),
         Column(
             "v",

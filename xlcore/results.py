@@ -115,7 +115,7 @@ SUMMARY_COLUMNS = [
     _c("demand", "Demand", None, "0.0", 9),
     _c("capacity", "Capacity", None, "0.0", 9),
     _c("unit", "Unit", width=6),
-    _c("clause", "Governing clause", width=16),
+    _c("clause", "Governing clause", width=21),
     _c("u_shear", "U shear", None, "0.000", 8),
     _c("u_nm", "U axial + bending", None, "0.000", 9),
     _c("u_simplified", "U Cl 11.5", None, "0.000", 8),

@@ -33,15 +33,16 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     _sheet_names(raw, f)
     settings = _settings(raw.sheets.get(layout.PROJECT.name), f)
     tables = {t.key: _table(raw.sheets.get(t.name), t, f) for t in layout.TABLES}
-    storeys = _storeys(tables["storeys"], f)
+    storeys, storeys_sound = _storeys(tables["storeys"], f)
     walls = _walls(tables["walls"], storeys, f)
-    openings = _openings(tables["openings"], storeys, walls, f, _unsound_ids(tables["walls"], walls))
-    geom = None
-    if storeys and walls and not f.errors:
-        geom = geometry.derive(storeys, walls, openings)
-        _pier_warnings(geom, f)
-    actions = _member_actions(tables["member_actions"], storeys, geom, f)
-    core = _core_actions(tables["core_actions"], storeys, geom, f)
+    unsound = _unsound_ids(tables["walls"], walls)
+    openings = _openings(tables["openings"], storeys, walls, f, unsound)
+    complete = storeys_sound and not f.errors  # every row so far parsed and agreed
+    geom = _geometry(storeys, walls, openings, f, complete)
+    if unsound is not None:
+        unsound |= _refused_opening_walls(tables["openings"], openings)
+    actions = _member_actions(tables["member_actions"], storeys, geom, f, set() if complete else unsound)
+    core = _core_actions(tables["core_actions"], storeys, geom if complete else None, f)
     _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
     _combination_warnings(actions, core, f)
     if f.errors:
@@ -413,20 +414,26 @@ def _at(df: pd.DataFrame, key: str, row: int) -> str:
     return cell_name(df.attrs["columns"].get(key, 0), row)
 
 
-def _storeys(df: pd.DataFrame | None, f: Findings) -> list[Storey]:
+def _storeys(df: pd.DataFrame | None, f: Findings) -> tuple[list[Storey], bool]:
+    """Every named storey row, and whether the sheet is sound (all rows parsed and agree).
+
+    Rows with a bad number are kept (NaN there) so that the other sheets' storey names and
+    ranges are still checked in the same pass; heights are used only when the sheet is sound."""
     t = layout.STOREYS
     if df is None:
-        return []
+        return [], False
     if df.empty:
         f.error(t.name, "A2", "no storeys; expected at least one row")
-        return []
+        return [], False
     out: list[Storey] = []
     seen: dict[str, int] = {}
     ok = True
     for rec in df.itertuples(index=False):
-        if rec.name is None or any(math.isnan(x) for x in (rec.level, rec.height, rec.slab)):
+        if rec.name is None:
             ok = False
             continue
+        if any(math.isnan(x) for x in (rec.level, rec.height, rec.slab)):
+            ok = False  # the cell's own error is already reported
         if rec.name in seen:
             f.error(
                 t.name,
@@ -465,7 +472,7 @@ def _storeys(df: pd.DataFrame | None, f: Findings) -> list[Storey]:
                 f"expected {b.level - a.level:g} m to reach {b.name} at {b.level:g} m",
             )
             ok = False
-    return out if ok else []
+    return out, ok
 
 
 def _storey_range(
@@ -578,10 +585,7 @@ def _openings(
     if df is None or df.empty or unsound is None or not walls:
         return []
     index = {s.name: s.index for s in storeys}
-    if any(
-        e.sheet == layout.WALLS.name and ("overlap" in e.message or "no row for" in e.message)
-        for e in f.errors
-    ):
+    if _ranges_unsound(f):
         return []  # storey ranges of walls unsound: where a wall stands is not known
     runs = geometry.run_at(walls, storeys) if storeys else {}
     wall_ids = {w.wall_id for w in walls}
@@ -676,6 +680,41 @@ def _openings(
     return out
 
 
+def _geometry(
+    storeys: list[Storey], walls: list[WallRun], openings: list[Opening], f: Findings, complete: bool
+) -> geometry.Geometry | None:
+    """Piers and lintels of the rows that parsed, so that member IDs on the action sheets are
+    checked in the same pass as a typing error elsewhere (issue 12). None where where a wall
+    stands is not known (no storeys or walls, or wall storey ranges that overlap or leave gaps)."""
+    if not storeys or not walls or _ranges_unsound(f):
+        return None
+    if complete:
+        geom = geometry.derive(storeys, walls, openings)
+    else:
+        try:  # partial input: a derivation that trips over it only costs the member-ID check
+            geom = geometry.derive(storeys, walls, openings)
+        except Exception:  # noqa: BLE001
+            return None
+    _pier_warnings(geom, f)
+    return geom
+
+
+def _ranges_unsound(f: Findings) -> bool:
+    """Walls-sheet storey ranges that overlap or leave gaps: where a wall stands is not known."""
+    return any(
+        e.sheet == layout.WALLS.name and ("overlap" in e.message or "no row for" in e.message)
+        for e in f.errors
+    )
+
+
+def _refused_opening_walls(df: pd.DataFrame | None, accepted: list[Opening]) -> set[str]:
+    """Walls with an opening row that was refused or skipped: their piers are not known."""
+    if df is None or df.empty:
+        return set()
+    rows = {o.row for o in accepted}
+    return {w for w, r in zip(df.wall_id, df.row, strict=True) if r not in rows and w is not None}
+
+
 def _pier_warnings(geom: geometry.Geometry, f: Findings) -> None:
     thin = geom.piers[(geom.piers.position > 0) & (geom.piers.Lw < geom.piers.tw)]
     for rec in thin.drop_duplicates("pier_id").itertuples(index=False):
@@ -687,7 +726,12 @@ def _pier_warnings(geom: geometry.Geometry, f: Findings) -> None:
         )
 
 
-def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findings) -> pd.DataFrame:
+def _member_actions(
+    df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findings, unsound: set[str] | None = None
+) -> pd.DataFrame:
+    """Member-action rows checked against the storeys and the derived members. `unsound`: walls
+    whose rows or openings were refused (their piers are not known: their members are not
+    judged in this pass); None: the walls sheet did not parse (no member is judged)."""
     t = layout.MEMBER_ACTIONS
     empty = pd.DataFrame(columns=["row", *t.keys])
     if df is None:
@@ -712,7 +756,7 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
         if None in (rec.storey, rec.member, rec.combination) or members is None:
             continue
         here = members.get(rec.storey, set())
-        if rec.member not in here:
+        if rec.member not in here and not _of_unsound_wall(rec.member, unsound):
             listed = ", ".join(sorted(here, key=geometry._natural)[:12])
             f.error(
                 t.name,
@@ -749,6 +793,13 @@ def _member_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Fin
         if missing:
             f.warning(t.name, None, "no actions for wall(s) " + ", ".join(missing) + ": they are not checked")
     return df
+
+
+def _of_unsound_wall(member: str, unsound: set[str] | None) -> bool:
+    """A member named after a wall that is not fully known (`W3`, `W3-1`, `W3-L1` of `W3`)."""
+    if unsound is None:
+        return True
+    return any(member == w or str(member).startswith(f"{w}-") for w in unsound)
 
 
 def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of: dict) -> np.ndarray:

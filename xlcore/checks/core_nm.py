@@ -165,12 +165,20 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
                 clause="Cl 8.1.3 / 10.6.2.2 / Table 2.2.2",
                 working=(
                     f"{region}; contour at N* = {rec.n:.0f} kN over {ANGLES} neutral-axis angles; "
-                    f"phiMu along M* = {cap / 1e6:.0f} kNm; U = max({m_star / 1e6:.0f} / {cap / 1e6:.0f}, "
-                    f"N*/phiN) = {util:.3f}"
+                    f"phiMu along M* = {cap / 1e6:.0f} kNm; U = max(M*/phiMu = {m_star / 1e6:.0f} / "
+                    f"{cap / 1e6:.0f}, {_axial_text(rec.n, t_top, t_bottom)}) = {util:.3f}"
                 ),
             )
         )
     return pd.DataFrame(rows)
+
+
+def _axial_text(n: float, t_top: float, t_bottom: float) -> str:
+    """The axial ratio with its numbers: compression against phi Nuo, tension against the
+    factored tension capacity (both in N here, shown in kN)."""
+    if n >= 0:
+        return f"N*/phiNuo = {n:.0f} / {t_top / 1e3:.0f}"
+    return f"N*/phiNuot = {n:.0f} / {t_bottom / 1e3:.0f}"
 
 
 def _along(px: np.ndarray, py: np.ndarray, demand: np.ndarray) -> float:

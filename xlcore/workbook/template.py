@@ -159,6 +159,9 @@ def _validation(c: Column, sheet: str) -> DataValidation | None:
     source = _list_source(c.kind)
     if source:
         return DataValidation(type="list", formula1=source, **common)
+    if c.suggest is not None:  # offered, never refused: the reader judges the value
+        offered = common | {"showErrorMessage": False}
+        return DataValidation(type="list", formula1=_list_source(c.suggest), **offered)
     if c.kind is Kind.CHOICE:
         return DataValidation(type="list", formula1='"' + ",".join(c.choices) + '"', **common)
     if c.kind in (Kind.NUMBER, Kind.INTEGER):
