@@ -192,3 +192,21 @@ def test_cover_lists_the_settings_that_differ_from_the_defaults():
         (label["earthquake_combinations"], "E1", "blank (none)"),
     ]
     assert changed_settings(Settings()) == []
+
+
+def test_summary_pages_list_the_workbook_summary_rows_in_its_order(demo):
+    """The summary pages hold the workbook's 'Results summary' rows, attention first, in the
+    sheet's own order (storey, pier, status, utilisation as the sheet shows them), and each
+    check's worst utilisation as the summary sheet's 'Worst ...' line gives it."""
+    path, _, _, pages = demo
+    stored = xlcore.read_results(path)["summary"]
+    text = _flat("\n".join(pages[1:3]))
+    at = 0
+    for _, r in stored.head(MAX_SUMMARY_ROWS).iterrows():
+        row = _flat(f"{r['Storey']} {r['Pier']} {r['Status']} {r['Utilisation']:.3f}")
+        found = text.find(row, at)
+        assert found >= 0, row
+        at = found + len(row)
+    for label, line in stored.attrs["lines"].items():
+        if label.startswith("Worst ") and not line.startswith("not checked"):
+            assert _flat(f"{label[6:]} {line.split()[0]} {line.split()[1]}") in text, label
