@@ -6,6 +6,7 @@ the workbook carries, and the PDF's text as a PDF library (pypdf) extracts it.""
 
 from __future__ import annotations
 
+import os
 import re
 import shutil
 
@@ -44,6 +45,9 @@ def demo(demo_master, tmp_path_factory):
 def test_beside_the_workbook_with_stamp_and_caution_on_every_page(demo):
     path, run, rep, pages = demo
     assert rep.path == report_path(path) == path.with_name("demo-report.pdf") and not rep.stale
+    umask = os.umask(0)
+    os.umask(umask)
+    assert rep.path.stat().st_mode & 0o777 == 0o666 & ~umask  # readable like any file written
     assert len(pages) == rep.pages
     lines = xlcore.read_results(path)["summary"].attrs["lines"]  # the workbook's own stamp
     when, digest = lines["Computed (UTC)"], lines[results.STAMP_HASH_LABEL]

@@ -115,6 +115,9 @@ def _save(pages, target: Path, run: api.Run) -> None:
     target.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=target.parent)
     os.close(fd)
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp, 0o666 & ~umask)  # a file like any other (mkstemp makes it private)
     s = run.outcome.building.settings
     meta = {
         "Title": f"Calculation report: {s.project_name or run.path.stem}",
