@@ -31,7 +31,7 @@ from xlcore.progress import SILENT, Reporter
 
 MAX_SUMMARY_ROWS = 40  # pier x storey cases listed on the summary pages (attention first)
 MAX_PLANS = 12  # distinct storey plans drawn; beyond, the report names how many it left out
-PLOTS_PER_PAGE = 6  # utilisation charts per page (3 rows x 2)
+PLOTS_PER_PAGE = 8  # utilisation charts per page (4 rows x 2)
 MAX_NM_PIERS = 4  # governing piers given an N-M diagram (one per pier check at most)
 MAX_NM_CORES = 6  # cores given an N-M diagram (the most utilised first)
 PRINT_CAUTION = "An aid to a qualified engineer: check it; local codes and licensed practice govern."

@@ -255,7 +255,7 @@ def _utilisation_pages(flow: Flow, sheets, checks, levels, name: str, members) -
         df = df.assign(level=df.storey.map(levels))
         fig = flow.fig
         row, col = divmod(k, 2)
-        h = (top - BOTTOM - 0.03) / 3
+        h = (top - BOTTOM - 0.03) / (PLOTS_PER_PAGE // 2)
         ax = fig.add_axes((LEFT + 0.05 + col * 0.44, top - (row + 1) * h + 0.045, 0.27, h - 0.075))
         fg.utilisation_up_height(ax, df, c.member, c.util, c.label)
 
