@@ -258,6 +258,7 @@ def _utilisation_pages(flow: Flow, sheets, checks, levels, name: str, members) -
         h = (top - BOTTOM - 0.03) / (PLOTS_PER_PAGE // 2)
         ax = fig.add_axes((LEFT + 0.05 + col * 0.44, top - (row + 1) * h + 0.045, 0.27, h - 0.075))
         fg.utilisation_up_height(ax, df, c.member, c.util, c.label)
+        flow.y = top - (row + 1) * h  # below the last row of charts
 
 
 # ---------------------------------------------------------------- plans
@@ -294,7 +295,8 @@ def _plans(flow: Flow, run: Run) -> None:
             marks,
         )
         groups.setdefault(key, []).append(s.name)
-    flow.section("Storey plans")
+    flow.room(0.5)  # the heading, the note and the first plan together
+    flow.section("Storey plans", new_page=False)
     flow.para(
         f"{len(groups)} distinct plan(s) over {len(b.storeys)} storeys. Walls drawn as their piers "
         "(centreline rectangles), openings dashed with the lintel over each; + centroid of the net "
