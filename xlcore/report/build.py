@@ -37,6 +37,7 @@ PIER_FACTS = (  # the governing pier's own properties on its calculation page
 
 
 def build_pages(run: Run, stamp: dict[str, str], stale: bool, why: list[str], workbook: str) -> list:
+    """Every page of the report as a matplotlib Figure, header and footer on each."""
     out = run.outcome
     b = out.building
     sheets = run.sheets
