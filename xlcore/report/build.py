@@ -197,9 +197,11 @@ def _summary(flow: Flow, run: Run) -> None:
     if len(rest):
         u = rest.util.to_numpy(dtype=float)
         top = np.nanmax(u) if np.isfinite(u).any() else float("nan")
+        failing = int((rest.status == results.FAIL).sum())
         flow.para(
-            f"... and {len(rest)} more pier x storey cases, none above U = {top:.3f}: every one is on the "
-            "workbook's sheet 'Results summary'.",
+            f"... and {len(rest)} more pier x storey cases"
+            + (f" ({failing} of them failing)" if failing else "")
+            + f", none above U = {top:.3f}: every one is on the workbook's sheet 'Results summary'.",
             size=7.5,
         )
 
