@@ -297,7 +297,12 @@ def compute(
         if as_json:
             _emit(base | {"exit_code": EXIT_FILE, "error": "output of another file type"})
         raise typer.Exit(EXIT_FILE)
-    _folder_must_exist(target, create=True)
+    try:
+        _folder_must_exist(target, create=True)
+    except typer.Exit:
+        if as_json:
+            _emit(base | {"exit_code": EXIT_FILE, "error": f"{target}: no folder to write into"})
+        raise
     with _exits("nothing was written"), _json_exits(as_json, base), _progress(quiet or as_json) as reporter:
         run, backup = api.compute_locked(path, target, force=force, overwrite=overwrite, reporter=reporter)
     findings = run.findings
