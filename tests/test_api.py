@@ -121,3 +121,10 @@ def test_compute_json_and_exit_codes(demo_book, tmp_path):
     res = CliRunner().invoke(app, ["compute", str(tmp_path / "missing.xlsx"), "--json"])
     out = json.loads(res.stdout)
     assert res.exit_code == 2 == out["exit_code"] and "not found" in out["error"]
+
+
+def test_read_results_before_any_compute_is_empty_and_check_says_so(demo_book):
+    assert xlcore.read_results(demo_book) == {}
+    inputs = xlcore.check(demo_book)
+    assert inputs.results_state == "none" and inputs.stamp is None
+    assert inputs.findings.errors == []
