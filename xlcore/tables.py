@@ -75,6 +75,7 @@ class Check:
     ids: tuple[str, ...]  # columns that name the worst case
     working: tuple[str, ...] = ()  # columns holding the expressions with numbers substituted
     inputs: tuple[str, ...] = ()  # columns shown as the inputs of the calculation page
+    each: tuple[str, ...] = ()  # demand and capacity columns shown for every combination
 
 
 # The checks the summaries, `--json` and the report walk through. A table holding a 'util'
@@ -88,6 +89,7 @@ CHECKS: tuple[Check, ...] = (
         ("storey", "pier_id", "combination"),
         ("f_vuc", "f_vu", "f_util", "hw_basis", "advice"),
         ("v", "source", "Lw", "tw", "Hw", "hw_lw", "fc", "fsy", "rho_h", "rho_v", "rho_w", "phi"),
+        ("v", "phi_vu"),
     ),
     Check(
         "axial + bending",
@@ -97,6 +99,7 @@ CHECKS: tuple[Check, ...] = (
         ("storey", "pier_id", "combination"),
         ("f_nm",),
         ("n", "m", "m_out", "m_design", "Lw", "tw", "fc", "as_total", "nuo", "nuot", "nub", "kuo"),
+        ("n", "m_design", "n_ray", "m_ray"),
     ),
     Check(
         "Cl 11.5 compression",
@@ -106,6 +109,7 @@ CHECKS: tuple[Check, ...] = (
         ("storey", "pier_id", "combination"),
         ("f_s",),
         ("n", "m", "m_out", "Lw", "tw", "fc", "k", "hwe", "slender", "e", "ea"),
+        ("n", "n_end", "phi_nu_s"),
     ),
     Check(
         "detailing Cl 11.7",
@@ -124,6 +128,7 @@ CHECKS: tuple[Check, ...] = (
         ("storey", "lintel_id", "combination"),
         ("working",),
         ("span", "depth", "tw", "ratio", "d", "As", "m", "v"),
+        ("m", "phi_mu", "v", "phi_vu"),
     ),
     Check(
         "core elastic stress",
@@ -133,6 +138,7 @@ CHECKS: tuple[Check, ...] = (
         ("core", "storey", "wall_id", "combination"),
         ("working",),
         ("sigma_start", "sigma_end", "sigma_max", "sigma_min", "tension", "as_req", "as_prov"),
+        ("sigma_max", "sigma_min", "tension", "as_req", "as_prov"),
     ),
     Check(
         "core axial + bending",
@@ -142,6 +148,7 @@ CHECKS: tuple[Check, ...] = (
         ("core", "storey", "combination"),
         ("working",),
         ("n", "mx", "my", "m_res", "phi_mu", "phi_nuo", "phi_nuot"),
+        ("n", "mx", "my", "m_res", "phi_mu"),
     ),
 )
 SKIP = {"summary", "advice"}  # tables whose 'util' is not a check of its own

@@ -4,6 +4,8 @@ through `xlcore.tables`, so a new result sheet with a utilisation shows up here 
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 import pandas as pd
 
@@ -365,7 +367,7 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
     flow.para(f"Governing case of the building: {_case(c, w)} (sheet '{sheet.name}').", size=8.5)
     u = float(w[c.util])
     status = results.PASS if u <= 1.0 else results.FAIL
-    clause = "Cl 11.5.1" if c.util == "util_s" else str(w.get("clause", ""))
+    clause = "Cl 11.5.1" if c.util == "util_s" else str(w.get("clause", "") or w.get("governs", ""))
     flow.lines(
         [
             ("Utilisation", f"{fmt(u, '0.000')}  {status}"),
@@ -406,18 +408,17 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
     others = _same_member(run, c, w)
     if others is not None and len(others) > 1:
         flow.heading("Every combination of this case")
-        keys = [k for k in ("combination", "demand", "capacity", "util", "status") if k in others]
+        cols = [column(sheet, k) for k in ("combination", *c.each, c.util)]
+        cols = [col for col in cols if col is not None and col.key in others]
+        u = others[c.util].to_numpy(dtype=float)
         flow.table(
-            [{"util": "U"}.get(k, k.capitalize()) for k in keys],
+            [re.sub(r" \(.*?\)", "", col.title) for col in cols] + ["Status"],  # short headers
             [
-                [
-                    fmt(r[k], "0.000" if k == "util" else "0.0" if k in ("demand", "capacity") else None)
-                    for k in keys
-                ]
-                for _, r in others.iterrows()
+                [fmt(r[col.key], col.fmt) for col in cols] + [results.PASS if x <= 1.0 else results.FAIL]
+                for (_, r), x in zip(others.iterrows(), u, strict=True)
             ],
-            [0.3, 0.2, 0.2, 0.15, 0.15][: len(keys)],
-            colours=[_colour(u) for u in others.util.to_numpy(dtype=float)],
+            [0.16] + [0.76 / (len(cols) - 1)] * (len(cols) - 1) + [0.08],
+            colours=[_colour(x) for x in u],
         )
 
 
@@ -436,16 +437,15 @@ def _case(c: tables.Check, w: pd.Series) -> str:
 
 
 def _same_member(run: Run, c: tables.Check, w: pd.Series) -> pd.DataFrame | None:
-    """The governing member's rows at its storey over every combination (utilisation only)."""
-    if c.member is None or "combination" not in w:
+    """The governing case's rows over every combination: same storey, member and core."""
+    if "combination" not in w or "storey" not in w:
         return None
     t = tables.rows_of(c, run.sheets)
-    t = t[(t.storey == w.storey) & (t[c.member] == w[c.member])]
-    return (
-        pd.DataFrame({"combination": t.combination, "util": t[c.util].astype(float)})
-        .assign(status=lambda d: np.where(d.util <= 1.0, results.PASS, results.FAIL))
-        .head(30)
-    )
+    keep = t.storey == w.storey
+    for key in (c.member, "core"):
+        if key and key in t and key in w:
+            keep &= t[key] == w[key]
+    return t[keep].head(40)
 
 
 # ---------------------------------------------------------------- N-M diagrams

@@ -117,9 +117,18 @@ class Flow:
                 out.append(text.ljust(n))
             return "".join(out).rstrip()
 
+        wrapped = [textwrap.wrap(h, max(n - 1, 2)) or [""] for h, n in zip(header, room, strict=True)]
+        depth = min(max(len(w) for w in wrapped), 2)  # a long header takes two lines
+
         def head() -> None:
-            self.fig.text(LEFT, self.y, line(header), fontsize=size, fontweight="bold", va="top", family=MONO)
-            self.y -= step
+            for k in range(depth):
+                cells = [w[k] if k < len(w) else "" for w in wrapped]
+                if k == depth - 1:  # what did not fit stays on the last line, cut
+                    cells = [" ".join(w[k:]) for w in wrapped]
+                self.fig.text(
+                    LEFT, self.y, line(cells), fontsize=size, fontweight="bold", va="top", family=MONO
+                )
+                self.y -= step
             self.fig.add_artist(Line2D([LEFT, RIGHT], [self.y + 1.5 * PT] * 2, lw=0.5, color="#555555"))
 
         self.room(3 * step)
