@@ -214,3 +214,14 @@ def test_summary_pages_list_the_workbook_summary_rows_in_its_order(demo):
     for label, line in stored.attrs["lines"].items():
         if label.startswith("Worst ") and not line.startswith("not checked"):
             assert _flat(f"{label[6:]} {line.split()[0]} {line.split()[1]}") in text, label
+
+
+def test_numbers_as_their_sheet_column_shows_them():
+    """Number formats as a spreadsheet program applies them (ECMA-376 Part 1, 18.8.31: '0' a
+    digit always shown, '#' a digit shown only when significant), evaluated by hand."""
+    assert fmt(1.23456, "0.000") == "1.235"
+    assert fmt(12.0, "0") == "12"
+    assert fmt(0.5, "0.0####") == "0.5"
+    assert fmt(0.00314159, "0.0####") == "0.00314"
+    assert fmt(2.0, "0.##") == "2"
+    assert fmt(float("nan"), "0.0") == "" and fmt(None, None) == ""

@@ -171,8 +171,15 @@ def fmt(value: object, code: str | None) -> str:
         return str(value)
     if not np.isfinite(x):
         return ""
-    places = len(code.split(".")[1]) if "." in code else 0
-    return f"{x:.{places}f}"
+    decimals = code.split(".")[1] if "." in code else ""
+    fixed, optional = decimals.count("0"), decimals.count("#")  # '0.0##': one, up to three
+    text = f"{x:.{fixed + optional}f}"
+    if optional:
+        keep = len(text) - optional
+        while len(text) > keep and text.endswith("0"):
+            text = text[:-1]
+        text = text.rstrip(".")
+    return text
 
 
 def column(sheet: results.ResultSheet, key: str) -> results.ResultColumn | None:
