@@ -8,7 +8,7 @@ from conftest import column_letter as col
 from conftest import edit
 from typer.testing import CliRunner
 
-from xlcore import layout, results
+from xlcore import layout, pipeline, results
 from xlcore.cli import app
 
 runner = CliRunner()
@@ -34,6 +34,7 @@ def test_check_summary_of_sample():
     assert r.exit_code == 0, r.output
     assert "storeys       15 (GF to L14)" in r.output
     assert "combinations  8" in r.output
+    assert "cores         2, each its own section (lift: 5 walls, stair: 3 walls)" in r.output
 
 
 @pytest.mark.parametrize(
@@ -77,17 +78,19 @@ def test_compute_sample_and_read_results_back(tmp_path):
     header = rows[head]
     table = [dict(zip(header, row, strict=False)) for row in rows[head + 1 :]]
     assert len(table) == 1312
-    first = table[0]
-    # Demo storey GF, pier LW1-1: Lw 750, tw 250, Hw 3950 (4.2 m - 0.25 m slab), f'c 50, fsy 500,
+    first = next(row for row in table if (row["Storey"], row["Pier"]) == ("GF", "LiftS-1"))
+    # Demo storey GF, pier LiftS-1 (beside the car 1 door): Lw 950, tw 250, f'c 50, fsy 500,
     # N12 @ 200 x 2 horizontal -> rho_h = 2 x 113.097 / (200 x 250) = 0.0045239 (hand evaluation).
-    # Hw/Lw = 5.267 > 1 -> Vuc = floor 0.17 x sqrt(50) x 0.8 x 750 x 250 = 180.3 kN;
-    # Vus = 0.0045239 x 500 x 150 000 = 339.3 kN; phi Vu = 0.7 x 519.6 = 363.7 kN (Cl 11.6).
-    assert (first["Storey"], first["Pier"]) == ("GF", "LW1-1")
-    assert first["Vuc [kN]"] == pytest.approx(180.31, abs=0.01)
-    assert first["Vus [kN]"] == pytest.approx(339.29, abs=0.01)
-    assert first["phi Vu [kN]"] == pytest.approx(363.72, abs=0.01)
+    # Hw = overall wall height 4.35 + 14 x 3.2 = 49.15 m, Hw/Lw = 51.7 > 1: Eq (2) gives
+    # (0.05 + 0.1 / 50.7) sqrt(f'c) = 0.052 sqrt(f'c), below the floor -> Vuc = 0.17 x sqrt(50)
+    # x 0.8 x 950 x 250 = 228.4 kN; Vus = 0.0045239 x 500 x 190 000 = 429.8 kN;
+    # phi Vu = 0.7 x 658.2 = 460.7 kN (Cl 11.6).
+    assert (first["Storey"], first["Pier"]) == ("GF", "LiftS-1")
+    assert first["Vuc [kN]"] == pytest.approx(228.40, abs=0.01)
+    assert first["Vus [kN]"] == pytest.approx(429.77, abs=0.01)
+    assert first["phi Vu [kN]"] == pytest.approx(460.72, abs=0.01)
     assert first["Governing clause"] == "Cl 11.6.3 min 0.17 sqrt(f'c)"
-    assert "= 363.7 kN" in first["phi Vu working"]
+    assert "= 460.7 kN" in first["phi Vu working"]
     for row in table:
         assert row["Utilisation"] == pytest.approx(abs(row["V* [kN]"]) / row["phi Vu [kN]"], abs=1e-9)
     # and check now says the results are current; an input edit makes them stale
@@ -98,10 +101,13 @@ def test_compute_sample_and_read_results_back(tmp_path):
 
 def test_strict_exit_3_when_a_pier_fails(demo_book):
     a = layout.MEMBER_ACTIONS
-    edit(demo_book, {(a.name, f"{col(a, 'v')}2"): 5000.0})  # GF LW1-1 far beyond 363.7 kN
+    b, _ = pipeline.load(demo_book)
+    row = b.member_actions[(b.member_actions.member == "LiftS-1") & (b.member_actions.combination == "1.35G")]
+    row = int(row[row.storey == "GF"].row.iloc[0])
+    edit(demo_book, {(a.name, f"{col(a, 'v')}{row}"): 5000.0})  # GF LiftS-1 far beyond 460.7 kN
     r = runner.invoke(app, ["compute", str(demo_book), "--strict"])
     assert r.exit_code == 3, r.output
-    assert "worst: LW1-1 at GF, 1.35G" in r.output
+    assert "worst: LiftS-1 at GF, 1.35G" in r.output
     r = runner.invoke(app, ["compute", str(demo_book)])
     assert r.exit_code == 0  # failing members are results, not errors
 
@@ -175,4 +181,4 @@ def test_check_counts_combinations_over_both_sheets_and_lists_members_per_storey
     assert "on Member actions" in out and "on Core actions" in out
     # the demo's GF has the lift-door lintels; pier IDs are those the piers sheet uses
     gf = next(line for line in out.splitlines() if line.strip().startswith("GF:"))
-    assert "LW1-1" in gf and "lintels LW1-L1" in gf
+    assert "LiftS-1" in gf and "lintels LiftS-L1" in gf

@@ -20,18 +20,18 @@ def test_formulas_without_saved_values_are_evaluated(demo_book):
     edit(
         demo_book,
         {
-            (S.name, f"{col(S, 'level')}3"): f"={col(S, 'level')}2+{col(S, 'height')}2",  # 0 + 4.2
+            (S.name, f"{col(S, 'level')}3"): f"={col(S, 'level')}2+{col(S, 'height')}2",  # 0 + 4.35
             (W.name, f"{col(W, 'thickness')}2"): "=200+50",
             (A.name, f"{col(A, 'v')}2"): "=SQRT(16)*10",  # 40 kN
-            (A.name, f"{col(A, 'n')}2"): f"=Storeys!{col(S, 'height')}2*100",  # cross-sheet: 420
+            (A.name, f"{col(A, 'n')}2"): f"=Storeys!{col(S, 'height')}2*100",  # cross-sheet: 435
         },
     )
     b, findings = load(demo_book)
     assert findings.errors == []
-    assert b.storeys[1].level == pytest.approx(4.2)
+    assert b.storeys[1].level == pytest.approx(4.35)
     assert b.walls[0].thickness == pytest.approx(250.0)
     assert b.member_actions.v.iloc[0] == pytest.approx(40.0)
-    assert b.member_actions.n.iloc[0] == pytest.approx(420.0)
+    assert b.member_actions.n.iloc[0] == pytest.approx(435.0)
 
 
 def test_saved_values_win_over_re_evaluation(demo_book):

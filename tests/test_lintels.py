@@ -93,9 +93,9 @@ def test_lintel_ids_are_accepted_as_members(demo_book):
     from xlcore.diagnostics import InputInvalid
 
     b, _ = pipeline.load(demo_book)  # the demo gives lift-door lintel actions
-    assert {"LW1-L1", "LW1-L2"} <= set(b.member_actions.member)
+    assert {"LiftS-L1", "LiftS-L2"} <= set(b.member_actions.member)
     a = layout.MEMBER_ACTIONS
-    # SW2's riser starts at L1, so there is no SW2-L1 lintel at GF
-    edit(demo_book, {(a.name, f"{column_letter(a, 'member')}2"): "SW2-L1"})
+    # StairE's riser starts at L1, so there is no StairE-L1 lintel at GF (row 2 is at GF)
+    edit(demo_book, {(a.name, f"{column_letter(a, 'member')}2"): "StairE-L1"})
     with pytest.raises(InputInvalid, match="1 input error"):
         pipeline.load(demo_book)

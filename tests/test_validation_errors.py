@@ -66,7 +66,7 @@ CASES = [
     ("height disagrees with next level", {at(S, "height", 2): 4.5}, where(S, "height", 2), "next floor"),
     ("height in millimetres", {at(S, "height", 3): 3150}, where(S, "height", 3), "did you enter millimetres"),
     ("negative slab", {at(S, "slab", 2): -5}, where(S, "slab", 2), "0 to 2000"),
-    ("opening in unknown wall", {at(OP, "wall_id", 2): "LW9"}, where(OP, "wall_id", 2), "wall ID"),
+    ("opening in unknown wall", {at(OP, "wall_id", 2): "LiftQ"}, where(OP, "wall_id", 2), "wall ID"),
     ("opening past wall end", {at(OP, "offset", 3): 5.5}, where(OP, "width", 3), "past the end"),
     ("openings overlap", {at(OP, "offset", 3): 1.0}, where(OP, "offset", 3), "overlaps the opening of row 2"),
     ("opening taller than clear height", {at(OP, "head", 2): 3.5}, where(OP, "head", 2), "clear height"),
@@ -77,13 +77,13 @@ CASES = [
         where(OP, "storey_from", 2),
         "does not exist at storey L10",
     ),
-    ("unknown member", {at(A, "member", 2): "LW1-9"}, where(A, "member", 2), "no such wall, pier or lintel"),
+    ("unknown member", {at(A, "member", 2): "LiftS-9"}, where(A, "member", 2), "no such wall, pier"),
     ("unknown storey in actions", {at(A, "storey", 2): "L20"}, where(A, "storey", 2), "storey name"),
-    ("duplicate action row", {at(A, "member", 3): "LW1-1"}, where(A, "member", 3), "also given in row 2"),
+    ("duplicate action row", {at(A, "member", 3): "LiftE"}, where(A, "member", 3), "also given in row 2"),
     (
-        "wall and its piers both given",
-        {at(A, "member", 3): "LW1"},
-        where(A, "member", 3),
+        "wall and its piers both given",  # rows 5-7: GF, 1.35G, LiftS-1..3
+        {at(A, "member", 6): "LiftS"},
+        where(A, "member", 6),
         "both for the whole wall and for its piers",
     ),
     ("force with unit", {at(A, "n", 2): "12 kN"}, where(A, "n", 2), "number only"),
@@ -202,7 +202,7 @@ def test_check_leaves_file_bytes_unchanged_and_exits_1(demo_book):
 
 def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
     """Numbers stored as text (' 250 ') are accepted; trimmed text IDs match."""
-    edit(demo_book, {at(W, "thickness", 2): " 250 ", at(A, "member", 2): " LW1-1 "})
+    edit(demo_book, {at(W, "thickness", 2): " 250 ", at(A, "member", 2): " LiftE "})
     building, findings = load(demo_book)
     assert building.walls[0].thickness == 250.0
     assert findings.errors == []
@@ -238,7 +238,7 @@ def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):
 
 
 def test_typing_error_in_one_wall_does_not_hide_an_opening_overrunning_another(demo_book):
-    """Issue 12: cross-sheet checks run on every row that parsed (LW2's bad thickness, LW1's
+    """Issue 12: cross-sheet checks run on every row that parsed (LiftE's bad thickness, LiftS's
     opening past its end: both in one pass)."""
     edit(demo_book, {at(W, "thickness", 5): "x", at(OP, "offset", 2): 5.5})
     with pytest.raises(InputInvalid) as info:
@@ -300,3 +300,72 @@ def test_bad_row_of_a_wall_draws_no_false_member_errors(demo_book):
     errors = info.value.findings.errors
     assert [e.where for e in errors] == [where(W, "fc", 2)], [str(e) for e in errors]
     assert not any(f"'{wall}" in e.message for e in errors if e.sheet == A.name)
+
+
+# ---------------------------------------------------------------- cores (issue 13 section 2)
+
+
+def test_a_wall_keeps_one_core_over_its_height(demo_book):
+    """Rows 2-4 are LiftS over three storey ranges: the middle one may not move to another core."""
+    edit(demo_book, {at(W, "core", 3): "stair"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "one core over its whole height" in found[where(W, "core", 3)]
+    assert "'lift' as in row 2" in found[where(W, "core", 3)]
+
+
+def test_core_actions_name_a_known_core_and_not_beside_a_building_row(demo_book):
+    edit(demo_book, {at(C, "core", 2): "lfit", at(C, "core", 3): "stair"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "expected a core named on the walls sheet" in found[where(C, "core", 2)]
+    assert "did you mean 'lift'" in found[where(C, "core", 2)]
+    # row 3 (GF, 1.2G+1.5Q) for the stair core alone while no blank row gives that pair: allowed;
+    # give the pair twice for one core and it is refused
+    edit(demo_book, {at(C, "core", 2): "stair", at(C, "combination", 2): "1.2G+1.5Q"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "for core 'stair' is also given in row 2" in found[where(C, "combination", 3)]
+
+
+def test_core_row_beside_the_buildings_row_is_refused(demo_book):
+    edit(demo_book, {at(C, "core", 3): "lift", at(C, "combination", 3): "1.35G"})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "expected one or the other" in found[where(C, "core", 3)]
+
+
+def test_a_core_that_cannot_stand_on_its_own_is_named(tmp_path):
+    """Core 'B' is one straight wall: it cannot resist torsion or shear across it on its own
+    (statics), so the building's actions cannot be shared to it."""
+    from xlcore.workbook.template import write_template
+
+    path = tmp_path / "blade.xlsx"
+    write_template(path)
+    wb = openpyxl.load_workbook(path)
+    wb[S.name].append(["GF", 0.0, 3.0, 200])
+    walls = [("A1", 0, 0, 5, 0, "A"), ("A2", 5, 0, 5, 4, "A"), ("A3", 5, 4, 0, 4, "A")]
+    walls.append(("B1", 9, 0, 9, 4, "B"))
+    for wid, x1, y1, x2, y2, core in walls:
+        wb[W.name].append([wid, x1, y1, x2, y2, 200, "GF", "GF", 40, 500, 12, 200, 2, 12, 200, 2, 30, core])
+    wb[C.name].append(["GF", "wind", 100, 50, 0, 0, 0, 0])
+    wb.save(path)
+    with pytest.raises(InputInvalid) as info:
+        load(path)
+    assert any(
+        str(f).startswith(f"'Core actions'!{col(C, 'storey')}2: the walls of core 'B' at storey GF (B1)")
+        and "on their own" in str(f)
+        for f in info.value.findings.errors
+    ), [str(f) for f in info.value.findings.errors]
+
+
+def test_a_wall_without_a_core_beside_named_ones_is_an_error(demo_book):
+    edit(demo_book, {at(W, "core", k): None for k in (5, 6, 7)})  # LiftE's three rows
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    found = {f.where: f.message for f in info.value.findings.errors}
+    assert "blank core for wall 'LiftE'" in found[where(W, "core", 5)]

@@ -24,7 +24,8 @@ from xlcore import pipeline, results
 from xlcore.diagnostics import FileProblem
 from xlcore.workbook.writer import backup_path, write_results
 
-# the demo has member and core actions: summary, shear, piers, core section, core shares
+# the demo has member and core actions (two cores): summary, shear, piers, core section, core
+# shares, and the building's resultants shared among its cores
 DEMO_RESULT_SHEETS = [
     results.SUMMARY_SHEET,
     results.SHEAR_SHEET,
@@ -37,6 +38,7 @@ DEMO_RESULT_SHEETS = [
     results.CORE_STRESS_SHEET,
     results.CORE_NM_SHEET,
     results.CORE_SHEET,
+    results.CORES_SHEET,
 ]
 INDEX_PARTS = {"xl/workbook.xml", "xl/_rels/workbook.xml.rels", "[Content_Types].xml", "xl/styles.xml"}
 

@@ -56,6 +56,9 @@ RULES: dict[str, list] = {
     results.CORE_STRESS_SHEET: [
         ("working", None, [("tension", F1), ("as_req", _int), ("as_prov", _int), ("sigma_max", F2)]),
     ],
+    results.CORES_SHEET: [
+        ("working", None, [("vx", F1), ("vy", F1), ("n", F1), ("my", F1), ("mx", F1)]),
+    ],
     results.CORE_NM_SHEET: [
         ("working", None, [("n", _int), ("phi_mu", _int), ("m_res", _int), ("util", F3)]),
         ("working", lambda t: t.n >= 0, [("phi_nuo", _int)]),

@@ -237,6 +237,13 @@ def check(path: Workbook, quiet: Quiet = False, as_json: Json = False) -> None:
         f"  walls         {len({w.wall_id for w in building.walls})} "
         f"({len(building.walls)} rows), openings {len(building.openings)} rows"
     )
+    if building.cores != [""]:
+        walls_of = {c: len({w.wall_id for w in building.walls if w.core == c}) for c in building.cores}
+        typer.echo(
+            f"  cores         {len(walls_of)}, each its own section ("
+            + ", ".join(f"{c}: {n} walls" for c, n in walls_of.items())
+            + ")"
+        )
     typer.echo(
         f"  piers/storey  {per_storey.min()} to {per_storey.max()} "
         f"({len(geom.piers)} storey x pier cases), lintels {len(geom.lintels)}"

@@ -1,4 +1,5 @@
-"""The demo building: an invented 15-storey office tower with a lift core and a stair core.
+"""The demo building: an invented 15-storey office tower with a lift core and a stair core,
+3.55 m apart and joined only by the floor slabs, so each is its own core (core IDs).
 
 Every number here is made up to be physically plausible (shears and moments grow toward the
 base, gravity accumulates down the building); it is example data, not a design.
@@ -8,10 +9,11 @@ from __future__ import annotations
 
 import numpy as np
 
-GRAVITY_G = 2300.0  # kN per storey of dead load reaching the core (invented)
-GRAVITY_Q = 650.0  # kN per storey of live load reaching the core (invented)
-BASE_SHEAR = {"Wx": 1900.0, "Wy": 2600.0, "Ex": 3800.0, "Ey": 3800.0}  # kN (invented)
-SHEAR_POINT = (7.2, 3.0)  # m: where the storey shear acts (invented centre of mass)
+GRAVITY_G = 2450.0  # kN per storey of dead load reaching the two cores (invented)
+GRAVITY_Q = 700.0  # kN per storey of live load reaching the two cores (invented)
+BASE_SHEAR = {"Wx": 1950.0, "Wy": 2600.0, "Ex": 3300.0, "Ey": 3300.0}  # kN (invented)
+SHEAR_POINT = (6.9, 3.2)  # m: where the storey shear acts (invented centre of mass)
+ACCIDENTAL = 0.05  # of the plan dimension, in the analysis the member actions stand for (invented)
 
 COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
     # name, G factor, Q factor, lateral case, lateral factor
@@ -24,16 +26,17 @@ COMBINATIONS: list[tuple[str, float, float, str | None, float]] = [
     ("G+0.3Q+Ex", 1.0, 0.3, "Ex", 1.0),
     ("G+0.3Q+Ey", 1.0, 0.3, "Ey", 1.0),
 ]
+EARTHQUAKE = ", ".join(name for name, _g, _q, case, _f in COMBINATIONS if case and case.startswith("E"))
 
 
 def storeys() -> list[dict]:
-    out = [dict(name="GF", level=0.0, height=4.2, slab=250.0)]
+    out = [dict(name="GF", level=0.0, height=4.35, slab=250.0)]
     for i in range(1, 15):
         out.append(
             dict(
                 name=f"L{i}",
-                level=round(4.2 + 3.15 * (i - 1), 3),
-                height=3.15,
+                level=round(4.35 + 3.2 * (i - 1), 3),
+                height=3.2,
                 slab=250.0 if i == 14 else 200.0,
             )
         )
@@ -46,20 +49,26 @@ PROJECT = dict(
     phi_shear=None,
     shear_height="overall wall height",
     pier_fixity="fixed-fixed",
+    earthquake_combinations=EARTHQUAKE,
     poisson=0.2,
 )
 
-_LIFT = [
-    ("LW1", 0.0, 0.0, 6.0, 0.0),
-    ("LW2", 6.0, 0.0, 6.0, 5.0),
-    ("LW3", 6.0, 5.0, 0.0, 5.0),
-    ("LW4", 0.0, 5.0, 0.0, 0.0),
-    ("LW5", 3.0, 0.0, 3.0, 5.0),
+# Two cores 3.55 m apart, joined only by the floor slabs: each its own section (core IDs).
+_LIFT = [  # a two-car lift shaft: a box with a dividing wall, both doors in the south face
+    ("LiftS", 0.0, 0.0, 6.35, 0.0),
+    ("LiftE", 6.35, 0.0, 6.35, 5.15),
+    ("LiftN", 6.35, 5.15, 0.0, 5.15),
+    ("LiftW", 0.0, 5.15, 0.0, 0.0),
+    ("LiftMid", 3.2, 0.0, 3.2, 5.15),
 ]
-_STAIR = [("SW1", 10.0, 0.0, 13.2, 0.0), ("SW2", 13.2, 0.0, 13.2, 6.5), ("SW3", 13.2, 6.5, 10.0, 6.5)]
+_STAIR = [  # a stair shaft open to the west, a services riser in its east wall
+    ("StairS", 9.9, 0.0, 13.05, 0.0),
+    ("StairE", 13.05, 0.0, 13.05, 6.7),
+    ("StairN", 13.05, 6.7, 9.9, 6.7),
+]
 # storey range, thickness, f'c, vertical (dia, spacing), horizontal (dia, spacing)
 _LIFT_RUNS = [
-    ("GF", "L4", 250, 50, (16, 200), (12, 200)),
+    ("GF", "L4", 250, 50, (20, 200), (12, 200)),
     ("L5", "L9", 250, 40, (12, 200), (12, 250)),
     ("L10", "L14", 200, 40, (12, 250), (10, 250)),
 ]
@@ -68,7 +77,7 @@ _STAIR_RUNS = [("GF", "L4", 250, 50, (16, 200), (12, 200)), ("L5", "L14", 200, 4
 
 def walls() -> list[dict]:
     out = []
-    for group, runs in ((_LIFT, _LIFT_RUNS), (_STAIR, _STAIR_RUNS)):
+    for core, group, runs in (("lift", _LIFT, _LIFT_RUNS), ("stair", _STAIR, _STAIR_RUNS)):
         for wid, x1, y1, x2, y2 in group:
             for lo, hi, t, fc, (vd, vs), (hd, hs) in runs:
                 out.append(
@@ -90,18 +99,22 @@ def walls() -> list[dict]:
                         h_spacing=float(hs),
                         h_layers=2,
                         cover=30.0,
+                        core=core,
                     )
                 )
     return out
+
+
+DOOR_WIDTH = 1.15  # m, structural opening of each lift door (invented)
 
 
 def openings() -> list[dict]:
     door = dict(
         storey_from="GF",
         storey_to="L14",
-        width=1.2,
+        width=DOOR_WIDTH,
         sill=0.0,
-        head=2.4,
+        head=2.35,
         lintel_bars=3,
         lintel_dia=16.0,
         stirrup_dia=10.0,
@@ -109,23 +122,24 @@ def openings() -> list[dict]:
         stirrup_spacing=150.0,
     )
     return [
-        dict(wall_id="LW1", offset=0.75, label="lift A door", **door),
-        dict(wall_id="LW1", offset=3.75, label="lift B door", **door),
+        dict(wall_id="LiftS", offset=0.95, label="car 1 door", **door),
+        dict(wall_id="LiftS", offset=4.25, label="car 2 door", **door),
         dict(
-            wall_id="SW2",
+            wall_id="StairE",
             storey_from="L1",
             storey_to="L14",
-            offset=2.0,
-            width=0.9,
-            sill=1.2,
-            head=2.1,
+            offset=2.35,
+            width=0.85,
+            sill=1.15,
+            head=2.05,
             label="services riser",
         ),
     ]
 
 
 def core_actions() -> list[dict]:
-    """Storey resultants of the whole core per combination (invented loads)."""
+    """The building's storey resultants per combination (invented loads), for the two cores
+    together: xlcore shares them among the cores (blank core)."""
     st = storeys()
     tops = np.array([s["level"] + s["height"] for s in st])
     weights = tops / tops.sum()  # inverted-triangle floor forces (common practice, no source)
@@ -146,8 +160,8 @@ def core_actions() -> list[dict]:
                     n=_r((g * GRAVITY_G + q * GRAVITY_Q) * above),
                     vx=_r(0.0 if along_y else v),
                     vy=_r(v if along_y else 0.0),
-                    mx=_r(m if along_y else 0.0),
-                    my=_r(0.0 if along_y else m),
+                    mx=_r(m if along_y else 0.0),  # +Vy bends the core north: the north side compresses
+                    my=_r(0.0 if along_y else m),  # +Vx bends it east: the east side compresses
                     t=0.0,
                     x_v=SHEAR_POINT[0],
                     y_v=SHEAR_POINT[1],
@@ -157,19 +171,24 @@ def core_actions() -> list[dict]:
 
 
 def member_actions(core_rows: list[dict]) -> list[dict]:
-    """Pier actions for every storey and combination: the core actions shared out by xlcore's
-    own stiffness method with 5 % accidental eccentricity, as an analysis might report them."""
+    """Pier actions for every storey and combination: the building's resultants shared among
+    the two cores and then to each core's walls and piers by xlcore's own method, with 5 %
+    accidental eccentricity, as an analysis might report them."""
     import pandas as pd
 
-    from xlcore import distribution, geometry, stiffness
+    from xlcore import cores, geometry, stiffness
     from xlcore.model import Opening, Storey, WallRun
 
     st = [Storey(index=i, **s) for i, s in enumerate(storeys())]
     geom = geometry.derive(st, [WallRun(**w) for w in walls()], [Opening(**o) for o in openings()])
     piers = stiffness.with_stiffness(geom.piers, PROJECT["poisson"], PROJECT["pier_fixity"])
     wl = stiffness.wall_stiffness(piers, PROJECT["poisson"], PROJECT["pier_fixity"])
+    plans = cores.plans_by_core(piers, wl)
     core = pd.DataFrame(core_rows).assign(row=range(2, len(core_rows) + 2))
-    shares = distribution.core_actions_to_piers(piers, wl, distribution.storey_plans(piers, wl), core, 0.05)
+    split = cores.share_among_cores(piers, plans, core, ACCIDENTAL)
+    shares = cores.core_actions_to_piers(piers, wl, plans, split.actions)
+    shares.piers["order"] = shares.piers.storey.map({s.name: s.index for s in st})
+    ordered = shares.piers.sort_values(["order", "row"], kind="stable")
     rows = [
         dict(
             storey=r.storey,
@@ -180,7 +199,7 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
             m=_r(r.m),
             m_out=None,
         )
-        for r in shares.piers.itertuples(index=False)
+        for r in ordered.itertuples(index=False)
     ]
     return rows + _lintel_actions(shares.piers, [s["name"] for s in storeys()])
 
@@ -189,7 +208,7 @@ def _lintel_actions(piers, names: list[str]) -> list[dict]:
     """Lift-door lintels: coupling shear = the change in the outer pier's axial force from the
     storey above (the lintel hands it down), M* = V* x span / 2 (contraflexure at mid-span)."""
     rows = []
-    for lintel, pier in (("LW1-L1", "LW1-1"), ("LW1-L2", "LW1-3")):
+    for lintel, pier in (("LiftS-L1", "LiftS-1"), ("LiftS-L2", "LiftS-3")):
         n = piers[piers.pier_id == pier].set_index(["storey", "combination"]).n
         for (storey, comb), value in n.items():
             i = names.index(storey)
@@ -202,7 +221,7 @@ def _lintel_actions(piers, names: list[str]) -> list[dict]:
                     member=lintel,
                     n=0.0,
                     v=_r(v),
-                    m=_r(v * 1.2 / 2),
+                    m=_r(v * DOOR_WIDTH / 2),
                     m_out=None,
                 )
             )

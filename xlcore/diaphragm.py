@@ -68,3 +68,14 @@ def share(st: Storey, vx, vy, m_cr) -> Shares:
     direct = gk @ (Kinv @ through_cr)
     torsion = gk @ (Kinv @ np.vstack([np.zeros_like(m_cr), np.zeros_like(m_cr), m_cr]))
     return Shares(direct, torsion, direct + torsion)
+
+
+def share_with_accidental(st: Storey, vx, vy, m_cr, d_acc) -> Shares:
+    """`share`, with an accidental torsion of magnitude d_acc (per load case) added to each
+    wall in the sense that increases its force (so with it the forces no longer sum exactly to
+    the storey shear). Used for walls within a core and for cores within the building."""
+    base = share(st, vx, vy, m_cr)
+    unit = share(st, 0.0, 0.0, 1.0).torsion[:, 0:1]  # per unit moment, walls x 1
+    sense = np.where(base.total >= 0, 1.0, -1.0) * np.where(unit >= 0, 1.0, -1.0)
+    torsion = base.torsion + sense * unit * d_acc
+    return Shares(base.direct, torsion, base.direct + torsion)

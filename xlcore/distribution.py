@@ -225,12 +225,10 @@ def core_actions_to_piers(
         xv = cs.x_v.fillna(xr).to_numpy()
         yv = cs.y_v.fillna(yr).to_numpy()
         m_cr = t + vy * (xv - xr) - vx * (yv - yr)
-        d_acc = accidental * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
-        base = diaphragm.share(st, vx, vy, m_cr)
-        unit = diaphragm.share(st, 0.0, 0.0, 1.0).torsion[:, 0:1]  # per unit moment, walls x 1
-        sense = np.where(base.total >= 0, 1.0, -1.0) * np.where(unit >= 0, 1.0, -1.0)
-        torsion = base.torsion + sense * unit * d_acc
-        total = base.direct + torsion
+        acc = cs.acc.to_numpy(dtype=float) if "acc" in cs else accidental  # per row where given
+        d_acc = acc * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
+        base = diaphragm.share_with_accidental(st, vx, vy, m_cr, d_acc)
+        torsion, total = base.torsion, base.total
         a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
         m_in, m_oop = own_moments(plan.piece_moments, b, c, sp.ux.to_numpy(), sp.uy.to_numpy())

@@ -45,6 +45,7 @@ PIER_COLUMNS = [
     "v_spacing",
     "h_dia",
     "h_spacing",
+    "core",  # core (group) ID of the wall; "" in a building without core IDs
 ]
 LINTEL_COLUMNS = [
     "storey",
@@ -163,6 +164,7 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                 w.v_spacing,
                 w.h_dia,
                 w.h_spacing,
+                w.core,
             )
             hc = s.clear_height * 1000.0
             if not here:

@@ -143,6 +143,7 @@ STANDARDS = ("AS 3600:2018",)
 HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
+WALL_SHARING = ("one storey's stiffness", "whole-height cantilever")
 
 INSTRUCTIONS_SHEET = "Read me"
 
@@ -219,6 +220,20 @@ PROJECT = SettingsSheet(
             "stress. 'add V* h/2 beside openings' adds the contraflexure moment V* h/2 of a pier "
             "between openings (in the sense that increases |M*|); 'none' leaves it out.",
             choices=CORE_LOCAL_MOMENT,
+        ),
+        Setting(
+            "wall_sharing",
+            "Core shear among its walls by",
+            None,
+            Kind.CHOICE,
+            WALL_SHARING[0],
+            "Core actions only: the lateral stiffness that shares a core's storey shear among its "
+            "walls (rigid floor). 'one storey's stiffness': each wall over the storey's clear "
+            "height with the pier end condition (suits short piers between openings); 'whole-height "
+            "cantilever': each wall as a cantilever over its overall height, flexure + shear, "
+            "openings softening it by the same ratio as over one storey (tall cores act as "
+            "cantilevers). Piers within a wall always share by their own stiffness.",
+            choices=WALL_SHARING,
         ),
         Setting(
             "accidental",
@@ -472,6 +487,17 @@ WALLS = TableSheet(
             max=150,
             number_format="0",
         ),
+        Column(
+            "core",
+            "Core",
+            None,
+            Kind.TEXT,
+            "Core (group) the wall belongs to, e.g. lift, stair (optional). Walls tied into one "
+            "cross-section share a core; cores apart, joined only by floor slabs, are separate "
+            "sections. Blank on every row: all walls are one core. One core per wall ID.",
+            required=False,
+            width=10,
+        ),
     ),
 )
 
@@ -664,8 +690,9 @@ CORE_ACTIONS = TableSheet(
     key="core_actions",
     name="Core actions",
     purpose=(
-        "Storey resultants of the whole core per load combination, where only those are known. "
-        "xlcore shares them to walls (rigid floor, stiffness, torsion) and piers. Forces at the "
+        "Storey resultants of the whole core (or of the building, shared among its cores) per "
+        "load combination, where only those are known. xlcore shares them to cores (flexural "
+        "stiffness), walls (rigid floor, stiffness, torsion) and piers. Forces at the "
         "base of the storey; compression positive. Where the member-actions sheet has rows for "
         "the same storey and combination, those win."
     ),
@@ -718,6 +745,18 @@ CORE_ACTIONS = TableSheet(
             required=False,
             min=-1000,
             max=1000,
+        ),
+        Column(
+            "core",
+            "Core",
+            None,
+            Kind.TEXT,
+            "Core these actions belong to (a core named on the walls sheet; optional). Blank: "
+            "the building's storey resultants, shared among the cores by flexural stiffness "
+            "(EI) and a rigid floor, axial force by area. Moments about the core's centroid "
+            "(blank: about the centroid of all cores).",
+            required=False,
+            width=10,
         ),
     ),
     max_rows=5000,

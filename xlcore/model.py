@@ -18,6 +18,7 @@ class Settings(BaseModel):
     pier_fixity: str = "fixed-fixed"
     wall_nm: str = "composite section"
     accidental: float = 0.0
+    wall_sharing: str = "one storey's stiffness"
     core_local_moment: str = "add V* h/2 beside openings"
     phi_compression: float | None = None
     phi_simplified: float | None = None
@@ -75,6 +76,7 @@ class WallRun(BaseModel):
     h_spacing: float
     h_layers: int
     cover: float
+    core: str = ""  # core (group) ID; "" = the one core of a building without core IDs
     row: int = 0
 
     @property
@@ -112,8 +114,13 @@ class Building(BaseModel):
     walls: list[WallRun]
     openings: list[Opening]
     member_actions: pd.DataFrame  # columns: layout MEMBER_ACTIONS keys + "row"
-    core_actions: pd.DataFrame  # columns: layout CORE_ACTIONS keys + "row"
+    core_actions: pd.DataFrame  # columns: layout CORE_ACTIONS keys + "row"; core "" = building
     input_hash: str = ""
+
+    @property
+    def cores(self) -> list[str]:
+        """Core IDs in order of first appearance on the walls sheet ([""] without core IDs)."""
+        return list(dict.fromkeys(w.core for w in self.walls)) or [""]
 
     def storey_index(self) -> dict[str, int]:
         return {s.name: s.index for s in self.storeys}

@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, distribution, geometry, results, stiffness
+from xlcore import CAUTION, __version__, cores, distribution, geometry, results, stiffness
 from xlcore.checks import plain
 from xlcore.checks.advice import advise
 from xlcore.checks.axial import check_pier_axial
@@ -39,7 +39,7 @@ class Outcome:
     sheets: list[ResultSheet] = field(default_factory=list)
     timings: dict[str, float] = field(default_factory=dict)
     piers: pd.DataFrame | None = None  # with stiffness: what the report draws and re-solves
-    plans: dict = field(default_factory=dict)  # storey -> distribution.StoreyPlan
+    plans: dict = field(default_factory=dict)  # core -> storey -> distribution.StoreyPlan
 
     @property
     def failing(self) -> int:
@@ -85,9 +85,11 @@ def compute(
         geom = geometry.derive(building.storeys, building.walls, building.openings)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
-        plans = distribution.storey_plans(piers, walls)
+        walls = stiffness.sharing_stiffness(walls, s.poisson, s.wall_sharing)
+        plans = cores.plans_by_core(piers, walls)
     with t.phase("sharing", "sharing actions to walls and piers"):
-        acts, core = pier_actions(building, piers, walls, plans)
+        acts, core, split = pier_actions(building, piers, walls, plans)
+    named = building.cores != [""]  # walls carry core IDs: result tables get a core column
     with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):
         shear = check_pier_shear(piers, acts, s)
         axial = check_pier_axial(piers, acts, s)
@@ -104,11 +106,17 @@ def compute(
         with t.phase(
             "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
         ):
-            stress = check_core_stress(piers, plans, building.core_actions, s)
-            core_nm = check_core_nm(piers, plans, building.core_actions, s)
+            stress = per_core(check_core_stress, piers, plans, split.actions, s)
+            core_nm = per_core(check_core_nm, piers, plans, split.actions, s)
     stamp = _stamp(building, now or dt.datetime.now(dt.UTC))
     lintel_line = _lintel_line(lintels)
-    sections = distribution.sections_table(plans, building.storey_index())
+    sections = pd.concat(
+        [distribution.sections_table(p, building.storey_index()).assign(core=c) for c, p in plans.items()],
+        ignore_index=True,
+    )
+    if named:
+        sections = sections.sort_values("storey_index", ascending=False, kind="stable")
+        sections = sections.reset_index(drop=True)
     sheets = [
         ResultSheet(
             results.SUMMARY_SHEET,
@@ -237,7 +245,7 @@ def compute(
             results.SECTION_SHEET,
             f"{results.MARKER}: net core section and centre of rigidity per storey (walls as "
             "centreline rectangles, corner overlaps once, openings removed)",
-            results.SECTION_COLUMNS,
+            _cols(results.SECTION_COLUMNS, named),
             sections,
             preamble=stamp
             + [
@@ -254,7 +262,7 @@ def compute(
             ResultSheet(
                 results.CORE_STRESS_SHEET,
                 f"{results.MARKER}: elastic stress of the whole core per storey and combination",
-                results.CORE_STRESS_COLUMNS,
+                _cols(results.CORE_STRESS_COLUMNS, named),
                 stress,
                 preamble=stamp
                 + [
@@ -274,7 +282,7 @@ def compute(
                 ResultSheet(
                     results.CORE_NM_SHEET,
                     f"{results.MARKER}: biaxial strength of the whole core per storey and combination",
-                    results.CORE_NM_COLUMNS,
+                    _cols(results.CORE_NM_COLUMNS, named),
                     core_nm,
                     preamble=stamp
                     + [
@@ -303,7 +311,7 @@ def compute(
             ResultSheet(
                 results.CORE_SHEET,
                 f"{results.MARKER}: core actions shared to walls (rigid floor) and piers",
-                results.CORE_COLUMNS,
+                _cols(results.CORE_COLUMNS, named),
                 core,
                 preamble=stamp
                 + [
@@ -312,9 +320,16 @@ def compute(
                         "direct shear by stiffness through the centre of rigidity; torsion "
                         "M about CR = T* + Vy* (x - xr) - Vx* (y - yr), shared by k r / sum k r^2",
                     ),
+                    ("Wall stiffness for sharing", _wall_sharing_text(s)),
                     (
                         "Accidental eccentricity",
-                        f"{s.accidental:g} x plan dimension, in the sense that increases each wall's force",
+                        f"{s.accidental:g} x plan dimension, in the sense that increases each wall's force"
+                        + (
+                            "; for the building's rows shared among several cores it acts at the "
+                            "building level instead (Results cores)"
+                            if named
+                            else ""
+                        ),
                     ),
                     (
                         "Piers",
@@ -335,28 +350,106 @@ def compute(
                 ],
             )
         )
+    if split is not None and len(split.shares):
+        sheets.append(
+            ResultSheet(
+                results.CORES_SHEET,
+                f"{results.MARKER}: the building's storey resultants shared among its cores",
+                results.CORES_COLUMNS,
+                split.shares,
+                preamble=stamp
+                + [
+                    (
+                        "Shear and torsion",
+                        "rigid floor over the cores, each core a pair of springs along the principal "
+                        "directions of its flexural rigidity E [[Iyy, Ixy], [Ixy, Ixx]] at its own "
+                        "centre of rigidity (cantilevers of one height under one load shape share in "
+                        "proportion to EI: Smith & Coull, Tall Building Structures, 1991, uniform walls); "
+                        "a core's own torsional stiffness is not counted, so it takes its share at its "
+                        "CR with T = 0 there",
+                    ),
+                    ("Moments", "(My, Mx) by the same rigidity at one curvature, about each core's centroid"),
+                    (
+                        "Axial force",
+                        "by area, N* A_core / A (stated assumption; give per-core rows where the "
+                        "gravity load on each core is known)",
+                    ),
+                    (
+                        "Accidental eccentricity",
+                        f"{s.accidental:g} x plan dimension of all the cores, at the building level, in "
+                        "the sense that increases each core's force (none added again within a core)",
+                    ),
+                    (
+                        "Statics",
+                        "shares add back to the building's resultants: forces; moments about the "
+                        "centroid of all the cores (N couples cancel); torsion about the building CR "
+                        "as the moment of the cores' shears at their CRs",
+                    ),
+                    ("Within each core", _wall_sharing_text(s)),
+                    (
+                        "Used for",
+                        "core checks only: member actions are given for that storey and combination, "
+                        "so the piers take those",
+                    ),
+                ],
+            )
+        )
     return Outcome(building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans)
 
 
 def pier_actions(
     building: Building, piers: pd.DataFrame, walls: pd.DataFrame, plans: dict
-) -> tuple[pd.DataFrame, pd.DataFrame | None]:
+) -> tuple[pd.DataFrame, pd.DataFrame | None, cores.CoreSplit | None]:
     """Pier actions from the member-actions sheet and, for storey x combination pairs it does
-    not cover, from the core-actions sheet. Returns them and the core-sharing table."""
+    not cover, from the core-actions sheet (shared among the cores, then within each core).
+    Returns them, the core-sharing table and each core's actions."""
     s = building.settings
     member = distribution.pier_actions(piers, building.member_actions, s.wall_nm)
     member["origin"] = 0
     if building.core_actions.empty:
-        return member, None
-    core = distribution.core_actions_to_piers(
-        piers, walls, plans, building.core_actions, s.accidental, s.core_local_moment
-    )
+        return member, None, None
+    split = cores.share_among_cores(piers, plans, building.core_actions, s.accidental)
+    core = cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment)
     # core-actions rows (one per storey x combination) whose pair the member actions cover
     ca = building.core_actions
     given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()
     core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
     table = core_table(core, given)
-    return pd.concat([member, core_piers], ignore_index=True), table
+    core_piers = core_piers.drop(columns=["core"])
+    if len(split.shares):
+        split.shares["used"] = np.where(
+            split.shares.row.isin(given),
+            "core checks only",
+            "core checks and piers",
+        )
+    return pd.concat([member, core_piers], ignore_index=True), table, split
+
+
+def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) -> pd.DataFrame:
+    """A whole-core check run on each core's own section and actions; one table with `core`."""
+    parts = [
+        check(piers[piers.core == c], plans[c], rows.drop(columns=["core", "acc"]), s).assign(core=c)
+        for c, rows in actions.groupby("core", sort=False)
+    ]
+    parts = [p for p in parts if len(p)]
+    if len(parts) > 1:  # several cores: each storey x combination's cores together
+        return pd.concat(parts, ignore_index=True).sort_values("row", kind="stable", ignore_index=True)
+    return parts[0] if parts else pd.DataFrame()
+
+
+def _cols(columns: list[results.ResultColumn], named: bool) -> list[results.ResultColumn]:
+    """A table's columns; the core column only where the walls carry core IDs."""
+    return columns if named else [c for c in columns if c.key != "core"]
+
+
+def _wall_sharing_text(s) -> str:
+    if s.wall_sharing == stiffness.WHOLE_HEIGHT:
+        return (
+            "whole-height cantilever: each wall over its overall height, flexure + shear, "
+            "k = 1 / (H^3 / (3 E I) + 1.2 H / (G A)), openings softening it as over one storey "
+            "(Project setting)"
+        )
+    return f"one storey's stiffness: clear height, {s.pier_fixity}, flexure + shear (Project setting)"
 
 
 def _pairs(df: pd.DataFrame) -> pd.Series:
@@ -383,8 +476,9 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFram
     out = pd.concat([w, p], ignore_index=True)
     out["used"] = np.where(out.row.isin(given), "no: member actions given", "yes")
     out["kind_order"] = (out.kind == "pier").astype(int)
+    out["core_order"] = out.core.map({c: i for i, c in enumerate(dict.fromkeys(out.core))})
     out = out.sort_values(
-        ["row", "kind_order", "member"],
+        ["row", "core_order", "kind_order", "member"],
         kind="stable",
         key=lambda c: geometry.natural_rank(c) if c.name == "member" else c,
     )
@@ -651,7 +745,12 @@ def worst_per_check(
     if stress is not None:
         line("core elastic stress", stress, "util", lambda r: f"{r.wall_id}, {r.storey}, {r.combination}")
     if core_nm is not None:
-        line("core axial + bending", core_nm, "util", lambda r: f"{r.storey}, {r.combination}")
+        line(
+            "core axial + bending",
+            core_nm,
+            "util",
+            lambda r: ", ".join(x for x in (str(r.get("core", "") or ""), r.storey, r.combination) if x),
+        )
     return out
 
 

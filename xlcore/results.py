@@ -65,6 +65,7 @@ ADVICE_SHEET = RESULT_PREFIX + "advice"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
 CORE_NM_SHEET = RESULT_PREFIX + "core N-M"
 CORE_SHEET = RESULT_PREFIX + "core shares"
+CORES_SHEET = RESULT_PREFIX + "cores"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
 
@@ -189,6 +190,7 @@ AXIAL_COLUMNS = [
 CORE_STRESS_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("wall_id", "Wall", width=7),
     _c("sigma_start", "sigma at start", "MPa", "0.00"),
     _c("sigma_end", "sigma at end", "MPa", "0.00"),
@@ -211,6 +213,7 @@ CORE_STRESS_COLUMNS = [
 CORE_NM_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("n", "N*", "kN", "0"),
     _c("mx", "Mx*", "kNm", "0"),
     _c("my", "My*", "kNm", "0"),
@@ -278,6 +281,7 @@ ADVICE_COLUMNS = [
 
 SECTION_COLUMNS = [
     _c("storey", "Storey", width=8),
+    _c("core", "Core", width=9),
     _c("area", "A", "m2", "0.000", 9),
     _c("xc", "Centroid x", "m", "0.000"),
     _c("yc", "Centroid y", "m", "0.000"),
@@ -296,6 +300,7 @@ SECTION_COLUMNS = [
 CORE_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
     _c("member", "Member", width=9),
     _c("kind", "Kind", width=6),
     _c("k", "k", "kN/mm", "0", 9),
@@ -311,6 +316,38 @@ CORE_COLUMNS = [
     _c("m_acc", "Accidental M", "kNm", "0.0"),
     _c("used", "Used", width=22),
     _c("working", "Working", width=70),
+]
+
+CORES_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("combination", "Combination", width=15),
+    _c("core", "Core", width=9),
+    _c("ei_yy", "EI about y", "GNm2", "0", 10),
+    _c("ei_xx", "EI about x", "GNm2", "0", 10),
+    _c("ei_xy", "EI product", "GNm2", "0", 10),
+    _c("area", "Area", "m2", "0.000", 8),
+    _c("share_vx", "Share of Vx*", "%", "0.0", 8),
+    _c("share_vy", "Share of Vy*", "%", "0.0", 8),
+    _c("share_t", "Share of torsion", "%", "0.0", 9),
+    _c("share_n", "Share of N*", "%", "0.0", 8),
+    _c("share_mx", "Share of Mx*", "%", "0.0", 8),
+    _c("share_my", "Share of My*", "%", "0.0", 8),
+    _c("n", "N", "kN", "0.0"),
+    _c("vx", "Vx", "kN", "0.0"),
+    _c("vy", "Vy", "kN", "0.0"),
+    _c("mx", "Mx", "kNm", "0.0"),
+    _c("my", "My", "kNm", "0.0"),
+    _c("m_tors", "Moment of its torsional shear about building CR", "kNm", "0.0", 14),
+    _c("m_cr", "Storey moment about building CR", "kNm", "0.0", 13),
+    _c("m_acc", "Accidental moment", "kNm", "0.0", 10),
+    _c("xc", "Core centroid x", "m", "0.000", 9),
+    _c("yc", "Core centroid y", "m", "0.000", 9),
+    _c("xr_core", "Core CR x", "m", "0.000", 9),
+    _c("yr_core", "Core CR y", "m", "0.000", 9),
+    _c("xr", "Building CR x", "m", "0.000", 9),
+    _c("yr", "Building CR y", "m", "0.000", 9),
+    _c("used", "Used for", width=18),
+    _c("working", "Working", width=90),
 ]
 
 

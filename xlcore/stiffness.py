@@ -59,12 +59,37 @@ def wall_stiffness(piers: pd.DataFrame, nu: float, fixity: str) -> pd.DataFrame:
         ux=("ux", "first"),
         uy=("uy", "first"),
         n_piers=("pier_id", "size"),
+        core=("core", "first"),
+        H_wall=("H_wall", "first"),
     ).reset_index()
     L = walls.L * 1000.0
     solid = flexibility(L, walls.tw, walls.Hc, walls.Ec, nu, c)
     cut = walls.strip.notna()
     strip = flexibility(L, walls.tw, walls.strip.fillna(0.0), walls.Ec, nu, c)
     walls["k"] = np.where(cut, 1.0 / (solid - strip + 1.0 / walls.k_piers), 1.0 / solid)
+    walls["k_storey"] = walls.k
+    walls["k_solid"] = 1.0 / solid
     walls["mx"] = walls.wx + walls.ux * walls.L / 2  # a point on the wall's line of action [m]
     walls["my"] = walls.wy + walls.uy * walls.L / 2
     return walls
+
+
+STOREY_STIFFNESS, WHOLE_HEIGHT = "one storey's stiffness", "whole-height cantilever"  # layout.WALL_SHARING
+
+
+def sharing_stiffness(walls: pd.DataFrame, nu: float, basis: str) -> pd.DataFrame:
+    """The stiffness `k` [N/mm] that shares a core's storey shear among its walls.
+
+    One storey's stiffness (`wall_stiffness`, the pier end condition) as it is, or each wall as
+    a cantilever over its overall height H (base of its lowest storey to the top of its highest),
+    flexure + shear, k = 1 / (H^3 / (3 E I) + 1.2 H / (G A)) with the storey's thickness and Ec,
+    softened by openings in the same ratio as over one storey (k_storey / k of the solid wall
+    over the storey). Tall walls of one core deflect together as cantilevers, so this shares by
+    flexural rigidity (docs/engineering-basis.md, Sharing actions: Smith & Coull's uniform-wall
+    case within a core); the opening ratio is common practice, no source."""
+    if basis != WHOLE_HEIGHT:
+        return walls
+    out = walls.copy()
+    cant = 1.0 / flexibility(out.L * 1000.0, out.tw, out.H_wall, out.Ec, nu, END_FACTOR["cantilever"])
+    out["k"] = cant * out.k_storey / out.k_solid
+    return out

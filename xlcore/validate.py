@@ -511,12 +511,26 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
     index = {s.name: s.index for s in storeys}
     out: list[WallRun] = []
     spans: dict[str, list[tuple[int, int, int]]] = defaultdict(list)
+    cores: dict[str, tuple[str, int]] = {}  # wall ID -> (core, first row)
     for rec in df.itertuples(index=False):
         rng = _storey_range(rec, df, t, index, f)
         values = rec._asdict()
+        core = values.get("core")
+        values["core"] = "" if core is None or core != core else core  # blank (None/NaN): one core
         if any(v is None or (isinstance(v, float) and math.isnan(v)) for v in values.values()):
             continue
         wall = WallRun(**values)
+        if wall.wall_id in cores and cores[wall.wall_id][0] != wall.core:
+            first, first_row = cores[wall.wall_id]
+            f.error(
+                t.name,
+                _at(df, "core", rec.row),
+                f"found core {show(wall.core or None)} for wall {wall.wall_id!r}; expected "
+                f"{show(first or None)} as in row {first_row}: a wall belongs to one core over its "
+                "whole height",
+            )
+            continue
+        cores.setdefault(wall.wall_id, (wall.core, rec.row))
         if wall.length < 0.05:
             f.error(
                 t.name,
@@ -542,6 +556,16 @@ def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[
         if rng is not None:
             spans[wall.wall_id].append((rng[0], rng[1], rec.row))
             out.append(wall)
+    named = sorted({c for c, _ in cores.values() if c})
+    unnamed = sorted((r, w) for w, (c, r) in cores.items() if not c)
+    if named and unnamed:
+        r, w = unnamed[0]
+        f.error(
+            t.name,
+            _at(df, "core", r),
+            f"blank core for wall {w!r} ({len(unnamed)} wall(s) without one) while other walls name "
+            f"cores ({', '.join(map(repr, named))}); expected a core ID on every wall, or on none",
+        )
     for wall_id, lst in spans.items():
         lst.sort()
         for (_a0, a1, ra), (b0, _b1, rb) in zip(lst, lst[1:], strict=False):
@@ -566,7 +590,8 @@ def _unsound_ids(df: pd.DataFrame | None, walls: list[WallRun]) -> set[str] | No
     """Wall IDs with a row that did not parse or was refused (None: the sheet did not parse)."""
     if df is None:
         return None
-    bad = df.drop(columns=["row"]).isna().any(axis=1) & df.wall_id.notna()
+    optional = ["row"] + [c.key for c in layout.WALLS.columns if not c.required and c.key in df]
+    bad = df.drop(columns=optional).isna().any(axis=1) & df.wall_id.notna()
     good = {w.wall_id for w in walls}
     return set(df.wall_id[bad]) | (set(df.wall_id.dropna()) - good)
 
@@ -824,30 +849,110 @@ def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of
     return ~known.to_numpy() | (~valid & ~blank) | repeated | mixed
 
 
+def _unit_centre(w: pd.DataFrame) -> tuple[float, float] | None:
+    """Centre of rigidity of walls with equal stiffness, or None when they cannot resist shear
+    in both directions and torsion (all parallel or all meeting at one point)."""
+    st = diaphragm.Storey(
+        np.ones(len(w)),
+        w.ux.to_numpy(),
+        w.uy.to_numpy(),
+        (w.wx + w.ux * w.wall_length / 2).to_numpy(),
+        (w.wy + w.uy * w.wall_length / 2).to_numpy(),
+    )
+    try:
+        return diaphragm.centre_of_rigidity(st)
+    except diaphragm.Unstable:
+        return None
+
+
 def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:
-    """Core actions need walls that resist both shear directions and torsion at that storey."""
-    first = df.dropna(subset=["storey"]).drop_duplicates("storey")
+    """Core actions need, in every core they reach, walls that resist both shear directions and
+    torsion on their own at that storey (a core gets its share of the storey shear at its own
+    centre of rigidity and shares it among its walls by a rigid floor). A row naming a core
+    reaches that core; a blank one reaches every core at the storey."""
     walls = geom.piers.drop_duplicates(["storey", "wall_id"])
-    for rec in first.itertuples(index=False):
-        w = walls[walls.storey == rec.storey]
-        if w.empty:
+    walls_at = dict(tuple(walls.groupby("storey", sort=False)))
+    rows = df.dropna(subset=["storey"])
+    rows = rows.assign(core=rows.core.fillna(""))
+    centre: dict[tuple[str, str], tuple[float, float] | None] = {}
+    reported: set[tuple[str, str]] = set()
+    for rec in rows.drop_duplicates(["storey", "core"]).itertuples(index=False):
+        here = walls_at.get(rec.storey)
+        if here is None:
             continue
-        st = diaphragm.Storey(
-            np.ones(len(w)),
-            w.ux.to_numpy(),
-            w.uy.to_numpy(),
-            (w.wx + w.ux * w.wall_length / 2).to_numpy(),
-            (w.wy + w.uy * w.wall_length / 2).to_numpy(),
-        )
-        try:
-            diaphragm.centre_of_rigidity(st)
-        except diaphragm.Unstable:
+        cores = [rec.core] if rec.core else list(dict.fromkeys(here.core))
+        for core in cores:
+            w = here[here.core == core]
+            key = (rec.storey, core)
+            if w.empty or key in reported:
+                continue
+            if key not in centre:
+                centre[key] = _unit_centre(w)
+            if centre[key] is not None:
+                continue
+            reported.add(key)
+            if not core:  # a building without core IDs: today's words
+                f.error(
+                    layout.CORE_ACTIONS.name,
+                    _at(df, "storey", rec.row),
+                    f"the walls at storey {rec.storey} ({', '.join(w.wall_id)}) cannot resist shear in "
+                    "both directions and torsion (all parallel or all meeting at one point); expected "
+                    "member actions for this storey instead of core actions",
+                )
+            else:
+                f.error(
+                    layout.CORE_ACTIONS.name,
+                    _at(df, "storey", rec.row),
+                    f"the walls of core {core!r} at storey {rec.storey} ({', '.join(w.wall_id)}) "
+                    "cannot resist shear in both directions and torsion on their own (all parallel "
+                    "or all meeting at one point), and this row gives that core actions; expected "
+                    "walls that brace each other in every core that gets actions (or those walls in "
+                    "one core with others), or member actions for this storey",
+                )
+        if not rec.core and len(cores) > 1:
+            points = [centre.get((rec.storey, c)) for c in cores]
+            if all(p is not None for p in points) and np.ptp(np.array(points), axis=0).max() < 1e-3:
+                f.error(
+                    layout.CORE_ACTIONS.name,
+                    _at(df, "storey", rec.row),
+                    f"the cores at storey {rec.storey} ({', '.join(map(repr, cores))}) have their "
+                    "centres of rigidity at one point, so the floor's rotation is not resisted when "
+                    "the building's actions are shared among them; expected actions per core "
+                    "(name the core in each row)",
+                )
+
+
+def _core_names(df: pd.DataFrame, geom, f: Findings) -> None:
+    """A core named in a core-actions row must be a core of the walls sheet; a storey and
+    combination takes either the building's resultants (blank core) or rows per core."""
+    t = layout.CORE_ACTIONS
+    core = df.core.fillna("")
+    if not (core != "").any():
+        return
+    known = set(geom.piers.core) - {""} if geom is not None else None
+    blank_pairs = {
+        (s, c) for s, c, k in zip(df.storey, df.combination, core, strict=True) if k == "" and s is not None
+    }
+    for rec, name in zip(df[["row", "storey", "combination"]].itertuples(index=False), core, strict=True):
+        if not name:
+            continue
+        if known is not None and name not in known:
+            expected = (
+                "a core named on the walls sheet (" + ", ".join(sorted(map(repr, known))) + ")"
+                if known
+                else "blank: the walls sheet names no cores (give walls a core ID first)"
+            )
             f.error(
-                layout.CORE_ACTIONS.name,
-                _at(df, "storey", rec.row),
-                f"the walls at storey {rec.storey} ({', '.join(w.wall_id)}) cannot resist shear in "
-                "both directions and torsion (all parallel or all meeting at one point); expected "
-                "member actions for this storey instead of core actions",
+                t.name,
+                _at(df, "core", rec.row),
+                f"found {show(name)}; expected {expected}" + (suggest(name, known) if known else ""),
+            )
+        elif (rec.storey, rec.combination) in blank_pairs:
+            f.error(
+                t.name,
+                _at(df, "core", rec.row),
+                f"core {name!r} has its own row at {rec.storey} for {rec.combination!r}, and a row "
+                "with a blank core gives the building's resultants there too; expected one or the other",
             )
 
 
@@ -855,11 +960,16 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
     t = layout.CORE_ACTIONS
     if df is None:
         return pd.DataFrame(columns=["row", *t.keys])
-    if geom is not None:
+    if "core" not in df:
+        df = df.assign(core=None)
+    df["core"] = df.core.where(df.core.notna(), "").astype(object)  # blank: the building's row
+    n_errors = len(f.errors)
+    _core_names(df, geom, f)
+    if geom is not None and len(f.errors) == n_errors:
         _stable_storeys(df, geom, f)
     index = {s.name for s in storeys}
     seen: dict[tuple, int] = {}
-    for rec in df[["row", "storey", "combination"]].itertuples(index=False):
+    for rec in df[["row", "storey", "combination", "core"]].itertuples(index=False):
         if rec.storey is not None and index and rec.storey not in index:
             f.error(
                 t.name,
@@ -868,13 +978,14 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
                 + suggest(rec.storey, index),
             )
             continue
-        key = (rec.storey, rec.combination)
+        key = (rec.storey, rec.combination, rec.core or "")
         if None not in key and key in seen:
+            of = f" for core {rec.core!r}" if rec.core else ""
             f.error(
                 t.name,
                 _at(df, "combination", rec.row),
-                f"{rec.combination!r} at {rec.storey} is also given in row {seen[key]}; "
-                "expected one row per storey and combination",
+                f"{rec.combination!r} at {rec.storey}{of} is also given in row {seen[key]}; "
+                "expected one row per storey and combination" + (" and core" if rec.core else ""),
             )
         seen.setdefault(key, rec.row)
     return df
