@@ -56,6 +56,10 @@ def test_beside_the_workbook_with_stamp_and_caution_on_every_page(demo):
         assert project in text
         assert f"computed {when} UTC" in text and digest[:12] in text  # the workbook's time
         assert f"Page {i} of {len(pages)}" in text
+    cores = sorted(set(run.outcome.piers.core) - {""})
+    assert cores == ["lift", "stair"]  # the demo: two cores joined only by the slabs (xlcore.demo)
+    for core in cores:  # the demo names its cores: one set of utilisation charts each
+        assert f"Utilisation up the height: core {core}" in "\n".join(pages)
     cover = _flat(pages[0])
     assert _flat(xlcore.CAUTION) in cover
     assert digest in cover and _flat(when) in cover
