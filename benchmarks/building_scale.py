@@ -7,6 +7,7 @@ between machines, so compare ratios from one run.
 
     python benchmarks/building_scale.py                 # S and M, 3 runs each
     python benchmarks/building_scale.py S M L --runs 3  # choose sizes and runs
+    python benchmarks/building_scale.py M --detail all --libreoffice  # every row; time LibreOffice
 """
 
 from __future__ import annotations
@@ -15,6 +16,7 @@ import argparse
 import json
 import math
 import resource
+import shutil
 import statistics
 import subprocess
 import sys
@@ -86,28 +88,52 @@ def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
     return rows
 
 
-def measure(path: str) -> dict:
-    """Run in a fresh process: phases of compute, peak memory, then the floor on the same data."""
+def measure(path: str, detail: str = "auto", spawned: float | None = None) -> dict:
+    """Run in a fresh process: phases of compute (the rows chosen by `--detail`, the workbook
+    and the Parquet files of the full tables written as `xlcore compute` writes them), peak
+    memory, then the floor on the same data: the input cells read, the cells actually written."""
     from xlcore import pipeline
     from xlcore.validate import build
+    from xlcore.workbook import tables, writer
     from xlcore.workbook.reader import read_workbook
-    from xlcore.workbook.writer import write_results
 
     src = Path(path)
+    dst = src.with_name("out.xlsx")
     out: dict[str, float] = {}
+    # interpreter start and imports, from the parent's clock before it started this process
+    out["startup"] = time.time() - spawned if spawned else 0.0
     t = time.perf_counter()
     raw = read_workbook(src)
     out["read"] = time.perf_counter() - t
     t = time.perf_counter()
     b, f = build(raw)
     out["validate"] = time.perf_counter() - t
-    o = pipeline.compute(b, f)
+    o = pipeline.compute(b, f, detail=detail)
     out |= o.timings
+    out["peak_compute_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+    stage = tables.stage
+
+    def timed_stage(*args, **kwargs):  # the Parquet files' share of the write phase
+        t0 = time.perf_counter()
+        try:
+            return stage(*args, **kwargs)
+        finally:
+            out["parquet"] = time.perf_counter() - t0
+
+    writer.full_tables.stage = timed_stage
     t = time.perf_counter()
-    write_results(src, src.with_name("out.xlsx"), o.sheets, force=True, overwrite=True)
+    pipeline.select_detail(o, detail, tables.folder_for(dst).name)
+    writer.write_results(src, dst, o.sheets, force=True, overwrite=True, tables=o.full_tables)
     out["write"] = time.perf_counter() - t
     out["peak_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     out["cells"] = sum(len(s.table) * len(s.columns) for s in o.sheets)
+    out["rows_written"] = sum(len(s.table) for s in o.sheets)
+    out["rows_full"] = out["rows_written"] + sum(
+        len(t.table) - len(s.table) for t in o.full_tables for s in o.sheets if s.name == t.name
+    )
+    out["book_mb"] = dst.stat().st_size / 1e6
+    folder = tables.folder_for(dst)
+    out["parquet_mb"] = sum(p.stat().st_size for p in folder.iterdir()) / 1e6 if folder.is_dir() else 0.0
     out["floor_read"] = floor_read(src)
     t = time.perf_counter()
     floor_write(src.with_name("floor.xlsx"), [(s.table, [c.key for c in s.columns]) for s in o.sheets])
@@ -165,13 +191,53 @@ def floor_write(path: Path, tables: list) -> None:
                 part.write(b"</sheetData></worksheet>")
 
 
-def main(sizes: list[str], runs: int) -> None:
-    print(f"medians of {runs} runs, seconds; kernels = geometry + sharing + checks + core checks + advice")
+def libreoffice_open(path: Path, profile: Path) -> float | None:
+    """Seconds for LibreOffice, headless, to open the workbook and write its first sheet as CSV
+    (`soffice --convert-to csv`): loading every sheet is most of it. None where it is not
+    installed. A tiny file is converted first with the same profile, so the profile's creation
+    on first start is not counted."""
+    soffice = shutil.which("soffice")
+    if soffice is None:
+        return None
+    env = f"-env:UserInstallation=file://{profile}"
+
+    def convert(p: Path) -> float:
+        t = time.perf_counter()
+        subprocess.run(
+            [
+                soffice,
+                env,
+                "--headless",
+                "--convert-to",
+                "csv",
+                "--outdir",
+                str(profile.parent / "csv"),
+                str(p),
+            ],
+            capture_output=True,
+            timeout=900,
+            check=True,
+        )
+        return time.perf_counter() - t
+
+    warm = profile.parent / "warm.csv"
+    warm.write_text("1,2\n")
+    convert(warm)
+    return convert(path)
+
+
+def main(sizes: list[str], runs: int, detail: str, lo: bool) -> None:
+    print(
+        f"medians of {runs} runs, seconds; --detail {detail}; kernels = geometry + sharing + checks + "
+        "core checks + advice; write = workbook + Parquet files (parquet: their share)"
+    )
     head = "".join(f"{p[:7]:>8}" for p in PHASES)
     print(
-        f"{'size':<5}{'cases':>9}{head}{'total':>8}{'f.read':>8}{'f.write':>8}{'ratio':>7}{'kernel%':>8}{'MB':>7}"
+        f"{'size':<5}{'cases':>9}{head}{'parquet':>8}{'total':>8}{'f.read':>8}{'f.write':>8}{'ratio':>7}"
+        f"{'kernel%':>8}{'peakMB':>7}"
     )
     totals = {}
+    books = {}
     for size in sizes:
         storeys, boxes, combos = SIZES[size]
         with tempfile.TemporaryDirectory() as d:
@@ -180,14 +246,22 @@ def main(sizes: list[str], runs: int) -> None:
             results = []
             for _ in range(runs):
                 r = subprocess.run(
-                    [sys.executable, __file__, "--measure", str(path)], capture_output=True, text=True
+                    [sys.executable, __file__, "--measure", str(path), detail, repr(time.time())],
+                    capture_output=True,
+                    text=True,
                 )
                 if r.returncode:
                     print(size, "failed:", r.stderr[-800:])
                     break
                 results.append(json.loads(r.stdout))
+            lo_s = (
+                libreoffice_open(path.with_name("out.xlsx"), Path(d) / "lo-profile")
+                if lo and results
+                else None
+            )
         if not results:
             continue
+        books[size] = (results[-1], lo_s)
         for m in results:
             m["total"] = sum(m.get(p, 0.0) for p in PHASES)
             m["floor"] = m["floor_read"] + m["floor_write"]
@@ -200,8 +274,32 @@ def main(sizes: list[str], runs: int) -> None:
         totals[size] = (cases, med("total"))
         cells = "".join(f"{med(p):>8.2f}" for p in PHASES)
         print(
-            f"{size:<5}{cases:>9,}{cells}{med('total'):>8.2f}{med('floor_read'):>8.2f}{med('floor_write'):>8.2f}"
-            f"{med('ratio'):>7.2f}{med('kernel'):>8.1f}{med('peak_mb'):>7.0f}"
+            f"{size:<5}{cases:>9,}{cells}{med('parquet'):>8.2f}{med('total'):>8.2f}{med('floor_read'):>8.2f}"
+            f"{med('floor_write'):>8.2f}{med('ratio'):>7.2f}{med('kernel'):>8.1f}{med('peak_mb'):>7.0f}"
+        )
+    print()
+    print("end to end = interpreter start and imports + the phases above (last run); rows and sizes of it")
+    head = (
+        "size",
+        "start",
+        "end to end",
+        "rows computed",
+        "rows written",
+        "workbook MB",
+        "Parquet MB",
+        "peak@compute",
+    )
+    print(f"{head[0]:<5}" + "".join(f"{h:>14}" for h in head[1:]) + f"{'LibreOffice open s':>20}")
+    for size, (m, lo_s) in books.items():
+        shown = (
+            "not installed"
+            if lo_s is None and shutil.which("soffice") is None
+            else ("not run" if lo_s is None else f"{lo_s:.1f}")
+        )
+        cells = (m["startup"], m["startup"] + m["total"], m["rows_full"], m["rows_written"])
+        print(
+            f"{size:<5}{cells[0]:>14.2f}{cells[1]:>14.2f}{cells[2]:>14,.0f}{cells[3]:>14,.0f}"
+            f"{m['book_mb']:>14.1f}{m['parquet_mb']:>14.1f}{m['peak_compute_mb']:>14.0f}{shown:>20}"
         )
     if "M" in totals and "L" in totals:
         (cm, tm), (cl, tl) = totals["M"], totals["L"]
@@ -213,10 +311,14 @@ def main(sizes: list[str], runs: int) -> None:
 
 if __name__ == "__main__":
     if len(sys.argv) > 2 and sys.argv[1] == "--measure":
-        print(json.dumps(measure(sys.argv[2])))
+        print(json.dumps(measure(sys.argv[2], sys.argv[3], float(sys.argv[4]))))
     else:
         ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
         ap.add_argument("sizes", nargs="*", default=["S", "M"], choices=sorted(SIZES))
         ap.add_argument("--runs", type=int, default=3)
+        ap.add_argument("--detail", default="auto", choices=["auto", "governing", "all"])
+        ap.add_argument(
+            "--libreoffice", action="store_true", help="also time LibreOffice opening the computed workbook"
+        )
         a = ap.parse_args()
-        main(a.sizes, a.runs)
+        main(a.sizes, a.runs, a.detail, a.libreoffice)

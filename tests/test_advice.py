@@ -170,3 +170,39 @@ def test_screened_search_over_storeys_and_combinations_equals_exhaustive_search_
             expected = ok.option.iloc[0] if len(ok) else "none in the search range passes every check"
             got = fast.loc[(storey, kind), "option"]
             assert got == expected or got.startswith("none: horizontal bars")
+
+
+def test_end_zone_option_passes_and_every_cheaper_one_fails():
+    """Tension with bending (issue 14 §4): the cheapest end-zone option passes every check and
+    every cheaper end-zone option in the search space fails (the search's own claim)."""
+    piers = one_pier()
+    a = acts(200.0, n=-2000.0, m=1500.0)
+    opts = evaluate_options(piers, a, TARGET, Settings())
+    zones = opts[opts.kind == "end-zone bars"]
+    assert len(zones) > 10
+    passing = zones[zones.util <= 1.0].sort_values("added_cost")
+    assert len(passing) and len(passing) < len(zones)
+    best = passing.iloc[0]
+    cheaper = zones[zones.added_cost < best.added_cost - 1e-9]
+    assert len(cheaper) and (cheaper.util > 1.0).all()
+    assert "at each end" in best.option
+
+
+def test_end_zone_cost_by_hand():
+    """8N20 at each end of the 3 m pier: 2 x 8 x 314.16 = 5026.5 mm2 = 0.0050265 m2 per m height
+    x 7850 kg/m3 = 39.46 kg x 2.4 per kg (2400 per t, the illustrative default) = 94.70 per m."""
+    opts = evaluate_options(one_pier(), acts(200.0, n=-2000.0, m=1500.0), TARGET, Settings())
+    row = opts[(opts.kind == "end-zone bars") & opts.option.str.startswith("8N20 ")].iloc[0]
+    assert row.added_cost == pytest.approx(94.70, abs=0.01)
+
+
+def test_end_zone_bars_are_offered_first_where_axial_and_bending_fails():
+    piers = one_pier()
+    a = acts(200.0, n=-2000.0, m=1500.0)
+    failing = dict(storey=["L1"], pier_id=["W1"], status=["FAIL"], util=[1.4])
+    nm = advise(piers, a, pd.DataFrame(failing | dict(check=["axial + bending"])), Settings())
+    top = nm[nm["rank"] == 1].iloc[0]
+    assert top.kind == "end-zone bars" and top.util <= 1.0
+    other = advise(piers, a, pd.DataFrame(failing | dict(check=["in-plane shear"])), Settings())
+    ranked = other.dropna(subset=["rank"]).sort_values("rank")
+    assert ranked.added_cost.is_monotonic_increasing  # elsewhere the cheapest change ranks first

@@ -281,3 +281,19 @@ def test_whole_height_sharing_among_unequal_walls_by_hand():
          for n, length in (("Ka", 6000.0), ("Kc", 3000.0))}
     assert out.loc["Ka", "v"] == pytest.approx(600.0 * k["Ka"] / (k["Ka"] + k["Kc"]), rel=1e-9)
     assert out.loc["Kc", "v"] == pytest.approx(600.0 * k["Kc"] / (k["Ka"] + k["Kc"]), rel=1e-9)
+
+
+def test_a_building_without_core_ids_takes_the_single_section_path_unchanged():
+    """No core IDs: the cores step hands every row to the one core and the pier actions equal,
+    exactly, those of the single-section path used before core IDs existed."""
+    sts, walls, openings = demo_model()
+    blank = [w.model_copy(update={"core": ""}) for w in walls]
+    piers, wl, plans = prepare(sts, blank, openings)
+    rows = frame(demo.core_actions())
+    split = cores.share_among_cores(piers, plans, rows, 0.05)
+    assert split.shares.empty and (split.actions.core == "").all()
+    new = cores.core_actions_to_piers(piers, wl, plans, split.actions).piers
+    one = distribution.storey_plans(piers, wl)
+    old = distribution.core_actions_to_piers(piers, wl, one, rows, 0.05).piers
+    cols = distribution.ACTION_COLUMNS + distribution.CORE_PIER_EXTRA
+    pd.testing.assert_frame_equal(new[cols], old[cols], check_exact=True)

@@ -622,7 +622,7 @@ SECOND_VALUE_CASES = {
         "G\u00a0F",
         "invisible",
     ),
-    "member in another case": ((A.name, cell(A, "member", 2)), "lw1-1", "only by case"),
+    "member in another case": ((A.name, cell(A, "member", 2)), "lifte", "only by case"),
 }
 
 

@@ -184,3 +184,28 @@ def test_computed_workbook_with_a_sheet_added_in_libreoffice_recomputes(demo_mas
         n.startswith(layout.RESULT_PREFIX) for n in openpyxl.load_workbook(book, read_only=True).sheetnames
     )
     lo("resave", added, tmp_path / "opens.xlsx")  # LibreOffice still opens what we wrote
+
+
+def test_a_governing_rows_workbook_recomputes_after_libreoffice_saves_it(demo_master, tmp_path):
+    """Issue 15 section 1: a workbook holding only governing rows (full tables in Parquet
+    beside it) is opened and saved in LibreOffice, then computed again in the same mode."""
+    import pyarrow.parquet as pq
+
+    from xlcore.workbook import tables
+    from xlcore.workbook.reader import stored_input_hash
+
+    book = tmp_path / "demo.xlsx"
+    shutil.copy(demo_master, book)
+    r = _xlcore("compute", book, "--detail", "governing", "-q")
+    assert r.returncode == 0, r.stderr
+    again = tmp_path / "again.xlsx"
+    lo("resave", book, again)
+    assert "up to date" in _xlcore("check", again, "-q").stdout
+    r = _xlcore("compute", again, "--detail", "governing", "-q")
+    assert r.returncode == 0, r.stderr
+    files = sorted(tables.folder_for(again).iterdir())
+    assert [p.name for p in files] == sorted(p.name for p in tables.folder_for(book).iterdir()) != []
+    stored = stored_input_hash(again)
+    assert all(pq.read_schema(p).metadata[b"xlcore.input_hash"].decode() == stored for p in files)
+    names = openpyxl.load_workbook(again, read_only=True).sheetnames
+    assert names.count(results.SHEAR_SHEET) == 1

@@ -77,6 +77,31 @@ CASES = [
         where(OP, "storey_from", 2),
         "does not exist at storey L10",
     ),
+    # lintel reinforcement (Openings rows 2-3: lift doors with diagonal groups; row 4: riser)
+    ("diagonal bars without size", {at(OP, "diag_dia", 2): None}, where(OP, "diag_dia", 2), "found blank"),
+    ("diagonal size without bars", {at(OP, "diag_bars", 3): None}, where(OP, "diag_bars", 3), "is given"),
+    ("lintel bars without size", {at(OP, "lintel_dia", 4): None}, where(OP, "lintel_dia", 4), "found blank"),
+    (
+        "fitments without spacing",
+        {at(OP, "stirrup_spacing", 4): None},
+        where(OP, "stirrup_spacing", 4),
+        "found blank",
+    ),
+    ("diagonal bars below range", {at(OP, "diag_bars", 2): 1}, where(OP, "diag_bars", 2), "2 to 20"),
+    ("diagonal bar size in metres", {at(OP, "diag_dia", 2): 0.024}, where(OP, "diag_dia", 2), "metres"),
+    (
+        "diagonal groups deeper than the lintel",
+        # head at the clear height leaves D = slab = 200 mm above the door from L1; groups of N40
+        # in N20 ties sit 30 + 20 + 1.5 x 40 = 110 mm from each face: 2 x 110 > 200
+        {
+            at(OP, "head", 2): 3.0,
+            at(OP, "storey_to", 2): "L13",
+            at(OP, "diag_dia", 2): 40,
+            at(OP, "stirrup_dia", 2): 20,
+        },
+        where(OP, "diag_dia", 2),
+        "deeper than",
+    ),
     ("unknown member", {at(A, "member", 2): "LiftS-9"}, where(A, "member", 2), "no such wall, pier"),
     ("unknown storey in actions", {at(A, "storey", 2): "L20"}, where(A, "storey", 2), "storey name"),
     ("duplicate action row", {at(A, "member", 3): "LiftE"}, where(A, "member", 3), "also given in row 2"),
@@ -94,6 +119,18 @@ CASES = [
         {(P.name, f"B{setting_row('phi_shear')}"): 1.5},
         f"Project!B{setting_row('phi_shear')}",
         "0.5 to 1",
+    ),
+    (
+        "strut phi out of range",
+        {(P.name, f"B{setting_row('phi_strut')}"): 1.2},
+        f"Project!B{setting_row('phi_strut')}",
+        "0.4 to 0.9",
+    ),
+    (
+        "beta_s above one",
+        {(P.name, f"B{setting_row('lintel_beta_s')}"): 1.5},
+        f"Project!B{setting_row('lintel_beta_s')}",
+        "0.3 to 1",
     ),
     (
         "unknown standard",
@@ -209,12 +246,24 @@ def test_unit_slip_warning_text_and_numbers_as_text_accepted(demo_book):
 
 
 def test_unusual_but_legal_input_warns(demo_book):
-    # row 3: 250 mm wall, N12 both ways in 2 layers: 2 x 110 + 2 x (12 + 12) = 268 mm > 250 (hand evaluation)
-    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 3): 110})
+    # row 4 (the top run, which has no end zones: a cover this large would leave no room for
+    # their bars): 200 mm wall, N12 vertical and N10 horizontal in 2 layers:
+    # 2 x 80 + 2 x (12 + 10) = 204 mm > 200 (hand evaluation)
+    edit(demo_book, {at(W, "fc", 2): 45, at(W, "cover", 4): 80})
     building, findings = load(demo_book)
     text = [str(f) for f in findings.warnings]
     assert any(t.startswith(where(W, "fc", 2)) and "not a standard grade" in t for t in text), text
-    assert any(t.startswith(where(W, "cover", 3)) and "cover and bars take" in t for t in text), text
+    assert any(t.startswith(where(W, "cover", 4)) and "cover and bars take" in t for t in text), text
+
+
+def test_diagonal_groups_wider_than_the_wall_warn(demo_book):
+    # 12 bars per group in two layers: 6 side by side with clear gaps of one bar, (2 x 6 - 1) x 24
+    # = 264 mm, but a 250 mm wall with 30 mm cover leaves 190 mm (hand evaluation)
+    edit(demo_book, {at(OP, "diag_bars", 2): 12})
+    _, findings = load(demo_book)
+    text = [str(f) for f in findings.warnings]
+    cell = where(OP, "diag_bars", 2)
+    assert any(t.startswith(cell) and "264 mm" in t and "190 mm" in t for t in text), text
 
 
 def test_core_actions_on_walls_that_cannot_take_torsion(tmp_path):

@@ -31,6 +31,7 @@ DEMO_RESULT_SHEETS = [
     results.SHEAR_SHEET,
     results.AXIAL_SHEET,
     results.DETAILING_SHEET,
+    results.SECTION14_SHEET,
     results.LINTELS_SHEET,
     results.ADVICE_SHEET,
     results.MEMBERS_SHEET,

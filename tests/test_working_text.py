@@ -56,6 +56,17 @@ RULES: dict[str, list] = {
     results.CORE_STRESS_SHEET: [
         ("working", None, [("tension", F1), ("as_req", _int), ("as_prov", _int), ("sigma_max", F2)]),
     ],
+    results.SECTION14_SHEET: [
+        ("working", lambda t: t.rule == "both faces", [("value", _int)]),
+        ("working", lambda t: t.rule.str.endswith("ratio"), [("value", _f(".5f")), ("limit", _f("g"))]),
+        ("working", lambda t: t.rule == "Hwe/tw", [("value", F1), ("limit", _f("g"))]),
+        (
+            "working",
+            lambda t: (t.rule == "end-zone trigger") & (t.status != results.NOT_APPLICABLE),
+            [("value", F2), ("limit", F2)],
+        ),
+        ("working", lambda t: t.rule == "end-zone ties", [("limit", _int)]),
+    ],
     results.CORES_SHEET: [
         ("working", None, [("vx", F1), ("vy", F1), ("n", F1), ("my", F1), ("mx", F1)]),
     ],
@@ -63,6 +74,37 @@ RULES: dict[str, list] = {
         ("working", None, [("n", _int), ("phi_mu", _int), ("m_res", _int), ("util", F3)]),
         ("working", lambda t: t.n >= 0, [("phi_nuo", _int)]),
         ("working", lambda t: t.n < 0, [("phi_nuot", _int)]),
+    ],
+    results.LINTELS_SHEET: [
+        (
+            "working",
+            lambda t: t.model == "strut-and-tie",
+            [
+                ("v", _abs(".1f")),
+                ("theta", F1),
+                ("beta_s", F3),
+                ("c_star", F1),
+                ("strut_cap", F1),
+                ("node_cap", F1),
+                ("t_star", F1),
+                ("tie_cap", F1),
+                ("u_strut", F3),
+                ("util", F3),
+            ],
+        ),
+        (
+            "working",
+            lambda t: t.model == "diagonal bars",
+            [
+                ("v", _abs(".1f")),
+                ("alpha", F1),
+                ("A_sd", _int),
+                ("vu_diag", F1),
+                ("v_cap", F1),
+                ("phi_vu", F1),
+                ("util", F3),
+            ],
+        ),
     ],
 }
 

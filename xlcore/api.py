@@ -24,6 +24,7 @@ from xlcore.diagnostics import FileProblem, Finding, Findings, InputInvalid  # n
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.reader import read_workbook, stored_result_sheets, stored_stamp
+from xlcore.workbook.tables import folder_for as tables_folder
 from xlcore.workbook.writer import check_target, workbook_lock, write_results
 
 NO_RESULTS, UP_TO_DATE, STALE = "none", "up to date", "stale"
@@ -42,7 +43,7 @@ class Inputs:
     def counts(self) -> dict[str, int]:
         """What `check` prints: storeys, walls, piers, lintels, combinations, action rows."""
         b = self.building
-        geom = geometry.derive(b.storeys, b.walls, b.openings)
+        geom = geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
         acts, core = b.member_actions, b.core_actions
         per_storey = geom.piers.groupby("storey", sort=False).size()
         return {
@@ -141,12 +142,16 @@ class Run:
         return backup
 
 
-def compute(path: str | Path, now: dt.datetime | None = None, reporter: Reporter = SILENT) -> Run:
+def compute(
+    path: str | Path, now: dt.datetime | None = None, reporter: Reporter = SILENT, detail: str = "all"
+) -> Run:
     """Read, validate and run every check; nothing is written until `Run.write`. `now` sets the
-    time in the stamp (default: the present)."""
+    time in the stamp (default: the present). A `detail` other than 'all' is for the command
+    line's path (`compute_locked`), which cuts the tables (`pipeline.select_detail`) before
+    writing; `Run.write` writes every row."""
     path = Path(path)
     building, findings = pipeline.load(path, reporter)
-    return Run(path, pipeline.compute(building, findings, now=now, reporter=reporter))
+    return Run(path, pipeline.compute(building, findings, now=now, reporter=reporter, detail=detail))
 
 
 def compute_locked(
@@ -155,20 +160,37 @@ def compute_locked(
     force: bool = False,
     overwrite: bool = False,
     reporter: Reporter = SILENT,
+    detail: str = "auto",
 ) -> tuple[Run, Path | None]:
     """Compute and write under the workbook's own lock, taken before reading, so a second
-    compute of the same file refuses before it works (what the command line does)."""
+    compute of the same file refuses before it works (what the command line does). `detail`
+    as `pipeline.select_detail`: rows left out of the workbook go to Parquet beside it."""
     from contextlib import nullcontext
 
     with workbook_lock(target) if target.parent.is_dir() else nullcontext():
         check_target(path, target, force=force, overwrite=overwrite)
-        run = compute(path, reporter=reporter)
+        run = compute(path, reporter=reporter, detail=detail)
+        pipeline.select_detail(run.outcome, detail, tables_folder(target).name)
         target.parent.mkdir(parents=True, exist_ok=True)
         backup = write_results(
-            path, target, run.outcome.sheets, force=force, reporter=reporter, overwrite=overwrite
+            path,
+            target,
+            run.outcome.sheets,
+            force=force,
+            reporter=reporter,
+            overwrite=overwrite,
+            tables=run.outcome.full_tables,
         )
-    run.written = [target] + ([backup] if backup is not None else [])
+    run.written = [target] + ([backup] if backup is not None else []) + _parquet(run, target)
     return run, backup
+
+
+def _parquet(run: Run, target: Path) -> list[Path]:
+    """The full tables written beside the workbook as Parquet, if any."""
+    from xlcore.workbook.tables import file_name
+
+    folder = tables_folder(target)
+    return [folder / file_name(t.name) for t in run.outcome.full_tables]
 
 
 def read_results(path: str | Path) -> dict[str, pd.DataFrame]:

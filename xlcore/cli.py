@@ -9,6 +9,7 @@ from __future__ import annotations
 import json
 from collections.abc import Iterator
 from contextlib import contextmanager
+from enum import StrEnum
 from pathlib import Path
 from typing import Annotated
 
@@ -19,6 +20,7 @@ from xlcore import CAUTION, __version__, api, layout, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
+from xlcore.workbook.tables import file_name
 from xlcore.workbook.template import write_template
 
 app = typer.Typer(
@@ -28,6 +30,16 @@ app = typer.Typer(
 )
 
 EXIT_INVALID, EXIT_FILE, EXIT_FAILING = 1, 2, 3
+
+
+class Detail(StrEnum):
+    """`compute --detail`: which rows of the per-combination tables the workbook holds."""
+
+    auto = "auto"
+    governing = "governing"
+    all = "all"
+
+
 Workbook = Annotated[Path, typer.Argument(help="The .xlsx or .xlsm workbook.", show_default=False)]
 
 
@@ -226,7 +238,7 @@ def check(path: Workbook, quiet: Quiet = False, as_json: Json = False) -> None:
         )
         return
     building = inputs.building
-    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings)
+    geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
     typer.echo(f"{path.name}: valid")
@@ -235,7 +247,8 @@ def check(path: Workbook, quiet: Quiet = False, as_json: Json = False) -> None:
     )
     typer.echo(
         f"  walls         {len({w.wall_id for w in building.walls})} "
-        f"({len(building.walls)} rows), openings {len(building.openings)} rows"
+        f"({len(building.walls)} rows), openings {len(building.openings)} rows, "
+        f"end zones {len(building.end_zones)} rows"
     )
     if building.cores != [""]:
         walls_of = {c: len({w.wall_id for w in building.walls if w.core == c}) for c in building.cores}
@@ -293,6 +306,16 @@ def compute(
         ),
     ] = False,
     strict: Annotated[bool, typer.Option("--strict", help="Exit with 3 when any member fails.")] = False,
+    detail: Annotated[
+        Detail,
+        typer.Option(
+            "--detail",
+            help="Rows per combination table: 'all' every row; 'governing' per storey x member x "
+            "check the worst combination plus every failing row; 'auto' every row up to "
+            f"{results.DETAIL_ROW_LIMIT:,} rows per table, governing above. Rows left out of the "
+            "workbook are in NAME.xlcore-tables/ beside it (Parquet).",
+        ),
+    ] = Detail.auto,
     quiet: Quiet = False,
     as_json: Json = False,
 ) -> None:
@@ -311,9 +334,24 @@ def compute(
             _emit(base | {"exit_code": EXIT_FILE, "error": f"{target}: no folder to write into"})
         raise
     with _exits("nothing was written"), _json_exits(as_json, base), _progress(quiet or as_json) as reporter:
-        run, backup = api.compute_locked(path, target, force=force, overwrite=overwrite, reporter=reporter)
+        run, backup = api.compute_locked(
+            path, target, force=force, overwrite=overwrite, reporter=reporter, detail=detail.value
+        )
     findings = run.findings
     _report(findings)
+    outcome = run.outcome
+    if outcome.full_tables:
+        why = (
+            f"over {results.DETAIL_ROW_LIMIT:,} rows (--detail auto: a bigger workbook is slow to open)"
+            if detail is Detail.auto
+            else "(--detail governing)"
+        )
+        _err(
+            f"note    {len(outcome.full_tables)} tables {why}: the workbook holds their governing "
+            f"rows only; every row is in {api.tables_folder(target)}/ (Parquet: "
+            + ", ".join(file_name(t.name) for t in outcome.full_tables)
+            + "); --detail all writes every row into the workbook"
+        )
     code = EXIT_FAILING if strict and run.failing else 0
     if as_json:
         _emit(
@@ -332,7 +370,6 @@ def compute(
         if code:
             raise typer.Exit(code)
         return
-    outcome = run.outcome
     s = outcome.summary
     typer.echo(
         f"{target.name}: {len(outcome.shear)} shear rows; pier x storey cases: "

@@ -43,3 +43,8 @@ def per_metre_height(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t):
     area = Lw_mm * tw_mm / 1e6  # m^2
     steel_t = (rho_v + rho_h) * area * STEEL_DENSITY / 1000.0
     return area * concrete_per_m3 + steel_t * steel_per_t
+
+
+def bars_per_metre_height(area_mm2, steel_per_t):
+    """Cost of one metre height of vertical bars of total area `area_mm2` (end-zone bars)."""
+    return np.asarray(area_mm2, dtype=float) / 1e6 * STEEL_DENSITY / 1000.0 * steel_per_t

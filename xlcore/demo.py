@@ -51,6 +51,7 @@ PROJECT = dict(
     pier_fixity="fixed-fixed",
     earthquake_combinations=EARTHQUAKE,
     poisson=0.2,
+    ductility="limited ductile (mu = 2)",
 )
 
 # Two cores 3.55 m apart, joined only by the floor slabs: each its own section (core IDs).
@@ -120,6 +121,8 @@ def openings() -> list[dict]:
         stirrup_dia=10.0,
         stirrup_legs=2,
         stirrup_spacing=150.0,
+        diag_bars=4,  # coupling beams over the lift doors: two groups of 4N24 (invented)
+        diag_dia=24.0,
     )
     return [
         dict(wall_id="LiftS", offset=0.95, label="car 1 door", **door),
@@ -133,8 +136,87 @@ def openings() -> list[dict]:
             sill=1.15,
             head=2.05,
             label="services riser",
+            lintel_bars=4,  # a deep lintel without diagonals: strut-and-tie (invented)
+            lintel_dia=20.0,
+            stirrup_dia=10.0,
+            stirrup_legs=2,
+            stirrup_spacing=150.0,
         ),
     ]
+
+
+ZONE_DIAS = (28.0, 24.0)  # end-zone bars of the lowest third of the storeys, then the next (invented)
+ZONE_TIE = (10.0, 125.0)  # tie diameter and spacing around end-zone bars [mm] (invented; within
+# the Section 14 limit min(6 db, 150 mm) = 144 mm for the N24 zones)
+ZONE_MAX = 600.0  # mm: longest end zone the demo uses
+
+
+def end_zones() -> list[dict]:
+    """End-zone bars as a designer might give them: at every free edge of every wall (its
+    ends and the jambs of its openings) in the lower two thirds of the storeys, N28 in the
+    lowest third and N24 in the middle third. Each zone holds the most bars a face (4, 3 or
+    2) that fit at the clear-gap rule within the lesser of 600 mm and half its pier less 2 db (so that two
+    zones facing each other keep the clear gap between their innermost bars). Walls,
+    storeys and edges come from `walls()`, `openings()` and `storeys()`, so the function
+    follows any change to those."""
+    from xlcore import bars, geometry
+    from xlcore.codes import as3600
+    from xlcore.model import Opening, Storey, WallRun
+
+    st = [Storey(index=i, **s) for i, s in enumerate(storeys())]
+    runs = [WallRun(**w) for w in walls()]
+    at = geometry.run_at(runs, st)
+    piers = geometry.derive(st, runs, [Opening(**o) for o in openings()]).piers
+    piers = piers[piers.storey_index < len(st) * len(ZONE_DIAS) // 3]
+    tie, tie_s = ZONE_TIE
+    # (wall, edge) -> storey by storey: (storey index, bars, dia, length)
+    found: dict[tuple[str, str], list[tuple[int, int, float, float]]] = {}
+    for si, wall_id, lw, ea, eb in zip(
+        piers.storey_index, piers.wall_id, piers.Lw, piers.edge_a, piers.edge_b, strict=True
+    ):
+        run = at[(si, wall_id)]
+        dia = ZONE_DIAS[si * 3 // len(st)]
+        gap = float(as3600.wall_min_clear_gap(dia))
+        for per_face in (4, 3, 2):
+            length = float(np.ceil(bars.zone_min_length(per_face, 1, dia, run.cover, tie, gap) / 50.0) * 50.0)
+            if length <= min(ZONE_MAX, lw / 2 - 2 * dia):  # 3 db clear between facing zones
+                for edge in (ea, eb):
+                    found.setdefault((wall_id, edge), []).append((si, per_face * run.v_layers, dia, length))
+                break
+    rows: list[dict] = []
+    for (wall_id, edge), lst in found.items():
+        lst.sort()
+        start = 0
+        for j in range(1, len(lst) + 1):
+            if j < len(lst) and lst[j][1:] == lst[start][1:] and lst[j][0] == lst[j - 1][0] + 1:
+                continue
+            _, n, dia, length = lst[start]
+            rows.append(
+                dict(
+                    wall_id=wall_id,
+                    storey_from=st[lst[start][0]].name,
+                    storey_to=st[lst[j - 1][0]].name,
+                    location=edge,
+                    bars=n,
+                    dia=dia,
+                    length=length,
+                    tie_dia=tie,
+                    tie_spacing=tie_s,
+                )
+            )
+            start = j
+    # wall by wall, lowest storeys first, edges in order along the wall
+    wall_rank = {w: i for i, w in enumerate(dict.fromkeys(w.wall_id for w in runs))}
+    edge_rank = {k: i for i, k in enumerate(found)}
+    storey_rank = {s.name: s.index for s in st}
+    rows.sort(
+        key=lambda r: (
+            wall_rank[r["wall_id"]],
+            storey_rank[r["storey_from"]],
+            edge_rank[(r["wall_id"], r["location"])],
+        )
+    )
+    return rows
 
 
 def core_actions() -> list[dict]:
@@ -201,31 +283,69 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
         )
         for r in ordered.itertuples(index=False)
     ]
-    return rows + _lintel_actions(shares.piers, [s["name"] for s in storeys()])
+    return rows + _lintel_actions(shares.piers, geom)
 
 
-def _lintel_actions(piers, names: list[str]) -> list[dict]:
-    """Lift-door lintels: coupling shear = the change in the outer pier's axial force from the
-    storey above (the lintel hands it down), M* = V* x span / 2 (contraflexure at mid-span)."""
+COUPLING_DEGREE = 0.5
+"""Share of a coupled wall's overturning moment carried as an axial couple between the piers
+either side of an opening (invented example value; coupled walls commonly lie between about 0.3
+and 0.7)."""
+
+CONCRETE_WEIGHT = 25.0  # kN/m3, for the lintels' self-weight
+
+
+def _lintel_actions(pier_actions, geom) -> list[dict]:
+    """Lintel actions for every lintel the demo's openings make (example data, derived, not
+    analysed). Coupling statics: the piers either side of an opening carry COUPLING_DEGREE of
+    their wall's overturning moment M as an axial couple N L_c (L_c between the two piers'
+    centroids); the lintels hand that N down storey by storey, so the lintel at a storey takes
+    dN = kappa dM / L_c = kappa V_wall h / L_c (dM/dh = V, h the storey height, V_wall the sum
+    of the wall's pier shears there). An opening with a sill shares that with the wall below the
+    sill, in proportion to depth: the lintel takes D / (D + sill). Added: the lintel's own weight
+    at each pier face, G factor x 25 kN/m3 x b D ln / 2. M* = V* ln / 2 (contraflexure at
+    mid-span). An opening at a wall end (no pier on one side) gets the self-weight only."""
+    heights = {s["name"]: s["height"] for s in storeys()}
+    g_factor = {name: g for name, g, *_ in COMBINATIONS}
+    v_wall = pier_actions.groupby(["storey", "combination", "wall_id"]).v.sum()
     rows = []
-    for lintel, pier in (("LiftS-L1", "LiftS-1"), ("LiftS-L2", "LiftS-3")):
-        n = piers[piers.pier_id == pier].set_index(["storey", "combination"]).n
-        for (storey, comb), value in n.items():
-            i = names.index(storey)
-            above = n.get((names[i + 1], comb), 0.0) if i + 1 < len(names) else 0.0
-            v = abs(value - above)
+    piers = geom.piers
+    for lin in geom.lintels.itertuples(index=False):
+        here = piers[(piers.storey == lin.storey) & (piers.wall_id == lin.wall_id)]
+        left = here[(here.end - lin.offset).abs() < 1e-6]
+        right = here[(here.start - (lin.offset + lin.span)).abs() < 1e-6]
+        lever = (
+            float((right.start + right.end).iloc[0] - (left.start + left.end).iloc[0]) / 2
+            if len(left) and len(right)
+            else None
+        )
+        depth = lin.depth / 1000.0
+        sill = _sill(lin)
+        share = depth / (depth + sill)
+        weight = CONCRETE_WEIGHT * lin.tw / 1000.0 * depth * lin.span / 2
+        for comb in g_factor:
+            vw = float(v_wall.get((lin.storey, comb, lin.wall_id), 0.0))
+            couple = COUPLING_DEGREE * abs(vw) * heights[lin.storey] / lever * share if lever else 0.0
+            v = couple + g_factor[comb] * weight
             rows.append(
                 dict(
-                    storey=storey,
+                    storey=lin.storey,
                     combination=comb,
-                    member=lintel,
+                    member=lin.lintel_id,
                     n=0.0,
                     v=_r(v),
-                    m=_r(v * DOOR_WIDTH / 2),
+                    m=_r(v * lin.span / 2),
                     m_out=None,
                 )
             )
     return rows
+
+
+def _sill(lintel) -> float:
+    """Sill height [m] of the opening under a lintel, from the demo's openings."""
+    for o in openings():
+        if o["wall_id"] == lintel.wall_id and abs(o["offset"] - lintel.offset) < 1e-9:
+            return float(o["sill"])
+    return 0.0
 
 
 def _r(x: float) -> float:
@@ -242,6 +362,7 @@ def sheets() -> dict[str, list[dict] | dict]:
         storeys=storeys(),
         walls=walls(),
         openings=openings(),
+        end_zones=end_zones(),
         member_actions=member_rows,
         core_actions=core_rows,
     )

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from xlcore.model import Opening, Storey, WallRun
+from xlcore.model import EndZone, Opening, Storey, WallRun
 
 TOL = 0.0005  # m: edges closer than half a millimetre are the same edge
 
@@ -46,7 +46,13 @@ PIER_COLUMNS = [
     "h_dia",
     "h_spacing",
     "core",  # core (group) ID of the wall; "" in a building without core IDs
+    "edge_a",  # the pier's free edge at its start side: 'start' or 'opening K far'
+    "edge_b",  # at its end side: 'end' or 'opening K near'
 ]
+# End-zone bars at each side of a pier (a: its start side, b: its end side): bars over all
+# faces (0: no zone), bar diameter, zone length [mm], tie diameter (0: none), tie spacing
+ZONE_FIELDS = ("n", "dia", "len", "tie", "ties")
+ZONE_COLUMNS = [f"z{side}_{k}" for side in "ab" for k in ZONE_FIELDS]
 LINTEL_COLUMNS = [
     "storey",
     "storey_index",
@@ -65,6 +71,9 @@ LINTEL_COLUMNS = [
     "stirrup_dia",
     "stirrup_legs",
     "stirrup_spacing",
+    "diag_bars",
+    "diag_dia",
+    "offset",  # opening's near edge from the wall start [m]
 ]
 
 
@@ -131,8 +140,43 @@ def segments(length: float, cuts: list[Opening]) -> list[tuple[float, float, flo
     return out
 
 
-def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening]) -> Geometry:
-    """Cut every wall at every storey into piers; put a lintel over every opening."""
+def edge_label(which: str, k: int = 0) -> str:
+    """The name of a pier's free edge as the end-zones sheet says it: 'start', 'end', or
+    'opening K near' / 'opening K far'."""
+    return which if which in ("start", "end") else f"opening {k} {which}"
+
+
+def _edges(length: float, here: list[Opening], a: float, b: float) -> tuple[str, str]:
+    """Labels of the free edges of the pier from a to b [m] along a wall with openings `here`
+    (sorted along the wall, numbered from 1)."""
+    ea = "start" if a <= TOL else ""
+    eb = "end" if length - b <= TOL else ""
+    for k, o in enumerate(here, start=1):
+        if not ea and abs(o.offset + o.width - a) <= TOL:
+            ea = edge_label("far", k)
+        if not eb and abs(o.offset - b) <= TOL:
+            eb = edge_label("near", k)
+    return ea, eb
+
+
+def zones_at(end_zones: list[EndZone], storeys: list[Storey]) -> dict[tuple[int, str, str], EndZone]:
+    """(storey index, wall ID, edge label) -> the end-zones row that applies there."""
+    index = {s.name: s.index for s in storeys}
+    out: dict[tuple[int, str, str], EndZone] = {}
+    for z in end_zones:
+        for i in range(index[z.storey_from], index[z.storey_to] + 1):
+            out[(i, z.wall_id, edge_label(z.which, z.opening))] = z
+    return out
+
+
+def derive(
+    storeys: list[Storey],
+    walls: list[WallRun],
+    openings: list[Opening],
+    end_zones: list[EndZone] | tuple = (),
+) -> Geometry:
+    """Cut every wall at every storey into piers; put a lintel over every opening; give each
+    pier the end-zone bars at its two free edges."""
     runs = run_at(walls, storeys)
     cuts = openings_at(openings, storeys)
     pier_rows: list[tuple] = []
@@ -182,6 +226,8 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                         hc,
                         float("nan"),
                         *common,
+                        "start",
+                        "end",
                     )
                 )
                 continue
@@ -200,6 +246,7 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                         hc,
                         h_open * 1000.0,
                         *common,
+                        *_edges(w.length, here, a, b),
                     )
                 )
             for k, o in enumerate(here, start=1):
@@ -223,9 +270,13 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
                         _nan(o.stirrup_dia),
                         _nan(o.stirrup_legs),
                         _nan(o.stirrup_spacing),
+                        _nan(o.diag_bars),
+                        _nan(o.diag_dia),
+                        o.offset,
                     )
                 )
     piers = pd.DataFrame(pier_rows, columns=PIER_COLUMNS)
+    piers = with_zones(piers, zones_at(list(end_zones), storeys))
     # plan end points and mid-point of each pier's centreline [m]
     for end, along in (("1", piers.start), ("2", piers.end)):
         piers["px" + end] = piers.wx + piers.ux * along
@@ -237,6 +288,23 @@ def derive(storeys: list[Storey], walls: list[WallRun], openings: list[Opening])
         piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
+
+
+def with_zones(piers: pd.DataFrame, zones: dict[tuple[int, str, str], EndZone]) -> pd.DataFrame:
+    """The piers with the ZONE_COLUMNS filled from `zones` (0, tie spacing NaN, where an edge
+    has no zone)."""
+    out = {c: np.full(len(piers), np.nan if c.endswith("_ties") else 0.0) for c in ZONE_COLUMNS}
+    if zones:
+        si, wid = piers.storey_index.tolist(), piers.wall_id.tolist()
+        for side in "ab":
+            for i, edge in enumerate(piers[f"edge_{side}"].tolist()):
+                z = zones.get((si[i], wid[i], edge))
+                if z is None:
+                    continue
+                values = (z.bars, z.dia, z.length, z.tie_dia or 0.0, z.tie_spacing)
+                for k, v in zip(ZONE_FIELDS, values, strict=True):
+                    out[f"z{side}_{k}"][i] = np.nan if v is None else v
+    return piers.assign(**out)
 
 
 def overall_height(piers: pd.DataFrame, storeys: list[Storey]) -> np.ndarray:

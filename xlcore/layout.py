@@ -6,6 +6,7 @@ module; nothing else spells a sheet name or a column header.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from enum import StrEnum
 
@@ -81,6 +82,7 @@ class TableSheet:
     purpose: str
     columns: tuple[Column, ...]
     max_rows: int = 2000  # rows covered by the template's validation and styling
+    optional: bool = False  # a workbook without this sheet reads as one with no rows (older files)
 
     def column(self, key: str) -> Column:
         for c in self.columns:
@@ -144,6 +146,9 @@ HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
 WALL_SHARING = ("one storey's stiffness", "whole-height cantilever")
+# Structural ductility factor mu as the earthquake standard (AS 1170.4) assigns it; AS 3600:2018
+# Section 14 covers limited ductile (mu = 2) and moderately ductile (mu = 3) structures
+DUCTILITY = ("elastic (mu = 1)", "limited ductile (mu = 2)", "moderately ductile (mu = 3)")
 
 INSTRUCTIONS_SHEET = "Read me"
 
@@ -293,12 +298,84 @@ PROJECT = SettingsSheet(
             "Lintel span/depth limit for the beam method",
             None,
             Kind.NUMBER,
-            3.0,
-            "Below this clear span / overall depth a lintel is reported as a deep (non-flexural) "
-            "member for strut-and-tie design (Section 7) instead of being checked as a beam "
-            "(AS 3600:2018 Section 12; threshold from memory: verify).",
+            4.0,
+            "At or above this clear span / overall depth a lintel is designed as a beam (Section 8); "
+            "below it as a deep member by a strut-and-tie model (Section 7), or by its diagonal bars "
+            "where the openings sheet gives them. AS 3600:2018 Cl 12.1.1 (from memory: verify) makes "
+            "a member non-flexural below 4 when continuous, 3 simply supported, 1.5 as a cantilever; "
+            "a lintel built into piers at both ends is taken as continuous (4, the conservative "
+            "reading; ACI 318-19 18.10.7.1 also uses 4).",
             min=1.0,
             max=10.0,
+        ),
+        Setting(
+            "phi_strut",
+            "phi for struts and nodes",
+            None,
+            Kind.NUMBER,
+            0.6,
+            "Strut-and-tie design of deep lintels: capacity reduction factor for the concrete strut "
+            "and its nodes (AS 3600:2018 Table 2.2.2, 0.6 from memory: verify).",
+            min=0.4,
+            max=0.9,
+        ),
+        Setting(
+            "phi_tie",
+            "phi for ties and diagonal bars",
+            None,
+            Kind.NUMBER,
+            0.8,
+            "Strut-and-tie design of deep lintels: capacity reduction factor for the steel ties, and "
+            "for the diagonal bars of a diagonally reinforced lintel (AS 3600:2018 Table 2.2.2, 0.8 "
+            "for ties, from memory: verify).",
+            min=0.5,
+            max=0.9,
+        ),
+        Setting(
+            "lintel_beta_s",
+            "Strut efficiency factor beta_s",
+            None,
+            Kind.NUMBER,
+            None,
+            "Blank: beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3 to 1.0, theta the strut's angle "
+            "to the ties (AS 3600:2018 Cl 7.2.2, bottle-shaped strut with transverse bars, from "
+            "memory: verify). A number here is used for every deep lintel instead.",
+            min=0.3,
+            max=1.0,
+        ),
+        Setting(
+            "lintel_beta_n",
+            "Node efficiency factor beta_n",
+            None,
+            Kind.NUMBER,
+            0.8,
+            "Deep lintels: the strut's end nodes hold a tie (C-C-T); their faces are taken to "
+            "beta_n x 0.9 f'c (AS 3600:2018 Cl 7.4, 0.8 for C-C-T nodes, from memory: verify).",
+            min=0.4,
+            max=1.0,
+        ),
+        Setting(
+            "strut_stress",
+            "Strut and node concrete stress",
+            "x f'c",
+            Kind.NUMBER,
+            0.9,
+            "Deep lintels: struts and node faces are taken to beta x this x f'c (AS 3600:2018 "
+            "Cl 7.2.1 and 7.4, 0.9 from memory: verify).",
+            min=0.5,
+            max=1.0,
+        ),
+        Setting(
+            "coupling_cap",
+            "Diagonal lintel shear limit",
+            "x sqrt(f'c) b D",
+            Kind.NUMBER,
+            0.83,
+            "Diagonally reinforced lintels: the shear their bars may carry, Vu = 2 A_sd fsy sin "
+            "alpha, is capped at this times sqrt(f'c) b D [MPa, mm] (ACI 318-19 Eq (18.10.7.4), "
+            "0.83 in SI; AS 3600:2018 has no coupling-beam clause).",
+            min=0.3,
+            max=1.5,
         ),
         Setting(
             "compression_limit",
@@ -306,9 +383,10 @@ PROJECT = SettingsSheet(
             "x f'c",
             Kind.NUMBER,
             0.15,
-            "Core stress check, earthquake combinations only: peak elastic compression above "
-            "this fraction of f'c flags end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6, "
-            "from memory: verify). A flag, never a failing utilisation.",
+            "Earthquake combinations only: peak elastic compression above this fraction of f'c "
+            "calls for end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6.2, from memory: "
+            "verify): a flag on the core stress check and the trigger of the Section 14 end-zone "
+            "rule of every pier (N*/A + M*/Z). Never a failing utilisation.",
             min=0.05,
             max=1.0,
         ),
@@ -320,7 +398,76 @@ PROJECT = SettingsSheet(
             "",
             "Names of the load combinations that include earthquake actions, separated by "
             "commas (blank: none). Only these get the 0.15 f'c end-zone detailing flag of the "
-            "core stress check (AS 3600:2018 Cl 14.6, a trigger for detailing, not a capacity).",
+            "core stress check and the Section 14 end-zone rule of the piers (AS 3600:2018 "
+            "Cl 14.6, a trigger for detailing, not a capacity).",
+        ),
+        Setting(
+            "ductility",
+            "Structural ductility factor mu",
+            None,
+            Kind.CHOICE,
+            DUCTILITY[1],
+            "As the earthquake design (AS 1170.4) assigns it. 'limited ductile (mu = 2)' and "
+            "'moderately ductile (mu = 3)' get the wall rules of AS 3600:2018 Section 14 on the "
+            "earthquake detailing sheet (moderately ductile: the limited-ductile rules as a floor; "
+            "its further provisions are not checked); 'elastic (mu = 1)' gets none. Default: the "
+            "conservative one that applies the rules.",
+            choices=DUCTILITY,
+        ),
+        Setting(
+            "eq_two_layers",
+            "Section 14: bars in both faces",
+            None,
+            Kind.CHOICE,
+            "yes",
+            "Walls of a limited- or moderately-ductile structure need vertical and horizontal "
+            "bars in two layers, one near each face (AS 3600:2018 Cl 14.6, from memory: verify).",
+            choices=YES_NO,
+        ),
+        Setting(
+            "eq_rho_min",
+            "Section 14: least ratio each way",
+            None,
+            Kind.NUMBER,
+            0.0025,
+            "Least vertical and least horizontal reinforcement ratio of walls of a limited- or "
+            "moderately-ductile structure (0.0025, AS 3600:2018 Cl 14.6, from memory: verify).",
+            min=0.001,
+            max=0.02,
+        ),
+        Setting(
+            "eq_slenderness",
+            "Section 14: Hwe/tw limit",
+            None,
+            Kind.NUMBER,
+            20.0,
+            "Largest effective height / thickness (Cl 11.4 Hwe) of walls of a limited- or "
+            "moderately-ductile structure (20, AS 3600:2018 Section 14, from memory: verify).",
+            min=5.0,
+            max=50.0,
+        ),
+        Setting(
+            "eq_tie_diameters",
+            "Section 14: tie spacing in db",
+            "x db",
+            Kind.NUMBER,
+            6.0,
+            "Where an end zone is required (compression above the peak compression limit under an "
+            "earthquake combination), ties restraining its vertical bars at most this many "
+            "vertical-bar diameters apart (6, AS 3600:2018 Cl 14.6.2, from memory: verify).",
+            min=3.0,
+            max=20.0,
+        ),
+        Setting(
+            "eq_tie_max",
+            "Section 14: tie spacing cap",
+            "mm",
+            Kind.NUMBER,
+            150.0,
+            "End-zone ties at most this far apart whatever the bar size (150 mm, AS 3600:2018 "
+            "Cl 14.6.2, from memory: verify).",
+            min=50.0,
+            max=400.0,
         ),
         Setting(
             "concrete_prices",
@@ -575,7 +722,10 @@ OPENINGS = TableSheet(
             "Lintel bottom bars",
             None,
             Kind.INTEGER,
-            "Number of tension bars in the lintel over this opening (optional; blank: lintel not checked).",
+            "Number of bars in the lintel's bottom layer over this opening, taken the same in its "
+            "top layer (coupling actions reverse): the beam's tension bars, or each tie of the "
+            "strut-and-tie model. Optional; blank with actions given: the lintel fails and the "
+            "bars it needs are reported.",
             required=False,
             min=1,
             max=20,
@@ -630,7 +780,147 @@ OPENINGS = TableSheet(
             number_format="0",
             width=11,
         ),
+        Column(
+            "diag_bars",
+            "Lintel diagonal bars per group",
+            None,
+            Kind.INTEGER,
+            "Bars in each of the two diagonal groups crossing the lintel (optional). Given, the "
+            "lintel is designed by its diagonal bars: Vu = 2 A_sd fsy sin alpha, alpha from the "
+            "geometry, capped by the concrete (Project sheet). Each group in two layers, so half "
+            "the bars side by side across the wall.",
+            required=False,
+            min=2,
+            max=20,
+            number_format="0",
+            width=11,
+        ),
+        Column(
+            "diag_dia",
+            "Lintel diagonal bar dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the diagonal bars.",
+            required=False,
+            min=10,
+            max=40,
+            number_format="0",
+            width=10,
+        ),
     ),
+)
+
+LOCATION_START, LOCATION_END = "start", "end"
+LOCATION_NEAR, LOCATION_FAR = "near", "far"
+LOCATION_FORMS = "'start', 'end', 'opening K near' or 'opening K far'"
+_LOCATION = re.compile(r"^\s*(?:(?:wall\s+)?(start|end)|opening\s+(\d+)\s+(near|far)(?:\s+jamb)?)\s*$", re.I)
+
+
+def parse_location(text: str) -> tuple[str, int] | None:
+    """An end-zone location as (which, K): ('start', 0) or ('end', 0) for the wall's ends,
+    ('near', K) or ('far', K) for the jambs of the wall's K-th opening counted from its start
+    (the jamb nearer the wall start is 'near'); None when the text is none of those forms."""
+    m = _LOCATION.match(str(text))
+    if m is None:
+        return None
+    if m.group(1):
+        return m.group(1).lower(), 0
+    k = int(m.group(2))
+    return (m.group(3).lower(), k) if k >= 1 else None
+
+
+END_ZONES = TableSheet(
+    key="end_zones",
+    name="End zones",
+    purpose=(
+        "Bars concentrated at a pier's free edge: at a wall's start or end, or at a jamb of an "
+        "opening. One row per wall, location and storey range (ranges of one wall and location "
+        "must not overlap; storeys without a row have no end zone there). The wall's own "
+        "vertical bars run between the zones at their given spacing or closer. Optional sheet."
+    ),
+    columns=(
+        Column("wall_id", "Wall ID", None, Kind.WALL, "Wall the zone is in. Pick from the list.", width=10),
+        Column(
+            "storey_from", "From storey", None, Kind.STOREY, "Lowest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "storey_to", "To storey", None, Kind.STOREY, "Highest storey of this row. " + _STOREY_LIST_HELP
+        ),
+        Column(
+            "location",
+            "Location",
+            None,
+            Kind.TEXT,
+            "Which free edge: 'start' or 'end' of the wall, or a jamb: 'opening K near' / "
+            "'opening K far', K = the opening's number along the wall from its start at those "
+            "storeys (as in lintel W3-LK); the near jamb is the one nearer the wall start (the "
+            "end of pier W3-K), the far jamb the start of pier W3-(K+1).",
+            width=16,
+        ),
+        Column(
+            "bars",
+            "Bars",
+            None,
+            Kind.INTEGER,
+            "Number of vertical bars in the zone over all faces (8 for 4 on each face of a "
+            "two-layer wall); a multiple of the wall's vertical layers.",
+            min=1,
+            max=60,
+            number_format="0",
+            width=8,
+        ),
+        Column(
+            "dia",
+            "Bar dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the zone's bars (same fsy as the wall's).",
+            min=10,
+            max=40,
+            number_format="0",
+            width=9,
+        ),
+        Column(
+            "length",
+            "Zone length",
+            "mm",
+            Kind.NUMBER,
+            "Length of the zone along the wall from the free edge. Its bars on each face are "
+            "evenly spaced from cover + tie + db/2 at the free edge to tie + db/2 inside the "
+            "zone's inner boundary.",
+            min=0,
+            max=5000,
+            min_open=True,
+            number_format="0",
+            width=10,
+        ),
+        Column(
+            "tie_dia",
+            "Tie dia",
+            "mm",
+            Kind.NUMBER,
+            "Diameter of the ties around the zone's bars (optional; blank: no ties).",
+            required=False,
+            min=6,
+            max=20,
+            number_format="0",
+            width=8,
+        ),
+        Column(
+            "tie_spacing",
+            "Tie spacing",
+            "mm",
+            Kind.NUMBER,
+            "Spacing of those ties up the wall (given with the tie diameter).",
+            required=False,
+            min=50,
+            max=600,
+            number_format="0",
+            width=9,
+        ),
+    ),
+    max_rows=2000,
+    optional=True,
 )
 
 _FORCE = dict(min=-1e7, max=1e7, number_format="0.0")
@@ -762,7 +1052,8 @@ CORE_ACTIONS = TableSheet(
     max_rows=5000,
 )
 
-TABLES: tuple[TableSheet, ...] = (STOREYS, WALLS, OPENINGS, MEMBER_ACTIONS, CORE_ACTIONS)
+TABLES: tuple[TableSheet, ...] = (STOREYS, WALLS, OPENINGS, END_ZONES, MEMBER_ACTIONS, CORE_ACTIONS)
+OPTIONAL_SHEETS: frozenset[str] = frozenset(t.name for t in TABLES if t.optional)
 INPUT_SHEET_NAMES: tuple[str, ...] = (PROJECT.name,) + tuple(t.name for t in TABLES)
 RESULT_PREFIX = "Results "  # every sheet xlcore writes starts with this; only those are rewritten
 

@@ -26,12 +26,31 @@ class Settings(BaseModel):
     compression_limit: float = 0.15
     earthquake_combinations: str = ""
 
+    ductility: str = "limited ductile (mu = 2)"
+    eq_two_layers: str = "yes"
+    eq_rho_min: float = 0.0025
+    eq_slenderness: float = 20.0
+    eq_tie_diameters: float = 6.0
+    eq_tie_max: float = 150.0
+
     @property
     def earthquake(self) -> set[str]:
         """Names of the earthquake combinations (Project setting, comma separated)."""
         return {n.strip() for n in self.earthquake_combinations.split(",") if n.strip()}
+
+    @property
+    def mu(self) -> int:
+        """Structural ductility factor mu of the ductility setting (1, 2 or 3)."""
+        return int(self.ductility.split("mu = ")[1].rstrip(")"))
+
     shrinkage_restrained: str = "yes"
-    lintel_deep_ratio: float = 3.0
+    lintel_deep_ratio: float = 4.0
+    phi_strut: float = 0.6
+    phi_tie: float = 0.8
+    lintel_beta_s: float | None = None
+    lintel_beta_n: float = 0.8
+    strut_stress: float = 0.9
+    coupling_cap: float = 0.83
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL
     poisson: float = 0.2
@@ -101,6 +120,29 @@ class Opening(BaseModel):
     stirrup_dia: float | None = None
     stirrup_legs: float | None = None
     stirrup_spacing: float | None = None
+    diag_bars: float | None = None
+    diag_dia: float | None = None
+    row: int = 0
+
+
+class EndZone(BaseModel):
+    """One row of the end-zones sheet: bars concentrated at one free edge of a wall's piers
+    over a range of storeys. `which` is 'start' or 'end' (the wall's ends) or 'near' / 'far'
+    (the jambs of the wall's `opening`-th opening from its start)."""
+
+    model_config = ConfigDict(frozen=True)
+
+    wall_id: str
+    storey_from: str
+    storey_to: str
+    location: str
+    which: str
+    opening: int = 0
+    bars: int
+    dia: float
+    length: float  # mm
+    tie_dia: float | None = None
+    tie_spacing: float | None = None
     row: int = 0
 
 
@@ -113,6 +155,7 @@ class Building(BaseModel):
     storeys: list[Storey]
     walls: list[WallRun]
     openings: list[Opening]
+    end_zones: list[EndZone] = []
     member_actions: pd.DataFrame  # columns: layout MEMBER_ACTIONS keys + "row"
     core_actions: pd.DataFrame  # columns: layout CORE_ACTIONS keys + "row"; core "" = building
     input_hash: str = ""

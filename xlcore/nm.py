@@ -12,7 +12,7 @@ block displace concrete when `deduct` is true. Moments are about mid-depth.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
 
 import numpy as np
 
@@ -64,44 +64,57 @@ class Rect:
 
 @dataclass(frozen=True)
 class EvenRect:
-    """Rows of rectangular sections whose bars are evenly spaced, all of one area: `count` bar
-    positions from depth `edge` to D - edge. The steel sums then have closed forms (arithmetic
-    series), so a section costs the same whatever its number of bars; `bars()` gives the same
-    sections as a `Rect` (the tests hold the two equal)."""
+    """Rows of rectangular sections whose field bars are evenly spaced, all of one area:
+    `count` bar positions from depth `edge`, `step` apart (count may be 0), plus optional
+    discrete bars (`zd` depths and `zA` areas, rows x k, zero area for padding: the end-zone
+    bars of a pier). The field sums have closed forms (arithmetic series), so a section costs
+    the same whatever its number of field bars; `bars()` gives the same sections as a `Rect`
+    (the tests hold the two equal)."""
 
     D: np.ndarray
     b: np.ndarray
     fc: np.ndarray
     fsy: np.ndarray
-    edge: np.ndarray  # depth of the first bar position from either face
-    step: np.ndarray  # spacing of bar positions
-    count: np.ndarray  # bar positions per section (>= 2)
-    bar_area: np.ndarray  # steel area at one position (all layers)
+    edge: np.ndarray  # depth of the first field bar position from the compressive face
+    step: np.ndarray  # spacing of field bar positions
+    count: np.ndarray  # field bar positions per section (>= 0)
+    bar_area: np.ndarray  # steel area at one field position (all layers)
     alpha2: np.ndarray
     gamma: np.ndarray
     eps_cu: float = 0.003
     Es: float = 200_000.0
     deduct: bool = True
+    zd: np.ndarray | None = None  # discrete bars: depths (rows x k)
+    zA: np.ndarray | None = None  # and areas
 
     def flipped(self) -> EvenRect:
-        return self  # symmetric
+        """The same sections bent the other way (compressive face swapped)."""
+        last = self.edge + np.maximum(self.count - 1, 0) * self.step
+        zd = None if self.zd is None else np.where(self.zA > 0, self.D[:, None] - self.zd, 0.0)
+        return replace(self, edge=self.D - last, zd=zd)
 
     @property
     def As(self) -> np.ndarray:
-        return self.count * self.bar_area
+        zone = 0.0 if self.zA is None else self.zA.sum(axis=1)
+        return self.count * self.bar_area + zone
 
     @property
     def d0(self) -> np.ndarray:
-        return self.edge + (self.count - 1) * self.step
+        field = np.where(self.count > 0, self.edge + (self.count - 1) * self.step, -np.inf)
+        if self.zd is None or self.zd.shape[1] == 0:
+            return field
+        return np.maximum(field, np.where(self.zA > 0, self.zd, -np.inf).max(axis=1))
 
     def take(self, rows: np.ndarray) -> EvenRect:
         return _take(self, rows)
 
     def bars(self) -> Rect:
-        j = np.arange(int(self.count.max()))[None, :]
+        j = np.arange(int(self.count.max(initial=0)))[None, :]
         inside = j < self.count[:, None]
         d = np.where(inside, self.edge[:, None] + j * self.step[:, None], 0.0)
         A = np.where(inside, self.bar_area[:, None], 0.0)
+        if self.zd is not None:
+            d, A = np.hstack([d, self.zd]), np.hstack([A, self.zA])
         return Rect(
             self.D,
             self.b,
@@ -115,6 +128,15 @@ class EvenRect:
             self.Es,
             self.deduct,
         )
+
+
+def concat(a, b):
+    """Two sets of sections of one kind as one (rows of `a`, then rows of `b`)."""
+    out = {}
+    for f in fields(a):
+        x, y = getattr(a, f.name), getattr(b, f.name)
+        out[f.name] = np.concatenate([x, y]) if isinstance(x, np.ndarray) else x
+    return type(a)(**out)
 
 
 def _take(sec, rows):
@@ -165,7 +187,20 @@ def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]
         b0, b1, _ = _even_sums(sec, zero, upto(depth, inclusive=False))
         ns = ns - conc_stress * area * b0
         ms = ms - conc_stress * area * (h * b0 - b1)
+    if sec.zd is not None and sec.zd.shape[1]:
+        zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress)
+        ns, ms = ns + zn, ms + zm
     return cc + ns, cc * (h - depth / 2) + ms
+
+
+def _bar_forces(sec, d, A, dn, depth, conc_stress) -> tuple[np.ndarray, np.ndarray]:
+    """Axial force and moment about mid-depth of bars given one by one (depths d, areas A)."""
+    strain = sec.eps_cu * (dn[:, None] - d) / dn[:, None]
+    stress = np.minimum(np.maximum(sec.Es * strain, -sec.fsy[:, None]), sec.fsy[:, None])
+    if sec.deduct:
+        stress = stress - np.where(d < depth[:, None], conc_stress[:, None], 0.0)
+    fs = stress * A
+    return fs.sum(axis=1), (fs * (sec.D[:, None] / 2 - d)).sum(axis=1)
 
 
 def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
@@ -176,14 +211,8 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     depth = np.minimum(sec.gamma * dn, sec.D)
     conc_stress = sec.alpha2 * sec.fc
     cc = conc_stress * depth * sec.b
-    strain = sec.eps_cu * (dn[:, None] - sec.d) / dn[:, None]
-    stress = np.minimum(np.maximum(sec.Es * strain, -sec.fsy[:, None]), sec.fsy[:, None])
-    if sec.deduct:
-        stress = stress - np.where(sec.d < depth[:, None], conc_stress[:, None], 0.0)
-    fs = stress * sec.A
-    n = cc + fs.sum(axis=1)
-    m = cc * (sec.D / 2 - depth / 2) + (fs * (sec.D[:, None] / 2 - sec.d)).sum(axis=1)
-    return n, m
+    ns, ms = _bar_forces(sec, sec.d, sec.A, dn, depth, conc_stress)
+    return cc + ns, cc * (sec.D / 2 - depth / 2) + ms
 
 
 def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None) -> np.ndarray:

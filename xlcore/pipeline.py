@@ -12,14 +12,15 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, cores, distribution, geometry, results, stiffness
+from xlcore import CAUTION, __version__, bars, cores, distribution, geometry, results, stiffness
 from xlcore.checks import plain
-from xlcore.checks.advice import advise
+from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
+from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.model import Building
@@ -40,6 +41,8 @@ class Outcome:
     timings: dict[str, float] = field(default_factory=dict)
     piers: pd.DataFrame | None = None  # with stiffness: what the report draws and re-solves
     plans: dict = field(default_factory=dict)  # core -> storey -> distribution.StoreyPlan
+    # tables whose rows the workbook holds only in part (`select_detail`), every row: for Parquet
+    full_tables: list[ResultSheet] = field(default_factory=list)
 
     @property
     def failing(self) -> int:
@@ -76,13 +79,28 @@ def load(path: Path, reporter: Reporter = SILENT) -> tuple[Building, Findings]:
 
 
 def compute(
-    building: Building, findings: Findings, now: dt.datetime | None = None, reporter: Reporter = SILENT
+    building: Building,
+    findings: Findings,
+    now: dt.datetime | None = None,
+    reporter: Reporter = SILENT,
+    detail: str = "all",
+    limit: int | None = None,
 ) -> Outcome:
-    """Run every check on a validated building and lay out the result sheets."""
+    """Run every check on a validated building and lay out the result sheets.
+
+    `detail` (see `select_detail`, which must then be called before writing): with `governing`,
+    or `auto` above `limit` rows, the tables whose rows will be cut are made without their
+    working text (most of the checks' time at building scale), and the sheets carry a `rework`
+    that makes it for the rows written."""
     s = building.settings
     t = Timings(reporter)
+    limit = results.DETAIL_ROW_LIMIT if limit is None else limit
+
+    def defer(rows: int) -> bool:
+        return detail == "governing" or (detail == "auto" and rows > limit)
+
     with t.phase("geometry", "piers, lintels, stiffness and storey plans"):
-        geom = geometry.derive(building.storeys, building.walls, building.openings)
+        geom = geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
         piers = stiffness.with_stiffness(geom.piers, s.poisson, s.pier_fixity)
         walls = stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity)
         walls = stiffness.sharing_stiffness(walls, s.poisson, s.wall_sharing)
@@ -90,12 +108,25 @@ def compute(
     with t.phase("sharing", "sharing actions to walls and piers"):
         acts, core, split = pier_actions(building, piers, walls, plans)
     named = building.cores != [""]  # walls carry core IDs: result tables get a core column
+    rework: dict[str, object] = {}
+    if core is not None and defer(len(core)):
+        rework[results.CORE_SHEET] = core_working
+    elif core is not None:
+        core = core_working(core)
     with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):
-        shear = check_pier_shear(piers, acts, s)
-        axial = check_pier_axial(piers, acts, s)
+        if defer(len(acts)):  # numbers now, working text for the rows written (select_detail)
+            acts_i = acts.assign(_act=np.arange(len(acts)))
+            shear = check_pier_shear(piers, acts_i, s, text=False)
+            axial = check_pier_axial(piers, acts_i, s, working=False)
+            rework[results.SHEAR_SHEET] = _rework_rows(lambda a: check_pier_shear(piers, a, s), acts_i)
+            rework[results.AXIAL_SHEET] = _rework_rows(lambda a: check_pier_axial(piers, a, s), acts_i)
+        else:
+            shear = check_pier_shear(piers, acts, s)
+            axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe)
-        summary = envelope(shear, piers, axial, detailing)
+        section14 = check_section14(piers, acts, s, hwe)
+        summary = envelope(shear, piers, axial, detailing, section14)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())
     with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
@@ -127,7 +158,7 @@ def compute(
             preamble=stamp
             + _counts(summary, shear)
             + worst_per_check(summary, lintels, stress, core_nm)
-            + [lintel_line],
+            + [section14_line(section14, s), lintel_line],
             scale_key="util",
         ),
         ResultSheet(
@@ -161,8 +192,12 @@ def compute(
                 ),
                 (
                     "Section",
-                    "rectangle Lw x tw; vertical bars evenly spaced at or closer than the given "
-                    "spacing, end bars at cover + db/2; stress block Cl 8.1.3; bars displace concrete",
+                    "rectangle Lw x tw; end-zone bars (End zones sheet) at their places, evenly from "
+                    "cover + tie + db/2 at the free edge to tie + db/2 inside the zone; the wall's "
+                    "bars evenly between the zones at or closer than the given spacing (at a side "
+                    "without a zone from cover + db/2); where the zones differ, M* > 0 compresses "
+                    "the pier's end, M* < 0 its start, and a minimum-eccentricity M* is checked both "
+                    "ways; stress block Cl 8.1.3; bars displace concrete",
                 ),
                 (
                     "Cl 11.5",
@@ -188,26 +223,56 @@ def compute(
             scale_key="util",
         ),
         ResultSheet(
+            results.SECTION14_SHEET,
+            f"{results.MARKER}: earthquake detailing of piers, {s.standard} Section 14 "
+            "(rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
+            results.SECTION14_COLUMNS,
+            section14,
+            preamble=stamp + section14_preamble(s),
+            scale_key="util",
+        ),
+        ResultSheet(
             results.LINTELS_SHEET,
-            f"{results.MARKER}: lintels over openings as beams, {s.standard} Section 8",
+            f"{results.MARKER}: lintels (coupling beams) over openings designed, {s.standard} "
+            "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars",
             results.LINTEL_RESULT_COLUMNS,
             lintels,
             preamble=stamp
             + [
                 (
                     "Geometry",
-                    "span = opening width; D = head of opening to top of slab above; b = wall "
-                    "thickness; d to the bottom bars",
+                    "span ln = opening width; D = head of opening to top of slab above; b = wall "
+                    "thickness; lintel bars the same top and bottom, at cover + fitment + db/2",
                 ),
                 (
-                    "Beam shear",
-                    "simplified method Cl 8.2.4.3 (theta 36 deg, kv 0.15 with minimum fitments), "
-                    "phi 0.75, Vu.max per Eq 8.2.3.3(1) less 10 % (Amendment 2): from memory, verify",
+                    "Model",
+                    f"diagonal bars where given; else beam where ln/D >= {s.lintel_deep_ratio:g}, "
+                    f"strut-and-tie below (Cl 12.1.1 non-flexural limit for a member continuous at "
+                    "both ends, from memory: verify)",
                 ),
                 (
-                    "Deep lintels",
-                    f"span/D below {s.lintel_deep_ratio:g} are not checked as beams "
-                    "(strut-and-tie, Section 7)",
+                    "Beam",
+                    "flexure Cl 8.1; shear simplified method Cl 8.2.4.3 (theta 36 deg, kv 0.15 with "
+                    "minimum fitments), phi 0.75, Vu.max per Eq 8.2.3.3(1) less 10 % (Amendment 2): "
+                    "from memory, verify",
+                ),
+                (
+                    "Strut-and-tie",
+                    "one strut between the pier faces, top and bottom ties anchored in the piers: "
+                    f"C* = V*/sin theta, T* = V* ln/z; strut phi beta_s {s.strut_stress:g} f'c b w_s, beta_s "
+                    + (
+                        f"{s.lintel_beta_s:g} (setting)"
+                        if s.lintel_beta_s is not None
+                        else "1/(1 + 0.66 cot^2 theta) within 0.3..1.0"
+                    )
+                    + f"; C-C-T nodes beta_n {s.lintel_beta_n:g}; phi {s.phi_strut:g} struts and nodes, "
+                    f"{s.phi_tie:g} ties (from memory, verify: Project settings)",
+                ),
+                (
+                    "Diagonal bars",
+                    f"phi Vu = {s.phi_tie:g} x min(2 A_sd fsy sin alpha, {s.coupling_cap:g} sqrt(f'c) b D) "
+                    "(ACI 318-19 Eq (18.10.7.4) mechanics; alpha from the geometry, group centroid at "
+                    "cover + fitment + 1.5 db)",
                 ),
             ],
             scale_key="util",
@@ -223,8 +288,8 @@ def compute(
                     "Search",
                     "standard grades; horizontal N10-N20 and vertical N12-N28 at 100-300 mm in 25 mm "
                     "steps, one or two layers; thickness +25 mm steps to +300 mm; each option run "
-                    "through every check (shear, axial + bending, Cl 11.5, detailing) with the actions "
-                    "held as analysed",
+                    "through every check (shear, axial + bending, Cl 11.5, detailing, Section 14) "
+                    "with the actions held as analysed",
                 ),
                 (
                     "Cost",
@@ -394,7 +459,108 @@ def compute(
                 ],
             )
         )
+    for sheet in sheets:
+        sheet.rework = rework.get(sheet.name)
     return Outcome(building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans)
+
+
+DETAIL_MODES = ("auto", "governing", "all")
+
+
+def select_detail(
+    outcome: Outcome,
+    mode: str = "auto",
+    tables_folder: str = "",
+    limit: int | None = None,
+) -> list[ResultSheet]:
+    """Choose the rows each result sheet holds, in place on `outcome.sheets`.
+
+    `all`: every row. `governing`: every table with a rule in `results.GOVERNING` holds its
+    governing rows plus every failing row. `auto`: every row while a table has at most `limit`
+    rows (a workbook of a few hundred thousand rows takes a spreadsheet program the better part
+    of a minute to open or save); above it the governing rows plus every failing row while
+    those stay within `limit`, else the governing rows alone (a harsh tower fails in tens of
+    thousands of rows; its summary still names every failing pier). A table cut so says which
+    rows it holds and where every row is (`tables_folder`, one Parquet file per table, written
+    with the workbook); the summary says it once more. Returns the full tables, also kept as
+    `outcome.full_tables`."""
+    from xlcore.workbook.tables import file_name
+
+    limit = results.DETAIL_ROW_LIMIT if limit is None else limit
+    if mode not in DETAIL_MODES:
+        raise ValueError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {mode!r}")
+    full: list[ResultSheet] = []
+    notes: list[str] = []
+    for k, sheet in enumerate(outcome.sheets):
+        rule = results.GOVERNING.get(sheet.name)
+        n = len(sheet.table)
+        if mode == "all" or rule is None or (mode == "auto" and n <= limit):
+            if sheet.rework is not None:  # every row written: every row's working text
+                outcome.sheets[k] = _reworked(sheet, sheet.table, sheet.preamble)
+            continue
+        keep = results.governing_rows(sheet.table, rule)
+        meaning = rule.meaning + ("; plus every failing row" if rule.failing else "")
+        if mode == "auto" and keep.sum() > limit:
+            fails = int(keep.sum())
+            keep = results.governing_rows(sheet.table, rule, failing=False)
+            meaning = (
+                f"{rule.meaning}; the other failing rows are left out too ({fails:,} rows with "
+                f"them, over {limit:,}): filter the Parquet file's Status for every one"
+            )
+        if keep.all():
+            if sheet.rework is not None:
+                outcome.sheets[k] = _reworked(sheet, sheet.table, sheet.preamble)
+            continue
+        kept = int(keep.sum())
+        name = file_name(sheet.name)
+        where = f"{tables_folder}/{name}" if tables_folder else name
+        outcome.sheets[k] = _reworked(
+            sheet,
+            sheet.table[keep].reset_index(drop=True),
+            [
+                *sheet.preamble,
+                (
+                    "Rows shown",
+                    f"governing rows only ({kept:,} of {n:,}): {meaning}. Every row, without "
+                    f"the working text: {where} (Parquet, beside this workbook)",
+                ),
+            ],
+        )
+        full.append(sheet)
+        notes.append(f"{sheet.name} {kept:,} of {n:,} rows ({name})")
+    outcome.full_tables = full
+    if full and outcome.sheets and outcome.sheets[0].name == results.SUMMARY_SHEET:
+        why = (
+            f"--detail auto: tables over {limit:,} rows"
+            if mode == "auto"
+            else "--detail governing: the per-combination tables"
+        )
+        outcome.sheets[0].preamble.append(
+            (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus the failing rows where they stay within {limit:,}; each sheet "
+                f"says which): {'; '.join(notes)}. Every row is in the folder "
+                f"{tables_folder or 'beside this workbook'}, one Parquet file per table (numbers "
+                "without the working text); compute with --detail all to write every row here",
+            )
+            if mode == "auto"
+            else (
+                "Rows left out",
+                f"{why} hold their governing rows only (per storey x member x check the worst "
+                f"combination, plus every failing row): {'; '.join(notes)}. Every row is in the "
+                f"folder {tables_folder or 'beside this workbook'}, one Parquet file per table "
+                "(numbers without the working text); compute with --detail all to write every "
+                "row here",
+            )
+        )
+    return full
+
+
+def _reworked(sheet: ResultSheet, rows: pd.DataFrame, preamble: list) -> ResultSheet:
+    """The sheet holding `rows`, with their working text where it was left for now."""
+    table = sheet.rework(rows) if sheet.rework is not None else rows
+    return ResultSheet(sheet.name, sheet.title, sheet.columns, table, preamble, sheet.scale_key)
 
 
 def pier_actions(
@@ -414,7 +580,7 @@ def pier_actions(
     ca = building.core_actions
     given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()
     core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
-    table = core_table(core, given)
+    table = core_table(core, given, text=False)  # the walls' working: compute, on the rows written
     core_piers = core_piers.drop(columns=["core"])
     if len(split.shares):
         split.shares["used"] = np.where(
@@ -457,15 +623,11 @@ def _pairs(df: pd.DataFrame) -> pd.Series:
     return df.storey.astype(str) + "\x1f" + df.combination.astype(str)
 
 
-def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFrame:
-    """Walls and piers of the core sharing, one sheet's rows, with the working as text.
-    `given`: core-actions rows whose storey x combination the member actions cover."""
-    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan)
-    w["working"] = [
-        f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
-        f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
-        for d, t, v, m, a in zip(*plain(w.direct, w.torsion, w.v, w.m_cr, w.m_acc), strict=True)
-    ]
+def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = True) -> pd.DataFrame:
+    """Walls and piers of the core sharing, one sheet's rows, with the working as text
+    (without `text`, the walls' working is left blank for `core_working` to make on the rows
+    written). `given`: core-actions rows whose storey x combination the member actions cover."""
+    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan, working=None)
     p = core.piers.assign(
         member=core.piers.pier_id,
         kind="pier",
@@ -482,7 +644,34 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFram
         kind="stable",
         key=lambda c: geometry.natural_rank(c) if c.name == "member" else c,
     )
-    return out.reset_index(drop=True)
+    out = out.reset_index(drop=True)
+    return core_working(out) if text else out
+
+
+def core_working(rows: pd.DataFrame) -> pd.DataFrame:
+    """The walls' working text on rows of the core-shares table (piers carry theirs)."""
+    out = rows.copy()
+    w = out[out.kind == "wall"]
+    out.loc[w.index, "working"] = [
+        f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "
+        f"(+- {a:.1f} accidental); N* = sum of its piers' N*"
+        for d, t, v, m, a in zip(*plain(w.direct, w.torsion, w.v, w.m_cr, w.m_acc), strict=True)
+    ]
+    return out
+
+
+def _rework_rows(check, acts: pd.DataFrame):
+    """The working text for the rows written: the check run again, with its text, on the action
+    rows of those rows only (`_act`: each table row's action row). Every check used so is row by
+    row (a row's numbers depend on its own action row and pier), so the numbers are the same;
+    the rows come back in the order asked."""
+
+    def rework(rows: pd.DataFrame) -> pd.DataFrame:
+        ask = rows._act.to_numpy()
+        out = check(acts.iloc[np.unique(ask)])
+        return out.set_index("_act").loc[ask].reset_index()
+
+    return rework
 
 
 def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
@@ -530,16 +719,19 @@ def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
 
 
 def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
+    """Storey x lintel cases by outcome and by the model that designed them, one line."""
     per = lintels.groupby(["storey", "lintel_id"]).status.agg(
         lambda s: (
             s.iloc[0] if len(set(s)) == 1 else (results.FAIL if (s == results.FAIL).any() else results.PASS)
         )
     )
+    models = lintels[lintels.model != ""].drop_duplicates(["storey", "lintel_id"]).model.value_counts()
+    by_model = ", ".join(f"{n} {m}" for m, n in models.items())
     return (
         "Lintels",
         f"{len(per)} storey x lintel cases: {int((per == results.PASS).sum())} pass, "
         f"{int((per == results.FAIL).sum())} fail, {int((per == results.NOT_CHECKED).sum())} not "
-        "checked (reasons on the lintels sheet)",
+        "checked (no actions)" + (f"; designed as {by_model}" if by_model else ""),
     )
 
 
@@ -562,10 +754,15 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
             )
         )
     lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
+    lines.append(
+        ("Earthquake Section 14 failing", int((summary.section14.str.startswith(results.FAIL)).sum()))
+    )
     return lines
 
 
-def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame) -> pd.DataFrame:
+def _candidates(
+    shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame, section14: pd.DataFrame | None = None
+) -> pd.DataFrame:
     """Every check's rows in one shape: storey, pier, check, combination, demand, capacity, U."""
     cols = [
         "storey",
@@ -618,16 +815,32 @@ def _candidates(shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFram
                 note=detailing.rule,
             )[cols]
         )
+    if section14 is not None and len(section14):
+        # compliance rows only: an end zone required is a trigger, "check" a requirement that
+        # cannot be verified yet; neither is a pass or a failure
+        e = section14[section14.status.isin((results.PASS, results.FAIL))]
+        parts.append(
+            e.assign(
+                check=CHECK_SECTION14,
+                combination="(all)",
+                demand=e.value,
+                capacity=e.limit,
+                note=e.rule,
+            )[cols]
+        )
     return pd.concat(parts, ignore_index=True)
 
 
-CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", "axial + bending", "Cl 11.5 compression"
+CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", AXIAL_CHECK, "Cl 11.5 compression"
 CHECK_DETAILING = "detailing Cl 11.7"
+CHECK_SECTION14 = "earthquake Section 14"
+COMPLIANCE = (CHECK_DETAILING, CHECK_SECTION14)  # reported beside the governing check, never it
 UTIL_COLUMN = {
     CHECK_SHEAR: "u_shear",
     CHECK_NM: "u_nm",
     CHECK_SIMPLIFIED: "u_simplified",
     CHECK_DETAILING: "u_detailing",
+    CHECK_SECTION14: "u_section14",
 }
 
 
@@ -636,21 +849,25 @@ def envelope(
     piers: pd.DataFrame,
     axial: pd.DataFrame | None = None,
     detailing: pd.DataFrame | None = None,
+    section14: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
     """Governing structural check and worst combination per storey x pier, with each check's
     worst utilisation beside it; piers without actions are listed as not checked.
 
-    Detailing (Cl 11.7) is compliance, not strength: it is reported beside the structural
-    result as pass/FAIL with its ratio and makes the status FAIL, but it never becomes the
-    governing check, whose utilisation is the one the engineer needs to see."""
+    Detailing (Cl 11.7) and earthquake detailing (Section 14) are compliance, not strength:
+    each is reported beside the structural result as pass/FAIL with its ratio and makes the
+    status FAIL, but never becomes the governing check, whose utilisation is the one the
+    engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
+    described) shows as 'check' beside it."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
     cand = _candidates(
         shear,
         axial if axial is not None else pd.DataFrame(),
         detailing if detailing is not None else pd.DataFrame(),
+        section14,
     )
     keys = ["storey", "pier_id"]
-    structural = cand[cand.check != CHECK_DETAILING] if len(cand) else cand
+    structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
     if len(structural):
         worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
         per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
@@ -663,30 +880,40 @@ def envelope(
     for c in UTIL_COLUMN.values():
         if c not in table:
             table[c] = np.nan
-    det = cand[cand.check == CHECK_DETAILING] if len(cand) else cand
-    if len(det):
-        det_worst = det.loc[det.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "status", "note"]]
-        det_worst = det_worst.rename(columns={"util": "u_det", "status": "s_det", "note": "rule_det"})
-        table = table.merge(det_worst, on=keys, how="left")
-        table["u_detailing"] = table.u_det
-    else:
-        table["s_det"], table["rule_det"] = np.nan, ""
     missing = table.u_shear.isna()  # no actions: strength not checked, whatever detailing says
     table.loc[missing, ["status", "check", "combination", "clause"]] = [results.NOT_CHECKED, "", "", ""]
     table.loc[missing, ["util", "demand", "capacity"]] = np.nan
     table.loc[missing, "note"] = "no actions for this pier or its wall at this storey (detailing only)"
-    u_det = table.u_detailing.to_numpy(dtype=float)
-    det_fails = (table.s_det == results.FAIL).to_numpy()
-    table["detailing"] = [
-        "" if not np.isfinite(u) else f"{results.FAIL if bad else results.PASS} {u:.2f}"
-        for u, bad in zip(u_det, det_fails, strict=True)
-    ]
     checked = ~missing.to_numpy()
-    table.loc[checked & det_fails, "status"] = results.FAIL
-    note = table.note.fillna("").astype(str)
-    extra = np.where(det_fails, "detailing fails: " + table.rule_det.fillna("").astype(str), "")
+    notes = [table.note.fillna("").astype(str).to_numpy()]
+    to_check = _section14_checks(section14, table[keys])
+    for check, text_col, util_col, label in (
+        (CHECK_DETAILING, "detailing", "u_detailing", "detailing fails: "),
+        (CHECK_SECTION14, "section14", "u_section14", "Section 14 fails: "),
+    ):
+        u, fails, rule = _compliance(cand, table[keys], check)
+        table[util_col] = u
+        text = np.array(
+            [
+                "" if not np.isfinite(x) else f"{results.FAIL if bad else results.PASS} {x:.2f}"
+                for x, bad in zip(u, fails, strict=True)
+            ],
+            dtype=object,
+        )
+        if check == CHECK_SECTION14:
+            text = np.array(
+                [
+                    ", ".join(x for x in (t, results.CHECK if c else "") if x)
+                    for t, c in zip(text, to_check, strict=True)
+                ],
+                dtype=object,
+            )
+        table[text_col] = text
+        table.loc[checked & fails, "status"] = results.FAIL
+        notes.append(np.where(fails, label + rule, ""))
+    notes.append(np.where(to_check, "Section 14: end-zone ties to check (bars not described)", ""))
     table["note"] = [
-        "; ".join(x for x in (a, b) if x) for a, b in zip(note.tolist(), extra.tolist(), strict=True)
+        "; ".join(x for x in parts if x) for parts in zip(*(n.tolist() for n in notes), strict=True)
     ]
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
@@ -696,6 +923,101 @@ def envelope(
     table["util"] = table.util.astype(float)
     table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
     return table[cols].reset_index(drop=True)
+
+
+def _compliance(
+    cand: pd.DataFrame, at: pd.DataFrame, check: str
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per row of `at` (storey, pier): the worst utilisation of a compliance check's rules,
+    whether any fails, and the worst rule's name (NaN, False, '' where it has no rows)."""
+    keys = ["storey", "pier_id"]
+    rows = cand[cand.check == check] if len(cand) else cand
+    if not len(rows):
+        n = len(at)
+        return np.full(n, np.nan), np.zeros(n, dtype=bool), np.full(n, "", dtype=object)
+    worst = rows.loc[rows.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "note"]]
+    fails = rows[rows.status == results.FAIL].groupby(keys, sort=False).size().rename("n_fail").reset_index()
+    m = at.merge(worst, on=keys, how="left").merge(fails, on=keys, how="left")
+    return (
+        m.util.to_numpy(dtype=float),
+        m.n_fail.fillna(0).to_numpy() > 0,
+        m.note.fillna("").astype(str).to_numpy(),
+    )
+
+
+def _section14_checks(section14: pd.DataFrame | None, at: pd.DataFrame) -> np.ndarray:
+    """Per row of `at`: whether a Section 14 requirement awaits checking (status 'check')."""
+    if section14 is None or not len(section14):
+        return np.zeros(len(at), dtype=bool)
+    open_ = section14[section14.status == results.CHECK][["storey", "pier_id"]].drop_duplicates()
+    m = at.merge(open_.assign(_c=True), on=["storey", "pier_id"], how="left")
+    return m._c.eq(True).to_numpy()
+
+
+def section14_preamble(s) -> list[tuple[str, str]]:
+    """Lines above the Section 14 table: the ductility, the combinations, the settings."""
+    why = not_applicable_reason(s)
+    lines = [("Structural ductility factor", s.ductility + " (Project setting, as AS 1170.4 assigns it)")]
+    if why is not None:
+        return lines + [("Not applicable", f"no rows: {why}")]
+    lines += [
+        (
+            "Earthquake combinations",
+            ", ".join(sorted(s.earthquake))
+            or "none named (Project setting): the end-zone trigger is not evaluated",
+        ),
+        (
+            "Rules",
+            f"both faces: {s.eq_two_layers}; least ratio {s.eq_rho_min:g} each way; Hwe/tw at most "
+            f"{s.eq_slenderness:g}; end zones where N*/A + |M*|/Z exceeds {s.compression_limit:g} f'c "
+            f"under an earthquake combination, ties at most min({s.eq_tie_diameters:g} db, "
+            f"{s.eq_tie_max:g} mm) (Project settings; from memory: verify)",
+        ),
+        (
+            "Status",
+            "pass / FAIL: a rule met or not; required / not required: the end-zone trigger (not a "
+            "failure); check: a requirement xlcore cannot verify (end-zone bars not described yet)",
+        ),
+    ]
+    if s.mu >= 3:
+        lines.append(
+            (
+                "Moderately ductile",
+                "the limited-ductile rules are applied as a floor; the further provisions for "
+                "moderately-ductile walls are not checked by xlcore: verify them by hand",
+            )
+        )
+    return lines
+
+
+def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
+    """The building's Section 14 result in one summary line."""
+    label = "Earthquake detailing Section 14"
+    why = not_applicable_reason(s)
+    if why is not None:
+        return (label, f"not applicable: {why}")
+    if section14 is None or not len(section14):
+        return (label, "not checked (no rows)")
+    comp = section14[section14.status.isin((results.PASS, results.FAIL))]
+    parts = []
+    if len(comp):
+        r = comp.loc[comp.util.astype(float).idxmax()]
+        n_fail = int((comp.status == results.FAIL).sum())
+        verdict = results.FAIL if r.util > 1.0 else results.PASS
+        parts.append(
+            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}; "
+            f"{n_fail} of {len(comp)} rule rows fail)"
+        )
+    zones = section14[section14.status == results.REQUIRED]
+    checks = int((section14.status == results.CHECK).sum())
+    if not s.earthquake:
+        parts.append("end zones not evaluated: no earthquake combinations named")
+    else:
+        parts.append(
+            f"end zones required at {len(zones)} storey x pier cases"
+            + (f" ({checks} with end-zone bars not described: check)" if checks else "")
+        )
+    return (label, f"{s.ductility}: " + "; ".join(parts))
 
 
 def attention_first(summary: pd.DataFrame) -> pd.DataFrame:
@@ -741,7 +1063,7 @@ def worst_per_check(
     ):
         src = checked if col != "u_detailing" else summary
         line(label, src, col, lambda r: f"{r.pier_id}, {r.storey}")
-    line("lintel", lintels, "util", lambda r: f"{r.lintel_id}, {r.storey}, {r.combination}")
+    line("lintel", lintels, "util", lambda r: f"{r.lintel_id} ({r.model}), {r.storey}, {r.combination}")
     if stress is not None:
         line("core elastic stress", stress, "util", lambda r: f"{r.wall_id}, {r.storey}, {r.combination}")
     if core_nm is not None:
@@ -761,6 +1083,7 @@ def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
         height=piers.h,
         k=piers.k * 1e-3,
         note=np.where(piers.position > 0, "between openings / wall ends", "wall without openings"),
+        bars=bars.describe(piers) if len(piers) else [],
     )
     lin = lintels.merge(
         piers.drop_duplicates(["storey", "wall_id"])[

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -11,6 +12,9 @@ from xlcore.layout import RESULT_PREFIX
 
 MARKER = "xlcore results"  # first words of A1 on every result sheet: how xlcore knows its own
 PASS, FAIL, NOT_CHECKED, NOT_APPLICABLE = "pass", "FAIL", "not checked", "n/a"
+# Section 14 statuses that are neither pass nor FAIL: an end zone required (a trigger for
+# detailing, not a failure) or not, and a requirement xlcore cannot verify (bars not described)
+REQUIRED, NOT_REQUIRED, CHECK = "required", "not required", "check"
 STAMP_HASH_LABEL = "Input hash (SHA-256)"  # stamp line `check` reads to tell stale results
 
 
@@ -33,6 +37,12 @@ class ResultColumn:
         return self.fmt is None and self.width >= 30
 
     @property
+    def is_working(self) -> bool:
+        """Working text (formulas with numbers substituted): `working` or `f_...`. Left out of
+        the full tables in Parquet, whose numbers it only repeats."""
+        return self.fmt is None and (self.key == "working" or self.key.startswith("f_"))
+
+    @property
     def banded(self) -> bool:
         """A utilisation column: coloured by the bands below."""
         return self.fmt is not None and (
@@ -50,6 +60,9 @@ class ResultSheet:
     table: pd.DataFrame
     preamble: list[tuple[str, object]] = field(default_factory=list)
     scale_key: str | None = None  # column that gets the utilisation colour scale
+    # rows of `table` -> the same rows with their working text: set where the text was left out
+    # to be made for the rows written only (`pipeline.select_detail` calls it)
+    rework: Callable[[pd.DataFrame], pd.DataFrame] | None = None
 
 
 def _c(key, header, unit=None, fmt=None, width=11.0) -> ResultColumn:
@@ -60,6 +73,7 @@ SHEAR_SHEET = RESULT_PREFIX + "shear"
 SECTION_SHEET = RESULT_PREFIX + "core section"
 AXIAL_SHEET = RESULT_PREFIX + "axial-bending"
 DETAILING_SHEET = RESULT_PREFIX + "detailing"
+SECTION14_SHEET = RESULT_PREFIX + "earthquake detailing"
 LINTELS_SHEET = RESULT_PREFIX + "lintels"
 ADVICE_SHEET = RESULT_PREFIX + "advice"
 CORE_STRESS_SHEET = RESULT_PREFIX + "core stress"
@@ -122,6 +136,8 @@ SUMMARY_COLUMNS = [
     _c("u_simplified", "U Cl 11.5", None, "0.000", 8),
     _c("detailing", "Detailing Cl 11.7", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
+    _c("section14", "Earthquake Section 14", width=12),
+    _c("u_section14", "U Section 14", None, "0.000", 9),
     _c("fix", "Cheapest fix (see the advice sheet)", width=30),
     _c("note", "Note", width=30),
 ]
@@ -133,6 +149,9 @@ MEMBER_COLUMNS = [
     _c("wall_id", "Wall", width=7),
     _c("start", "From wall start", "m", "0.000", 12),
     _c("end", "To", "m", "0.000", 9),
+    _c("edge_a", "Start-side edge (End zones location)", width=16),
+    _c("edge_b", "End-side edge", width=16),
+    _c("bars", "Vertical bars (end zones, field)", width=30),
     _c("Lw", "Length", "mm", "0", 9),
     _c("tw", "tw", "mm", "0", 7),
     _c("height", "Height", "mm", "0", 9),
@@ -157,6 +176,8 @@ AXIAL_COLUMNS = [
     _c("tw", "tw", "mm", "0", 7),
     _c("fc", "f'c", "MPa", "0", 7),
     _c("as_total", "As", "mm2", "0", 8),
+    _c("bars", "Vertical bars (end zones, field)", width=30),
+    _c("compressed", "Compressed end (M* sense)", width=11),
     _c("nuo", "Nuo", "kN", "0.0"),
     _c("phi_nuo", "phi Nuo", "kN", "0.0"),
     _c("nuot", "Nuot", "kN", "0.0"),
@@ -242,29 +263,55 @@ DETAILING_COLUMNS = [
     _c("working", "Working", width=70),
 ]
 
+SECTION14_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("rule", "Rule", width=16),
+    _c("value", "Value", None, "0.0####", 10),
+    _c("kind", "Must be", width=9),
+    _c("limit", "Limit", None, "0.0####", 10),
+    _c("unit", "Unit", width=6),
+    _c("util", "Ratio", None, "0.000", 8),
+    _c("status", "Status", width=11),
+    _c("clause", "Clause", width=20),
+    _c("basis", "Basis", width=40),
+    _c("working", "Working", width=60),
+]
+
 LINTEL_RESULT_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("lintel_id", "Lintel", width=9),
     _c("combination", "Combination", width=15),
-    _c("span", "Span", "m", "0.000", 8),
+    _c("model", "Model", width=12),
+    _c("span", "Span ln", "m", "0.000", 8),
     _c("depth", "D", "mm", "0", 7),
     _c("tw", "b", "mm", "0", 7),
-    _c("ratio", "Span/D", None, "0.00", 7),
-    _c("d", "d", "mm", "0", 7),
-    _c("As", "As", "mm2", "0", 8),
-    _c("m", "M*", "kNm", "0.0"),
-    _c("ku", "ku", None, "0.000", 7),
-    _c("phi_mu", "phi Muo", "kNm", "0.0"),
-    _c("v", "V*", "kN", "0.0"),
-    _c("dv", "dv", "mm", "0", 7),
-    _c("kv", "kv", None, "0.000", 7),
-    _c("phi_vu", "phi Vu", "kN", "0.0"),
-    _c("u_m", "U flexure", None, "0.000", 9),
-    _c("u_v", "U shear", None, "0.000", 9),
+    _c("ratio", "ln/D", None, "0.00", 7),
+    _c("v", "V*", "kN", "0.0", 9),
+    _c("m", "M*", "kNm", "0.0", 9),
+    _c("As", "Bars As each face", "mm2", "0", 9),
+    _c("phi_mu", "phi Muo (beam)", "kNm", "0.0", 9),
+    _c("angle", "Strut / diagonal angle", "deg", "0.0", 9),
+    _c("beta_s", "beta_s", None, "0.000", 7),
+    _c("c_star", "Strut C*", "kN", "0.0", 9),
+    _c("strut_cap", "phi strut", "kN", "0.0", 9),
+    _c("t_star", "Tie T*", "kN", "0.0", 9),
+    _c("tie_cap", "phi tie", "kN", "0.0", 9),
+    _c("A_sd", "A_sd per group", "mm2", "0", 9),
+    _c("phi_vu", "phi Vu (capacity)", "kN", "0.0", 9),
+    _c("u_m", "U flexure", None, "0.000", 8),
+    _c("u_v", "U shear", None, "0.000", 8),
+    _c("u_strut", "U strut", None, "0.000", 8),
+    _c("u_node", "U node", None, "0.000", 8),
+    _c("u_tie", "U tie", None, "0.000", 8),
     _c("util", "Utilisation", None, "0.000", 10),
-    _c("status", "Status", width=11),
-    _c("clause", "Clause", width=22),
-    _c("working", "Working", width=90),
+    _c("status", "Status", width=9),
+    _c("clause", "Governs", width=24),
+    _c("as_req", "Bars As needed", "mm2", "0", 9),
+    _c("asd_req", "A_sd needed per group", "mm2", "0", 10),
+    _c("need", "What would make it pass", width=30),
+    _c("basis", "Basis", width=30),
+    _c("working", "Working", width=70),
 ]
 
 ADVICE_COLUMNS = [
@@ -349,6 +396,107 @@ CORES_COLUMNS = [
     _c("used", "Used for", width=18),
     _c("working", "Working", width=90),
 ]
+
+
+# What "governing" keeps of each table that has a combination dimension, when the workbook
+# holds only the governing rows (`compute --detail governing`, or `auto` above
+# DETAIL_ROW_LIMIT rows). One rule per table, declared here beside its columns so that a new
+# result table gets its rule in the same place. Tables without a rule (summary, advice, piers,
+# core section, detailing: already one row per storey x member, or x rule) are always written
+# in full. See DEVELOPERS.md "Decisions" and `governing_rows`.
+DETAIL_ROW_LIMIT = 50_000  # rows per table above which `auto` writes the governing rows only
+
+
+@dataclass(frozen=True)
+class Governing:
+    """Rows kept of one result table: per group (e.g. storey x pier), the row with the largest
+    value of each `worst` column (compared by magnitude where also in `magnitude`; ties: the
+    first row; a group with no value at all keeps its first row, e.g. a lintel not checked),
+    plus every row where a `failing` column says FAIL (the sheet says so after `meaning`). The
+    table's order is kept."""
+
+    group: tuple[str, ...]
+    worst: tuple[str, ...]
+    failing: tuple[str, ...] = ("status",)
+    magnitude: tuple[str, ...] = ()
+    meaning: str = ""  # in words, for the sheet's preamble
+
+
+GOVERNING: dict[str, Governing] = {
+    SHEAR_SHEET: Governing(
+        ("storey", "pier_id"),
+        ("util",),
+        meaning="per storey x pier the combination with the largest utilisation",
+    ),
+    AXIAL_SHEET: Governing(
+        ("storey", "pier_id"),
+        ("util", "util_s"),
+        failing=("status", "status_s"),
+        meaning="per storey x pier the combination with the largest radial utilisation and the one "
+        "with the largest Cl 11.5 utilisation (often the same row)",
+    ),
+    LINTELS_SHEET: Governing(
+        ("storey", "lintel_id"),
+        ("util",),
+        meaning="per storey x lintel the combination with the largest utilisation (a lintel not "
+        "checked: its first row, which says why)",
+    ),
+    CORE_STRESS_SHEET: Governing(
+        ("storey", "wall_id"),
+        ("util", "u_compression"),
+        meaning="per storey x wall the combination with the largest tension-steel utilisation and "
+        "the one with the largest peak compression / limit",
+    ),
+    CORE_NM_SHEET: Governing(
+        ("storey", "core"),
+        ("util",),
+        meaning="per storey (and core) the combination with the largest utilisation",
+    ),
+    CORES_SHEET: Governing(
+        ("storey", "core"),
+        ("vx", "vy", "n", "mx", "my"),
+        failing=(),
+        magnitude=("vx", "vy", "mx", "my"),
+        meaning="per storey x core the combinations with the largest |Vx|, |Vy|, N, |Mx| and |My| "
+        "(a sharing table: nothing fails here)",
+    ),
+    CORE_SHEET: Governing(
+        ("storey", "member"),
+        ("v", "n", "m"),
+        failing=(),
+        magnitude=("v", "m"),
+        meaning="per storey x wall or pier the combinations with the largest |V*|, the largest N* "
+        "and the largest |M*| (a sharing table: nothing fails here)",
+    ),
+}
+
+
+def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -> np.ndarray:
+    """Boolean mask of the rows `rule` keeps (see `Governing`), vectorised: one stable sort
+    per `worst` column, the first row of each group after it; without `failing`, the failing
+    rows that do not govern are left out too."""
+    n = len(table)
+    keep = np.zeros(n, dtype=bool)
+    if n == 0:
+        return keep
+    group = [g for g in rule.group if g in table]  # e.g. `core` only where the table has it
+    gid = table.groupby(group, sort=False, dropna=False).ngroup().to_numpy() if group else np.zeros(n, int)
+    pos = np.arange(n)
+    for col in rule.worst:
+        if col not in table:
+            continue
+        v = pd.to_numeric(table[col], errors="coerce").to_numpy(dtype=float)
+        if col in rule.magnitude:
+            v = np.abs(v)
+        v = np.where(np.isnan(v), -np.inf, v)
+        order = np.lexsort((pos, -v, gid))  # by group, largest first, then table order
+        first = np.ones(n, dtype=bool)
+        first[1:] = gid[order][1:] != gid[order][:-1]
+        keep[order[first]] = True
+    for col in rule.failing if failing else ():
+        if col in table:
+            keep |= (table[col] == FAIL).to_numpy()
+    return keep
 
 
 # Discrete bands of our own on utilisation (not a continuous scale, where a comfortable 0.57

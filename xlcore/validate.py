@@ -11,11 +11,12 @@ from collections import defaultdict
 import numpy as np
 import pandas as pd
 
-from xlcore import costs, diaphragm, geometry, layout
+from xlcore import bars, costs, diaphragm, geometry, layout
+from xlcore.codes import as3600
 from xlcore.codes.as3600 import STANDARD_GRADES
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
-from xlcore.model import Building, Opening, Settings, Storey, WallRun
+from xlcore.model import Building, EndZone, Opening, Settings, Storey, WallRun
 from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
 
 NUMBER_TEXT = re.compile(r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
@@ -24,6 +25,7 @@ THOUSANDS = re.compile(r"^[+-]?\d{1,3}(,\d{3})+(\.\d*)?$")
 DECIMAL_COMMA = re.compile(r"^[+-]?\d*,\d+$")
 INVISIBLE = re.compile("[\u00a0\u00ad\u200b-\u200f\u2060\ufeff\u202f]")
 REQUIRED_OPENING = {c.key for c in layout.OPENINGS.columns if c.required}
+REQUIRED_ZONE = {c.key for c in layout.END_ZONES.columns if c.required}
 LEVEL_TOL = 0.005  # m: storey levels and heights must agree within 5 mm
 
 
@@ -41,9 +43,12 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     geom = _geometry(storeys, walls, openings, f, complete)
     if unsound is not None:
         unsound |= _refused_opening_walls(tables["openings"], openings)
+    # zones of a wall whose rows or openings were refused are checked once those are fixed
+    end_zones = _end_zones(tables.get("end_zones"), storeys, walls, geom, f, unsound)
     actions = _member_actions(tables["member_actions"], storeys, geom, f, set() if complete else unsound)
     core = _core_actions(tables["core_actions"], storeys, geom if complete else None, f)
     _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
+    _ductile_without_earthquake(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
     _combination_warnings(actions, core, f)
     if f.errors:
         raise InputInvalid(f)
@@ -52,6 +57,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
         storeys=storeys,
         walls=walls,
         openings=openings,
+        end_zones=end_zones,
         member_actions=actions,
         core_actions=core,
         input_hash=raw.input_hash,
@@ -202,7 +208,7 @@ def _cell(v: object, col: Column) -> tuple[object, str | None]:
 def _sheet_names(raw: RawWorkbook, f: Findings) -> None:
     lower = {n.strip().lower(): n for n in raw.sheet_names}
     for name in layout.INPUT_SHEET_NAMES:
-        if name in raw.sheets:
+        if name in raw.sheets or name in layout.OPTIONAL_SHEETS:
             continue
         near = lower.get(name.lower())
         hint = f" (found a sheet named {near!r}: sheet names must match exactly)" if near else ""
@@ -403,6 +409,24 @@ def _earthquake_names(sheet: RawSheet | None, s: Settings, actions, core, f: Fin
         cell_name(1, row),
         f"found combination name(s) {', '.join(map(repr, unknown))} that no action sheet has; "
         f"expected names from the action sheets, separated by commas",
+    )
+
+
+def _ductile_without_earthquake(sheet: RawSheet | None, s: Settings, actions, core, f: Findings) -> None:
+    """A structure designed as limited or moderately ductile has earthquake combinations; with
+    none named, Section 14's end-zone trigger is not evaluated: say so once (a warning, as the
+    result sheets would only show it as n/a)."""
+    if sheet is None or s.earthquake or s.mu < 2:
+        return
+    if not any(df is not None and len(df) for df in (actions, core)):
+        return
+    label = _norm(layout.PROJECT.setting("earthquake_combinations").label)
+    row = next((r for r in range(2, len(sheet.rows) + 1) if _norm(sheet.value(r, 0)) == label), None)
+    f.warning(
+        layout.PROJECT.name,
+        cell_name(1, row) if row else None,
+        f"ductility {s.ductility} but no earthquake combinations named: the Section 14 end-zone "
+        "trigger (0.15 f'c) is not evaluated; name them here, separated by commas",
     )
 
 
@@ -699,10 +723,317 @@ def _openings(
                 break
         if bad:
             continue
+        if _lintel_bar_problems(o, rng, storeys, runs, c, f):
+            continue
         for i in range(rng[0], rng[1] + 1):
             placed[(i, o.wall_id)].append((o.offset, o.offset + o.width, o.row))
         out.append(o)
     return out
+
+
+def _end_zones(
+    df: pd.DataFrame | None,
+    storeys: list[Storey],
+    walls: list[WallRun],
+    geom: geometry.Geometry | None,
+    f: Findings,
+    unsound: set[str] | None = frozenset(),
+) -> list[EndZone]:
+    """End-zone rows checked against the walls, the storeys and (when the geometry is known)
+    the piers' free edges: the location exists at every storey of the range, the zone is no
+    longer than its pier, its bars fit at the clear-gap rule, and ranges of one wall and
+    location do not overlap; the two zones of a pier do not overlap each other."""
+    t = layout.END_ZONES
+    if df is None or df.empty or unsound is None or not walls:
+        return []
+    index = {s.name: s.index for s in storeys}
+    runs = geometry.run_at(walls, storeys) if storeys else {}
+    wall_ids = {w.wall_id for w in walls}
+    edges: dict[tuple[int, str], dict[str, tuple[str, float]]] = defaultdict(dict)
+    if geom is not None:
+        p = geom.piers
+        for si, wid, pid, lw, ea, eb in zip(
+            p.storey_index, p.wall_id, p.pier_id, p.Lw, p.edge_a, p.edge_b, strict=True
+        ):
+            edges[(si, wid)][ea] = (pid, lw)
+            edges[(si, wid)][eb] = (pid, lw)
+    out: list[EndZone] = []
+    spans: dict[tuple[str, str], list[tuple[int, int, int]]] = defaultdict(list)
+    for rec in df.itertuples(index=False):
+        c = lambda key, r=rec.row: _at(df, key, r)  # noqa: E731
+        if rec.wall_id in unsound:
+            continue  # its wall has a bad cell: checked once that is fixed
+        if rec.wall_id is not None and rec.wall_id not in wall_ids:
+            f.error(
+                t.name,
+                c("wall_id"),
+                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet"
+                + suggest(rec.wall_id, wall_ids),
+            )
+            continue
+        rng = _storey_range(rec, df, t, index, f)
+        loc = layout.parse_location(rec.location) if rec.location is not None else None
+        if rec.location is not None and loc is None:
+            f.error(
+                t.name,
+                c("location"),
+                f"found {show(rec.location)}; expected {layout.LOCATION_FORMS} (K = the opening's "
+                "number along the wall from its start, 1 for the first)",
+            )
+        tie_d, tie_s = (None if _nan(v) else v for v in (rec.tie_dia, rec.tie_spacing))
+        if (tie_d is None) != (tie_s is None):
+            key = "tie_spacing" if tie_s is None else "tie_dia"
+            f.error(
+                t.name,
+                c(key),
+                f"blank; expected the tie {'spacing' if key == 'tie_spacing' else 'diameter'} as well, "
+                "since the other tie cell of this row is filled (or leave both blank: no ties)",
+            )
+            continue
+        values = rec._asdict()
+        if rng is None or loc is None or any(_nan(v) for k, v in values.items() if k in REQUIRED_ZONE):
+            continue
+        label = geometry.edge_label(*loc)
+        z = EndZone(
+            wall_id=rec.wall_id,
+            storey_from=rec.storey_from,
+            storey_to=rec.storey_to,
+            location=label,
+            which=loc[0],
+            opening=loc[1],
+            bars=int(rec.bars),
+            dia=rec.dia,
+            length=rec.length,
+            tie_dia=tie_d,
+            tie_spacing=tie_s,
+            row=rec.row,
+        )
+        if _zone_problem(z, rng, storeys, runs, edges if geom is not None else None, df, f):
+            continue
+        spans[(z.wall_id, label)].append((rng[0], rng[1], rec.row))
+        out.append(z)
+    for (wall_id, label), lst in spans.items():
+        lst.sort()
+        for (_a0, a1, ra), (b0, _b1, rb) in zip(lst, lst[1:], strict=False):
+            if b0 <= a1:
+                f.error(
+                    t.name,
+                    _at(df, "storey_from", rb),
+                    f"wall {wall_id!r} {label}: storeys overlap row {ra} ({storeys[b0].name} to "
+                    f"{storeys[min(a1, _b1)].name}); expected each storey in one row only",
+                )
+    if geom is not None and out and not any(e.sheet == t.name for e in f.errors):
+        _zones_apart(geom, out, storeys, df, f)
+    return out
+
+
+def _nan(v: object) -> bool:
+    return v is None or (isinstance(v, float) and math.isnan(v))
+
+
+def _zone_problem(z: EndZone, rng, storeys, runs, edges, df, f: Findings) -> bool:
+    """The first problem of one end-zone row at any storey of its range (reported), or False."""
+    t = layout.END_ZONES
+    for i in range(rng[0], rng[1] + 1):
+        s = storeys[i]
+        w = runs.get((i, z.wall_id))
+        if w is None:
+            f.error(
+                t.name,
+                _at(df, "storey_from", z.row),
+                f"wall {z.wall_id!r} does not exist at storey {s.name}; expected the zone's storeys "
+                "within the wall's",
+            )
+            return True
+        if z.bars % w.v_layers:
+            f.error(
+                t.name,
+                _at(df, "bars", z.row),
+                f"found {z.bars} bars; expected a multiple of wall {z.wall_id!r}'s {w.v_layers} vertical "
+                f"layers at {s.name} (the same number on each face)",
+            )
+            return True
+        if edges is None:
+            continue
+        here = edges.get((i, z.wall_id), {})
+        if z.location not in here:
+            f.error(
+                t.name,
+                _at(df, "location", z.row),
+                f"found {z.location!r}; wall {z.wall_id!r} has no such free edge at {s.name}; expected "
+                f"one of: {', '.join(here)}",
+            )
+            return True
+        pier, lw = here[z.location]
+        if z.length > lw + 1e-9:
+            f.error(
+                t.name,
+                _at(df, "length", z.row),
+                f"found {z.length:g} mm; expected at most the length of pier {pier} "
+                f"({lw:.0f} mm at {s.name})",
+            )
+            return True
+        tie = z.tie_dia or 0.0
+        gap = float(as3600.wall_min_clear_gap(z.dia))
+        need = float(bars.zone_min_length(z.bars, w.v_layers, z.dia, w.cover, tie, gap))
+        if z.length < need - 1e-9:
+            per_face = z.bars // w.v_layers
+            f.error(
+                t.name,
+                _at(df, "length", z.row),
+                f"found {z.length:g} mm; expected at least {need:.0f} mm to hold {per_face} N{z.dia:g} "
+                f"a face at a clear gap of 3 db = {gap:.0f} mm (Cl 11.7) with cover {w.cover:g} mm"
+                + (f" and N{tie:g} ties" if tie else "")
+                + f" (wall {z.wall_id!r} at {s.name}); fewer bars or a longer zone",
+            )
+            return True
+    return False
+
+
+def _zones_apart(geom: geometry.Geometry, zones: list[EndZone], storeys, df, f: Findings) -> None:
+    """The two end zones of one pier must not overlap (their lengths add up to at most Lw)."""
+    at = geometry.zones_at(zones, storeys)
+    p = geom.piers
+    seen = set()
+    for si, storey, wid, pid, lw, ea, eb in zip(
+        p.storey_index, p.storey, p.wall_id, p.pier_id, p.Lw, p.edge_a, p.edge_b, strict=True
+    ):
+        za, zb = at.get((si, wid, ea)), at.get((si, wid, eb))
+        if za is None or zb is None or za.length + zb.length <= lw + 1e-9 or (za.row, zb.row) in seen:
+            continue
+        seen.add((za.row, zb.row))
+        f.error(
+            layout.END_ZONES.name,
+            _at(df, "length", zb.row),
+            f"found {zb.length:g} mm; the end zones of pier {pid} at {storey} (rows {za.row} and {zb.row}, "
+            f"{za.length:g} + {zb.length:g} mm) overlap in its {lw:.0f} mm; expected them to add up to "
+            "at most the pier's length",
+        )
+    if not seen:
+        _zone_neighbours(geometry.with_zones(p, at), at, df, f)
+
+
+def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
+    """Where no field bar is left between a zone and the other side of its pier (the field is
+    one span: `bars.layout`), the zone's innermost bar and the bar facing it (the other zone's
+    innermost bar, or the wall's edge bar) at least the clear gap of the larger bar apart (3 db,
+    Cl 11.7 as transcribed). Gaps to field bars follow the idealised even layout and are not
+    judged here."""
+    zoned = piers[(piers.za_n > 0) | (piers.zb_n > 0)]
+    if zoned.empty:
+        return
+    lay = bars.layout(zoned)
+    spans = lay.field_count + (zoned.za_n > 0).to_numpy() + (zoned.zb_n > 0).to_numpy() - 1
+    zoned = zoned[spans <= 1]
+    if zoned.empty:
+        return
+    lay = bars.layout(zoned)
+    d, A = lay.all_bars()
+    dia_of = np.hstack(
+        [
+            np.where(
+                np.arange(d.shape[1] - lay.zone_d.shape[1])[None, :] < lay.field_count[:, None],
+                zoned.v_dia.to_numpy(float)[:, None],
+                0.0,
+            ),
+            np.where(
+                lay.zone_A > 0, np.sqrt(4 * lay.zone_A / np.pi / zoned.v_layers.to_numpy(float)[:, None]), 0.0
+            ),
+        ]
+    )
+    in_zone = np.hstack([np.zeros(d.shape[1] - lay.zone_d.shape[1]), np.ones(lay.zone_d.shape[1])]) > 0
+    seen = set()
+    for i, rec in enumerate(zoned.itertuples(index=False)):
+        live = A[i] > 0
+        order = np.argsort(d[i][live])
+        pos, dia, zone = d[i][live][order], dia_of[i][live][order], in_zone[live][order]
+        clear = np.diff(pos) - (dia[1:] + dia[:-1]) / 2
+        need = as3600.wall_min_clear_gap(np.maximum(dia[1:], dia[:-1]))
+        bad = np.flatnonzero((clear < need - 1e-6) & (zone[1:] | zone[:-1]))
+        if not bad.size:
+            continue
+        j = int(bad[0])
+        side = "a" if pos[j] < rec.Lw / 2 else "b"
+        z = at.get((rec.storey_index, rec.wall_id, rec.edge_a if side == "a" else rec.edge_b))
+        if z is None or z.row in seen:
+            continue
+        seen.add(z.row)
+        f.error(
+            layout.END_ZONES.name,
+            _at(df, "length", z.row),
+            f"found {z.length:g} mm; in pier {rec.pier_id} at {rec.storey} the bar beside this zone's "
+            f"innermost bar is {clear[j]:.0f} mm clear of it; expected at least 3 db = {need[j]:.0f} mm "
+            "(Cl 11.7): a shorter zone, or a longer one holding that bar",
+        )
+
+
+
+
+LINTEL_BAR_GROUPS = (
+    ("lintel_bars", "lintel_dia"),
+    ("stirrup_dia", "stirrup_legs", "stirrup_spacing"),
+    ("diag_bars", "diag_dia"),
+)
+"""Openings-sheet cells that mean something only together: a lintel's bars, its fitments, its
+diagonal groups. Half a group is refused rather than silently ignored."""
+
+
+def _lintel_bar_problems(o: Opening, rng, storeys: list[Storey], runs, c, f: Findings) -> bool:
+    """Lintel reinforcement that is incomplete, or diagonal groups too deep to cross in the
+    lintel: an error at the cell (True: the opening is not used). Groups wider than the wall
+    leaves inside its cover: a warning.
+
+    Diagonal groups lie in two layers (common practice, no source; ACI 318-19 18.10.7.4 asks for
+    at least four bars in two layers), so ceil(n/2) bars stand side by side across the wall with a
+    clear gap of one bar diameter, and each group's centroid sits cover + fitment + 1.5 db from
+    the lintel's top and bottom faces: the lintel must be deeper than twice that for the groups
+    to cross (checks/lintels.py uses the same geometry)."""
+    t = layout.OPENINGS
+    bad = False
+    for keys in LINTEL_BAR_GROUPS:
+        given = [k for k in keys if getattr(o, k) is not None]
+        if given and len(given) < len(keys):
+            missing = next(k for k in keys if getattr(o, k) is None)
+            names = ", ".join(repr(t.column(k).header) for k in given)
+            f.error(
+                t.name,
+                c(missing),
+                f"found blank; expected {t.column(missing).expectation()} since {names} "
+                "is given on this row (or clear the row's other cells of this group)",
+            )
+            bad = True
+    if bad or o.diag_bars is None or o.diag_dia is None:
+        return bad
+    n, db = int(o.diag_bars), float(o.diag_dia)
+    across = math.ceil(n / 2)
+    fit = o.stirrup_dia or 0.0
+    crowded = False
+    for i in range(rng[0], rng[1] + 1):
+        w = runs[(i, o.wall_id)]
+        room = w.thickness - 2.0 * w.cover
+        need = (2 * across - 1) * db
+        if need > room + 1e-9 and not crowded:
+            # a warning, like a wall whose cover and bars overfill it: the design still runs
+            f.warning(
+                t.name,
+                c("diag_bars"),
+                f"found {n} bars of {db:g} mm per diagonal group: {across} side by side need "
+                f"{need:g} mm but wall {o.wall_id!r} leaves {room:g} mm inside its cover at "
+                f"{storeys[i].name}; check the bars fit",
+            )
+            crowded = True
+        depth = (storeys[i].height - o.head) * 1000.0
+        a_g = w.cover + fit + 1.5 * db
+        if depth <= 2.0 * a_g:
+            f.error(
+                t.name,
+                c("diag_dia"),
+                f"found {db:g} mm diagonal bars: their groups need a lintel deeper than "
+                f"2 x {a_g:g} mm, but the lintel at {storeys[i].name} is {depth:.0f} mm deep; "
+                "expected smaller bars (or no diagonal bars)",
+            )
+            return True
+    return False
 
 
 def _geometry(

@@ -1,10 +1,11 @@
 """The cheapest changes that make each failing pier pass every check at its storey.
 
 A search over discrete options, each evaluated with the same vectorised checks as the design
-(shear, axial + bending, Cl 11.5, detailing): a higher standard grade; the lightest horizontal
-or vertical bar arrangement within the detailing limits; a thicker wall in 25 mm steps. The
-actions are held as analysed (a stiffer pier would attract more; re-run the analysis after a
-change). Options are ranked by the added cost per metre height of pier.
+(shear, axial + bending, Cl 11.5, detailing Cl 11.7 and Section 14): a higher standard grade;
+the lightest horizontal or vertical bar arrangement within the detailing limits; end-zone bars
+at both free edges of the pier (offered first where axial + bending fails); a thicker wall in
+25 mm steps. The actions are held as analysed (a stiffer pier would attract more; re-run the
+analysis after a change). Options are ranked by the added cost per metre height of pier.
 """
 
 from __future__ import annotations
@@ -14,9 +15,10 @@ import itertools
 import numpy as np
 import pandas as pd
 
-from xlcore import costs, geometry
+from xlcore import bars, costs, geometry
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
+from xlcore.checks.section14 import check_section14
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import as3600
 from xlcore.model import Settings
@@ -26,6 +28,11 @@ V_DIAS = (12.0, 16.0, 20.0, 24.0, 28.0)
 SPACINGS = tuple(float(s) for s in range(100, 301, 25))
 LAYERS = (1, 2)
 THICKNESS_STEP, THICKNESS_STEPS = 25.0, 12
+ZONE_DIAS = (20.0, 24.0, 28.0, 32.0, 36.0)
+ZONE_BARS = (4, 6, 8, 10, 12)  # bars in each zone over all faces
+ZONE_ROUND = 25.0  # mm: zone lengths rounded up to this
+ZONE_KIND = "end-zone bars"
+AXIAL_CHECK = "axial + bending"  # the summary's name of the pier N-M check
 
 
 def _option_table() -> pd.DataFrame:
@@ -45,6 +52,10 @@ def _option_table() -> pd.DataFrame:
                 )
             )
     rows += [
+        dict(kind=ZONE_KIND, option="", zone_dia=d, zone_bars=float(n))
+        for d, n in itertools.product(ZONE_DIAS, ZONE_BARS)
+    ]
+    rows += [
         dict(kind="thickness", option="", step=k * THICKNESS_STEP) for k in range(1, THICKNESS_STEPS + 1)
     ]
     return pd.DataFrame(rows)
@@ -61,6 +72,9 @@ def _candidates(
     (a lower grade, less steel), all column by column."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
+    for c in geometry.ZONE_COLUMNS:
+        if c not in base:
+            base[c] = np.nan if c.endswith("_ties") else 0.0
     o = OPTIONS
     bi = np.repeat(np.arange(len(base)), len(o))
     oi = np.tile(np.arange(len(o)), len(base))
@@ -87,12 +101,23 @@ def _candidates(
         )
         var[f"rho_{prefix}"] = np.where(thick, same, var[f"rho_{prefix}"].to_numpy(float))
     var["tw"] = tw
+    keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi])
     var, kind, oi = var[keep].reset_index(drop=True), kind[keep], oi[keep]
     bi = bi[keep]
     option = o.option.to_numpy()[oi].copy()
     thick = kind == "thickness"
     option[thick] = [f"tw {t:g} mm (same bars)" for t in var.tw.to_numpy()[thick].tolist()]
-    variant = [f"{p}#{i}" for i, p in enumerate(var.pier_id.tolist())]  # unique over storeys too
+    zoned = kind == ZONE_KIND
+    option[zoned] = [
+        f"{n:g}N{d:g} in {length:g} mm at each end (ties not priced)"
+        for n, d, length in zip(
+            *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
+        )
+    ]
+    # each variant's own pier ID, unique over storeys too: an integer, so that the checks' joins
+    # on (storey, pier) and the maps by variant hash numbers, not text (a text ID per variant cost
+    # a Python format per row and string factorising in every join)
+    variant = np.arange(len(var), dtype=np.int64)
     meta = pd.DataFrame(
         dict(
             storey=var.storey.to_numpy(),
@@ -106,14 +131,51 @@ def _candidates(
 
     def cost(df: pd.DataFrame) -> np.ndarray:
         concrete = costs.concrete_price(prices, df.fc.to_numpy(float))
+        zone_area = sum(
+            np.nan_to_num(df[f"z{side}_n"].to_numpy(float)) * bars.bar_area(np.nan_to_num(df[f"z{side}_dia"]))
+            for side in "ab"
+        )
         return np.asarray(
             costs.per_metre_height(df.Lw, df.tw, df.rho_v, df.rho_h, concrete, settings.steel_price)
-        )
+        ) + costs.bars_per_metre_height(zone_area, settings.steel_price)
 
     meta["added_cost"] = cost(var) - cost(base)[bi]
     for key in ("fc", "tw", "rho_v", "rho_h"):
         meta[key] = var[key].to_numpy()
     return var, meta
+
+
+def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.ndarray) -> np.ndarray:
+    """Put the end-zone options `sel` (n bars of `dia` at both free edges of the pier) into the
+    variant rows; which of them to keep: a whole number of bars a face, a zone (the least
+    length holding the bars at the clear-gap rule, rounded up to ZONE_ROUND) short enough that
+    the two zones' innermost bars keep that gap, and more zone steel at each side than the pier
+    has."""
+    keep = np.ones(len(var), dtype=bool)
+    if not sel.any():
+        return keep
+    layers = var.v_layers.to_numpy(float)
+    d, count = np.nan_to_num(dia), np.nan_to_num(n)
+    need = bars.zone_min_length(
+        count, layers, d, var.cover.to_numpy(float), 0.0, as3600.wall_min_clear_gap(d)
+    )
+    length = np.ceil(need / ZONE_ROUND) * ZONE_ROUND
+    area = count * bars.bar_area(d)
+    more = np.ones(len(var), dtype=bool)
+    for side in "ab":
+        now = np.nan_to_num(var[f"z{side}_n"].to_numpy(float)) * bars.bar_area(
+            np.nan_to_num(var[f"z{side}_dia"].to_numpy(float))
+        )
+        more &= area > now + 1e-9
+    # the two zones' innermost bars (no ties) stay 3 db clear of each other: 2 L <= Lw - 3 db
+    room = (var.Lw.to_numpy(float) - as3600.wall_min_clear_gap(d)) / 2
+    fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
+    keep[sel] = fits[sel]
+    for side in "ab":
+        for k, v in (("n", count), ("dia", d), ("len", length), ("tie", 0.0), ("ties", np.nan)):
+            col = f"z{side}_{k}"
+            var[col] = np.where(sel, v, var[col].to_numpy(float))
+    return keep
 
 
 def _utilisation(
@@ -216,11 +278,15 @@ def advise(
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
         "none: horizontal bars do not change axial + bending or Cl 11.5, which fail"
     )
-    out["rank"] = out.groupby(["storey", "pier_id"]).added_cost.rank(method="first")
     out = out.merge(
         summary[["storey", "pier_id", "check", "util"]].rename(columns={"util": "util_now"}),
         on=["storey", "pier_id"],
     )
+    # where axial + bending fails (tension or flexure: the failures end bars are for), a passing
+    # end-zone option is offered first; otherwise the cheapest change ranks first
+    first = ((out.kind == ZONE_KIND) & (out.check == AXIAL_CHECK)).to_numpy()
+    key = out.added_cost.to_numpy(float) - np.where(first, 1e15, 0.0)
+    out["rank"] = pd.Series(key, index=out.index).groupby([out.storey, out.pier_id]).rank(method="first")
     return out.sort_values(["storey", "pier_id", "rank"], na_position="last").reset_index(drop=True)
 
 
@@ -270,6 +336,7 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
         hwe = None
     if not only_axial:
         parts.append(check_detailing(var, acts, s, hwe, working=False)[["pier_id", "util"]])
+        parts.append(check_section14(var, acts, s, hwe, working=False))
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()

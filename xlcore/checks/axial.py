@@ -6,9 +6,10 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import nm
+from xlcore import bars, nm
 from xlcore.checks import once_per, per_pier, plain
 from xlcore.codes import as3600
+from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
 
@@ -26,47 +27,62 @@ GEOMETRY = [
     "cover",
     "rho_v",
     "supported_edges",
+    "edge_a",
+    "edge_b",
+    *ZONE_COLUMNS,
 ]
 
 
-def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover) -> tuple[np.ndarray, np.ndarray]:
-    """Vertical bars of each pier seen in its plane: depths (rows x n) and areas.
+def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover, zones: pd.DataFrame | None = None):
+    """Vertical bars of each pier seen in its plane: depths from the pier's start side
+    (rows x n) and areas (all layers at a position).
 
-    Bars at the given spacing or closer, evenly between the end bars, whose centres sit at
-    cover + bar radius from each end of the pier (no end-zone bars: an idealisation - add
-    boundary bars as a separate input when that lands)."""
-    edge = cover + v_dia / 2
-    count = np.maximum(np.ceil((Lw - 2 * edge) / v_spacing).astype(int) + 1, 2)
-    width = count.max()
-    j = np.arange(width)[None, :]
-    step = (Lw - 2 * edge) / (count - 1)
-    depth = edge[:, None] + j * step[:, None]
-    area = np.where(j < count[:, None], (v_layers * np.pi * v_dia**2 / 4)[:, None], 0.0)
-    return np.where(j < count[:, None], depth, 0.0), area
+    The field bars at the given spacing or closer, evenly between the end bars, whose centres
+    sit at cover + bar radius from each end of the pier; where `zones` (the geometry's zone
+    columns, one row per pier) gives end-zone bars, those at their positions and the field
+    between the zones (`bars.layout`)."""
+    df = pd.DataFrame(dict(Lw=Lw, v_dia=v_dia, v_spacing=v_spacing, v_layers=v_layers, cover=cover))
+    if zones is not None:
+        df = pd.concat([df, zones.reset_index(drop=True)[_zone_cols(zones)]], axis=1)
+    return bars.layout(df).all_bars()
+
+
+def _zone_cols(df: pd.DataFrame) -> list[str]:
+    return [c for c in ZONE_COLUMNS if c in df]
 
 
 def rect_sections(df: pd.DataFrame) -> nm.EvenRect:
-    """The piers of `df` as sections with the bars of `pier_bars` (evenly spaced, one area)."""
-    Lw, tw, dia, spacing, layers, cover = (
-        df[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover")
-    )
-    edge = cover + dia / 2
-    count = np.maximum(np.ceil((Lw - 2 * edge) / spacing).astype(int) + 1, 2)
+    """The piers of `df` as sections, depths from each pier's start side (the face M* < 0
+    compresses): the field bars in closed form, the end-zone bars one by one (`bars.layout`)."""
+    lay = bars.layout(df)
     fc = df.fc.to_numpy(dtype=float)
     return nm.EvenRect(
-        D=Lw,
-        b=tw,
+        D=df.Lw.to_numpy(dtype=float),
+        b=df.tw.to_numpy(dtype=float),
         fc=fc,
         fsy=df.fsy.to_numpy(dtype=float),
-        edge=edge,
-        step=(Lw - 2 * edge) / (count - 1),
-        count=count.astype(float),
-        bar_area=layers * np.pi * dia**2 / 4,
+        edge=lay.field_edge,
+        step=lay.field_step,
+        count=lay.field_count,
+        bar_area=lay.field_area,
         alpha2=as3600.alpha2(fc),
         gamma=as3600.gamma(fc),
         eps_cu=as3600.EPS_CU,
         Es=as3600.ES,
+        zd=lay.zone_d if lay.zone_d.shape[1] else None,
+        zA=lay.zone_A if lay.zone_d.shape[1] else None,
     )
+
+
+def asymmetric(df: pd.DataFrame) -> np.ndarray:
+    """Piers whose end zones differ between their two sides (their strength depends on which
+    end M* compresses)."""
+    out = np.zeros(len(df), dtype=bool)
+    for k in ZONE_FIELDS[:4]:
+        a, b = (np.nan_to_num(df[f"z{s}_{k}"].to_numpy(dtype=float)) if f"z{s}_{k}" in df else 0.0
+                for s in "ab")
+        out |= np.asarray(a != b)
+    return out
 
 
 def interaction(
@@ -146,6 +162,15 @@ def interaction(
     return out
 
 
+def _oriented(df: pd.DataFrame, first: np.ndarray) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
+    """Each distinct pier's section twice: compressed at its start (rows 0..k-1) and at its end
+    (rows k..2k-1); which piers are asymmetric; and for each row whether M* compresses the end
+    (M* >= 0, the sign convention of the actions sheets)."""
+    base = rect_sections(df.iloc[first])
+    sec = nm.concat(base, base.flipped())
+    return sec, asymmetric(df.iloc[first]), df.m.to_numpy(float) >= 0
+
+
 RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE = 1, 2, 3, 0
 RAY_TEXT = {
     RAY_TENSION: "tension side",
@@ -216,16 +241,29 @@ def check_pier_axial(
 ) -> pd.DataFrame:
     """In-plane axial force and bending of every pier row, kN and kNm (without `working`, the
     numbers only)."""
-    df = actions.merge(piers[GEOMETRY], on=["storey", "pier_id"], how="left")
+    df = actions.merge(piers[[c for c in GEOMETRY if c in piers]], on=["storey", "pier_id"], how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
     if df.empty:
         return df
     first, of = per_pier(df)
-    sec = rect_sections(df.iloc[first])
+    sec, asym, end_compressed = _oriented(df, first)
     n_star = df.n.to_numpy(float) * 1e3
-    m_design = as3600.min_eccentricity_moment(df.m.to_numpy(float) * 1e6, n_star, df.Lw.to_numpy(float))
-    r = interaction(sec, n_star, phi0, of=of, m_star=m_design)
+    m_raw = df.m.to_numpy(float) * 1e6
+    m_design = as3600.min_eccentricity_moment(m_raw, n_star, df.Lw.to_numpy(float))
+    # M* > 0 compresses the pier's end (the flipped section, rows len(first) on); where the
+    # minimum eccentricity sets |M*| the sense is open: both are run and the worse kept
+    both = asym[of] & (m_design > np.abs(m_raw))
+    rows = np.concatenate([np.arange(len(df)), np.flatnonzero(both)])
+    sense = np.concatenate([end_compressed, ~end_compressed[both]])
+    r = interaction(sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows])
+    pick = np.arange(len(df))
+    other = len(df) + np.arange(int(both.sum()))
+    worse = r["lam"][other] > r["lam"][np.flatnonzero(both)]
+    pick[np.flatnonzero(both)[worse]] = other[worse]
+    r = {k: v[pick] for k, v in r.items()}
+    df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either")
+    section_of = (of[rows] + len(first) * sense)[pick]
     kn, knm = 1e-3, 1e-6
     df["m_design"] = m_design * knm
     df["m_min"] = np.maximum(n_star, 0.0) * as3600.MIN_ECCENTRICITY * df.Lw.to_numpy(float) * knm
@@ -234,7 +272,7 @@ def check_pier_axial(
     df["phi_nuot"] = r["bottom"] * kn
     df["mu"] = np.where(r["region"] == 2, np.abs(r["mu"]) * knm, np.nan)
     df["phi"], df["phi_mu"] = r["phi"], r["phi_mu"] * knm
-    df["as_total"] = sec.As[of]
+    df["as_total"] = sec.As[section_of]
     # the ratio at fixed N* (kept as a column: what earlier versions called the utilisation)
     beyond = np.isin(r["region"], (4, 5))  # axial capacity exceeded: the axial ratio tells
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -257,6 +295,7 @@ def check_pier_axial(
     )
     if not working:
         return _simplified(df, settings, of, working)
+    df["bars"] = np.asarray(bars.describe(df.iloc[first]), dtype=object)[of]
     phi_b = as3600.phi_bending(r["kuo"])
     cols = plain(
         ray,
@@ -284,7 +323,11 @@ def check_pier_axial(
         df.phi_mu,
         df.u_fixed_n,
     )
-    df["f_nm"] = [_nm_text(*vals, phi0) for vals in zip(*cols, strict=True)]
+    df["f_nm"] = [
+        ("" if c == "either" else f"M* compresses the pier's {c} (its end zones differ); ")
+        + _nm_text(*v, phi0)
+        for c, *v in zip(df.compressed.tolist(), *cols, strict=True)
+    ]
     return _simplified(df, settings, of, working)
 
 

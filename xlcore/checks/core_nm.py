@@ -10,6 +10,7 @@ from xlcore import nm_core
 from xlcore.checks.axial import pier_bars
 from xlcore.codes import as3600
 from xlcore.distribution import by_storey
+from xlcore.geometry import ZONE_COLUMNS
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -27,14 +28,19 @@ def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> n
     for storey in storeys:
         sp = piers_at[storey]
         d, area = pier_bars(
-            *(sp[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover"))
+            *(sp[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover")),
+            zones=sp,
         )
         walls = []
         for i, p in enumerate(sp.itertuples(index=False)):
+            # every bar position (field and end zones) holds one bar per layer, the layers at
+            # cover + db/2 of the wall's own bars from each face
             off = p.tw / 2 - p.cover - p.v_dia / 2
             offsets = (-off, off) if p.v_layers >= 2 else (0.0,)
-            per_bar = np.pi * p.v_dia**2 / 4
-            bars = [(dd, o, per_bar) for dd, aa in zip(d[i], area[i], strict=True) if aa > 0 for o in offsets]
+            share = 1.0 / len(offsets)
+            bars = [
+                (dd, o, aa * share) for dd, aa in zip(d[i], area[i], strict=True) if aa > 0 for o in offsets
+            ]
             walls.append((p.px1 * 1000, p.py1 * 1000, p.px2 * 1000, p.py2 * 1000, p.tw, p.fc, p.fsy, bars))
         walls_per_storey.append(walls)
         sec = plans[storey].section
@@ -50,6 +56,7 @@ def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> n
 
 def _section_key(sp: pd.DataFrame, sec) -> tuple:
     cols = ["px1", "py1", "px2", "py2", "tw", "fc", "fsy", "v_dia", "v_spacing", "v_layers", "cover"]
+    cols += [c for c in ZONE_COLUMNS if c in sp and not c.endswith("_ties")]
     return (tuple(map(tuple, sp[cols].round(6).to_numpy())), round(sec.xc, 9), round(sec.yc, 9))
 
 

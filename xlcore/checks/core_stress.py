@@ -8,7 +8,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import section
+from xlcore import bars, section
 from xlcore.checks import plain
 from xlcore.codes import as3600
 from xlcore.distribution import StoreyPlan, by_storey, stack
@@ -20,23 +20,41 @@ FLAG_END_ZONE = "end-zone detailing (Cl 14.6)"
 
 
 def _fibres(sp: pd.DataFrame) -> pd.DataFrame:
-    """Fibres of FIBRE length along every pier at one storey: position, area and wall."""
+    """Fibres of FIBRE length along every pier at one storey: position, area and wall; the
+    wall's vertical ratio smeared over the fibres between its end zones (none inside a zone,
+    whose bars are counted one by one: `_zone_bars`)."""
     count = np.maximum(np.ceil((sp.end - sp.start) / FIBRE).astype(int), 1).to_numpy()
     idx = np.repeat(np.arange(len(sp)), count)
     j = np.concatenate([np.arange(c) for c in count])
     seg = ((sp.end - sp.start) / count).to_numpy()[idx]
     along = sp.start.to_numpy()[idx] + (j + 0.5) * seg
+    rel = (along - sp.start.to_numpy()[idx]) * 1000.0  # mm from the pier's start side
+    za, zb = (np.nan_to_num(sp[f"z{s}_len"].to_numpy(float)) if f"z{s}_len" in sp else np.zeros(len(sp))
+              for s in "ab")
+    in_zone = (rel < za[idx]) | (rel > sp.Lw.to_numpy(float)[idx] - zb[idx])
     return pd.DataFrame(
         dict(
             wall_id=sp.wall_id.to_numpy()[idx],
             x=sp.wx.to_numpy()[idx] + sp.ux.to_numpy()[idx] * along,
             y=sp.wy.to_numpy()[idx] + sp.uy.to_numpy()[idx] * along,
             area=seg * sp.tw.to_numpy()[idx] / 1000,
-            rho_v=sp.rho_v.to_numpy()[idx],
+            rho_v=np.where(in_zone, 0.0, sp.rho_v.to_numpy()[idx]),
             fsy=sp.fsy.to_numpy()[idx],
             fc=sp.fc.to_numpy()[idx],
         )
     )
+
+
+def _zone_bars(sp: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """End-zone bar positions of every pier at one storey: plan x, y [m], area [mm^2] (all
+    layers at a position) and the pier's row in `sp`."""
+    lay = bars.layout(sp)
+    live = lay.zone_A > 0
+    pier = np.nonzero(live)[0]
+    along = sp.start.to_numpy(float)[pier] + lay.zone_d[live] / 1000.0
+    x = sp.wx.to_numpy(float)[pier] + sp.ux.to_numpy(float)[pier] * along
+    y = sp.wy.to_numpy(float)[pier] + sp.uy.to_numpy(float)[pier] * along
+    return x, y, lay.zone_A[live], pier
 
 
 def check_core_stress(
@@ -63,6 +81,11 @@ def check_core_stress(
         tension_area = np.add.reduceat(tens * area[:, None], starts, axis=0)  # walls x combos, m^2
         tension = np.add.reduceat(np.maximum(-sigma, 0) * area[:, None], starts, axis=0) * 1000.0  # kN
         provided = np.add.reduceat(tens * (rho * area)[:, None], starts, axis=0) * 1e6
+        zx, zy, za, zp = _zone_bars(sp)
+        if len(za):  # end-zone bars in tension add their own area to their wall's
+            z_sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], zx[:, None], zy[:, None])
+            z_wall = pd.Index(walls.wall_id).get_indexer(sp.wall_id.to_numpy()[zp])
+            np.add.at(provided, z_wall, (z_sigma < 0) * za[:, None])
         wx, wy, ux, uy, length = (walls[k].to_numpy() for k in ("wx", "wy", "ux", "uy", "wall_length"))
         end_sigma = [
             section.stress_at(sec, a[None, :], b[None, :], c[None, :], x[:, None], y[:, None]) / 1000.0
@@ -109,7 +132,8 @@ def check_core_stress(
     df["governs"] = "tension steel"
     df["working"] = [
         f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / (0.85 x {fy:g}) = {ar:.0f} mm2 "
-        f"vs {ap:.0f} mm2; sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
+        f"vs {ap:.0f} mm2 in tension (field bars smeared, end-zone bars one by one); "
+        f"sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(
             *plain(df.tension, df.tension_area, df.fsy, df.as_req, df.as_prov, df.sigma_max, df.limit),
             strict=True,

@@ -50,6 +50,15 @@ def check_detailing(
         p["hwe"] = np.nan
     p["hwe"] = p.hwe.fillna(p.Hc)
     restrained = settings.shrinkage_restrained == "yes"
+    # the vertical rules apply to the wall's own (field) bars, which run between the end zones;
+    # the zones' bars add to the pier's steel but are not counted towards the field's ratio
+    zoned = np.zeros(len(p), dtype=bool)
+    for side in "ab":
+        if f"z{side}_n" in p:
+            zoned |= p[f"z{side}_n"].fillna(0).to_numpy(float) > 0
+    field_note = np.where(zoned, "; field bars between the end zones", "")
+    if working:
+        field_note = field_note.tolist()
     tw = p.tw.to_numpy(float)
     rv_min = as3600.wall_rho_v_min(p.sigma, p.fc)
     rh_min = as3600.wall_rho_h_min(restrained, p.wall_length * 1000.0)
@@ -64,8 +73,8 @@ def check_detailing(
             "",
             lambda: [
                 f"rho_v = {v:.5f} vs {m:.4f} (N*/(Lw tw) = {s:.2f} MPa "
-                f"{'<=' if s <= 0.03 * fc else '>'} 0.03 f'c)"
-                for v, m, s, fc in zip(p.rho_v, rv_min, p.sigma, p.fc, strict=True)
+                f"{'<=' if s <= 0.03 * fc else '>'} 0.03 f'c){z}"
+                for v, m, s, fc, z in zip(p.rho_v, rv_min, p.sigma, p.fc, field_note, strict=True)
             ],
         ),
         rule(
@@ -89,8 +98,8 @@ def check_detailing(
             "max",
             "mm",
             lambda: [
-                f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm"
-                for s, t, m in zip(p.v_spacing, tw, smax, strict=True)
+                f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm{z}"
+                for s, t, m, z in zip(p.v_spacing, tw, smax, field_note, strict=True)
             ],
         ),
         rule(

@@ -12,12 +12,18 @@ from xlcore.results import status, utilisation
 
 
 def check_pier_shear(
-    piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings, working: bool = True
+    piers: pd.DataFrame,
+    actions: pd.DataFrame,
+    settings: Settings,
+    working: bool = True,
+    text: bool = True,
 ) -> pd.DataFrame:
     """Shear table: one row per storey x pier x combination, forces in kN.
 
     `piers` from geometry (with stiffness), `actions` from distribution.pier_actions. Without
-    `working` the numbers only (the advice search runs thousands of variants).
+    `working` the numbers only (the advice search runs thousands of variants). Without `text`
+    every column but the working text (f_vuc, f_vu, f_util), which the same call on the rows
+    written makes later (`compute --detail`: most rows of a tall tower are not written).
     """
     geo = [
         "storey",
@@ -44,15 +50,16 @@ def check_pier_shear(
     beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
     ratio, wall_governs = as3600.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
     df["hw_lw"] = ratio
-    df["hw_basis"] = _basis_text(
-        basis,
-        df.Hw.to_numpy(float),
-        df.Lw.to_numpy(float),
-        np.asarray(h_whole, float),
-        df.wall_length.to_numpy(float) * 1000.0,
-        beside,
-        wall_governs,
-    )
+    if working:  # text on every row: not for the advice search's variants (10 % of its time)
+        df["hw_basis"] = _basis_text(
+            basis,
+            df.Hw.to_numpy(float),
+            df.Lw.to_numpy(float),
+            np.asarray(h_whole, float),
+            df.wall_length.to_numpy(float) * 1000.0,
+            beside,
+            wall_governs,
+        )
     phi = settings.phi_shear if settings.phi_shear is not None else as3600.PHI_WALL_SHEAR
     # Hw passed so that Hw / Lw is the governing ratio (the whole wall's where it is larger)
     r = as3600.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio * df.Lw, df.rho_h, df.rho_v, phi)
@@ -70,15 +77,16 @@ def check_pier_shear(
     rho_req, capped = as3600.wall_rho_required(df.v * 1e3, r.phi, r.vuc, r.vu_max, df.fsy, df.Lw, df.tw)
     df["rho_req"] = rho_req
     df["advice"] = _advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r.rho_w)
-    # capacity working depends on the pier alone: written once per storey x pier, then spread
-    first, of = per_pier(df)
-    once = df.iloc[first]
-    df["f_vuc"] = np.asarray(_vuc_text(once), dtype=object)[of]
-    df["f_vu"] = np.asarray(_vu_text(once), dtype=object)[of]
-    df["f_util"] = [
-        f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
-        for v, pv, u in zip(df.v.tolist(), df.phi_vu.tolist(), df.util.tolist(), strict=True)
-    ]
+    if text:
+        # capacity working depends on the pier alone: written once per storey x pier, then spread
+        first, of = per_pier(df)
+        once = df.iloc[first]
+        df["f_vuc"] = np.asarray(_vuc_text(once), dtype=object)[of]
+        df["f_vu"] = np.asarray(_vu_text(once), dtype=object)[of]
+        df["f_util"] = [
+            f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
+            for v, pv, u in zip(df.v.tolist(), df.phi_vu.tolist(), df.util.tolist(), strict=True)
+        ]
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
     order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
     return df.sort_values(order, kind="stable").reset_index(drop=True)

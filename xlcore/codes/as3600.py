@@ -363,6 +363,85 @@ def wall_min_clear_gap(db):
     return CLEAR_GAP_DIAMETERS * np.asarray(db, dtype=float)
 
 
+# ---------------------------------------------------------------- earthquake detailing, Section 14
+# Walls of structures designed as limited ductile (mu = 2) or moderately ductile (mu = 3) for the
+# earthquake actions of AS 1170.4. The standard's text was not at hand: the rules and values below
+# are from memory and secondary sources (docs/engineering-basis.md, "Earthquake detailing"),
+# Low / Med confidence, each value a Project setting with these defaults: verify.
+
+SECTION14_MIN_MU = 2  # mu from which Section 14's wall rules apply (limited ductile)
+SECTION14_LAYERS = 2  # two layers, one near each face (Cl 14.6, from memory)
+SECTION14_RHO_MIN = 0.0025  # each way (Cl 14.6, from memory; one secondary source: Cl 14.6.7)
+SECTION14_SLENDERNESS = 20.0  # Hwe/tw (Section 14, from memory: verify)
+END_ZONE_STRESS_RATIO = 0.15  # extreme-fibre compression / f'c (Cl 14.6.2.1, secondary sources)
+END_ZONE_TIE_DIAMETERS = 6.0  # tie spacing / vertical bar diameter (Cl 14.6.2, from memory)
+END_ZONE_TIE_MAX = 150.0  # mm (Cl 14.6.2, from memory)
+
+
+def section14_applies(mu):
+    """Section 14's wall rules apply to structures designed with mu of 2 (limited ductile) or
+    more; an elastic design (mu = 1) takes the earthquake actions without relying on ductility
+    and needs none of them (AS 3600:2018 Section 14 scope, from memory: verify)."""
+    return np.asarray(mu) >= SECTION14_MIN_MU
+
+
+def eq_wall_layers(v_layers, h_layers):
+    """Layers of the lesser-layered direction: the quantity of the both-faces rule (Cl 14.6,
+    from memory): vertical and horizontal bars in two layers, one near each face."""
+    return np.minimum(np.asarray(v_layers, dtype=float), np.asarray(h_layers, dtype=float))
+
+
+def eq_wall_rho_min(rho_min=SECTION14_RHO_MIN):
+    """Least vertical and least horizontal ratio of a wall of a limited- or moderately-ductile
+    structure, Cl 14.6 (0.0025 each way, from memory; one secondary source cites Cl 14.6.7),
+    irrespective of the stress and restraint conditions that relax Cl 11.7."""
+    return float(rho_min)
+
+
+def eq_wall_slenderness(Hwe, tw):
+    """Hwe / tw of Section 14's slenderness limit (20 from memory: verify), Hwe by Cl 11.4."""
+    return np.asarray(Hwe, dtype=float) / np.asarray(tw, dtype=float)
+
+
+def pier_extreme_fibre_stress(n_star, m_star, Lw, tw):
+    """Elastic extreme-fibre stresses of a rectangular pier [MPa], compression positive, for the
+    Cl 14.6.2.1 trigger: sigma = N*/A +- |M*|/Z with A = Lw tw, Z = tw Lw^2 / 6 (gross section,
+    linear elastic). N* in N, M* in N mm, Lw, tw in mm. Returns (more compressed end, other end);
+    |M*| because earthquake actions reverse, so either end may be the compressed one."""
+    Lw = np.asarray(Lw, dtype=float)
+    tw = np.asarray(tw, dtype=float)
+    axial = np.asarray(n_star, dtype=float) / (Lw * tw)
+    bending = np.abs(np.asarray(m_star, dtype=float)) * 6.0 / (tw * Lw**2)
+    return axial + bending, axial - bending
+
+
+def end_zone_trigger(fc, ratio=END_ZONE_STRESS_RATIO):
+    """Extreme-fibre compression above which a wall end needs end-zone (boundary) detailing under
+    earthquake actions: 0.15 f'c [MPa], Cl 14.6.2.1 (secondary sources; Low confidence). A
+    trigger for detailing, not a capacity."""
+    return ratio * np.asarray(fc, dtype=float)
+
+
+def end_zone_length(sigma_max, sigma_min, trigger, Lw):
+    """Length from the compressed end over which the linear elastic stress exceeds the trigger
+    [mm], Cl 14.6.2.1 as practice reads it (the zone where the stress is above 0.15 f'c): 0 where
+    the peak is within it, the whole Lw where even the other end exceeds it."""
+    smax = np.asarray(sigma_max, dtype=float)
+    smin = np.asarray(sigma_min, dtype=float)
+    Lw = np.asarray(Lw, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = Lw * (smax - trigger) / (smax - smin)
+    x = np.where(smax - smin > 0, x, np.where(smax > trigger, Lw, 0.0))
+    return np.clip(np.where(smax > trigger, x, 0.0), 0.0, Lw)
+
+
+def end_zone_tie_spacing(db, diameters=END_ZONE_TIE_DIAMETERS, cap=END_ZONE_TIE_MAX):
+    """Largest spacing of the ties restraining the vertical bars of an end zone [mm], the lesser
+    of `diameters` x db (db of the vertical bars) and `cap`: 6 db and 150 mm by default, Cl 14.6.2
+    from memory (verify)."""
+    return np.minimum(diameters * np.asarray(db, dtype=float), cap)
+
+
 # ---------------------------------------------------------------- beams (lintels), Section 8
 # Flexure by the rectangular stress block (Cl 8.1); shear by the simplified method of Cl 8.2
 # as amended (Amendment 2): expressions from memory, checked only against secondary sources
@@ -418,3 +497,113 @@ def beam_vu_max(fc, b, dv):
     vertical fitments (cot alpha_v = 0)."""
     cot = 1.0 / np.tan(THETA_V)
     return VU_MAX_FACTOR * fc * b * dv * cot / (1 + cot**2)
+
+
+# ---------------------------------------------------------------- deep lintels, Section 7 / 12
+# AS 3600:2018 has no coupling-beam clause of its own. A lintel whose clear span / overall depth
+# is below the non-flexural limit (Cl 12.1.1, from memory: 1.5 cantilevers, 3 simply supported,
+# 4 continuous; a lintel built into piers at both ends is taken as continuous) is designed by a
+# strut-and-tie model (Section 7). Every value below is from memory (docs/engineering-basis.md,
+# "Lintels"): each is a Project setting, and the basis is written on every result row.
+
+NON_FLEXURAL_RATIO = 4.0
+"""Cl 12.1.1 (from memory): clear span / overall depth below which a member built in at both
+ends is non-flexural (4 for continuous members; 3 simply supported, 1.5 cantilevers)."""
+
+PHI_STRUT = 0.6
+"""Table 2.2.2 (from memory): phi for struts and nodes in strut-and-tie models."""
+
+PHI_TIE = 0.8
+"""Table 2.2.2 (from memory): phi for ties in strut-and-tie models."""
+
+STRUT_STRESS = 0.9
+"""Cl 7.2.1 and Cl 7.4 (from memory): struts and nodes are taken to 0.9 f'c times their factor."""
+
+BETA_S_COEFF = 0.66
+BETA_S_MIN, BETA_S_MAX = 0.3, 1.0
+"""Cl 7.2.2 (from memory): beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3..1.0 for a
+bottle-shaped strut with transverse reinforcement."""
+
+BETA_N_CCT = 0.8
+"""Cl 7.4 (from memory): node efficiency beta_n, 1.0 C-C-C, 0.8 C-C-T, 0.6 C-T-T."""
+
+COUPLING_CAP = 0.83
+"""ACI 318-19 Eq (18.10.7.4), SI (10 sqrt(f'c) Acw in psi units): the concrete limit on the
+nominal shear of a diagonally reinforced coupling beam, 0.83 sqrt(f'c) Acw [MPa, mm^2]."""
+
+
+def strut_angle(z, span):
+    """theta [rad] of the one diagonal strut between the pier faces: atan(z / ln), z the lever
+    arm between the top and bottom ties, ln the clear span (Section 7 geometry)."""
+    return np.arctan2(np.asarray(z, dtype=float), np.asarray(span, dtype=float))
+
+
+def strut_efficiency(theta, fixed=None):
+    """beta_s = 1 / (1 + 0.66 cot^2 theta) within 0.3..1.0, Cl 7.2.2 (from memory: verify); a
+    fixed value where the Project sheet gives one. theta is the angle between the strut and the
+    tie through its node."""
+    cot = 1.0 / np.tan(np.asarray(theta, dtype=float))
+    beta = np.clip(1.0 / (1.0 + BETA_S_COEFF * cot**2), BETA_S_MIN, BETA_S_MAX)
+    return beta if fixed is None else np.full_like(beta, float(fixed))
+
+
+def strut_width(w_tie, theta):
+    """Width of the strut where it meets a hydrostatic C-C-T node [mm]: the node's face on the tie
+    has the tie's height w_t, its bearing face w_t tan theta (equal stress on every face), so the
+    strut face is w_t cos theta + w_t tan theta sin theta = w_t / cos theta (Section 7 geometry;
+    the tie height is twice its cover to centroid, common practice)."""
+    return np.asarray(w_tie, dtype=float) / np.cos(np.asarray(theta, dtype=float))
+
+
+def strut_capacity(fc, b, w, beta_s, phi=PHI_STRUT, stress=STRUT_STRESS):
+    """phi Fc.s = phi beta_s 0.9 f'c b w [N], Cl 7.2.1 (from memory: verify; 0.9 a setting)."""
+    return phi * np.asarray(beta_s, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
+
+
+def node_capacity(fc, b, w, beta_n=BETA_N_CCT, phi=PHI_STRUT, stress=STRUT_STRESS):
+    """phi beta_n 0.9 f'c b w [N] on a node face of width w, Cl 7.4 (from memory: verify)."""
+    return phi * np.asarray(beta_n, dtype=float) * stress * np.asarray(fc, dtype=float) * b * w
+
+
+def tie_capacity(As, fsy, phi=PHI_TIE):
+    """phi As fsy [N], Cl 7.3 with phi for ties (Table 2.2.2, from memory)."""
+    return phi * np.asarray(As, dtype=float) * np.asarray(fsy, dtype=float)
+
+
+def diagonal_angle(D, a_group, span):
+    """alpha [rad] of two diagonal bar groups crossing at mid-span, from the geometry: the group
+    centroids sit a_group from the top and bottom faces at the pier faces, so
+    tan alpha = (D - 2 a_group) / ln (ACI 318-19 R18.10.7 figure; the angle is geometry)."""
+    rise = np.asarray(D, dtype=float) - 2.0 * np.asarray(a_group, dtype=float)
+    return np.arctan2(rise, np.asarray(span, dtype=float))
+
+
+def diagonal_shear(A_group, fsy, alpha):
+    """Vu = 2 A_sd fsy sin alpha [N]: the vertical components of the two diagonal groups, one in
+    tension and one in compression, carry the shear (ACI 318-19 Eq (18.10.7.4), Vn = 2 Avd fy
+    sin alpha; mechanics, no AS 3600 clause)."""
+    return 2.0 * np.asarray(A_group, dtype=float) * np.asarray(fsy, dtype=float) * np.sin(alpha)
+
+
+def diagonal_cap(fc, b, D, coeff=COUPLING_CAP):
+    """coeff sqrt(f'c) b D [N]: the concrete limit on the shear a diagonally reinforced lintel may
+    carry (ACI 318-19 Eq (18.10.7.4), 0.83 in SI: a Project setting)."""
+    return coeff * np.sqrt(np.asarray(fc, dtype=float)) * np.asarray(b, dtype=float) * D
+
+
+def beam_as_required(m_star, phi, b, d, fc, fsy):
+    """Least As [mm^2] of a singly reinforced rectangle with phi Muo >= M*, Cl 8.1 rearranged:
+    M*/phi = X d - X^2 / (2 alpha2 f'c b), X = As fsy. NaN where no tension steel suffices (the
+    concrete crushes first; compression steel or a deeper lintel is needed). N mm."""
+    k = alpha2(fc) * np.asarray(fc, dtype=float) * b
+    disc = np.asarray(d, dtype=float) ** 2 - 2.0 * np.abs(m_star) / (phi * k)
+    with np.errstate(invalid="ignore"):
+        x = k * (d - np.sqrt(disc))
+    return np.where(disc >= 0, x / fsy, np.nan)
+
+
+def beam_asv_s_required(v_star, phi, vuc, fsyf, dv):
+    """Least Asv/s [mm^2/mm] of vertical fitments with phi (Vuc + Vus) >= V*, Cl 8.2.5.2
+    rearranged with theta_v of the simplified method."""
+    need = np.maximum(np.abs(v_star) / phi - vuc, 0.0)
+    return need * np.tan(THETA_V) / (np.asarray(fsyf, dtype=float) * dv)

@@ -497,6 +497,8 @@ def _hash(sheets: dict[str, RawSheet]) -> str:
     h = hashlib.sha256()
     for name in layout.INPUT_SHEET_NAMES:
         sheet = sheets.get(name)
+        if sheet is None and name in layout.OPTIONAL_SHEETS:
+            continue  # a workbook from before an optional sheet existed keeps its hash
         h.update(f"\x1e{name}\x1f".encode())
         if sheet is None:
             continue

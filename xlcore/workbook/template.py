@@ -6,6 +6,7 @@ A new file, so openpyxl builds it whole. Everything it writes comes from `xlcore
 from __future__ import annotations
 
 import datetime as dt
+import math
 from pathlib import Path
 
 from openpyxl import Workbook
@@ -109,7 +110,10 @@ def _settings(ws, values: dict | None) -> None:
 def _table(ws, t: TableSheet, rows: list[dict]) -> None:
     for j, c in enumerate(t.columns, start=1):
         _header(ws, j, c.header, f"{c.help} ({'required' if c.required else 'optional'})", c.width)
-    ws.row_dimensions[1].height = 32
+    # tall enough for the longest header as it wraps in its column (bold headers fit about 0.85
+    # characters per unit of column width; 15 pt a line; at least the two lines it always had)
+    lines = max(math.ceil(len(c.header) / (0.85 * c.width)) for c in t.columns)
+    ws.row_dimensions[1].height = max(32, 15 * lines)
     for i, rec in enumerate(rows, start=2):
         for j, c in enumerate(t.columns, start=1):
             v = rec.get(c.key)

@@ -19,6 +19,7 @@ it (or A1 is still our inline text, i.e. no program has saved the sheet since we
 from __future__ import annotations
 
 import contextlib
+import dataclasses
 import functools
 import os
 import re
@@ -26,7 +27,7 @@ import shutil
 import stat
 import tempfile
 import zipfile
-from collections.abc import Callable, Iterator
+from collections.abc import Callable, Iterator, Sequence
 from pathlib import Path
 
 from lxml import etree
@@ -36,6 +37,7 @@ from xlcore.diagnostics import FileProblem
 from xlcore.layout import RESULT_PREFIX
 from xlcore.progress import SILENT, Reporter
 from xlcore.results import MARKER, ResultSheet
+from xlcore.workbook import tables as full_tables
 from xlcore.workbook.package import (
     NS_CT,
     NS_MAIN,
@@ -184,8 +186,14 @@ def write_results(
     force: bool = False,
     reporter: Reporter = SILENT,
     overwrite: bool = False,
+    tables: Sequence[ResultSheet] = (),
 ) -> Path | None:
     """Replace xlcore's result sheets in `src` with `sheets`, saving to `dst` atomically.
+
+    `tables`: full tables whose rows `sheets` hold only in part, written as Parquet files in
+    the folder beside `dst` (`tables.folder_for`): staged before the workbook is saved, renamed
+    into place after it, files of earlier runs removed (`xlcore.workbook.tables`); a failure
+    before the save leaves the folder as it was.
 
     Whenever `dst` exists, its previous version is kept as a backup beside it (written like the
     workbook: temporary file, then rename). A `dst` other than `src` that exists, and a
@@ -195,11 +203,32 @@ def write_results(
     """
     src, dst = Path(src), Path(dst)
     real, shown, backup = check_target(src, dst, force=force, overwrite=overwrite)
+    # a sheet whose working text was left for the rows written (compute(detail=...)) but that
+    # did not pass through pipeline.select_detail: every row written, so every row's text
+    sheets = [
+        s if s.rework is None else dataclasses.replace(s, table=s.rework(s.table), rework=None)
+        for s in sheets
+    ]
     with workbook_lock(dst):
         existed = real.exists()
-        with open_package(src) as zf:
-            package = _build(zf, sheets, reporter.advance)
-        _save(package, real, shown, backup, len(sheets), sum(len(s.table) for s in sheets), reporter)
+        stamp = {str(k): str(v) for k, v in (sheets[0].preamble if sheets else [])}
+        if tables:
+            reporter.begin(f"writing {len(tables)} full tables (Parquet)")
+        staged = full_tables.stage(dst, tables, stamp)
+        try:
+            with open_package(src) as zf:
+                package = _build(zf, sheets, reporter.advance)
+            _save(package, real, shown, backup, len(sheets), sum(len(s.table) for s in sheets), reporter)
+        except BaseException:
+            staged.discard()
+            raise
+        try:
+            staged.commit()
+        except OSError as exc:
+            raise FileProblem(
+                f"{shown} was saved, but the full tables in {staged.folder} could not be put in "
+                f"place ({exc.strerror or exc}); run compute again"
+            ) from exc
     return backup if existed else None
 
 

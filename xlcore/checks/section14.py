@@ -1,0 +1,359 @@
+"""Earthquake detailing of every pier at every storey, AS 3600:2018 Section 14 (walls of structures
+designed as limited ductile, mu = 2, or moderately ductile, mu = 3, for AS 1170.4 earthquake
+actions). Rules and values as transcribed in docs/engineering-basis.md ("Earthquake detailing"):
+from memory and secondary sources, each a Project setting: verify.
+
+Rules per storey x pier: reinforcement in both faces, least vertical and horizontal ratios,
+Hwe/tw, and under the earthquake combinations the 0.15 f'c extreme-fibre trigger of the end zones
+(N*/A + |M*|/Z of the pier) with, where it is exceeded, the tie spacing those zones need.
+
+End-zone bars: from the End zones sheet (the pier table's zone columns, `geometry.ZONE_COLUMNS`).
+Where both free edges of a pier carry a zone with ties (the actions reverse, so either end may be
+the compressed one), the larger of their tie spacings is checked against the smaller of their bar
+diameters; otherwise the requirement is stated with status "check".
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from xlcore.checks import plain
+from xlcore.codes import as3600
+from xlcore.model import Settings
+from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
+
+RULES = (
+    "both faces",
+    "vertical ratio",
+    "horizontal ratio",
+    "Hwe/tw",
+    "end-zone trigger",
+    "end-zone ties",
+)
+# pier-table columns of the end-zone bars, when an input describes them: the vertical bar
+# diameter in the end zone [mm] and the spacing of the ties that restrain those bars [mm]
+CLAUSE = {
+    "both faces": "Cl 14.6 (two layers)",
+    "vertical ratio": "Cl 14.6 (least ratio)",
+    "horizontal ratio": "Cl 14.6 (least ratio)",
+    "Hwe/tw": "Section 14 (Hwe/tw)",
+    "end-zone trigger": "Cl 14.6.2.1 (0.15 f'c)",
+    "end-zone ties": "Cl 14.6.2 (end-zone ties)",
+}
+MEMORY = "from memory: verify"
+
+
+def not_applicable_reason(settings: Settings) -> str | None:
+    """Why no Section 14 rows are made for this building, or None where they are."""
+    if not as3600.section14_applies(settings.mu):
+        return (
+            f"structural ductility factor {settings.ductility} (Project setting): Section 14's wall "
+            "rules apply to limited-ductile (mu = 2) and moderately-ductile (mu = 3) structures only"
+        )
+    return None
+
+
+def ductility_basis(settings: Settings) -> str:
+    """The ductility part of every row's basis."""
+    if settings.mu >= 3:
+        return (
+            f"{settings.ductility}: limited-ductile rules applied as a floor; further "
+            "moderately-ductile provisions not checked"
+        )
+    return settings.ductility
+
+
+def check_section14(
+    piers: pd.DataFrame,
+    actions: pd.DataFrame,
+    settings: Settings,
+    hwe: pd.Series | None = None,
+    working: bool = True,
+) -> pd.DataFrame:
+    """One row per storey x pier x applicable rule (empty where Section 14 does not apply:
+    `not_applicable_reason`). `hwe` [mm] per (storey, pier) from the Cl 11.4 effective height of
+    the axial check; the storey clear height otherwise. Without `working`, only the pier and the
+    utilisation of the rules that pass or fail (what the advice search needs)."""
+    if not_applicable_reason(settings) is not None or piers.empty:
+        return _empty(working)
+    p = piers.copy()
+    if hwe is not None:
+        p = p.merge(hwe.rename("hwe"), left_on=["storey", "pier_id"], right_index=True, how="left")
+    else:
+        p["hwe"] = np.nan
+    p["hwe"] = p.hwe.fillna(p.Hc)
+    basis = ductility_basis(settings)
+    parts = []
+
+    def rule(rows, name, value, limit, kind, unit, status, util, text, why):
+        parts.append(
+            _rows(rows, name, value, limit, kind, unit, status, util, text, f"{basis}; {why}", working)
+        )
+
+    layers = as3600.eq_wall_layers(p.v_layers, p.h_layers)
+    if settings.eq_two_layers == "yes":
+        need = np.full(len(p), float(as3600.SECTION14_LAYERS))
+        met = layers >= need
+        # a yes/no rule: no ratio where it is met (a 1.00 on every pier would read as "close"),
+        # layers needed / provided where it is not
+        rule(
+            p,
+            "both faces",
+            layers,
+            need,
+            "min",
+            "layers",
+            np.where(met, PASS, FAIL).astype(object),
+            np.where(met, np.nan, need / np.maximum(layers, 1.0)),
+            lambda: [
+                f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
+                for v, h, n in zip(*plain(p.v_layers, p.h_layers, layers), strict=True)
+            ],
+            f"both faces (Project setting), {MEMORY}",
+        )
+    rho_min = as3600.eq_wall_rho_min(settings.eq_rho_min)
+    for name, rho, dia, s, n in (
+        ("vertical ratio", p.rho_v, p.v_dia, p.v_spacing, p.v_layers),
+        ("horizontal ratio", p.rho_h, p.h_dia, p.h_spacing, p.h_layers),
+    ):
+        rho = rho.to_numpy(float)
+        u = _at_least(rho, rho_min)
+        rule(
+            p,
+            name,
+            rho,
+            np.full(len(p), rho_min),
+            "min",
+            "",
+            _pass_fail(u),
+            u,
+            lambda rho=rho, dia=dia, s=s, n=n: [
+                f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
+                for k, d, sp, t, r in zip(*plain(n, dia, s, p.tw, rho), strict=True)
+            ],
+            f"{rho_min:g} each way, no Cl 11.7 relaxation (Project setting), {MEMORY}",
+        )
+    slender = as3600.eq_wall_slenderness(p.hwe, p.tw)
+    limit = settings.eq_slenderness
+    u = slender / limit
+    rule(
+        p,
+        "Hwe/tw",
+        slender,
+        np.full(len(p), limit),
+        "max",
+        "",
+        _pass_fail(u),
+        u,
+        lambda: [
+            f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
+            for h, t, r in zip(*plain(p.hwe, p.tw, slender), strict=True)
+        ],
+        f"Hwe by Cl 11.4 (clear height where no actions); {limit:g} (Project setting), {MEMORY}",
+    )
+    if working or not np.isnan(_end_bars(p)).all():
+        # without working only pass / FAIL rows count: end zones give those only where their
+        # bars are described (the trigger is never a failure)
+        _end_zones(p, actions, settings, rule)
+    out = pd.concat(parts, ignore_index=True)
+    if not working:
+        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
+    out["clause"] = out.rule.map(CLAUSE)
+    # piers in the pier table's order (storeys top down, walls and piers in natural order), each
+    # pier's rules in the order of RULES
+    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
+    out = out.sort_values(["storey_index", "_pier", "_rule"], ascending=[False, True, True], kind="stable")
+    return out.drop(columns=["_pier", "_rule"]).reset_index(drop=True)
+
+
+def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule) -> None:
+    """The end-zone trigger under the earthquake combinations and, where exceeded, the ties."""
+    quake = settings.earthquake
+    ratio = settings.compression_limit
+    trigger = as3600.end_zone_trigger(p.fc.to_numpy(float), ratio)
+    nan = np.full(len(p), np.nan)
+    if not quake:
+        rule(
+            p,
+            "end-zone trigger",
+            nan,
+            trigger,
+            "max",
+            "MPa",
+            np.full(len(p), NOT_APPLICABLE, dtype=object),
+            nan,
+            lambda: ["no earthquake combinations named (Project setting 'Earthquake combinations')"] * len(p),
+            "n/a: the 0.15 f'c trigger applies under earthquake combinations only and none is named",
+        )
+        return
+    acts = actions[actions.combination.astype(str).isin(quake)]
+    geo = p[["storey", "pier_id", "Lw", "tw"]]
+    a = acts[["storey", "pier_id", "combination", "n", "m"]].merge(geo, on=["storey", "pier_id"])
+    smax, smin = as3600.pier_extreme_fibre_stress(a.n * 1e3, a.m * 1e6, a.Lw, a.tw)
+    a = a.assign(smax=smax, smin=smin)
+    worst = a.loc[a.groupby(["storey", "pier_id"], sort=False).smax.idxmax()] if len(a) else a
+    w = p[["storey", "pier_id"]].merge(
+        worst[["storey", "pier_id", "combination", "n", "m", "smax", "smin"]],
+        on=["storey", "pier_id"],
+        how="left",
+    )
+    has = w.smax.notna().to_numpy()
+    smax, smin = w.smax.to_numpy(float), w.smin.to_numpy(float)
+    over = has & (smax > trigger)
+    u = np.where(has, smax / trigger, np.nan)
+    status = np.where(~has, NOT_APPLICABLE, np.where(over, REQUIRED, NOT_REQUIRED)).astype(object)
+    zone = as3600.end_zone_length(smax, smin, trigger, p.Lw.to_numpy(float))
+    names = ", ".join(sorted(quake))
+
+    def trigger_text() -> list[str]:
+        out = []
+        for ok, c, n, m, L, t, s1, s2, lim, z in zip(
+            has.tolist(),
+            w.combination.tolist(),
+            *plain(w.n, w.m, p.Lw, p.tw, smax, smin, trigger, zone),
+            strict=True,
+        ):
+            if not ok:
+                out.append(f"no actions at this storey under the earthquake combinations ({names})")
+                continue
+            text = (
+                f"{c}: sigma = N*/A + |M*|/Z = {n:.1f} x 1e3 / ({L:.0f} x {t:.0f}) + |{m:.1f}| x 1e6 x 6 / "
+                f"({t:.0f} x {L:.0f}^2) = {s1:.2f} MPa (other end {s2:.2f}) vs {ratio:g} f'c = {lim:.2f} MPa"
+            )
+            if s1 > lim:
+                text += "; end zone required " + _zone_words(z, L)
+            out.append(text)
+        return out
+
+    rule(
+        p,
+        "end-zone trigger",
+        np.where(has, smax, np.nan),
+        trigger,
+        "max",
+        "MPa",
+        status,
+        u,
+        trigger_text,
+        f"worst of {names}; gross section, linear elastic, |M*| (actions reverse); {ratio:g} f'c "
+        "(Project setting); a trigger, not a failure; Low confidence",
+    )
+    if not over.any():
+        return
+    z = p[over].reset_index(drop=True)
+    zlen = zone[over]
+    bars = _end_bars(z)  # end-zone bar diameter and tie spacing; NaN where not described
+    described = ~np.isnan(bars).any(axis=1)
+    db = np.where(described, bars[:, 0], z.v_dia.to_numpy(float))  # else the wall's vertical bar
+    need = as3600.end_zone_tie_spacing(db, settings.eq_tie_diameters, settings.eq_tie_max)
+    given = np.where(described, bars[:, 1], np.nan)
+    u = np.where(described, given / need, np.nan)
+    status = np.where(described, _pass_fail(u), CHECK).astype(object)
+    k, cap = settings.eq_tie_diameters, settings.eq_tie_max
+
+    def ties_text() -> list[str]:
+        out = []
+        for d, s, n, zl, L, ok in zip(*plain(db, given, need, zlen, z.Lw), described.tolist(), strict=True):
+            req = f"ties at most min({k:g} x {d:g}, {cap:g}) = {n:.0f} mm {_zone_words(zl, L)}"
+            if ok:
+                out.append(f"s = {s:.0f} mm vs {req}")
+            else:
+                out.append(
+                    f"end-zone bars not described: restrain every vertical bar of the end zone with {req} "
+                    f"(db taken as the wall's vertical bar, {d:g} mm)"
+                )
+        return out
+
+    rule(
+        z,
+        "end-zone ties",
+        given,
+        need,
+        "max",
+        "mm",
+        status,
+        u,
+        ties_text,
+        f"where the trigger is exceeded; min({k:g} db, {cap:g} mm) (Project settings), {MEMORY}; "
+        "'check' until end-zone bars are described",
+    )
+
+
+def _end_bars(p: pd.DataFrame) -> np.ndarray:
+    """End-zone bar diameter and tie spacing of each pier as rows x 2 floats: the smaller bar and
+    the larger tie spacing of its two end zones (either end may be the compressed one); NaN where
+    an end has no zone or its zone has no ties (then the requirement is stated, status "check").
+    The one place that reads the end-zone columns of the pier table."""
+    if "za_n" not in p:
+        return np.full((len(p), 2), np.nan)
+    both = (p.za_n.to_numpy(float) > 0) & (p.zb_n.to_numpy(float) > 0)
+    dia = np.minimum(p.za_dia.to_numpy(float), p.zb_dia.to_numpy(float))
+    ties = np.maximum(p.za_ties.to_numpy(float), p.zb_ties.to_numpy(float))  # NaN (no ties) stays NaN
+    return np.column_stack([np.where(both, dia, np.nan), np.where(both, ties, np.nan)])
+
+
+def _zone_words(zone: float, Lw: float) -> str:
+    """Where the end zones lie: from each end (the actions reverse), or the whole pier where the
+    two zones meet."""
+    if 2.0 * zone >= Lw:
+        return f"over the whole pier ({Lw:.0f} mm: the zones from each end, {zone:.0f} mm, meet)"
+    return f"over {zone:.0f} mm from each end"
+
+
+def _pass_fail(util) -> np.ndarray:
+    return np.where(np.asarray(util, dtype=float) <= 1.0 + 1e-9, PASS, FAIL).astype(object)
+
+
+def _at_least(value, limit) -> np.ndarray:
+    """limit / value of a minimum (inf where there is none of it)."""
+    value = np.asarray(value, dtype=float)
+    with np.errstate(divide="ignore"):
+        return np.where(value > 0, limit / np.where(value > 0, value, 1.0), np.inf)
+
+
+COLUMNS = (
+    "storey",
+    "storey_index",
+    "pier_id",
+    "wall_id",
+    "rule",
+    "basis",
+    "value",
+    "kind",
+    "limit",
+    "unit",
+    "util",
+    "status",
+    "working",
+)
+
+
+def _empty(working: bool) -> pd.DataFrame:
+    if not working:
+        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
+    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*COLUMNS, "clause")})
+
+
+def _rows(p, name, value, limit, kind, unit, status, util, text, basis, working) -> pd.DataFrame:
+    """One rule's rows; `text` makes the working when called (only with `working`)."""
+    n = len(p)
+    return pd.DataFrame(
+        dict(
+            storey=p.storey.to_numpy(),
+            storey_index=p.storey_index.to_numpy(),
+            pier_id=p.pier_id.to_numpy(),
+            wall_id=p.wall_id.to_numpy(),
+            rule=name,
+            basis=basis,
+            value=np.asarray(value, dtype=float),
+            kind="at least" if kind == "min" else "at most",
+            unit=unit,
+            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
+            util=np.asarray(util, dtype=float),
+            status=np.asarray(status, dtype=object),
+            working=text() if working else "",
+        )
+    )

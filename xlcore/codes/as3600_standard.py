@@ -1,0 +1,168 @@
+"""AS 3600:2018 behind the `codes.base.Standard` interface: a thin adapter over codes/as3600.py.
+
+Every method calls the as3600 functions the checks call today, with the same arguments, so the
+numbers are the same (tests/test_standard_interface.py holds them equal); nothing in as3600.py
+changes. Clause texts are those the checks write on result rows.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from xlcore.codes import as3600
+from xlcore.codes.base import BeamShear, SectionState, ShearCapacity
+
+_CLAUSES = {
+    "wall_shear": "AS 3600:2018 Cl 11.6.3 / 11.6.4",
+    "wall_shear_limit": "AS 3600:2018 Cl 11.6.2 Vu.max",
+    "phi_wall_shear": "AS 3600:2018 Table 2.2.2",
+    "aspect_ratio": "AS 3600:2018 Cl 11.6.3 (pier: larger of its own and the wall's, common practice)",
+    "stress_block": "AS 3600:2018 Cl 8.1.3",
+    "squash": "AS 3600:2018 Cl 10.6.2.2",
+    "max_compression": "AS 3600:2018 Cl 10.6.2.2 squash, phi0 (Table 2.2.2)",
+    "tension": "AS 3600:2018 Table 2.2.2 tension",
+    "phi_axial_bending": "AS 3600:2018 Table 2.2.2",
+    "design_moment": "AS 3600:2018 Cl 10.1.2",
+    "effective_height": "AS 3600:2018 Cl 11.4",
+    "simplified": "AS 3600:2018 Cl 11.5.1",
+    "rho_v_min": "AS 3600:2018 Cl 11.7 vertical ratio",
+    "rho_h_min": "AS 3600:2018 Cl 11.7 horizontal ratio",
+    "spacing": "AS 3600:2018 Cl 11.7 spacing",
+    "clear_gap": "AS 3600:2018 Cl 11.7 clear gap",
+    "layers": "AS 3600:2018 Cl 11.7 one layer (from memory)",
+    "beam_flexure": "AS 3600:2018 Cl 8.1 flexure",
+    "beam_shear": "AS 3600:2018 Cl 8.2 shear (simplified)",
+    "coupling_beam": "AS 3600:2018: no coupling-beam clause (strut-and-tie, Section 7)",
+    "boundary_trigger": "AS 3600:2018 Cl 14.6 (0.15 f'c, from memory)",
+}
+
+
+class AS3600:
+    """AS 3600:2018 as a `Standard`."""
+
+    name = as3600.NAME
+    Es = as3600.ES
+    eps_cu = as3600.EPS_CU
+    phi_wall_shear = as3600.PHI_WALL_SHEAR
+    phi_compression = as3600.PHI_COMPRESSION
+    phi_tension = as3600.PHI_TENSION
+    phi_simplified = as3600.PHI_SIMPLIFIED
+
+    def clause(self, key: str) -> str:
+        return _CLAUSES[key]
+
+    # ---- shear
+    def wall_aspect_ratio(self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
+        return as3600.wall_aspect_ratio(Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening)
+
+    def wall_shear(self, fc, fy, Lw, tw, hw_lw, rho_h, rho_v, phi=None) -> ShearCapacity:
+        # checks/shear.py passes Hw = ratio x Lw so that Hw / Lw is the governing ratio
+        Lw = np.asarray(Lw, dtype=float)
+        r = as3600.wall_shear(
+            fc, fy, Lw, tw, np.asarray(hw_lw, dtype=float) * Lw, rho_h, rho_v,
+            self.phi_wall_shear if phi is None else phi,
+        )  # fmt: skip
+        return ShearCapacity(
+            area=r.area,
+            concrete=r.vuc,
+            steel=r.vus,
+            limit=r.vu_max,
+            nominal=r.vu,
+            phi=r.phi,
+            design=r.phi_vu,
+            governs=r.governs,
+            governing_text=as3600.GOVERNING_TEXT,
+            detail={"eq1": r.eq1, "eq2": r.eq2, "floor": r.floor, "rho_w": r.rho_w},
+        )
+
+    def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw):
+        Lw = np.asarray(Lw, dtype=float)
+        vuc, _ = as3600.wall_vuc(fc, hw_lw, Lw, tw)
+        return as3600.wall_rho_required(v_star, phi, vuc, as3600.wall_vu_max(fc, Lw, tw), fy, Lw, tw)
+
+    # ---- axial load and bending
+    def stress_block(self, fc):
+        return as3600.alpha2(fc), as3600.gamma(fc)
+
+    def squash_load(self, fc, Ag_net, As, fy):
+        return as3600.squash_load(fc, Ag_net, As, fy)
+
+    def max_compression(self, fc, Ag_net, As, fy, phi=None):
+        phi0 = self.phi_compression if phi is None else phi
+        return phi0 * as3600.squash_load(fc, Ag_net, As, fy)
+
+    def tension_capacity(self, As, fy):
+        return -np.asarray(As, dtype=float) * np.asarray(fy, dtype=float)
+
+    def phi_axial_bending(self, state: SectionState, phi0=None):
+        p0 = self.phi_compression if phi0 is None else phi0
+        return as3600.phi_axial_bending(state.nu, state.nub, state.nuot, state.kuo, p0)
+
+    def design_moment(self, m_star, n_star, D):
+        return as3600.min_eccentricity_moment(m_star, n_star, D)
+
+    # ---- walls in compression
+    def effective_height_factor(self, Hw, L1, supported_edges, restrained=False):
+        return as3600.effective_height_factor(Hw, L1, supported_edges, restrained)
+
+    def simplified_capacity(self, fc, tw, length, hwe, e, phi=None):
+        tw = np.asarray(tw, dtype=float)
+        ecc = as3600.simplified_eccentricity(e, tw)
+        ea = as3600.additional_eccentricity(hwe, tw)
+        return as3600.simplified_capacity(
+            fc, tw, ecc, ea, length, self.phi_simplified if phi is None else phi
+        )
+
+    def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress):
+        # the conditions of checks/axial.py _simplified, in the same order and with the same limits
+        n = np.asarray(n_star, dtype=float)
+        tw = np.asarray(tw, dtype=float)
+        layers = np.asarray(layers)
+        limit = np.where(layers >= 2, 30.0, 20.0)
+        ecc = as3600.simplified_eccentricity(e, tw)
+        return {
+            "not in compression": n <= 0,
+            "end in tension": (n > 0) & (np.asarray(n_end_lo, dtype=float) < 0),
+            "slender": np.asarray(hwe, dtype=float) / tw > limit,
+            "stress": (np.asarray(stress, dtype=float) > 3.0) & (layers < 2),
+            "load outside the middle third": ecc > tw / 6,
+        }
+
+    # ---- detailing
+    def min_ratios(self, *, fc, fy, tw, Lw, wall_length, sigma, v_star, hw_lw, rho_h, bar_dia, restrained):
+        return as3600.wall_rho_v_min(sigma, fc), as3600.wall_rho_h_min(restrained, wall_length)
+
+    def max_spacing(self, tw, Lw, shear_steel_required=False):
+        s = as3600.wall_max_spacing(tw)
+        return s, s
+
+    def min_clear_gap(self, db):
+        return as3600.wall_min_clear_gap(db)
+
+    def single_layer_allowed(self, tw, hwe):
+        tw = np.asarray(tw, dtype=float)
+        thin = tw <= as3600.SINGLE_LAYER_MAX_THICKNESS
+        return thin & (np.asarray(hwe, dtype=float) / tw <= as3600.SINGLE_LAYER_SLENDERNESS)
+
+    # ---- lintels
+    def beam_flexure(self, b, d, As, fc, fy):
+        return as3600.beam_flexure(b, d, As, fc, fy)
+
+    def beam_shear(self, fc, b, d, D, asv, s, fyt, rho_w) -> BeamShear:
+        dv = as3600.beam_dv(d, D)
+        vuc, _ = as3600.beam_vuc(fc, b, dv, asv, as3600.beam_asv_min(fc, b, s, fyt))
+        vus = as3600.beam_vus(asv, fyt, dv, s)
+        vmax = as3600.beam_vu_max(fc, b, dv)
+        vu = np.minimum(vuc + vus, vmax)
+        return BeamShear(vuc, vus, vmax, vu, np.full(np.shape(vu), as3600.PHI_SHEAR))
+
+    def coupling_beam_shear(self, Avd, fy, alpha, fc, Acw):
+        return np.full(np.broadcast(np.asarray(Avd), np.asarray(Acw)).shape, np.nan)
+
+    # ---- earthquake
+    def boundary_stress_limits(self, fc):
+        f = np.asarray(fc, dtype=float)
+        return 0.15 * f, 0.15 * f
+
+
+STANDARD = AS3600()

@@ -1,0 +1,252 @@
+"""The interface a design standard implements, and the registry that names the standards.
+
+Why: the checks (checks/shear.py, axial.py, detailing.py, lintels.py, core_nm.py) today import
+codes/as3600.py by name. Read together they ask a standard for a short list of quantities;
+`Standard` is that list, written so that AS 3600:2018 and ACI 318-19 can both answer it:
+
+- shear: Hw/Lw of a pier beside an opening; in-plane shear capacity with its parts, upper
+  limit, phi and the governing expression; the steel ratio needed to pass.
+- axial: stress block and strain limit, Es; squash (Nuo / Po), the design upper limit on N*,
+  tension capacity; phi for bending with axial force; the least design moment (minimum
+  eccentricity); effective height factor; the simplified compression method and what rules
+  it out.
+- detailing: minimum vertical and horizontal ratios; largest spacing; least clear gap; when
+  one layer of bars is allowed.
+- lintels: beam flexure (Mn, neutral-axis ratio, phi); beam shear (Vc, Vs, upper limit, phi);
+  coupling beams with diagonal bars.
+- core_stress / earthquake: the extreme-fibre stress that triggers (and ends) boundary-element
+  detailing.
+- every result row: `clause(key)`, the clause text of that quantity.
+
+Units: N, mm, MPa inside; arrays over rows, scalars broadcast. Nothing here knows a workbook.
+
+The checks are not yet wired to this interface (a later session's work: see DEVELOPERS.md,
+"Adding a standard"); `AS3600` (codes/as3600_standard.py, a thin adapter that leaves
+codes/as3600.py unchanged) and `ACI318` (codes/aci318.py) implement it, and a test holds both
+to it.
+"""
+
+from __future__ import annotations
+
+import importlib
+from collections.abc import Mapping
+from dataclasses import dataclass
+from typing import Protocol, runtime_checkable
+
+import numpy as np
+
+CLAUSE_KEYS = (
+    "wall_shear",
+    "wall_shear_limit",
+    "phi_wall_shear",
+    "aspect_ratio",
+    "stress_block",
+    "squash",
+    "max_compression",
+    "tension",
+    "phi_axial_bending",
+    "design_moment",
+    "effective_height",
+    "simplified",
+    "rho_v_min",
+    "rho_h_min",
+    "spacing",
+    "clear_gap",
+    "layers",
+    "beam_flexure",
+    "beam_shear",
+    "coupling_beam",
+    "boundary_trigger",
+)
+"""Every quantity a standard must name the clause of (`Standard.clause`)."""
+
+
+@dataclass(frozen=True)
+class ShearCapacity:
+    """In-plane shear of a wall or pier per row [N, mm^2]: the concrete and steel parts, the
+    upper limit no steel can raise, nominal and design capacity, phi and the governing
+    expression (codes, read through `governing_text`). `detail` holds the standard's own
+    intermediate quantities (AS 3600 Eq (1), Eq (2) and the floor; ACI alpha_c)."""
+
+    area: np.ndarray
+    concrete: np.ndarray
+    steel: np.ndarray
+    limit: np.ndarray
+    nominal: np.ndarray
+    phi: np.ndarray
+    design: np.ndarray
+    governs: np.ndarray
+    governing_text: Mapping[int, str]
+    detail: Mapping[str, np.ndarray]
+
+    def clauses(self) -> list[str]:
+        """The governing clause of every row, as text."""
+        return [self.governing_text[int(g)] for g in np.ravel(self.governs)]
+
+
+@dataclass(frozen=True)
+class SectionState:
+    """What phi for axial force with bending may depend on, per row; each standard reads what it
+    needs (AS 3600: Nu, Nub, Nuot, kuo; ACI 318: the net tensile strain from dn, d0, eps_cu)."""
+
+    nu: np.ndarray  # nominal axial force [N], compression positive
+    dn: np.ndarray  # neutral-axis depth [mm]
+    d0: np.ndarray  # depth of the extreme tension bar [mm]
+    fy: np.ndarray  # yield strength of the longitudinal bars [MPa]
+    nub: np.ndarray  # axial force at the balanced point [N]
+    nuot: np.ndarray  # nominal tension capacity [N], negative
+    kuo: np.ndarray  # neutral-axis parameter in pure bending
+    eps_cu: float = 0.003
+    Es: float = 200_000.0
+
+
+@dataclass(frozen=True)
+class BeamShear:
+    """Shear of a lintel as a beam per row [N]."""
+
+    concrete: np.ndarray
+    steel: np.ndarray
+    limit: np.ndarray
+    nominal: np.ndarray
+    phi: np.ndarray
+
+
+@runtime_checkable
+class Standard(Protocol):
+    """A design standard as the checks see it. N, mm, MPa; arrays over rows."""
+
+    name: str
+    Es: float
+    eps_cu: float
+    phi_wall_shear: float
+    phi_compression: float
+    phi_tension: float
+    phi_simplified: float
+
+    def clause(self, key: str) -> str:
+        """The clause (and equation) of a quantity named in CLAUSE_KEYS, for result rows."""
+        ...
+
+    # ---- shear
+    def wall_aspect_ratio(
+        self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Hw/Lw used for shear, and where the whole wall's ratio governs a pier's."""
+        ...
+
+    def wall_shear(self, fc, fy, Lw, tw, hw_lw, rho_h, rho_v, phi=None) -> ShearCapacity:
+        """In-plane shear capacity of a wall or pier; phi None: the standard's."""
+        ...
+
+    def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw) -> tuple[np.ndarray, np.ndarray]:
+        """Least shear-steel ratio to carry V*, and where no steel suffices (the upper limit)."""
+        ...
+
+    # ---- axial load and bending
+    def stress_block(self, fc) -> tuple[np.ndarray, np.ndarray]:
+        """(intensity, depth ratio) of the rectangular block: nm.Rect's alpha2 and gamma."""
+        ...
+
+    def squash_load(self, fc, Ag_net, As, fy) -> np.ndarray:
+        """Nominal axial strength without bending; Ag_net = concrete area net of the bars."""
+        ...
+
+    def max_compression(self, fc, Ag_net, As, fy, phi=None) -> np.ndarray:
+        """Design upper limit on N* in compression (AS: phi0 Nuo; ACI: phi 0.80 Po)."""
+        ...
+
+    def tension_capacity(self, As, fy) -> np.ndarray:
+        """Nominal axial tension capacity, negative."""
+        ...
+
+    def phi_axial_bending(self, state: SectionState, phi0=None) -> np.ndarray:
+        """phi for a section at nominal strength described by `state`."""
+        ...
+
+    def design_moment(self, m_star, n_star, D) -> np.ndarray:
+        """|M*| raised to any minimum (eccentricity) the standard sets; N, N mm, mm."""
+        ...
+
+    # ---- walls in compression
+    def effective_height_factor(self, Hw, L1, supported_edges, restrained=False) -> np.ndarray:
+        """k in the effective height k Hw."""
+        ...
+
+    def simplified_capacity(self, fc, tw, length, hwe, e, phi=None) -> np.ndarray:
+        """Design axial capacity of a wall by the standard's simplified method [N]."""
+        ...
+
+    def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress) -> dict[str, np.ndarray]:
+        """Each condition that rules the simplified method out, as a row mask, by name."""
+        ...
+
+    # ---- detailing
+    def min_ratios(
+        self, *, fc, fy, tw, Lw, wall_length, sigma, v_star, hw_lw, rho_h, bar_dia, restrained
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Least (vertical, horizontal) reinforcement ratios."""
+        ...
+
+    def max_spacing(self, tw, Lw, shear_steel_required=False) -> tuple[np.ndarray, np.ndarray]:
+        """Largest (vertical, horizontal) bar spacing [mm]."""
+        ...
+
+    def min_clear_gap(self, db) -> np.ndarray:
+        """Least clear gap between parallel bars [mm]."""
+        ...
+
+    def single_layer_allowed(self, tw, hwe) -> np.ndarray:
+        """Where one layer of bars is permitted."""
+        ...
+
+    # ---- lintels and coupling beams
+    def beam_flexure(self, b, d, As, fc, fy) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(nominal moment [N mm], neutral-axis depth / d, phi) of a singly reinforced beam."""
+        ...
+
+    def beam_shear(self, fc, b, d, D, asv, s, fyt, rho_w) -> BeamShear:
+        """Shear of a beam with vertical stirrups."""
+        ...
+
+    def coupling_beam_shear(self, Avd, fy, alpha, fc, Acw) -> np.ndarray:
+        """Nominal shear of a diagonally reinforced coupling beam [N]; NaN where the standard
+        has no such rule."""
+        ...
+
+    # ---- earthquake
+    def boundary_stress_limits(self, fc) -> tuple[np.ndarray, np.ndarray]:
+        """Elastic extreme-fibre compression [MPa] that triggers boundary-element (end-zone)
+        detailing, and below which it may stop."""
+        ...
+
+
+# ---------------------------------------------------------------- registry
+
+_REGISTRY: dict[str, str | Standard] = {
+    "AS 3600:2018": "xlcore.codes.as3600_standard:STANDARD",
+    "ACI 318-19": "xlcore.codes.aci318:STANDARD",
+}
+
+
+def register_standard(name: str, target: str | Standard) -> None:
+    """Register a standard under `name`: an object, or "module:attribute" imported on first use."""
+    _REGISTRY[name] = target
+
+
+def standard_names() -> tuple[str, ...]:
+    """Names of the registered standards (not all are selectable in the workbook yet: that is
+    layout.STANDARDS)."""
+    return tuple(_REGISTRY)
+
+
+def get_standard(name: str) -> Standard:
+    """The standard registered under `name` (KeyError naming the known ones otherwise)."""
+    try:
+        target = _REGISTRY[name]
+    except KeyError:
+        raise KeyError(f"unknown design standard {name!r}; known: {', '.join(_REGISTRY)}") from None
+    if isinstance(target, str):
+        module, _, attr = target.partition(":")
+        target = getattr(importlib.import_module(module), attr)
+        _REGISTRY[name] = target
+    return target
