@@ -44,3 +44,19 @@ def wall(
         storey_to=storeys[1],
         **(WALL_DEFAULTS | fields),
     )
+
+
+def tower_workbook(path, storeys: int, boxes: int, combos: int) -> int:
+    """A tower of `boxes` separate box cores (four walls each, a door in one), every pier with
+    member actions and core actions at every storey, filled into the project's own template:
+    the generator of `benchmarks/building_scale.py`, loaded from its file so the tests and the
+    benchmark build the same towers. Returns the number of pier cases."""
+    import importlib.util
+    from pathlib import Path
+
+    spec = importlib.util.spec_from_file_location(
+        "building_scale", Path(__file__).resolve().parent.parent / "benchmarks" / "building_scale.py"
+    )
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module.generate(Path(path), storeys, boxes, combos)

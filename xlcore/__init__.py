@@ -9,6 +9,24 @@ CAUTION = (
 )
 
 
+_API = ("check", "compute", "read_results", "InputInvalid", "FileProblem", "Run", "Inputs")
+
+
+def __getattr__(name: str):
+    """The Python API (`xlcore.compute`, `xlcore.read_results`, ...; see `xlcore.api`), loaded
+    on first use so that `import xlcore.layout` and the command line's start stay light."""
+    if name in _API:
+        from xlcore import api
+
+        return getattr(api, name)
+    raise AttributeError(f"module 'xlcore' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    """The API names too, so a notebook's completion offers them."""
+    return sorted(set(globals()) | set(_API))
+
+
 def _python_strings() -> None:
     """pandas 3 keeps text columns in pyarrow arrays whenever pyarrow is installed (xlcore needs
     it for the Parquet tables). xlcore's text work is element by element in Python (working

@@ -6,8 +6,9 @@ Exit codes: 0 done, 1 invalid input (nothing written), 2 file or usage problem,
 
 from __future__ import annotations
 
+import json
 from collections.abc import Iterator
-from contextlib import contextmanager, nullcontext
+from contextlib import contextmanager
 from enum import StrEnum
 from pathlib import Path
 from typing import Annotated
@@ -15,15 +16,12 @@ from typing import Annotated
 import typer
 from lxml import etree
 
-from xlcore import CAUTION, __version__, layout, pipeline, results
+from xlcore import CAUTION, __version__, api, layout, pipeline, results
 from xlcore.diagnostics import FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
-from xlcore.workbook.reader import RawWorkbook, read_workbook, stored_input_hash
 from xlcore.workbook.tables import file_name
-from xlcore.workbook.tables import folder_for as tables_folder
 from xlcore.workbook.template import write_template
-from xlcore.workbook.writer import check_target, workbook_lock, write_results
 
 app = typer.Typer(
     add_completion=False,
@@ -180,15 +178,66 @@ def _folder_must_exist(path: Path, create: bool = False) -> None:
         raise typer.Exit(EXIT_FILE)
 
 
+Json = Annotated[
+    bool,
+    typer.Option(
+        "--json",
+        help="Print one JSON object on stdout (for scripts and CI); messages stay on stderr.",
+    ),
+]
+
+
+def _emit(obj: dict) -> None:
+    """The one JSON object of --json, on stdout."""
+    typer.echo(json.dumps(obj, indent=2, default=str))
+
+
+@contextmanager
+def _json_exits(as_json: bool, base: dict) -> Iterator[None]:
+    """With --json, a refusal still prints one object (the findings or the file problem, and
+    the exit code) before the exit code is set; messages go to stderr as without it."""
+    if not as_json:
+        yield
+        return
+    try:
+        yield
+    except InputInvalid as exc:
+        _emit(base | {"valid": False, "exit_code": EXIT_INVALID, "findings": _records(exc.findings)})
+        raise
+    except (FileProblem, etree.XMLSyntaxError, *DAMAGE) as exc:  # exit 2 by _exits
+        _emit(base | {"exit_code": EXIT_FILE, "error": str(exc)})
+        raise
+
+
+def _records(findings: Findings) -> list[dict]:
+    return [api.finding_record(f) for f in findings]
+
+
 @app.command()
-def check(path: Workbook, quiet: Quiet = False) -> None:
+def check(path: Workbook, quiet: Quiet = False, as_json: Json = False) -> None:
     """Validate the inputs and print a summary; tell whether results are stale."""
-    with _exits("fix them and run again"), _progress(quiet) as reporter:
-        reporter.begin("reading the input sheets")
-        raw = read_workbook(path)
-        reporter.begin("checking the inputs")
-        building, findings = pipeline.build(raw)
-        reporter.end()
+    base = {"file": str(path)}
+    with (
+        _exits("fix them and run again"),
+        _json_exits(as_json, base),
+        _progress(quiet or as_json) as reporter,
+    ):
+        inputs = api.check(path, reporter)
+    findings = inputs.findings
+    if as_json:
+        _report(findings)
+        _emit(
+            base
+            | {
+                "valid": True,
+                "exit_code": 0,
+                "counts": inputs.counts(),
+                "results": inputs.results_state,
+                "findings": _records(findings),
+            }
+        )
+        return
+    building = inputs.building
     geom = pipeline.geometry.derive(building.storeys, building.walls, building.openings, building.end_zones)
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
@@ -230,14 +279,14 @@ def check(path: Workbook, quiet: Quiet = False) -> None:
         typer.echo(f"    {storey}: piers {', '.join(ids)}" + (f"; lintels {', '.join(lin)}" if lin else ""))
     _report(findings)
     typer.echo(f"  warnings      {len(findings.warnings)}")
-    typer.echo("  results       " + _staleness(raw))
+    typer.echo("  results       " + _STATE_TEXT[inputs.results_state])
 
 
-def _staleness(raw: RawWorkbook) -> str:
-    stored = stored_input_hash(raw.path)
-    if stored is None:
-        return "none yet (run xlcore compute)"
-    return "up to date" if stored == raw.input_hash else "STALE: inputs changed since the last compute"
+_STATE_TEXT = {
+    api.NO_RESULTS: "none yet (run xlcore compute)",
+    api.UP_TO_DATE: "up to date",
+    api.STALE: "STALE: inputs changed since the last compute",
+}
 
 
 @app.command()
@@ -268,32 +317,29 @@ def compute(
         ),
     ] = Detail.auto,
     quiet: Quiet = False,
+    as_json: Json = False,
 ) -> None:
     """Validate, run every check, and write the result sheets into the workbook."""
     target = output or path
+    base = {"file": str(path), "output": str(target), "files_written": []}
     if target.suffix.lower() != path.suffix.lower():
         _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
+        if as_json:
+            _emit(base | {"exit_code": EXIT_FILE, "error": "output of another file type"})
         raise typer.Exit(EXIT_FILE)
-    _folder_must_exist(target, create=True)
-    with _exits("nothing was written"), _progress(quiet) as reporter:
-        # held from the start, so a second compute of the same file refuses before it works
-        with workbook_lock(target) if target.parent.is_dir() else nullcontext():
-            check_target(path, target, force=force, overwrite=overwrite)
-            building, findings = pipeline.load(path, reporter)
-            outcome = pipeline.compute(building, findings, reporter=reporter, detail=detail.value)
-            folder = tables_folder(target)
-            pipeline.select_detail(outcome, detail.value, folder.name)
-            target.parent.mkdir(parents=True, exist_ok=True)
-            backup = write_results(
-                path,
-                target,
-                outcome.sheets,
-                force=force,
-                reporter=reporter,
-                overwrite=overwrite,
-                tables=outcome.full_tables,
-            )
+    try:
+        _folder_must_exist(target, create=True)
+    except typer.Exit:
+        if as_json:
+            _emit(base | {"exit_code": EXIT_FILE, "error": f"{target}: no folder to write into"})
+        raise
+    with _exits("nothing was written"), _json_exits(as_json, base), _progress(quiet or as_json) as reporter:
+        run, backup = api.compute_locked(
+            path, target, force=force, overwrite=overwrite, reporter=reporter, detail=detail.value
+        )
+    findings = run.findings
     _report(findings)
+    outcome = run.outcome
     if outcome.full_tables:
         why = (
             f"over {results.DETAIL_ROW_LIMIT:,} rows (--detail auto: a bigger workbook is slow to open)"
@@ -302,10 +348,28 @@ def compute(
         )
         _err(
             f"note    {len(outcome.full_tables)} tables {why}: the workbook holds their governing "
-            f"rows only; every row is in {folder}/ (Parquet: "
+            f"rows only; every row is in {api.tables_folder(target)}/ (Parquet: "
             + ", ".join(file_name(t.name) for t in outcome.full_tables)
             + "); --detail all writes every row into the workbook"
         )
+    code = EXIT_FAILING if strict and run.failing else 0
+    if as_json:
+        _emit(
+            base
+            | {
+                "valid": True,
+                "exit_code": code,
+                "counts": run.counts(),
+                "worst": run.worst(),
+                "findings": _records(findings),
+                "files_written": [str(p) for p in run.written],
+                "sheets": [sh.name for sh in run.outcome.sheets],
+                "stamp": run.stamp,
+            }
+        )
+        if code:
+            raise typer.Exit(code)
+        return
     s = outcome.summary
     typer.echo(
         f"{target.name}: {len(outcome.shear)} shear rows; pier x storey cases: "
@@ -322,5 +386,32 @@ def compute(
     if backup is not None:
         typer.echo(f"previous version of {target.name} kept as {backup}")
     typer.echo(f"note: {CAUTION}")
-    if strict and outcome.failing:
-        raise typer.Exit(EXIT_FAILING)
+    if code:
+        raise typer.Exit(code)
+
+
+@app.command()
+def report(
+    path: Workbook,
+    output: Annotated[
+        Path | None,
+        typer.Option(
+            "--output", "-o", help="Write the PDF here instead of NAME-report.pdf beside the workbook."
+        ),
+    ] = None,
+    stale_ok: Annotated[
+        bool,
+        typer.Option(
+            "--stale-ok",
+            help="Report even when the result sheets are stale (of the inputs as they are now).",
+        ),
+    ] = False,
+    quiet: Quiet = False,
+) -> None:
+    """Write the calculation report (PDF) of a computed workbook, beside it."""
+    from xlcore.report import make_report
+
+    with _exits("no report was written"), _progress(quiet) as reporter:
+        rep = make_report(path, output, stale_ok=stale_ok, reporter=reporter)
+    typer.echo(f"wrote {rep.path} ({rep.pages} pages)" + (" from STALE results" if rep.stale else ""))
+    typer.echo(f"note: {CAUTION}")

@@ -72,6 +72,13 @@ class InputInvalid(Exception):
         self.findings = findings
         super().__init__(f"{len(findings.errors)} input error(s)")
 
+    def __str__(self) -> str:
+        """The count, then every error on its own line (Sheet!Cell: what was found and what was
+        expected), as the command line prints them: a notebook shows them all at once."""
+        lines = [f"{len(self.findings.errors)} input error(s)"]
+        lines += [f"  {f}" for f in self.findings.errors]
+        return "\n".join(lines)
+
 
 class FileProblem(Exception):
     """The file itself cannot be used: missing, not a workbook, encrypted, locked (exit 2)."""

@@ -39,6 +39,8 @@ class Outcome:
     summary: pd.DataFrame
     sheets: list[ResultSheet] = field(default_factory=list)
     timings: dict[str, float] = field(default_factory=dict)
+    piers: pd.DataFrame | None = None  # with stiffness: what the report draws and re-solves
+    plans: dict = field(default_factory=dict)  # core -> storey -> distribution.StoreyPlan
     # tables whose rows the workbook holds only in part (`select_detail`), every row: for Parquet
     full_tables: list[ResultSheet] = field(default_factory=list)
 
@@ -459,7 +461,7 @@ def compute(
         )
     for sheet in sheets:
         sheet.rework = rework.get(sheet.name)
-    return Outcome(building, findings, geom, shear, summary, sheets, timings=t)
+    return Outcome(building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans)
 
 
 DETAIL_MODES = ("auto", "governing", "all")

@@ -16,6 +16,7 @@ from pathlib import Path
 
 import numpy as np
 import openpyxl
+import pandas as pd
 from openpyxl.utils import column_index_from_string
 from python_calamine import CalamineWorkbook
 
@@ -192,19 +193,83 @@ def _put(sheet: RawSheet, r: int, c: int, value: object) -> None:
 
 def stored_input_hash(path: Path) -> str | None:
     """The input hash stamped on the summary sheet by the last compute, if any."""
-    prefix = f"{results.STAMP_HASH_LABEL}: "
+    stamp = stored_stamp(path)
+    return None if stamp is None else stamp.get(results.STAMP_HASH_LABEL)
+
+
+def stored_stamp(path: Path) -> dict[str, str] | None:
+    """The lines above the summary table ('Label: value', up to the first blank row) as
+    written by the last compute: version, time, input hash, project; None before any."""
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
     try:
         if results.SUMMARY_SHEET not in wb.sheetnames:
             return None
-        for (value,) in wb[results.SUMMARY_SHEET].iter_rows(max_row=40, max_col=1, values_only=True):
-            if isinstance(value, str) and value.startswith(prefix):
-                return value[len(prefix) :].strip()
+        out: dict[str, str] = {}
+        for (value,) in wb[results.SUMMARY_SHEET].iter_rows(
+            min_row=2, max_row=60, max_col=1, values_only=True
+        ):
+            if not isinstance(value, str) or ": " not in value:
+                break
+            label, _, text = value.partition(": ")
+            out.setdefault(label, text.strip())
+        return out
     finally:
         wb.close()
-    return None
+
+
+@dataclass
+class StoredSheet:
+    """A result sheet as the last compute left it: the lines above the table and the table
+    (columns by their printed header; numbers as floats, blanks as NaN in number columns)."""
+
+    name: str
+    title: str
+    lines: dict[str, str]
+    table: pd.DataFrame
+
+
+def stored_result_sheets(path: Path) -> dict[str, StoredSheet]:
+    """Every result sheet of a computed workbook (names starting with the result prefix,
+    compared ignoring case), tables longer than a worksheet joined from their parts 'NAME (2)',
+    ... Read with python-calamine: these sheets are xlcore's own, of known extent."""
+    prefix = layout.RESULT_PREFIX.lower()
+    with open_package(path):  # refuses what is not a safe package, as for the input sheets
+        pass
+    wb = CalamineWorkbook.from_path(str(path))
+    out: dict[str, StoredSheet] = {}
+    part = re.compile(r"^(.*) \((\d+)\)$")
+    for name in wb.sheet_names:
+        if not name.lower().startswith(prefix):
+            continue
+        rows = wb.get_sheet_by_name(name).to_python(skip_empty_area=False)
+        if not rows:
+            continue
+        title = str(rows[0][0]) if rows[0] else ""
+        lines: dict[str, str] = {}
+        r = 1
+        while r < len(rows) and any(_filled(v) for v in rows[r]):
+            label, _, text = str(rows[r][0]).partition(": ")
+            lines.setdefault(label, text)
+            r += 1
+        header = _trim(rows[r + 1]) if r + 1 < len(rows) else []
+        body = [list(row[: len(header)]) + [""] * (len(header) - len(row)) for row in rows[r + 2 :]]
+        table = pd.DataFrame(body, columns=header)
+        for c in header:
+            col = table[c]
+            filled = col[col != ""]
+            if not len(filled):  # no value at all: blank, whichever kind the column is
+                table[c] = np.full(len(table), np.nan)
+            elif all(isinstance(v, int | float) and not isinstance(v, bool) for v in filled):
+                table[c] = pd.to_numeric(col.replace("", np.nan), errors="coerce").astype(float)
+        m = part.match(name)
+        base = m.group(1) if m and m.group(1) in out else name
+        if base in out:
+            out[base].table = pd.concat([out[base].table, table], ignore_index=True)
+        else:
+            out[name] = StoredSheet(name, title, lines, table)
+    return out
 
 
 ROW_TAG = re.compile(rb"<(?:\w+:)?row\b[^>]*>")
