@@ -127,3 +127,25 @@ def test_read_results_before_any_compute_is_empty_and_check_says_so(demo_book):
     inputs = xlcore.check(demo_book)
     assert inputs.results_state == "none" and inputs.stamp is None
     assert inputs.findings.errors == []
+
+
+def test_worst_cases_count_only_pass_and_fail_rows():
+    """A trigger's ratio (Section 14 end zone: 'required', never a failure) and a 'check' row are
+    not utilisations: the worst case of a table is taken over its pass / FAIL rows only, so
+    `--json` and the report never read a trigger as a failure."""
+    import pandas as pd
+
+    from xlcore import results, tables
+    from xlcore.results import ResultSheet
+
+    t = pd.DataFrame(
+        dict(
+            storey=["GF"] * 3,
+            pier_id=["A", "B", "C"],
+            util=[0.6, 2.2, 1.4],
+            status=[results.PASS, "required", "check"],
+        )
+    )
+    sheet = ResultSheet(results.RESULT_PREFIX + "earthquake detailing", "", [], t)
+    (case,) = [c for c in tables.worst_cases({"earthquake detailing": sheet})]
+    assert case["util"] == 0.6 and case["status"] == results.PASS and case["over"] == 0

@@ -171,12 +171,19 @@ def checks_of(sheets: dict[str, ResultSheet]) -> list[Check]:
 
 
 def rows_of(check: Check, sheets: dict[str, ResultSheet]) -> pd.DataFrame:
-    """The rows of a check's table that carry its utilisation (Cl 11.5 rows where it applies)."""
+    """The rows of a check's table that carry its utilisation (Cl 11.5 rows where it applies)
+    and, where the table has a status, whose status is pass or FAIL: a trigger's ratio (the
+    Section 14 end-zone trigger reads 'required', never FAIL) or a 'check' row is not a
+    utilisation and must not read as a failure in the worst cases or the charts."""
     t = sheets[check.table].table
     if check.util not in t:
         return t.iloc[0:0]
     u = pd.to_numeric(t[check.util], errors="coerce")
-    return t[np.isfinite(u.to_numpy(dtype=float))]
+    keep = np.isfinite(u.to_numpy(dtype=float))
+    status = "status_s" if check.util == "util_s" else "status"
+    if status in t:
+        keep &= t[status].isin([results.PASS, results.FAIL]).to_numpy()
+    return t[keep]
 
 
 def worst(check: Check, sheets: dict[str, ResultSheet]) -> pd.Series | None:
