@@ -84,7 +84,7 @@ def test_demo_tension_piers_fail_without_end_bars_and_pass_with_them(demo_master
     bare = pipeline.compute(building.model_copy(update={"end_zones": []}), findings)
     zoned = pipeline.compute(building, findings)
     failing = bare.summary[bare.summary.status == "FAIL"]
-    assert len(failing) >= 3  # the demo's base piers need end bars
+    assert len(failing) >= 1  # the demo needs end bars
     assert set(failing.check) == {"axial + bending"}
     axial = [s for s in bare.sheets if s.name.endswith("axial-bending")][0].table
     worst = (

@@ -1,8 +1,8 @@
 """The End zones sheet (issue 14 §1): every bad row is refused at its Sheet!Cell with the value
 found and what was expected; the file is never changed; the sheet is optional; the demo's
-zones reach the piers they name. Demo rows (from `demo.end_zones`): row 2 is LW1 GF-L4 'start'
-(4N28 in 200 mm, N10 ties; pier LW1-1 is 750 mm long), row 3 LW1 GF-L4 'opening 1 near' (4N28
-in 200 mm), row 8 LW1 L5-L9 'start'."""
+zones reach the piers they name. Demo rows (from `demo.end_zones`): row 2 is LiftS GF-L4 'start'
+(6N28 in 350 mm, N10 ties; pier LiftS-1 is 950 mm long), row 3 LiftS GF-L4 'opening 1 near' (6N28
+in 350 mm), row 8 LiftS L5-L9 'start'."""
 
 import hashlib
 
@@ -30,11 +30,11 @@ def where(key, row):
 def test_demo_rows_are_as_these_tests_assume():
     rows = demo.end_zones()
     assert (rows[0]["wall_id"], rows[0]["location"], rows[0]["bars"], rows[0]["dia"], rows[0]["length"]) == (
-        "LW1",
+        "LiftS",
         "start",
-        4,
+        6,
         28.0,
-        200.0,
+        350.0,
     )
     assert (rows[1]["location"], rows[6]["location"], rows[6]["storey_from"]) == (
         "opening 1 near",
@@ -46,13 +46,13 @@ def test_demo_rows_are_as_these_tests_assume():
 CASES = [
     # (cells changed, cell of the error, words it must hold)
     (
-        {at("length", 2): 800},
+        {at("length", 2): 1000},
         ("length", 2),
-        ["found 800 mm", "at most the length of pier LW1-1 (750 mm at GF)"],
+        ["found 1000 mm", "at most the length of pier LiftS-1 (950 mm at GF)"],
     ),
-    # 2 N28 a face, cover 30, N10 ties, clear gap 3 x 28 = 84 (Cl 11.7 as transcribed):
-    # 30 + 2 x 10 + 2 x 28 + 1 x 84 = 190 mm (hand evaluation)
-    ({at("length", 2): 180}, ("length", 2), ["found 180 mm", "at least 190 mm", "2 N28 a face"]),
+    # 3 N28 a face, cover 30, N10 ties, clear gap 3 x 28 = 84 (Cl 11.7 as transcribed):
+    # 30 + 2 x 10 + 3 x 28 + 2 x 84 = 302 mm (hand evaluation)
+    ({at("length", 2): 300}, ("length", 2), ["found 300 mm", "at least 302 mm", "3 N28 a face"]),
     ({at("wall_id", 2): "LW9"}, ("wall_id", 2), ["found 'LW9'", "a wall ID from the Walls sheet"]),
     ({at("storey_to", 2): "L99"}, ("storey_to", 2), ["found 'L99'", "a storey name"]),
     (
@@ -62,17 +62,17 @@ CASES = [
     ),
     ({at("location", 2): "opening 3 near"}, ("location", 2), ["'opening 3 near'", "no such free edge at GF"]),
     ({at("location", 2): "left jamb"}, ("location", 2), ["found 'left jamb'", "'opening K near'"]),
-    ({at("bars", 2): 7}, ("bars", 2), ["found 7 bars", "multiple of wall 'LW1''s 2 vertical layers"]),
+    ({at("bars", 2): 7}, ("bars", 2), ["found 7 bars", "multiple of wall 'LiftS''s 2 vertical layers"]),
     ({at("tie_spacing", 2): None}, ("tie_spacing", 2), ["blank", "tie spacing as well"]),
     ({at("bars", 2): 0}, ("bars", 2), ["found 0", "a whole number from 1 to 60"]),
-    # pier LW1-1 (750 mm): 200 mm at its start and 600 mm at the door jamb overlap
-    ({at("length", 3): 600}, ("length", 3), ["found 600 mm", "pier LW1-1 at GF", "200 + 600 mm"]),
-    # zones of 360 mm facing each other in LW1-1: innermost bars at 360 - 10 - 14 = 336 mm from
-    # each edge, 750 - 2 x 336 = 78 mm apart, 78 - 28 = 50 mm clear < 3 x 28 = 84 (hand evaluation)
+    # pier LiftS-1 (950 mm): 350 mm at its start and 650 mm at the door jamb overlap
+    ({at("length", 3): 650}, ("length", 3), ["found 650 mm", "pier LiftS-1 at GF", "350 + 650 mm"]),
+    # zones of 460 mm facing each other in LiftS-1: innermost bars at 460 - 10 - 14 = 436 mm from
+    # each edge, 950 - 2 x 436 = 78 mm apart, 78 - 28 = 50 mm clear < 3 x 28 = 84 (hand evaluation)
     (
-        {at("length", 2): 360, at("length", 3): 360},
+        {at("length", 2): 460, at("length", 3): 460},
         ("length", 2),
-        ["found 360 mm", "pier LW1-1 at GF", "50 mm clear", "at least 3 db = 84 mm"],
+        ["found 460 mm", "pier LiftS-1 at GF", "50 mm clear", "at least 3 db = 84 mm"],
     ),
 ]
 
@@ -108,8 +108,9 @@ def test_sheet_is_optional(demo_book, tmp_path):
 
 
 def test_zones_reach_the_pier_ends_they_name():
-    """Row 'LW1 opening 1 far' gives the start side of LW1-2; 'opening 2 near' its end side;
-    SW2 has its riser from L1 only, so 'opening 1 near' of SW2 is the end of SW2-1 from L1."""
+    """Row 'LiftS opening 1 far' gives the start side of LiftS-2; StairE has its opening from L1
+    only, so 'opening 1 near' of StairE is the end of StairE-1 from L1 (the whole wall's end
+    'end' at GF)."""
     st = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
     zones = []
     for r in demo.end_zones():
@@ -119,11 +120,11 @@ def test_zones_reach_the_pier_ends_they_name():
         st, [WallRun(**w) for w in demo.walls()], [Opening(**o) for o in demo.openings()], zones
     )
     p = g.piers.set_index(["storey", "pier_id"])
-    assert (p.loc[("GF", "LW1-2"), "za_n"], p.loc[("GF", "LW1-2"), "za_len"]) == (8, 450.0)
-    assert p.loc[("GF", "LW1-2"), "edge_a"] == "opening 1 far"
-    assert p.loc[("L1", "SW2-1"), "zb_n"] == 8 and p.loc[("L1", "SW2-1"), "edge_b"] == "opening 1 near"
-    assert p.loc[("GF", "SW2"), "zb_n"] == 8 and p.loc[("GF", "SW2"), "edge_b"] == "end"
-    assert p.loc[("L10", "SW1"), "za_n"] == 0  # top third: no zones in the demo
+    assert (p.loc[("GF", "LiftS-2"), "za_n"], p.loc[("GF", "LiftS-2"), "za_len"]) == (8, 450.0)
+    assert p.loc[("GF", "LiftS-2"), "edge_a"] == "opening 1 far"
+    assert p.loc[("L1", "StairE-1"), "zb_n"] > 0 and p.loc[("L1", "StairE-1"), "edge_b"] == "opening 1 near"
+    assert p.loc[("GF", "StairE"), "zb_n"] > 0 and p.loc[("GF", "StairE"), "edge_b"] == "end"
+    assert p.loc[("L10", "StairN"), "za_n"] == 0  # top third: no zones in the demo
 
 
 @pytest.mark.parametrize(

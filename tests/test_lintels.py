@@ -275,3 +275,15 @@ def test_no_demand_on_a_lintel_without_bars_is_not_a_failure():
     bare = lintels(**DEEP, lintel_bars=None, lintel_dia=None)
     out = check_lintels(bare, actions(v=0.0, m=0.0), Settings()).iloc[0]
     assert out.util == 0.0 and out.status == "pass" and out.as_req == 0.0
+
+
+def test_diagonal_mechanics_against_a_published_si_worksheet():
+    # Published worked example (SI): Mathcad worksheet "ACI318 coupling beam of earthquake
+    # resistance structure for rectangular hoop reinforcement", Scribd document 450228572, page 1
+    # (ACI 318-08 numbering 21.9.7, same SI coefficients; numbers read with the search tool):
+    # ln 1800, h 1900, bw 800 mm, Avd = 12 x pi 32^2/4, fy 460 MPa, f'c 60 MPa ->
+    # "Vn1 := 2 Avd fy = 8878.895 kN" (the worksheet leaves out sin alpha, i.e. alpha = 90 deg)
+    # and "Vn2 := 0.83 sqrt(fc) h bw = 9772.312 kN" (the concrete cap).
+    avd = 12 * math.pi * 32.0**2 / 4
+    assert as3600.diagonal_shear(avd, 460.0, math.pi / 2) / 1e3 == pytest.approx(8878.895, abs=1e-3)
+    assert as3600.diagonal_cap(60.0, 800.0, 1900.0) / 1e3 == pytest.approx(9772.312, abs=1e-3)
