@@ -117,7 +117,7 @@ def compute(
         if defer(len(acts)):  # numbers now, working text for the rows written (select_detail)
             acts_i = acts.assign(_act=np.arange(len(acts)))
             shear = check_pier_shear(piers, acts_i, s, text=False)
-            axial = check_pier_axial(piers, acts_i, s, working=False)
+            axial = check_pier_axial(piers, acts_i, s, text=False)
             rework[results.SHEAR_SHEET] = _rework_rows(lambda a: check_pier_shear(piers, a, s), acts_i)
             rework[results.AXIAL_SHEET] = _rework_rows(lambda a: check_pier_axial(piers, a, s), acts_i)
         else:

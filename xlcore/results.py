@@ -402,8 +402,8 @@ CORES_COLUMNS = [
 # holds only the governing rows (`compute --detail governing`, or `auto` above
 # DETAIL_ROW_LIMIT rows). One rule per table, declared here beside its columns so that a new
 # result table gets its rule in the same place. Tables without a rule (summary, advice, piers,
-# core section, detailing: already one row per storey x member, or x rule) are always written
-# in full. See DEVELOPERS.md "Decisions" and `governing_rows`.
+# core section, detailing, earthquake detailing: already one row per storey x member, or x
+# rule) are always written in full. See DEVELOPERS.md "Decisions" and `governing_rows`.
 DETAIL_ROW_LIMIT = 50_000  # rows per table above which `auto` writes the governing rows only
 
 

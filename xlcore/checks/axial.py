@@ -237,10 +237,15 @@ REGION_TEXT = {
 
 
 def check_pier_axial(
-    piers: pd.DataFrame, actions: pd.DataFrame, settings: Settings, working: bool = True
+    piers: pd.DataFrame,
+    actions: pd.DataFrame,
+    settings: Settings,
+    working: bool = True,
+    text: bool = True,
 ) -> pd.DataFrame:
     """In-plane axial force and bending of every pier row, kN and kNm (without `working`, the
-    numbers only)."""
+    numbers only; without `text`, every column but the working text f_nm and f_s, which the
+    same call on the rows written makes later: `compute --detail`)."""
     df = actions.merge(piers[[c for c in GEOMETRY if c in piers]], on=["storey", "pier_id"], how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
@@ -296,6 +301,8 @@ def check_pier_axial(
     if not working:
         return _simplified(df, settings, of, working)
     df["bars"] = np.asarray(bars.describe(df.iloc[first]), dtype=object)[of]
+    if not text:  # every column but the working text (made later for the rows written)
+        return _simplified(df, settings, of, working=False)
     phi_b = as3600.phi_bending(r["kuo"])
     cols = plain(
         ray,
