@@ -66,9 +66,15 @@ def test_beside_the_workbook_with_stamp_and_caution_on_every_page(demo):
 
 
 def _governing_row(stored, c: tables.Check, sheet: results.ResultSheet):
-    """The workbook's row with the highest utilisation of the check (first of equals)."""
+    """The workbook's row with the highest utilisation of the check (first of equals), among
+    the rows whose status is pass or FAIL where the sheet has a status (a trigger's ratio,
+    status 'required', is not a utilisation: `tables.rows_of`)."""
     title = next(col.title for col in sheet.columns if col.key == c.util)
     df = stored[c.table]
+    key = "status_s" if c.util == "util_s" else "status"
+    status = next((col.title for col in sheet.columns if col.key == key), None)
+    if status is not None:
+        df = df[df[status].isin([results.PASS, results.FAIL])]
     u = df[title].astype(float)
     return df.loc[u.idxmax()], title
 
