@@ -620,6 +620,20 @@ def _unsound_ids(df: pd.DataFrame | None, walls: list[WallRun]) -> set[str] | No
     return set(df.wall_id[bad]) | (set(df.wall_id.dropna()) - good)
 
 
+def _unknown_wall(wall_id: object, wall_ids: set[str], sheet: str, cell: str, f: Findings) -> bool:
+    """A wall ID naming no wall of the Walls sheet (openings, end zones): an error at its cell
+    with the likeliest slip (case or invisible character, else close names); True if so."""
+    if wall_id is None or not wall_ids or wall_id in wall_ids:
+        return False
+    f.error(
+        sheet,
+        cell,
+        f"found {show(wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet"
+        + suggest(wall_id, wall_ids),
+    )
+    return True
+
+
 def _openings(
     df: pd.DataFrame | None,
     storeys: list[Storey],
@@ -644,13 +658,7 @@ def _openings(
         c = lambda key, r=rec.row: _at(df, key, r)  # noqa: E731
         if rec.wall_id in unsound:
             continue  # its wall has a bad cell: checked once that is fixed
-        if rec.wall_id is not None and wall_ids and rec.wall_id not in wall_ids:
-            f.error(
-                t.name,
-                c("wall_id"),
-                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet"
-                + did_you_mean(rec.wall_id, wall_ids),
-            )
+        if _unknown_wall(rec.wall_id, wall_ids, t.name, c("wall_id"), f):
             continue
         rng = _storey_range(rec, df, t, index, f)
         values = rec._asdict()
@@ -763,13 +771,7 @@ def _end_zones(
         c = lambda key, r=rec.row: _at(df, key, r)  # noqa: E731
         if rec.wall_id in unsound:
             continue  # its wall has a bad cell: checked once that is fixed
-        if rec.wall_id is not None and rec.wall_id not in wall_ids:
-            f.error(
-                t.name,
-                c("wall_id"),
-                f"found {show(rec.wall_id)}; expected a wall ID from the {layout.WALLS.name} sheet"
-                + suggest(rec.wall_id, wall_ids),
-            )
+        if _unknown_wall(rec.wall_id, wall_ids, t.name, c("wall_id"), f):
             continue
         rng = _storey_range(rec, df, t, index, f)
         loc = layout.parse_location(rec.location) if rec.location is not None else None
