@@ -16,9 +16,9 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "tests"))
 
 from test_nm_reference_library import CASES, ours, reference  # noqa: E402
 
-from xlcore import nm  # noqa: E402
 from xlcore.checks.axial import interaction  # noqa: E402
 from xlcore.codes import as3600 as a  # noqa: E402
+from xlcore.mechanics import nm  # noqa: E402
 
 
 def main(rows: int = 100_000, reference_points: int = 10) -> None:

@@ -1,5 +1,5 @@
 """ACI 318-19 (SI) axial force and bending: the stress block (22.2.2), phi by net tensile strain
-(Table 21.2.2, 2019 limits), Po and Pn,max (22.4.2), and the block used by xlcore.nm.
+(Table 21.2.2, 2019 limits), Po and Pn,max (22.4.2), and the block used by xlcore.mechanics.nm.
 
 References, named beside each check:
 - Published worked example, a P-M point with P = 0 and the bars below yield (strain
@@ -23,9 +23,9 @@ import math
 import numpy as np
 import pytest
 
-from xlcore import nm
 from xlcore.codes import aci318 as aci
 from xlcore.codes.base import SectionState
+from xlcore.mechanics import nm
 
 B, H, FC, FY = 300.0, 600.0, 35.0, 420.0
 A3 = 3 * math.pi * 25.0**2 / 4  # 1472.6216 mm^2
@@ -120,7 +120,7 @@ def test_po_and_pn_max_by_hand():
     assert aci.max_tensile_strength(1000.0, 600.0) == 550_000.0
 
 
-# ---------------------------------------------------------------- the block in xlcore.nm
+# ---------------------------------------------------------------- the block in xlcore.mechanics.nm
 
 
 def test_balanced_point_by_hand_through_nm():
@@ -255,16 +255,16 @@ def test_nominal_moment_matches_concreteproperties(fc, n_frac):
     assert abs(m[0]) == pytest.approx(abs(ref.m_xy), rel=0.005)
     # the neutral axis within 0.5 %, and 1.5 % in pure bending, where the block's edge cuts
     # through the top bars (60 mm deep, 25 mm across): the library deducts the part of their
-    # holes inside the block, xlcore.nm the whole bar where its centre is inside, none otherwise
+    # holes inside the block, xlcore.mechanics.nm the whole bar where its centre is inside, none otherwise
     assert dn[0] == pytest.approx(ref.d_n, rel=0.015 if n_frac == 0.0 else 0.005)
 
 
 def test_block_in_nm_core_gives_the_hand_balanced_point():
-    """xlcore.nm_core takes the block as `block(fc) -> (intensity, depth ratio)`: with
+    """xlcore.mechanics.nm_core takes the block as `block(fc) -> (intensity, depth ratio)`: with
     aci318.stress_block, the hand section as one wall (600 long, 300 thick, 3 bars at 60 and
     540 along it) bent in its plane at N = Pb = 2 224 189.5 N has c = 317.647 mm and
     M = 678 596 576 N mm (hand evaluation above) within the fibres' discretisation (0.1 %)."""
-    from xlcore import nm_core
+    from xlcore.mechanics import nm_core
 
     bars = [(d, o, A3 / 3) for d in (60.0, 540.0) for o in (-90.0, 0.0, 90.0)]
     asm = nm_core.build(

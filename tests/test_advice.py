@@ -9,9 +9,10 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from xlcore import costs, geometry, stiffness
+from xlcore import costs, geometry
 from xlcore.checks.advice import advise, evaluate_options
 from xlcore.codes import as3600
+from xlcore.mechanics import stiffness
 from xlcore.model import Settings, Storey
 
 

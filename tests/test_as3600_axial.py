@@ -11,9 +11,9 @@ hand evaluation of the clause expressions as listed in docs/engineering-basis.md
 import numpy as np
 import pytest
 
-from xlcore import nm
 from xlcore.checks.axial import interaction, pier_bars
 from xlcore.codes import as3600 as a
+from xlcore.mechanics import nm
 
 ONE = np.array([1.0])
 

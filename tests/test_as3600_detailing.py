@@ -7,9 +7,10 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import geometry, stiffness
+from xlcore import geometry
 from xlcore.checks.detailing import check_detailing
 from xlcore.codes import as3600 as a
+from xlcore.mechanics import stiffness
 from xlcore.model import Settings, Storey
 
 

@@ -15,10 +15,11 @@ import pytest
 from conftest import column_letter as col
 from conftest import edit
 
-from xlcore import geometry, layout, pipeline, results, stiffness
+from xlcore import geometry, layout, pipeline, results
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.codes import as3600 as a
 from xlcore.diagnostics import InputInvalid
+from xlcore.mechanics import stiffness
 from xlcore.model import Settings
 
 P, W = layout.PROJECT, layout.WALLS

@@ -5,9 +5,9 @@ moments about the same point, at several neutral-axis angles and axial forces.""
 import numpy as np
 import pytest
 
-from xlcore import nm_core
 from xlcore.checks.core_nm import ACROSS, FIBRE, _along
 from xlcore.codes import as3600 as a
+from xlcore.mechanics import nm_core
 
 cp = pytest.importorskip("concreteproperties")
 from concreteproperties.concrete_section import ConcreteSection  # noqa: E402
@@ -17,7 +17,7 @@ from sectionproperties.pre.geometry import Geometry  # noqa: E402
 from shapely import affinity  # noqa: E402
 from shapely.ops import unary_union  # noqa: E402
 
-from xlcore.section import rectangle  # noqa: E402
+from xlcore.mechanics.section import rectangle  # noqa: E402
 
 
 def bars_for(L, t, dia=12, s=200, cover=30):
@@ -98,8 +98,9 @@ def test_capacity_along_a_direction_of_a_square_contour():
 def test_sampled_design_curves_converge(demo_master, monkeypatch):
     """The core check reads phiMu(N*) off design curves sampled in dn; sampling six times
     denser changes no utilisation by more than 0.1 %."""
-    from xlcore import distribution, pipeline, stiffness
+    from xlcore import distribution, pipeline
     from xlcore.checks import core_nm
+    from xlcore.mechanics import stiffness
 
     b, _ = pipeline.load(demo_master)
     s = b.settings

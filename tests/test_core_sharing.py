@@ -66,7 +66,8 @@ def test_pier_axial_forces_sum_to_core_axial_force(top_from_core):
 
 
 def _prep(b):
-    from xlcore import cores, geometry, stiffness
+    from xlcore import cores, geometry
+    from xlcore.mechanics import stiffness
 
     s = b.settings
     geom = geometry.derive(b.storeys, b.walls, b.openings)

@@ -14,7 +14,8 @@ from builders import storey, wall
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from xlcore import demo, distribution, geometry, section, stiffness
+from xlcore import demo, distribution, geometry
+from xlcore.mechanics import section, stiffness
 from xlcore.model import Opening, Storey, WallRun
 
 

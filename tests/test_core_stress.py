@@ -6,8 +6,9 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import distribution, geometry, stiffness
+from xlcore import distribution, geometry
 from xlcore.checks.core_stress import check_core_stress
+from xlcore.mechanics import stiffness
 from xlcore.model import Settings, Storey
 
 

@@ -18,7 +18,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from test_core_statics import assert_statics
 
-from xlcore import cores, demo, distribution, geometry, section, stiffness
+from xlcore import cores, demo, distribution, geometry
+from xlcore.mechanics import section, stiffness
 from xlcore.model import Opening, Storey, WallRun
 
 

@@ -10,7 +10,7 @@ centre of mass at x 45 ft. Printed: centre of rigidity x 49.5 ft, J = 27 248, di
 import numpy as np
 import pytest
 
-from xlcore.diaphragm import Storey, Unstable, centre_of_rigidity, share
+from xlcore.mechanics.diaphragm import Storey, Unstable, centre_of_rigidity, share
 
 
 def taly():

@@ -7,10 +7,11 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import distribution, geometry, pipeline, stiffness
+from xlcore import distribution, geometry, pipeline
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
+from xlcore.mechanics import stiffness
 from xlcore.model import EndZone, Settings, Storey
 
 ST = [Storey(index=0, name="GF", level=0.0, height=3.5, slab=200.0)]

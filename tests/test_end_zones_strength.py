@@ -19,9 +19,9 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from xlcore import bars, nm
 from xlcore.checks.axial import interaction, pier_bars, rect_sections
 from xlcore.codes import as3600 as a
+from xlcore.mechanics import bars, nm
 
 cp = pytest.importorskip("concreteproperties")
 from concreteproperties.concrete_section import ConcreteSection  # noqa: E402

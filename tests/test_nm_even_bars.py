@@ -12,8 +12,8 @@ import pandas as pd
 from hypothesis import given
 from hypothesis import strategies as st
 
-from xlcore import nm
 from xlcore.checks.axial import interaction, pier_bars, rect_sections
+from xlcore.mechanics import nm
 
 
 def piers(Lw, tw, fc, dia, spacing, layers):

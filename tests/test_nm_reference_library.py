@@ -5,9 +5,9 @@ pier, bars at the same places, AS 3600 stress block (Cl 8.1.3) and phi (Table 2.
 import numpy as np
 import pytest
 
-from xlcore import nm
 from xlcore.checks.axial import interaction, pier_bars
 from xlcore.codes import as3600 as a
+from xlcore.mechanics import nm
 
 cp = pytest.importorskip("concreteproperties")
 from concreteproperties.concrete_section import ConcreteSection  # noqa: E402

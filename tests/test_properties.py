@@ -11,10 +11,11 @@ import pandas as pd
 from hypothesis import assume, given
 from hypothesis import strategies as st
 
-from xlcore import distribution, pipeline, results, stiffness
+from xlcore import distribution, pipeline, results
 from xlcore.checks.axial import interaction, rect_sections
 from xlcore.codes import as3600
 from xlcore.diagnostics import Findings
+from xlcore.mechanics import stiffness
 from xlcore.model import Building, Opening, Settings, Storey
 
 grades = st.sampled_from(as3600.STANDARD_GRADES)

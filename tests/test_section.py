@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 from shapely.ops import unary_union
 
-from xlcore import section
+from xlcore.mechanics import section
 
 sp = pytest.importorskip("sectionproperties.pre.geometry")
 from sectionproperties.analysis.section import Section  # noqa: E402

@@ -34,8 +34,9 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from xlcore import diaphragm, distribution
+from xlcore import distribution
 from xlcore.checks import plain
+from xlcore.mechanics import diaphragm
 
 ACTION_KEYS = ["row", "storey", "combination", "core", "n", "vx", "vy", "mx", "my", "t", "x_v", "y_v", "acc"]
 

@@ -159,8 +159,9 @@ def end_zones() -> list[dict]:
     zones facing each other keep the clear gap between their innermost bars). Walls,
     storeys and edges come from `walls()`, `openings()` and `storeys()`, so the function
     follows any change to those."""
-    from xlcore import bars, geometry
+    from xlcore import geometry
     from xlcore.codes import as3600
+    from xlcore.mechanics import bars
     from xlcore.model import Opening, Storey, WallRun
 
     st = [Storey(index=i, **s) for i, s in enumerate(storeys())]
@@ -258,7 +259,8 @@ def member_actions(core_rows: list[dict]) -> list[dict]:
     accidental eccentricity, as an analysis might report them."""
     import pandas as pd
 
-    from xlcore import cores, geometry, stiffness
+    from xlcore import cores, geometry
+    from xlcore.mechanics import stiffness
     from xlcore.model import Opening, Storey, WallRun
 
     st = [Storey(index=i, **s) for i, s in enumerate(storeys())]

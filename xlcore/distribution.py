@@ -12,8 +12,8 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from xlcore import diaphragm, section
-from xlcore.stiffness import pier_stiffness, with_stiffness  # noqa: F401  (part of this API)
+from xlcore.mechanics import diaphragm, section
+from xlcore.mechanics.stiffness import pier_stiffness, with_stiffness  # noqa: F401  (part of this API)
 
 COMPOSITE = "composite section"
 FROM_SHEAR = "pier moments from shear"

@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, bars, cores, distribution, geometry, results, stiffness
+from xlcore import CAUTION, __version__, cores, distribution, geometry, results
 from xlcore.checks import plain
 from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
@@ -23,6 +23,7 @@ from xlcore.checks.lintels import check_lintels
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
+from xlcore.mechanics import bars, stiffness
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
 from xlcore.results import ResultSheet

@@ -11,11 +11,12 @@ from collections import defaultdict
 import numpy as np
 import pandas as pd
 
-from xlcore import bars, costs, diaphragm, geometry, layout
+from xlcore import costs, geometry, layout
 from xlcore.codes import as3600
 from xlcore.codes.as3600 import STANDARD_GRADES
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
+from xlcore.mechanics import bars, diaphragm
 from xlcore.model import Building, EndZone, Opening, Settings, Storey, WallRun
 from xlcore.workbook.reader import ERROR_VALUES, RawSheet, RawWorkbook
 

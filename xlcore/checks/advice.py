@@ -15,12 +15,13 @@ import itertools
 import numpy as np
 import pandas as pd
 
-from xlcore import bars, costs, geometry
+from xlcore import costs, geometry
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import as3600
+from xlcore.mechanics import bars
 from xlcore.model import Settings
 
 H_DIAS = (10.0, 12.0, 16.0, 20.0)

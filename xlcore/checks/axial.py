@@ -6,10 +6,10 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import bars, nm
 from xlcore.checks import once_per, per_pier, plain
 from xlcore.codes import as3600
 from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
+from xlcore.mechanics import bars, nm
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
 

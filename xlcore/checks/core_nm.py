@@ -6,11 +6,11 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import nm_core
 from xlcore.checks.axial import pier_bars
 from xlcore.codes import as3600
 from xlcore.distribution import by_storey
 from xlcore.geometry import ZONE_COLUMNS
+from xlcore.mechanics import nm_core
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 

@@ -8,10 +8,10 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import bars, section
 from xlcore.checks import plain
 from xlcore.codes import as3600
 from xlcore.distribution import StoreyPlan, by_storey, stack
+from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 

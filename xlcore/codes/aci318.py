@@ -298,8 +298,8 @@ STRESS_INTENSITY = 0.85
 
 def stress_block(fc):
     """(intensity, depth ratio) of the rectangular block, 22.2.2.4.1 and Table 22.2.2.4.3:
-    0.85 f'c over beta1 c. The pair is what xlcore.nm (`Rect`, `EvenRect`: alpha2, gamma) and
-    xlcore.nm_core (`block`) take, with EPS_CU and ES."""
+    0.85 f'c over beta1 c. The pair is what xlcore.mechanics.nm (`Rect`, `EvenRect`: alpha2, gamma) and
+    xlcore.mechanics.nm_core (`block`) take, with EPS_CU and ES."""
     b = beta1(fc)
     return np.full(b.shape, STRESS_INTENSITY), b
 
@@ -350,7 +350,7 @@ def design_axial_flexure(pn, mn, c, dt, fy, po, spiral=False, Es=ES, eps_cu=EPS_
     phi by the net tensile strain (Table 21.2.2); phi Pn not above phi Pn,max (Table 22.4.2.1):
     the design diagram is cut horizontally at phi 0.80 Po (0.85 with spirals), the moment kept.
     Compression positive; `po` from `nominal_axial_strength`. (Nominal points come from
-    xlcore.nm with `stress_block`.)"""
+    xlcore.mechanics.nm with `stress_block`.)"""
     phi = phi_axial_flexure(net_tensile_strain(c, dt, eps_cu), fy, Es, spiral)
     cap = phi * max_axial_strength(po, spiral)
     return phi, np.minimum(phi * _a(pn), cap), phi * _a(mn)

@@ -12,7 +12,7 @@ from matplotlib.axes import Axes
 from matplotlib.patches import Polygon as Patch
 
 from xlcore import results
-from xlcore.section import rectangle
+from xlcore.mechanics.section import rectangle
 
 OVER, CLOSE_C, OK = "#b2182b", "#c48a00", "#1e5631"  # our own: over, close, comfortable
 HIGHLIGHT = ("#1f77b4", "#ff7f0e", "#2ca02c", "#9467bd", "#8c564b", "#e377c2")  # worst members
