@@ -14,12 +14,13 @@ cannot be used raises `xlcore.FileProblem`. The command line calls these same fu
 from __future__ import annotations
 
 import datetime as dt
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import pandas as pd
 
-from xlcore import CAUTION, geometry, pipeline, results, tables
+from xlcore import CAUTION, geometry, layout, pipeline, results, tables
 from xlcore.diagnostics import FileProblem, Finding, Findings, InputInvalid  # noqa: F401  (API)
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
@@ -108,6 +109,25 @@ class Run:
     def failing(self) -> int:
         return self.outcome.failing
 
+    @property
+    def comparison(self) -> pd.DataFrame | None:
+        """The standards compared (a second standard named by `compute(standards=...)` or the
+        'Also check to' setting), as its sheet shows it: per storey x pier x check the
+        utilisation, status, governing clause and worst combination under each standard and
+        their ratio; None without a second standard. The lines above it (worst under each,
+        where they differ most) are `comparison_facts`."""
+        cmp = self.outcome.comparison
+        if cmp is None:
+            return None
+        return self.tables[tables.short(results.COMPARISON_SHEET)]
+
+    @property
+    def comparison_facts(self) -> dict[str, object] | None:
+        """The comparison's findings as plain data: per side ('first', 'second') the standard,
+        its worst case and failing count; 'differ_most'; 'per_check' ratio ranges."""
+        cmp = self.outcome.comparison
+        return None if cmp is None else cmp.facts
+
     def worst(self) -> list[dict[str, object]]:
         """Each check's worst case: utilisation, status, where, how many rows over 1.0."""
         return tables.worst_cases(self.sheets)
@@ -142,16 +162,75 @@ class Run:
         return backup
 
 
+class UsageError(ValueError):
+    """A request that cannot be met as asked (e.g. an unknown standard's name): exit code 2."""
+
+
+def parse_standards(text: str | Sequence[str] | None) -> list[str] | None:
+    """Standards named by the user ('AS3600,ACI318', or a list of names) as `layout.STANDARDS`
+    names, short forms and any case accepted; None for None (the Project setting decides), []
+    for '' or 'none' (no comparison). UsageError naming the valid values otherwise."""
+    if text is None:
+        return None
+    items = text.split(",") if isinstance(text, str) else list(text)
+    items = [str(x).strip() for x in items if str(x).strip()]
+    if not items or (len(items) == 1 and items[0].lower() == "none"):
+        return []
+    out = []
+    for x in items:
+        name = layout.standard_named(x)
+        if name is None:
+            expected = layout.standard_forms()
+            raise UsageError(f"unknown design standard {x!r}; expected one or two of {expected}")
+        out.append(name)
+    if len(out) > 2:
+        raise UsageError(f"{len(out)} standards named ({', '.join(out)}); expected at most two")
+    return out
+
+
+def second_standard(building: Building, standards: Sequence[str] | None) -> str | None:
+    """The standard to compare the Project's with: from `standards` where given (one name: the
+    second; two: the Project's standard and the other, in either order; the same name twice
+    compares a standard with itself), else the 'Also check to' setting; None for none."""
+    own = building.settings.standard
+    if standards is None:
+        return building.settings.compare_standard or None
+    names = [layout.standard_named(x) or x for x in standards]
+    if not names:
+        return None
+    if len(names) == 1:
+        return names[0]
+    if own not in names:
+        raise UsageError(
+            f"the standards named ({', '.join(names)}) leave out the Project's design standard "
+            f"{own}: its result sheets are the ones written; name it and one other, or one other alone"
+        )
+    rest = list(names)
+    rest.remove(own)
+    return rest[0]
+
+
 def compute(
-    path: str | Path, now: dt.datetime | None = None, reporter: Reporter = SILENT, detail: str = "all"
+    path: str | Path,
+    now: dt.datetime | None = None,
+    reporter: Reporter = SILENT,
+    detail: str = "all",
+    standards: str | Sequence[str] | None = None,
 ) -> Run:
     """Read, validate and run every check; nothing is written until `Run.write`. `now` sets the
     time in the stamp (default: the present). A `detail` other than 'all' is for the command
     line's path (`compute_locked`), which cuts the tables (`pipeline.select_detail`) before
-    writing; `Run.write` writes every row."""
+    writing; `Run.write` writes every row. `standards` ('AS3600,ACI318', a list, '' for none;
+    default: the Project's 'Also check to' setting) adds a second standard: every check run to
+    it too, and the two compared (`Run.comparison`); see `second_standard`."""
     path = Path(path)
+    wanted = parse_standards(standards)
     building, findings = pipeline.load(path, reporter)
-    return Run(path, pipeline.compute(building, findings, now=now, reporter=reporter, detail=detail))
+    second = second_standard(building, wanted)
+    return Run(
+        path,
+        pipeline.compute_compared(building, findings, second, now=now, reporter=reporter, detail=detail),
+    )
 
 
 def compute_locked(
@@ -161,6 +240,7 @@ def compute_locked(
     overwrite: bool = False,
     reporter: Reporter = SILENT,
     detail: str = "auto",
+    standards: str | Sequence[str] | None = None,
 ) -> tuple[Run, Path | None]:
     """Compute and write under the workbook's own lock, taken before reading, so a second
     compute of the same file refuses before it works (what the command line does). `detail`
@@ -169,7 +249,7 @@ def compute_locked(
 
     with workbook_lock(target) if target.parent.is_dir() else nullcontext():
         check_target(path, target, force=force, overwrite=overwrite)
-        run = compute(path, reporter=reporter, detail=detail)
+        run = compute(path, reporter=reporter, detail=detail, standards=standards)
         pipeline.select_detail(run.outcome, detail, tables_folder(target).name)
         target.parent.mkdir(parents=True, exist_ok=True)
         backup = write_results(
@@ -216,6 +296,7 @@ __all__ = [
     "InputInvalid",
     "Inputs",
     "Run",
+    "UsageError",
     "check",
     "compute",
     "read_results",

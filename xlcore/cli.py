@@ -316,12 +316,28 @@ def compute(
             "workbook are in NAME.xlcore-tables/ beside it (Parquet).",
         ),
     ] = Detail.auto,
+    standards: Annotated[
+        str | None,
+        typer.Option(
+            "--standards",
+            help="Check to two standards and compare them, e.g. AS3600,ACI318 (names or short "
+            "forms, any case: " + ", ".join(layout.STANDARDS) + "): the result sheets are the "
+            "Project's design standard's, plus 'Results standards compared'. One name: compare "
+            "the Project's standard with it. 'none': no comparison. Default: the Project's "
+            "'Also check to' setting.",
+            show_default=False,
+        ),
+    ] = None,
     quiet: Quiet = False,
     as_json: Json = False,
 ) -> None:
     """Validate, run every check, and write the result sheets into the workbook."""
     target = output or path
     base = {"file": str(path), "output": str(target), "files_written": []}
+    try:
+        wanted = api.parse_standards(standards)
+    except api.UsageError as exc:
+        _usage(str(exc), as_json, base)
     if target.suffix.lower() != path.suffix.lower():
         _err(f"{target}: expected the same file type as {path.name} ({path.suffix})")
         if as_json:
@@ -333,10 +349,23 @@ def compute(
         if as_json:
             _emit(base | {"exit_code": EXIT_FILE, "error": f"{target}: no folder to write into"})
         raise
-    with _exits("nothing was written"), _json_exits(as_json, base), _progress(quiet or as_json) as reporter:
-        run, backup = api.compute_locked(
-            path, target, force=force, overwrite=overwrite, reporter=reporter, detail=detail.value
-        )
+    try:
+        with (
+            _exits("nothing was written"),
+            _json_exits(as_json, base),
+            _progress(quiet or as_json) as reporter,
+        ):
+            run, backup = api.compute_locked(
+                path,
+                target,
+                force=force,
+                overwrite=overwrite,
+                reporter=reporter,
+                detail=detail.value,
+                standards=wanted,
+            )
+    except api.UsageError as exc:
+        _usage(str(exc) + "; nothing was written", as_json, base)
     findings = run.findings
     _report(findings)
     outcome = run.outcome
@@ -366,6 +395,7 @@ def compute(
                 "sheets": [sh.name for sh in run.outcome.sheets],
                 "stamp": run.stamp,
             }
+            | _comparison_json(run)
         )
         if code:
             raise typer.Exit(code)
@@ -382,12 +412,39 @@ def compute(
         typer.echo(
             f"worst: {w.pier_id} at {w.storey}, {w.combination}, utilisation {w.util:.3f} ({w.clause})"
         )
+    cmp = outcome.comparison
+    if cmp is not None:
+        for label, text in cmp.lines[2:5]:  # worst under each standard, where they differ most
+            typer.echo(f"{label}: {text}")
     typer.echo(f"results written to sheets: {', '.join(sh.name for sh in outcome.sheets)}")
     if backup is not None:
         typer.echo(f"previous version of {target.name} kept as {backup}")
     typer.echo(f"note: {CAUTION}")
     if code:
         raise typer.Exit(code)
+
+
+def _usage(message: str, as_json: bool, base: dict) -> None:
+    """A usage problem (exit 2): the message on stderr, and with --json one object on stdout."""
+    _err(f"error   {message}")
+    if as_json:
+        _emit(base | {"exit_code": EXIT_FILE, "error": message})
+    raise typer.Exit(EXIT_FILE)
+
+
+def _comparison_json(run: api.Run) -> dict:
+    """`--json` with a second standard: the comparison's findings and every row, as plain data."""
+    facts = run.comparison_facts
+    if facts is None:
+        return {"comparison": None}
+    table = run.outcome.comparison.table
+    cols = ["storey", "pier_id", "check", "u_a", "status_a", "clause_a", "combination_a"]
+    cols += ["u_b", "status_b", "clause_b", "combination_b", "ratio", "note"]
+    rows = [
+        {k: (None if isinstance(v, float) and v != v else v) for k, v in zip(cols, r, strict=True)}
+        for r in table[cols].itertuples(index=False)
+    ]
+    return {"comparison": facts | {"columns": cols, "rows": rows}}
 
 
 @app.command()

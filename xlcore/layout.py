@@ -169,6 +169,19 @@ PROJECT = SettingsSheet(
             choices=STANDARDS,
         ),
         Setting(
+            "compare_standard",
+            "Also check to",
+            None,
+            Kind.CHOICE,
+            "",
+            "Blank: one standard. A second standard's name (or its short form, e.g. AS3600, ACI318): "
+            "every check is also run to it and a comparison sheet sets the two side by "
+            "side per storey, pier and check (utilisation under each, their ratio, the "
+            "governing clause under each). The other result sheets stay those of the design standard "
+            "above. `xlcore compute --standards` overrides this setting.",
+            choices=STANDARDS,
+        ),
+        Setting(
             "phi_shear",
             "phi for wall shear",
             None,
@@ -1091,6 +1104,27 @@ def markdown() -> str:
         for c in t.columns:
             out.append(f"| {c.header} | {'yes' if c.required else 'no'} | {c.expectation()} | {c.help} |")
     return "\n".join(out)
+
+
+def standard_named(text: object) -> str | None:
+    """The `STANDARDS` name that `text` means, or None: a full name or its short form
+    (the name before its edition, without spaces: 'AS3600', 'ACI318'), case and spacing
+    ignored. The command line's `--standards` and the 'Also check to' setting read names so."""
+    key = re.sub(r"\s+", "", str(text)).lower()
+    for name in STANDARDS:
+        if key in (re.sub(r"\s+", "", name).lower(), _short(name).lower()):
+            return name
+    return None
+
+
+def _short(name: str) -> str:
+    """'AS 3600:2018' -> 'AS3600', 'ACI 318-19' -> 'ACI318': the name before its edition."""
+    return re.sub(r"\s+", "", re.split(r"[:-]", name)[0])
+
+
+def standard_forms() -> str:
+    """The accepted names in words, for error messages: full names and short forms."""
+    return ", ".join(f"{n} ({_short(n)})" for n in STANDARDS)
 
 
 def rewrite_readme(path: str) -> None:

@@ -13,6 +13,7 @@ class Settings(BaseModel):
 
     project_name: str = ""
     standard: str = "AS 3600:2018"
+    compare_standard: str = ""  # 'Also check to': a second standard for the comparison sheet
     phi_shear: float | None = None
     shear_height: str = "overall wall height"
     pier_fixity: str = "fixed-fixed"

@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import CAUTION, __version__, cores, distribution, geometry, results
+from xlcore import CAUTION, __version__, comparison, cores, distribution, geometry, results
 from xlcore.checks import plain
 from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
@@ -44,6 +44,9 @@ class Outcome:
     plans: dict = field(default_factory=dict)  # core -> storey -> distribution.StoreyPlan
     # tables whose rows the workbook holds only in part (`select_detail`), every row: for Parquet
     full_tables: list[ResultSheet] = field(default_factory=list)
+    # per storey x pier x check the worst row (`pier_checks`): what two standards are compared on
+    checks: pd.DataFrame | None = None
+    comparison: comparison.Comparison | None = None  # `compute_compared` with a second standard
 
     @property
     def failing(self) -> int:
@@ -128,6 +131,7 @@ def compute(
         detailing = check_detailing(piers, acts, s, hwe)
         section14 = check_section14(piers, acts, s, hwe)
         summary = envelope(shear, piers, axial, detailing, section14)
+        checks = pier_checks(shear, axial, detailing, section14, summary)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())
     with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
@@ -462,7 +466,102 @@ def compute(
         )
     for sheet in sheets:
         sheet.rework = rework.get(sheet.name)
-    return Outcome(building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans)
+    return Outcome(
+        building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans, checks=checks
+    )
+
+
+def with_standard(building: Building, standard: str) -> Building:
+    """The same building and actions with another design standard in its settings."""
+    settings = building.settings.model_copy(update={"standard": standard})
+    return building.model_copy(update={"settings": settings})
+
+
+def compute_compared(
+    building: Building,
+    findings: Findings,
+    second: str | None = None,
+    now: dt.datetime | None = None,
+    reporter: Reporter = SILENT,
+    detail: str = "all",
+    limit: int | None = None,
+) -> Outcome:
+    """`compute` to the building's standard and, where a `second` standard is named, once more
+    to that one on the same building and actions, with the two joined on a sheet of their own
+    (`comparison.compare`) after the summary. The other sheets are the first standard's; the
+    second run is kept only for the comparison (its numbers without their working text)."""
+    now = now or dt.datetime.now(dt.UTC)
+    out = compute(building, findings, now=now, reporter=reporter, detail=detail, limit=limit)
+    if not second:
+        return out
+    first = building.settings.standard
+    reporter.begin(f"every check again to {second}")
+    other = compute(with_standard(building, second), findings, now=now, detail="governing")
+    reporter.end()
+    cmp = comparison.compare(out.checks, other.checks, (first, second))
+    out.comparison = cmp
+    stamp = _stamp(building, now)
+    out.sheets.insert(
+        1,
+        ResultSheet(
+            results.COMPARISON_SHEET,
+            f"{results.MARKER}: the building checked to {first} and to {second}, per storey x pier "
+            "x check (worst combination under each)",
+            results.comparison_columns(first, second),
+            cmp.table,
+            preamble=[*stamp, *cmp.lines, *_other_worst(out, other, first, second)],
+        ),
+    )
+    out.sheets[0].preamble.append(
+        ("Also checked to", f"{second}: {results.COMPARISON_SHEET} sets the two standards side by side")
+    )
+    return out
+
+
+def _other_worst(first_run: Outcome, second_run: Outcome, a: str, b: str) -> list[tuple[str, str]]:
+    """Lintels and whole cores, which are not per pier: the building's worst under each."""
+    lines = []
+    for label, name in (("lintel", results.LINTELS_SHEET), ("core axial + bending", results.CORE_NM_SHEET)):
+        got = []
+        for run, std in ((first_run, a), (second_run, b)):
+            sheet = next((s for s in run.sheets if s.name == name), None)
+            u = (
+                pd.to_numeric(sheet.table.get("util"), errors="coerce").to_numpy(dtype=float)
+                if sheet is not None and len(sheet.table) and "util" in sheet.table
+                else np.array([])
+            )
+            u = u[np.isfinite(u)]
+            got.append(f"{u.max():.3f} to {std}" if len(u) else f"not checked to {std}")
+        lines.append((f"Worst {label}", "; ".join(got)))
+    return lines
+
+
+def pier_checks(
+    shear: pd.DataFrame,
+    axial: pd.DataFrame,
+    detailing: pd.DataFrame,
+    section14: pd.DataFrame | None,
+    order: pd.DataFrame,
+) -> pd.DataFrame:
+    """Per storey x pier x check the worst row of each check the summary envelopes (shear,
+    axial + bending, Cl 11.5, detailing, Section 14: its pass / FAIL rules), in the order of
+    `order` (storey, pier_id) and of `UTIL_COLUMN`: storey, pier_id, check, key (the check's
+    summary column, the same name whatever the standard calls the check), util, status,
+    clause, combination, structural (False for the compliance checks)."""
+    cand = _candidates(shear, axial, detailing, section14)
+    cand = cand[np.isfinite(pd.to_numeric(cand.util, errors="coerce").to_numpy(dtype=float))]
+    if len(cand):
+        cand = cand.assign(util=cand.util.astype(float))
+        cand = cand.loc[cand.groupby(["storey", "pier_id", "check"], sort=False).util.idxmax()]
+    key = [UTIL_COLUMN.get(c, c) for c in cand.check]
+    cand = cand.assign(key=key, structural=~cand.check.isin(COMPLIANCE))
+    at = order[["storey", "pier_id"]].drop_duplicates().reset_index(drop=True)
+    rank = {c: i for i, c in enumerate(UTIL_COLUMN)}
+    out = at.assign(_pos=np.arange(len(at))).merge(cand, on=["storey", "pier_id"], how="inner")
+    out = out.assign(_check=out.check.map(rank).fillna(len(rank)))
+    out = out.sort_values(["_pos", "_check"], kind="stable").drop(columns=["_pos", "_check"])
+    cols = ["storey", "pier_id", "check", "key", "util", "status", "clause", "combination", "structural"]
+    return out[cols].reset_index(drop=True)
 
 
 DETAIL_MODES = ("auto", "governing", "all")

@@ -82,6 +82,7 @@ CORE_SHEET = RESULT_PREFIX + "core shares"
 CORES_SHEET = RESULT_PREFIX + "cores"
 SUMMARY_SHEET = RESULT_PREFIX + "summary"
 MEMBERS_SHEET = RESULT_PREFIX + "piers"
+COMPARISON_SHEET = RESULT_PREFIX + "standards compared"
 
 SHEAR_COLUMNS = [
     _c("storey", "Storey", width=8),
@@ -141,6 +142,27 @@ SUMMARY_COLUMNS = [
     _c("fix", "Cheapest fix (see the advice sheet)", width=30),
     _c("note", "Note", width=30),
 ]
+
+def comparison_columns(first: str, second: str) -> list[ResultColumn]:
+    """Columns of the standards-compared sheet (`comparison.compare`): each side's headers
+    name its standard, so neither reads as the other's. Keys end _a (first) and _b (second)."""
+    side = []
+    for s, name in (("a", first), ("b", second)):
+        side += [
+            _c(f"u_{s}", f"U {name}", None, "0.000", 10),
+            _c(f"status_{s}", f"Status {name}", width=9),
+            _c(f"clause_{s}", f"Governing clause {name}", width=26),
+            _c(f"combination_{s}", f"Worst combination {name}", width=13),
+        ]
+    return [
+        _c("storey", "Storey", width=8),
+        _c("pier_id", "Pier", width=9),
+        _c("check", "Check", width=19),
+        *side,
+        _c("ratio", f"Ratio U {second} / U {first}", None, "0.000", 12),
+        _c("note", "Note", width=30),
+    ]
+
 
 MEMBER_COLUMNS = [
     _c("storey", "Storey", width=8),

@@ -376,6 +376,12 @@ def _settings(sheet: RawSheet | None, f: Findings) -> Settings:
         if blank(v):
             continue
         value, problem = _cell(v, s.column)
+        if s.key == "compare_standard" and isinstance(v, str):  # short forms too (AS3600, ACI318)
+            named = layout.standard_named(v)
+            if named:
+                value, problem = named, None
+            else:
+                problem = f"found {show(v)}; expected blank or one of {layout.standard_forms()}"
         if problem is None and s.key == "concrete_prices":
             try:
                 costs.parse_concrete_prices(value)
