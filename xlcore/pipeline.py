@@ -89,8 +89,12 @@ def compute(
     reporter: Reporter = SILENT,
     detail: str = "all",
     limit: int | None = None,
+    whole_cores: bool = True,
 ) -> Outcome:
     """Run every check on a validated building and lay out the result sheets.
+
+    Without `whole_cores` the whole-core checks (core stress, core N-M) are left out, their
+    tables empty: `compute_compared`'s second run, which compares piers only.
 
     `detail` (see `select_detail`, which must then be called before writing): with `governing`,
     or `auto` above `limit` rows, the tables whose rows will be cut are made without their
@@ -138,7 +142,9 @@ def compute(
         advice = advise(piers, acts, summary, s)
         summary = with_cheapest_fix(summary, advice)
     stress = core_nm = None
-    if core is not None:
+    if core is not None and not whole_cores:
+        stress = core_nm = pd.DataFrame()
+    elif core is not None:
         with t.phase(
             "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
         ):
@@ -496,7 +502,9 @@ def compute_compared(
         return out
     first = building.settings.standard
     reporter.begin(f"every check again to {second}")
-    other = compute(with_standard(building, second), findings, now=now, detail="governing")
+    # numbers only (no working text), piers and lintels only: the whole-core checks take half
+    # the time of a run and are not compared per pier
+    other = compute(with_standard(building, second), findings, now=now, detail="governing", whole_cores=False)
     reporter.end()
     cmp = comparison.compare(out.checks, other.checks, (first, second))
     out.comparison = cmp
@@ -519,9 +527,9 @@ def compute_compared(
 
 
 def _other_worst(first_run: Outcome, second_run: Outcome, a: str, b: str) -> list[tuple[str, str]]:
-    """Lintels and whole cores, which are not per pier: the building's worst under each."""
+    """Lintels, which are not per pier: the building's worst under each; whole cores not compared."""
     lines = []
-    for label, name in (("lintel", results.LINTELS_SHEET), ("core axial + bending", results.CORE_NM_SHEET)):
+    for label, name in (("lintel", results.LINTELS_SHEET),):
         got = []
         for run, std in ((first_run, a), (second_run, b)):
             sheet = next((s for s in run.sheets if s.name == name), None)
@@ -533,6 +541,13 @@ def _other_worst(first_run: Outcome, second_run: Outcome, a: str, b: str) -> lis
             u = u[np.isfinite(u)]
             got.append(f"{u.max():.3f} to {std}" if len(u) else f"not checked to {std}")
         lines.append((f"Worst {label}", "; ".join(got)))
+    if any(s.name in (results.CORE_STRESS_SHEET, results.CORE_NM_SHEET) for s in first_run.sheets):
+        lines.append(
+            (
+                "Whole cores",
+                f"core stress and core axial + bending to {a} only (their sheets), not repeated to {b}",
+            )
+        )
     return lines
 
 

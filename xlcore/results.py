@@ -143,9 +143,12 @@ SUMMARY_COLUMNS = [
     _c("note", "Note", width=30),
 ]
 
+
 def comparison_columns(first: str, second: str) -> list[ResultColumn]:
     """Columns of the standards-compared sheet (`comparison.compare`): each side's headers
     name its standard, so neither reads as the other's. Keys end _a (first) and _b (second)."""
+    if first == second:  # a standard against itself: headers stay unique
+        first, second = f"{first} (first)", f"{second} (second)"
     side = []
     for s, name in (("a", first), ("b", second)):
         side += [
