@@ -125,7 +125,8 @@ def test_standard_against_itself_every_ratio_is_one(demo):
     assert len(set(titles)) == len(titles)  # the same standard twice: still unique headers
     lines = dict(sheet.preamble)
     assert lines["Differ most"].startswith("nowhere")
-    assert dict(out.sheets[0].preamble)["Also checked to"].startswith(building.settings.standard)
+    also = dict(out.sheets[0].preamble)[results.ALSO_CHECKED]
+    assert also == f"{building.settings.standard} (see {results.COMPARISON_SHEET})"
 
 
 def test_without_a_second_standard_nothing_is_added(demo):
@@ -307,3 +308,25 @@ def test_cli_without_comparison_json_says_none(demo_book, tmp_path):
     r = runner.invoke(app, ["compute", str(tmp_path / "b.xlsx"), "--standards", "none", "--json"])
     assert r.exit_code == 0, r.stderr
     assert json.loads(r.stdout)["comparison"] is None
+
+
+def test_report_has_the_comparison_of_the_workbook(demo_book):
+    """The setting blank, `compute --standards AS3600`, then `report`: the report re-runs the
+    same second standard (found in the summary's stamp line, since the setting names none) and
+    its 'Standards compared' section carries the workbook's comparison lines, as pypdf
+    extracts the PDF's text."""
+    import re
+
+    from pypdf import PdfReader
+
+    from xlcore.report import make_report
+
+    edit(demo_book, {(layout.PROJECT.name, _setting_cell("compare_standard")): None})
+    r = runner.invoke(app, ["compute", str(demo_book), "--standards", "AS3600", "--quiet"])
+    assert r.exit_code == 0, r.output
+    lines = xlcore.read_results(demo_book)[tables.short(results.COMPARISON_SHEET)].attrs["lines"]
+    rep = make_report(demo_book)
+    text = re.sub(r"\s+", "", "\n".join(p.extract_text() for p in PdfReader(str(rep.path)).pages))
+    assert "Standardscompared" in text
+    for label in (f"Worst to {AS}", "Differ most", "Ratio, in-plane shear"):
+        assert re.sub(r"\s+", "", f"{label} {lines[label]}") in text, label

@@ -520,9 +520,7 @@ def compute_compared(
             preamble=[*stamp, *cmp.lines, *_other_worst(out, other, first, second)],
         ),
     )
-    out.sheets[0].preamble.append(
-        ("Also checked to", f"{second}: {results.COMPARISON_SHEET} sets the two standards side by side")
-    )
+    out.sheets[0].preamble.append((results.ALSO_CHECKED, f"{second} (see {results.COMPARISON_SHEET})"))
     return out
 
 

@@ -16,6 +16,7 @@ PASS, FAIL, NOT_CHECKED, NOT_APPLICABLE = "pass", "FAIL", "not checked", "n/a"
 # detailing, not a failure) or not, and a requirement xlcore cannot verify (bars not described)
 REQUIRED, NOT_REQUIRED, CHECK = "required", "not required", "check"
 STAMP_HASH_LABEL = "Input hash (SHA-256)"  # stamp line `check` reads to tell stale results
+ALSO_CHECKED = "Also checked to"  # summary line naming the second standard; the report reads it
 
 
 @dataclass(frozen=True)

@@ -84,7 +84,8 @@ def make_report(
         )
     when = _stamp_time(stamp.get("Computed (UTC)"))
     reporter.begin("running the checks again for the report")
-    run = api.Run(path, api.pipeline.compute(inputs.building, inputs.findings, now=when))
+    second = _also_checked(stamp, inputs.building, stale)
+    run = api.Run(path, api.pipeline.compute_compared(inputs.building, inputs.findings, second, now=when))
     reporter.begin("drawing the report")
     from xlcore.report.build import build_pages  # matplotlib loads only when a report is made
 
@@ -92,6 +93,18 @@ def make_report(
     _save(pages, target, run)
     reporter.end()
     return Report(target, len(pages), stale)
+
+
+def _also_checked(stamp: dict[str, str], building, stale: bool) -> str | None:
+    """The second standard the results were computed with (the summary's 'Also checked to'
+    line: it may have come from `compute --standards`, not the setting); of stale results, the
+    Project setting as it is now."""
+    if stale:
+        return building.settings.compare_standard or None
+    text = stamp.get(results.ALSO_CHECKED)
+    if not text:
+        return None
+    return text.split(" (see ")[0].strip() or None
 
 
 def _stamp_time(text: str | None) -> dt.datetime | None:

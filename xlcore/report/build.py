@@ -48,6 +48,8 @@ def build_pages(run: Run, stamp: dict[str, str], stale: bool, why: list[str], wo
     flow = Flow()
     contents_at = _cover(flow, run, stamp, stale, why, workbook)
     _summary(flow, run)
+    if out.comparison is not None:
+        _comparison(flow, run, levels)
     for name, members in _cores(out.piers).items():
         _utilisation_pages(flow, sheets, checks, levels, name, members)
     _plans(flow, run)
@@ -206,6 +208,57 @@ def _summary(flow: Flow, run: Run) -> None:
             + f", none above U = {top:.3f}: every one is on the workbook's sheet 'Results summary'.",
             size=7.5,
         )
+
+
+MAX_COMPARED_ROWS = 30  # cases listed on the standards-compared page (where they differ most)
+
+
+def _comparison(flow: Flow, run: Run, levels: dict[str, float]) -> None:
+    """The two standards side by side: the findings, the ratio up the height per check, and
+    the cases where they differ most (every case is on the workbook's comparison sheet)."""
+    cmp = run.outcome.comparison
+    a, b = cmp.first, cmp.second
+    flow.section("Standards compared")
+    flow.lines(cmp.lines, size=7.5)
+    t = cmp.table[np.isfinite(cmp.table.ratio.to_numpy(dtype=float))]
+    if len(t):
+        ax = flow.axes(0.3)
+        fg.ratio_up_height(ax, t, levels, f"U {b} / U {a} per storey x pier x check")
+    with np.errstate(divide="ignore", invalid="ignore"):
+        spread = np.abs(np.log(t.ratio.to_numpy(dtype=float)))
+    if not (spread > 0).any():
+        flow.para(
+            f"The two agree on every storey x pier x check (ratio 1). Every case: the "
+            f"workbook's sheet '{results.COMPARISON_SHEET}'.",
+            size=7.5,
+        )
+        return
+    flow.heading(f"Where the two differ most (largest |ln ratio|, up to {MAX_COMPARED_ROWS})")
+    flow.para(f"(1) {a}, (2) {b}; ratio = U (2) / U (1)", size=7.5)
+    shown = t.iloc[np.argsort(-spread, kind="stable")[:MAX_COMPARED_ROWS]]
+    flow.table(
+        ["Storey", "Pier", "Check", "U (1)", "Clause (1)", "U (2)", "Clause (2)", "Ratio"],
+        [
+            [
+                r.storey,
+                r.pier_id,
+                r.check,
+                f"{r.u_a:.3f}",
+                r.clause_a,
+                f"{r.u_b:.3f}",
+                r.clause_b,
+                f"{r.ratio:.3f}",
+            ]
+            for r in shown.itertuples(index=False)
+        ],
+        [0.06, 0.08, 0.16, 0.07, 0.23, 0.07, 0.23, 0.07],
+        size=6.0,
+        colours=[_colour(max(u, v)) for u, v in zip(shown.u_a, shown.u_b, strict=True)],
+    )
+    flow.para(
+        f"Every case: the workbook's sheet '{results.COMPARISON_SHEET}'. The other pages are to {a}.",
+        size=7.5,
+    )
 
 
 def _colour(u) -> str:

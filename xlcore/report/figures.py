@@ -68,6 +68,21 @@ def utilisation_up_height(ax: Axes, df: pd.DataFrame, member: str | None, util: 
         )
 
 
+def ratio_up_height(ax: Axes, df: pd.DataFrame, levels: dict[str, float], title: str) -> None:
+    """The comparison's ratio (second / first standard) against floor level, one marker per
+    storey x pier, a colour per check; 1.0 marked (the standards agree)."""
+    for k, (check, g) in enumerate(df.groupby("check", sort=False)):
+        y = g.storey.map(levels).to_numpy(dtype=float)
+        ax.scatter(g.ratio, y, s=9, color=HIGHLIGHT[k % len(HIGHLIGHT)], label=check, alpha=0.8)
+    ax.axvline(1.0, color="black", lw=0.8, ls="--")
+    ax.set_xlabel("ratio of utilisations (second / first standard)", fontsize=7.5)
+    ax.set_ylabel("floor level [m]", fontsize=7.5)
+    ax.set_title(title, fontsize=8.5, loc="left")
+    ax.tick_params(labelsize=7)
+    ax.legend(fontsize=6.5, loc="best", frameon=False)
+    ax.grid(alpha=0.3)
+
+
 def storey_plan(
     ax: Axes,
     piers: pd.DataFrame,
