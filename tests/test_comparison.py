@@ -330,3 +330,19 @@ def test_report_has_the_comparison_of_the_workbook(demo_book):
     assert "Standardscompared" in text
     for label in (f"Worst to {AS}", "Differ most", "Ratio, in-plane shear"):
         assert re.sub(r"\s+", "", f"{label} {lines[label]}") in text, label
+
+
+def test_governing_rows_of_the_comparison(demo):
+    """`--detail governing` keeps, per storey x pier, the rows with the largest utilisation under
+    each standard and the largest ratio (checked here against a pandas groupby), plus failing
+    rows; the full table goes to Parquet like the others."""
+    building, findings = demo
+    out = pipeline.compute_compared(building, findings, building.settings.standard, detail="governing")
+    full = out.comparison.table
+    pipeline.select_detail(out, "governing")
+    kept = next(sh for sh in out.sheets if sh.name == results.COMPARISON_SHEET).table
+    assert results.COMPARISON_SHEET in [t.name for t in out.full_tables]
+    assert len(kept) < len(full)
+    worst = full.loc[full.groupby(["storey", "pier_id"], sort=False).u_a.idxmax()]
+    got = set(zip(kept.storey, kept.pier_id, kept.key, strict=True))
+    assert set(zip(worst.storey, worst.pier_id, worst.key, strict=True)) <= got

@@ -322,7 +322,7 @@ def compute(
             "--standards",
             help="Check to two standards and compare them, e.g. AS3600,ACI318 (names or short "
             "forms, any case: " + ", ".join(layout.STANDARDS) + "): the result sheets are the "
-            "Project's design standard's, plus 'Results standards compared'. One name: compare "
+            f"Project's design standard's, plus '{results.COMPARISON_SHEET}'. One name: compare "
             "the Project's standard with it. 'none': no comparison. Default: the Project's "
             "'Also check to' setting.",
             show_default=False,

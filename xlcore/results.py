@@ -473,6 +473,13 @@ GOVERNING: dict[str, Governing] = {
         meaning="per storey x wall the combination with the largest tension-steel utilisation and "
         "the one with the largest peak compression / limit",
     ),
+    COMPARISON_SHEET: Governing(
+        ("storey", "pier_id"),
+        ("u_a", "u_b", "ratio"),
+        failing=("status_a", "status_b"),
+        meaning="per storey x pier the check with the largest utilisation under each standard and "
+        "the one with the largest ratio",
+    ),
     CORE_NM_SHEET: Governing(
         ("storey", "core"),
         ("util",),
