@@ -414,8 +414,9 @@ def compute(
         )
     cmp = outcome.comparison
     if cmp is not None:
-        for label, text in cmp.lines[2:5]:  # worst under each standard, where they differ most
-            typer.echo(f"{label}: {text}")
+        for label, text in cmp.lines:  # worst under each standard, where they differ most
+            if label.startswith("Worst to ") or label == "Differ most":
+                typer.echo(f"{label}: {text}")
     typer.echo(f"results written to sheets: {', '.join(sh.name for sh in outcome.sheets)}")
     if backup is not None:
         typer.echo(f"previous version of {target.name} kept as {backup}")

@@ -173,6 +173,13 @@ def _lines(t: pd.DataFrame, names: tuple[str, str], f: dict[str, object]) -> lis
             "each (detailing and Section 14: the worst rule), so the two may govern under "
             "different combinations or clauses; settings named for one standard apply to it only",
         ),
+        (
+            "Actions",
+            "the same factored combinations for both (the workbook's, made to one loading "
+            "standard); each design standard's phi is calibrated with its own loading standard's "
+            "load factors, so a ratio compares the two standards' member rules under one set of "
+            "actions, not two complete designs (docs/engineering-basis.md)",
+        ),
     ]
     for which in ("first", "second"):
         side = f[which]
