@@ -346,3 +346,10 @@ def test_governing_rows_of_the_comparison(demo):
     worst = full.loc[full.groupby(["storey", "pier_id"], sort=False).u_a.idxmax()]
     got = set(zip(kept.storey, kept.pier_id, kept.key, strict=True))
     assert set(zip(worst.storey, worst.pier_id, worst.key, strict=True)) <= got
+
+
+def test_check_names_the_second_standard(demo_book):
+    r = runner.invoke(app, ["check", str(demo_book)])
+    assert r.exit_code == 0, r.output
+    s = xlcore.check(demo_book).building.settings
+    assert f"standard      {s.standard} (also checked to {s.compare_standard}" in r.output

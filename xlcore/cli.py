@@ -242,6 +242,9 @@ def check(path: Workbook, quiet: Quiet = False, as_json: Json = False) -> None:
     acts = building.member_actions
     per_storey = geom.piers.groupby("storey", sort=False).size()
     typer.echo(f"{path.name}: valid")
+    s = building.settings
+    also = f" (also checked to {s.compare_standard}: compute runs twice)" if s.compare_standard else ""
+    typer.echo(f"  standard      {s.standard}{also}")
     typer.echo(
         f"  storeys       {len(building.storeys)} ({building.storeys[0].name} to {building.storeys[-1].name})"
     )
