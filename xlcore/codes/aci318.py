@@ -590,6 +590,21 @@ class ACI318:
     """ACI 318-19 (SI) as a `codes.base.Standard`. Walls are taken as braced by the floors."""
 
     name = NAME
+    min_eccentricity = 0.0  # Table 22.4.2.1: the 0.80 Po cap stands for accidental eccentricity
+    symbols = {
+        "Nu": "Pn",
+        "Mu": "Mn",
+        "squash": "Po",
+        "tension": "Pnt",
+        "top": "phiPn,max",
+        "top_working": "phiPn,max = {phi:.2f} x 0.80 x {squash:.1f} = {top:.1f} kN (Table 22.4.2.1)",
+        "design_moment": "Table 22.4.2.1",
+        "clause_tension": "ACI 318-19 Table 21.2.2 (tension-controlled), 22.4.3.1",
+        "clause_squash": "ACI 318-19 22.4.2, Table 22.4.2.1 (0.80 Po), Table 21.2.2",
+        "clause_curve": "ACI 318-19 22.2 / 22.4, Table 21.2.2 (phi by eps_t)",
+        "clause_core": "ACI 318-19 22.2 / 22.4, Tables 21.2.2 and 22.4.2.1",
+        "simplified": "11.5.3",
+    }
     Es = ES
     eps_cu = EPS_CU
     phi_wall_shear = PHI_SHEAR
@@ -626,6 +641,50 @@ class ACI318:
     def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw):
         return wall_rho_t_required(v_star, phi, fc, fy, Lw, tw, hw_lw)
 
+    def wall_shear_text(self, cap, fc, fy, Lw, tw, hw_lw):
+        from xlcore.codes.base import num
+
+        kn = 1e-3
+        cols = [_a(c).tolist() for c in (
+            fc, fy, Lw, tw, hw_lw, cap.detail["alpha_c"], cap.concrete * kn, cap.steel * kn,
+            cap.limit * kn, cap.phi, cap.design * kn, cap.governs)]  # fmt: skip
+        first, second = [], []
+        for f, y, lw, t, r, ac, vc, vs, vm, p, pv, g in zip(*cols, strict=True):
+            if r <= RATIO_SQUAT:
+                why = f"hw/lw {r:.3f} <= {RATIO_SQUAT}"
+            elif r >= RATIO_SLENDER:
+                why = f"hw/lw {r:.3f} >= {RATIO_SLENDER}"
+            else:
+                why = f"hw/lw {r:.3f}: linear between 0.25 at 1.5 and 0.17 at 2.0"
+            first.append(
+                f"alpha_c = {ac:.3f} ({why}); Vc = alpha_c lambda sqrt(f'c) Acv = {ac:.3f} x 1.0 x "
+                f"sqrt({f:g}) x {lw:.0f} x {t:.0f} = {num(vc)} kN (11.5.4.3, lambda 1.0 normal weight)"
+            )
+            rho = vs / (min(y, FYT_MAX_SHEAR) * lw * t * kn) if lw * t > 0 else 0.0
+            limit = "0.83 sqrt(f'c) Acw (18.10.4.4)" if g == GOV_SEGMENT_LIMIT else "0.66 sqrt(f'c) Acv (11.5.4.2)"
+            coef = 0.83 if g == GOV_SEGMENT_LIMIT else 0.66
+            second.append(
+                f"Vs = rho_t fyt Acv = {rho:.5f} x {min(y, FYT_MAX_SHEAR):g} x {lw:.0f} x {t:.0f} = {num(vs)} kN "
+                f"(fyt <= {FYT_MAX_SHEAR:g} MPa, 20.2.2.4); Vn <= {limit} = {coef} x sqrt({f:g}) x "
+                f"{lw:.0f} x {t:.0f} = {num(vm)} kN; phiVn = {p:.2f} x min({num(vc)} + {num(vs)}, {num(vm)}) "
+                f"= {num(pv)} kN"
+            )
+        return first, second
+
+    def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap):
+        out = []
+        for u, need, over in zip(*(_a(c).tolist() for c in (util, rho_req, capped)), strict=True):
+            if u <= 1.0:
+                out.append("")
+            elif over:
+                out.append(
+                    "Vu/phi exceeds 0.66 sqrt(f'c) Acv (ACI 318-19 11.5.4.2): only a thicker wall or "
+                    "a higher f'c helps"
+                )
+            else:
+                out.append(f"raise horizontal steel to rho_t >= {need:.5f} (11.5.4.3)")
+        return out
+
     # ---- axial load and bending
     def stress_block(self, fc):
         return stress_block(fc)
@@ -648,6 +707,16 @@ class ACI318:
         # a compression-controlled phi other than 0.65 (a setting): same interpolation
         frac = (phi - PHI_COMPRESSION_TIED) / (PHI_TENSION_CONTROLLED - PHI_COMPRESSION_TIED)
         return phi0 + (PHI_TENSION_CONTROLLED - phi0) * frac
+
+    def phi_axial_bending_text(self, state):
+        eps_t = net_tensile_strain(state.dn, state.d0, state.eps_cu)
+        ety = yield_strain(state.fy, state.Es)
+        shape = np.shape(eps_t)
+        return [
+            f"eps_t {e:.5f}, eps_ty {y:.5f}: "
+            + ("compression-controlled" if e <= y else "tension-controlled" if e >= y + 0.003 else "transition")
+            for e, y in zip(eps_t.tolist(), np.broadcast_to(ety, shape).tolist(), strict=True)
+        ]
 
     def design_moment(self, m_star, n_star, D):
         return np.abs(_a(m_star))

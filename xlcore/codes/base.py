@@ -60,6 +60,31 @@ CLAUSE_KEYS = (
 )
 """Every quantity a standard must name the clause of (`Standard.clause`)."""
 
+SYMBOL_KEYS = (
+    "Nu",  # nominal axial strength on the curve
+    "Mu",  # nominal moment on the curve
+    "squash",  # nominal strength in compression without bending
+    "tension",  # nominal tension capacity
+    "top",  # the design upper limit on N* (AS phi Nuo; ACI phi Pn,max)
+    "top_working",  # how `top` is worked out, with {phi}, {squash}, {top} to fill
+    "design_moment",  # short clause of the least design moment
+    "clause_tension",  # clause column of a row whose ray meets the tension side
+    "clause_squash",  # ... the line above decompression
+    "clause_curve",  # ... the strain-compatibility curve
+    "clause_core",  # clause column of the core N-M check
+    "simplified",  # short clause of the simplified method
+)
+"""Names every standard gives in `Standard.symbols`."""
+
+
+def num(x: float, fmt: str = ".1f") -> str:
+    """`x` formatted, without the sign of a value that rounds to zero ("-0.0" reads as a
+    defect in working text)."""
+    out = format(x, fmt)
+    if out.startswith("-") and float(out) == 0.0:
+        return out[1:]
+    return out
+
 
 @dataclass(frozen=True)
 class ShearCapacity:
@@ -82,6 +107,16 @@ class ShearCapacity:
     def clauses(self) -> list[str]:
         """The governing clause of every row, as text."""
         return [self.governing_text[int(g)] for g in np.ravel(self.governs)]
+
+    def take(self, rows) -> ShearCapacity:
+        """The same quantities on `rows` only (the working text is made once per pier)."""
+        pick = lambda v: np.asarray(v)[rows]  # noqa: E731
+        return ShearCapacity(
+            *(pick(getattr(self, k)) for k in ("area", "concrete", "steel", "limit", "nominal", "phi",
+                                                "design", "governs")),
+            governing_text=self.governing_text,
+            detail={k: pick(v) for k, v in self.detail.items()},
+        )
 
 
 @dataclass(frozen=True)
@@ -142,6 +177,15 @@ class Standard(Protocol):
         """Least shear-steel ratio to carry V*, and where no steel suffices (the upper limit)."""
         ...
 
+    def wall_shear_text(self, cap: ShearCapacity, fc, fy, Lw, tw, hw_lw) -> tuple[list[str], list[str]]:
+        """Working text of each row (kN): how the concrete part was found, and how the steel
+        part, the upper limit and the design capacity were; each standard its own symbols."""
+        ...
+
+    def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap: ShearCapacity) -> list[str]:
+        """What would make each failing row pass ('' where it passes), in the standard's terms."""
+        ...
+
     # ---- axial load and bending
     def stress_block(self, fc) -> tuple[np.ndarray, np.ndarray]:
         """(intensity, depth ratio) of the rectangular block: nm.Rect's alpha2 and gamma."""
@@ -162,6 +206,17 @@ class Standard(Protocol):
     def phi_axial_bending(self, state: SectionState, phi0=None) -> np.ndarray:
         """phi for a section at nominal strength described by `state`."""
         ...
+
+    def phi_axial_bending_text(self, state: SectionState) -> list[str]:
+        """What phi of each row was read from (AS 3600: kuo and Nub; ACI 318: eps_t), for the
+        working text."""
+        ...
+
+    symbols: Mapping[str, str]
+    """The standard's names in working text and clause columns: keys in `SYMBOL_KEYS`."""
+
+    min_eccentricity: float
+    """Least eccentricity of N* in compression as a fraction of the depth (0: none)."""
 
     def design_moment(self, m_star, n_star, D) -> np.ndarray:
         """|M*| raised to any minimum (eccentricity) the standard sets; N, N mm, mm."""
