@@ -661,10 +661,12 @@ class ACI318:
                 f"sqrt({f:g}) x {lw:.0f} x {t:.0f} = {num(vc)} kN (11.5.4.3, lambda 1.0 normal weight)"
             )
             rho = vs / (min(y, FYT_MAX_SHEAR) * lw * t * kn) if lw * t > 0 else 0.0
-            limit = "0.83 sqrt(f'c) Acw (18.10.4.4)" if g == GOV_SEGMENT_LIMIT else "0.66 sqrt(f'c) Acv (11.5.4.2)"
-            coef = 0.83 if g == GOV_SEGMENT_LIMIT else 0.66
+            seg = g == GOV_SEGMENT_LIMIT
+            limit = "0.83 sqrt(f'c) Acw (18.10.4.4)" if seg else "0.66 sqrt(f'c) Acv (11.5.4.2)"
+            coef = 0.83 if seg else 0.66
+            fyt = min(y, FYT_MAX_SHEAR)
             second.append(
-                f"Vs = rho_t fyt Acv = {rho:.5f} x {min(y, FYT_MAX_SHEAR):g} x {lw:.0f} x {t:.0f} = {num(vs)} kN "
+                f"Vs = rho_t fyt Acv = {rho:.5f} x {fyt:g} x {lw:.0f} x {t:.0f} = {num(vs)} kN "
                 f"(fyt <= {FYT_MAX_SHEAR:g} MPa, 20.2.2.4); Vn <= {limit} = {coef} x sqrt({f:g}) x "
                 f"{lw:.0f} x {t:.0f} = {num(vm)} kN; phiVn = {p:.2f} x min({num(vc)} + {num(vs)}, {num(vm)}) "
                 f"= {num(pv)} kN"
@@ -714,7 +716,8 @@ class ACI318:
         shape = np.shape(eps_t)
         return [
             f"eps_t {e:.5f}, eps_ty {y:.5f}: "
-            + ("compression-controlled" if e <= y else "tension-controlled" if e >= y + 0.003 else "transition")
+            + ("compression-controlled" if e <= y else "tension-controlled" if e >= y + 0.003
+               else "transition")
             for e, y in zip(eps_t.tolist(), np.broadcast_to(ety, shape).tolist(), strict=True)
         ]
 
