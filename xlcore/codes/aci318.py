@@ -732,6 +732,29 @@ class ACI318:
         p = PHI_SIMPLIFIED if phi is None else phi
         return p * simplified_axial_strength(fc, _a(tw) * _a(length), hwe, tw)
 
+    def simplified_eccentricities(self, e, tw, hwe):
+        e = np.abs(_a(e))
+        return e, np.full(e.shape, np.nan)  # no added slenderness eccentricity: Eq. (11.5.3.1)
+
+    def simplified_slenderness_limit(self, layers):
+        return np.full(np.shape(layers), np.inf)  # 11.5.3 sets none (Eq. (11.5.3.1) falls to 0)
+
+    def simplified_text(self, w, phi):
+        cols = [_a(c).tolist() for c in (w.k, w.Hc, w.hwe, w.e, w.tw, w.fc, w.Lw, w.cap)]
+        return [
+            (
+                f"k lc = {kk:.3f} x {h:.0f} = {he:.0f} mm (Table 11.5.3.2); e = {ee:.1f} mm <= h/6; "
+                f"phiPn = {phi:.2f} x 0.55 x {fc:g} x {t:.0f} x {lw:.0f} "
+                f"x (1 - ({he:.0f} / (32 x {t:.0f}))^2) "
+                f"= {c:.1f} kN (11.5.3.1)"
+            )
+            if ok
+            else f"not applicable: {why}"
+            for (kk, h, he, ee, t, fc, lw, c), ok, why in zip(
+                zip(*cols, strict=True), w.ok.tolist(), w.why.tolist(), strict=True
+            )
+        ]
+
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress):
         n = _a(n_star)
         return {

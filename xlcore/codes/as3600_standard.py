@@ -180,12 +180,33 @@ class AS3600:
             fc, tw, ecc, ea, length, self.phi_simplified if phi is None else phi
         )
 
+    def simplified_eccentricities(self, e, tw, hwe):
+        tw = np.asarray(tw, dtype=float)
+        return as3600.simplified_eccentricity(e, tw), as3600.additional_eccentricity(hwe, tw)
+
+    def simplified_slenderness_limit(self, layers):
+        return np.where(np.asarray(layers) >= 2, 30.0, 20.0)
+
+    def simplified_text(self, w, phi):
+        cols = [np.asarray(c).tolist() for c in (w.k, w.Hc, w.hwe, w.e, w.tw, w.ea, w.fc, w.Lw, w.cap, w.ok)]
+        return [
+            (
+                f"Hwe = {kk:.3f} x {h:.0f} = {he:.0f} mm; e = {ee:.1f} mm; "
+                f"ea = {he:.0f}^2 / (2500 x {t:.0f}) = {a:.1f} mm; "
+                f"phiNu = {phi:.2f} x ({t:.0f} - 1.2 x {ee:.1f} - 2 x {a:.1f}) x 0.6 x {fc:g} x {lw:.0f} "
+                f"= {c:.1f} kN"
+            )
+            if ok
+            else f"not applicable: {why}"
+            for kk, h, he, ee, t, a, fc, lw, c, ok, why in zip(*cols, w.why.tolist(), strict=True)
+        ]
+
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress):
         # the conditions of checks/axial.py _simplified, in the same order and with the same limits
         n = np.asarray(n_star, dtype=float)
         tw = np.asarray(tw, dtype=float)
         layers = np.asarray(layers)
-        limit = np.where(layers >= 2, 30.0, 20.0)
+        limit = self.simplified_slenderness_limit(layers)
         ecc = as3600.simplified_eccentricity(e, tw)
         return {
             "not in compression": n <= 0,

@@ -231,6 +231,20 @@ class Standard(Protocol):
         """Design axial capacity of a wall by the standard's simplified method [N]."""
         ...
 
+    def simplified_eccentricities(self, e, tw, hwe) -> tuple[np.ndarray, np.ndarray]:
+        """(eccentricity used, added slenderness eccentricity) of the simplified method [mm]
+        from the eccentricity of the load `e`; NaN where the standard adds none."""
+        ...
+
+    def simplified_slenderness_limit(self, layers) -> np.ndarray:
+        """Largest effective height / thickness the simplified method admits (inf: none)."""
+        ...
+
+    def simplified_text(self, w, phi) -> list[str]:
+        """Working text of the simplified capacity per row of `w` (columns k, Hc, hwe, e, ea, tw,
+        fc, Lw, cap [kN], ok, why), with phi; 'not applicable: why' where ok is False."""
+        ...
+
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress) -> dict[str, np.ndarray]:
         """Each condition that rules the simplified method out, as a row mask, by name."""
         ...
