@@ -586,6 +586,7 @@ def _simplified(
     df["n_end_lo"] = lo * Lw * 1e-3
     df["util_s"] = np.where(applies, df.n_end / np.where(cap > 0, cap, np.nan), np.nan)
     df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
+    df["clause_s"] = std.symbols["simplified_clause"]
     if not working:
         return df
     reasons = [""] * len(df)

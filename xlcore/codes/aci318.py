@@ -591,6 +591,7 @@ class ACI318:
 
     name = NAME
     min_eccentricity = 0.0  # Table 22.4.2.1: the 0.80 Po cap stands for accidental eccentricity
+    max_compression_ratio = PN_MAX_TIED  # phi Pn,max = phi 0.80 Po, Table 22.4.2.1 (ties)
     symbols = {
         "Nu": "Pn",
         "Mu": "Mn",
@@ -604,6 +605,15 @@ class ACI318:
         "clause_curve": "ACI 318-19 22.2 / 22.4, Table 21.2.2 (phi by eps_t)",
         "clause_core": "ACI 318-19 22.2 / 22.4, Tables 21.2.2 and 22.4.2.1",
         "simplified": "11.5.3",
+        "boundary_flag": "special boundary element (18.10.6.3)",
+        "sheet_shear": "11.5.4 / 18.10.4",
+        "sheet_axial": "22.2, 22.4, Tables 21.2.2 and 22.4.2.1",
+        "least_moment_note": "no least moment: N* at most phi 0.80 Po (Table 22.4.2.1)",
+        "block": "22.2.2.4",
+        "phi_table": "Table 21.2.2",
+        "top_text": "phi 0.80 Po",
+        "simplified_clause": "11.5.3.1",
+        "simplified_note": "e from out-of-plane M*, within the middle third (h/6)",
     }
     Es = ES
     eps_cu = EPS_CU

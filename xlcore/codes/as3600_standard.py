@@ -45,6 +45,7 @@ class AS3600:
 
     name = as3600.NAME
     min_eccentricity = as3600.MIN_ECCENTRICITY
+    max_compression_ratio = 1.0  # phi0 Nuo (Cl 10.6.2.2): the squash load itself
     symbols = {
         "Nu": "Nu",
         "Mu": "Mu",
@@ -58,6 +59,15 @@ class AS3600:
         "clause_curve": "Cl 8.1.3 / Table 2.2.2, Cl 10.1.2",
         "clause_core": "Cl 8.1.3 / 10.6.2.2 / Table 2.2.2",
         "simplified": "Cl 11.5",
+        "boundary_flag": "end-zone detailing (Cl 14.6)",
+        "sheet_shear": "Cl 11.6",
+        "sheet_axial": "Cl 8.1.3, 10.6, Table 2.2.2",
+        "least_moment_note": "M* at least N* x 0.05 Lw (Cl 10.1.2)",
+        "block": "Cl 8.1.3",
+        "phi_table": "Table 2.2.2",
+        "top_text": "phi Nuo",
+        "simplified_clause": "Cl 11.5.1",
+        "simplified_note": "e from out-of-plane M*, at least 0.05 tw",
     }
     Es = as3600.ES
     eps_cu = as3600.EPS_CU

@@ -73,6 +73,15 @@ SYMBOL_KEYS = (
     "clause_curve",  # ... the strain-compatibility curve
     "clause_core",  # clause column of the core N-M check
     "simplified",  # short clause of the simplified method
+    "boundary_flag",  # core stress flag where the peak compression calls for boundary detailing
+    "sheet_shear",  # clauses in the shear sheet's title
+    "sheet_axial",  # clauses in the axial sheet's title
+    "least_moment_note",  # the least design moment, in words (axial sheet preamble)
+    "block",  # short clause of the stress block
+    "phi_table",  # short clause of phi for axial force and bending
+    "top_text",  # the design upper limit on N*, in words
+    "simplified_clause",  # clause of the simplified method's capacity (summary rows)
+    "simplified_note",  # how e is taken in the simplified method (axial sheet preamble)
 )
 """Names every standard gives in `Standard.symbols`."""
 
@@ -217,6 +226,10 @@ class Standard(Protocol):
 
     min_eccentricity: float
     """Least eccentricity of N* in compression as a fraction of the depth (0: none)."""
+
+    max_compression_ratio: float
+    """The design upper limit on N* over phi0 x squash load (AS 3600 1.0: phi0 Nuo; ACI 318
+    0.80, Table 22.4.2.1): `max_compression` for sections the checks assemble themselves."""
 
     def design_moment(self, m_star, n_star, D) -> np.ndarray:
         """|M*| raised to any minimum (eccentricity) the standard sets; N, N mm, mm."""
