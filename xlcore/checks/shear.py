@@ -103,8 +103,9 @@ def check_pier_shear(
         )
         df["f_vuc"] = np.asarray(f_vuc, dtype=object)[of]
         df["f_vu"] = np.asarray(f_vu, dtype=object)[of]
+        design = std.symbols["shear_design"]
         df["f_util"] = [
-            f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
+            f"|V*| / {design} = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
             for v, pv, u in zip(df.v.tolist(), df.phi_vu.tolist(), df.util.tolist(), strict=True)
         ]
     # the engineer's row order; piers shared from one wall row stay together, from the wall start

@@ -606,6 +606,7 @@ class ACI318:
         "clause_core": "ACI 318-19 22.2 / 22.4, Tables 21.2.2 and 22.4.2.1",
         "simplified": "11.5.3",
         "boundary_flag": "special boundary element (18.10.6.3)",
+        "shear_design": "phiVn",
         "sheet_shear": "11.5.4 / 18.10.4",
         "sheet_axial": "22.2, 22.4, Tables 21.2.2 and 22.4.2.1",
         "least_moment_note": "no least moment: N* at most phi 0.80 Po (Table 22.4.2.1)",

@@ -60,6 +60,7 @@ class AS3600:
         "clause_core": "Cl 8.1.3 / 10.6.2.2 / Table 2.2.2",
         "simplified": "Cl 11.5",
         "boundary_flag": "end-zone detailing (Cl 14.6)",
+        "shear_design": "phiVu",
         "sheet_shear": "Cl 11.6",
         "sheet_axial": "Cl 8.1.3, 10.6, Table 2.2.2",
         "least_moment_note": "M* at least N* x 0.05 Lw (Cl 10.1.2)",

@@ -74,6 +74,7 @@ SYMBOL_KEYS = (
     "clause_core",  # clause column of the core N-M check
     "simplified",  # short clause of the simplified method
     "boundary_flag",  # core stress flag where the peak compression calls for boundary detailing
+    "shear_design",  # the design shear capacity's symbol in working text
     "sheet_shear",  # clauses in the shear sheet's title
     "sheet_axial",  # clauses in the axial sheet's title
     "least_moment_note",  # the least design moment, in words (axial sheet preamble)
