@@ -188,3 +188,28 @@ def test_checks_take_the_standard_as_an_argument(runs):
     out = check_pier_shear(piers, acts, s, std=get_standard("ACI 318-19"))
     assert out.clause.str.startswith("ACI 318-19").all()
     np.testing.assert_array_equal(out.util.to_numpy(), runs["ACI 318-19"].shear.util.to_numpy())
+
+
+def test_project_sheet_chooses_aci_and_grades_are_checked_against_it(demo_book):
+    # the Project sheet's "Design standard" cell reaches every wired check and the stamp
+    from conftest import column_letter, edit
+
+    from xlcore import api, layout
+    from xlcore.diagnostics import InputInvalid
+
+    row = 2 + [s.key for s in layout.PROJECT.settings].index("standard")
+    fsy = f"{column_letter(layout.WALLS, 'fsy')}2"
+    edit(demo_book, {(layout.PROJECT.name, f"B{row}"): "ACI 318-19", (layout.WALLS.name, fsy): 600})
+    run = api.compute(demo_book)
+    assert run.stamp["Standard"] == "ACI 318-19"
+    assert run.sheets["shear"].table.clause.str.startswith("ACI 318-19").all()
+    # fy 600 MPa is above the 550 MPa of 20.2.2.4 (from memory): a warning at its cell, capped
+    assert any(str(f).startswith(f"Walls!{fsy}: ") and "550" in str(f) for f in run.findings.warnings)
+    # f'c 18 MPa: within ACI's range (>= 17, Table 19.2.1.1), outside AS 3600's (20 to 100)
+    fc = f"{column_letter(layout.WALLS, 'fc')}2"
+    edit(demo_book, {(layout.WALLS.name, fc): 18})
+    api.check(demo_book)
+    edit(demo_book, {(layout.PROJECT.name, f"B{row}"): "AS 3600:2018"})
+    with pytest.raises(InputInvalid) as info:
+        api.check(demo_book)
+    assert any(str(f).startswith(f"Walls!{fc}: ") and "20 to 100" in str(f) for f in info.value.findings.errors)
