@@ -212,4 +212,5 @@ def test_project_sheet_chooses_aci_and_grades_are_checked_against_it(demo_book):
     edit(demo_book, {(layout.PROJECT.name, f"B{row}"): "AS 3600:2018"})
     with pytest.raises(InputInvalid) as info:
         api.check(demo_book)
-    assert any(str(f).startswith(f"Walls!{fc}: ") and "20 to 100" in str(f) for f in info.value.findings.errors)
+    errors = [str(f) for f in info.value.findings.errors]
+    assert any(f.startswith(f"Walls!{fc}: ") and "20 to 100" in f for f in errors), errors
