@@ -214,3 +214,19 @@ def test_project_sheet_chooses_aci_and_grades_are_checked_against_it(demo_book):
         api.check(demo_book)
     errors = [str(f) for f in info.value.findings.errors]
     assert any(f.startswith(f"Walls!{fc}: ") and "20 to 100" in f for f in errors), errors
+
+
+def test_aci_lambda_setting_scales_the_concrete_part_only(runs):
+    # 11.5.4.3: Vc = alpha_c lambda sqrt(f'c) Acv; lambda 0.85 (sand-lightweight, 19.2.4) on the
+    # worst row: Vc = 0.85 x 752.622 = 639.729 kN; Vs unchanged 923.628 kN
+    out = runs["ACI 318-19"]
+    b = out.building
+    s = b.settings.model_copy(update={"aci_lambda": 0.85})
+    base = out.shear
+    w = base.loc[base.util.idxmax()]
+    std = get_standard("ACI 318-19").configure(s)
+    assert std.lam == 0.85 and get_standard("ACI 318-19").lam == 1.0  # the registry's is untouched
+    r = std.wall_shear(w.fc, w.fsy, w.Lw, w.tw, w.hw_lw, w.rho_h, w.rho_v)
+    assert float(r.concrete) == pytest.approx(0.85 * 0.17 * math.sqrt(40) * 700_000, rel=1e-12)
+    assert float(r.steel) == pytest.approx(w.vus * 1e3, rel=1e-12)
+    assert get_standard("AS 3600:2018").configure(s) is get_standard("AS 3600:2018")  # AS ignores it

@@ -503,6 +503,17 @@ PROJECT = SettingsSheet(
             min=0.0,
             max=0.5,
         ),
+        Setting(
+            "aci_lambda",
+            "ACI 318: lambda for lightweight concrete",
+            None,
+            Kind.NUMBER,
+            1.0,
+            "ACI 318-19 only (19.2.4): modification factor on sqrt(f'c) in wall shear, 1.0 for "
+            "normal-weight concrete, 0.75 to 1.0 for lightweight. Ignored under AS 3600.",
+            min=0.75,
+            max=1.0,
+        ),
     ),
 )
 

@@ -36,7 +36,7 @@ def check_pier_shear(
     Column keys keep their first (AS 3600) names, e.g. `vuc` the concrete part; the headers
     (results.py) are neutral.
     """
-    std = std or get_standard(settings.standard)
+    std = (std or get_standard(settings.standard)).configure(settings)
     geo = [
         "storey",
         "pier_id",

@@ -623,8 +623,19 @@ class ACI318:
     phi_tension = PHI_TENSION_CONTROLLED
     phi_simplified = PHI_SIMPLIFIED
 
+    lam = 1.0
+    """lambda, 19.2.4: 1.0 normal-weight concrete (the Project setting "ACI 318: lambda ...")."""
+
     def clause(self, key: str) -> str:
         return _CLAUSES[key]
+
+    def configure(self, settings):
+        lam = float(getattr(settings, "aci_lambda", 1.0))
+        if lam == self.lam:
+            return self
+        out = ACI318()
+        out.lam = lam
+        return out
 
     # ---- shear
     def wall_aspect_ratio(self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
@@ -635,7 +646,7 @@ class ACI318:
     def wall_shear(self, fc, fy, Lw, tw, hw_lw, rho_h, rho_v, phi=None):
         from xlcore.codes.base import ShearCapacity
 
-        r = wall_shear(fc, fy, Lw, tw, hw_lw, rho_h, phi=PHI_SHEAR if phi is None else phi)
+        r = wall_shear(fc, fy, Lw, tw, hw_lw, rho_h, lam=self.lam, phi=PHI_SHEAR if phi is None else phi)
         return ShearCapacity(
             area=r.area,
             concrete=r.vc,
@@ -650,7 +661,7 @@ class ACI318:
         )
 
     def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw):
-        return wall_rho_t_required(v_star, phi, fc, fy, Lw, tw, hw_lw)
+        return wall_rho_t_required(v_star, phi, fc, fy, Lw, tw, hw_lw, lam=self.lam)
 
     def wall_shear_text(self, cap, fc, fy, Lw, tw, hw_lw):
         from xlcore.codes.base import num
@@ -660,6 +671,7 @@ class ACI318:
             fc, fy, Lw, tw, hw_lw, cap.detail["alpha_c"], cap.concrete * kn, cap.steel * kn,
             cap.limit * kn, cap.phi, cap.design * kn, cap.governs)]  # fmt: skip
         first, second = [], []
+        weight = " normal weight" if self.lam == 1.0 else ", lightweight (19.2.4)"
         for f, y, lw, t, r, ac, vc, vs, vm, p, pv, g in zip(*cols, strict=True):
             if r <= RATIO_SQUAT:
                 why = f"hw/lw {r:.3f} <= {RATIO_SQUAT}"
@@ -668,8 +680,8 @@ class ACI318:
             else:
                 why = f"hw/lw {r:.3f}: linear between 0.25 at 1.5 and 0.17 at 2.0"
             first.append(
-                f"alpha_c = {ac:.3f} ({why}); Vc = alpha_c lambda sqrt(f'c) Acv = {ac:.3f} x 1.0 x "
-                f"sqrt({f:g}) x {lw:.0f} x {t:.0f} = {num(vc)} kN (11.5.4.3, lambda 1.0 normal weight)"
+                f"alpha_c = {ac:.3f} ({why}); Vc = alpha_c lambda sqrt(f'c) Acv = {ac:.3f} x {self.lam:g} x "
+                f"sqrt({f:g}) x {lw:.0f} x {t:.0f} = {num(vc)} kN (11.5.4.3, lambda {self.lam:g}{weight})"
             )
             rho = vs / (min(y, FYT_MAX_SHEAR) * lw * t * kn) if lw * t > 0 else 0.0
             seg = g == GOV_SEGMENT_LIMIT

@@ -80,6 +80,9 @@ class AS3600:
     def clause(self, key: str) -> str:
         return _CLAUSES[key]
 
+    def configure(self, settings):
+        return self  # no AS-only setting is read through the interface yet
+
     # ---- shear
     def wall_aspect_ratio(self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
         return as3600.wall_aspect_ratio(Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening)

@@ -172,6 +172,11 @@ class Standard(Protocol):
         """The clause (and equation) of a quantity named in CLAUSE_KEYS, for result rows."""
         ...
 
+    def configure(self, settings) -> Standard:
+        """The standard with the Project settings that belong to it alone (ACI 318: lambda);
+        itself where it has none. A check calls it on the standard it was given."""
+        ...
+
     # ---- shear
     def wall_aspect_ratio(
         self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening
