@@ -420,3 +420,18 @@ def test_a_wall_without_a_core_beside_named_ones_is_an_error(demo_book):
         load(demo_book)
     found = {f.where: f.message for f in info.value.findings.errors}
     assert "blank core for wall 'LiftE'" in found[where(W, "core", 5)]
+
+
+def test_a_storey_above_every_wall_computes(demo_book):
+    """A plant level on the roof slab with no core walls (storey row 17, after L14 at 45.95 m
+    + 3.2 m) is legal input: no error, and no result row names it (nothing there to check)."""
+    from xlcore import pipeline
+
+    plant = {"name": "Plant", "level": 49.15, "height": 3.0, "slab": 200}
+    edit(demo_book, {at(S, key, 17): value for key, value in plant.items()})
+    building, findings = load(demo_book)
+    assert findings.errors == []
+    assert building.storeys[-1].name == "Plant"
+    out = pipeline.compute(building, findings)
+    assert len(out.shear) and "Plant" not in set(out.shear.storey)
+    assert "Plant" not in set(out.summary.storey)
