@@ -278,7 +278,7 @@ def test_sheet_structure_cases(demo_master, tmp_path, name, tried):
 
 VALUE_CASES = {
     "zero thickness": ((W.name, cell(W, "thickness", 2)), 0, "75 to 1500"),
-    "negative f'c": ((W.name, cell(W, "fc", 2)), -40, "20 to 100"),
+    "negative f'c": ((W.name, cell(W, "fc", 2)), -40, "17 to 100"),
     "nan as text": ((W.name, cell(W, "fc", 2)), "nan", "expected a number"),
     "infinity as text": ((W.name, cell(W, "fsy", 2)), "inf", "expected a number"),
     "huge number": ((A.name, cell(A, "v", 2)), 1e300, "-1e+07 to 1e+07"),
