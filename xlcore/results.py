@@ -134,7 +134,7 @@ SUMMARY_COLUMNS = [
     _c("clause", "Governing clause", width=21),
     _c("u_shear", "U shear", None, "0.000", 8),
     _c("u_nm", "U axial + bending", None, "0.000", 9),
-    _c("u_simplified", "U Cl 11.5", None, "0.000", 8),
+    _c("u_simplified", "U simplified method", None, "0.000", 8),
     _c("detailing", "Detailing Cl 11.7", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
     _c("section14", "Earthquake Section 14", width=12),
