@@ -278,7 +278,7 @@ def test_sheet_structure_cases(demo_master, tmp_path, name, tried):
 
 VALUE_CASES = {
     "zero thickness": ((W.name, cell(W, "thickness", 2)), 0, "75 to 1500"),
-    "negative f'c": ((W.name, cell(W, "fc", 2)), -40, "20 to 100"),
+    "negative f'c": ((W.name, cell(W, "fc", 2)), -40, "17 to 100"),
     "nan as text": ((W.name, cell(W, "fc", 2)), "nan", "expected a number"),
     "infinity as text": ((W.name, cell(W, "fsy", 2)), "inf", "expected a number"),
     "huge number": ((A.name, cell(A, "v", 2)), 1e300, "-1e+07 to 1e+07"),
@@ -309,11 +309,12 @@ def test_bad_values_name_the_cell(demo_master, tmp_path, name, tried):
     tried.append(name)
 
 
-def test_unicode_ids_are_fine(demo_master, tmp_path):
+def test_unicode_ids_are_fine(demo_master, tmp_path, tried):
     path = with_openpyxl(demo_master, tmp_path / "case.xlsx", setv(P.name, "B2", "Ωmega Tower – Zürich 北"))
     r = run_cli("compute", str(path))
     assert r.returncode == 0, r.stderr
     assert "Ωmega" in openpyxl.load_workbook(path, read_only=True)["Results summary"]["A3"].value
+    tried.append("unicode project name")  # the "+ 1" of the first round's count
 
 
 def test_corpus_size():

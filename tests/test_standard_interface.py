@@ -1,7 +1,7 @@
 """Both standards satisfy the `codes.base.Standard` interface, and the AS 3600 adapter gives the
 same numbers as the codes/as3600.py functions the checks call today (so wiring the checks to
-the interface later changes nothing for AS 3600). ACI 318-19 is registered but not selectable
-in the workbook yet (layout.STANDARDS)."""
+the interface changes nothing for AS 3600). Both are selectable in the workbook
+(layout.STANDARDS)."""
 
 import inspect
 
@@ -104,9 +104,18 @@ def test_registering_a_standard_by_object():
         base._REGISTRY.pop("test-only")
 
 
-def test_aci_is_not_yet_selectable_in_the_workbook():
-    # wiring the checks comes later; until then the Project sheet offers AS 3600 alone
-    assert layout.STANDARDS == ("AS 3600:2018",)
+def test_both_standards_are_selectable_in_the_workbook():
+    # the checks take the standard through the interface (checks/shear.py, axial.py, core_nm.py,
+    # core_stress.py): every name the Project sheet offers is a registered standard
+    assert layout.STANDARDS == ("AS 3600:2018", "ACI 318-19")
+    for name in layout.STANDARDS:
+        assert get_standard(name).name == name
+
+
+@pytest.mark.parametrize("std", STANDARDS, ids=lambda s: s.name)
+def test_every_symbol_the_checks_write_is_given(std):
+    assert set(base.SYMBOL_KEYS) <= set(std.symbols), set(base.SYMBOL_KEYS) - set(std.symbols)
+    assert all(isinstance(std.symbols[k], str) and std.symbols[k] for k in base.SYMBOL_KEYS)
 
 
 # ---- the AS 3600 adapter gives the numbers of the functions the checks call today

@@ -141,7 +141,7 @@ class SettingsSheet:
 
 
 YES_NO = ("yes", "no")
-STANDARDS = ("AS 3600:2018",)
+STANDARDS = ("AS 3600:2018", "ACI 318-19")
 HEIGHT_BASES = ("overall wall height", "storey clear height", "opening height")
 PIER_FIXITY = ("fixed-fixed", "cantilever")
 CORE_LOCAL_MOMENT = ("add V* h/2 beside openings", "none")
@@ -165,7 +165,9 @@ PROJECT = SettingsSheet(
             None,
             Kind.CHOICE,
             STANDARDS[0],
-            "Standard the checks follow.",
+            "Standard the checks follow: AS 3600:2018, or ACI 318-19 (SI) for shear, axial load "
+            "with bending and the core checks (settings named for one standard apply to it alone; "
+            "see docs/engineering-basis.md for what ACI 318-19 covers).",
             choices=STANDARDS,
         ),
         Setting(
@@ -187,8 +189,8 @@ PROJECT = SettingsSheet(
             None,
             Kind.NUMBER,
             None,
-            "Capacity reduction factor for in-plane shear of walls. Blank: 0.7 "
-            "(AS 3600:2018 Table 2.2.2 as applied to walls).",
+            "Capacity reduction factor for in-plane shear of walls. Blank: the standard's, 0.7 "
+            "(AS 3600:2018 Table 2.2.2 as applied to walls) or 0.75 (ACI 318-19 Table 21.2.1).",
             min=0.5,
             max=1.0,
         ),
@@ -271,8 +273,9 @@ PROJECT = SettingsSheet(
             None,
             Kind.NUMBER,
             None,
-            "Capacity reduction factor where compression dominates (Table 2.2.2). Blank: 0.6 "
-            "(Amendment 2 gives 0.65 k_phi: verify against your edition).",
+            "Capacity reduction factor where compression dominates. Blank: the standard's, 0.6 "
+            "(AS 3600:2018 Table 2.2.2; Amendment 2 gives 0.65 k_phi: verify against your edition) "
+            "or 0.65 (ACI 318-19 Table 21.2.2, compression-controlled with ties).",
             min=0.5,
             max=0.9,
         ),
@@ -282,7 +285,8 @@ PROJECT = SettingsSheet(
             None,
             Kind.NUMBER,
             None,
-            "Blank: 0.65 (2018; 0.6 in the 2009 edition: verify against your edition).",
+            "Blank: 0.65 (AS 3600:2018; 0.6 in the 2009 edition: verify against your edition); under "
+            "ACI 318-19 the 11.5.3 simplified method, blank 0.65 (Table 21.2.2).",
             min=0.5,
             max=0.9,
         ),
@@ -399,7 +403,8 @@ PROJECT = SettingsSheet(
             "Earthquake combinations only: peak elastic compression above this fraction of f'c "
             "calls for end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6.2, from memory: "
             "verify): a flag on the core stress check and the trigger of the Section 14 end-zone "
-            "rule of every pier (N*/A + M*/Z). Never a failing utilisation.",
+            "rule of every pier (N*/A + M*/Z). Never a failing utilisation. ACI 318-19 18.10.6.3 "
+            "triggers special boundary elements at 0.2 f'c: set 0.2 under that standard.",
             min=0.05,
             max=1.0,
         ),
@@ -511,6 +516,17 @@ PROJECT = SettingsSheet(
             min=0.0,
             max=0.5,
         ),
+        Setting(
+            "aci_lambda",
+            "ACI 318: lambda for lightweight concrete",
+            None,
+            Kind.NUMBER,
+            1.0,
+            "ACI 318-19 only (19.2.4): modification factor on sqrt(f'c) in wall shear, 1.0 for "
+            "normal-weight concrete, 0.75 to 1.0 for lightweight. Ignored under AS 3600.",
+            min=0.75,
+            max=1.0,
+        ),
     ),
 )
 
@@ -600,8 +616,9 @@ WALLS = TableSheet(
             "f'c",
             "MPa",
             Kind.NUMBER,
-            "Characteristic compressive strength (20 to 100 MPa).",
-            min=20,
+            "Characteristic compressive strength: AS 3600:2018 20 to 100 MPa; ACI 318-19 (f'c) "
+            "at least 17 MPa.",
+            min=17,
             max=100,
             number_format="0",
         ),

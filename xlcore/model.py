@@ -55,6 +55,7 @@ class Settings(BaseModel):
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL
     poisson: float = 0.2
+    aci_lambda: float = 1.0  # ACI 318-19 19.2.4 (lightweight concrete); AS 3600 ignores it
 
 
 class Storey(BaseModel):

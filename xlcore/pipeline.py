@@ -22,6 +22,7 @@ from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
+from xlcore.codes import get_standard
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.mechanics import bars, stiffness
 from xlcore.model import Building
@@ -101,6 +102,8 @@ def compute(
     working text (most of the checks' time at building scale), and the sheets carry a `rework`
     that makes it for the rows written."""
     s = building.settings
+    std = get_standard(s.standard)  # the checks take it from the settings too (their `std`)
+    sym = std.symbols
     t = Timings(reporter)
     limit = results.DETAIL_ROW_LIMIT if limit is None else limit
 
@@ -174,7 +177,7 @@ def compute(
         ),
         ResultSheet(
             results.SHEAR_SHEET,
-            f"{results.MARKER}: in-plane shear of piers, {s.standard} Cl 11.6",
+            f"{results.MARKER}: in-plane shear of piers, {s.standard} {sym['sheet_shear']}",
             results.SHEAR_COLUMNS,
             shear,
             preamble=stamp
@@ -189,8 +192,8 @@ def compute(
         ),
         ResultSheet(
             results.AXIAL_SHEET,
-            f"{results.MARKER}: axial load and in-plane bending of piers ({s.standard} Cl 8.1.3, 10.6, "
-            "Table 2.2.2) and the simplified method Cl 11.5",
+            f"{results.MARKER}: axial load and in-plane bending of piers ({s.standard} {sym['sheet_axial']}) "
+            f"and the simplified method {sym['simplified']}",
             results.AXIAL_COLUMNS,
             axial,
             preamble=stamp
@@ -198,8 +201,8 @@ def compute(
                 (
                     "Utilisation",
                     "radial overload factor: (N*, M*) / U lies on the factored interaction curve "
-                    "along the ray from the origin (1.2 = 20 % over); M* at least N* x 0.05 Lw "
-                    "(Cl 10.1.2); the ratio at fixed N* is kept as a column",
+                    f"along the ray from the origin (1.2 = 20 % over); {sym['least_moment_note']}; "
+                    "the ratio at fixed N* is kept as a column",
                 ),
                 (
                     "Section",
@@ -208,13 +211,13 @@ def compute(
                     "bars evenly between the zones at or closer than the given spacing (at a side "
                     "without a zone from cover + db/2); where the zones differ, M* > 0 compresses "
                     "the pier's end, M* < 0 its start, and a minimum-eccentricity M* is checked both "
-                    "ways; stress block Cl 8.1.3; bars displace concrete",
+                    f"ways; stress block {sym['block']}; bars displace concrete",
                 ),
                 (
-                    "Cl 11.5",
+                    sym["simplified"],
                     "N* per length at the pier's more compressed end, N*/Lw + 6 M*/Lw^2 (in-plane "
                     "moment considered; an end in tension: not applicable, designed as a column); "
-                    "e from out-of-plane M*, at least 0.05 tw",
+                    f"{sym['simplified_note']}",
                 ),
             ],
             scale_key="util",
@@ -346,7 +349,7 @@ def compute(
                         "Method",
                         "sigma = N/A +- bending over the net core section (compression positive); "
                         "tension resultant per wall against its vertical steel in the tension zone "
-                        "(phi 0.85, Table 2.2.2); fibres of 0.1 m along each pier",
+                        f"(phi {std.phi_tension:.2f}, {sym['phi_table']}); fibres of 0.1 m along each pier",
                     ),
                     ("Compression limit", f"{s.compression_limit:g} f'c (Project setting)"),
                 ],
@@ -364,13 +367,15 @@ def compute(
                     + [
                         (
                             "Method",
-                            "strain compatibility over every pier of the net section (Cl 8.1.3 block, "
-                            "bars displace concrete), phi from Table 2.2.2 per neutral-axis angle; the "
+                            f"strain compatibility over every pier of the net section ({sym['block']} block, "
+                            f"bars displace concrete), phi from {sym['phi_table']} per neutral-axis "
+                            "angle; the "
                             "capacity contour at N* over 24 angles, read along the direction of (Mx*, My*)",
                         ),
                         (
                             "Utilisation",
-                            "the larger of |M*| / phiMu along M* and N* / phi Nuo (tension: 0.85 Nuot)",
+                            f"the larger of |M*| / phiMu along M* and N* / {sym['top_text']} (tension: "
+                            f"{std.phi_tension:.2f} {sym['tension']})",
                         ),
                         (
                             "Discretisation",
@@ -914,7 +919,7 @@ def _candidates(
                 unit="kN",
                 util=s.util_s,
                 status=s.status_s,
-                clause="Cl 11.5.1",
+                clause=s.clause_s if "clause_s" in s else "Cl 11.5.1",
                 note="",
             )[cols]
         )

@@ -38,6 +38,7 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     tables = {t.key: _table(raw.sheets.get(t.name), t, f) for t in layout.TABLES}
     storeys, storeys_sound = _storeys(tables["storeys"], f)
     walls = _walls(tables["walls"], storeys, f)
+    _grades_for_standard(tables["walls"], settings, f)
     unsound = _unsound_ids(tables["walls"], walls)
     openings = _openings(tables["openings"], storeys, walls, f, unsound)
     complete = storeys_sound and not f.errors  # every row so far parsed and agreed
@@ -530,6 +531,44 @@ def _storey_range(
         )
         return None
     return lo, hi
+
+
+GRADE_RANGE = {
+    # standard: (least f'c, greatest f'c, basis), MPa
+    "AS 3600:2018": (20.0, 100.0, "AS 3600:2018 Cl 1.1.2 scope, from memory: verify"),
+    "ACI 318-19": (17.0, math.inf, "ACI 318-19 Table 19.2.1.1, from memory: verify"),
+}
+"""Concrete grades each design standard covers (the walls sheet admits 17 to 100 MPa, the union;
+the checks' equations hold only within the chosen standard's range)."""
+
+ACI_FY_MAX = 550.0  # MPa, ACI 318-19 20.2.2.4 (from memory, verify): fy above it is capped
+
+
+def _grades_for_standard(df: pd.DataFrame | None, settings: Settings, f: Findings) -> None:
+    """A concrete grade the chosen design standard does not cover is an error at its cell; an
+    ACI bar grade above 550 MPa a warning (the checks cap it)."""
+    if df is None or df.empty or "fc" not in df or settings.standard not in GRADE_RANGE:
+        return
+    lo, hi, basis = GRADE_RANGE[settings.standard]
+    rows = df["row"].tolist() if "row" in df else list(range(2, len(df) + 2))
+    for r, fc in zip(rows, pd.to_numeric(df["fc"], errors="coerce").tolist(), strict=True):
+        if fc == fc and not lo <= fc <= hi:
+            span = f"{lo:g} to {hi:g} MPa" if math.isfinite(hi) else f"at least {lo:g} MPa"
+            f.error(
+                layout.WALLS.name,
+                _at(df, "fc", int(r)),
+                f"f'c {fc:g} MPa is outside what {settings.standard} covers ({basis}); expected "
+                f"{span}, or another design standard on the Project sheet",
+            )
+    if settings.standard == "ACI 318-19" and "fsy" in df:
+        for r, fy in zip(rows, pd.to_numeric(df["fsy"], errors="coerce").tolist(), strict=True):
+            if fy == fy and fy > ACI_FY_MAX:
+                f.warning(
+                    layout.WALLS.name,
+                    _at(df, "fsy", int(r)),
+                    f"fsy {fy:g} MPa is above the {ACI_FY_MAX:g} MPa ACI 318-19 20.2.2.4 allows in "
+                    "strength (from memory: verify); the checks use 550 MPa (420 MPa in shear)",
+                )
 
 
 def _walls(df: pd.DataFrame | None, storeys: list[Storey], f: Findings) -> list[WallRun]:

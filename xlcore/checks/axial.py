@@ -1,5 +1,9 @@
-"""Axial load with bending of every pier (strain compatibility, AS 3600:2018 Cl 8.1.3, 10.6,
-Table 2.2.2) and the simplified method for walls in compression (Cl 11.4, 11.5)."""
+"""Axial load with bending of every pier by strain compatibility, and the simplified method for
+walls in compression, to the Project's design standard (`codes.base.Standard`): AS 3600:2018
+Cl 8.1.3, 10.6, Table 2.2.2, Cl 11.4, 11.5; ACI 318-19 22.2, 22.4, Tables 21.2.2 and 22.4.2.1,
+11.5.3. The standard gives the stress block, squash and tension strength, phi for each nominal
+point (AS: by Nu; ACI: by the net tensile strain), the design upper limit on N*, the least
+design moment and the simplified method; the diagram's shape is the check's (below)."""
 
 from __future__ import annotations
 
@@ -7,11 +11,15 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks import once_per, per_pier, plain
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import SectionState, Standard, num
 from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.mechanics import bars, nm
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
+
+DEFAULT_STANDARD = "AS 3600:2018"
+"""The standard of callers that pass none and have no Project settings (the report's figures)."""
 
 GEOMETRY = [
     "storey",
@@ -51,11 +59,14 @@ def _zone_cols(df: pd.DataFrame) -> list[str]:
     return [c for c in ZONE_COLUMNS if c in df]
 
 
-def rect_sections(df: pd.DataFrame) -> nm.EvenRect:
+def rect_sections(df: pd.DataFrame, std: Standard | None = None) -> nm.EvenRect:
     """The piers of `df` as sections, depths from each pier's start side (the face M* < 0
-    compresses): the field bars in closed form, the end-zone bars one by one (`bars.layout`)."""
+    compresses): the field bars in closed form, the end-zone bars one by one (`bars.layout`);
+    the stress block, eps_cu and Es of the standard."""
+    std = std or get_standard(DEFAULT_STANDARD)
     lay = bars.layout(df)
     fc = df.fc.to_numpy(dtype=float)
+    alpha2, gamma = std.stress_block(fc)
     return nm.EvenRect(
         D=df.Lw.to_numpy(dtype=float),
         b=df.tw.to_numpy(dtype=float),
@@ -65,10 +76,10 @@ def rect_sections(df: pd.DataFrame) -> nm.EvenRect:
         step=lay.field_step,
         count=lay.field_count,
         bar_area=lay.field_area,
-        alpha2=as3600.alpha2(fc),
-        gamma=as3600.gamma(fc),
-        eps_cu=as3600.EPS_CU,
-        Es=as3600.ES,
+        alpha2=alpha2,
+        gamma=gamma,
+        eps_cu=std.eps_cu,
+        Es=std.Es,
         zd=lay.zone_d if lay.zone_d.shape[1] else None,
         zA=lay.zone_A if lay.zone_d.shape[1] else None,
     )
@@ -85,25 +96,86 @@ def asymmetric(df: pd.DataFrame) -> np.ndarray:
     return out
 
 
+def _solve_design(sec, target, lo, hi, phi_at, iterations: int = 60) -> np.ndarray:
+    """Neutral-axis depth where phi N(dn) = target: `nm.solve_dn` with a phi that may depend on
+    dn as well as N (ACI 318 reads phi from the net tensile strain, AS 3600 from Nu), the same
+    bracketing solver (`nm._illinois`) and the same tolerances."""
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
+    target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
+
+    def g(x: np.ndarray, rows) -> np.ndarray:
+        part = sec if rows is None else sec.take(rows)
+        n, _ = nm.forces(part, x)
+        return n * phi_at(n, x, rows) - (target if rows is None else target[rows])
+
+    return nm._illinois(g, lo, hi, np.abs(target), sec.D, iterations)
+
+
+def _solve_ray(sec, n_dir, m_dir, lo, hi, phi_at, iterations: int = 60) -> np.ndarray:
+    """`nm.solve_ray` with phi of (N, dn): the root of phi (N m_dir - |M| n_dir)."""
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
+    n_dir = np.broadcast_to(np.asarray(n_dir, dtype=float), sec.D.shape)
+    m_dir = np.broadcast_to(np.asarray(m_dir, dtype=float), sec.D.shape)
+
+    def g(x: np.ndarray, rows) -> np.ndarray:
+        part = sec if rows is None else sec.take(rows)
+        n, m = nm.forces(part, x)
+        phi = phi_at(n, x, rows)
+        a, b = (m_dir, n_dir) if rows is None else (m_dir[rows], n_dir[rows])
+        return phi * (n * a - np.abs(m) * b)
+
+    return nm._illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations)
+
+
+def tension_side_utilisation(n_star, m_star, phi_nuot, phi_mo):
+    """Radial overload factor on the tension side drawn as the straight line from (0, phi Muo)
+    to (phi Nuot, 0): lambda = N*/phi Nuot + |M*|/phi Muo (`phi_nuot` < 0, N* <= 0). Geometry,
+    the same for every standard (AS 3600 practice; conservative for ACI 318, whose tension-side
+    curve lies outside the line: docs/engineering-basis.md)."""
+    n = np.asarray(n_star, dtype=float)
+    m = np.abs(np.asarray(m_star, dtype=float))
+    return n / np.asarray(phi_nuot, dtype=float) + m / np.asarray(phi_mo, dtype=float)
+
+
+def ray_segment_utilisation(n_star, m_star, n1, m1, n2, m2):
+    """Radial overload factor where the ray through (N*, |M*|) crosses the segment
+    (n1, m1)-(n2, m2): lambda = (N* dm - |M*| dn) / (n1 dm - m1 dn)."""
+    n = np.asarray(n_star, dtype=float)
+    m = np.abs(np.asarray(m_star, dtype=float))
+    dn, dm = np.asarray(n2, dtype=float) - n1, np.asarray(m2, dtype=float) - m1
+    den = n1 * dm - m1 * dn
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(den != 0, (n * dm - m * dn) / np.where(den != 0, den, 1.0), np.inf)
+
+
 def interaction(
-    sec, n_star, phi0=as3600.PHI_COMPRESSION, of: np.ndarray | None = None, m_star=None
+    sec, n_star, phi0=None, of: np.ndarray | None = None, m_star=None, *, std: Standard | None = None
 ) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
     Between pure bending and decompression (dn = D) the neutral axis is found so that
-    phi(Nu) Nu = N* (Table 2.2.2 phi varies with Nu); above decompression phi Mu falls linearly
-    to zero at phi Nuo (squash, Cl 10.6.2.2), and in tension linearly from pure bending to
-    0.85 Nuot, as AS 3600 practice interpolates (and the concreteproperties library does).
+    phi N = N*, phi from the standard at each nominal point (AS 3600 Table 2.2.2 by Nu;
+    ACI 318 Table 21.2.2 by the net tensile strain); above decompression phi Mu falls linearly
+    to zero at phi0 times the squash load (AS Cl 10.6.2.2 Nuo, ACI 22.4.2.2 Po), and in tension
+    linearly from pure bending to phi_t times the tension capacity, as AS 3600 practice
+    interpolates (and the concreteproperties library does; for ACI a conservative chord). The
+    design upper limit on N* (`top`) is the standard's: AS phi0 Nuo, the end of that line;
+    ACI phi 0.80 Po (Table 22.4.2.1), which cuts the diagram flat below it.
 
     `sec` may hold each distinct section once and `of` give the section of each N*: the
     section's own points (squash, balance, pure bending) are then found once per section.
 
     With `m_star` [N mm] also the radial overload factor `lam` (see `radial`)."""
+    std = std or get_standard(DEFAULT_STANDARD)
+    phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
     D = sec.D
     As = sec.As
-    nuo = as3600.squash_load(sec.fc, D * sec.b - As, As, sec.fsy)
-    nuot = nm.tension_capacity(sec)
+    nuo = std.squash_load(sec.fc, D * sec.b - As, As, sec.fsy)
+    top = std.max_compression(sec.fc, D * sec.b - As, As, sec.fsy, phi0)
+    nuot = std.tension_capacity(As, sec.fsy)
     d0 = sec.d0
     dn_b = d0 * sec.eps_cu / (sec.eps_cu + sec.fsy / sec.Es)
     nub, _ = nm.forces(sec, dn_b)
@@ -113,26 +185,35 @@ def interaction(
     nd, md = nm.forces(sec, D)
     if of is not None:  # from here on, one row per N*
         sec = sec.take(of)
-        D, nuo, nuot, nub, dn0, m0, kuo, nd, md = (v[of] for v in (D, nuo, nuot, nub, dn0, m0, kuo, nd, md))
+        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0 = (
+            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0)
+        )
+    fsy = sec.fsy
 
-    def phi_of(n, rows=None):  # Table 2.2.2 phi at Nu = n, for all rows or those given
+    def state(n, dn, rows=None) -> SectionState:  # what phi may depend on, at (Nu, dn)
         pick = (lambda v: v) if rows is None else (lambda v: v[rows])
-        return as3600.phi_axial_bending(n, pick(nub), pick(nuot), pick(kuo), phi0)
+        return SectionState(
+            nu=n, dn=dn, d0=pick(d0), fy=pick(fsy), nub=pick(nub), nuot=pick(nuot), kuo=pick(kuo),
+            eps_cu=sec.eps_cu, Es=sec.Es,
+        )  # fmt: skip
 
-    phi_d = phi_of(nd)
-    phi_b = as3600.phi_bending(kuo)
-    # regular region: phi(N) N = N*, N between 0 and decompression
+    def phi_at(n, dn, rows=None):  # the standard's phi at the nominal point (n, dn)
+        return std.phi_axial_bending(state(n, dn, rows), phi0)
+
+    phi_d = phi_at(nd, D)
+    phi_b = phi_at(np.zeros(D.shape), dn0)  # pure bending
+    # regular region: phi N = N*, N between 0 and decompression
     target = np.clip(n_star, 0.0, phi_d * nd)
-    dn = nm.solve_dn(sec, target, dn0, D, scale=phi_of)
+    dn = _solve_design(sec, target, dn0, D, phi_at)
     nu, mu = nm.forces(sec, dn)
-    phi = phi_of(nu)
+    phi = phi_at(nu, dn)
     phi_mu = phi * np.abs(mu)
-    top = phi0 * nuo
+    line_end = phi0 * nuo  # the straight line above decompression ends here (AS: = top)
     above = n_star > phi_d * nd
-    frac_up = np.clip((top - n_star) / np.maximum(top - phi_d * nd, 1e-9), 0.0, 1.0)
+    frac_up = np.clip((line_end - n_star) / np.maximum(line_end - phi_d * nd, 1e-9), 0.0, 1.0)
     phi_mu = np.where(above, phi_d * np.abs(md) * frac_up, phi_mu)
     tension = n_star < 0
-    bottom = as3600.PHI_TENSION * nuot
+    bottom = std.phi_tension * nuot
     frac_down = np.clip(1.0 - n_star / np.where(bottom < 0, bottom, -1.0), 0.0, 1.0)
     phi_mu = np.where(tension, phi_b * np.abs(m0) * frac_down, phi_mu)
     region = np.where(
@@ -147,6 +228,9 @@ def interaction(
         nd=nd,
         md=md,
         phi_d=phi_d,
+        phi_b=phi_b,
+        d0=d0,
+        fsy=np.broadcast_to(fsy, D.shape),
         dn=dn,
         dn0=dn0,
         nu=nu,
@@ -154,33 +238,37 @@ def interaction(
         phi=np.where(above, phi0, np.where(tension, phi_b, phi)),
         phi_mu=phi_mu,
         top=top,
+        line_end=line_end,
         bottom=bottom,
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_of)
+        out |= radial(sec, n_star, m_star, out, phi_at)
     return out
 
 
-def _oriented(df: pd.DataFrame, first: np.ndarray) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
+def _oriented(
+    df: pd.DataFrame, first: np.ndarray, std: Standard
+) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
     """Each distinct pier's section twice: compressed at its start (rows 0..k-1) and at its end
     (rows k..2k-1); which piers are asymmetric; and for each row whether M* compresses the end
     (M* >= 0, the sign convention of the actions sheets)."""
-    base = rect_sections(df.iloc[first])
+    base = rect_sections(df.iloc[first], std)
     sec = nm.concat(base, base.flipped())
     return sec, asymmetric(df.iloc[first]), df.m.to_numpy(float) >= 0
 
 
-RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE = 1, 2, 3, 0
+RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE, RAY_CAP = 1, 2, 3, 0, 4
 RAY_TEXT = {
     RAY_TENSION: "tension side",
     RAY_CURVE: "strain compatibility",
     RAY_SQUASH: "near squash",
     RAY_NONE: "no actions",
+    RAY_CAP: "axial upper limit",
 }
 
 
-def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_of) -> dict[str, np.ndarray]:
+def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, np.ndarray]:
     """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
     diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
     compression alike (docs/engineering-basis.md, "Axial + bending utilisation").
@@ -188,19 +276,21 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_of) -> dict[str, n
     The factored diagram is the one `interaction` uses: on the tension side the straight line
     from (0, phi Muo) to (phi Nuot, 0); between pure bending and decompression the
     strain-compatibility points (phi Nu, phi Mu)(dn); from decompression the straight line to
-    (phi0 Nuo, 0). `r` is `interaction`'s per-row dict, `sec` one section per row; N, N mm."""
+    (phi0 Nuo, 0); cut flat at the standard's upper limit on N* where that lies below the
+    line's end (ACI 318 phi 0.80 Po: lambda is then at least N*/top, the diagram being the
+    uncut one intersected with N <= top). `r` is `interaction`'s per-row dict, `sec` one section
+    per row, `phi_at(N, dn, rows)` the standard's phi; N, N mm."""
     n = np.asarray(n_star, dtype=float)
     m = np.abs(np.asarray(m_star, dtype=float))
-    phi_b = as3600.phi_bending(r["kuo"])
-    phi_mo = phi_b * np.abs(r["m0"])
+    phi_mo = r["phi_b"] * np.abs(r["m0"])
     n1, m1 = r["phi_d"] * r["nd"], r["phi_d"] * np.abs(r["md"])
     tension = n < 0
     squash = (n >= 0) & (m * n1 < n * m1)  # ray below the decompression point's
     curve = ~tension & ~squash
     lam = np.zeros(n.shape)
     where = RAY_CURVE * np.ones(n.shape, dtype=int)
-    lam = np.where(tension, as3600.tension_side_utilisation(n, m, r["bottom"], phi_mo), lam)
-    lam = np.where(squash, as3600.ray_segment_utilisation(n, m, n1, m1, r["top"], 0.0), lam)
+    lam = np.where(tension, tension_side_utilisation(n, m, r["bottom"], phi_mo), lam)
+    lam = np.where(squash, ray_segment_utilisation(n, m, n1, m1, r["line_end"], 0.0), lam)
     where = np.where(tension, RAY_TENSION, np.where(squash, RAY_SQUASH, where))
     dn_ray = np.full(n.shape, np.nan)
     nu_ray = np.full(n.shape, np.nan)
@@ -209,16 +299,31 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_of) -> dict[str, n
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
         part = sec.take(rows)
-        dn = nm.solve_ray(
-            part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, k: phi_of(v, _sub(rows, k))
+        dn = _solve_ray(
+            part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, x, k: phi_at(v, x, _sub(rows, k))
         )
         nu, mu = nm.forces(part, dn)
-        phi = phi_of(nu, rows)
+        phi = phi_at(nu, dn, rows)
         dn_ray[rows], nu_ray[rows], mu_ray[rows], phi_ray[rows] = dn, nu, np.abs(mu), phi
         lam[rows] = (n[rows] + m[rows]) / (phi * (nu + np.abs(mu)))
     where = np.where((n == 0) & (m == 0), RAY_NONE, where)
+    lam_diagram, ray_diagram = lam, where
+    cut = r["line_end"] > r["top"]  # never for AS 3600 (its line ends at its upper limit)
+    if cut.any():
+        with np.errstate(divide="ignore", invalid="ignore"):
+            flat = np.where(cut & (n > 0), n / r["top"], 0.0)
+        where = np.where(flat > lam, RAY_CAP, where)
+        lam = np.maximum(lam, flat)
     return dict(
-        lam=lam, ray=where, dn_ray=dn_ray, nu_ray=nu_ray, mu_ray=mu_ray, phi_ray=phi_ray, phi_mo=phi_mo
+        lam=lam,
+        lam_diagram=lam_diagram,
+        ray=where,
+        ray_diagram=ray_diagram,
+        dn_ray=dn_ray,
+        nu_ray=nu_ray,
+        mu_ray=mu_ray,
+        phi_ray=phi_ray,
+        phi_mo=phi_mo,
     )
 
 
@@ -242,26 +347,30 @@ def check_pier_axial(
     settings: Settings,
     working: bool = True,
     text: bool = True,
+    *,
+    std: Standard | None = None,
 ) -> pd.DataFrame:
     """In-plane axial force and bending of every pier row, kN and kNm (without `working`, the
     numbers only; without `text`, every column but the working text f_nm and f_s, which the
-    same call on the rows written makes later: `compute --detail`)."""
+    same call on the rows written makes later: `compute --detail`). Column keys keep their
+    first (AS 3600) names (`nuo` the squash load, AS Nuo or ACI Po); headers are neutral."""
+    std = std or get_standard(settings.standard)
     df = actions.merge(piers[[c for c in GEOMETRY if c in piers]], on=["storey", "pier_id"], how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
-    phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
+    phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
         return df
     first, of = per_pier(df)
-    sec, asym, end_compressed = _oriented(df, first)
+    sec, asym, end_compressed = _oriented(df, first, std)
     n_star = df.n.to_numpy(float) * 1e3
     m_raw = df.m.to_numpy(float) * 1e6
-    m_design = as3600.min_eccentricity_moment(m_raw, n_star, df.Lw.to_numpy(float))
+    m_design = std.design_moment(m_raw, n_star, df.Lw.to_numpy(float))
     # M* > 0 compresses the pier's end (the flipped section, rows len(first) on); where the
     # minimum eccentricity sets |M*| the sense is open: both are run and the worse kept
     both = asym[of] & (m_design > np.abs(m_raw))
     rows = np.concatenate([np.arange(len(df)), np.flatnonzero(both)])
     sense = np.concatenate([end_compressed, ~end_compressed[both]])
-    r = interaction(sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows])
+    r = interaction(sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows], std=std)
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
     worse = r["lam"][other] > r["lam"][np.flatnonzero(both)]
@@ -271,7 +380,7 @@ def check_pier_axial(
     section_of = (of[rows] + len(first) * sense)[pick]
     kn, knm = 1e-3, 1e-6
     df["m_design"] = m_design * knm
-    df["m_min"] = np.maximum(n_star, 0.0) * as3600.MIN_ECCENTRICITY * df.Lw.to_numpy(float) * knm
+    df["m_min"] = np.maximum(n_star, 0.0) * std.min_eccentricity * df.Lw.to_numpy(float) * knm
     df["nuo"], df["nuot"], df["nub"] = r["nuo"] * kn, r["nuot"] * kn, r["nub"] * kn
     df["phi_nuo"], df["kuo"], df["dn"] = r["top"] * kn, r["kuo"], np.where(r["region"] == 2, r["dn"], np.nan)
     df["phi_nuot"] = r["bottom"] * kn
@@ -293,19 +402,32 @@ def check_pier_axial(
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
     ray = r["ray"]
     df["governs"] = [RAY_TEXT[int(k)] for k in ray.tolist()]
+    sym = std.symbols
     df["clause"] = np.select(
-        [ray == RAY_TENSION, ray == RAY_SQUASH],
-        ["Table 2.2.2 tension", "Cl 10.6.2.2 squash, phi0, Cl 10.1.2"],
-        "Cl 8.1.3 / Table 2.2.2, Cl 10.1.2",
+        [ray == RAY_TENSION, (ray == RAY_SQUASH) | (ray == RAY_CAP)],
+        [sym["clause_tension"], sym["clause_squash"]],
+        sym["clause_curve"],
     )
     if not working:
-        return _simplified(df, settings, of, working)
+        return _simplified(df, settings, of, working, std)
     df["bars"] = np.asarray(bars.describe(df.iloc[first]), dtype=object)[of]
     if not text:  # every column but the working text (made later for the rows written)
-        return _simplified(df, settings, of, working=False)
-    phi_b = as3600.phi_bending(r["kuo"])
+        return _simplified(df, settings, of, working=False, std=std)
+    ray_state = SectionState(
+        nu=r["nu_ray"], dn=r["dn_ray"], d0=r["d0"], fy=r["fsy"], nub=r["nub"], nuot=r["nuot"],
+        kuo=r["kuo"], eps_cu=sec.eps_cu, Es=sec.Es,
+    )  # fmt: skip
+    phi_note = np.full(len(df), "", dtype=object)
+    on_curve = np.flatnonzero(r["ray_diagram"] == RAY_CURVE)
+    if on_curve.size:
+        part = SectionState(
+            *(np.asarray(getattr(ray_state, k))[on_curve]
+              for k in ("nu", "dn", "d0", "fy", "nub", "nuot", "kuo")),
+            eps_cu=ray_state.eps_cu, Es=ray_state.Es,
+        )  # fmt: skip
+        phi_note[on_curve] = std.phi_axial_bending_text(part)
     cols = plain(
-        ray,
+        r["ray_diagram"],
         df.n,
         df.m,
         df.Lw,
@@ -315,9 +437,8 @@ def check_pier_axial(
         r["nu_ray"] * kn,
         r["mu_ray"] * knm,
         r["phi_ray"],
-        df.kuo,
-        df.nub,
-        phi_b,
+        phi_note,
+        r["phi_b"],
         np.abs(r["m0"]) * knm,
         df.nuot,
         df.phi_nuot,
@@ -325,17 +446,19 @@ def check_pier_axial(
         r["nd"] * kn,
         np.abs(r["md"]) * knm,
         df.nuo,
+        r["line_end"] * kn,
         df.phi_nuo,
+        r["lam_diagram"],
         df.util,
         df.phi_mu,
         df.u_fixed_n,
     )
     df["f_nm"] = [
         ("" if c == "either" else f"M* compresses the pier's {c} (its end zones differ); ")
-        + _nm_text(*v, phi0)
+        + _nm_text(*v, phi0, std)
         for c, *v in zip(df.compressed.tolist(), *cols, strict=True)
     ]
-    return _simplified(df, settings, of, working)
+    return _simplified(df, settings, of, working, std)
 
 
 def _nm_text(
@@ -349,8 +472,7 @@ def _nm_text(
     nu,
     mu,
     phi,
-    kuo,
-    nub,
+    phi_note,
     phi_b,
     m0,
     nuot,
@@ -359,79 +481,102 @@ def _nm_text(
     nd,
     mdc,
     nuo,
-    phi_nuo,
+    line_end,
+    top,
+    u_diagram,
     util,
     phi_mu,
     u_old,
     phi0,
+    std,
 ) -> str:
-    """Working of the radial utilisation with every number substituted (kN, kNm)."""
-    if n > 0:
+    """Working of the radial utilisation with every number substituted (kN, kNm), in the
+    standard's symbols (`Standard.symbols`)."""
+    sym = std.symbols
+    Nu, Mu, sq, ten = sym["Nu"], sym["Mu"], sym["squash"], sym["tension"]
+    e_min = std.min_eccentricity
+    if n > 0 and e_min > 0:
         head = (
-            f"M* = max(|{m:.1f}|, 0.05 x {lw:.0f} mm x {n:.1f} kN = {m_min:.1f}) = {md_:.1f} kNm "
-            "(Cl 10.1.2); "
+            f"M* = max(|{num(m)}|, {e_min:g} x {lw:.0f} mm x {n:.1f} kN = {m_min:.1f}) = {md_:.1f} kNm "
+            f"({sym['design_moment']}); "
         )
     else:
-        head = f"M* = |{m:.1f}| = {md_:.1f} kNm; "
+        head = f"M* = |{num(m)}| = {md_:.1f} kNm; "
+    u_body = u_diagram if top < line_end else util
     if ray == RAY_TENSION:
         mo = phi_b * m0
         body = (
-            f"tension side: line from (0, phiMuo = {phi_b:.3f} x {m0:.1f} = {mo:.1f} kNm) to "
-            f"(phiNuot = 0.85 x {nuot:.1f} = {phi_nuot:.1f} kN, 0); "
-            f"U = N*/phiNuot + M*/phiMuo = {n:.1f} / {phi_nuot:.1f} + {md_:.1f} / {mo:.1f} = {util:.3f}"
+            f"tension side: line from (0, phi{Mu}o = {phi_b:.3f} x {m0:.1f} = {mo:.1f} kNm) to "
+            f"(phi{ten} = {std.phi_tension:.2f} x {nuot:.1f} = {phi_nuot:.1f} kN, 0); "
+            f"U = N*/phi{ten} + M*/phi{Mu}o = {n:.1f} / {phi_nuot:.1f} + {md_:.1f} / {mo:.1f} = {u_body:.3f}"
         )
     elif ray == RAY_SQUASH:
         n1, m1 = phi_d * nd, phi_d * mdc
-        dN, dM = phi_nuo - n1, -m1
+        dN, dM = line_end - n1, -m1
         body = (
-            f"ray below decompression (phiNu, phiMu) = ({phi_d:.3f} x {nd:.1f}, {phi_d:.3f} x {mdc:.1f}) = "
-            f"({n1:.1f}, {m1:.1f}); line to (phiNuo = {phi0:.2f} x {nuo:.1f} = {phi_nuo:.1f} kN, 0); "
+            f"ray below decompression (phi{Nu}, phi{Mu}) = "
+            f"({phi_d:.3f} x {nd:.1f}, {phi_d:.3f} x {mdc:.1f}) = "
+            f"({n1:.1f}, {m1:.1f}); line to (phi{sq} = {phi0:.2f} x {nuo:.1f} = {line_end:.1f} kN, 0); "
             f"U = (N* dM - M* dN) / (N1 dM - M1 dN) = ({n:.1f} x {dM:.1f} - {md_:.1f} x {dN:.1f}) / "
-            f"({n1:.1f} x {dM:.1f} - {m1:.1f} x {dN:.1f}) = {util:.3f}"
+            f"({n1:.1f} x {dM:.1f} - {m1:.1f} x {dN:.1f}) = {u_body:.3f}"
         )
     elif ray == RAY_CURVE:
         pn, pm = phi * nu, phi * mu
         body = (
-            f"ray meets the curve at dn = {dn:.0f} mm: Nu = {nu:.1f} kN, Mu = {mu:.1f} kNm, "
-            f"phi = {phi:.3f} (kuo {kuo:.3f}, Nub {nub:.0f} kN) -> ({pn:.1f}, {pm:.1f}); "
-            f"U = (N* + M*) / (phiNu + phiMu) = ({n:.1f} + {md_:.1f}) / ({pn:.1f} + {pm:.1f}) = {util:.3f}"
+            f"ray meets the curve at dn = {dn:.0f} mm: {Nu} = {nu:.1f} kN, {Mu} = {mu:.1f} kNm, "
+            f"phi = {phi:.3f} ({phi_note}) -> ({pn:.1f}, {pm:.1f}); "
+            f"U = (N* + M*) / (phi{Nu} + phi{Mu}) = ({n:.1f} + {md_:.1f}) / ({pn:.1f} + {pm:.1f}) "
+            f"= {u_body:.3f}"
         )
     else:
         body = "no actions: U = 0"
-    cap, name = (phi_nuo, "phiNuo") if n >= 0 else (phi_nuot, "phiNuot")
+    if top < line_end and n > 0:  # the standard's upper limit on N* cuts the diagram flat
+        body += (
+            f"; {sym['top_working'].format(phi=phi0, squash=nuo, top=top)}: "
+            f"U = max({u_body:.3f}, N*/{sym['top']} = {n:.1f} / {top:.1f} = {n / top:.3f}) = {util:.3f}"
+        )
+    cap, name = (top, sym["top"]) if n >= 0 else (phi_nuot, f"phi{ten}")
     return (
-        f"{head}{body}; at fixed N*: max(M*/phiMu = {md_:.1f} / {phi_mu:.1f}, "
+        f"{head}{body}; at fixed N*: max(M*/phi{Mu} = {md_:.1f} / {phi_mu:.1f}, "
         f"N*/{name} = {n:.1f} / {cap:.1f}) = {u_old:.3f}"
     )
 
 
-def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True) -> pd.DataFrame:
-    """Cl 11.5 simplified method per row, with its applicability evaluated row by row; `of`
-    gives each row's storey x pier group (`per_pier`)."""
-    phi = s.phi_simplified if s.phi_simplified is not None else as3600.PHI_SIMPLIFIED
+def end_axial_per_length(n_star, m_star, Lw):
+    """Largest and least design axial force per unit length of a wall with an in-plane moment,
+    N*/Lw +- 6 |M*| / Lw^2 (linear elastic distribution along the wall: statics, the same for
+    every standard), for the simplified method, which takes the force per unit length at the
+    more compressed end. N, N mm, mm."""
+    n = np.asarray(n_star, dtype=float)
+    lw = np.asarray(Lw, dtype=float)
+    bend = 6.0 * np.abs(np.asarray(m_star, dtype=float)) / lw**2
+    return n / lw + bend, n / lw - bend
+
+
+def _simplified(
+    df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True, std: Standard | None = None
+) -> pd.DataFrame:
+    """The standard's simplified method for walls in compression per row (AS 3600 Cl 11.5,
+    ACI 318 11.5.3), with its applicability evaluated row by row; `of` gives each row's
+    storey x pier group (`per_pier`)."""
+    std = std or get_standard(s.standard)
+    phi = s.phi_simplified if s.phi_simplified is not None else std.phi_simplified
     tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
-    k = as3600.effective_height_factor(Hc, Lw, df.supported_edges.to_numpy(), s.ends_restrained == "yes")
+    k = std.effective_height_factor(Hc, Lw, df.supported_edges.to_numpy(), s.ends_restrained == "yes")
     hwe = k * Hc
     n = df.n.to_numpy(float)
     m_out = df.m_out.to_numpy(float) if "m_out" in df else np.zeros(len(df))
     e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
-    e = as3600.simplified_eccentricity(e_given, tw)
-    ea = as3600.additional_eccentricity(hwe, tw)
-    cap = as3600.simplified_capacity(df.fc.to_numpy(float), tw, e, ea, Lw, phi) * 1e-3
+    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
+    cap = std.simplified_capacity(df.fc.to_numpy(float), tw, Lw, hwe, e_given, phi) * 1e-3
     # in-plane moment considered: the design axial force per unit length at the pier's more
-    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with the Cl 10.1.2 minimum is for the column check)
-    hi, lo = as3600.wall_end_axial_per_length(n * 1e3, df.m.to_numpy(float) * 1e6, Lw)
+    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with any least eccentricity is for the column check)
+    hi, lo = end_axial_per_length(n * 1e3, df.m.to_numpy(float) * 1e6, Lw)
     stress = hi / tw
-    limit = np.where(df.v_layers.to_numpy() >= 2, 30.0, 20.0)
+    layers = df.v_layers.to_numpy()
     slender = hwe / tw
-    one_layer = df.v_layers.to_numpy() < 2
-    fails = {  # each condition of Cl 11.5.1 that rules the method out, as a row mask
-        "not in compression": n <= 0,
-        "end in tension": (n > 0) & (lo < 0),
-        "slender": slender > limit,
-        "stress": (stress > 3.0) & one_layer,
-        "load outside the middle third": e > tw / 6,
-    }
+    # each condition that rules the method out, as a row mask, by name
+    fails = std.simplified_exclusions(n * 1e3, lo, tw, hwe, e_given, layers, stress)
     applies = ~np.logical_or.reduce(list(fails.values()))
     df["k"], df["hwe"], df["e"], df["ea"] = k, hwe, e, ea
     df["slender"] = hwe / tw
@@ -441,29 +586,31 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
     df["n_end_lo"] = lo * Lw * 1e-3
     df["util_s"] = np.where(applies, df.n_end / np.where(cap > 0, cap, np.nan), np.nan)
     df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
+    df["clause_s"] = std.symbols["simplified_clause"]
     if not working:
         return df
     reasons = [""] * len(df)
     for i in np.flatnonzero(~applies).tolist():
         why = []
-        if fails["not in compression"][i]:
-            why.append("not in compression")
-        if fails["end in tension"][i]:
-            why.append(f"one end in tension under in-plane M* ({lo[i]:.0f} N/mm): designed as a column")
-        if fails["slender"][i]:
-            why.append(f"Hwe/tw {slender[i]:.1f} > {limit[i]:.0f}")
-        if fails["stress"][i]:
-            why.append(f"axial stress {stress[i]:.1f} MPa > 3 MPa with one layer")
-        if fails["load outside the middle third"][i]:
-            why.append("load outside the middle third")
+        for name, mask in fails.items():
+            if not mask[i]:
+                continue
+            if name == "end in tension":
+                why.append(f"one end in tension under in-plane M* ({lo[i]:.0f} N/mm): designed as a column")
+            elif name == "slender":
+                why.append(f"Hwe/tw {slender[i]:.1f} > {std.simplified_slenderness_limit(layers[i]):.0f}")
+            elif name == "stress":
+                why.append(f"axial stress {stress[i]:.1f} MPa > 3 MPa with one layer")
+            else:
+                why.append(name)
         reasons[i] = "; ".join(why)
     df["why_s"] = reasons
     # the same for every combination of a pier unless e or the reason differs: made once each
     work = pd.DataFrame(dict(k=k, Hc=Hc, hwe=hwe, e=e, tw=tw, ea=ea, fc=df.fc, Lw=Lw, cap=cap, ok=applies))
     work["why"] = reasons
-    text = once_per(work, [of, "e", "ok", "why"], lambda w: _simplified_text(w, phi))
+    text = once_per(work, [of, "e", "ok", "why"], lambda w: std.simplified_text(w, phi))
     df["f_s"] = [
-        f"{t}; end: {nn:.1f} kN / {lw:.0f} + 6 x |{mm:.1f}| kNm / {lw:.0f}^2 = {h:.1f} N/mm -> "
+        f"{t}; end: {nn:.1f} kN / {lw:.0f} + 6 x |{num(mm)}| kNm / {lw:.0f}^2 = {h:.1f} N/mm -> "
         f"{h:.1f} x {lw:.0f} = {ne:.1f} kN; U = {ne:.1f} / {c:.1f} = {u:.3f}"
         if ok
         else t
@@ -472,19 +619,3 @@ def _simplified(df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = T
         )
     ]
     return df
-
-
-def _simplified_text(w: pd.DataFrame, phi: float) -> list[str]:
-    return [
-        (
-            f"Hwe = {kk:.3f} x {h:.0f} = {he:.0f} mm; e = {ee:.1f} mm; "
-            f"ea = {he:.0f}^2 / (2500 x {t:.0f}) = {a:.1f} mm; "
-            f"phiNu = {phi:.2f} x ({t:.0f} - 1.2 x {ee:.1f} - 2 x {a:.1f}) x 0.6 x {fc:g} x {lw:.0f} "
-            f"= {c:.1f} kN"
-        )
-        if ok
-        else f"not applicable: {why}"
-        for kk, h, he, ee, t, a, fc, lw, c, ok, why in zip(
-            *plain(w.k, w.Hc, w.hwe, w.e, w.tw, w.ea, w.fc, w.Lw, w.cap, w.ok), w.why.tolist(), strict=True
-        )
-    ]

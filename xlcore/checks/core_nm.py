@@ -1,5 +1,8 @@
-"""Biaxial strength of the whole core at each storey and combination (AS 3600:2018 Cl 8.1.3,
-10.6.2.2, Table 2.2.2), by strain compatibility over every wall and pier of the net section."""
+"""Biaxial strength of the whole core at each storey and combination, by strain compatibility
+over every wall and pier of the net section, to the Project's design standard (AS 3600:2018
+Cl 8.1.3, 10.6.2.2, Table 2.2.2; ACI 318-19 22.2, 22.4, Tables 21.2.2 and 22.4.2.1): the stress
+block, squash and tension strength, phi at each nominal point and the upper limit on N* are the
+standard's (`codes.base.Standard`)."""
 
 from __future__ import annotations
 
@@ -7,7 +10,8 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks.axial import pier_bars
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import SectionState, Standard
 from xlcore.distribution import by_storey
 from xlcore.geometry import ZONE_COLUMNS
 from xlcore.mechanics import nm_core
@@ -21,8 +25,12 @@ SAMPLES = 96  # points on each design curve between pure bending and decompressi
 CHUNK = 256  # curve points evaluated together: keeps the working arrays in cache
 
 
-def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> nm_core.Assembly:
-    """One section per storey from its piers (plan in mm), moments about the net centroid."""
+def storey_assemblies(
+    piers: pd.DataFrame, plans: dict, storeys: list[str], std: Standard | None = None
+) -> nm_core.Assembly:
+    """One section per storey from its piers (plan in mm), moments about the net centroid; the
+    stress block of `std` (default AS 3600)."""
+    std = std or get_standard("AS 3600:2018")
     walls_per_storey, centroids = [], []
     piers_at = by_storey(piers)
     for storey in storeys:
@@ -49,7 +57,7 @@ def storey_assemblies(piers: pd.DataFrame, plans: dict, storeys: list[str]) -> n
         walls_per_storey,
         fibre=FIBRE,
         across=ACROSS,
-        block=lambda fc: (as3600.alpha2(fc), as3600.gamma(fc)),
+        block=std.stress_block,
         centroid=centroids,
     )
 
@@ -60,12 +68,20 @@ def _section_key(sp: pd.DataFrame, sec) -> tuple:
     return (tuple(map(tuple, sp[cols].round(6).to_numpy())), round(sec.xc, 9), round(sec.yc, 9))
 
 
-def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings: Settings) -> pd.DataFrame:
+def check_core_nm(
+    piers: pd.DataFrame,
+    plans: dict,
+    core: pd.DataFrame,
+    settings: Settings,
+    *,
+    std: Standard | None = None,
+) -> pd.DataFrame:
     """One row per storey x combination: design moment capacity in the direction of (Mx*, My*)
     at N*, interpolated between neutral-axis angles 15 degrees apart, and the utilisation."""
+    std = std or get_standard(settings.standard)
     if core.empty:
         return pd.DataFrame()
-    phi0 = settings.phi_compression if settings.phi_compression is not None else as3600.PHI_COMPRESSION
+    phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     # storeys with the same walls, grades and bars share one section: solve each section once
     by_key: dict[tuple, str] = {}
     section_of = {}
@@ -74,7 +90,7 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
         key = _section_key(piers_at[storey], plans[storey].section)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
-    asm = storey_assemblies(piers, plans, storeys)
+    asm = storey_assemblies(piers, plans, storeys, std)
     s_index = {s: i for i, s in enumerate(storeys)}
     theta = np.linspace(-np.pi, np.pi, ANGLES, endpoint=False)
     # per section x angle: the key points of the interaction diagram
@@ -89,17 +105,30 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
     nub, _, _ = nm_core.forces(asm, si, th, dn_b)
     nd, mxd, myd = nm_core.forces(asm, si, th, full)
     fa, fc, ba, fsy = asm.fa, asm.fc, asm.ba, asm.fsy
-    conc = as3600.alpha1(fc) * fc * fa
-    steel = np.minimum(fsy, 0.0025 * asm.Es) * ba
+    # the standard's squash load fibre by fibre and bar by bar (AS alpha1 f'c, fsy <= 0.0025 Es;
+    # ACI 0.85 f'c, fy <= 550 MPa), less the concrete the bars displace
+    conc = std.squash_load(fc, fa, 0.0, 0.0)
+    steel = std.squash_load(0.0, 0.0, ba, fsy)
     area_bars = ba.sum(axis=1)
-    nuo = conc.sum(axis=1) + steel.sum(axis=1) - area_bars * (as3600.alpha1(fc) * fc).min(axis=1)
+    nuo = conc.sum(axis=1) + steel.sum(axis=1) - area_bars * std.squash_load(fc, 1.0, 0.0, 0.0).min(axis=1)
     mx_sq = (conc * (asm.fy - asm.yc[:, None])).sum(axis=1) + (steel * (asm.by - asm.yc[:, None])).sum(axis=1)
     my_sq = (conc * (asm.fx - asm.xc[:, None])).sum(axis=1) + (steel * (asm.bx - asm.xc[:, None])).sum(axis=1)
-    nuot = -(ba * fsy).sum(axis=1)
-    mx_t = (-(ba * fsy) * (asm.by - asm.yc[:, None])).sum(axis=1)
-    my_t = (-(ba * fsy) * (asm.bx - asm.xc[:, None])).sum(axis=1)
-    phi_b = as3600.phi_bending(kuo)
-    phi_d = as3600.phi_axial_bending(nd, nub, nuot[si], kuo, phi0)
+    bar_t = std.tension_capacity(ba, fsy)
+    nuot = bar_t.sum(axis=1)
+    mx_t = (bar_t * (asm.by - asm.yc[:, None])).sum(axis=1)
+    my_t = (bar_t * (asm.bx - asm.xc[:, None])).sum(axis=1)
+    fy_max = asm.fsy.max(axis=1)[si]
+
+    def phi_at(n, dn, rows):  # the standard's phi at nominal points of section x angle `rows`
+        state = SectionState(
+            nu=n, dn=dn, d0=d0[rows], fy=fy_max[rows], nub=nub[rows], nuot=nuot[si[rows]], kuo=kuo[rows],
+            eps_cu=asm.eps_cu, Es=asm.Es,
+        )  # fmt: skip
+        return std.phi_axial_bending(state, phi0)
+
+    every = np.arange(len(si))
+    phi_b = phi_at(np.zeros(len(si)), dn0, every)
+    phi_d = phi_at(nd, full, every)
 
     # design curves between pure bending and decompression, sampled densely in dn (geometric
     # spacing), then read at each N* by interpolation on phi(Nu) Nu, which rises with dn
@@ -110,7 +139,7 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
     for part in np.array_split(np.arange(len(rows_s)), max(len(rows_s) // CHUNK, 1)):  # cache-sized blocks
         fr = nm_core.frame(asm, si[rows_s[part]], th[rows_s[part]])
         n_s[part], mx_s[part], my_s[part] = nm_core.forces_in(fr, dn_s.ravel()[part])
-    phi_s = as3600.phi_axial_bending(n_s, nub[rows_s], nuot[si[rows_s]], kuo[rows_s], phi0)
+    phi_s = phi_at(n_s, dn_s.ravel(), rows_s)
     dn_curve = (phi_s * n_s).reshape(-1, SAMPLES)
     dmx_curve = (phi_s * mx_s).reshape(-1, SAMPLES)
     dmy_curve = (phi_s * my_s).reshape(-1, SAMPLES)
@@ -126,21 +155,25 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
         here = kk == row
         px[here] = np.interp(target[here], dn_curve[row], dmx_curve[row])
         py[here] = np.interp(target[here], dn_curve[row], dmy_curve[row])
-    top, bottom = phi0 * nuo[idx], as3600.PHI_TENSION * nuot[idx]
+    # above decompression a straight line to phi0 x squash (AS: phi0 Nuo, its upper limit)
+    line_end, bottom = phi0 * nuo[idx], std.phi_tension * nuot[idx]
     above = n_star[ci] > phi_d[kk] * nd[kk]
-    up = np.clip((n_star[ci] - phi_d[kk] * nd[kk]) / np.maximum(top - phi_d[kk] * nd[kk], 1e-9), 0, 1)
+    up = np.clip((n_star[ci] - phi_d[kk] * nd[kk]) / np.maximum(line_end - phi_d[kk] * nd[kk], 1e-9), 0, 1)
     px = np.where(above, phi_d[kk] * mxd[kk] * (1 - up) + phi0 * mx_sq[idx] * up, px)
     py = np.where(above, phi_d[kk] * myd[kk] * (1 - up) + phi0 * my_sq[idx] * up, py)
     tension = n_star[ci] < 0
     down = np.clip(n_star[ci] / bottom, 0, 1)
-    px = np.where(tension, phi_b[kk] * mx0[kk] * (1 - down) + as3600.PHI_TENSION * mx_t[idx] * down, px)
-    py = np.where(tension, phi_b[kk] * my0[kk] * (1 - down) + as3600.PHI_TENSION * my_t[idx] * down, py)
+    px = np.where(tension, phi_b[kk] * mx0[kk] * (1 - down) + std.phi_tension * mx_t[idx] * down, px)
+    py = np.where(tension, phi_b[kk] * my0[kk] * (1 - down) + std.phi_tension * my_t[idx] * down, py)
     px, py = px.reshape(len(core), ANGLES), py.reshape(len(core), ANGLES)
 
+    sym = std.symbols
+    cut = f"; N* not above {sym['top']}" if std.max_compression_ratio < 1.0 else ""
     rows = []
     for j, rec in enumerate(core.itertuples(index=False)):
         k = case_storey[j]
-        t_top, t_bottom = phi0 * nuo[k], as3600.PHI_TENSION * nuot[k]
+        # the standard's upper limit on N* (AS phi0 Nuo; ACI phi 0.80 Po, a flat cut)
+        t_top, t_bottom = phi0 * nuo[k] * std.max_compression_ratio, std.phi_tension * nuot[k]
         demand = np.array([rec.mx, rec.my]) * 1e6
         cap = _along(px[j], py[j], demand)
         m_star = float(np.hypot(*demand))
@@ -150,9 +183,9 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
         n_ratio = n_star[j] / t_top if n_star[j] >= 0 else n_star[j] / t_bottom
         util = max(m_ratio, n_ratio)
         region = (
-            "tension: linear from pure bending to 0.85 Nuot"
+            f"tension: linear from pure bending to {std.phi_tension:.2f} {sym['tension']}"
             if n_star[j] < 0
-            else "strain compatibility at N* (above decompression: linear to phi Nuo)"
+            else f"strain compatibility at N* (above decompression: linear to phi {sym['squash']}{cut})"
         )
         rows.append(
             dict(
@@ -169,23 +202,23 @@ def check_core_nm(piers: pd.DataFrame, plans: dict, core: pd.DataFrame, settings
                 util=util,
                 status=PASS if util <= 1.0 else FAIL,
                 governs="axial" if n_ratio >= m_ratio else "moment at N*",
-                clause="Cl 8.1.3 / 10.6.2.2 / Table 2.2.2",
+                clause=sym["clause_core"],
                 working=(
                     f"{region}; contour at N* = {rec.n:.0f} kN over {ANGLES} neutral-axis angles; "
                     f"phiMu along M* = {cap / 1e6:.0f} kNm; U = max(M*/phiMu = {m_star / 1e6:.0f} / "
-                    f"{cap / 1e6:.0f}, {_axial_text(rec.n, t_top, t_bottom)}) = {util:.3f}"
+                    f"{cap / 1e6:.0f}, {_axial_text(rec.n, t_top, t_bottom, sym)}) = {util:.3f}"
                 ),
             )
         )
     return pd.DataFrame(rows)
 
 
-def _axial_text(n: float, t_top: float, t_bottom: float) -> str:
-    """The axial ratio with its numbers: compression against phi Nuo, tension against the
-    factored tension capacity (both in N here, shown in kN)."""
+def _axial_text(n: float, t_top: float, t_bottom: float, sym) -> str:
+    """The axial ratio with its numbers: compression against the standard's upper limit (AS
+    phi Nuo), tension against the factored tension capacity (both in N here, shown in kN)."""
     if n >= 0:
-        return f"N*/phiNuo = {n:.0f} / {t_top / 1e3:.0f}"
-    return f"N*/phiNuot = {n:.0f} / {t_bottom / 1e3:.0f}"
+        return f"N*/{sym['top']} = {n:.0f} / {t_top / 1e3:.0f}"
+    return f"N*/phi{sym['tension']} = {n:.0f} / {t_bottom / 1e3:.0f}"
 
 
 def _along(px: np.ndarray, py: np.ndarray, demand: np.ndarray) -> float:

@@ -1,7 +1,8 @@
 """Elastic stress check of the whole core at each storey (the quick first method):
 sigma = N/A +- bending over the net core section; tension zones; the tension resultant in each
-wall against its vertical steel (phi 0.85, Table 2.2.2 axial tension, Class N); the peak
-compression against a limit set in the Project sheet."""
+wall against its vertical steel (phi for axial tension of the design standard: AS 3600:2018
+Table 2.2.2 0.85, Class N; ACI 318-19 Table 21.2.2 0.90); the peak compression against a limit
+set in the Project sheet (the trigger of end-zone / boundary-element detailing)."""
 
 from __future__ import annotations
 
@@ -9,14 +10,15 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks import plain
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import Standard
 from xlcore.distribution import StoreyPlan, by_storey, stack
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
 FIBRE = 0.1  # m: fibre length along each pier
-FLAG_END_ZONE = "end-zone detailing (Cl 14.6)"
+FLAG_END_ZONE = "end-zone detailing (Cl 14.6)"  # AS 3600's flag (Standard.symbols["boundary_flag"])
 
 
 def _fibres(sp: pd.DataFrame) -> pd.DataFrame:
@@ -58,9 +60,16 @@ def _zone_bars(sp: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray, np
 
 
 def check_core_stress(
-    piers: pd.DataFrame, plans: dict[str, StoreyPlan], core: pd.DataFrame, settings: Settings
+    piers: pd.DataFrame,
+    plans: dict[str, StoreyPlan],
+    core: pd.DataFrame,
+    settings: Settings,
+    *,
+    std: Standard | None = None,
 ) -> pd.DataFrame:
     """One row per storey x combination x wall. Stresses in MPa, forces in kN, steel in mm^2."""
+    std = std or get_standard(settings.standard)
+    phi_t = std.phi_tension
     parts = []
     limit = settings.compression_limit
     piers_at = by_storey(piers)
@@ -106,7 +115,7 @@ def check_core_stress(
                 sigma_min=np.minimum.reduceat(sigma, starts, axis=0).T.ravel(),
                 tension=tension.T.ravel(),
                 tension_area=tension_area.T.ravel(),
-                as_req=(tension * 1000.0 / (as3600.PHI_TENSION * fsy[:, None])).T.ravel(),
+                as_req=(tension * 1000.0 / (phi_t * fsy[:, None])).T.ravel(),
                 as_prov=provided.T.ravel(),
                 fc=per_wall(fc),
                 fsy=per_wall(fsy),
@@ -125,13 +134,15 @@ def check_core_stress(
     quake = df.combination.astype(str).isin(settings.earthquake).to_numpy()
     df["earthquake"] = np.where(quake, "yes", "no")
     df["flag"] = np.where(
-        quake, np.where(df.u_compression > 1.0, FLAG_END_ZONE, "none"), "n/a (not an earthquake combination)"
+        quake,
+        np.where(df.u_compression > 1.0, std.symbols["boundary_flag"], "none"),
+        "n/a (not an earthquake combination)",
     )
     df["util"] = df.u_tension
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
     df["governs"] = "tension steel"
     df["working"] = [
-        f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / (0.85 x {fy:g}) = {ar:.0f} mm2 "
+        f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / ({phi_t:.2f} x {fy:g}) = {ar:.0f} mm2 "
         f"vs {ap:.0f} mm2 in tension (field bars smeared, end-zone bars one by one); "
         f"sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(

@@ -1,4 +1,6 @@
-"""In-plane shear of every pier, every storey, every combination (AS 3600:2018 Cl 11.6)."""
+"""In-plane shear of every pier, every storey, every combination, to the Project's design
+standard (AS 3600:2018 Cl 11.6; ACI 318-19 11.5.4 / 18.10.4): the standard (`codes.base.Standard`)
+gives the capacity, the steel needed, the working text and the advice."""
 
 from __future__ import annotations
 
@@ -6,9 +8,14 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks import per_pier, plain
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import Standard
 from xlcore.model import Settings
 from xlcore.results import status, utilisation
+
+HEIGHT_OVERALL, HEIGHT_OPENING = "overall wall height", "opening height"  # layout.HEIGHT_BASES
+DETAIL_COLUMNS = ("eq1", "eq2", "floor", "alpha_c")
+"""The standards' intermediate shear terms as result columns (results.SHEAR_COLUMNS)."""
 
 
 def check_pier_shear(
@@ -17,6 +24,8 @@ def check_pier_shear(
     settings: Settings,
     working: bool = True,
     text: bool = True,
+    *,
+    std: Standard | None = None,
 ) -> pd.DataFrame:
     """Shear table: one row per storey x pier x combination, forces in kN.
 
@@ -24,7 +33,10 @@ def check_pier_shear(
     `working` the numbers only (the advice search runs thousands of variants). Without `text`
     every column but the working text (f_vuc, f_vu, f_util), which the same call on the rows
     written makes later (`compute --detail`: most rows of a tall tower are not written).
+    Column keys keep their first (AS 3600) names, e.g. `vuc` the concrete part; the headers
+    (results.py) are neutral.
     """
+    std = (std or get_standard(settings.standard)).configure(settings)
     geo = [
         "storey",
         "pier_id",
@@ -42,13 +54,13 @@ def check_pier_shear(
     df = actions.merge(piers[geo], on=["storey", "pier_id"], how="left")
     place = piers.set_index(["storey", "pier_id"]).position  # > 0: a pier beside an opening
     basis = settings.shear_height
-    if basis == as3600.HEIGHT_OVERALL:
+    if basis == HEIGHT_OVERALL:
         df["Hw"], h_whole = df.H_wall, df.H_wall
     else:
-        use_opening = basis == as3600.HEIGHT_OPENING
+        use_opening = basis == HEIGHT_OPENING
         df["Hw"], h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
     beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
-    ratio, wall_governs = as3600.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
+    ratio, wall_governs = std.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
     df["hw_lw"] = ratio
     if working:  # text on every row: not for the advice search's variants (10 % of its time)
         df["hw_basis"] = _basis_text(
@@ -60,31 +72,40 @@ def check_pier_shear(
             beside,
             wall_governs,
         )
-    phi = settings.phi_shear if settings.phi_shear is not None else as3600.PHI_WALL_SHEAR
-    # Hw passed so that Hw / Lw is the governing ratio (the whole wall's where it is larger)
-    r = as3600.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio * df.Lw, df.rho_h, df.rho_v, phi)
+    phi = settings.phi_shear if settings.phi_shear is not None else std.phi_wall_shear
+    r = std.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio, df.rho_h, df.rho_v, phi)
     kn = 1e-3
-    for key in ("eq1", "eq2", "floor", "vuc", "vus", "vu_max", "phi_vu"):
-        df[key] = getattr(r, key) * kn
-    df.loc[~np.isfinite(df.eq2), "eq2"] = np.nan  # Eq (2) applies only where Hw/Lw > 1
-    df["rho_w"], df["phi"] = r.rho_w, r.phi
+    # the standard's own intermediate terms (AS 3600: Eq (1), Eq (2), the floor; ACI 318:
+    # alpha_c), NaN where a standard has no such term, so every standard fills the same columns
+    for key in DETAIL_COLUMNS:
+        v = r.detail.get(key)
+        df[key] = np.nan if v is None else v * (kn if key in ("eq1", "eq2", "floor") else 1.0)
+    df.loc[~np.isfinite(df.eq2), "eq2"] = np.nan  # AS Eq (2) applies only where Hw/Lw > 1
+    for key, v in (("vuc", r.concrete), ("vus", r.steel), ("vu_max", r.limit), ("phi_vu", r.design)):
+        df[key] = v * kn
+    df["rho_w"] = r.detail.get("rho_w", df.rho_h.to_numpy(float))
+    df["phi"] = r.phi
     df["k"] = df.k * 1e-3  # N/mm -> kN/mm
     df["util"] = utilisation(df.v, df.phi_vu)
     df["status"] = status(df.util)
-    df["clause"] = [as3600.GOVERNING_TEXT[g] for g in r.governs]
+    df["clause"] = r.clauses()
     if not working:
         return df
-    rho_req, capped = as3600.wall_rho_required(df.v * 1e3, r.phi, r.vuc, r.vu_max, df.fsy, df.Lw, df.tw)
+    rho_req, capped = std.wall_steel_required(df.v * 1e3, r.phi, df.fc, df.fsy, df.Lw, df.tw, ratio)
     df["rho_req"] = rho_req
-    df["advice"] = _advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r.rho_w)
+    df["advice"] = std.wall_shear_advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r)
     if text:
         # capacity working depends on the pier alone: written once per storey x pier, then spread
         first, of = per_pier(df)
         once = df.iloc[first]
-        df["f_vuc"] = np.asarray(_vuc_text(once), dtype=object)[of]
-        df["f_vu"] = np.asarray(_vu_text(once), dtype=object)[of]
+        f_vuc, f_vu = std.wall_shear_text(
+            r.take(first), once.fc, once.fsy, once.Lw, once.tw, once.hw_lw
+        )
+        df["f_vuc"] = np.asarray(f_vuc, dtype=object)[of]
+        df["f_vu"] = np.asarray(f_vu, dtype=object)[of]
+        design = std.symbols["shear_design"]
         df["f_util"] = [
-            f"|V*| / phiVu = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
+            f"|V*| / {design} = {abs(v):.1f} / {pv:.1f} = {u:.3f}"
             for v, pv, u in zip(df.v.tolist(), df.phi_vu.tolist(), df.util.tolist(), strict=True)
         ]
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
@@ -105,47 +126,4 @@ def _basis_text(basis, hw, lw, h_whole, l_whole, beside, wall_governs) -> list[s
         whole = f"whole wall {hh:.0f} / {ll:.0f} = {hh / ll:.3f}"
         pick = "whole wall governs" if gov else "pier governs"
         out.append(f"larger of pier {own} and {whole} ({pick}; common practice)")
-    return out
-
-
-def _vu_text(df: pd.DataFrame) -> list[str]:
-    return [
-        f"Vus = {rw:.5f} x {fy:g} x 0.8 x {lw:.0f} x {t:.0f} = {vs:.1f} kN; "
-        f"Vu.max = 0.2 x {fc:g} x 0.8 x {lw:.0f} x {t:.0f} = {vm:.1f} kN; "
-        f"phiVu = {p:.2f} x min({vc:.1f} + {vs:.1f}, {vm:.1f}) = {pv:.1f} kN"
-        for rw, fy, lw, t, vs, fc, vm, p, vc, pv in zip(
-            df.rho_w, df.fsy, df.Lw, df.tw, df.vus, df.fc, df.vu_max, df.phi, df.vuc, df.phi_vu, strict=True
-        )
-    ]
-
-
-def _vuc_text(df: pd.DataFrame) -> list[str]:
-    out = []
-    for fc, r, lw, t, e1, e2, fl, vc in zip(
-        df.fc, df.hw_lw, df.Lw, df.tw, df.eq1, df.eq2, df.floor, df.vuc, strict=True
-    ):
-        a = f"0.8 x {lw:.0f} x {t:.0f}"
-        s = f"Eq1 = (0.66 - 0.21 x {r:.3f}) x sqrt({fc:g}) x {a} = {e1:.1f} kN; "
-        if np.isfinite(e2):
-            s += f"Eq2 = (0.05 + 0.1 / ({r:.3f} - 1)) x sqrt({fc:g}) x {a} = {e2:.1f} kN; "
-            pick = f"max(min({e1:.1f}, {e2:.1f}), {fl:.1f})"
-        else:
-            s += "Eq2 n/a (Hw/Lw <= 1); "
-            pick = f"max({e1:.1f}, {fl:.1f})"
-        s += f"min = 0.17 x sqrt({fc:g}) x {a} = {fl:.1f} kN; Vuc = {pick} = {vc:.1f} kN"
-        out.append(s)
-    return out
-
-
-def _advice(util, rho_req, capped, ratio, rho_w) -> list[str]:
-    out = []
-    for u, need, cap, hl, have in zip(*plain(util, rho_req, capped, ratio, rho_w), strict=True):
-        if u <= 1.0:
-            out.append("")
-        elif cap:
-            out.append("V*/phi exceeds Vu.max (Cl 11.6.2): only a thicker wall or a higher f'c helps")
-        elif hl > 1.0:
-            out.append(f"raise horizontal steel to rho_h >= {need:.5f} (now {have:.5f})")
-        else:
-            out.append(f"raise the lesser of rho_h and rho_v to >= {need:.5f} (now {have:.5f})")
     return out

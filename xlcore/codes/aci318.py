@@ -590,6 +590,32 @@ class ACI318:
     """ACI 318-19 (SI) as a `codes.base.Standard`. Walls are taken as braced by the floors."""
 
     name = NAME
+    min_eccentricity = 0.0  # Table 22.4.2.1: the 0.80 Po cap stands for accidental eccentricity
+    max_compression_ratio = PN_MAX_TIED  # phi Pn,max = phi 0.80 Po, Table 22.4.2.1 (ties)
+    symbols = {
+        "Nu": "Pn",
+        "Mu": "Mn",
+        "squash": "Po",
+        "tension": "Pnt",
+        "top": "phiPn,max",
+        "top_working": "phiPn,max = {phi:.2f} x 0.80 x {squash:.1f} = {top:.1f} kN (Table 22.4.2.1)",
+        "design_moment": "Table 22.4.2.1",
+        "clause_tension": "ACI 318-19 Table 21.2.2 (tension-controlled), 22.4.3.1",
+        "clause_squash": "ACI 318-19 22.4.2, Table 22.4.2.1 (0.80 Po), Table 21.2.2",
+        "clause_curve": "ACI 318-19 22.2 / 22.4, Table 21.2.2 (phi by eps_t)",
+        "clause_core": "ACI 318-19 22.2 / 22.4, Tables 21.2.2 and 22.4.2.1",
+        "simplified": "11.5.3",
+        "boundary_flag": "special boundary element (18.10.6.3)",
+        "shear_design": "phiVn",
+        "sheet_shear": "11.5.4 / 18.10.4",
+        "sheet_axial": "22.2, 22.4, Tables 21.2.2 and 22.4.2.1",
+        "least_moment_note": "no least moment: N* at most phi 0.80 Po (Table 22.4.2.1)",
+        "block": "22.2.2.4",
+        "phi_table": "Table 21.2.2",
+        "top_text": "phi 0.80 Po",
+        "simplified_clause": "11.5.3.1",
+        "simplified_note": "e from out-of-plane M*, within the middle third (h/6)",
+    }
     Es = ES
     eps_cu = EPS_CU
     phi_wall_shear = PHI_SHEAR
@@ -597,8 +623,19 @@ class ACI318:
     phi_tension = PHI_TENSION_CONTROLLED
     phi_simplified = PHI_SIMPLIFIED
 
+    lam = 1.0
+    """lambda, 19.2.4: 1.0 normal-weight concrete (the Project setting "ACI 318: lambda ...")."""
+
     def clause(self, key: str) -> str:
         return _CLAUSES[key]
+
+    def configure(self, settings):
+        lam = float(getattr(settings, "aci_lambda", 1.0))
+        if lam == self.lam:
+            return self
+        out = ACI318()
+        out.lam = lam
+        return out
 
     # ---- shear
     def wall_aspect_ratio(self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
@@ -609,7 +646,7 @@ class ACI318:
     def wall_shear(self, fc, fy, Lw, tw, hw_lw, rho_h, rho_v, phi=None):
         from xlcore.codes.base import ShearCapacity
 
-        r = wall_shear(fc, fy, Lw, tw, hw_lw, rho_h, phi=PHI_SHEAR if phi is None else phi)
+        r = wall_shear(fc, fy, Lw, tw, hw_lw, rho_h, lam=self.lam, phi=PHI_SHEAR if phi is None else phi)
         return ShearCapacity(
             area=r.area,
             concrete=r.vc,
@@ -624,7 +661,54 @@ class ACI318:
         )
 
     def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw):
-        return wall_rho_t_required(v_star, phi, fc, fy, Lw, tw, hw_lw)
+        return wall_rho_t_required(v_star, phi, fc, fy, Lw, tw, hw_lw, lam=self.lam)
+
+    def wall_shear_text(self, cap, fc, fy, Lw, tw, hw_lw):
+        from xlcore.codes.base import num
+
+        kn = 1e-3
+        cols = [_a(c).tolist() for c in (
+            fc, fy, Lw, tw, hw_lw, cap.detail["alpha_c"], cap.concrete * kn, cap.steel * kn,
+            cap.limit * kn, cap.phi, cap.design * kn, cap.governs)]  # fmt: skip
+        first, second = [], []
+        weight = " normal weight" if self.lam == 1.0 else ", lightweight (19.2.4)"
+        for f, y, lw, t, r, ac, vc, vs, vm, p, pv, g in zip(*cols, strict=True):
+            if r <= RATIO_SQUAT:
+                why = f"hw/lw {r:.3f} <= {RATIO_SQUAT}"
+            elif r >= RATIO_SLENDER:
+                why = f"hw/lw {r:.3f} >= {RATIO_SLENDER}"
+            else:
+                why = f"hw/lw {r:.3f}: linear between 0.25 at 1.5 and 0.17 at 2.0"
+            first.append(
+                f"alpha_c = {ac:.3f} ({why}); Vc = alpha_c lambda sqrt(f'c) Acv = {ac:.3f} x {self.lam:g} x "
+                f"sqrt({f:g}) x {lw:.0f} x {t:.0f} = {num(vc)} kN (11.5.4.3, lambda {self.lam:g}{weight})"
+            )
+            rho = vs / (min(y, FYT_MAX_SHEAR) * lw * t * kn) if lw * t > 0 else 0.0
+            seg = g == GOV_SEGMENT_LIMIT
+            limit = "0.83 sqrt(f'c) Acw (18.10.4.4)" if seg else "0.66 sqrt(f'c) Acv (11.5.4.2)"
+            coef = 0.83 if seg else 0.66
+            fyt = min(y, FYT_MAX_SHEAR)
+            second.append(
+                f"Vs = rho_t fyt Acv = {rho:.5f} x {fyt:g} x {lw:.0f} x {t:.0f} = {num(vs)} kN "
+                f"(fyt <= {FYT_MAX_SHEAR:g} MPa, 20.2.2.4); Vn <= {limit} = {coef} x sqrt({f:g}) x "
+                f"{lw:.0f} x {t:.0f} = {num(vm)} kN; phiVn = {p:.2f} x min({num(vc)} + {num(vs)}, {num(vm)}) "
+                f"= {num(pv)} kN"
+            )
+        return first, second
+
+    def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap):
+        out = []
+        for u, need, over in zip(*(_a(c).tolist() for c in (util, rho_req, capped)), strict=True):
+            if u <= 1.0:
+                out.append("")
+            elif over:
+                out.append(
+                    "Vu/phi exceeds 0.66 sqrt(f'c) Acv (ACI 318-19 11.5.4.2): only a thicker wall or "
+                    "a higher f'c helps"
+                )
+            else:
+                out.append(f"raise horizontal steel to rho_t >= {need:.5f} (11.5.4.3)")
+        return out
 
     # ---- axial load and bending
     def stress_block(self, fc):
@@ -649,6 +733,17 @@ class ACI318:
         frac = (phi - PHI_COMPRESSION_TIED) / (PHI_TENSION_CONTROLLED - PHI_COMPRESSION_TIED)
         return phi0 + (PHI_TENSION_CONTROLLED - phi0) * frac
 
+    def phi_axial_bending_text(self, state):
+        eps_t = net_tensile_strain(state.dn, state.d0, state.eps_cu)
+        ety = yield_strain(state.fy, state.Es)
+        shape = np.shape(eps_t)
+        return [
+            f"eps_t {e:.5f}, eps_ty {y:.5f}: "
+            + ("compression-controlled" if e <= y else "tension-controlled" if e >= y + 0.003
+               else "transition")
+            for e, y in zip(eps_t.tolist(), np.broadcast_to(ety, shape).tolist(), strict=True)
+        ]
+
     def design_moment(self, m_star, n_star, D):
         return np.abs(_a(m_star))
 
@@ -659,6 +754,29 @@ class ACI318:
     def simplified_capacity(self, fc, tw, length, hwe, e, phi=None):
         p = PHI_SIMPLIFIED if phi is None else phi
         return p * simplified_axial_strength(fc, _a(tw) * _a(length), hwe, tw)
+
+    def simplified_eccentricities(self, e, tw, hwe):
+        e = np.abs(_a(e))
+        return e, np.full(e.shape, np.nan)  # no added slenderness eccentricity: Eq. (11.5.3.1)
+
+    def simplified_slenderness_limit(self, layers):
+        return np.full(np.shape(layers), np.inf)  # 11.5.3 sets none (Eq. (11.5.3.1) falls to 0)
+
+    def simplified_text(self, w, phi):
+        cols = [_a(c).tolist() for c in (w.k, w.Hc, w.hwe, w.e, w.tw, w.fc, w.Lw, w.cap)]
+        return [
+            (
+                f"k lc = {kk:.3f} x {h:.0f} = {he:.0f} mm (Table 11.5.3.2); e = {ee:.1f} mm <= h/6; "
+                f"phiPn = {phi:.2f} x 0.55 x {fc:g} x {t:.0f} x {lw:.0f} "
+                f"x (1 - ({he:.0f} / (32 x {t:.0f}))^2) "
+                f"= {c:.1f} kN (11.5.3.1)"
+            )
+            if ok
+            else f"not applicable: {why}"
+            for (kk, h, he, ee, t, fc, lw, c), ok, why in zip(
+                zip(*cols, strict=True), w.ok.tolist(), w.why.tolist(), strict=True
+            )
+        ]
 
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress):
         n = _a(n_star)

@@ -10,7 +10,10 @@ from __future__ import annotations
 import numpy as np
 
 from xlcore.codes import as3600
-from xlcore.codes.base import BeamShear, SectionState, ShearCapacity
+from xlcore.codes.base import BeamShear, SectionState, ShearCapacity, num
+
+EQ1_ZERO = 0.66 / 0.21
+"""Hw/Lw beyond which Cl 11.6.3 Eq (1) is negative (the floor then governs)."""
 
 _CLAUSES = {
     "wall_shear": "AS 3600:2018 Cl 11.6.3 / 11.6.4",
@@ -41,6 +44,32 @@ class AS3600:
     """AS 3600:2018 as a `Standard`."""
 
     name = as3600.NAME
+    min_eccentricity = as3600.MIN_ECCENTRICITY
+    max_compression_ratio = 1.0  # phi0 Nuo (Cl 10.6.2.2): the squash load itself
+    symbols = {
+        "Nu": "Nu",
+        "Mu": "Mu",
+        "squash": "Nuo",
+        "tension": "Nuot",
+        "top": "phiNuo",
+        "top_working": "phiNuo = {phi:.2f} x {squash:.1f} = {top:.1f} kN",
+        "design_moment": "Cl 10.1.2",
+        "clause_tension": "Table 2.2.2 tension",
+        "clause_squash": "Cl 10.6.2.2 squash, phi0, Cl 10.1.2",
+        "clause_curve": "Cl 8.1.3 / Table 2.2.2, Cl 10.1.2",
+        "clause_core": "Cl 8.1.3 / 10.6.2.2 / Table 2.2.2",
+        "simplified": "Cl 11.5",
+        "boundary_flag": "end-zone detailing (Cl 14.6)",
+        "shear_design": "phiVu",
+        "sheet_shear": "Cl 11.6",
+        "sheet_axial": "Cl 8.1.3, 10.6, Table 2.2.2",
+        "least_moment_note": "M* at least N* x 0.05 Lw (Cl 10.1.2)",
+        "block": "Cl 8.1.3",
+        "phi_table": "Table 2.2.2",
+        "top_text": "phi Nuo",
+        "simplified_clause": "Cl 11.5.1",
+        "simplified_note": "e from out-of-plane M*, at least 0.05 tw",
+    }
     Es = as3600.ES
     eps_cu = as3600.EPS_CU
     phi_wall_shear = as3600.PHI_WALL_SHEAR
@@ -50,6 +79,9 @@ class AS3600:
 
     def clause(self, key: str) -> str:
         return _CLAUSES[key]
+
+    def configure(self, settings):
+        return self  # no AS-only setting is read through the interface yet
 
     # ---- shear
     def wall_aspect_ratio(self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening):
@@ -77,8 +109,52 @@ class AS3600:
 
     def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw):
         Lw = np.asarray(Lw, dtype=float)
-        vuc, _ = as3600.wall_vuc(fc, hw_lw, Lw, tw)
+        # the ratio as wall_shear forms it from Hw = ratio x Lw (same rounding, same numbers)
+        vuc, _ = as3600.wall_vuc(fc, np.asarray(hw_lw, dtype=float) * Lw / Lw, Lw, tw)
         return as3600.wall_rho_required(v_star, phi, vuc, as3600.wall_vu_max(fc, Lw, tw), fy, Lw, tw)
+
+    def wall_shear_text(self, cap, fc, fy, Lw, tw, hw_lw):
+        kn = 1e-3
+        d = cap.detail
+        eq2 = np.where(np.isfinite(d["eq2"]), d["eq2"] * kn, np.nan)  # Eq (2) only where Hw/Lw > 1
+        cols = [np.asarray(c, dtype=float).tolist() for c in (
+            fc, fy, Lw, tw, hw_lw, d["eq1"] * kn, eq2, d["floor"] * kn, cap.concrete * kn,
+            d["rho_w"], cap.steel * kn, cap.limit * kn, cap.phi, cap.design * kn)]  # fmt: skip
+        first, second = [], []
+        for f, y, lw, t, r, e1, e2, fl, vc, rw, vs, vm, p, pv in zip(*cols, strict=True):
+            a = f"0.8 x {lw:.0f} x {t:.0f}"
+            s = f"Eq1 = (0.66 - 0.21 x {r:.3f}) x sqrt({f:g}) x {a} = {num(e1)} kN"
+            if e1 < 0:  # Hw/Lw > 0.66 / 0.21: Eq (1) is negative and the floor must govern
+                s += f" (negative: Hw/Lw > {EQ1_ZERO:.2f})"
+            s += "; "
+            if np.isfinite(e2):
+                s += f"Eq2 = (0.05 + 0.1 / ({r:.3f} - 1)) x sqrt({f:g}) x {a} = {num(e2)} kN; "
+                pick = f"max(min({num(e1)}, {num(e2)}), {num(fl)})"
+            else:
+                s += "Eq2 n/a (Hw/Lw <= 1); "
+                pick = f"max({num(e1)}, {num(fl)})"
+            s += f"min = 0.17 x sqrt({f:g}) x {a} = {num(fl)} kN; Vuc = {pick} = {num(vc)} kN"
+            first.append(s)
+            second.append(
+                f"Vus = {rw:.5f} x {y:g} x 0.8 x {lw:.0f} x {t:.0f} = {num(vs)} kN; "
+                f"Vu.max = 0.2 x {f:g} x 0.8 x {lw:.0f} x {t:.0f} = {num(vm)} kN; "
+                f"phiVu = {p:.2f} x min({num(vc)} + {num(vs)}, {num(vm)}) = {num(pv)} kN"
+            )
+        return first, second
+
+    def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap):
+        out = []
+        cols = [np.asarray(c).tolist() for c in (util, rho_req, capped, hw_lw, cap.detail["rho_w"])]
+        for u, need, over, hl, have in zip(*cols, strict=True):
+            if u <= 1.0:
+                out.append("")
+            elif over:
+                out.append("V*/phi exceeds Vu.max (Cl 11.6.2): only a thicker wall or a higher f'c helps")
+            elif hl > 1.0:
+                out.append(f"raise horizontal steel to rho_h >= {need:.5f} (now {have:.5f})")
+            else:
+                out.append(f"raise the lesser of rho_h and rho_v to >= {need:.5f} (now {have:.5f})")
+        return out
 
     # ---- axial load and bending
     def stress_block(self, fc):
@@ -98,6 +174,11 @@ class AS3600:
         p0 = self.phi_compression if phi0 is None else phi0
         return as3600.phi_axial_bending(state.nu, state.nub, state.nuot, state.kuo, p0)
 
+    def phi_axial_bending_text(self, state: SectionState):
+        return [f"kuo {k:.3f}, Nub {n * 1e-3:.0f} kN" for k, n in zip(*(np.asarray(v).tolist() for v in (
+            np.broadcast_to(state.kuo, np.shape(state.nu)), np.broadcast_to(state.nub, np.shape(state.nu)))),
+            strict=True)]  # fmt: skip
+
     def design_moment(self, m_star, n_star, D):
         return as3600.min_eccentricity_moment(m_star, n_star, D)
 
@@ -113,12 +194,33 @@ class AS3600:
             fc, tw, ecc, ea, length, self.phi_simplified if phi is None else phi
         )
 
+    def simplified_eccentricities(self, e, tw, hwe):
+        tw = np.asarray(tw, dtype=float)
+        return as3600.simplified_eccentricity(e, tw), as3600.additional_eccentricity(hwe, tw)
+
+    def simplified_slenderness_limit(self, layers):
+        return np.where(np.asarray(layers) >= 2, 30.0, 20.0)
+
+    def simplified_text(self, w, phi):
+        cols = [np.asarray(c).tolist() for c in (w.k, w.Hc, w.hwe, w.e, w.tw, w.ea, w.fc, w.Lw, w.cap, w.ok)]
+        return [
+            (
+                f"Hwe = {kk:.3f} x {h:.0f} = {he:.0f} mm; e = {ee:.1f} mm; "
+                f"ea = {he:.0f}^2 / (2500 x {t:.0f}) = {a:.1f} mm; "
+                f"phiNu = {phi:.2f} x ({t:.0f} - 1.2 x {ee:.1f} - 2 x {a:.1f}) x 0.6 x {fc:g} x {lw:.0f} "
+                f"= {c:.1f} kN"
+            )
+            if ok
+            else f"not applicable: {why}"
+            for kk, h, he, ee, t, a, fc, lw, c, ok, why in zip(*cols, w.why.tolist(), strict=True)
+        ]
+
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress):
         # the conditions of checks/axial.py _simplified, in the same order and with the same limits
         n = np.asarray(n_star, dtype=float)
         tw = np.asarray(tw, dtype=float)
         layers = np.asarray(layers)
-        limit = np.where(layers >= 2, 30.0, 20.0)
+        limit = self.simplified_slenderness_limit(layers)
         ecc = as3600.simplified_eccentricity(e, tw)
         return {
             "not in compression": n <= 0,

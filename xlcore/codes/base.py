@@ -60,6 +60,41 @@ CLAUSE_KEYS = (
 )
 """Every quantity a standard must name the clause of (`Standard.clause`)."""
 
+SYMBOL_KEYS = (
+    "Nu",  # nominal axial strength on the curve
+    "Mu",  # nominal moment on the curve
+    "squash",  # nominal strength in compression without bending
+    "tension",  # nominal tension capacity
+    "top",  # the design upper limit on N* (AS phi Nuo; ACI phi Pn,max)
+    "top_working",  # how `top` is worked out, with {phi}, {squash}, {top} to fill
+    "design_moment",  # short clause of the least design moment
+    "clause_tension",  # clause column of a row whose ray meets the tension side
+    "clause_squash",  # ... the line above decompression
+    "clause_curve",  # ... the strain-compatibility curve
+    "clause_core",  # clause column of the core N-M check
+    "simplified",  # short clause of the simplified method
+    "boundary_flag",  # core stress flag where the peak compression calls for boundary detailing
+    "shear_design",  # the design shear capacity's symbol in working text
+    "sheet_shear",  # clauses in the shear sheet's title
+    "sheet_axial",  # clauses in the axial sheet's title
+    "least_moment_note",  # the least design moment, in words (axial sheet preamble)
+    "block",  # short clause of the stress block
+    "phi_table",  # short clause of phi for axial force and bending
+    "top_text",  # the design upper limit on N*, in words
+    "simplified_clause",  # clause of the simplified method's capacity (summary rows)
+    "simplified_note",  # how e is taken in the simplified method (axial sheet preamble)
+)
+"""Names every standard gives in `Standard.symbols`."""
+
+
+def num(x: float, fmt: str = ".1f") -> str:
+    """`x` formatted, without the sign of a value that rounds to zero ("-0.0" reads as a
+    defect in working text)."""
+    out = format(x, fmt)
+    if out.startswith("-") and float(out) == 0.0:
+        return out[1:]
+    return out
+
 
 @dataclass(frozen=True)
 class ShearCapacity:
@@ -82,6 +117,16 @@ class ShearCapacity:
     def clauses(self) -> list[str]:
         """The governing clause of every row, as text."""
         return [self.governing_text[int(g)] for g in np.ravel(self.governs)]
+
+    def take(self, rows) -> ShearCapacity:
+        """The same quantities on `rows` only (the working text is made once per pier)."""
+        pick = lambda v: np.asarray(v)[rows]  # noqa: E731
+        return ShearCapacity(
+            *(pick(getattr(self, k)) for k in ("area", "concrete", "steel", "limit", "nominal", "phi",
+                                                "design", "governs")),
+            governing_text=self.governing_text,
+            detail={k: pick(v) for k, v in self.detail.items()},
+        )
 
 
 @dataclass(frozen=True)
@@ -127,6 +172,11 @@ class Standard(Protocol):
         """The clause (and equation) of a quantity named in CLAUSE_KEYS, for result rows."""
         ...
 
+    def configure(self, settings) -> Standard:
+        """The standard with the Project settings that belong to it alone (ACI 318: lambda);
+        itself where it has none. A check calls it on the standard it was given."""
+        ...
+
     # ---- shear
     def wall_aspect_ratio(
         self, Hw_pier, Lw_pier, Hw_wall, Lw_wall, beside_opening
@@ -140,6 +190,15 @@ class Standard(Protocol):
 
     def wall_steel_required(self, v_star, phi, fc, fy, Lw, tw, hw_lw) -> tuple[np.ndarray, np.ndarray]:
         """Least shear-steel ratio to carry V*, and where no steel suffices (the upper limit)."""
+        ...
+
+    def wall_shear_text(self, cap: ShearCapacity, fc, fy, Lw, tw, hw_lw) -> tuple[list[str], list[str]]:
+        """Working text of each row (kN): how the concrete part was found, and how the steel
+        part, the upper limit and the design capacity were; each standard its own symbols."""
+        ...
+
+    def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap: ShearCapacity) -> list[str]:
+        """What would make each failing row pass ('' where it passes), in the standard's terms."""
         ...
 
     # ---- axial load and bending
@@ -163,6 +222,21 @@ class Standard(Protocol):
         """phi for a section at nominal strength described by `state`."""
         ...
 
+    def phi_axial_bending_text(self, state: SectionState) -> list[str]:
+        """What phi of each row was read from (AS 3600: kuo and Nub; ACI 318: eps_t), for the
+        working text."""
+        ...
+
+    symbols: Mapping[str, str]
+    """The standard's names in working text and clause columns: keys in `SYMBOL_KEYS`."""
+
+    min_eccentricity: float
+    """Least eccentricity of N* in compression as a fraction of the depth (0: none)."""
+
+    max_compression_ratio: float
+    """The design upper limit on N* over phi0 x squash load (AS 3600 1.0: phi0 Nuo; ACI 318
+    0.80, Table 22.4.2.1): `max_compression` for sections the checks assemble themselves."""
+
     def design_moment(self, m_star, n_star, D) -> np.ndarray:
         """|M*| raised to any minimum (eccentricity) the standard sets; N, N mm, mm."""
         ...
@@ -174,6 +248,20 @@ class Standard(Protocol):
 
     def simplified_capacity(self, fc, tw, length, hwe, e, phi=None) -> np.ndarray:
         """Design axial capacity of a wall by the standard's simplified method [N]."""
+        ...
+
+    def simplified_eccentricities(self, e, tw, hwe) -> tuple[np.ndarray, np.ndarray]:
+        """(eccentricity used, added slenderness eccentricity) of the simplified method [mm]
+        from the eccentricity of the load `e`; NaN where the standard adds none."""
+        ...
+
+    def simplified_slenderness_limit(self, layers) -> np.ndarray:
+        """Largest effective height / thickness the simplified method admits (inf: none)."""
+        ...
+
+    def simplified_text(self, w, phi) -> list[str]:
+        """Working text of the simplified capacity per row of `w` (columns k, Hc, hwe, e, ea, tw,
+        fc, Lw, cap [kN], ok, why), with phi; 'not applicable: why' where ok is False."""
         ...
 
     def simplified_exclusions(self, n_star, n_end_lo, tw, hwe, e, layers, stress) -> dict[str, np.ndarray]:

@@ -13,7 +13,7 @@ from xlcore import CAUTION, __version__, geometry, results, tables
 from xlcore.api import Run
 from xlcore.checks.axial import interaction, rect_sections
 from xlcore.checks.core_nm import check_core_nm
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
 from xlcore.report import (
     MAX_NM_CORES,
     MAX_NM_PIERS,
@@ -534,19 +534,20 @@ def _nm_pages(flow: Flow, run: Run, checks: list[tables.Check]) -> None:
 def _pier_nm(flow: Flow, run: Run, storey: str, pier: str, why: str) -> None:
     out = run.outcome
     s = out.building.settings
-    phi0 = s.phi_compression if s.phi_compression is not None else as3600.PHI_COMPRESSION
+    std = get_standard(s.standard)
+    phi0 = s.phi_compression if s.phi_compression is not None else std.phi_compression
     p = out.piers[(out.piers.storey == storey) & (out.piers.pier_id == pier)]
     ax_t = run.sheets["axial-bending"].table
     rows = ax_t[(ax_t.storey == storey) & (ax_t.pier_id == pier)]
     if p.empty or rows.empty:
         return
-    sec = rect_sections(p.iloc[[0]])
-    ends = interaction(sec, np.array([0.0]), phi0, of=np.zeros(1, dtype=int))
+    sec = rect_sections(p.iloc[[0]], std)
+    ends = interaction(sec, np.array([0.0]), phi0, of=np.zeros(1, dtype=int), std=std)
     top, bottom = float(ends["top"][0]), float(ends["bottom"][0])
     n = np.unique(
         np.concatenate([np.linspace(bottom, top, 161), [0.0, float(ends["phi_d"][0] * ends["nd"][0])]])
     )
-    r = interaction(sec, n, phi0, of=np.zeros(len(n), dtype=int))
+    r = interaction(sec, n, phi0, of=np.zeros(len(n), dtype=int), std=std)
     g = rows.loc[rows.util.astype(float).idxmax()]
     pts = pd.DataFrame({"m": rows.m_design.astype(float), "n": rows.n.astype(float)})
     ax = flow.axes(0.28, (LEFT + 0.1, 0, RIGHT - LEFT - 0.2, 0))
