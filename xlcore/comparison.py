@@ -21,6 +21,15 @@ import pandas as pd
 PASS, FAIL = "pass", "FAIL"  # the statuses of results.py, repeated as data (no import cycle)
 KEYS = ["storey", "pier_id", "key"]  # key: the check's role (results column u_shear, u_nm, ...)
 SIDE = ["check", "util", "status", "clause", "combination", "structural"]
+# the checks' names in words of neither standard (a run labels them with its own clauses);
+# a check not listed keeps the name its run gave it
+NEUTRAL = {
+    "u_shear": "in-plane shear",
+    "u_nm": "axial + bending",
+    "u_simplified": "simplified compression method",
+    "u_detailing": "detailing",
+    "u_section14": "earthquake detailing",
+}
 
 
 @dataclass
@@ -63,7 +72,9 @@ def compare(first: pd.DataFrame, second: pd.DataFrame, names: tuple[str, str]) -
     keys = list(zip(*(t[c] for c in KEYS), strict=True))
     rank = [(0, order_a[k]) if k in order_a else (1, order_b[k]) for k in keys]
     t = t.iloc[sorted(range(len(t)), key=rank.__getitem__)].reset_index(drop=True)
-    t["check"] = t.check_a.where(t.check_a.notna(), t.check_b)
+    t["check"] = [
+        NEUTRAL.get(k, c) for k, c in zip(t.key, t.check_a.where(t.check_a.notna(), t.check_b), strict=True)
+    ]
     t["structural"] = t.structural_a.where(t.structural_a.notna(), t.structural_b).astype(bool)
     t = t.rename(columns={"util_a": "u_a", "util_b": "u_b"})
     t["ratio"] = ratio(t.u_a, t.u_b)
