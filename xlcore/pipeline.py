@@ -125,7 +125,7 @@ def compute(
             shear = check_pier_shear(piers, acts, s)
             axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
-        detailing = check_detailing(piers, acts, s, hwe)
+        detailing = check_detailing(piers, acts, s, hwe, shear=shear)
         section14 = check_section14(piers, acts, s, hwe)
         summary = envelope(shear, piers, axial, detailing, section14)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
