@@ -13,7 +13,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, cores, distribution, geometry, results
-from xlcore.checks import plain
+from xlcore.checks import plain, special_walls
 from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
@@ -225,9 +225,14 @@ def compute(
         ),
         ResultSheet(
             results.SECTION14_SHEET,
-            f"{results.MARKER}: earthquake detailing of piers, {s.standard} Section 14 "
-            "(rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
-            results.SECTION14_COLUMNS,
+            f"{results.MARKER}: earthquake detailing of piers, "
+            + (
+                f"{s.standard} Chapter 18 special structural walls"
+                if special_walls.applies(s)
+                else f"{s.standard} Section 14"
+            )
+            + " (rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
+            results.SPECIAL_WALL_COLUMNS if special_walls.applies(s) else results.SECTION14_COLUMNS,
             section14,
             preamble=stamp + section14_preamble(s),
             scale_key="util",
@@ -957,6 +962,8 @@ def _section14_checks(section14: pd.DataFrame | None, at: pd.DataFrame) -> np.nd
 
 def section14_preamble(s) -> list[tuple[str, str]]:
     """Lines above the Section 14 table: the ductility, the combinations, the settings."""
+    if special_walls.applies(s):
+        return special_walls.preamble(s)
     why = not_applicable_reason(s)
     lines = [("Structural ductility factor", s.ductility + " (Project setting, as AS 1170.4 assigns it)")]
     if why is not None:
@@ -993,6 +1000,8 @@ def section14_preamble(s) -> list[tuple[str, str]]:
 
 def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
     """The building's Section 14 result in one summary line."""
+    if special_walls.applies(s):
+        return special_walls.summary_line(section14, s)
     label = "Earthquake detailing Section 14"
     why = not_applicable_reason(s)
     if why is not None:
