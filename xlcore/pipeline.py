@@ -20,6 +20,7 @@ from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
+from xlcore.checks.lintels import preamble_aci as lintels_preamble_aci
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
@@ -240,10 +241,16 @@ def compute(
         ResultSheet(
             results.LINTELS_SHEET,
             f"{results.MARKER}: lintels (coupling beams) over openings designed, {s.standard} "
-            "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars",
+            + (
+                "Ch. 9 / 22 (beam), Ch. 23 (strut-and-tie) or 18.10.7 (coupling beams of special walls)"
+                if special_walls.applies(s)
+                else "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars"
+            ),
             results.LINTEL_RESULT_COLUMNS,
             lintels,
-            preamble=stamp
+            preamble=stamp + lintels_preamble_aci(s)
+            if special_walls.applies(s)
+            else stamp
             + [
                 (
                     "Geometry",

@@ -406,6 +406,24 @@ def beam_vn_max(fc, b, d, vc):
     return _a(vc) + 0.66 * np.sqrt(_a(fc)) * _a(b) * _a(d)
 
 
+# --- Chapter 23 strut-and-tie (deep lintels of walls that are not special structural walls)
+
+STM_STRESS = 0.85
+"""23.4.1 / 23.9.1: effective compressive strength fce = 0.85 beta_c beta_s f'c of a strut
+(beta_n for a node face), beta_c = 1 (no confinement taken)."""
+
+STM_BETA_S_REINFORCED, STM_BETA_S_PLAIN = 0.75, 0.4
+"""Table 23.4.3: interior bottle-shaped strut with the distributed reinforcement of 23.5: 0.75;
+without it: 0.4 (xlcore takes 0.75 where the lintel has fitments, without checking the ratio of
+23.5: from memory, verify)."""
+
+STM_BETA_N_CCT = 0.80
+"""Table 23.9.2: nodes anchoring one tie (C-C-T): beta_n = 0.80 (from memory, verify)."""
+
+PHI_STM = 0.75
+"""Table 21.2.1(g): phi for struts, ties, nodal zones and bearing areas of strut-and-tie models."""
+
+
 # ---------------------------------------------------------------- Chapter 18: special walls
 
 
@@ -729,6 +747,16 @@ class ACI318:
 
     def coupling_diagonal_required(self, ln, h, v_u, fc, Acw):
         return coupling_diagonal_required(ln, h, v_u, fc, Acw)
+
+    def strut_and_tie_factors(self, theta, reinforced, beta_s, beta_n, phi_strut, phi_tie, stress):
+        r = np.asarray(reinforced, dtype=bool) & np.ones(np.shape(theta), dtype=bool)
+        return {
+            "beta_s": np.where(r, STM_BETA_S_REINFORCED, STM_BETA_S_PLAIN),
+            "beta_n": STM_BETA_N_CCT,
+            "stress": STM_STRESS,
+            "phi_strut": PHI_STM,
+            "phi_tie": PHI_STM,
+        }
 
     def coupling_phi(self, phi_setting):
         return PHI_DIAGONAL_COUPLING

@@ -215,6 +215,10 @@ class AS3600:
     def coupling_diagonal_required(self, ln, h, v_u, fc, Acw):
         return np.zeros(np.broadcast(*(np.asarray(x) for x in (ln, h, v_u, fc, Acw))).shape, dtype=bool)
 
+    def strut_and_tie_factors(self, theta, reinforced, beta_s, beta_n, phi_strut, phi_tie, stress):
+        bs = as3600.strut_efficiency(theta, beta_s)
+        return {"beta_s": bs, "beta_n": beta_n, "stress": stress, "phi_strut": phi_strut, "phi_tie": phi_tie}
+
     def coupling_phi(self, phi_setting):
         return float(phi_setting)
 

@@ -271,6 +271,15 @@ class Standard(Protocol):
         where the standard has no such rule."""
         ...
 
+    def strut_and_tie_factors(
+        self, theta, reinforced, beta_s, beta_n, phi_strut, phi_tie, stress
+    ) -> dict[str, np.ndarray]:
+        """Factors of a one-strut model of a deep lintel, per row: "beta_s" (strut efficiency,
+        theta the strut's angle to the ties [rad], `reinforced` where fitments cross it),
+        "beta_n" (C-C-T node), "stress" (x f'c), "phi_strut", "phi_tie". The other arguments are
+        the Project settings; a standard with its own values (ACI 318 Ch. 23) ignores them."""
+        ...
+
     def coupling_phi(self, phi_setting) -> float:
         """phi of a diagonally reinforced coupling beam: the standard's, or the Project setting
         `phi_setting` where the standard has none (AS 3600)."""
