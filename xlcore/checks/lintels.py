@@ -255,7 +255,7 @@ def check_lintels(
     out["need"] = _needs(out, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow)
     if aci:
         out["working"] = _working_aci(
-            out, D, b, fc, fsy, a_t, z, a_g, phi_m, muo, phi_d, special, diag_needed
+            out, D, b, fc, fsy, a_t, z, a_g, phi_m, muo, phi_d, special, diag_needed, s.lintel_deep_ratio
         )
     else:
         out["working"] = _working(out, s, D, b, fc, fsy, cover, fit_geom, db, dd, a_t, z, a_g, phi_m, muo)

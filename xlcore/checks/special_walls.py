@@ -173,18 +173,20 @@ def _web(p: pd.DataFrame, std: Standard, v_all, hwcs_lw, rule) -> None:
         fc=fc, fy=fy, tw=tw, Lw=Lw, wall_length=p.wall_length.to_numpy(float) * 1000.0,
         sigma=np.zeros(len(p)), v_star=v_all, hw_lw=hwcs_lw, rho_h=rho_h, restrained=True,
     )  # fmt: skip
-    l_116, _ = std.min_ratios(bar_dia=p.v_dia.to_numpy(float), **common)
     _, t_116 = std.min_ratios(bar_dia=p.h_dia.to_numpy(float), **common)
     squat = aci318.special_rho_l_min(hwcs_lw, rho_h)
-    lim_v = np.maximum(np.where(low, l_116, base), squat)
+    # the low-shear relaxation to the 11.6 minima is taken for rho_t only (the conservative
+    # reading: aci318.special_web_min_ratio; whether 318-19 relaxes rho_l too: from memory)
+    lim_v = np.maximum(base, squat)
     lim_h = np.where(low, t_116, base)
     all_ = np.full(len(p), ALL)
     thr = 0.083 * np.sqrt(fc) * Lw * tw
 
-    def head(i: int) -> str:
+    def head(i: int, vertical: bool = False) -> str:
         return (
             f"|Vu| = {v_all[i] * 1e-3:.1f} kN {'<=' if low[i] else '>'} 0.083 sqrt({fc[i]:g}) x "
-            f"{Lw[i]:.0f} x {tw[i]:.0f} = {thr[i] * 1e-3:.1f} kN: " + ("11.6 minimum" if low[i] else "0.0025")
+            f"{Lw[i]:.0f} x {tw[i]:.0f} = {thr[i] * 1e-3:.1f} kN: "
+            + ("0.0025 (no relaxation of rho_l)" if vertical else "11.6 minimum" if low[i] else "0.0025")
         )
 
     u = _at_least(rho_v, lim_v)
@@ -199,7 +201,7 @@ def _web(p: pd.DataFrame, std: Standard, v_all, hwcs_lw, rule) -> None:
         _pass_fail(u),
         u,
         lambda: [
-            f"rho_l = {r:.5f} vs {m:.5f} ({head(i)}"
+            f"rho_l = {r:.5f} vs {m:.5f} ({head(i, vertical=True)}"
             + (f"; hw/lw = {h:.2f} <= 2.0: at least rho_t = {t:.5f}" if h <= 2.0 else "")
             + ")"
             for i, (r, m, h, t) in enumerate(zip(*plain(rho_v, lim_v, hwcs_lw, rho_h), strict=True))
