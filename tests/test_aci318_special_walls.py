@@ -298,6 +298,12 @@ def test_displacement_method_and_boundary_sizes_by_hand(monkeypatch):
     # 18.10.6.2(a): lw / (600 x 1.5 max(delta_u/hw, 0.005)) = 3000 / (600 x 1.5 x 200/32000) = 533.3
     assert r.limit == pytest.approx(3000 / (600 * 1.5 * 200 / 32000))
     assert r.value == pytest.approx(600.0) and r.status == "required"
+    # 18.10.6.2(b) (from memory): delta_c/hw = (4 - (lw/b)(c/b)/50 - Ve/(0.66 sqrt(f'c) Acv))/100
+    # = (4 - 15 x 3/50 - 1225/(0.66 sqrt(40) x 600000 / 1000))/100 >= 0.015; demand 1.5 x 200/32000
+    dc = _rows(out, "L1", "drift capacity", "E1")
+    ve = 1.5 * (1.3 + 10 / 30) * 500e3
+    assert dc.limit == pytest.approx((4 - 15 * 3 / 50 - ve / (0.66 * math.sqrt(40) * 600_000)) / 100)
+    assert dc.value == pytest.approx(1.5 * 200 / 32000) and dc.status == "pass"
     # 18.10.6.4(a): max(c - 0.1 lw, c/2) = max(300, 300) = 300 mm; no end zones described -> check
     ln = _rows(out, "L1", "boundary length", "E1")
     assert ln.limit == pytest.approx(300.0) and ln.status == "check"

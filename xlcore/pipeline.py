@@ -158,7 +158,7 @@ def compute(
             results.SUMMARY_COLUMNS,
             attention_first(summary),
             preamble=stamp
-            + _counts(summary, shear)
+            + _counts(summary, shear, special_walls.applies(s))
             + worst_per_check(summary, lintels, stress, core_nm)
             + [section14_line(section14, s), lintel_line],
             scale_key="util",
@@ -748,7 +748,7 @@ def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
     )
 
 
-def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, object]]:
+def _counts(summary: pd.DataFrame, shear: pd.DataFrame, special: bool = False) -> list[tuple[str, object]]:
     checked = summary[summary.status != results.NOT_CHECKED]
     worst = checked.loc[checked.util.idxmax()] if len(checked) else None
     lines: list[tuple[str, object]] = [
@@ -768,7 +768,10 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
         )
     lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
     lines.append(
-        ("Earthquake Section 14 failing", int((summary.section14.str.startswith(results.FAIL)).sum()))
+        (
+            "Earthquake ACI 318 Ch. 18 failing" if special else "Earthquake Section 14 failing",
+            int((summary.section14.str.startswith(results.FAIL)).sum()),
+        )
     )
     return lines
 

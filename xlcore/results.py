@@ -284,7 +284,7 @@ SPECIAL_WALL_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("pier_id", "Pier", width=9),
     _c("combination", "Combination", width=13),
-    _c("rule", "Rule", width=18),
+    _c("rule", "Rule", width=22),
     _c("value", "Value", None, "0.0####", 10),
     _c("kind", "Must be", width=9),
     _c("limit", "Limit", None, "0.0####", 10),

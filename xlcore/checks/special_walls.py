@@ -42,6 +42,7 @@ RULES = (
     "shear amplification",
     "boundary: stress",
     "boundary: displacement",
+    "drift capacity",
     "boundary length",
     "boundary width",
     "boundary hoops",
@@ -53,6 +54,7 @@ CLAUSE = {
     "shear amplification": "ACI 18.10.3.1, 18.10.4.1",
     "boundary: stress": "ACI 18.10.6.3",
     "boundary: displacement": "ACI 18.10.6.2(a)",
+    "drift capacity": "ACI 18.10.6.2(b)",
     "boundary length": "ACI 18.10.6.4(a)",
     "boundary width": "ACI 18.10.6.4(b), (c)",
     "boundary hoops": "ACI 18.10.6.4(e), 18.7.5.3",
@@ -376,6 +378,35 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
         f"(conservative); c at Pu of the combination, larger of the two directions; 0.005 floor {MEMORY}",
     )
 
+    # ---- 18.10.6.2(b) drift capacity where the displacement method calls for boundary elements
+    if by_disp.any():
+        k = by_disp
+        dq = q[k].reset_index(drop=True)
+        demand = 1.5 * np.maximum(du / hw[k], aci318.DRIFT_FLOOR)
+        capacity = aci318.drift_capacity(Lw[k], tw[k], c[k], ve[k], fc[k], Lw[k] * tw[k])
+        u = demand / capacity
+        rule(
+            dq,
+            combo[k],
+            "drift capacity",
+            demand,
+            capacity,
+            "max",
+            "",
+            _pass_fail(u),
+            u,
+            lambda: [
+                f"1.5 delta_u/hw = 1.5 x max({du:g}/{h:.0f}, 0.005) = {d:.5f} vs delta_c/hw = (4 - "
+                f"(lw/b)(c/b)/50 - Ve/(0.66 sqrt(f'c) Acv))/100 = (4 - ({L:.0f}/{t:.0f})({cc:.0f}/{t:.0f})"
+                f"/50 - {e * 1e-3:.1f}/{0.66 * np.sqrt(f) * L * t * 1e-3:.1f})/100, at least 0.015 = "
+                f"{cap:.5f}"
+                for h, d, L, t, cc, e, f, cap in zip(
+                    *plain(hw[k], demand, Lw[k], tw[k], c[k], ve[k], fc[k], capacity), strict=True
+                )
+            ],
+            f"b = tw; Ve of the shear amplification row; Eq. (18.10.6.2b) {MEMORY}",
+        )
+
     # ---- 18.10.6.4 boundary elements where either method calls for them
     need = by_stress | by_disp
     if not need.any():
@@ -401,7 +432,19 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
             f"at least max(c - 0.1 lw, c/2) = max({cc:.0f} - 0.1 x {L:.0f}, {cc:.0f}/2) = {n:.0f} mm "
             "from each end (actions reverse)"
             + (f"; end zones {g:.0f} mm" if ok else "; end zones not described (End zones sheet): check")
-            for cc, L, n, g, ok in zip(*plain(zc, zL, length, given_len), has_len.tolist(), strict=True)
+            + (
+                f"; by 18.10.6.2(b) over at least max(lw, Mu/(4 Vu)) = {x:.0f} mm above and below the "
+                "critical section"
+                if dd
+                else ""
+            )
+            for cc, L, n, g, ok, x, dd in zip(
+                *plain(zc, zL, length, given_len),
+                has_len.tolist(),
+                aci318.boundary_vertical_extent(zL, mu[need], np.maximum(vu[need], 1e-9)).tolist(),
+                by_disp[need].tolist(),
+                strict=True,
+            )
         ],
         "c at Pu of the combination (22.2 block, the End zones bars); the shorter of the pier's two zones",
     )
