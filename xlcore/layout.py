@@ -488,6 +488,57 @@ PROJECT = SettingsSheet(
             max=400.0,
         ),
         Setting(
+            "aci_special_walls",
+            "ACI 318: walls are special structural walls",
+            None,
+            Kind.CHOICE,
+            "yes",
+            "ACI 318-19 only (ignored under AS 3600). yes: every pier gets the special structural "
+            "wall rules of Chapter 18 on the earthquake detailing sheet (web ratios and two "
+            "curtains 18.10.2, shear amplification 18.10.3.1, boundary elements 18.10.6) and the "
+            "lintels the coupling-beam rules of 18.10.7; no: none of them (walls of ordinary "
+            "structural walls, Chapter 11 only). Default: the conservative one that applies them.",
+            choices=YES_NO,
+        ),
+        Setting(
+            "aci_mpr_mu",
+            "ACI 318: Mpr/Mu for Omega_v",
+            None,
+            Kind.NUMBER,
+            1.5,
+            "ACI 318-19 special walls: the wall's probable flexural strength over its factored "
+            "moment at the critical section, for the overstrength factor Omega_v of Table "
+            "18.10.3.1.2 (the greater of this and 1.5 where hwcs/lw > 1.5; 1.0 below). Blank: 1.5.",
+            min=1.0,
+            max=5.0,
+        ),
+        Setting(
+            "aci_storeys_above",
+            "ACI 318: storeys above the critical section",
+            None,
+            Kind.NUMBER,
+            None,
+            "ACI 318-19 special walls: ns of the dynamic amplification omega_v (18.10.3.1.3). "
+            "Blank: the number of storeys on the Storeys sheet (critical section at the base; "
+            "the larger ns gives the larger omega_v).",
+            min=1.0,
+            max=200.0,
+        ),
+        Setting(
+            "aci_delta_u",
+            "ACI 318: design displacement delta_u at the top",
+            "mm",
+            Kind.NUMBER,
+            None,
+            "ACI 318-19 special walls: the design displacement at the top of the walls (from "
+            "the analysis, as the earthquake standard amplifies it), one value for the building, "
+            "the largest of its directions. Given: boundary elements are also found by the "
+            "displacement method of 18.10.6.2 (walls with hwcs/lw >= 2.0, hw the wall's overall "
+            "height). Blank: the stress method of 18.10.6.3 alone.",
+            min=0.0,
+            max=5000.0,
+        ),
+        Setting(
             "concrete_prices",
             "Concrete prices by grade",
             "per m3",

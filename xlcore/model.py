@@ -33,6 +33,11 @@ class Settings(BaseModel):
     eq_slenderness: float = 20.0
     eq_tie_diameters: float = 6.0
     eq_tie_max: float = 150.0
+    # ACI 318-19 Chapter 18 special structural walls (checks/special_walls.py)
+    aci_special_walls: str = "yes"
+    aci_mpr_mu: float = 1.5
+    aci_storeys_above: float | None = None
+    aci_delta_u: float | None = None
 
     @property
     def earthquake(self) -> set[str]:

@@ -13,13 +13,14 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, comparison, cores, distribution, geometry, results
-from xlcore.checks import plain
+from xlcore.checks import plain, special_walls
 from xlcore.checks.advice import AXIAL_CHECK, advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
+from xlcore.checks.lintels import preamble_aci as lintels_preamble_aci
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import get_standard
@@ -135,7 +136,7 @@ def compute(
             shear = check_pier_shear(piers, acts, s)
             axial = check_pier_axial(piers, acts, s)
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
-        detailing = check_detailing(piers, acts, s, hwe)
+        detailing = check_detailing(piers, acts, s, hwe, shear=shear)
         section14 = check_section14(piers, acts, s, hwe)
         summary = envelope(shear, piers, axial, detailing, section14)
         checks = pier_checks(shear, axial, detailing, section14, summary)
@@ -170,7 +171,7 @@ def compute(
             results.SUMMARY_COLUMNS,
             attention_first(summary),
             preamble=stamp
-            + _counts(summary, shear)
+            + _counts(summary, shear, special_walls.applies(s))
             + worst_per_check(summary, lintels, stress, core_nm)
             + [section14_line(section14, s), lintel_line],
             scale_key="util",
@@ -238,9 +239,14 @@ def compute(
         ),
         ResultSheet(
             results.SECTION14_SHEET,
-            f"{results.MARKER}: earthquake detailing of piers, {s.standard} Section 14 "
-            "(rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
-            results.SECTION14_COLUMNS,
+            f"{results.MARKER}: earthquake detailing of piers, "
+            + (
+                f"{s.standard} Chapter 18 special structural walls"
+                if special_walls.applies(s)
+                else f"{s.standard} Section 14"
+            )
+            + " (rules and values from memory and secondary sources: verify; docs/engineering-basis.md)",
+            results.SPECIAL_WALL_COLUMNS if special_walls.applies(s) else results.SECTION14_COLUMNS,
             section14,
             preamble=stamp + section14_preamble(s),
             scale_key="util",
@@ -248,10 +254,16 @@ def compute(
         ResultSheet(
             results.LINTELS_SHEET,
             f"{results.MARKER}: lintels (coupling beams) over openings designed, {s.standard} "
-            "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars",
+            + (
+                "Ch. 9 / 22 (beam), Ch. 23 (strut-and-tie) or 18.10.7 (coupling beams of special walls)"
+                if special_walls.applies(s)
+                else "Section 8 (beam) or Section 7 (strut-and-tie), or by their diagonal bars"
+            ),
             results.LINTEL_RESULT_COLUMNS,
             lintels,
-            preamble=stamp
+            preamble=stamp + lintels_preamble_aci(s)
+            if special_walls.applies(s)
+            else stamp
             + [
                 (
                     "Geometry",
@@ -853,7 +865,7 @@ def _lintel_line(lintels: pd.DataFrame) -> tuple[str, str]:
     )
 
 
-def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, object]]:
+def _counts(summary: pd.DataFrame, shear: pd.DataFrame, special: bool = False) -> list[tuple[str, object]]:
     checked = summary[summary.status != results.NOT_CHECKED]
     worst = checked.loc[checked.util.idxmax()] if len(checked) else None
     lines: list[tuple[str, object]] = [
@@ -873,7 +885,10 @@ def _counts(summary: pd.DataFrame, shear: pd.DataFrame) -> list[tuple[str, objec
         )
     lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
     lines.append(
-        ("Earthquake Section 14 failing", int((summary.section14.str.startswith(results.FAIL)).sum()))
+        (
+            "Earthquake ACI 318 Ch. 18 failing" if special else "Earthquake Section 14 failing",
+            int((summary.section14.str.startswith(results.FAIL)).sum()),
+        )
     )
     return lines
 
@@ -1074,6 +1089,8 @@ def _section14_checks(section14: pd.DataFrame | None, at: pd.DataFrame) -> np.nd
 
 def section14_preamble(s) -> list[tuple[str, str]]:
     """Lines above the Section 14 table: the ductility, the combinations, the settings."""
+    if special_walls.applies(s):
+        return special_walls.preamble(s)
     why = not_applicable_reason(s)
     lines = [("Structural ductility factor", s.ductility + " (Project setting, as AS 1170.4 assigns it)")]
     if why is not None:
@@ -1110,6 +1127,8 @@ def section14_preamble(s) -> list[tuple[str, str]]:
 
 def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
     """The building's Section 14 result in one summary line."""
+    if special_walls.applies(s):
+        return special_walls.summary_line(section14, s)
     label = "Earthquake detailing Section 14"
     why = not_applicable_reason(s)
     if why is not None:

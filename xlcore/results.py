@@ -305,6 +305,24 @@ SECTION14_COLUMNS = [
     _c("working", "Working", width=60),
 ]
 
+# the earthquake detailing sheet under ACI 318-19: Chapter 18 special structural walls, per
+# storey x pier x earthquake combination ("(all)" for the rules that do not depend on actions)
+SPECIAL_WALL_COLUMNS = [
+    _c("storey", "Storey", width=8),
+    _c("pier_id", "Pier", width=9),
+    _c("combination", "Combination", width=13),
+    _c("rule", "Rule", width=22),
+    _c("value", "Value", None, "0.0####", 10),
+    _c("kind", "Must be", width=9),
+    _c("limit", "Limit", None, "0.0####", 10),
+    _c("unit", "Unit", width=6),
+    _c("util", "Ratio", None, "0.000", 8),
+    _c("status", "Status", width=11),
+    _c("clause", "Clause", width=20),
+    _c("basis", "Basis", width=40),
+    _c("working", "Working", width=60),
+]
+
 LINTEL_RESULT_COLUMNS = [
     _c("storey", "Storey", width=8),
     _c("lintel_id", "Lintel", width=9),
@@ -317,7 +335,7 @@ LINTEL_RESULT_COLUMNS = [
     _c("v", "V*", "kN", "0.0", 9),
     _c("m", "M*", "kNm", "0.0", 9),
     _c("As", "Bars As each face", "mm2", "0", 9),
-    _c("phi_mu", "phi Muo (beam)", "kNm", "0.0", 9),
+    _c("phi_mu", "Design moment capacity (beam)", "kNm", "0.0", 9),
     _c("angle", "Strut / diagonal angle", "deg", "0.0", 9),
     _c("beta_s", "beta_s", None, "0.000", 7),
     _c("c_star", "Strut C*", "kN", "0.0", 9),
@@ -325,7 +343,7 @@ LINTEL_RESULT_COLUMNS = [
     _c("t_star", "Tie T*", "kN", "0.0", 9),
     _c("tie_cap", "phi tie", "kN", "0.0", 9),
     _c("A_sd", "A_sd per group", "mm2", "0", 9),
-    _c("phi_vu", "phi Vu (capacity)", "kN", "0.0", 9),
+    _c("phi_vu", "Design shear capacity", "kN", "0.0", 9),
     _c("u_m", "U flexure", None, "0.000", 8),
     _c("u_v", "U shear", None, "0.000", 8),
     _c("u_strut", "U strut", None, "0.000", 8),

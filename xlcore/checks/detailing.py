@@ -1,12 +1,17 @@
-"""Detailing of every pier at every storey against AS 3600:2018 Cl 11.7 (limits as transcribed
-in docs/engineering-basis.md: verify), from the bars given and the largest design compressive stress."""
+"""Detailing of every pier at every storey against the Project's design standard (AS 3600:2018
+Cl 11.7; ACI 318-19 11.6, 11.7, 25.2: limits as transcribed in docs/engineering-basis.md,
+verify), from the bars given, the largest design compressive stress and, where the standard's
+minima depend on it (ACI 11.6.1 / 11.6.2), the largest |V*| and the Hw/Lw of the shear check.
+
+Every limit comes through the `codes.base.Standard` interface (`std`)."""
 
 from __future__ import annotations
 
 import numpy as np
 import pandas as pd
 
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import Standard
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -28,10 +33,19 @@ def check_detailing(
     settings: Settings,
     hwe: pd.Series | None = None,
     working: bool = True,
+    *,
+    std: Standard | None = None,
+    shear: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
     """One row per storey x pier x rule. `hwe` [mm] per (storey, pier) for the one-layer limit
     (from the Cl 11.4 effective height of the axial check); storey clear height otherwise.
-    Without `working`, only each rule's pier and utilisation."""
+    Without `working`, only each rule's pier and utilisation.
+
+    `shear`: the shear table (storey, pier_id, v [kN], hw_lw) of these piers and actions, read
+    where the standard's minima and spacing depend on V* (`std.detailing_needs_shear`): per
+    pier the largest |V*| over the combinations and the shear check's Hw/Lw. Not given, the
+    shear check is run here on `actions` (numbers only)."""
+    std = (std or get_standard(settings.standard)).configure(settings)
     p = piers.copy()
 
     def rule(*args):
@@ -60,9 +74,38 @@ def check_detailing(
     if working:
         field_note = field_note.tolist()
     tw = p.tw.to_numpy(float)
-    rv_min = as3600.wall_rho_v_min(p.sigma, p.fc)
-    rh_min = as3600.wall_rho_h_min(restrained, p.wall_length * 1000.0)
-    smax = as3600.wall_max_spacing(tw)
+    p = _with_shear(p, actions, settings, std, shear)
+    v_star, hw_lw = p.v_star.to_numpy(float), p.hw_lw.to_numpy(float)
+    fc, fy, Lw = p.fc.to_numpy(float), p.fsy.to_numpy(float), p.Lw.to_numpy(float)
+    q = dict(
+        sigma=p.sigma.to_numpy(float),
+        fc=fc,
+        fy=fy,
+        tw=tw,
+        Lw=Lw,
+        wall_length=p.wall_length.to_numpy(float),
+        restrained=restrained,
+        v_star=v_star,
+        hw_lw=hw_lw,
+        rho_h=p.rho_h.to_numpy(float),
+    )
+    common = dict(
+        fc=fc, fy=fy, tw=tw, Lw=Lw, wall_length=p.wall_length * 1000.0, sigma=p.sigma,
+        v_star=v_star, hw_lw=hw_lw, rho_h=q["rho_h"], restrained=restrained,
+    )  # fmt: skip
+    rv_min, _ = std.min_ratios(bar_dia=p.v_dia.to_numpy(float), **common)
+    _, rh_min = std.min_ratios(bar_dia=p.h_dia.to_numpy(float), **common)
+    if std.detailing_needs_shear:
+        rho_req, _ = std.wall_steel_required(v_star, std.phi_wall_shear, fc, fy, Lw, tw, hw_lw)
+        steel_needed = rho_req > 0
+    else:
+        steel_needed = np.zeros(len(p), dtype=bool)
+    sv_max, sh_max = std.max_spacing(tw, Lw, steel_needed)
+    q["shear_steel_required"] = steel_needed
+
+    def why(key: str, **extra) -> list[str]:
+        return std.limit_text(key, **{**q, **extra})
+
     parts = [
         rule(
             p,
@@ -72,9 +115,14 @@ def check_detailing(
             "min",
             "",
             lambda: [
-                f"rho_v = {v:.5f} vs {m:.4f} (N*/(Lw tw) = {s:.2f} MPa "
-                f"{'<=' if s <= 0.03 * fc else '>'} 0.03 f'c){z}"
-                for v, m, s, fc, z in zip(p.rho_v, rv_min, p.sigma, p.fc, field_note, strict=True)
+                f"rho_v = {v:.5f} vs {m:.4f} ({w}){z}"
+                for v, m, w, z in zip(
+                    p.rho_v,
+                    rv_min,
+                    why("rho_v_min", bar_dia=p.v_dia.to_numpy(float)),
+                    field_note,
+                    strict=True,
+                )
             ],
         ),
         rule(
@@ -85,33 +133,34 @@ def check_detailing(
             "min",
             "",
             lambda: [
-                f"rho_h = {v:.5f} vs {m:.4f} ({'restrained' if restrained else 'unrestrained'}, wall "
-                f"{L:.2f} m)"
-                for v, m, L in zip(p.rho_h, rh_min, p.wall_length, strict=True)
+                f"rho_h = {v:.5f} vs {m:.4f} ({w})"
+                for v, m, w in zip(
+                    p.rho_h, rh_min, why("rho_h_min", bar_dia=p.h_dia.to_numpy(float)), strict=True
+                )
             ],
         ),
         rule(
             p,
             "vertical spacing",
             p.v_spacing,
-            smax,
+            sv_max,
             "max",
             "mm",
             lambda: [
-                f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm{z}"
-                for s, t, m, z in zip(p.v_spacing, tw, smax, field_note, strict=True)
+                f"s = {s:.0f} vs {w} = {m:.0f} mm{z}"
+                for s, w, m, z in zip(p.v_spacing, why("spacing_v"), sv_max, field_note, strict=True)
             ],
         ),
         rule(
             p,
             "horizontal spacing",
             p.h_spacing,
-            smax,
+            sh_max,
             "max",
             "mm",
             lambda: [
-                f"s = {s:.0f} vs min(2.5 x {t:.0f}, 350) = {m:.0f} mm"
-                for s, t, m in zip(p.h_spacing, tw, smax, strict=True)
+                f"s = {s:.0f} vs {w} = {m:.0f} mm"
+                for s, w, m in zip(p.h_spacing, why("spacing_h"), sh_max, strict=True)
             ],
         ),
     ]
@@ -119,7 +168,7 @@ def check_detailing(
         ("vertical clear gap", p.v_spacing, p.v_dia),
         ("horizontal clear gap", p.h_spacing, p.h_dia),
     ):
-        gap, need = s - db, as3600.wall_min_clear_gap(db)
+        gap, need = s - db, std.min_clear_gap(db)
         parts.append(
             rule(
                 p,
@@ -129,36 +178,41 @@ def check_detailing(
                 "min",
                 "mm",
                 lambda gap=gap, db=db, need=need: [
-                    f"clear gap = {g:.0f} vs 3 x {d:.0f} = {n:.0f} mm"
-                    for g, d, n in zip(gap, db, need, strict=True)
+                    f"clear gap = {g:.0f} vs {w} = {n:.0f} mm"
+                    for g, w, n in zip(gap, why("clear_gap", db=db.to_numpy(float)), need, strict=True)
                 ],
             )
         )
     single = (p.v_layers < 2) | (p.h_layers < 2)
     one = p[single]
+    t_max, slender_max = std.single_layer_limits()
     if len(one):
         parts.append(
             rule(
                 one,
                 "one layer: thickness",
                 one.tw,
-                np.full(len(one), as3600.SINGLE_LAYER_MAX_THICKNESS),
+                np.full(len(one), t_max),
                 "max",
                 "mm",
-                lambda: [f"tw = {t:.0f} vs 200 mm with one layer (from memory: verify)" for t in one.tw],
+                lambda: [
+                    f"tw = {t:.0f} vs {t_max:.0f} mm with one layer ({w})"
+                    for t, w in zip(one.tw, std.limit_text("layers", tw=one.tw.to_numpy(float)), strict=True)
+                ],
             )
         )
+    if len(one) and np.isfinite(slender_max):
         slender = one.hwe / one.tw
         parts.append(
             rule(
                 one,
                 "one layer: Hwe/tw",
                 slender,
-                np.full(len(one), as3600.SINGLE_LAYER_SLENDERNESS),
+                np.full(len(one), slender_max),
                 "max",
                 "",
                 lambda: [
-                    f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs 20"
+                    f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {slender_max:g}"
                     for h, t, r in zip(one.hwe, one.tw, slender, strict=True)
                 ],
             )
@@ -167,8 +221,27 @@ def check_detailing(
     if not working:
         return out
     out["status"] = np.where(out.util <= 1.0 + 1e-9, PASS, FAIL)
-    out["clause"] = "Cl 11.7 " + out.rule
+    out["clause"] = out.rule.map({r: std.detailing_clause(r) for r in RULES})
     return out
+
+
+def _with_shear(
+    p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, std: Standard, shear: pd.DataFrame | None
+) -> pd.DataFrame:
+    """`p` with v_star [N] (largest |V*| over the combinations at the storey; 0 without
+    actions) and hw_lw (the shear check's ratio) per pier, where the standard reads them; NaN
+    otherwise (the standard ignores them)."""
+    if not std.detailing_needs_shear:
+        return p.assign(v_star=np.nan, hw_lw=np.nan)
+    if shear is None:
+        from xlcore.checks.shear import check_pier_shear  # the shear check's own Hw/Lw
+
+        shear = check_pier_shear(p.drop(columns=["sigma", "hwe"]), actions, settings, working=False)
+    per = shear.assign(v_abs=shear.v.abs() * 1e3).groupby(["storey", "pier_id"])
+    got = pd.DataFrame({"v_star": per.v_abs.max(), "hw_lw": per.hw_lw.first()})
+    out = p.merge(got, left_on=["storey", "pier_id"], right_index=True, how="left")
+    # no actions: V* = 0 (the lesser minima); Hw/Lw from the storey's clear height
+    return out.assign(v_star=out.v_star.fillna(0.0), hw_lw=out.hw_lw.fillna(out.Hc / out.Lw))
 
 
 def _rule(

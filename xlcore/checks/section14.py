@@ -18,8 +18,9 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import plain
-from xlcore.codes import as3600
+from xlcore.checks import plain, special_walls
+from xlcore.codes import as3600, get_standard
+from xlcore.codes.base import Standard
 from xlcore.model import Settings
 from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
 
@@ -45,7 +46,10 @@ MEMORY = "from memory: verify"
 
 
 def not_applicable_reason(settings: Settings) -> str | None:
-    """Why no Section 14 rows are made for this building, or None where they are."""
+    """Why no Section 14 rows (under ACI 318: no special-wall rows) are made for this building,
+    or None where they are."""
+    if special_walls.applies(settings):
+        return special_walls.not_applicable_reason(settings)
     if not as3600.section14_applies(settings.mu):
         return (
             f"structural ductility factor {settings.ductility} (Project setting): Section 14's wall "
@@ -70,11 +74,20 @@ def check_section14(
     settings: Settings,
     hwe: pd.Series | None = None,
     working: bool = True,
+    *,
+    std: Standard | None = None,
 ) -> pd.DataFrame:
     """One row per storey x pier x applicable rule (empty where Section 14 does not apply:
     `not_applicable_reason`). `hwe` [mm] per (storey, pier) from the Cl 11.4 effective height of
     the axial check; the storey clear height otherwise. Without `working`, only the pier and the
-    utilisation of the rules that pass or fail (what the advice search needs)."""
+    utilisation of the rules that pass or fail (what the advice search needs).
+
+    The earthquake wall rules of the Project's standard: under ACI 318-19 the special
+    structural wall rules of Chapter 18 (`special_walls.check_special_walls`), so the pipeline
+    and the advice search reach either through this one call."""
+    std = (std or get_standard(settings.standard)).configure(settings)
+    if special_walls.applies(settings, std):
+        return special_walls.check_special_walls(piers, actions, settings, hwe, working, std=std)
     if not_applicable_reason(settings) is not None or piers.empty:
         return _empty(working)
     p = piers.copy()
@@ -293,6 +306,9 @@ def _end_bars(p: pd.DataFrame) -> np.ndarray:
     dia = np.minimum(p.za_dia.to_numpy(float), p.zb_dia.to_numpy(float))
     ties = np.maximum(p.za_ties.to_numpy(float), p.zb_ties.to_numpy(float))  # NaN (no ties) stays NaN
     return np.column_stack([np.where(both, dia, np.nan), np.where(both, ties, np.nan)])
+
+
+end_zone_bars = _end_bars  # read the same way by the ACI 318 special-wall rules (special_walls.py)
 
 
 def _zone_words(zone: float, Lw: float) -> str:

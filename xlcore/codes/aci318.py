@@ -406,6 +406,24 @@ def beam_vn_max(fc, b, d, vc):
     return _a(vc) + 0.66 * np.sqrt(_a(fc)) * _a(b) * _a(d)
 
 
+# --- Chapter 23 strut-and-tie (deep lintels of walls that are not special structural walls)
+
+STM_STRESS = 0.85
+"""23.4.1 / 23.9.1: effective compressive strength fce = 0.85 beta_c beta_s f'c of a strut
+(beta_n for a node face), beta_c = 1 (no confinement taken)."""
+
+STM_BETA_S_REINFORCED, STM_BETA_S_PLAIN = 0.75, 0.4
+"""Table 23.4.3: interior bottle-shaped strut with the distributed reinforcement of 23.5: 0.75;
+without it: 0.4 (xlcore takes 0.75 where the lintel has fitments, without checking the ratio of
+23.5: from memory, verify)."""
+
+STM_BETA_N_CCT = 0.80
+"""Table 23.9.2: nodes anchoring one tie (C-C-T): beta_n = 0.80 (from memory, verify)."""
+
+PHI_STM = 0.75
+"""Table 21.2.1(g): phi for struts, ties, nodal zones and bearing areas of strut-and-tie models."""
+
+
 # ---------------------------------------------------------------- Chapter 18: special walls
 
 
@@ -810,7 +828,7 @@ class ACI318:
         vs = beam_vs(asv, fyt, d, s)
         cap = beam_vn_max(fc, b, d, vc)
         vn = np.minimum(vc + vs, cap)
-        return BeamShear(vc, vs, cap, vn, np.full(np.shape(vn), PHI_SHEAR))
+        return BeamShear(vc, vs, cap, vn, np.full(np.shape(vn), PHI_SHEAR), {"dv": _a(d) * np.ones_like(vn)})
 
     def coupling_beam_shear(self, Avd, fy, alpha, fc, Acw):
         return coupling_vn_diagonal(Avd, fy, alpha, fc, Acw)
@@ -819,6 +837,123 @@ class ACI318:
     def boundary_stress_limits(self, fc):
         f = _a(fc)
         return STRESS_TRIGGER * f, STRESS_DISCONTINUE * f
+
+    # ---- detailing and lintels as the checks write them
+    detailing_needs_shear = True
+    phi_beam_shear = PHI_SHEAR
+
+    def detailing_clause(self, rule):
+        return _DETAILING_CLAUSES[rule]
+
+    def limit_text(self, key, **values):
+        return _limit_text(key, **values)
+
+    def single_layer_limits(self):
+        return TWO_LAYER_THICKNESS, float("inf")
+
+    def low_shear(self, v_star, fc, Lw, tw, hw_lw):
+        return low_shear(v_star, fc, Lw, tw, hw_lw)
+
+    def beam_shear_depth(self, d, D):
+        return _a(d) * np.ones_like(_a(D))
+
+    def beam_as_required(self, m_star, phi, b, d, fc, fy):
+        return beam_as_required(m_star, phi, b, d, fc, fy)
+
+    def beam_shear_steel_required(self, v_star, fc, b, d, D, fyt, rho_w):
+        return beam_av_s_required(v_star, fc, b, d, fyt, rho_w)
+
+    def coupling_diagonal_required(self, ln, h, v_u, fc, Acw):
+        return coupling_diagonal_required(ln, h, v_u, fc, Acw)
+
+    def strut_and_tie_factors(self, theta, reinforced, beta_s, beta_n, phi_strut, phi_tie, stress):
+        r = np.asarray(reinforced, dtype=bool) & np.ones(np.shape(theta), dtype=bool)
+        return {
+            "beta_s": np.where(r, STM_BETA_S_REINFORCED, STM_BETA_S_PLAIN),
+            "beta_n": STM_BETA_N_CCT,
+            "stress": STM_STRESS,
+            "phi_strut": PHI_STM,
+            "phi_tie": PHI_STM,
+        }
+
+    def coupling_phi(self, phi_setting):
+        return PHI_DIAGONAL_COUPLING
+
+
+_DETAILING_CLAUSES = {
+    "vertical ratio": "ACI 11.6.1 / 11.6.2(a)",
+    "horizontal ratio": "ACI 11.6.1 / 11.6.2(b)",
+    "vertical spacing": "ACI 11.7.2.1",
+    "horizontal spacing": "ACI 11.7.3.1",
+    "vertical clear gap": "ACI 25.2.1",
+    "horizontal clear gap": "ACI 25.2.1",
+    "one layer: thickness": "ACI 11.7.2.3",
+    "one layer: Hwe/tw": "ACI 11.7.2.3",
+}
+
+
+def _limit_text(key: str, **values) -> list[str]:
+    """Working text of the detailing limits (see `base.Standard.limit_text`)."""
+    if key == "layers":
+        return [f"{TWO_LAYER_THICKNESS:.0f} mm: two layers above it, 11.7.2.3 (from memory: verify)"] * len(
+            np.atleast_1d(values["tw"])
+        )
+    if key in ("spacing_v", "spacing_h"):
+        tw, Lw, need = np.broadcast_arrays(
+            _a(values["tw"]), _a(values["Lw"]), np.asarray(values["shear_steel_required"], dtype=bool)
+        )
+        k = 3 if key == "spacing_v" else 5
+        return [
+            f"min(3 x {t:.0f}, 450" + (f", lw/{k} = {L:.0f}/{k} (shear steel required)" if n else "") + ")"
+            for t, L, n in zip(tw, Lw, need, strict=True)
+        ]
+    if key == "clear_gap":
+        return [f"max(25, db {d:.0f})" for d in np.atleast_1d(_a(values["db"]))]
+    v_star, fc, fy, Lw, tw, hw_lw, rho_h, dia = np.broadcast_arrays(
+        *(_a(values[k]) for k in ("v_star", "fc", "fy", "Lw", "tw", "hw_lw", "rho_h", "bar_dia"))
+    )
+    cap = 0.5 * PHI_SHEAR * alpha_c(hw_lw) * np.sqrt(fc) * wall_shear_area(Lw, tw)
+    low = np.abs(v_star) <= cap
+    small = (dia <= SMALL_BAR) & (fy >= 420.0)
+    out = []
+    for i in range(len(cap)):
+        head = (
+            f"|V*| = {abs(v_star[i]) * 1e-3:.1f} kN {'<=' if low[i] else '>'} 0.5 phi alpha_c sqrt(f'c) Acv "
+            f"= 0.5 x {PHI_SHEAR:g} x {alpha_c(hw_lw[i]):.3f} x sqrt({fc[i]:g}) x {Lw[i]:.0f} x {tw[i]:.0f} "
+            f"= {cap[i] * 1e-3:.1f} kN"
+        )
+        if low[i]:
+            bars = "bars <= 16 mm, fy >= 420 MPa" if small[i] else "bars > 16 mm or fy < 420 MPa"
+            out.append(f"{head}: Table 11.6.1, {bars}")
+        elif key == "rho_v_min":
+            out.append(
+                f"{head}: Eq (11.6.2) 0.0025 + 0.5 (2.5 - {hw_lw[i]:.3f}) ({rho_h[i]:.5f} - 0.0025), "
+                "at least 0.0025"
+            )
+        else:
+            out.append(f"{head}: 11.6.2(b) 0.0025")
+    return out
+
+
+def beam_as_required(m_u, phi, b, d, fc, fy):
+    """Least As [mm^2] of a singly reinforced rectangle with phi Mn >= Mu: Mu/phi = X d -
+    X^2 / (2 x 0.85 f'c b), X = As fy (22.2.2.4 block rearranged); NaN where no tension steel
+    suffices. fy capped at FY_MAX_LONGITUDINAL. N mm."""
+    k = STRESS_INTENSITY * _a(fc) * _a(b)
+    disc = _a(d) ** 2 - 2.0 * np.abs(_a(m_u)) / (_a(phi) * k)
+    with np.errstate(invalid="ignore"):
+        x = k * (_a(d) - np.sqrt(disc))
+    return np.where(disc >= 0, x / np.minimum(_a(fy), FY_MAX_LONGITUDINAL), np.nan)
+
+
+def beam_av_s_required(v_u, fc, b, d, fyt, rho_w, lam=1.0):
+    """Least Av/s [mm^2/mm] of vertical stirrups with phi (Vc + Vs) >= Vu: (Vu/phi - Vc) /
+    (fyt d) from 22.5.8.5.3, Vc of Table 22.5.5.1 with Av >= Av,min; at least Av,min / s of
+    9.6.3.4 (taken everywhere: the conservative reading of 9.6.3.1)."""
+    fyt = np.minimum(_a(fyt), FYT_MAX_SHEAR)
+    vc = beam_vc(fc, b, d, np.inf, 0.0, rho_w, lam)
+    need = np.maximum(np.abs(_a(v_u)) / PHI_SHEAR - vc, 0.0) / (fyt * _a(d))
+    return np.maximum(need, beam_av_min(fc, b, 1.0, fyt))
 
 
 STANDARD = ACI318()

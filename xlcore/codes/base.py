@@ -30,7 +30,7 @@ from __future__ import annotations
 
 import importlib
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Protocol, runtime_checkable
 
 import numpy as np
@@ -154,6 +154,8 @@ class BeamShear:
     limit: np.ndarray
     nominal: np.ndarray
     phi: np.ndarray
+    # the standard's own intermediate quantities (AS 3600: dv, kv), for the working text
+    detail: Mapping[str, np.ndarray] = field(default_factory=dict)
 
 
 @runtime_checkable
@@ -305,6 +307,70 @@ class Standard(Protocol):
     def boundary_stress_limits(self, fc) -> tuple[np.ndarray, np.ndarray]:
         """Elastic extreme-fibre compression [MPa] that triggers boundary-element (end-zone)
         detailing, and below which it may stop."""
+        ...
+
+    # ---- detailing and lintels as checks/detailing.py and checks/lintels.py write them
+    # (block added with the detailing / lintel wiring; kept together to ease merges)
+    detailing_needs_shear: bool
+    """True where min_ratios / max_spacing depend on V* and Hw/Lw (ACI 11.6, 11.7): the
+    detailing check then takes them from the shear table."""
+
+    phi_beam_shear: float
+
+    def detailing_clause(self, rule: str) -> str:
+        """Clause text of a detailing row; `rule` one of checks/detailing.py RULES."""
+        ...
+
+    def limit_text(self, key: str, **values) -> list[str]:
+        """How each row's limit follows, with its numbers, for the working text of a detailing
+        rule. Every key takes the same values (arrays over rows, scalars broadcast), each
+        standard reads those it needs: sigma, fc, fy, v_star, hw_lw, rho_h, bar_dia, tw, Lw,
+        wall_length, restrained, shear_steel_required, db. Keys: "rho_v_min", "rho_h_min",
+        "spacing_v", "spacing_h", "clear_gap" and "layers" (the basis of the one-layer rows,
+        one text per row)."""
+        ...
+
+    def single_layer_limits(self) -> tuple[float, float]:
+        """(largest thickness [mm], largest Hwe/tw) of a wall with one layer of bars; inf where
+        the standard sets no such limit."""
+        ...
+
+    def low_shear(self, v_star, fc, Lw, tw, hw_lw) -> np.ndarray:
+        """Where V* is low enough for the lesser minimum ratios (ACI 11.6.1); all True where the
+        standard's minima do not depend on V*."""
+        ...
+
+    def beam_shear_depth(self, d, D) -> np.ndarray:
+        """Depth used in beam shear [mm] (AS: dv = max(0.72 D, 0.9 d); ACI: d)."""
+        ...
+
+    def beam_as_required(self, m_star, phi, b, d, fc, fy) -> np.ndarray:
+        """Least tension steel [mm^2] of a singly reinforced beam for M* [N mm]; NaN where none
+        suffices."""
+        ...
+
+    def beam_shear_steel_required(self, v_star, fc, b, d, D, fyt, rho_w) -> np.ndarray:
+        """Least area of vertical stirrups per length [mm^2/mm] for V* [N], at least the
+        standard's minimum."""
+        ...
+
+    def coupling_diagonal_required(self, ln, h, v_u, fc, Acw) -> np.ndarray:
+        """Where a coupling beam must be reinforced with diagonal bars (ACI 18.10.7.2); all False
+        where the standard has no such rule."""
+        ...
+
+    def strut_and_tie_factors(
+        self, theta, reinforced, beta_s, beta_n, phi_strut, phi_tie, stress
+    ) -> dict[str, np.ndarray]:
+        """Factors of a one-strut model of a deep lintel, per row: "beta_s" (strut efficiency,
+        theta the strut's angle to the ties [rad], `reinforced` where fitments cross it),
+        "beta_n" (C-C-T node), "stress" (x f'c), "phi_strut", "phi_tie". The other arguments are
+        the Project settings; a standard with its own values (ACI 318 Ch. 23) ignores them."""
+        ...
+
+    def coupling_phi(self, phi_setting) -> float:
+        """phi of a diagonally reinforced coupling beam: the standard's, or the Project setting
+        `phi_setting` where the standard has none (AS 3600)."""
         ...
 
 
