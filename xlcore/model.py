@@ -53,6 +53,7 @@ class Settings(BaseModel):
     coupling_cap: float = 0.83
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL
+    grade_pour: str = "the core at one storey"
     poisson: float = 0.2
 
 
