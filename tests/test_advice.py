@@ -99,9 +99,9 @@ def changed(wall_fields: dict, option: str) -> dict:
     """The wall's fields with an advice option applied (grade, bars, thickness; pairs too)."""
     f = dict(wall_fields)
     for part in option.split("; "):
-        if g := re.match(r"f'c (\d+) MPa", part):
+        if g := re.search(r"f'c (\d+) MPa", part):
             f["fc"] = float(g.group(1))
-        elif t := re.match(r"tw (\d+) mm", part):
+        elif t := re.search(r"tw (\d+) mm", part):
             f["thickness"] = float(t.group(1))
             part = part.split(":", 1)[1]
         for label, p in (("vertical", "v"), ("horizontal", "h")):
@@ -151,9 +151,12 @@ def test_recommended_change_applied_to_the_building_passes_every_check(v, n):
     assert not all_checks_pass(pier_table([w1(**base)]), a)
     out = advise(pier_table([w1(**base)]), a, failing("W1"), Settings())
     fix = cheapest_fixes(out)[("L1", "W1")]
-    kind, option = fix.split(": ", 1)
-    option = option.rsplit(" (+", 1)[0]
-    fields = apply_row(pd.Series(dict(kind=kind, option=option)), base)
+    words = fix.rsplit(" (+", 1)[0]
+    if words.startswith("plan of pour"):  # the pour's grade and the pier's own part
+        fields = changed(base, words.split(": ", 1)[1].replace(" (pour)", ""))
+    else:
+        kind, option = words.split(": ", 1)
+        fields = apply_row(pd.Series(dict(kind=kind, option=option)), base)
     assert fields != base
     assert all_checks_pass(pier_table([w1(**fields)]), a), fix
     # every pier row offered as passing passes too when built
@@ -167,8 +170,8 @@ def test_pair_is_searched_only_where_no_single_change_passes_and_is_the_cheapest
     out = advise(one_pier(), a, failing("W1"), Settings())
     singles = out[out.kind.isin(PIER_KINDS)]
     assert (singles.option.str.startswith("none")).all()
-    assert (out[out.scope == "pour"].option.str.startswith("none")).all()
-    pair = out[out.kind.str.contains(r" \+ ")].iloc[0]
+    assert out[out.scope == "pour"].option.str.contains("no grade alone passes").all()
+    pair = out[(out.scope == "pier") & out.kind.str.contains(r" \+ ")].iloc[0]
     assert pair["rank"] == 1 and pair.util <= 1.0
     every = evaluate_options(one_pier(), a, TARGET, Settings(), pairs=True)
     ok = every[every.util <= 1.0].sort_values("added_cost", kind="stable")
@@ -268,12 +271,12 @@ def test_end_zone_cost_by_hand():
     assert row.added_cost == pytest.approx(284.09, abs=0.02)
 
 
-def core_of_two(fc2=32.0, storeys=STOREYS, upto=None):
+def core_of_two(fc2=32.0, storeys=STOREYS, upto=None, **w1):
     """Core A: W1 3 m and W2 2 m, both 200 mm (W1 f'c 25, W2 f'c `fc2`); core B: W3 2 m."""
     s = (storeys[0].name, (upto or storeys[-1]).name)
     return pier_table(
         [
-            builders.wall("W1", 0, 0, 3.0, 0, storeys=s, thickness=200.0, fc=25.0, core="A"),
+            builders.wall("W1", 0, 0, 3.0, 0, storeys=s, **(dict(thickness=200.0, fc=25.0, core="A") | w1)),
             builders.wall("W2", 0, 0, 0, 2.0, storeys=s, thickness=200.0, fc=fc2, core="A"),
             builders.wall("W3", 9, 0, 9, 2.0, storeys=s, thickness=200.0, fc=25.0, core="B"),
         ],
@@ -466,3 +469,36 @@ def test_prices_text_is_parsed_and_interpolated():
     # a premium is never a credit: concrete already above the grade stays as it is
     assert costs.grade_premium(p, 40.0, 32.0, 1.0) == 0.0
     assert costs.grade_premium(p, 32.0, 40.0, 2.0) == pytest.approx(50.0)  # 2 x (285 - 260)
+
+
+def test_pour_plan_where_no_grade_alone_fixes_the_pour_is_one_grade_and_passes_when_built():
+    """W1 needs a grade and horizontal bars (no single change passes); W2 of the same pour
+    fails in shear. No grade alone fixes both: the pour row becomes one plan, the highest grade
+    the piers' pairs name for the whole pour plus each pier's own part; built, all pass."""
+    piers = core_of_two(h_dia=10.0, h_spacing=300.0)
+    a = pd.concat(
+        [acts(2400.0, n=15000.0, m=300.0, pier="W1"), acts(800.0, pier="W2"), acts(100.0, pier="W3")],
+        ignore_index=True,
+    )
+    out = advise(piers, a, failing("W1", "W2"), Settings())
+    pour = out[out.scope == "pour"].iloc[0]
+    assert pour.kind == "grade (whole pour) + pier changes" and pour.util <= 1.0
+    grade = float(re.match(r"f'c (\d+) MPa", pour.option).group(1))
+    prem = pour_premiums(piers, Settings()).set_index(["pour", "grade"]).premium[("core A, L1", grade)]
+    assert pour.added_cost >= prem - 1e-9  # the premium once, plus the piers' parts
+    # W1's summary fix is its part of the plan (its own best change names the pour's grade)
+    assert cheapest_fixes(out)[("L1", "W1")].startswith("plan of pour core A, L1: f'c")
+    fields = {}
+    for p, fc0, base in (("W1", 25.0, dict(fc=25.0, h_dia=10.0, h_spacing=300.0)), ("W2", 32.0, {})):
+        part = out[(out.pier_id == p) & (out.plan != "")].plan.iloc[0]
+        assert part.startswith("plan of pour core A, L1: ")
+        f = changed(dict(base, fc=max(fc0, grade)), part.split(": ", 1)[1])
+        fields[p] = f
+    built = pier_table(
+        [
+            builders.wall("W1", 0, 0, 3.0, 0, **(dict(thickness=200.0, core="A") | fields["W1"])),
+            builders.wall("W2", 0, 0, 0, 2.0, **(dict(thickness=200.0, core="A") | fields["W2"])),
+            builders.wall("W3", 9, 0, 9, 2.0, thickness=200.0, fc=25.0, core="B"),
+        ]
+    )
+    assert all_checks_pass(built, a)

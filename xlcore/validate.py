@@ -970,8 +970,6 @@ def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
         )
 
 
-
-
 LINTEL_BAR_GROUPS = (
     ("lintel_bars", "lintel_dia"),
     ("stirrup_dia", "stirrup_legs", "stirrup_spacing"),

@@ -28,6 +28,12 @@ analysed (a stiffer pier would attract more; re-run the analysis after a change)
   end-zone options, 12 thicknesses), priced in one vectorised step and checked in rounds,
   cheapest first (6, 12, 24, ... per pier), stopping at the first round holding a pass; so
   each pier gets the cheapest passing pair and every cheaper pair was checked and failed.
+  Where no grade alone fixes a pour, one plan: the highest grade its piers' pairs name for the
+  whole pour, each pier's other change checked again at that grade.
+- **probe**: each group (pier x kind, or pier x pair of kinds) first checks its most expensive
+  option; where that fails the group is not searched. Assumes the most of a change does at least
+  as well as less of it: exact for grade and thickness in these checks; for steel, phi falling
+  as kuo grows (AS 3600 Table 2.2.2) is the one known exception (docs/engineering-basis.md).
 
 Costs are totals over the pier's storey (clear height) for a change to a pier and over the
 whole pour for a grade (`costs.py`).
@@ -103,6 +109,7 @@ ADVICE_KEYS = [
     "fixes",
     "util",
     "added_cost",
+    "plan",
 ]
 
 
@@ -681,6 +688,9 @@ def advise(
         pair_rows["option"] = pair_rows.option.fillna(
             "none: no single change, pour grade or pair of changes in the search range passes every check"
         )
+        pours, plans = _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings)
+    else:
+        plans = {}
 
     passing = alone[alone.util <= 1.0].sort_values("added_cost", kind="stable")
     best = passing.groupby(group, sort=False).head(1)
@@ -704,6 +714,8 @@ def advise(
     out["pour"] = names.to_numpy()
     out["fixes"] = ""
     out["scope"] = "pier"
+    out["plan"] = [plans.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
+    out.loc[out["rank"].ne(1).to_numpy(), "plan"] = ""  # said once, on the pier's first row
     at = _pier_cols(piers, out)["storey_index"]
     out["_order"] = at
     pours["scope"] = "pour"
@@ -718,6 +730,7 @@ def advise(
         na_position="last",
         kind="stable",
     )
+    table["plan"] = table.plan.fillna("")
     return table[[*ADVICE_KEYS, "scope"]].reset_index(drop=True)
 
 
@@ -787,6 +800,121 @@ def _pour_rows(
     return pd.DataFrame(rows)
 
 
+PLAN_KIND = GRADE_KIND + " + pier changes"
+GRADE_PAIRS = {k for k, (ka, _) in enumerate(PAIRS) if ka == GRADE_KIND}
+
+
+def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings):
+    """One buildable plan for a pour that no grade alone fixes but whose piers' pairs name a
+    grade: the highest grade those pairs name, G, for the whole pour, and each failing pier
+    either passing at G alone, or its pair's other change at G (checked again at G), or its own
+    cheapest change. Priced once: the pour's premium at G plus the piers' changes. Returns the
+    pour rows (a plan fills a row that had none) and, per pier, its part of the plan in words."""
+    plans: dict[tuple[str, str], str] = {}
+    if best.empty or not pours.util.isna().any():
+        return pours, plans
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
+    by = meta.set_index("variant")
+    key = ["storey", "pier_id"]
+    own = (
+        alone[alone.util <= 1.0].sort_values("added_cost", kind="stable").groupby(key).head(1).set_index(key)
+    )
+    pair = best.set_index(key)
+    g = grades.set_index([*key, "fc"])
+    members = meta.drop_duplicates(key)[[*key, "pour"]]
+    wanted, check = {}, []
+    for pour in pours[pours.util.isna()].pour:
+        mine = [tuple(m) for m in members[members.pour == pour][key].itertuples(index=False)]
+        named = [
+            by.loc[pair.loc[m].a].fc for m in mine if m in pair.index and pair.loc[m].pair in GRADE_PAIRS
+        ]
+        if not named:
+            continue
+        top = max(named)
+        wanted[pour] = (top, mine)
+        for m in mine:
+            if (
+                m in pair.index
+                and pair.loc[m].pair in GRADE_PAIRS
+                and (*m, top) in g.index
+                and g.loc[(*m, top)].util > 1.0
+            ):
+                check.append((*m, int(g.loc[(*m, top)].variant), int(pair.loc[m].b)))
+    if not wanted:
+        return pours, plans
+    c = pd.DataFrame(check, columns=[*key, "a", "b"])
+    c["kb"] = by.kind.reindex(c.b).to_numpy()
+    c["variant"] = np.arange(len(c), dtype=np.int64) + len(var) + 10**9
+    util = _every(_pair_rows(var), c, actions, screen, settings) if len(c) else pd.Series(dtype=float)
+    c["util"] = c.variant.map(util)
+    if len(c):
+        ra, rb = by.loc[c.a], by.loc[c.b]
+        field = {}
+        for f in PRICED_ALL:
+            field[f] = np.where([f in PRICED[k] for k in c.kb], rb[f].to_numpy(float), ra[f].to_numpy(float))
+        c["cost"] = (
+            _cost_total(
+                ra.Lw,
+                field["tw"],
+                field["rho_v"],
+                field["rho_h"],
+                field["fc"],
+                field["zarea"],
+                ra.Hc,
+                prices,
+                settings,
+            )
+            - ra.base_cost.to_numpy(float)
+            - costs.grade_premium(prices, ra.fc0, ra.fc, ra.Lw.to_numpy(float) * ra.tw0 * ra.Hc / 1e9)
+        )
+    c = c.set_index(key)
+    pours = pours.copy()
+    for pour, (top, mine) in wanted.items():
+        total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
+        for m in mine:
+            at_top = g.loc[(*m, top)].util if (*m, top) in g.index else np.nan
+            if at_top <= 1.0:
+                words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
+            elif m in c.index and c.loc[m].util <= 1.0:
+                other = by.loc[c.loc[m].b]
+                words[m] = f"f'c {top:g} MPa (pour); {other.kind}: {other.option}"
+                u, cost = c.loc[m].util, c.loc[m].cost
+            elif m in own.index:
+                words[m], u, cost = (
+                    f"{own.loc[m].kind}: {own.loc[m].option}",
+                    own.loc[m].util,
+                    own.loc[m].added_cost,
+                )
+            elif m in pair.index and pair.loc[m].pair not in GRADE_PAIRS:
+                words[m], u, cost = (
+                    f"{pair.loc[m].kind}: {pair.loc[m].option}",
+                    pair.loc[m].util,
+                    pair.loc[m].added_cost,
+                )
+            else:
+                ok = False
+                break
+            total, worst = total + cost, max(worst, u)
+        if not ok:
+            continue
+        i = pours.index[pours.pour == pour][0]
+        pours.loc[i, ["kind", "option", "util", "added_cost"]] = [
+            PLAN_KIND,
+            f"f'c {top:g} MPa for every wall of the pour below it, and each failing pier's own change at "
+            f"that grade (its rows; no grade alone passes)",
+            worst,
+            total,
+        ]
+        pours.loc[i, "fixes"] = (
+            ", ".join(p for _, p in mine)
+            if len({s for s, _ in mine}) == 1
+            else ", ".join(f"{s} {p}" for s, p in mine)
+        )
+        plans |= {m: f"plan of pour {pour}: {w}" for m, w in words.items()}
+    return pours, plans
+
+
 def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
     """(storey, pier) -> the cheapest passing change in words: the pier's rank-1 row or its
     pour's grade, whichever costs less (an end-zone option offered first stays first)."""
@@ -802,7 +930,13 @@ def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
     ):
         mine = piers[(piers.storey == r.storey) & (piers.pier_id == r.pier_id)]
         pick = mine.iloc[0] if len(mine) else None
-        if r.pour in pours.index:
+        if r.pour in pours.index and pours.loc[r.pour].kind == PLAN_KIND:
+            p = pours.loc[r.pour]
+            plan = advice.plan[(advice.storey == r.storey) & (advice.pier_id == r.pier_id)].max()
+            if pick is None or pick.kind.startswith(GRADE_KIND):  # the pour's grade: the plan's
+                out[(r.storey, r.pier_id)] = f"{plan} (+{p.added_cost:,.0f} for the pour's plan)"
+                continue
+        elif r.pour in pours.index:
             p = pours.loc[r.pour]
             zone_first = pick is not None and pick.kind == ZONE_KIND and r.check == AXIAL_CHECK
             if pick is None or (not zone_first and p.added_cost < pick.added_cost):
@@ -886,7 +1020,8 @@ def search_lines(s: Settings) -> list[tuple[str, str]]:
             "Pour",
             f"{s.grade_pour} (Project setting): a grade passes only where every failing pier of the "
             "pour passes with it; a higher grade makes no other pier fail (no capacity falls, the "
-            "actions are held)",
+            "actions are held). Where no grade alone does, one plan for the pour: the highest grade "
+            "the piers' pairs name, with each pier's own part at that grade",
         ),
         (
             "Cost",

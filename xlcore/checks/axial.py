@@ -79,8 +79,9 @@ def asymmetric(df: pd.DataFrame) -> np.ndarray:
     end M* compresses)."""
     out = np.zeros(len(df), dtype=bool)
     for k in ZONE_FIELDS[:4]:
-        a, b = (np.nan_to_num(df[f"z{s}_{k}"].to_numpy(dtype=float)) if f"z{s}_{k}" in df else 0.0
-                for s in "ab")
+        a, b = (
+            np.nan_to_num(df[f"z{s}_{k}"].to_numpy(dtype=float)) if f"z{s}_{k}" in df else 0.0 for s in "ab"
+        )
         out |= np.asarray(a != b)
     return out
 

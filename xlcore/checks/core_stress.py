@@ -29,8 +29,10 @@ def _fibres(sp: pd.DataFrame) -> pd.DataFrame:
     seg = ((sp.end - sp.start) / count).to_numpy()[idx]
     along = sp.start.to_numpy()[idx] + (j + 0.5) * seg
     rel = (along - sp.start.to_numpy()[idx]) * 1000.0  # mm from the pier's start side
-    za, zb = (np.nan_to_num(sp[f"z{s}_len"].to_numpy(float)) if f"z{s}_len" in sp else np.zeros(len(sp))
-              for s in "ab")
+    za, zb = (
+        np.nan_to_num(sp[f"z{s}_len"].to_numpy(float)) if f"z{s}_len" in sp else np.zeros(len(sp))
+        for s in "ab"
+    )
     in_zone = (rel < za[idx]) | (rel > sp.Lw.to_numpy(float)[idx] - zb[idx])
     return pd.DataFrame(
         dict(
