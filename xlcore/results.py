@@ -323,7 +323,7 @@ ADVICE_COLUMNS = [
     _c("rank", "Rank", None, "0", 6),
     _c("kind", "Change", width=30),
     _c("option", "Cheapest passing option", width=44),
-    _c("fixes", "Failing piers it fixes", width=20),
+    _c("fixes", "Failing piers it fixes", width=30),
     _c("util", "Worst utilisation after", None, "0.000", 12),
     _c("added_cost", "Added cost", None, "#,##0", 11),
     _c("plan", "Its part in the pour's plan", width=30),
