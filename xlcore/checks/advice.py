@@ -917,33 +917,34 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
 
 def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
     """(storey, pier) -> the cheapest passing change in words: the pier's rank-1 row or its
-    pour's grade, whichever costs less (an end-zone option offered first stays first)."""
+    pour's grade, whichever costs less (an end-zone option offered first stays first); in a
+    pour with a plan, the plan's part for a pier whose own best change names the pour's grade."""
     if advice.empty:
         return {}
-    piers = advice[(advice.scope == "pier") & (advice["rank"] == 1) & (advice.util <= 1.0)]
-    pours = advice[(advice.scope == "pour") & (advice.util <= 1.0)].set_index("pour")
+    rows = advice[advice.scope == "pier"]
+    best = {
+        (r.storey, r.pier_id): r
+        for r in rows[(rows["rank"] == 1) & (rows.util <= 1.0)].itertuples(index=False)
+    }
+    plan = rows[rows.plan != ""].groupby(["storey", "pier_id"]).plan.first().to_dict()
+    pours = {
+        r.pour: r for r in advice[(advice.scope == "pour") & (advice.util <= 1.0)].itertuples(index=False)
+    }
     out = {}
-    for r in (
-        advice[advice.scope == "pier"][["storey", "pier_id", "pour", "check"]]
-        .drop_duplicates(["storey", "pier_id"])
-        .itertuples(index=False)
-    ):
-        mine = piers[(piers.storey == r.storey) & (piers.pier_id == r.pier_id)]
-        pick = mine.iloc[0] if len(mine) else None
-        if r.pour in pours.index and pours.loc[r.pour].kind == PLAN_KIND:
-            p = pours.loc[r.pour]
-            plan = advice.plan[(advice.storey == r.storey) & (advice.pier_id == r.pier_id)].max()
-            if pick is None or pick.kind.startswith(GRADE_KIND):  # the pour's grade: the plan's
-                out[(r.storey, r.pier_id)] = f"{plan} (+{p.added_cost:,.0f} for the pour's plan)"
+    for r in rows.drop_duplicates(["storey", "pier_id"]).itertuples(index=False):
+        key = (r.storey, r.pier_id)
+        pick, p = best.get(key), pours.get(r.pour)
+        if p is not None and p.kind == PLAN_KIND:
+            if key in plan and (pick is None or pick.kind.startswith(GRADE_KIND)):
+                out[key] = f"{plan[key]} (+{p.added_cost:,.0f} for the pour's plan)"
                 continue
-        elif r.pour in pours.index:
-            p = pours.loc[r.pour]
+        elif p is not None:
             zone_first = pick is not None and pick.kind == ZONE_KIND and r.check == AXIAL_CHECK
             if pick is None or (not zone_first and p.added_cost < pick.added_cost):
-                out[(r.storey, r.pier_id)] = f"{GRADE_KIND}: {p.option} (+{p.added_cost:,.0f} for the pour)"
+                out[key] = f"{GRADE_KIND}: {p.option} (+{p.added_cost:,.0f} for the pour)"
                 continue
         if pick is not None:
-            out[(r.storey, r.pier_id)] = f"{pick.kind}: {pick.option} (+{pick.added_cost:,.0f})"
+            out[key] = f"{pick.kind}: {pick.option} (+{pick.added_cost:,.0f})"
     return out
 
 
