@@ -23,17 +23,20 @@ analysed (a stiffer pier would attract more; re-run the analysis after a change)
   the kinds paired are grade + each pier change, horizontal + vertical bars (layers equal),
   horizontal or vertical bars + end-zone bars, end-zone bars + thickness (a thicker wall
   re-chooses its bars, so it is not paired with a change of bars). Bound: at most
-  7 x (72 + 90 + 25 + 12) + 36 x 45 x 2 + 72 x 25 + 90 x 25 + 25 x 12 = 9 633 pairs per
+  7 x (72 + 90 + 25 + 12) + 36 x 45 x 2 + 72 x 25 + 90 x 25 + 25 x 12 = 8 983 pairs per
   such pier (7 grades above the lowest, 72 horizontal and 90 vertical arrangements, 25
   end-zone options, 12 thicknesses), priced in one vectorised step and checked in rounds,
   cheapest first (6, 12, 24, ... per pier), stopping at the first round holding a pass; so
-  each pier gets the cheapest passing pair and every cheaper pair was checked and failed.
+  each pier gets the cheapest passing pair: every cheaper pair was checked and failed, or is
+  of a pair of kinds whose strongest pair fails (the probe below).
   Where no grade alone fixes a pour, one plan: the highest grade its piers' pairs name for the
   whole pour, each pier's other change checked again at that grade.
 - **probe**: each group (pier x kind, or pier x pair of kinds) first checks its most expensive
   option; where that fails the group is not searched. Assumes the most of a change does at least
-  as well as less of it: exact for grade and thickness in these checks; for steel, phi falling
-  as kuo grows (AS 3600 Table 2.2.2) is the one known exception (docs/engineering-basis.md).
+  as well as less of it: so for grade in these checks; for thickness, whose bars are re-chosen
+  at each step, within the rounding of the bar choice (the ratio never falls below the present);
+  for steel, phi falling as kuo grows (AS 3600 Table 2.2.2) is the one known exception
+  (docs/engineering-basis.md). The tests compare the search with the exhaustive one.
 
 Costs are totals over the pier's storey (clear height) for a change to a pier and over the
 whole pour for a grade (`costs.py`).
