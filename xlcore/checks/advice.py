@@ -687,8 +687,8 @@ def advise(
         pair_rows = left.merge(
             best[[*group, "option", "util", "added_cost"]], on=["storey", "pier_id"], how="left"
         )
-        pair_rows["kind"] = pair_rows.kind.fillna(PAIR_KIND)
-        pair_rows["option"] = pair_rows.option.fillna(
+        pair_rows["kind"] = pair_rows.kind.astype(object).fillna(PAIR_KIND)
+        pair_rows["option"] = pair_rows.option.astype(object).fillna(
             "none: no single change, pour grade or pair of changes in the search range passes every check"
         )
         pours, plans = _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings)
