@@ -10,7 +10,7 @@ import builders
 import numpy as np
 import pandas as pd
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
 from xlcore import costs, geometry
@@ -502,3 +502,22 @@ def test_pour_plan_where_no_grade_alone_fixes_the_pour_is_one_grade_and_passes_w
         ]
     )
     assert all_checks_pass(built, a)
+
+
+@settings(max_examples=10, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    v=st.floats(0.0, 900.0),
+    n=st.floats(-1500.0, 5000.0),
+    m=st.floats(0.0, 2000.0),
+)
+@example(v=300.0, n=1000.0, m=300.0)  # passes at f'c 25 (asserted below): the claim is tried
+def test_a_higher_grade_makes_no_passing_pier_fail(v, n, m):
+    """What a pour's grade assumes of the other piers of the pour (engineering-basis.md): a pier
+    that passes every check at f'c 25 passes at every higher standard grade, the actions held."""
+    a = acts(v, n=n, m=m)
+    if not all_checks_pass(one_pier(h_dia=12.0, h_spacing=200.0), a):
+        assert (v, n, m) != (300.0, 1000.0, 300.0)
+        return  # only passing piers are the claim's
+    for g in as3600.STANDARD_GRADES:
+        if g > 25.0:
+            assert all_checks_pass(one_pier(fc=g, h_dia=12.0, h_spacing=200.0), a), g
