@@ -48,3 +48,18 @@ def per_metre_height(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t):
 def bars_per_metre_height(area_mm2, steel_per_t):
     """Cost of one metre height of vertical bars of total area `area_mm2` (end-zone bars)."""
     return np.asarray(area_mm2, dtype=float) / 1e6 * STEEL_DENSITY / 1000.0 * steel_per_t
+
+
+def over_height(per_metre, height_mm):
+    """A cost per metre height of pier over a height given in mm (the storey's clear height:
+    a change of bars or thickness is built over the pier's whole storey)."""
+    return np.asarray(per_metre, dtype=float) * np.asarray(height_mm, dtype=float) / 1000.0
+
+
+def grade_premium(prices: dict[float, float], fc_now, fc_new, volume_m3):
+    """Added cost of concrete `volume_m3` placed at grade `fc_new` instead of `fc_now` (no
+    credit where the concrete is already at or above `fc_new`: it stays as it is)."""
+    now = concrete_price(prices, np.asarray(fc_now, dtype=float))
+    new = concrete_price(prices, np.asarray(fc_new, dtype=float))
+    up = np.asarray(fc_new, dtype=float) > np.asarray(fc_now, dtype=float)
+    return np.where(up, np.asarray(volume_m3, dtype=float) * (new - now), 0.0)

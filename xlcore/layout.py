@@ -149,6 +149,15 @@ WALL_SHARING = ("one storey's stiffness", "whole-height cantilever")
 # Structural ductility factor mu as the earthquake standard (AS 1170.4) assigns it; AS 3600:2018
 # Section 14 covers limited ductile (mu = 2) and moderately ductile (mu = 3) structures
 DUCTILITY = ("elastic (mu = 1)", "limited ductile (mu = 2)", "moderately ductile (mu = 3)")
+# Which walls share one concrete pour, for the advice's change of grade (checks/advice.py reads
+# the storey count from the words "over N storeys" and "each wall" from the last choice)
+GRADE_POURS = (
+    "the core at one storey",
+    "the core over 2 storeys",
+    "the core over 3 storeys",
+    "the core over 4 storeys",
+    "each wall at one storey",
+)
 
 INSTRUCTIONS_SHEET = "Read me"
 
@@ -556,6 +565,18 @@ PROJECT = SettingsSheet(
             "For ranking fixes. The default is illustrative, not market data.",
             min=0.0,
             max=1e6,
+        ),
+        Setting(
+            "grade_pour",
+            "Concrete pour for a grade change",
+            None,
+            Kind.CHOICE,
+            GRADE_POURS[0],
+            "Advice for failing piers: a higher concrete grade is proposed for a whole pour, "
+            "never one pier. 'The core': every wall with the same Core ID on the Walls sheet "
+            "(blank: the one building core); 'over N storeys': storeys grouped N at a time from "
+            "the lowest. The whole pour is priced at the new grade.",
+            choices=GRADE_POURS,
         ),
         Setting(
             "poisson",

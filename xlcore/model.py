@@ -59,6 +59,7 @@ class Settings(BaseModel):
     coupling_cap: float = 0.83
     concrete_prices: str = costs.DEFAULT_CONCRETE
     steel_price: float = costs.DEFAULT_STEEL
+    grade_pour: str = "the core at one storey"
     poisson: float = 0.2
     aci_lambda: float = 1.0  # ACI 318-19 19.2.4 (lightweight concrete); AS 3600 ignores it
 

@@ -14,7 +14,7 @@ import pandas as pd
 
 from xlcore import CAUTION, __version__, comparison, cores, distribution, geometry, results
 from xlcore.checks import plain, special_walls
-from xlcore.checks.advice import AXIAL_CHECK, advise
+from xlcore.checks.advice import AXIAL_CHECK, advise, cheapest_fixes, search_lines
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
@@ -308,21 +308,7 @@ def compute(
             f"{results.MARKER}: cheapest changes that make each failing pier pass every check at its storey",
             results.ADVICE_COLUMNS,
             advice,
-            preamble=stamp
-            + [
-                (
-                    "Search",
-                    "standard grades; horizontal N10-N20 and vertical N12-N28 at 100-300 mm in 25 mm "
-                    "steps, one or two layers; thickness +25 mm steps to +300 mm; each option run "
-                    "through every check (shear, axial + bending, Cl 11.5, detailing, Section 14) "
-                    "with the actions held as analysed",
-                ),
-                (
-                    "Cost",
-                    f"per metre height of pier: concrete {s.concrete_prices} per m3, reinforcement "
-                    f"{s.steel_price:g} per t (defaults are illustrative, not market data)",
-                ),
-            ],
+            preamble=stamp + search_lines(s),
         ),
         ResultSheet(
             results.MEMBERS_SHEET,
@@ -816,18 +802,15 @@ def _stamp(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
 
 
 def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFrame:
-    """Name the cheapest passing change beside each failing pier in the summary."""
+    """Name the cheapest passing change beside each failing pier in the summary (its own
+    change or its pour's grade: `advice.cheapest_fixes`)."""
     out = summary.copy()
     out["fix"] = ""
     if len(advice):
-        best = advice[advice["rank"] == 1]
-        text = {
-            (r.storey, r.pier_id): f"{r.kind}: {r.option} (+{r.added_cost:.2f} per m)"
-            for r in best.itertuples(index=False)
-        }
+        text = cheapest_fixes(advice)
         out["fix"] = [text.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
         none = (out.status == results.FAIL) & (out.fix == "")
-        out.loc[none, "fix"] = "no single change in the search range passes"
+        out.loc[none, "fix"] = "no change or pair of changes in the search range passes"
     return out
 
 

@@ -360,15 +360,18 @@ LINTEL_RESULT_COLUMNS = [
 ]
 
 ADVICE_COLUMNS = [
-    _c("storey", "Storey", width=8),
+    _c("storey", "Storey", width=10),
     _c("pier_id", "Pier", width=9),
+    _c("pour", "Concrete pour", width=16),
     _c("check", "Failing check now", width=18),
     _c("util_now", "Utilisation now", None, "0.000", 11),
     _c("rank", "Rank", None, "0", 6),
-    _c("kind", "Change", width=16),
+    _c("kind", "Change", width=30),
     _c("option", "Cheapest passing option", width=44),
+    _c("fixes", "Failing piers it fixes", width=30),
     _c("util", "Worst utilisation after", None, "0.000", 12),
-    _c("added_cost", "Added cost per m height", None, "0.00", 12),
+    _c("added_cost", "Added cost", None, "#,##0", 11),
+    _c("plan", "Its part in the pour's plan", width=30),
 ]
 
 SECTION_COLUMNS = [

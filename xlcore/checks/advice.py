@@ -1,16 +1,51 @@
-"""The cheapest changes that make each failing pier pass every check at its storey.
+"""Changes a site could build that make each failing pier pass every check at its storey.
 
 A search over discrete options, each evaluated with the same vectorised checks as the design
-(shear, axial + bending, Cl 11.5, detailing Cl 11.7 and Section 14): a higher standard grade;
-the lightest horizontal or vertical bar arrangement within the detailing limits; end-zone bars
-at both free edges of the pier (offered first where axial + bending fails); a thicker wall in
-25 mm steps. The actions are held as analysed (a stiffer pier would attract more; re-run the
-analysis after a change). Options are ranked by the added cost per metre height of pier.
+(shear, axial + bending, Cl 11.5, detailing Cl 11.7 and Section 14), the actions held as
+analysed (a stiffer pier would attract more; re-run the analysis after a change):
+
+- **a higher standard grade for a whole pour**, never one pier: the walls that share a pour
+  follow the Project setting `grade_pour` (default: every wall of the core, Walls sheet's Core
+  ID, at one storey; or the core over N storeys, or each wall). The whole pour is priced at the
+  new grade (each wall's length x thickness x clear height, openings not deducted), and a grade
+  passes only where every failing pier of the pour passes with it. A higher grade lowers no
+  capacity and raises no demand in these checks (the actions are held), so it makes no other
+  pier of the pour fail. One row per pour.
+- **horizontal or vertical bars**, the lightest arrangement per diameter, spacing and layers;
+  an option whose layers differ from the other direction's is not offered alone (the pair
+  search changes both), nor one layer where the wall is thicker than the one-layer limit
+  (Cl 11.7, checks/detailing.py) or Section 14 asks for both faces (checks/section14.py);
+- **end-zone bars** at both free edges of the pier (offered first where axial + bending fails);
+- **a thicker wall** in 25 mm steps that keeps the steel ratio of its bars: each direction gets
+  the arrangement of the bar catalogue with the least ratio at or above the present one (two
+  layers where the new thickness or Section 14 asks for them), stated in the option;
+- **pairs of changes**, only for a pier that no single change (nor its pour's grade) fixes:
+  the kinds paired are grade + each pier change, horizontal + vertical bars (layers equal),
+  horizontal or vertical bars + end-zone bars, end-zone bars + thickness (a thicker wall
+  re-chooses its bars, so it is not paired with a change of bars). Bound: at most
+  7 x (72 + 90 + 25 + 12) + 36 x 45 x 2 + 72 x 25 + 90 x 25 + 25 x 12 = 8 983 pairs per
+  such pier (7 grades above the lowest, 72 horizontal and 90 vertical arrangements, 25
+  end-zone options, 12 thicknesses), priced in one vectorised step and checked in rounds,
+  cheapest first (6, 12, 24, ... per pier), stopping at the first round holding a pass; so
+  each pier gets the cheapest passing pair: every cheaper pair was checked and failed, or is
+  of a pair of kinds whose strongest pair fails (the probe below).
+  Where no grade alone fixes a pour, one plan: the highest grade its piers' pairs name for the
+  whole pour, each pier's other change checked again at that grade.
+- **probe**: each group (pier x kind, or pier x pair of kinds) first checks its most expensive
+  option; where that fails the group is not searched. Assumes the most of a change does at least
+  as well as less of it: so for grade in these checks; for thickness, whose bars are re-chosen
+  at each step, within the rounding of the bar choice (the ratio never falls below the present);
+  for steel, phi falling as kuo grows (AS 3600 Table 2.2.2) is the one known exception
+  (docs/engineering-basis.md). The tests compare the search with the exhaustive one.
+
+Costs are totals over the pier's storey (clear height) for a change to a pier and over the
+whole pour for a grade (`costs.py`).
 """
 
 from __future__ import annotations
 
 import itertools
+import re
 
 import numpy as np
 import pandas as pd
@@ -18,7 +53,7 @@ import pandas as pd
 from xlcore import costs, geometry
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
-from xlcore.checks.section14 import check_section14
+from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import as3600
 from xlcore.mechanics import bars
@@ -32,45 +67,141 @@ THICKNESS_STEP, THICKNESS_STEPS = 25.0, 12
 ZONE_DIAS = (20.0, 24.0, 28.0, 32.0, 36.0)
 ZONE_BARS = (4, 6, 8, 10, 12)  # bars in each zone over all faces
 ZONE_ROUND = 25.0  # mm: zone lengths rounded up to this
-ZONE_KIND = "end-zone bars"
+GRADE_KIND = "grade (whole pour)"
+H_KIND, V_KIND, ZONE_KIND, THICK_KIND = "horizontal bars", "vertical bars", "end-zone bars", "thickness"
+PIER_KINDS = (H_KIND, V_KIND, ZONE_KIND, THICK_KIND)
+PAIRS = (
+    (GRADE_KIND, H_KIND),
+    (GRADE_KIND, V_KIND),
+    (GRADE_KIND, ZONE_KIND),
+    (GRADE_KIND, THICK_KIND),
+    (H_KIND, V_KIND),
+    (H_KIND, ZONE_KIND),
+    (V_KIND, ZONE_KIND),
+    (ZONE_KIND, THICK_KIND),
+)
+BAR_FIELDS = {p: (f"{p}_dia", f"{p}_spacing", f"{p}_layers", f"rho_{p}") for p in "hv"}
+# the pier fields each kind of change sets (the kinds paired never share one)
+OWNS = {
+    GRADE_KIND: ("fc",),
+    H_KIND: BAR_FIELDS["h"],
+    V_KIND: BAR_FIELDS["v"],
+    ZONE_KIND: tuple(geometry.ZONE_COLUMNS),
+    THICK_KIND: ("tw", *BAR_FIELDS["h"], *BAR_FIELDS["v"]),
+}
+# the priced quantities each kind sets (meta columns)
+PRICED = {
+    GRADE_KIND: ("fc",),
+    H_KIND: ("rho_h",),
+    V_KIND: ("rho_v",),
+    ZONE_KIND: ("zarea",),
+    THICK_KIND: ("tw", "rho_v", "rho_h"),
+}
 AXIAL_CHECK = "axial + bending"  # the summary's name of the pier N-M check
+NONE_PASSES = "none in the search range passes every check"
+PAIR_KIND = "pair of changes"
+ADVICE_KEYS = [
+    "storey",
+    "pier_id",
+    "pour",
+    "check",
+    "util_now",
+    "rank",
+    "kind",
+    "option",
+    "fixes",
+    "util",
+    "added_cost",
+    "plan",
+]
 
 
 def _option_table() -> pd.DataFrame:
     """Every option of the search, in the order ties on cost are broken: grades up, then
-    horizontal and vertical bars (diameter, spacing, layers), then thickness steps."""
-    rows = [dict(kind="grade", option=f"f'c {g:g} MPa", grade=g) for g in as3600.STANDARD_GRADES]
-    for kind, dias, prefix in (("horizontal bars", H_DIAS, "h"), ("vertical bars", V_DIAS, "v")):
+    horizontal and vertical bars (diameter, spacing, layers), then end zones and thickness."""
+    rows = [dict(kind=GRADE_KIND, option=f"f'c {g:g} MPa", grade=g) for g in as3600.STANDARD_GRADES]
+    for kind, dias, prefix in ((H_KIND, H_DIAS, "h"), (V_KIND, V_DIAS, "v")):
         for d, sp, n in itertools.product(dias, SPACINGS, LAYERS):
             rows.append(
                 dict(
-                    kind=kind,
-                    option=f"N{d:g} @ {sp:g} x {n} layer{'s' if n > 1 else ''}",
-                    prefix=prefix,
-                    dia=d,
-                    spacing=sp,
-                    layers=float(n),
+                    kind=kind, option=_bars_text(d, sp, n), prefix=prefix, dia=d, spacing=sp, layers=float(n)
                 )
             )
     rows += [
         dict(kind=ZONE_KIND, option="", zone_dia=d, zone_bars=float(n))
         for d, n in itertools.product(ZONE_DIAS, ZONE_BARS)
     ]
-    rows += [
-        dict(kind="thickness", option="", step=k * THICKNESS_STEP) for k in range(1, THICKNESS_STEPS + 1)
-    ]
+    rows += [dict(kind=THICK_KIND, option="", step=k * THICKNESS_STEP) for k in range(1, THICKNESS_STEPS + 1)]
     return pd.DataFrame(rows)
+
+
+def _bars_text(d: float, sp: float, n: float) -> str:
+    return f"N{d:g} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
 OPTIONS = _option_table()
 
 
+def two_layers_required(settings: Settings) -> bool:
+    """Section 14's both-faces rule applies (checks/section14.py: a ductile structure and the
+    Project setting): every option keeps two layers each way."""
+    return not_applicable_reason(settings) is None and settings.eq_two_layers == "yes"
+
+
+def _layers_needed(tw: np.ndarray, settings: Settings) -> np.ndarray:
+    """Least layers each way a wall of thickness `tw` may have: two above the one-layer
+    thickness limit of Cl 11.7 (checks/detailing.py) or where Section 14 asks for both faces."""
+    two = (np.asarray(tw, dtype=float) > as3600.SINGLE_LAYER_MAX_THICKNESS) | two_layers_required(settings)
+    return np.where(two, 2.0, 1.0)
+
+
+def _hold_ratio(rho0, layers, tw, dias, dia_now):
+    """Per row, the catalogue arrangement (`dias` x SPACINGS, `layers` layers) with the least
+    ratio at or above `rho0` in a wall `tw` thick, within the Cl 11.7 spacing and clear-gap
+    limits (exact ties: the present diameter). Returns dia, spacing, ratio and whether found."""
+    d = np.repeat(np.asarray(dias, dtype=float), len(SPACINGS))
+    sp = np.tile(np.asarray(SPACINGS, dtype=float), len(dias))
+    rho = geometry.bar_ratio(layers[:, None], d[None, :], sp[None, :], tw[:, None])
+    ok = (sp[None, :] <= as3600.wall_max_spacing(tw)[:, None]) & (
+        (sp - d)[None, :] >= as3600.wall_min_clear_gap(d)[None, :]
+    )
+    ok &= rho >= rho0[:, None] * (1.0 - 1e-9)
+    score = np.where(ok, rho + 1e-12 * (d[None, :] != dia_now[:, None]), np.inf)
+    k = np.argmin(score, axis=1) if len(score) else np.zeros(0, dtype=int)
+    found = np.isfinite(score[np.arange(len(k)), k]) if len(k) else np.zeros(0, dtype=bool)
+    return d[k], sp[k], rho[np.arange(len(k)), k] if len(k) else np.zeros(0), found
+
+
+def _cost_total(Lw, tw, rho_v, rho_h, fc, zarea, Hc, prices, settings: Settings) -> np.ndarray:
+    """Cost of a pier over its storey's clear height: concrete at its grade, wall bars, end-zone
+    bars (`costs.py`)."""
+    per_m = np.asarray(
+        costs.per_metre_height(
+            np.asarray(Lw, float),
+            np.asarray(tw, float),
+            np.asarray(rho_v, float),
+            np.asarray(rho_h, float),
+            costs.concrete_price(prices, np.asarray(fc, float)),
+            settings.steel_price,
+        )
+    ) + costs.bars_per_metre_height(zarea, settings.steel_price)
+    return costs.over_height(per_m, Hc)
+
+
+def _zone_area(df: pd.DataFrame) -> np.ndarray:
+    return sum(
+        np.nan_to_num(df[f"z{side}_n"].to_numpy(float)) * bars.bar_area(np.nan_to_num(df[f"z{side}_dia"]))
+        for side in "ab"
+    )
+
+
 def _candidates(
     piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
 ) -> tuple[pd.DataFrame, pd.DataFrame]:
-    """Every option for every target as a variant pier row, with its added cost per metre:
-    the targets crossed with the option table, less options that do not add to what is there
-    (a lower grade, less steel), all column by column."""
+    """Every single option for every target as a variant pier row, with its added cost over the
+    storey: the targets crossed with the option table, less options that do not add to what is
+    there (a lower grade, less steel) or cannot be built (one layer where two are needed), all
+    column by column. `offered`: may stand alone (bar layers equal to the other direction's)."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
     for c in geometry.ZONE_COLUMNS:
@@ -83,31 +214,32 @@ def _candidates(
     kind = o.kind.to_numpy()[oi]
     tw0 = var.tw.to_numpy(float)
     keep = np.ones(len(var), dtype=bool)
-    grade = kind == "grade"
+    offered = np.ones(len(var), dtype=bool)
+    layers_opt = np.full(len(var), np.nan)
+    grade = kind == GRADE_KIND
     keep[grade] = o.grade.to_numpy()[oi][grade] > var.fc.to_numpy(float)[grade]
     var["fc"] = np.where(grade, o.grade.to_numpy()[oi], var.fc.to_numpy(float))
-    for prefix, name in (("h", "horizontal bars"), ("v", "vertical bars")):
+    need = _layers_needed(tw0, settings)
+    for prefix, other, name in (("h", "v", H_KIND), ("v", "h", V_KIND)):
         sel = kind == name
         d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
         rho = geometry.bar_ratio(n, d, sp, tw0)
-        keep[sel] = rho[sel] > var[f"rho_{prefix}"].to_numpy(float)[sel] + 1e-12  # only more steel
+        # only more steel, never fewer layers than the thickness or Section 14 asks for, and
+        # within the Cl 11.7 spacing and clear-gap limits (checks/detailing.py fails the rest)
+        built = (sp <= as3600.wall_max_spacing(tw0)) & (sp - d >= as3600.wall_min_clear_gap(d))
+        keep[sel] = ((rho > var[f"rho_{prefix}"].to_numpy(float) + 1e-12) & (n >= need) & built)[sel]
+        offered[sel] = (n == var[f"{other}_layers"].to_numpy(float))[sel]
+        layers_opt[sel] = n[sel]
         for field, new in ((f"{prefix}_dia", d), (f"{prefix}_spacing", sp), (f"rho_{prefix}", rho)):
             var[field] = np.where(sel, new, var[field].to_numpy(float))
         var[f"{prefix}_layers"] = np.where(sel, n, var[f"{prefix}_layers"].to_numpy(float)).astype(int)
-    thick = kind == "thickness"
-    tw = np.where(thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), tw0)
-    for prefix in ("v", "h"):
-        same = geometry.bar_ratio(
-            *(var[f"{prefix}_{k}"].to_numpy(float) for k in ("layers", "dia", "spacing")), tw
-        )
-        var[f"rho_{prefix}"] = np.where(thick, same, var[f"rho_{prefix}"].to_numpy(float))
-    var["tw"] = tw
+    thick = kind == THICK_KIND
+    thick_text = _thicker(var, thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), keep, settings)
     keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi])
-    var, kind, oi = var[keep].reset_index(drop=True), kind[keep], oi[keep]
-    bi = bi[keep]
     option = o.option.to_numpy()[oi].copy()
-    thick = kind == "thickness"
-    option[thick] = [f"tw {t:g} mm (same bars)" for t in var.tw.to_numpy()[thick].tolist()]
+    option[thick] = thick_text
+    var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
+    option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
     option[zoned] = [
         f"{n:g}N{d:g} in {length:g} mm at each end (ties not priced)"
@@ -117,33 +249,80 @@ def _candidates(
     ]
     # each variant's own pier ID, unique over storeys too: an integer, so that the checks' joins
     # on (storey, pier) and the maps by variant hash numbers, not text (a text ID per variant cost
-    # a Python format per row and string factorising in every join)
+    # a Python format per row and string factorising in every join); the variant is its row
     variant = np.arange(len(var), dtype=np.int64)
     meta = pd.DataFrame(
         dict(
             storey=var.storey.to_numpy(),
             pier_id=var.pier_id.to_numpy(),
             variant=variant,
+            bi=bi,
             kind=kind,
             option=option,
+            offered=offered,
+            layers=layers_opt,
         )
     )
     var["pier_id"] = variant
-
-    def cost(df: pd.DataFrame) -> np.ndarray:
-        concrete = costs.concrete_price(prices, df.fc.to_numpy(float))
-        zone_area = sum(
-            np.nan_to_num(df[f"z{side}_n"].to_numpy(float)) * bars.bar_area(np.nan_to_num(df[f"z{side}_dia"]))
-            for side in "ab"
-        )
-        return np.asarray(
-            costs.per_metre_height(df.Lw, df.tw, df.rho_v, df.rho_h, concrete, settings.steel_price)
-        ) + costs.bars_per_metre_height(zone_area, settings.steel_price)
-
-    meta["added_cost"] = cost(var) - cost(base)[bi]
+    meta["zarea"] = _zone_area(var)
     for key in ("fc", "tw", "rho_v", "rho_h"):
-        meta[key] = var[key].to_numpy()
+        meta[key] = var[key].to_numpy(float)
+    b = base.iloc[bi]
+    for key in ("Lw", "Hc"):
+        meta[key] = b[key].to_numpy(float)
+    meta["fc0"], meta["tw0"] = b.fc.to_numpy(float), b.tw.to_numpy(float)
+    base_cost = _cost_total(
+        base.Lw, base.tw, base.rho_v, base.rho_h, base.fc, _zone_area(base), base.Hc, prices, settings
+    )
+    meta["base_cost"] = base_cost[bi]
+    meta["added_cost"] = (
+        _cost_total(meta.Lw, meta.tw, meta.rho_v, meta.rho_h, meta.fc, meta.zarea, meta.Hc, prices, settings)
+        - meta.base_cost
+    )
     return var, meta
+
+
+def _thicker(
+    var: pd.DataFrame, sel: np.ndarray, tw: np.ndarray, keep: np.ndarray, settings: Settings
+) -> list[str]:
+    """Put the thickness options `sel` into the variant rows: the new thickness and, each way,
+    the bars that keep the present ratio (`_hold_ratio`) in the layers the new thickness needs
+    (at least the present ones, the same both ways). Drops options whose ratio the catalogue
+    cannot hold; returns each kept option's words."""
+    idx = np.flatnonzero(sel)
+    if not len(idx):
+        return []
+    t = tw[idx]
+    rows = var.iloc[idx]
+    layers = np.maximum.reduce(
+        [rows.v_layers.to_numpy(float), rows.h_layers.to_numpy(float), _layers_needed(t, settings)]
+    )
+    words = [f"tw {x:g} mm, bars for the same ratio:" for x in t.tolist()]
+    found = np.ones(len(idx), dtype=bool)
+    for prefix, dias, label in (("v", V_DIAS, "vertical"), ("h", H_DIAS, "horizontal")):
+        rho0 = rows[f"rho_{prefix}"].to_numpy(float)
+        d, sp, rho, ok = _hold_ratio(rho0, layers, t, dias, rows[f"{prefix}_dia"].to_numpy(float))
+        found &= ok
+        for field, new in (
+            (f"{prefix}_dia", d),
+            (f"{prefix}_spacing", sp),
+            (f"{prefix}_layers", layers),
+            (f"rho_{prefix}", rho),
+        ):
+            col = var[field].to_numpy(float).copy()
+            col[idx] = new
+            var[field] = col
+        words = [
+            f"{w} {label} {_bars_text(di, s, n)} (rho {r0:.5f} -> {r:.5f}){';' if prefix == 'v' else ''}"
+            for w, di, s, n, r0, r in zip(words, d, sp, layers, rho0, rho, strict=True)
+        ]
+    for p in "hv":
+        var[f"{p}_layers"] = var[f"{p}_layers"].to_numpy(float).astype(int)
+    col = var.tw.to_numpy(float).copy()
+    col[idx] = t
+    var["tw"] = col
+    keep[idx] &= found
+    return words
 
 
 def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.ndarray) -> np.ndarray:
@@ -179,47 +358,294 @@ def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.nda
     return keep
 
 
+# ---------------------------------------------------------------------------------------------
+# pours
+
+
+def pour_keys(rows: pd.DataFrame, piers: pd.DataFrame, settings: Settings) -> tuple[pd.Series, pd.Series]:
+    """Each row's pour (the walls that take one grade together, Project setting `grade_pour`):
+    its name and its storey group (lowest first). `rows` carry storey_index, core and wall_id;
+    `piers` (the whole pier table) names each group's storeys."""
+    m = re.search(r"over (\d+) storeys", settings.grade_pour)
+    per = int(m.group(1)) if m else 1
+    group = rows.storey_index.to_numpy(int) // per
+    core = rows.core.fillna("").astype(str).to_numpy() if "core" in rows else np.full(len(rows), "")
+    # the storeys of each group: the names of its lowest and highest storeys in the building
+    names = piers[["storey", "storey_index"]].drop_duplicates().assign(g=lambda d: d.storey_index // per)
+    lo = names.sort_values("storey_index").groupby("g").storey.first()
+    hi = names.sort_values("storey_index").groupby("g").storey.last()
+    span = {g: (lo[g] if lo[g] == hi[g] else f"{lo[g]} to {hi[g]}") for g in lo.index}
+    if settings.grade_pour.startswith("each wall"):
+        who = [f"wall {w}" for w in rows.wall_id.astype(str)]
+    else:
+        who = [f"core {c}" if c else "the core" for c in core]
+    label = [f"{w}, {span[g]}" for w, g in zip(who, group.tolist(), strict=True)]
+    return pd.Series(label, index=rows.index), pd.Series(group, index=rows.index)
+
+
+def pour_premiums(piers: pd.DataFrame, settings: Settings) -> pd.DataFrame:
+    """Added cost of each pour at each standard grade: every wall of the pour below the grade
+    raised to it, priced over the wall's length x thickness x clear height (openings not
+    deducted: slightly over, never under). Columns pour, grade, premium."""
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    walls = piers.drop_duplicates(["storey", "wall_id"]).copy()
+    walls["pour"], _ = pour_keys(walls, piers, settings)
+    volume = (
+        walls.wall_length.to_numpy(float) * walls.tw.to_numpy(float) / 1e3 * walls.Hc.to_numpy(float) / 1e3
+    )
+    grades = np.asarray(as3600.STANDARD_GRADES)
+    prem = costs.grade_premium(prices, walls.fc.to_numpy(float)[:, None], grades[None, :], volume[:, None])
+    table = pd.DataFrame(prem, columns=grades).assign(pour=walls.pour.to_numpy()).groupby("pour").sum()
+    return table.stack().rename("premium").rename_axis(["pour", "grade"]).reset_index()
+
+
+# ---------------------------------------------------------------------------------------------
+# evaluation
+
+
 def _utilisation(
-    var: pd.DataFrame, meta: pd.DataFrame, actions: pd.DataFrame, settings: Settings, only_axial: bool = False
+    rows: pd.DataFrame,
+    meta: pd.DataFrame,
+    actions: pd.DataFrame,
+    settings: Settings,
+    only_axial: bool = False,
 ) -> pd.Series:
-    """Worst utilisation of the variants in `meta`, by variant ID (of the axial checks alone
-    with `only_axial`)."""
+    """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
+    (of the axial checks alone with `only_axial`), under `actions` of their piers."""
     acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
     acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
-    return _worst(var[var.pier_id.isin(meta.variant)], acts, settings, only_axial)
+    return _worst(rows, acts, settings, only_axial)
+
+
+def _confirm(rows_of, first: pd.DataFrame, screened: np.ndarray, actions, settings) -> pd.Series:
+    """Full utilisation of the variants `first` that passed the screen: shear governs at the
+    largest |V*| and detailing at the largest N*, both in the screen; axial + bending and
+    Cl 11.5 need every combination."""
+    axial = first.variant.map(_utilisation(rows_of(first), first, actions, settings, only_axial=True))
+    full = pd.Series(np.fmax(screened, axial.to_numpy()), index=first.variant.to_numpy())
+    unseen = first[np.isnan(screened)]  # no screen rows (not expected): every check
+    if len(unseen):
+        full.update(_utilisation(rows_of(unseen), unseen, actions, settings))
+    return full
+
+
+def _every(rows_of, meta: pd.DataFrame, actions, screen, settings) -> pd.Series:
+    """Utilisation of every variant in `meta`, by variant (screened, then confirmed)."""
+    if meta.empty:
+        return pd.Series(dtype=float)
+    screened = meta.variant.map(_utilisation(rows_of(meta), meta, screen, settings)).to_numpy(float)
+    hopeful = ~(screened > 1.0)
+    util = pd.Series(screened, index=meta.variant.to_numpy())
+    if hopeful.any():
+        util.update(_confirm(rows_of, meta[hopeful], screened[hopeful], actions, settings))
+    return util
+
+
+def _probed(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, settings, keep_all=False):
+    """The options of `meta` in groups (a pier's kind of change, or pair of kinds) whose most
+    expensive option, the most of that change, passes every check: a group whose strongest
+    option fails holds no passing option (the module docstring states the assumption). With
+    `keep_all`, every option, marked `_hope`."""
+    if meta.empty:
+        return meta.assign(_hope=True) if keep_all else meta
+    meta = meta.sort_values([*group, "added_cost"], kind="stable")
+    probe = meta.groupby(group, sort=False).tail(1)
+    hope = probe[probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()]
+    marked = meta.merge(hope[group].assign(_hope=True), on=group, how="left")
+    marked["_hope"] = marked._hope.eq(True)
+    return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+
+
+ROUND = 6  # options per group tried in the first round, cheapest first; doubling after
+
+
+def _rounds(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, settings) -> pd.Series:
+    """Utilisation by variant of the options `meta` checked, in rounds cheapest first per group:
+    a group stops at the first round that holds a passing option. Every cheaper option was
+    tried in an earlier round and failed, so the cheapest pass is the one an exhaustive search
+    gives, at a fraction of its work. Variants not checked are absent."""
+    if meta.empty:
+        return pd.Series(dtype=float)
+    meta = meta.sort_values([*group, "added_cost"], kind="stable")
+    meta = meta.assign(order=meta.groupby(group, sort=False).cumcount().to_numpy())
+    out = []
+    open_groups = meta[group].drop_duplicates()
+    start, size, last = 0, ROUND, int(meta.order.max())
+    while start <= last and len(open_groups):
+        batch = meta[(meta.order >= start) & (meta.order < start + size)].merge(open_groups, on=group)
+        start, size = start + size, 2 * size  # later rounds larger: the piers still open need more
+        if batch.empty:
+            break
+        # the few combinations that govern now first: an option failing those fails (the worst
+        # over some combinations is at most the worst over all). Of those passing, the cheapest
+        # per group is confirmed on every combination; if it fails there, the next.
+        screened = batch.variant.map(_utilisation(rows_of(batch), batch, screen, settings))
+        util = screened.where(screened > 1.0)  # a screen pass proves nothing yet
+        hopeful = batch[util.isna().to_numpy()]
+        while len(hopeful):
+            first = hopeful.groupby(group, sort=False).head(1)
+            full = _confirm(rows_of, first, first.variant.map(screened).to_numpy(float), actions, settings)
+            util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
+            settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
+            hopeful = hopeful[~hopeful.variant.isin(first.variant)]
+            hopeful = hopeful.merge(settled, on=group, how="left", indicator=True)
+            hopeful = hopeful[hopeful._merge == "left_only"].drop(columns="_merge")
+        out.append(pd.Series(util.to_numpy(), index=batch.variant.to_numpy()).dropna())
+        done = batch.assign(util=util.to_numpy())
+        done = done[done.util <= 1.0][group].drop_duplicates()
+        open_groups = open_groups.merge(done, on=group, how="left", indicator=True)
+        open_groups = open_groups[open_groups._merge == "left_only"].drop(columns="_merge")
+    return pd.concat(out) if out else pd.Series(dtype=float)
+
+
+def _pairs(meta: pd.DataFrame, premiums: pd.DataFrame, first_id: int, settings: Settings) -> pd.DataFrame:
+    """Every pair of options of the kinds in PAIRS for the piers in `meta` (their single
+    options, offered alone or not), priced exactly: the pier's cost with both changes, and for
+    a grade the whole pour's premium (less the pier's own part, already in the pier's cost).
+    Variant IDs from `first_id`; `a`, `b` the two single variants (words: `pair_words`)."""
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    cols = ["storey", "pier_id", "bi", "variant", "offered", "layers", "pour", *PRICED_ALL, *BASE]
+    parts = []
+    for k, (ka, kb) in enumerate(PAIRS):
+        a = meta.loc[meta.kind == ka, cols]
+        b = meta.loc[meta.kind == kb, ["bi", "variant", "offered", "layers", *PRICED_ALL]]
+        if a.empty or b.empty:
+            continue
+        m = a.merge(b, on="bi", suffixes=("_a", "_b"))
+        if (ka, kb) == (H_KIND, V_KIND):
+            ok = m.layers_a.to_numpy() == m.layers_b.to_numpy()  # both directions in the same layers
+        else:
+            ok = m.offered_a.to_numpy() & m.offered_b.to_numpy()
+        m = m[ok]
+        if m.empty:
+            continue
+        field = {f: m[f"{f}_b" if f in PRICED[kb] else f"{f}_a"].to_numpy(float) for f in PRICED_ALL}
+        cost = _cost_total(
+            m.Lw,
+            field["tw"],
+            field["rho_v"],
+            field["rho_h"],
+            field["fc"],
+            field["zarea"],
+            m.Hc,
+            prices,
+            settings,
+        ) - m.base_cost.to_numpy(float)
+        if ka == GRADE_KIND:
+            pour = m[["pour", "fc_a"]].merge(
+                premiums, left_on=["pour", "fc_a"], right_on=["pour", "grade"], how="left"
+            )
+            own = costs.grade_premium(prices, m.fc0, m.fc_a, m.Lw * m.tw0 * m.Hc / 1e9)
+            cost = cost + pour.premium.to_numpy(float) - own
+        parts.append(
+            pd.DataFrame(
+                dict(
+                    storey=m.storey.to_numpy(),
+                    pier_id=m.pier_id.to_numpy(),
+                    bi=m.bi.to_numpy(),
+                    pair=k,
+                    a=m.variant_a.to_numpy(),
+                    b=m.variant_b.to_numpy(),
+                    added_cost=cost,
+                )
+            )
+        )
+    cols = ["storey", "pier_id", "bi", "pair", "a", "b", "added_cost"]
+    out = pd.concat(parts, ignore_index=True) if parts else pd.DataFrame(columns=cols)
+    out["kind"] = np.asarray([f"{ka} + {kb}" for ka, kb in PAIRS], dtype=object)[out.pair.to_numpy(int)]
+    out["kb"] = np.asarray([kb for _, kb in PAIRS], dtype=object)[out.pair.to_numpy(int)]
+    out["variant"] = np.arange(first_id, first_id + len(out), dtype=np.int64)
+    return out
+
+
+def pair_words(pairs: pd.DataFrame, meta: pd.DataFrame) -> list[str]:
+    """The two options of each pair in words (a grade named with its pour)."""
+    by = meta.set_index("variant")
+    out = []
+    for a, b in zip(pairs.a.tolist(), pairs.b.tolist(), strict=True):
+        ra, rb = by.loc[a], by.loc[b]
+        first = f"{ra.option} for the pour ({ra.pour})" if ra.kind == GRADE_KIND else ra.option
+        out.append(f"{first}; {rb.option}")
+    return out
+
+
+PRICED_ALL = ("fc", "tw", "rho_v", "rho_h", "zarea")
+BASE = ("Lw", "Hc", "fc0", "tw0", "base_cost")
+
+
+def _pair_rows(var: pd.DataFrame):
+    """The variant rows of pairs: the first change's row with the second's fields over it."""
+
+    def rows_of(m: pd.DataFrame) -> pd.DataFrame:
+        rows = var.iloc[m.a.to_numpy()].reset_index(drop=True)
+        bsel = m.b.to_numpy()
+        for kb in m.kb.unique():
+            on = (m.kb == kb).to_numpy()
+            for f in OWNS[kb]:
+                col = rows[f].to_numpy().copy()
+                col[on] = var[f].to_numpy()[bsel[on]]
+                rows[f] = col
+        rows["pier_id"] = m.variant.to_numpy()
+        return rows
+
+    return rows_of
 
 
 def evaluate_options(
-    piers: pd.DataFrame, actions: pd.DataFrame, targets: pd.DataFrame, settings: Settings
+    piers: pd.DataFrame, actions: pd.DataFrame, targets: pd.DataFrame, settings: Settings, pairs: bool = False
 ) -> pd.DataFrame:
-    """Every option for every target (storey, pier_id): worst utilisation and added cost per
-    metre height (all options run through the checks; `advise` stops early)."""
+    """Every single option for every target (storey, pier_id), or with `pairs` every pair of
+    options: worst utilisation and added cost (all run through the checks: the exhaustive search
+    `advise` must agree with). Singles carry `offered` (may stand alone); grades are per pier
+    and priced for the pier alone here (the pour is `advise`'s)."""
     var, meta = _candidates(piers, targets, settings)
-    meta["util"] = meta.variant.map(_utilisation(var, meta, actions, settings)).astype(float)
-    return meta
+    screen = _screening_actions(actions, targets)
+
+    def single_rows(m):
+        return var.iloc[m.variant.to_numpy()]
+
+    if not pairs:
+        meta["util"] = meta.variant.map(_every(single_rows, meta, actions, screen, settings)).astype(float)
+        return meta
+    meta["pour"], _ = pour_keys(meta.assign(**_pier_cols(piers, meta)), piers, settings)
+    pm = _pairs(meta, pour_premiums(piers, settings), len(var), settings)
+    pm["util"] = pm.variant.map(_every(_pair_rows(var), pm, actions, screen, settings)).astype(float)
+    pm["option"] = pair_words(pm, meta)
+    return pm
 
 
-ROUND = 6  # options per (pier, kind) tried in the first round, cheapest first; doubling after
+def _pier_cols(piers: pd.DataFrame, meta: pd.DataFrame) -> dict[str, np.ndarray]:
+    """The pier columns a pour needs, for the rows of `meta`."""
+    p = meta[["storey", "pier_id"]].merge(
+        piers[["storey", "pier_id", "storey_index", "core", "wall_id"]], on=["storey", "pier_id"], how="left"
+    )
+    return {k: p[k].to_numpy() for k in ("storey_index", "core", "wall_id")}
+
+
+# ---------------------------------------------------------------------------------------------
+# the search
 
 
 def advise(
     piers: pd.DataFrame, actions: pd.DataFrame, summary: pd.DataFrame, settings: Settings
 ) -> pd.DataFrame:
-    """One row per failing storey x pier x kind of change: the cheapest passing option of that
-    kind (or 'none in the search range'), its worst utilisation and added cost per metre.
-
-    Options are tried in rounds, cheapest first, and a (pier, kind) stops at the first round
-    that holds a passing option: every cheaper option was tried in an earlier round and failed,
-    so the answer is the one an exhaustive search gives, at a fraction of its work."""
+    """The advice table: per failing storey x pier one row per kind of pier change (its cheapest
+    passing option or why there is none), a row with the cheapest passing pair of changes where
+    no single change passes, and one row per pour holding a failing pier (the cheapest grade
+    that makes every failing pier of the pour pass). Columns ADVICE_KEYS (+ scope: pier/pour)."""
     failing = summary[summary.status == "FAIL"][["storey", "pier_id"]]
     if failing.empty:
-        return pd.DataFrame(
-            columns=["storey", "pier_id", "kind", "option", "util", "added_cost", "rank", "check", "util_now"]
-        )
+        return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
     var, meta = _candidates(piers, failing, settings)
+    meta["pour"], _ = pour_keys(meta.assign(**_pier_cols(piers, meta)), piers, settings)
+    screen = _screening_actions(actions, failing)
+
+    def single_rows(m):
+        return var.iloc[m.variant.to_numpy()]
+
     group = ["storey", "pier_id", "kind"]
     # horizontal bars change neither axial + bending nor Cl 11.5: where either fails they cannot
-    # help, so those options are not run (exactly what running them would show)
+    # help alone, so those options are not run (exactly what running them would show)
     cols = [c for c in ("u_nm", "u_simplified") if c in summary]
     hopeless = (
         summary[(summary[cols] > 1.0).any(axis=1)][["storey", "pier_id"]] if cols else summary.iloc[0:0]
@@ -227,58 +653,57 @@ def advise(
     flagged = (
         meta.merge(hopeless.assign(_h=True), on=["storey", "pier_id"], how="left")._h.eq(True).to_numpy()
     )
-    skip = flagged & (meta.kind == "horizontal bars").to_numpy()
-    skipped = meta[skip][group].drop_duplicates()
-    meta = meta[~skip]
-    meta = meta.sort_values([*group, "added_cost"], kind="stable")
-    meta["order"] = meta.groupby(group, sort=False).cumcount()
-    meta["util"] = np.nan
-    open_groups = meta[group].drop_duplicates()
-    screen = _screening_actions(actions, failing)
-    start, size, last = 0, ROUND, int(meta.order.max())
-    while start <= last:
-        batch = meta[(meta.order >= start) & (meta.order < start + size)].merge(open_groups, on=group)
-        start, size = start + size, 2 * size  # later rounds larger: the piers still open need more
-        if batch.empty:
-            break
-        # the few combinations that govern now first: an option failing those fails (the worst
-        # over some combinations is at most the worst over all). Of those passing, the cheapest
-        # per (pier, kind) is confirmed on every combination; if it fails there, the next.
-        screened = _utilisation(var, batch, screen, settings)
-        util = batch.variant.map(screened)
-        util = util.where(util > 1.0)  # a screen pass proves nothing yet
-        hopeful = batch[util.isna().to_numpy()]
-        while len(hopeful):
-            first = hopeful.groupby(group, sort=False).head(1)
-            # shear governs at the largest |V*| and detailing at the largest N*, both in the
-            # screen; axial + bending and Cl 11.5 need every combination
-            on_screen = first.variant.map(screened).to_numpy()
-            axial = first.variant.map(_utilisation(var, first, actions, settings, only_axial=True))
-            full = pd.Series(np.fmax(on_screen, axial.to_numpy()), index=first.variant.to_numpy())
-            unseen = first[np.isnan(on_screen)]  # no screen rows (not expected): every check
-            if len(unseen):
-                full.update(_utilisation(var, unseen, actions, settings))
-            util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
-            settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
-            hopeful = hopeful[~hopeful.variant.isin(first.variant)]
-            hopeful = hopeful.merge(settled, on=group, how="left", indicator=True)
-            hopeful = hopeful[hopeful._merge == "left_only"].drop(columns="_merge")
-        worst = pd.Series(util.to_numpy(), index=batch.variant.to_numpy())
-        meta.loc[meta.variant.isin(batch.variant), "util"] = meta.variant.map(worst)  # blank: not needed
-        done = batch.assign(util=util.to_numpy())
-        done = done[done.util <= 1.0][group].drop_duplicates()
-        open_groups = open_groups.merge(done, on=group, how="left", indicator=True)
-        open_groups = open_groups[open_groups._merge == "left_only"].drop(columns="_merge")
-        if open_groups.empty:
-            break
-    passing = meta[meta.util <= 1.0].sort_values("added_cost", kind="stable")
+    alone = meta[meta.kind.isin(PIER_KINDS).to_numpy() & meta.offered.to_numpy()]
+    skip = flagged[alone.index] & (alone.kind == H_KIND).to_numpy()
+    skipped = alone[skip][group].drop_duplicates()
+    alone = alone[~skip]
+    alone = _probed(single_rows, alone, group, actions, screen, settings, keep_all=True)
+    util = _rounds(single_rows, alone[alone._hope], group, actions, screen, settings)
+    alone = alone.assign(util=alone.variant.map(util))
+
+    # grades: every grade of every failing pier, then per pour
+    grades = meta[meta.kind == GRADE_KIND]
+    grades = grades.assign(util=grades.variant.map(_every(single_rows, grades, actions, screen, settings)))
+    pours = _pour_rows(piers, failing, summary, grades, settings)
+
+    # pairs where neither a single change nor the pour's grade fixes the pier
+    fixed = alone[alone.util <= 1.0][["storey", "pier_id"]].drop_duplicates()
+    fixed_by_pour = pours[pours.util <= 1.0].pour
+    done = pd.concat([fixed, meta[meta.pour.isin(fixed_by_pour)][["storey", "pier_id"]]]).drop_duplicates()
+    left = failing.merge(done, how="left", indicator=True)
+    left = left[left._merge == "left_only"][["storey", "pier_id"]]
+    pair_rows = pd.DataFrame(columns=[*group, "option", "util", "added_cost"])
+    if len(left):
+        sub = meta.merge(left, on=["storey", "pier_id"])
+        pm = _pairs(sub, pour_premiums(piers, settings), len(var), settings)
+        rows_of = _pair_rows(var)
+        pm = _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
+        putil = _rounds(rows_of, pm, ["storey", "pier_id"], actions, screen, settings)
+        pm = pm.assign(util=pm.variant.map(putil))
+        best = (
+            pm[pm.util <= 1.0].sort_values("added_cost", kind="stable").groupby(["storey", "pier_id"]).head(1)
+        )
+        best = best.assign(option=pair_words(best, meta))
+        pair_rows = left.merge(
+            best[[*group, "option", "util", "added_cost"]], on=["storey", "pier_id"], how="left"
+        )
+        pair_rows["kind"] = pair_rows.kind.astype(object).fillna(PAIR_KIND)
+        pair_rows["option"] = pair_rows.option.astype(object).fillna(
+            "none: no single change, pour grade or pair of changes in the search range passes every check"
+        )
+        pours, plans = _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings)
+    else:
+        plans = {}
+
+    passing = alone[alone.util <= 1.0].sort_values("added_cost", kind="stable")
     best = passing.groupby(group, sort=False).head(1)
-    kinds = pd.concat([meta[group].drop_duplicates(), skipped], ignore_index=True)
-    out = kinds.merge(best, on=group, how="left")
-    out["option"] = out.option.fillna("none in the search range passes every check")
+    kinds = pd.concat([alone[group].drop_duplicates(), skipped], ignore_index=True)
+    out = kinds.merge(best[[*group, "option", "util", "added_cost"]], on=group, how="left")
+    out["option"] = out.option.fillna(NONE_PASSES)
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
-        "none: horizontal bars do not change axial + bending or Cl 11.5, which fail"
+        "none alone: horizontal bars do not change axial + bending or Cl 11.5, which fail"
     )
+    out = pd.concat([out, pair_rows], ignore_index=True)
     out = out.merge(
         summary[["storey", "pier_id", "check", "util"]].rename(columns={"util": "util_now"}),
         on=["storey", "pier_id"],
@@ -288,7 +713,242 @@ def advise(
     first = ((out.kind == ZONE_KIND) & (out.check == AXIAL_CHECK)).to_numpy()
     key = out.added_cost.to_numpy(float) - np.where(first, 1e15, 0.0)
     out["rank"] = pd.Series(key, index=out.index).groupby([out.storey, out.pier_id]).rank(method="first")
-    return out.sort_values(["storey", "pier_id", "rank"], na_position="last").reset_index(drop=True)
+    names, _ = pour_keys(out.assign(**_pier_cols(piers, out)), piers, settings)
+    out["pour"] = names.to_numpy()
+    out["fixes"] = ""
+    out["scope"] = "pier"
+    out["plan"] = [plans.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
+    out.loc[out["rank"].ne(1).to_numpy(), "plan"] = ""  # said once, on the pier's first row
+    at = _pier_cols(piers, out)["storey_index"]
+    out["_order"] = at
+    pours["scope"] = "pour"
+    table = pd.concat([pours, out], ignore_index=True)
+    table["_kind"] = table.kind.map({k: i for i, k in enumerate((GRADE_KIND, *PIER_KINDS))}).fillna(
+        len(PIER_KINDS) + 1
+    )
+    table["_pour_at"] = table.groupby("pour")._order.transform("min")
+    table = table.sort_values(
+        ["_pour_at", "pour", "scope", "_order", "pier_id", "rank", "_kind"],
+        ascending=[True, True, False, True, True, True, True],
+        na_position="last",
+        kind="stable",
+    )
+    table["plan"] = table.plan.fillna("")
+    return table[[*ADVICE_KEYS, "scope"]].reset_index(drop=True)
+
+
+def _pour_rows(
+    piers: pd.DataFrame,
+    failing: pd.DataFrame,
+    summary: pd.DataFrame,
+    grades: pd.DataFrame,
+    settings: Settings,
+) -> pd.DataFrame:
+    """One row per pour holding a failing pier: the cheapest standard grade with which every
+    failing pier of the pour passes (a pier already at or above a grade is not changed by it,
+    so it must pass as it is: it fails), priced over the whole pour."""
+    f = failing.assign(**_pier_cols(piers, failing))
+    f["pour"], _ = pour_keys(f, piers, settings)
+    f = f.merge(summary[["storey", "pier_id", "check", "util"]], on=["storey", "pier_id"])
+    f["_order"] = f.storey_index.to_numpy(float)
+    prem = pour_premiums(piers, settings)
+    count = f.groupby("pour").size().rename("n")
+    g = grades.drop(columns="pour", errors="ignore").merge(
+        f[["storey", "pier_id", "pour"]], on=["storey", "pier_id"]
+    )
+    ok = (
+        g[g.util <= 1.0]
+        .groupby(["pour", "fc"])
+        .agg(n_ok=("util", "size"), util=("util", "max"))
+        .reset_index()
+    )
+    ok = ok.merge(count.reset_index(), on="pour")
+    ok = ok[ok.n_ok == ok.n].merge(prem, left_on=["pour", "fc"], right_on=["pour", "grade"])
+    best = ok.sort_values(["premium", "fc"], kind="stable").groupby("pour").head(1).set_index("pour")
+    rows = []
+    for pour, members in f.sort_values(["_order", "pier_id"]).groupby("pour", sort=False):
+        worst = members.loc[members.util.idxmax()]
+        listed = ", ".join(
+            members.pier_id.astype(str)
+            if members.storey.nunique() == 1
+            else (members.storey.astype(str) + " " + members.pier_id.astype(str))
+        )
+        storeys = pour.split(", ", 1)[1]
+        row = dict(
+            storey=storeys,
+            pier_id="",
+            pour=pour,
+            check=worst.check,
+            util_now=worst.util,
+            rank=np.nan,
+            kind=GRADE_KIND,
+            fixes=listed,
+            _order=members._order.min(),
+        )
+        if pour in best.index:
+            b = best.loc[pour]
+            row |= dict(
+                option=f"f'c {b.fc:g} MPa for every wall of the pour below it ({pour})",
+                util=b.util,
+                added_cost=b.premium,
+            )
+        else:
+            row |= dict(
+                option="none: no standard grade makes every failing pier of the pour pass",
+                util=np.nan,
+                added_cost=np.nan,
+                fixes="",
+            )
+        rows.append(row)
+    return pd.DataFrame(rows)
+
+
+PLAN_KIND = GRADE_KIND + " + pier changes"
+GRADE_PAIRS = {k for k, (ka, _) in enumerate(PAIRS) if ka == GRADE_KIND}
+
+
+def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings):
+    """One buildable plan for a pour that no grade alone fixes but whose piers' pairs name a
+    grade: the highest grade those pairs name, G, for the whole pour, and each failing pier
+    either passing at G alone, or its pair's other change at G (checked again at G), or its own
+    cheapest change. Priced once: the pour's premium at G plus the piers' changes. Returns the
+    pour rows (a plan fills a row that had none) and, per pier, its part of the plan in words."""
+    plans: dict[tuple[str, str], str] = {}
+    if best.empty or not pours.util.isna().any():
+        return pours, plans
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
+    by = meta.set_index("variant")
+    key = ["storey", "pier_id"]
+    own = (
+        alone[alone.util <= 1.0].sort_values("added_cost", kind="stable").groupby(key).head(1).set_index(key)
+    )
+    pair = best.set_index(key)
+    g = grades.set_index([*key, "fc"])
+    members = meta.drop_duplicates(key)[[*key, "pour"]]
+    wanted, check = {}, []
+    for pour in pours[pours.util.isna()].pour:
+        mine = [tuple(m) for m in members[members.pour == pour][key].itertuples(index=False)]
+        named = [
+            by.loc[pair.loc[m].a].fc for m in mine if m in pair.index and pair.loc[m].pair in GRADE_PAIRS
+        ]
+        if not named:
+            continue
+        top = max(named)
+        wanted[pour] = (top, mine)
+        for m in mine:
+            if (
+                m in pair.index
+                and pair.loc[m].pair in GRADE_PAIRS
+                and (*m, top) in g.index
+                and g.loc[(*m, top)].util > 1.0
+            ):
+                check.append((*m, int(g.loc[(*m, top)].variant), int(pair.loc[m].b)))
+    if not wanted:
+        return pours, plans
+    c = pd.DataFrame(check, columns=[*key, "a", "b"])
+    c["kb"] = by.kind.reindex(c.b).to_numpy()
+    c["variant"] = np.arange(len(c), dtype=np.int64) + len(var) + 10**9
+    util = _every(_pair_rows(var), c, actions, screen, settings) if len(c) else pd.Series(dtype=float)
+    c["util"] = c.variant.map(util)
+    if len(c):
+        ra, rb = by.loc[c.a], by.loc[c.b]
+        field = {}
+        for f in PRICED_ALL:
+            field[f] = np.where([f in PRICED[k] for k in c.kb], rb[f].to_numpy(float), ra[f].to_numpy(float))
+        c["cost"] = (
+            _cost_total(
+                ra.Lw,
+                field["tw"],
+                field["rho_v"],
+                field["rho_h"],
+                field["fc"],
+                field["zarea"],
+                ra.Hc,
+                prices,
+                settings,
+            )
+            - ra.base_cost.to_numpy(float)
+            - costs.grade_premium(prices, ra.fc0, ra.fc, ra.Lw.to_numpy(float) * ra.tw0 * ra.Hc / 1e9)
+        )
+    c = c.set_index(key)
+    pours = pours.copy()
+    for pour, (top, mine) in wanted.items():
+        total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
+        for m in mine:
+            at_top = g.loc[(*m, top)].util if (*m, top) in g.index else np.nan
+            if at_top <= 1.0:
+                words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
+            elif m in c.index and c.loc[m].util <= 1.0:
+                other = by.loc[c.loc[m].b]
+                words[m] = f"f'c {top:g} MPa (pour); {other.kind}: {other.option}"
+                u, cost = c.loc[m].util, c.loc[m].cost
+            elif m in own.index:
+                words[m], u, cost = (
+                    f"{own.loc[m].kind}: {own.loc[m].option}",
+                    own.loc[m].util,
+                    own.loc[m].added_cost,
+                )
+            elif m in pair.index and pair.loc[m].pair not in GRADE_PAIRS:
+                words[m], u, cost = (
+                    f"{pair.loc[m].kind}: {pair.loc[m].option}",
+                    pair.loc[m].util,
+                    pair.loc[m].added_cost,
+                )
+            else:
+                ok = False
+                break
+            total, worst = total + cost, max(worst, u)
+        if not ok:
+            continue
+        i = pours.index[pours.pour == pour][0]
+        pours.loc[i, ["kind", "option", "util", "added_cost"]] = [
+            PLAN_KIND,
+            f"f'c {top:g} MPa for every wall of the pour below it, and each failing pier's own change at "
+            f"that grade (its rows; no grade alone passes)",
+            worst,
+            total,
+        ]
+        pours.loc[i, "fixes"] = (
+            ", ".join(p for _, p in mine)
+            if len({s for s, _ in mine}) == 1
+            else ", ".join(f"{s} {p}" for s, p in mine)
+        )
+        plans |= {m: f"plan of pour {pour}: {w}" for m, w in words.items()}
+    return pours, plans
+
+
+def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
+    """(storey, pier) -> the cheapest passing change in words: the pier's rank-1 row or its
+    pour's grade, whichever costs less (an end-zone option offered first stays first); in a
+    pour with a plan, the plan's part for a pier whose own best change names the pour's grade."""
+    if advice.empty:
+        return {}
+    rows = advice[advice.scope == "pier"]
+    best = {
+        (r.storey, r.pier_id): r
+        for r in rows[(rows["rank"] == 1) & (rows.util <= 1.0)].itertuples(index=False)
+    }
+    plan = rows[rows.plan != ""].groupby(["storey", "pier_id"]).plan.first().to_dict()
+    pours = {
+        r.pour: r for r in advice[(advice.scope == "pour") & (advice.util <= 1.0)].itertuples(index=False)
+    }
+    out = {}
+    for r in rows.drop_duplicates(["storey", "pier_id"]).itertuples(index=False):
+        key = (r.storey, r.pier_id)
+        pick, p = best.get(key), pours.get(r.pour)
+        if p is not None and p.kind == PLAN_KIND:
+            if key in plan and (pick is None or pick.kind.startswith(GRADE_KIND)):
+                out[key] = f"{plan[key]} (+{p.added_cost:,.0f} for the pour's plan)"
+                continue
+        elif p is not None:
+            zone_first = pick is not None and pick.kind == ZONE_KIND and r.check == AXIAL_CHECK
+            if pick is None or (not zone_first and p.added_cost < pick.added_cost):
+                out[key] = f"{GRADE_KIND}: {p.option} (+{p.added_cost:,.0f} for the pour)"
+                continue
+        if pick is not None:
+            out[key] = f"{pick.kind}: {pick.option} (+{pick.added_cost:,.0f})"
+    return out
 
 
 SCREEN = 2  # combinations per pier and measure of demand in the screening set
@@ -298,7 +958,7 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
     Cl 11.5 for any change of section in the search (a screen only: results are confirmed)."""
-    acts = actions.merge(failing, on=["storey", "pier_id"])
+    acts = actions.merge(failing[["storey", "pier_id"]], on=["storey", "pier_id"])
     if acts.empty:
         return acts
     n = acts.n.to_numpy(float)
@@ -341,3 +1001,37 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def search_lines(s: Settings) -> list[tuple[str, str]]:
+    """The lines above the advice table: what was searched, how it is priced, what a pour is."""
+    layers = (
+        "two layers each way (Section 14 both faces)"
+        if two_layers_required(s)
+        else (f"one or two layers (two above {as3600.SINGLE_LAYER_MAX_THICKNESS:g} mm)")
+    )
+    return [
+        (
+            "Search",
+            f"a standard grade for the whole pour; horizontal N10-N20 and vertical N12-N28 at "
+            f"100-300 mm in 25 mm steps, {layers}, the same layers both ways; end-zone bars at both "
+            "free edges; thickness +25 mm steps to +300 mm keeping the bars' ratio; where none of "
+            "these passes alone, pairs of them (cheapest first). Each option run through every "
+            "check (shear, axial + bending, Cl 11.5, detailing, Section 14) with the actions held "
+            "as analysed (re-run the analysis after a change)",
+        ),
+        (
+            "Pour",
+            f"{s.grade_pour} (Project setting): a grade passes only where every failing pier of the "
+            "pour passes with it; a higher grade makes no other pier fail (no capacity falls, the "
+            "actions are held). Where no grade alone does, one plan for the pour: the highest grade "
+            "the piers' pairs name, with each pier's own part at that grade",
+        ),
+        (
+            "Cost",
+            f"added cost over the storey's clear height for a pier, over the whole pour for a grade "
+            f"(each wall's length x thickness x clear height, openings not deducted): concrete "
+            f"{s.concrete_prices} per m3, reinforcement {s.steel_price:g} per t (defaults are "
+            "illustrative, not market data)",
+        ),
+    ]
