@@ -643,7 +643,7 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
     out = pd.concat([w, p], ignore_index=True)
     out["used"] = np.where(out.row.isin(given), "no: member actions given", "yes")
     out["kind_order"] = (out.kind == "pier").astype(int)
-    out["core_order"] = out.core.map({c: i for i, c in enumerate(dict.fromkeys(out.core))})
+    out["core_order"] = pd.factorize(out.core, use_na_sentinel=False)[0]  # order of first appearance
     out = out.sort_values(
         ["row", "core_order", "kind_order", "member"],
         kind="stable",
