@@ -453,6 +453,8 @@ def _plain_shared_ok(body: bytes, strings: int) -> bool:
     """Whether no shared-string cell of a plain sheet points past the shared strings, asked by
     one search; False also where a cell's type is quoted or spaced unusually (then the general
     scan decides)."""
+    if b'"s"' not in body and b"'s'" not in body:
+        return True  # no cell typed s, in any quoting
     if b"'s'" in body or body.count(b'"s"') != body.count(b't="s"'):
         return False
     if b't="s"' not in body:
