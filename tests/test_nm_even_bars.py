@@ -7,6 +7,8 @@ test_as3600_axial.py and test_nm_reference_library.py, and those tests now run t
 closed forms wherever piers are checked.
 """
 
+import dataclasses
+
 import numpy as np
 import pandas as pd
 from hypothesis import given
@@ -131,7 +133,7 @@ def test_rows_without_zone_bars_among_rows_with_them_give_the_same_forces_to_the
     for i in range(rows):
         one = sec.take(np.array([i]))
         if not has[i]:
-            one = nm.EvenRect(**{**one.__dict__, "zd": None, "zA": None})
+            one = dataclasses.replace(one, zd=None, zA=None)
         n1, m1 = nm.forces(one, dn[[i]])
         assert n1[0] == n[i] and m1[0] == m[i], i
     n2, m2 = nm.forces(sec.bars(), dn)

@@ -140,13 +140,20 @@ def concat(a, b):
 
 
 def _take(sec, rows):
-    return type(sec)(
+    out = type(sec)(
         **{
             f.name: (v[rows] if isinstance(v, np.ndarray) else v)
             for f in fields(sec)
             for v in (getattr(sec, f.name),)
         }
     )
+    zmask = sec.__dict__.get(_ZMASK)
+    if zmask is not None:  # the rows with zone bars, carried along (the solvers take every step)
+        object.__setattr__(out, _ZMASK, zmask[rows])
+    return out
+
+
+_ZMASK = "_zone_rows"  # cached on an EvenRect: which rows carry any zone bar
 
 
 def _even_sums(sec: EvenRect, j0, j1) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -197,7 +204,10 @@ def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.
     (the advice search pads every variant to the most zone bars of any: at the M tower 7 rows
     in 10 carry none). A row without bars would add sums of zeros, so the result is the same
     to the last bit; each row's sum runs over the same columns as before."""
-    has = (sec.zA > 0).any(axis=1)
+    has = sec.__dict__.get(_ZMASK)
+    if has is None:
+        has = (sec.zA > 0).any(axis=1)
+        object.__setattr__(sec, _ZMASK, has)
     if has.all():
         zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress)
         return ns + zn, ms + zm
