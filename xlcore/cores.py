@@ -209,14 +209,15 @@ def core_actions_to_piers(
     plans: dict[str, dict[str, distribution.StoreyPlan]],
     actions: pd.DataFrame,
     local_moment: str = distribution.LOCAL_BESIDE_OPENINGS,
+    text: bool = True,
 ) -> distribution.CoreSharing:
     """Every core's actions (`share_among_cores(...).actions`) shared to its own walls and piers
     (`distribution.core_actions_to_piers` over that core's section alone); tables with a `core`
-    column."""
+    column. Without `text` the piers' `source` is blank (`distribution.core_source_of`)."""
     pier_parts, wall_parts = [], []
     for core, rows in actions.groupby("core", sort=False):
         out = distribution.core_actions_to_piers(
-            piers[piers.core == core], walls[walls.core == core], plans[core], rows, 0.0, local_moment
+            piers[piers.core == core], walls[walls.core == core], plans[core], rows, 0.0, local_moment, text
         )
         pier_parts.append(out.piers.assign(core=core))
         wall_parts.append(out.walls.assign(core=core))

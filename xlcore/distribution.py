@@ -19,7 +19,8 @@ COMPOSITE = "composite section"
 FROM_SHEAR = "pier moments from shear"
 WALL_NM_METHODS = (COMPOSITE, FROM_SHEAR)
 LOCAL_BESIDE_OPENINGS = "add V* h/2 beside openings"  # layout.CORE_LOCAL_MOMENT[0]
-CORE_PIER_EXTRA = ["m_curv", "m_local", "m_oop"]  # core path: own bending, V* h/2, across the wall
+# core path: own bending, V* h/2, across the wall; the wall's V* that the pier shares
+CORE_PIER_EXTRA = ["m_curv", "m_local", "m_oop", "wall_v"]
 
 ACTION_COLUMNS = [
     "row",
@@ -194,6 +195,7 @@ def core_actions_to_piers(
     core: pd.DataFrame,
     accidental: float = 0.0,
     local_moment: str = LOCAL_BESIDE_OPENINGS,
+    text: bool = True,
 ) -> CoreSharing:
     """Share each storey's core resultants among walls (rigid diaphragm) and then piers.
 
@@ -209,6 +211,10 @@ def core_actions_to_piers(
     Accidental eccentricity: a fraction of the plan dimension across each shear component,
     added in the sense that increases each wall's force (so with it the wall forces no longer
     sum exactly to the storey shear).
+
+    Without `text` the piers' `source` is left blank for `core_source` to write on the rows
+    that need it (the L tower's 360 000 core pier rows took 1.7 s of text that its member
+    actions then replaced); `wall_v` (the wall's V* the pier shares) is kept for it.
     """
     pier_rows, wall_rows = [], []
     piers_at, walls_at = by_storey(piers), by_storey(walls)
@@ -269,18 +275,11 @@ def core_actions_to_piers(
         m_pier = m_in.T + m_loc  # combos x piers
         pier_ids, pier_walls = sp.pier_id.to_numpy(), sp.wall_id.to_numpy()
         tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
-        source = [
-            f"core: wall {w} {wv:.1f} kN x share {sh:.3f}; N* from core stress; M* = own share of core "
-            f"bending {mc:.1f}" + (f" + V* h/2 {ml:.1f} = {mc + ml:.1f} kNm" if ml else " kNm")
-            for w, wv, sh, mc, ml in zip(
-                tiled(pier_walls).tolist(),
-                wall_v.ravel().tolist(),
-                tiled(share).tolist(),
-                m_in.T.ravel().tolist(),
-                m_loc.ravel().tolist(),
-                strict=True,
-            )
-        ]
+        source = (
+            core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel())
+            if text
+            else np.full(n_p * n_c, None, dtype=object)
+        )
         pier_rows.append(
             dict(
                 row=np.repeat(rows, n_p),
@@ -298,9 +297,27 @@ def core_actions_to_piers(
                 m_curv=m_in.T.ravel(),
                 m_local=m_loc.ravel(),
                 m_oop=m_oop.T.ravel(),
+                wall_v=wall_v.ravel(),
             )
         )
     return CoreSharing(stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA), stack(wall_rows))
+
+
+def core_source(wall_id, wall_v, share, m_curv, m_local) -> list[str]:
+    """The 'V* from' text of pier rows whose actions come from the core sharing (columns of
+    `core_actions_to_piers(...).piers`, or arrays of them)."""
+    return [
+        f"core: wall {w} {wv:.1f} kN x share {sh:.3f}; N* from core stress; M* = own share of core "
+        f"bending {mc:.1f}" + (f" + V* h/2 {ml:.1f} = {mc + ml:.1f} kNm" if ml else " kNm")
+        for w, wv, sh, mc, ml in zip(
+            *(np.asarray(a).tolist() for a in (wall_id, wall_v, share, m_curv, m_local)), strict=True
+        )
+    ]
+
+
+def core_source_of(piers: pd.DataFrame) -> list[str]:
+    """`core_source` of pier rows of `core_actions_to_piers(...).piers`."""
+    return core_source(piers.wall_id, piers.wall_v, piers.share, piers.m_curv, piers.m_local)
 
 
 def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np.ndarray]:

@@ -364,4 +364,5 @@ def natural_rank(ids: pd.Series) -> pd.Series:
     """Each ID's place in natural order (W2 before W10), worked out once per distinct ID: a
     sort key for tables of many rows."""
     distinct = sorted(pd.unique(ids), key=lambda t: _natural(str(t)))
-    return ids.map({v: i for i, v in enumerate(distinct)})
+    # hashed look-up of each row's rank (Series.map with a dict walks the rows in Python)
+    return pd.Series(pd.Index(distinct).get_indexer(ids), index=ids.index, name=ids.name)

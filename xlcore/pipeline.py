@@ -691,13 +691,15 @@ def pier_actions(
     if building.core_actions.empty:
         return member, None, None
     split = cores.share_among_cores(piers, plans, building.core_actions, s.accidental)
-    core = cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment)
+    # the piers' text only where used: on the pier actions below, on the core rows written
+    core = cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment, text=False)
     # core-actions rows (one per storey x combination) whose pair the member actions cover
     ca = building.core_actions
-    given = ca.row[_pairs(ca).isin(_pairs(building.member_actions).unique())].to_numpy()
+    given = ca.row[_pairs_in(ca, building.member_actions)].to_numpy()
     core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
+    core_piers["source"] = distribution.core_source_of(core_piers)
     table = core_table(core, given, text=False)  # the walls' working: compute, on the rows written
-    core_piers = core_piers.drop(columns=["core"])
+    core_piers = core_piers.drop(columns=["core", "wall_v"])
     if len(split.shares):
         split.shares["used"] = np.where(
             split.shares.row.isin(given),
@@ -734,9 +736,11 @@ def _wall_sharing_text(s) -> str:
     return f"one storey's stiffness: clear height, {s.pier_fixity}, flexure + shear (Project setting)"
 
 
-def _pairs(df: pd.DataFrame) -> pd.Series:
-    """Storey x combination of each row as one key."""
-    return df.storey.astype(str) + "\x1f" + df.combination.astype(str)
+def _pairs_in(df: pd.DataFrame, other: pd.DataFrame) -> np.ndarray:
+    """Whether each row's storey x combination is among `other`'s (hashed pairs, no joined
+    text per row: the L tower has 360 000 member-action rows)."""
+    key = lambda d: pd.MultiIndex.from_arrays([d.storey.astype(str), d.combination.astype(str)])  # noqa: E731
+    return key(df).isin(key(other).unique())
 
 
 def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = True) -> pd.DataFrame:
@@ -754,7 +758,7 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
     out = pd.concat([w, p], ignore_index=True)
     out["used"] = np.where(out.row.isin(given), "no: member actions given", "yes")
     out["kind_order"] = (out.kind == "pier").astype(int)
-    out["core_order"] = out.core.map({c: i for i, c in enumerate(dict.fromkeys(out.core))})
+    out["core_order"] = pd.factorize(out.core, use_na_sentinel=False)[0]  # order of first appearance
     out = out.sort_values(
         ["row", "core_order", "kind_order", "member"],
         kind="stable",
@@ -765,8 +769,12 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
 
 
 def core_working(rows: pd.DataFrame) -> pd.DataFrame:
-    """The walls' working text on rows of the core-shares table (piers carry theirs)."""
+    """The working text on rows of the core-shares table: walls', and piers' (their 'V* from'
+    text, `distribution.core_source_of`) where blank."""
     out = rows.copy()
+    p = out[(out.kind == "pier") & out.working.isna()]
+    if len(p):
+        out.loc[p.index, "working"] = distribution.core_source_of(p)
     w = out[out.kind == "wall"]
     out.loc[w.index, "working"] = [
         f"V* = direct {d:.1f} + torsion {t:.1f} = {v:.1f} kN; M about CR = {m:.1f} kNm "

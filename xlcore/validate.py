@@ -286,12 +286,18 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
         return None
     idx = [cols.get(c.key) for c in t.columns]
     body = sheet.rows[1:]
-    columns = [
-        [r[i] if i < len(r) else None for r in body] if i is not None else [None] * len(body) for i in idx
-    ]
+    need = max((i for i in idx if i is not None), default=-1) + 1
+    if body and min(map(len, body)) >= need:  # rows as wide as the columns read: transpose in C
+        every = list(zip(*body, strict=False)) if need else []
+        columns = [list(every[i]) if i is not None else [None] * len(body) for i in idx]
+    else:
+        columns = [
+            [r[i] if i < len(r) else None for r in body] if i is not None else [None] * len(body)
+            for i in idx
+        ]
     filled = np.zeros(len(body), dtype=bool)  # rows with anything in xlcore's columns
     for col in columns:
-        filled |= ~np.fromiter(map(blank, col), dtype=bool, count=len(col))
+        filled |= ~_blank_mask(col)
     keep = np.flatnonzero(filled)
     rows = (keep + 2).tolist()
     data: dict[str, object] = {"row": np.array(rows, dtype=int)}
@@ -301,6 +307,18 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
     df = pd.DataFrame(data)
     df.attrs["columns"] = cols
     return df
+
+
+def _blank_mask(col: list) -> np.ndarray:
+    """`blank` of each cell, judged once per distinct value (a column of 360 000 action rows
+    holds a few hundred names and numbers): one C-level pass to find them, one to look up."""
+    try:
+        blanks = {v for v in set(col) if blank(v)}
+    except TypeError:  # an unhashable cell value: one by one
+        return np.fromiter(map(blank, col), dtype=bool, count=len(col))
+    if not blanks:
+        return np.zeros(len(col), dtype=bool)
+    return np.fromiter(map(blanks.__contains__, col), dtype=bool, count=len(col))
 
 
 def _typed_column(column, rows, c: Column, ci: int | None, sheet: str, f: Findings):
@@ -342,18 +360,22 @@ def _plain_texts(column: list, c: Column) -> np.ndarray:
     """Stripped text where the cell is a string within bounds (a listed choice, for choice
     columns); _UNSETTLED where it needs a closer look."""
     choices = {ch.lower(): ch for ch in c.choices} if c.kind is Kind.CHOICE else None
-    out = np.empty(len(column), dtype=object)
-    for i, v in enumerate(column):
+
+    def settle(v: object) -> object:
         if type(v) is not str:
-            out[i] = _UNSETTLED
-            continue
+            return _UNSETTLED
         t = v.strip()
         if not t or len(t) > 255 or t in ERROR_VALUES:
-            out[i] = _UNSETTLED
-        elif choices is None:
-            out[i] = t
-        else:
-            out[i] = choices.get(t.lower(), _UNSETTLED)
+            return _UNSETTLED
+        return t if choices is None else choices.get(t.lower(), _UNSETTLED)
+
+    out = np.empty(len(column), dtype=object)
+    try:  # once per distinct value (a non-text cell settles nothing, whichever value it is)
+        known = {v: settle(v) for v in set(column)}
+    except TypeError:  # an unhashable cell value: one by one
+        out[:] = [settle(v) for v in column]
+        return out
+    out[:] = list(map(known.__getitem__, column))
     return out
 
 
@@ -1190,7 +1212,8 @@ def _member_actions(
             continue
         given.setdefault((rec.storey, rec.combination, wall, level), rec.row)
     if geom is not None and not df.empty:
-        covered = set(df.member) | {walls_of.get(m) for m in df.member}
+        members = set(df.member.unique())
+        covered = members | {walls_of.get(m) for m in members}
         missing = sorted(set(geom.piers.wall_id) - covered, key=geometry._natural)
         if missing:
             f.warning(t.name, None, "no actions for wall(s) " + ", ".join(missing) + ": they are not checked")
@@ -1374,7 +1397,7 @@ def _combination_warnings(member: pd.DataFrame, core: pd.DataFrame, f: Findings)
     frames = [d[["storey", "combination"]] for d in (member, core) if len(d)]
     if not frames:
         return
-    both = pd.concat(frames, ignore_index=True).dropna()
+    both = pd.concat(frames, ignore_index=True).dropna().drop_duplicates()  # pairs are what count
     names = sorted(set(both.combination))
     groups: dict[str, list[str]] = defaultdict(list)
     for n in names:

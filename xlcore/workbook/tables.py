@@ -112,6 +112,9 @@ def _array(col: pd.Series, numeric: bool):
         x = pd.to_numeric(col, errors="coerce")
         if not (x.isna() & col.notna() & (col != "")).any():
             return pa.array(x.to_numpy(dtype=float), type=pa.float64(), from_pandas=True)
+    if isinstance(col.dtype, pd.StringDtype):  # pandas' own strings: Arrow's, no Python objects
+        out = pa.array(col, type=pa.string(), from_pandas=True)
+        return out.combine_chunks() if isinstance(out, pa.ChunkedArray) else out
     vals = col.to_numpy(dtype=object, na_value=None)
     try:
         return pa.array(vals, type=pa.string(), from_pandas=True)

@@ -19,12 +19,14 @@ it (or A1 is still our inline text, i.e. no program has saved the sheet since we
 from __future__ import annotations
 
 import contextlib
+import copy
 import dataclasses
 import functools
 import os
 import re
 import shutil
 import stat
+import struct
 import tempfile
 import zipfile
 from collections.abc import Callable, Iterator, Sequence
@@ -360,6 +362,12 @@ def _write_package(fh, package: list, zip64: bool) -> None:
     small parts do (seen by other writers), so it is used only when a part outgrows 4 GiB."""
     with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED) as out:
         for info, data in package:
+            if isinstance(data, _Raw):
+                big = max(info.file_size, len(data.data)) > zipfile.ZIP64_LIMIT
+                if big and not zip64:
+                    raise _NeedsZip64  # not expected: a part of over 4 GiB in the source
+                _write_raw(out, info, data.data, zip64)
+                continue
             if isinstance(data, bytes):
                 out.writestr(info, data, compresslevel=FAST if len(data) > BIG else 6)
                 continue
@@ -372,6 +380,51 @@ def _write_package(fh, package: list, zip64: bool) -> None:
                 if "force_zip64" in str(exc):
                     raise _NeedsZip64 from exc
                 raise
+
+
+@dataclasses.dataclass(frozen=True)
+class _Raw:
+    """A large part of the source package kept as the deflated bytes it was stored with: written
+    back as they are, not inflated and deflated again (the L tower's 100 MB member-actions sheet
+    cost a second of deflate on every compute)."""
+
+    data: bytes
+
+
+def _deflated_bytes(zf: zipfile.ZipFile, info: zipfile.ZipInfo) -> bytes:
+    """The stored (deflated) bytes of a part, from its local header (APPNOTE 4.3.7: 30 bytes,
+    then the name and the extra field)."""
+    zf.fp.seek(info.header_offset)
+    head = zf.fp.read(30)
+    if len(head) != 30 or head[:4] != b"PK\x03\x04":
+        raise zipfile.BadZipFile(f"bad local header for {info.filename}")
+    name_len, extra_len = struct.unpack("<HH", head[26:30])
+    zf.fp.seek(info.header_offset + 30 + name_len + extra_len)
+    data = zf.fp.read(info.compress_size)
+    if len(data) != info.compress_size:
+        raise zipfile.BadZipFile(f"{info.filename} is cut short")
+    return data
+
+
+def _write_raw(out: zipfile.ZipFile, info: zipfile.ZipInfo, raw: bytes, zip64: bool = False) -> None:
+    """A part whose deflated bytes, CRC and sizes are known, as `ZipFile.writestr` would write it
+    (local header with the sizes, the data, the entry for the central directory), without
+    deflating it again."""
+    z = copy.copy(info)
+    z.compress_type = zipfile.ZIP_DEFLATED
+    z.compress_size = len(raw)
+    z.flag_bits = 0
+    if not z.external_attr:
+        z.external_attr = 0o600 << 16
+    out.fp.seek(out.start_dir)
+    z.header_offset = out.fp.tell()
+    out._writecheck(z)
+    out._didModify = True
+    out.fp.write(z.FileHeader(zip64))
+    out.fp.write(raw)
+    out.start_dir = out.fp.tell()
+    out.filelist.append(z)
+    out.NameToInfo[z.filename] = z
 
 
 def _set_level(info: zipfile.ZipInfo, level: int) -> None:
@@ -490,7 +543,11 @@ def _build(
         if info.filename in drop_parts:
             continue
         data = changed.get(info.filename)
-        out.append((info, data if data is not None else zf.read(info.filename)))
+        if data is None:
+            data = zf.read(info.filename)  # inflated, so its CRC is checked as before
+            if info.compress_type == zipfile.ZIP_DEFLATED and len(data) > BIG:
+                data = _Raw(_deflated_bytes(zf, info))
+        out.append((info, data))
     if styles_part not in names:
         raise FileProblem("workbook has no style sheet part; open and save it in a spreadsheet program")
     for part, data in new_parts.items():
