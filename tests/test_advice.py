@@ -521,3 +521,24 @@ def test_a_higher_grade_makes_no_passing_pier_fail(v, n, m):
     for g in as3600.STANDARD_GRADES:
         if g > 25.0:
             assert all_checks_pass(one_pier(fc=g, h_dia=12.0, h_spacing=200.0), a), g
+
+
+def test_the_search_keeps_to_the_projects_standard():
+    """Under ACI 318-19 the grades offered are that standard's list (`Standard.grades`: common
+    SI strengths, common practice, no source) and the bars keep its spacing limit: 11.7.2.1 /
+    11.7.3.1, the least of 3 h and 450 mm for a wall whose shear steel is not required
+    (ACI 318-19, from memory as docs/engineering-basis.md records) = 450 mm for 200 mm, wider
+    than AS 3600 Cl 11.7.3's min(2.5 tw, 350) = 350 mm (hand evaluation); the catalogue stops at
+    300 mm, so spacing does not separate them here and the grades do: 28 and 35 MPa are ACI's
+    alone, 20 and 100 MPa AS 3600's alone."""
+    from xlcore.codes import get_standard
+
+    aci = Settings(standard="ACI 318-19")
+    opts = evaluate_options(one_pier(), acts(1900.0), TARGET, aci)
+    offered = set(opts[opts.kind == GRADE_KIND].option)
+    aci_grades = [g for g in get_standard("ACI 318-19").grades() if g > 25.0]
+    assert offered == {f"f'c {g:g} MPa" for g in aci_grades}
+    assert "f'c 28 MPa" in offered and "f'c 100 MPa" not in offered
+    as_opts = evaluate_options(one_pier(), acts(1900.0), TARGET, Settings())
+    as_offered = set(as_opts[as_opts.kind == GRADE_KIND].option)
+    assert "f'c 100 MPa" in as_offered and "f'c 28 MPa" not in as_offered

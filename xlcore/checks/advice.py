@@ -44,6 +44,7 @@ whole pour for a grade (`costs.py`).
 
 from __future__ import annotations
 
+import functools
 import itertools
 import re
 
@@ -55,7 +56,8 @@ from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
+from xlcore.codes.base import Standard
 from xlcore.mechanics import bars
 from xlcore.model import Settings
 
@@ -116,10 +118,18 @@ ADVICE_KEYS = [
 ]
 
 
-def _option_table() -> pd.DataFrame:
-    """Every option of the search, in the order ties on cost are broken: grades up, then
-    horizontal and vertical bars (diameter, spacing, layers), then end zones and thickness."""
-    rows = [dict(kind=GRADE_KIND, option=f"f'c {g:g} MPa", grade=g) for g in as3600.STANDARD_GRADES]
+def _std(settings: Settings) -> Standard:
+    """The Project's design standard with its own settings: the grades, spacing, clear-gap and
+    layer limits the search keeps to are that standard's (the checks then judge every option)."""
+    return get_standard(settings.standard).configure(settings)
+
+
+@functools.lru_cache(maxsize=4)
+def _option_table(grades: tuple[float, ...]) -> pd.DataFrame:
+    """Every option of the search, in the order ties on cost are broken: grades up (the
+    standard's, `Standard.grades`), then horizontal and vertical bars (diameter, spacing,
+    layers), then end zones and thickness."""
+    rows = [dict(kind=GRADE_KIND, option=f"f'c {g:g} MPa", grade=g) for g in grades]
     for kind, dias, prefix in ((H_KIND, H_DIAS, "h"), (V_KIND, V_DIAS, "v")):
         for d, sp, n in itertools.product(dias, SPACINGS, LAYERS):
             rows.append(
@@ -139,8 +149,6 @@ def _bars_text(d: float, sp: float, n: float) -> str:
     return f"N{d:g} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
-OPTIONS = _option_table()
-
 
 def two_layers_required(settings: Settings) -> bool:
     """Section 14's both-faces rule applies (checks/section14.py: a ductile structure and the
@@ -151,19 +159,21 @@ def two_layers_required(settings: Settings) -> bool:
 def _layers_needed(tw: np.ndarray, settings: Settings) -> np.ndarray:
     """Least layers each way a wall of thickness `tw` may have: two above the one-layer
     thickness limit of Cl 11.7 (checks/detailing.py) or where Section 14 asks for both faces."""
-    two = (np.asarray(tw, dtype=float) > as3600.SINGLE_LAYER_MAX_THICKNESS) | two_layers_required(settings)
+    thickest_one_layer = _std(settings).single_layer_limits()[0]
+    two = (np.asarray(tw, dtype=float) > thickest_one_layer) | two_layers_required(settings)
     return np.where(two, 2.0, 1.0)
 
 
-def _hold_ratio(rho0, layers, tw, dias, dia_now):
+def _hold_ratio(rho0, layers, tw, dias, dia_now, std: Standard, Lw, way: int):
     """Per row, the catalogue arrangement (`dias` x SPACINGS, `layers` layers) with the least
     ratio at or above `rho0` in a wall `tw` thick, within the Cl 11.7 spacing and clear-gap
     limits (exact ties: the present diameter). Returns dia, spacing, ratio and whether found."""
     d = np.repeat(np.asarray(dias, dtype=float), len(SPACINGS))
     sp = np.tile(np.asarray(SPACINGS, dtype=float), len(dias))
     rho = geometry.bar_ratio(layers[:, None], d[None, :], sp[None, :], tw[:, None])
-    ok = (sp[None, :] <= as3600.wall_max_spacing(tw)[:, None]) & (
-        (sp - d)[None, :] >= as3600.wall_min_clear_gap(d)[None, :]
+    # way: 0 vertical, 1 horizontal bars (`Standard.max_spacing` gives both)
+    ok = (sp[None, :] <= std.max_spacing(tw, Lw)[way][:, None]) & (
+        (sp - d)[None, :] >= std.min_clear_gap(d)[None, :]
     )
     ok &= rho >= rho0[:, None] * (1.0 - 1e-9)
     score = np.where(ok, rho + 1e-12 * (d[None, :] != dia_now[:, None]), np.inf)
@@ -207,7 +217,8 @@ def _candidates(
     for c in geometry.ZONE_COLUMNS:
         if c not in base:
             base[c] = np.nan if c.endswith("_ties") else 0.0
-    o = OPTIONS
+    std = _std(settings)
+    o = _option_table(tuple(std.grades()))
     bi = np.repeat(np.arange(len(base)), len(o))
     oi = np.tile(np.arange(len(o)), len(base))
     var = base.iloc[bi].reset_index(drop=True)
@@ -226,7 +237,8 @@ def _candidates(
         rho = geometry.bar_ratio(n, d, sp, tw0)
         # only more steel, never fewer layers than the thickness or Section 14 asks for, and
         # within the Cl 11.7 spacing and clear-gap limits (checks/detailing.py fails the rest)
-        built = (sp <= as3600.wall_max_spacing(tw0)) & (sp - d >= as3600.wall_min_clear_gap(d))
+        way = 0 if prefix == "v" else 1
+        built = (sp <= std.max_spacing(tw0, var.Lw.to_numpy(float))[way]) & (sp - d >= std.min_clear_gap(d))
         keep[sel] = ((rho > var[f"rho_{prefix}"].to_numpy(float) + 1e-12) & (n >= need) & built)[sel]
         offered[sel] = (n == var[f"{other}_layers"].to_numpy(float))[sel]
         layers_opt[sel] = n[sel]
@@ -235,7 +247,7 @@ def _candidates(
         var[f"{prefix}_layers"] = np.where(sel, n, var[f"{prefix}_layers"].to_numpy(float)).astype(int)
     thick = kind == THICK_KIND
     thick_text = _thicker(var, thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), keep, settings)
-    keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi])
+    keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
     option = o.option.to_numpy()[oi].copy()
     option[thick] = thick_text
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
@@ -301,7 +313,10 @@ def _thicker(
     found = np.ones(len(idx), dtype=bool)
     for prefix, dias, label in (("v", V_DIAS, "vertical"), ("h", H_DIAS, "horizontal")):
         rho0 = rows[f"rho_{prefix}"].to_numpy(float)
-        d, sp, rho, ok = _hold_ratio(rho0, layers, t, dias, rows[f"{prefix}_dia"].to_numpy(float))
+        d, sp, rho, ok = _hold_ratio(
+            rho0, layers, t, dias, rows[f"{prefix}_dia"].to_numpy(float), _std(settings),
+            rows.Lw.to_numpy(float), 0 if prefix == "v" else 1,
+        )
         found &= ok
         for field, new in (
             (f"{prefix}_dia", d),
@@ -325,7 +340,9 @@ def _thicker(
     return words
 
 
-def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.ndarray) -> np.ndarray:
+def _zone_options(
+    var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.ndarray, std: Standard
+) -> np.ndarray:
     """Put the end-zone options `sel` (n bars of `dia` at both free edges of the pier) into the
     variant rows; which of them to keep: a whole number of bars a face, a zone (the least
     length holding the bars at the clear-gap rule, rounded up to ZONE_ROUND) short enough that
@@ -337,7 +354,7 @@ def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.nda
     layers = var.v_layers.to_numpy(float)
     d, count = np.nan_to_num(dia), np.nan_to_num(n)
     need = bars.zone_min_length(
-        count, layers, d, var.cover.to_numpy(float), 0.0, as3600.wall_min_clear_gap(d)
+        count, layers, d, var.cover.to_numpy(float), 0.0, std.min_clear_gap(d)
     )
     length = np.ceil(need / ZONE_ROUND) * ZONE_ROUND
     area = count * bars.bar_area(d)
@@ -348,7 +365,7 @@ def _zone_options(var: pd.DataFrame, sel: np.ndarray, dia: np.ndarray, n: np.nda
         )
         more &= area > now + 1e-9
     # the two zones' innermost bars (no ties) stay 3 db clear of each other: 2 L <= Lw - 3 db
-    room = (var.Lw.to_numpy(float) - as3600.wall_min_clear_gap(d)) / 2
+    room = (var.Lw.to_numpy(float) - std.min_clear_gap(d)) / 2
     fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
     keep[sel] = fits[sel]
     for side in "ab":
@@ -393,7 +410,7 @@ def pour_premiums(piers: pd.DataFrame, settings: Settings) -> pd.DataFrame:
     volume = (
         walls.wall_length.to_numpy(float) * walls.tw.to_numpy(float) / 1e3 * walls.Hc.to_numpy(float) / 1e3
     )
-    grades = np.asarray(as3600.STANDARD_GRADES)
+    grades = np.asarray(_std(settings).grades())
     prem = costs.grade_premium(prices, walls.fc.to_numpy(float)[:, None], grades[None, :], volume[:, None])
     table = pd.DataFrame(prem, columns=grades).assign(pour=walls.pour.to_numpy()).groupby("pour").sum()
     return table.stack().rename("premium").rename_axis(["pour", "grade"]).reset_index()
@@ -1008,7 +1025,7 @@ def search_lines(s: Settings) -> list[tuple[str, str]]:
     layers = (
         "two layers each way (Section 14 both faces)"
         if two_layers_required(s)
-        else (f"one or two layers (two above {as3600.SINGLE_LAYER_MAX_THICKNESS:g} mm)")
+        else (f"one or two layers (two above {_std(s).single_layer_limits()[0]:g} mm)")
     )
     return [
         (

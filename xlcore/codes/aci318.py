@@ -254,6 +254,8 @@ def wall_min_ratios(v_u, fc, fy, Lw, tw, hw_lw, rho_t, bar_dia, lam=1.0, phi=PHI
 MAX_SPACING = 450.0  # mm
 MAX_SPACING_THICKNESS = 3.0
 TWO_LAYER_THICKNESS = 250.0  # mm
+COMMON_GRADES = (21.0, 25.0, 28.0, 32.0, 35.0, 40.0, 45.0, 50.0, 55.0, 60.0, 65.0, 70.0, 80.0)
+"""f'c [MPa] offered by the advice search under ACI 318 (common practice, no source)."""
 
 
 def wall_max_spacing(h, Lw, shear_steel_required=False):
@@ -847,6 +849,12 @@ class ACI318:
 
     def limit_text(self, key, **values):
         return _limit_text(key, **values)
+
+    def grades(self):
+        """ACI 318-19 sets no list of grades (Table 19.2.1.1 gives only the least f'c); these are
+        the SI strengths commonly specified (common practice, no source), from 21 MPa (3000 psi)
+        up in the steps ready-mix suppliers quote."""
+        return COMMON_GRADES
 
     def single_layer_limits(self):
         return TWO_LAYER_THICKNESS, float("inf")

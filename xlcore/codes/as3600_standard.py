@@ -293,6 +293,10 @@ class AS3600:
             return ["from memory: verify"] * len(v["tw"])
         raise KeyError(key)
 
+    def grades(self):
+        """The standard grades of Table 3.1.2 (AS 3600:2018)."""
+        return tuple(as3600.STANDARD_GRADES)
+
     def single_layer_limits(self):
         return float(as3600.SINGLE_LAYER_MAX_THICKNESS), float(as3600.SINGLE_LAYER_SLENDERNESS)
 

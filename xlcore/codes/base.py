@@ -373,6 +373,12 @@ class Standard(Protocol):
         `phi_setting` where the standard has none (AS 3600)."""
         ...
 
+    # ---- advice (checks/advice.py)
+    def grades(self) -> tuple[float, ...]:
+        """Concrete strengths f'c [MPa] a site can order under this standard, lowest first: the
+        grades the advice search offers."""
+        ...
+
 
 # ---------------------------------------------------------------- registry
 
