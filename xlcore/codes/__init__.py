@@ -2,8 +2,8 @@
 over arrays of rows, each citing its clause; it knows nothing of workbooks.
 
 `base.Standard` is the interface a standard implements for the checks; `get_standard(name)`
-returns a registered one (AS 3600:2018, ACI 318-19). The checks still import as3600 directly:
-wiring them to the interface is the next step (DEVELOPERS.md, "Adding a standard")."""
+returns a registered one (AS 3600:2018, ACI 318-19). The checks receive a standard through the
+interface and import none by name (DEVELOPERS.md, "Adding a standard")."""
 
 from xlcore.codes.base import get_standard, register_standard, standard_names
 

@@ -20,10 +20,10 @@ codes/as3600.py by name. Read together they ask a standard for a short list of q
 
 Units: N, mm, MPa inside; arrays over rows, scalars broadcast. Nothing here knows a workbook.
 
-The checks are not yet wired to this interface (a later session's work: see DEVELOPERS.md,
-"Adding a standard"); `AS3600` (codes/as3600_standard.py, a thin adapter that leaves
+Every check takes its standard through this interface (`std`, the Project's by default) and
+imports none by name. `AS3600` (codes/as3600_standard.py, a thin adapter that leaves
 codes/as3600.py unchanged) and `ACI318` (codes/aci318.py) implement it, and a test holds both
-to it.
+to it (DEVELOPERS.md, "Adding a standard").
 """
 
 from __future__ import annotations

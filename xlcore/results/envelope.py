@@ -1,0 +1,340 @@
+"""The summary's envelope: per storey x pier the governing check and combination, with the
+compliance checks beside it; the worst per check and the counts above the summary. Result
+tables made from the checks' tables (no check runs here)."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from xlcore import geometry, results
+from xlcore.checks.advice import AXIAL_CHECK, cheapest_fixes
+
+
+def pier_checks(
+    shear: pd.DataFrame,
+    axial: pd.DataFrame,
+    detailing: pd.DataFrame,
+    section14: pd.DataFrame | None,
+    order: pd.DataFrame,
+) -> pd.DataFrame:
+    """Per storey x pier x check the worst row of each check the summary envelopes (shear,
+    axial + bending, Cl 11.5, detailing, Section 14: its pass / FAIL rules), in the order of
+    `order` (storey, pier_id) and of `UTIL_COLUMN`: storey, pier_id, check, key (the check's
+    summary column, the same name whatever the standard calls the check), util, status,
+    clause, combination, structural (False for the compliance checks)."""
+    cand = _candidates(shear, axial, detailing, section14)
+    cand = cand[np.isfinite(pd.to_numeric(cand.util, errors="coerce").to_numpy(dtype=float))]
+    if len(cand):
+        cand = cand.assign(util=cand.util.astype(float))
+        cand = cand.loc[cand.groupby(["storey", "pier_id", "check"], sort=False).util.idxmax()]
+    key = [UTIL_COLUMN.get(c, c) for c in cand.check]
+    cand = cand.assign(key=key, structural=~cand.check.isin(COMPLIANCE))
+    at = order[["storey", "pier_id"]].drop_duplicates().reset_index(drop=True)
+    rank = {c: i for i, c in enumerate(UTIL_COLUMN)}
+    out = at.assign(_pos=np.arange(len(at))).merge(cand, on=["storey", "pier_id"], how="inner")
+    out = out.assign(_check=out.check.map(rank).fillna(len(rank)))
+    out = out.sort_values(["_pos", "_check"], kind="stable").drop(columns=["_pos", "_check"])
+    cols = ["storey", "pier_id", "check", "key", "util", "status", "clause", "combination", "structural"]
+    return out[cols].reset_index(drop=True)
+
+
+def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFrame:
+    """Name the cheapest passing change beside each failing pier in the summary (its own
+    change or its pour's grade: `advice.cheapest_fixes`)."""
+    out = summary.copy()
+    out["fix"] = ""
+    if len(advice):
+        text = cheapest_fixes(advice)
+        out["fix"] = [text.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
+        none = (out.status == results.FAIL) & (out.fix == "")
+        out.loc[none, "fix"] = "no change or pair of changes in the search range passes"
+    return out
+
+
+def count_lines(
+    summary: pd.DataFrame, shear: pd.DataFrame, special: bool = False
+) -> list[tuple[str, object]]:
+    checked = summary[summary.status != results.NOT_CHECKED]
+    worst = checked.loc[checked.util.idxmax()] if len(checked) else None
+    lines: list[tuple[str, object]] = [
+        ("Pier x storey cases", len(summary)),
+        ("Passing", int((summary.status == results.PASS).sum())),
+        ("Failing", int((summary.status == results.FAIL).sum())),
+        ("Not checked", int((summary.status == results.NOT_CHECKED).sum())),
+        ("Rows checked (pier x storey x combination)", len(shear)),
+    ]
+    if worst is not None:
+        lines.append(
+            (
+                "Building's worst pier",
+                f"{worst.pier_id} at {worst.storey}, {worst.combination}: "
+                f"utilisation {worst.util:.3f} ({worst.check}, {worst.clause})",
+            )
+        )
+    lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
+    lines.append(
+        (
+            "Earthquake ACI 318 Ch. 18 failing" if special else "Earthquake Section 14 failing",
+            int((summary.section14.str.startswith(results.FAIL)).sum()),
+        )
+    )
+    return lines
+
+
+def _candidates(
+    shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame, section14: pd.DataFrame | None = None
+) -> pd.DataFrame:
+    """Every check's rows in one shape: storey, pier, check, combination, demand, capacity, U."""
+    cols = [
+        "storey",
+        "pier_id",
+        "check",
+        "combination",
+        "demand",
+        "capacity",
+        "unit",
+        "util",
+        "status",
+        "clause",
+        "note",
+    ]
+    parts = [
+        shear.assign(
+            check=CHECK_SHEAR, demand=shear.v.abs(), capacity=shear.phi_vu, unit="kN", note=shear.advice
+        )[cols]
+    ]
+    if len(axial):
+        parts.append(
+            axial.assign(
+                check=CHECK_NM,
+                demand=axial.m_design,
+                capacity=axial.m_ray,  # M where the ray from the origin meets the curve
+                unit="kNm",
+                note=axial.governs,
+            )[cols]
+        )
+        s = axial[axial.status_s != results.NOT_APPLICABLE]
+        parts.append(
+            s.assign(
+                check=CHECK_SIMPLIFIED,
+                demand=s.n_end,  # N* at the pier's more compressed end, per length x Lw
+                capacity=s.phi_nu_s,
+                unit="kN",
+                util=s.util_s,
+                status=s.status_s,
+                clause=s.clause_s if "clause_s" in s else "Cl 11.5.1",
+                note="",
+            )[cols]
+        )
+    if len(detailing):
+        parts.append(
+            detailing.assign(
+                check=CHECK_DETAILING,
+                combination="(all)",
+                demand=detailing.value,
+                capacity=detailing.limit,
+                note=detailing.rule,
+            )[cols]
+        )
+    if section14 is not None and len(section14):
+        # compliance rows only: an end zone required is a trigger, "check" a requirement that
+        # cannot be verified yet; neither is a pass or a failure
+        e = section14[section14.status.isin((results.PASS, results.FAIL))]
+        parts.append(
+            e.assign(
+                check=CHECK_SECTION14,
+                combination="(all)",
+                demand=e.value,
+                capacity=e.limit,
+                note=e.rule,
+            )[cols]
+        )
+    return pd.concat(parts, ignore_index=True)
+
+
+CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED = "in-plane shear", AXIAL_CHECK, "Cl 11.5 compression"
+
+
+CHECK_DETAILING = "detailing Cl 11.7"
+
+
+CHECK_SECTION14 = "earthquake Section 14"
+
+
+COMPLIANCE = (CHECK_DETAILING, CHECK_SECTION14)  # reported beside the governing check, never it
+
+
+UTIL_COLUMN = {
+    CHECK_SHEAR: "u_shear",
+    CHECK_NM: "u_nm",
+    CHECK_SIMPLIFIED: "u_simplified",
+    CHECK_DETAILING: "u_detailing",
+    CHECK_SECTION14: "u_section14",
+}
+
+
+def envelope(
+    shear: pd.DataFrame,
+    piers: pd.DataFrame,
+    axial: pd.DataFrame | None = None,
+    detailing: pd.DataFrame | None = None,
+    section14: pd.DataFrame | None = None,
+) -> pd.DataFrame:
+    """Governing structural check and worst combination per storey x pier, with each check's
+    worst utilisation beside it; piers without actions are listed as not checked.
+
+    Detailing (Cl 11.7) and earthquake detailing (Section 14) are compliance, not strength:
+    each is reported beside the structural result as pass/FAIL with its ratio and makes the
+    status FAIL, but never becomes the governing check, whose utilisation is the one the
+    engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
+    described) shows as 'check' beside it."""
+    cols = [c.key for c in results.SUMMARY_COLUMNS]
+    cand = _candidates(
+        shear,
+        axial if axial is not None else pd.DataFrame(),
+        detailing if detailing is not None else pd.DataFrame(),
+        section14,
+    )
+    keys = ["storey", "pier_id"]
+    structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
+    if len(structural):
+        worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
+        per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
+        per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
+        worst = worst.merge(per_check, on=keys, how="left")
+    else:
+        worst = structural
+    order = piers[["storey", "storey_index", "pier_id", "wall_id", "position"]]
+    table = order.merge(worst, on=keys, how="left")
+    for c in UTIL_COLUMN.values():
+        if c not in table:
+            table[c] = np.nan
+    missing = table.u_shear.isna()  # no actions: strength not checked, whatever detailing says
+    table.loc[missing, ["status", "check", "combination", "clause"]] = [results.NOT_CHECKED, "", "", ""]
+    table.loc[missing, ["util", "demand", "capacity"]] = np.nan
+    table.loc[missing, "note"] = "no actions for this pier or its wall at this storey (detailing only)"
+    checked = ~missing.to_numpy()
+    notes = [table.note.fillna("").astype(str).to_numpy()]
+    to_check = _section14_checks(section14, table[keys])
+    for check, text_col, util_col, label in (
+        (CHECK_DETAILING, "detailing", "u_detailing", "detailing fails: "),
+        (CHECK_SECTION14, "section14", "u_section14", "Section 14 fails: "),
+    ):
+        u, fails, rule = _compliance(cand, table[keys], check)
+        table[util_col] = u
+        text = np.array(
+            [
+                "" if not np.isfinite(x) else f"{results.FAIL if bad else results.PASS} {x:.2f}"
+                for x, bad in zip(u, fails, strict=True)
+            ],
+            dtype=object,
+        )
+        if check == CHECK_SECTION14:
+            text = np.array(
+                [
+                    ", ".join(x for x in (t, results.CHECK if c else "") if x)
+                    for t, c in zip(text, to_check, strict=True)
+                ],
+                dtype=object,
+            )
+        table[text_col] = text
+        table.loc[checked & fails, "status"] = results.FAIL
+        notes.append(np.where(fails, label + rule, ""))
+    notes.append(np.where(to_check, "Section 14: end-zone ties to check (bars not described)", ""))
+    table["note"] = [
+        "; ".join(x for x in parts if x) for parts in zip(*(n.tolist() for n in notes), strict=True)
+    ]
+    table = table.sort_values(
+        ["storey_index", "wall_id", "position"],
+        ascending=[False, True, True],
+        key=lambda c: geometry.natural_rank(c) if c.name == "wall_id" else c,
+    )
+    table["util"] = table.util.astype(float)
+    table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
+    return table[cols].reset_index(drop=True)
+
+
+def _compliance(
+    cand: pd.DataFrame, at: pd.DataFrame, check: str
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per row of `at` (storey, pier): the worst utilisation of a compliance check's rules,
+    whether any fails, and the worst rule's name (NaN, False, '' where it has no rows)."""
+    keys = ["storey", "pier_id"]
+    rows = cand[cand.check == check] if len(cand) else cand
+    if not len(rows):
+        n = len(at)
+        return np.full(n, np.nan), np.zeros(n, dtype=bool), np.full(n, "", dtype=object)
+    worst = rows.loc[rows.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "note"]]
+    fails = rows[rows.status == results.FAIL].groupby(keys, sort=False).size().rename("n_fail").reset_index()
+    m = at.merge(worst, on=keys, how="left").merge(fails, on=keys, how="left")
+    return (
+        m.util.to_numpy(dtype=float),
+        m.n_fail.fillna(0).to_numpy() > 0,
+        m.note.fillna("").astype(str).to_numpy(),
+    )
+
+
+def _section14_checks(section14: pd.DataFrame | None, at: pd.DataFrame) -> np.ndarray:
+    """Per row of `at`: whether a Section 14 requirement awaits checking (status 'check')."""
+    if section14 is None or not len(section14):
+        return np.zeros(len(at), dtype=bool)
+    open_ = section14[section14.status == results.CHECK][["storey", "pier_id"]].drop_duplicates()
+    m = at.merge(open_.assign(_c=True), on=["storey", "pier_id"], how="left")
+    return m._c.eq(True).to_numpy()
+
+
+def attention_first(summary: pd.DataFrame) -> pd.DataFrame:
+    """The summary as the checker reads it: failing piers first, then the rest from the
+    nearest to failing down, piers without actions last (storey order within ties)."""
+    rank = np.select(
+        [summary.status == results.FAIL, summary.status == results.NOT_CHECKED], [0, 2], default=1
+    )
+    u = summary.util.to_numpy(dtype=float)
+    key = pd.DataFrame({"rank": rank, "u": -np.nan_to_num(u, nan=-np.inf, posinf=np.inf), "i": range(len(u))})
+    order = key.sort_values(["rank", "u", "i"], kind="stable").index
+    return summary.iloc[order].reset_index(drop=True)
+
+
+def worst_per_check(
+    summary: pd.DataFrame,
+    lintels: pd.DataFrame | None = None,
+    stress: pd.DataFrame | None = None,
+    core_nm: pd.DataFrame | None = None,
+) -> list[tuple[str, str]]:
+    """The building's worst case of every check, one line each, for the summary's top."""
+    out: list[tuple[str, str]] = []
+
+    def line(label: str, df: pd.DataFrame | None, col: str, what) -> None:
+        if df is None or not len(df) or col not in df or not np.isfinite(df[col].to_numpy(float)).any():
+            out.append((f"Worst {label}", "not checked (no rows)"))
+            return
+        u = df[col].to_numpy(dtype=float)
+        u = np.where(np.isnan(u), -np.inf, u)
+        r = df.iloc[int(np.argmax(u))]
+        n_fail = int((u > 1.0).sum())
+        verdict = results.FAIL if r[col] > 1.0 else results.PASS
+        out.append(
+            (f"Worst {label}", f"{r[col]:.3f} {verdict} at {what(r)} ({n_fail} of {len(df)} rows over 1.0)")
+        )
+
+    checked = summary[summary.status != results.NOT_CHECKED]
+    for label, col in (
+        ("in-plane shear", "u_shear"),
+        ("axial + bending", "u_nm"),
+        ("Cl 11.5 compression", "u_simplified"),
+        ("detailing Cl 11.7", "u_detailing"),
+    ):
+        src = checked if col != "u_detailing" else summary
+        line(label, src, col, lambda r: f"{r.pier_id}, {r.storey}")
+    line("lintel", lintels, "util", lambda r: f"{r.lintel_id} ({r.model}), {r.storey}, {r.combination}")
+    if stress is not None:
+        line("core elastic stress", stress, "util", lambda r: f"{r.wall_id}, {r.storey}, {r.combination}")
+    if core_nm is not None:
+        line(
+            "core axial + bending",
+            core_nm,
+            "util",
+            lambda r: ", ".join(x for x in (str(r.get("core", "") or ""), r.storey, r.combination) if x),
+        )
+    return out
