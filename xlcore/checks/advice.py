@@ -497,11 +497,13 @@ def _rounds(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
         # over some combinations is at most the worst over all). Of those passing, the cheapest
         # per group is confirmed on every combination; if it fails there, the next.
         screened = batch.variant.map(_utilisation(rows_of(batch), batch, screen, settings))
+        by_variant = pd.Series(screened.to_numpy(), index=batch.variant.to_numpy())
         util = screened.where(screened > 1.0)  # a screen pass proves nothing yet
         hopeful = batch[util.isna().to_numpy()]
         while len(hopeful):
             first = hopeful.groupby(group, sort=False).head(1)
-            full = _confirm(rows_of, first, first.variant.map(screened).to_numpy(float), actions, settings)
+            # the screen's value by variant ID (`screened` is indexed by the batch's rows)
+            full = _confirm(rows_of, first, first.variant.map(by_variant).to_numpy(float), actions, settings)
             util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
             settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
             hopeful = hopeful[~hopeful.variant.isin(first.variant)]
