@@ -174,9 +174,10 @@ PROJECT = SettingsSheet(
             None,
             Kind.CHOICE,
             STANDARDS[0],
-            "Standard the checks follow: AS 3600:2018, or ACI 318-19 (SI) for shear, axial load "
-            "with bending and the core checks (settings named for one standard apply to it alone; "
-            "see docs/engineering-basis.md for what ACI 318-19 covers).",
+            "Standard every check follows: AS 3600:2018, or ACI 318-19 (SI: shear, axial load with "
+            "bending, the core checks, detailing, lintels and the Chapter 18 special-wall rules; "
+            "settings named for one standard apply to it alone; see docs/engineering-basis.md for "
+            "what ACI 318-19 covers and what is from memory).",
             choices=STANDARDS,
         ),
         Setting(
