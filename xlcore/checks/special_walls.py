@@ -28,9 +28,10 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks import plain
+from xlcore.checks.axial import rect_sections
 from xlcore.codes import aci318, get_standard
 from xlcore.codes.base import Standard
-from xlcore.mechanics import bars, nm
+from xlcore.mechanics import nm
 from xlcore.model import Settings
 from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
 
@@ -504,25 +505,7 @@ def neutral_axis_depth(q: pd.DataFrame, pu, std: Standard) -> np.ndarray:
     the standard's stress block, eps_cu and Es), the larger of the two directions (18.10.6.2:
     c consistent with the design displacement; the actions reverse). c is at most 5 Lw here
     (the whole section compressed); in net tension the smallest."""
-    fc = q.fc.to_numpy(float)
-    alpha, gamma = std.stress_block(fc)
-    lay = bars.layout(q)
-    sec = nm.EvenRect(
-        D=q.Lw.to_numpy(float),
-        b=q.tw.to_numpy(float),
-        fc=fc,
-        fsy=q.fsy.to_numpy(float),
-        edge=lay.field_edge,
-        step=lay.field_step,
-        count=lay.field_count,
-        bar_area=lay.field_area,
-        alpha2=alpha,
-        gamma=gamma,
-        eps_cu=std.eps_cu,
-        Es=std.Es,
-        zd=lay.zone_d if lay.zone_d.shape[1] else None,
-        zA=lay.zone_A if lay.zone_d.shape[1] else None,
-    )
+    sec = rect_sections(q, std)  # the pier's section as the N-M check builds it
     D = sec.D
     c1 = nm.solve_dn(sec, pu, 1e-6 * D, 5.0 * D)
     c2 = nm.solve_dn(sec.flipped(), pu, 1e-6 * D, 5.0 * D)
