@@ -20,7 +20,6 @@ conversion difference; each says which.
 
 import math
 
-import numpy as np
 import pytest
 
 from xlcore.codes import aci318 as aci

@@ -47,6 +47,7 @@ RULES = (
     "boundary length",
     "boundary width",
     "boundary hoops",
+    "boundary Ash",
 )
 CLAUSE = {
     "web vertical ratio": "ACI 18.10.2.1, 18.10.4.3",
@@ -55,10 +56,11 @@ CLAUSE = {
     "shear amplification": "ACI 18.10.3.1, 18.10.4.1",
     "boundary: stress": "ACI 18.10.6.3",
     "boundary: displacement": "ACI 18.10.6.2(a)",
-    "drift capacity": "ACI 18.10.6.2(b)",
+    "drift capacity": "ACI 18.10.6.2(b)(ii), (iii)",
     "boundary length": "ACI 18.10.6.4(a)",
     "boundary width": "ACI 18.10.6.4(b), (c)",
     "boundary hoops": "ACI 18.10.6.4(e), 18.7.5.3",
+    "boundary Ash": "ACI 18.10.6.4(g), Table 18.10.6.4(g)",
 }
 MEMORY = "from memory: verify"
 
@@ -81,7 +83,8 @@ def not_applicable_reason(settings: Settings) -> str | None:
 
 def storeys_above(settings: Settings, n_storeys: int) -> float:
     """ns of 18.10.3.1.3: the setting, or every storey of the building (critical section at the
-    base)."""
+    base). The code's least ns (0.007 hwcs in inches) is applied per wall where omega_v is found
+    (`aci318.storeys_for_amplification`)."""
     return float(settings.aci_storeys_above) if settings.aci_storeys_above is not None else float(n_storeys)
 
 
@@ -268,9 +271,10 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
     mu = np.abs(a.m.to_numpy(float)) * 1e6
 
     # ---- 18.10.3.1 shear amplification against phi Vn
+    ns_used = aci318.storeys_for_amplification(ns, hw)  # not less than 0.007 hwcs (in.), 18.10.3.1.3
     Om = aci318.omega_v(hwcs_lw, settings.aci_mpr_mu)
-    om = aci318.omega_v_dynamic(hwcs_lw, ns)
-    ve = aci318.design_shear_special(vu, hwcs_lw, ns, settings.aci_mpr_mu)
+    om = aci318.omega_v_dynamic(hwcs_lw, ns_used)
+    ve = aci318.design_shear_special(vu, hwcs_lw, ns_used, settings.aci_mpr_mu)
     phi = settings.phi_shear if settings.phi_shear is not None else std.phi_wall_shear
     cap = std.wall_shear(fc, fy, Lw, tw, hwcs_lw, q.rho_h.to_numpy(float), q.rho_v.to_numpy(float), phi)
     u = np.where(cap.design > 0, ve / cap.design, np.inf)
@@ -285,13 +289,17 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
         _pass_fail(u),
         u,
         lambda: [
-            f"hwcs/lw = {h:.2f}: Omega_v = {o1:.2f}, omega_v = {o2:.2f} (ns = {ns:g}); Ve = min({o1:.2f} x "
+            f"hwcs/lw = {h:.2f}: Omega_v = {o1:.2f}, omega_v = {o2:.2f} (ns = max({ns:g}, 0.007 x "
+            f"{hh:.0f}/25.4 = {nmin:.1f}) = {nu:.1f}); Ve = min({o1:.2f} x "
             f"{o2:.2f} x {v * 1e-3:.1f}, 3 x {v * 1e-3:.1f}) = {e * 1e-3:.1f} kN vs phi Vn = {ph:.2f} x "
             f"min(({ac:.3f} sqrt({f:g}) + {r:.5f} x {min(y, aci318.FYT_MAX_SHEAR):g}) x {L:.0f} x {t:.0f}, "
             f"0.66 sqrt(f'c) Acv) = {c * 1e-3:.1f} kN"
-            for h, o1, o2, v, e, ph, ac, f, r, y, L, t, c in zip(
+            for h, hh, nmin, nu, o1, o2, v, e, ph, ac, f, r, y, L, t, c in zip(
                 *plain(
                     hwcs_lw,
+                    hw,
+                    aci318.ns_min(hw),
+                    ns_used,
                     Om,
                     om,
                     vu,
@@ -308,8 +316,9 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
                 strict=True,
             )
         ],
-        f"Omega_v with Mpr/Mu {settings.aci_mpr_mu:g} (Project setting), omega_v {MEMORY}; phi "
-        f"{phi:g}; Vn capped at 0.66 sqrt(f'c) Acv (the 0.83 of one segment not used)",
+        f"Omega_v with Mpr/Mu {settings.aci_mpr_mu:g} (Project setting); omega_v with ns not less than "
+        f"0.007 hwcs (in.) (ACI MNL-17(21) Ex. 2 agrees); phi {phi:g}; Vn capped at 0.66 sqrt(f'c) Acv "
+        "(the 0.83 of one segment not used)",
     )
 
     # ---- 18.10.6.3 stress method
@@ -376,7 +385,8 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
             for cc, n, L, h, lim, ok in zip(*plain(c, pu, Lw, hw, c_lim), applies_d.tolist(), strict=True)
         ],
         "hw = hwcs = the wall's overall height, critical section at the base, every storey checked "
-        f"(conservative); c at Pu of the combination, larger of the two directions; 0.005 floor {MEMORY}",
+        "(conservative); c at Pu of the combination, larger of the two directions; delta_u/hw not "
+        "less than 0.005",
     )
 
     # ---- 18.10.6.2(b) drift capacity where the displacement method calls for boundary elements
@@ -385,7 +395,9 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
         dq = q[k].reset_index(drop=True)
         demand = 1.5 * np.maximum(du / hw[k], aci318.DRIFT_FLOOR)
         capacity = aci318.drift_capacity(Lw[k], tw[k], c[k], ve[k], fc[k], Lw[k] * tw[k])
-        u = demand / capacity
+        b_need = aci318.boundary_width_for_drift(c[k], Lw[k])
+        # 18.10.6.2(b): (ii) b >= sqrt(0.025 c lw) or (iii) the drift capacity; either suffices
+        u = np.minimum(demand / capacity, b_need / tw[k])
         rule(
             dq,
             combo[k],
@@ -397,15 +409,19 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
             _pass_fail(u),
             u,
             lambda: [
-                f"1.5 delta_u/hw = 1.5 x max({du:g}/{h:.0f}, 0.005) = {d:.5f} vs delta_c/hw = (4 - "
+                f"(iii) 1.5 delta_u/hw = 1.5 x max({du:g}/{h:.0f}, 0.005) = {d:.5f} vs delta_c/hw = (4 - "
                 f"(lw/b)(c/b)/50 - Ve/(0.66 sqrt(f'c) Acv))/100 = (4 - ({L:.0f}/{t:.0f})({cc:.0f}/{t:.0f})"
                 f"/50 - {e * 1e-3:.1f}/{0.66 * np.sqrt(f) * L * t * 1e-3:.1f})/100, at least 0.015 = "
-                f"{cap:.5f}"
-                for h, d, L, t, cc, e, f, cap in zip(
-                    *plain(hw[k], demand, Lw[k], tw[k], c[k], ve[k], fc[k], capacity), strict=True
+                f"{cap:.5f} ({'met' if d <= cap + 1e-12 else 'not met'}); or (ii) b = {t:.0f} mm >= "
+                f"sqrt(0.025 c lw) = sqrt(0.025 x {cc:.0f} x {L:.0f}) = {bn:.0f} mm "
+                f"({'met' if t >= bn - 1e-9 else 'not met'})"
+                for h, d, L, t, cc, e, f, cap, bn in zip(
+                    *plain(hw[k], demand, Lw[k], tw[k], c[k], ve[k], fc[k], capacity, b_need), strict=True
                 )
             ],
-            f"b = tw; Ve of the shear amplification row; Eq. (18.10.6.2b) {MEMORY}",
+            "b = tw; Ve of the shear amplification row; utilisation the smaller of (iii) demand/capacity "
+            "and (ii) sqrt(0.025 c lw)/b (either satisfies 18.10.6.2(b)); Eq. (18.10.6.2b) as in ACI "
+            "MNL-17(21) Ex. 2",
         )
 
     # ---- 18.10.6.4 boundary elements where either method calls for them
@@ -498,6 +514,46 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
         "db the end zones' bar, else the wall's vertical bar",
     )
 
+    # ---- Table 18.10.6.4(g): Ash across the thickness where the end-zone ties are described
+    tie, zlen = _zone_ties(z), _zone_length(z)
+    cover = z.cover.to_numpy(float)
+    has_ties = described & np.isfinite(tie) & (tie > 0) & np.isfinite(zlen)
+    bc = ztw - 2.0 * cover  # core across the thickness, to the hoop's outside faces
+    ag = ztw * zlen
+    ach = bc * np.maximum(zlen - 2.0 * cover, 1.0)  # smaller Ach (cover at both ends): conservative
+    fyt = np.minimum(z.fsy.to_numpy(float), aci318.FY_MAX_LONGITUDINAL)
+    s_ties = np.where(has_ties, given, np.nan)
+    need_ash = aci318.boundary_ash_required(s_ties, bc, z.fc.to_numpy(float), fyt, ag, ach)
+    have_ash = 2.0 * np.pi / 4.0 * np.where(has_ties, tie, np.nan) ** 2  # the hoop's two legs
+    u = np.where(has_ties, need_ash / have_ash, np.nan)
+    rule(
+        z,
+        zcombo,
+        "boundary Ash",
+        have_ash,
+        need_ash,
+        "min",
+        "mm2",
+        np.where(has_ties, _pass_fail(u), CHECK).astype(object),
+        u,
+        lambda: [
+            (
+                f"Ash >= max(0.3 (Ag/Ach - 1), 0.09) f'c/fyt s bc = max(0.3 ({a:.0f}/{h:.0f} - 1), 0.09) x "
+                f"{f:g}/{y:g} x {sp:.0f} x {b:.0f} = {nd:.0f} mm2 vs 2 legs of {d:g} mm = {hv:.0f} mm2"
+            )
+            if ok
+            else "end-zone ties not described (End zones sheet): Ash of Table 18.10.6.4(g) not checked"
+            for a, h, f, y, sp, b, nd, d, hv, ok in zip(
+                *plain(ag, ach, z.fc, fyt, s_ties, bc, need_ash, tie, have_ash),
+                has_ties.tolist(),
+                strict=True,
+            )
+        ],
+        "rectilinear hoops across the thickness: bc = tw - 2 cover, Ag = tw x zone length, Ach = bc x "
+        "(zone length - 2 cover) (the smaller Ach: conservative); the hoop's two legs only (crossties "
+        "are not described: conservative); fyt = the bars' fy; the direction along the wall not checked",
+    )
+
 
 def neutral_axis_depth(q: pd.DataFrame, pu, std: Standard) -> np.ndarray:
     """Neutral-axis depth c [mm] of each pier at nominal strength under Pu [N] (compression
@@ -526,6 +582,15 @@ def _zone_bars(p: pd.DataFrame) -> np.ndarray:
     from xlcore.checks.section14 import end_zone_bars
 
     return end_zone_bars(p)
+
+
+def _zone_ties(p: pd.DataFrame) -> np.ndarray:
+    """Tie diameter of a pier with zones at both ends: the smaller of the two [mm]; NaN otherwise
+    (0 where an end has no ties)."""
+    if "za_n" not in p:
+        return np.full(len(p), np.nan)
+    both = (p.za_n.to_numpy(float) > 0) & (p.zb_n.to_numpy(float) > 0)
+    return np.where(both, np.minimum(p.za_tie.to_numpy(float), p.zb_tie.to_numpy(float)), np.nan)
 
 
 def _pass_fail(util) -> np.ndarray:
