@@ -109,3 +109,24 @@ def test_ash_row_is_check_without_end_zones(monkeypatch):
     out = check_section14(piers, _acts(piers, n=2000.0, m=3000.0, v=500.0, combo="E1"), Settings(**SW))
     r = _rows(out, "L1", "boundary Ash", "E1")
     assert r.status == "check" and "not described" in r.working
+
+
+def test_diagonal_lintel_phi_085_only_in_special_walls():
+    # ACI 318M-19 21.2.4 / 21.2.4.4 (public OCR copy of Chapter 21): "For beam-column joints of
+    # special moment frames and diagonally reinforced coupling beams, phi for shear shall be 0.85"
+    # applies to structures relying on special structural walls (21.2.4(b)); elsewhere phi for
+    # shear is 0.75 (Table 21.2.1(b)). Same lintel, ln/h = 1500/1200, 4 N20 per diagonal group.
+    from test_aci318_special_walls import ACI, DIAG, _lacts, _lintels
+
+    from xlcore.checks.lintels import check_lintels
+
+    alpha = math.atan(1060 / 1500)  # group centroid at 30 + 10 + 1.5 x 20 = 70 from each face
+    vn = min(2 * 4 * math.pi * 100.0 * 500.0 * math.sin(alpha), 0.83 * math.sqrt(40.0) * 200 * 1200)
+    special = check_lintels(_lintels(**DIAG), _lacts(v=600.0, m=450.0), Settings(standard=ACI)).iloc[0]
+    ordinary = check_lintels(
+        _lintels(**DIAG), _lacts(v=600.0, m=450.0), Settings(standard=ACI, aci_special_walls="no")
+    ).iloc[0]
+    assert special.model == ordinary.model == "diagonal bars"
+    assert special.phi_vu == pytest.approx(0.85 * vn * 1e-3)
+    assert ordinary.phi_vu == pytest.approx(0.75 * vn * 1e-3)
+    assert "Table 21.2.1(b)" in ordinary.working and "(phi 21.2.4.4)" in special.working

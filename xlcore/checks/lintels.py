@@ -163,7 +163,10 @@ def check_lintels(
     a_g = cover + fit_geom + 1.5 * dd  # two layers, clear gap one bar diameter
     alpha = np.arctan2(D - 2.0 * a_g, span)  # groups crossing at mid-span: geometry
     A_sd = np.where(has_diag, df.diag_bars.fillna(0) * np.pi * dd**2 / 4, 0.0)
-    phi_d = std.coupling_phi(s.phi_tie)
+    # ACI 318-19 21.2.4.4: phi 0.85 for diagonally reinforced coupling beams of structures relying on
+    # special structural walls (21.2.4(b)); other ACI lintels take the shear phi of Table 21.2.1(b)
+    aci_ordinary = std.detailing_needs_shear and not special
+    phi_d = std.phi_beam_shear if aci_ordinary else std.coupling_phi(s.phi_tie)
     if np.isnan(std.coupling_beam_shear(1.0, 1.0, 1.0, 1.0, 1.0)):  # no clause: mechanics + settings
         vu_diag = 2.0 * A_sd * fsy * np.sin(alpha)
         v_cap = s.coupling_cap * np.sqrt(fc) * b * D
@@ -409,7 +412,9 @@ def _working_aci(df, D, b, fc, fsy, a_t, z, a_g, phi_m, muo, phi_d, special, dia
                 f"{r.alpha:.1f} deg; Avd = {r.A_sd:.0f}; Vn = 2 Avd fy sin alpha = 2 x {r.A_sd:.0f} x "
                 f"{min(fsy[i], 550.0):.0f} x {np.sin(al):.3f} = {r.vu_diag:.1f} kN <= 0.83 sqrt({fc[i]:g}) x "
                 f"{b[i]:.0f} x {D[i]:.0f} = {r.v_cap:.1f} kN -> phi Vn = {phi_d:g} x min({r.vu_diag:.1f}, "
-                f"{r.v_cap:.1f}) = {r.phi_vu:.1f} kN; U = {v:.1f}/{r.phi_vu:.1f} = {r.util:.3f}"
+                f"{r.v_cap:.1f}) = {r.phi_vu:.1f} kN (phi "
+                + ("21.2.4.4" if special else "Table 21.2.1(b): 21.2.4.4 is for special walls")
+                + f"); U = {v:.1f}/{r.phi_vu:.1f} = {r.util:.3f}"
             )
     return out
 
