@@ -20,9 +20,11 @@ conversion difference; each says which.
 
 import math
 
+import numpy as np
 import pytest
 
 from xlcore.codes import aci318 as aci
+from xlcore.mechanics import nm
 
 IN = 25.4  # mm
 KIP = 4448.2216  # N
@@ -96,6 +98,36 @@ def test_ex2_web_reinforcement_and_two_curtains():
     assert least == pytest.approx(0.0025) and not low  # 470 > Acv sqrt(f'c) = 285 kip
     assert aci.special_two_curtains(VU2, FC, LW, H, HW_LW)
     assert not aci.special_two_curtains(VU2, FC, LW, H, 1.9)  # by the shear alone: not required
+
+
+def _ex2_section(deduct: bool) -> nm.EvenRect:
+    """MNL-17(21) Ex. 2 step 4b: 12 x 336 in., No. 8 (0.79 in.^2) @ 12 in. each face, the end
+    pairs 3 in. from the wall ends, the next pairs 12 in. from the ends, the rest @ 12 in.: field
+    pairs at 12, 24, ..., 324 in. (27) and the end pairs at 3 and 333 in."""
+    a8 = 0.79 * IN**2
+    alpha, gamma = aci.stress_block(FC)  # 0.85 f'c over beta1 c, beta1(5000 psi) = 0.80
+    one = np.ones(1)
+    return nm.EvenRect(
+        D=LW * one, b=H * one, fc=FC * one, fsy=FY * one,
+        edge=12 * IN * one, step=12 * IN * one, count=27 * one, bar_area=2 * a8 * one,
+        alpha2=alpha * one, gamma=gamma * one, eps_cu=aci.EPS_CU, Es=aci.ES, deduct=deduct,
+        zd=np.array([[3 * IN, 333 * IN]]), zA=np.array([[2 * a8, 2 * a8]]),
+    )  # fmt: skip
+
+
+def test_ex2_neutral_axis_depth_at_nominal_strength():
+    # MNL-17(21) Ex. 2, step 7: c = 67.9 in. (67.85 in the length step), read from ACI's
+    # interaction-diagram aid. xlcore's strain-compatibility section (22.2: eps_cu 0.003, the 0.85
+    # f'c block over beta1 c, Es 200 000) reproduces it at Pu = 1200 kip (the largest axial force of
+    # the seismic combinations the handbook gives) when the bars do not displace concrete, as the
+    # aid evidently computes; at Pu = 1015 kip it gives 64.6 in. Tolerance: the printed 0.05 in.
+    pu = np.array([1200 * KIP])
+    c = nm.solve_dn(_ex2_section(deduct=False), pu, 1e-3, 5 * LW)
+    assert c[0] / IN == pytest.approx(67.9, abs=0.05)
+    # xlcore's checks deduct the bars' area from the block (bars displace concrete): c 68.4 in.,
+    # 0.8 % deeper, so its trigger and boundary length lean the safe way
+    c_deduct = nm.solve_dn(_ex2_section(deduct=True), pu, 1e-3, 5 * LW)
+    assert 67.9 * IN < c_deduct[0] < 1.01 * 67.9 * IN
 
 
 def test_ex2_displacement_method_calls_for_boundary_elements():
