@@ -12,9 +12,9 @@ References, named beside each check:
 - Published design check, coupling beam (US units): "Coupling Beam Design Based on ACI 318-14 /
   2015 IBC" spreadsheet (Scribd document 644232321, page 1): b 16 in, h 72 in, ln 6 ft,
   f'c 4 ksi, Vu 239 k -> 4 sqrt(f'c) b h = 291 k, diagonal bars not required.
-- Boundary elements (18.10.6) and shear amplification (18.10.3): no published worked example
-  with numbers was found by the search; every value below is a hand evaluation of the
-  expression as transcribed in docs/engineering-basis.md.
+- Boundary elements (18.10.6) and shear amplification (18.10.3): the values below are hand
+  evaluations of the expressions; the published worked example for them (ACI MNL-17(21) Vol. 1
+  Shear Wall Example 2) is in tests/test_aci_published.py.
 """
 
 import math

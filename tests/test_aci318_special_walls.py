@@ -4,11 +4,10 @@
 was not at hand: the expressions are those of codes/aci318.py and docs/engineering-basis.md,
 "ACI 318-19"; Omega_v of Table 18.10.3.1.2 as the ACI 318-19 code case on Eq. (18.10.3.1)
 summarises it: 1.0 up to hwcs/lw = 1.5, else the greater of Mpr/Mu and 1.5; omega_v, the
-boundary-element expressions and the hoop spacing from memory, verify). No published worked
-example of a special wall to ACI 318-19 was found with the search tool (PCA / StructurePoint
-notes, the SEAOC manual and NEHRP Technical Brief No. 6 were looked for; the brief found is for
-ACI 318-11, without the 1.5 factor of 18.10.6.2): hand evaluation throughout. The neutral-axis
-depth c is checked against the concreteproperties library (PyPI)."""
+boundary-element expressions and the hoop spacing as the published worked example checks them:
+ACI MNL-17(21) Vol. 1 Shear Wall Example 2, tests/test_aci_published.py). Here: hand evaluation
+of the rows the checks write. The neutral-axis depth c is checked against the concreteproperties
+library (PyPI)."""
 
 import math
 from pathlib import Path

@@ -60,7 +60,7 @@ CLAUSE = {
     "boundary length": "ACI 18.10.6.4(a)",
     "boundary width": "ACI 18.10.6.4(b), (c)",
     "boundary hoops": "ACI 18.10.6.4(e), 18.7.5.3",
-    "boundary Ash": "ACI 18.10.6.4(g), Table 18.10.6.4(g)",
+    "boundary Ash": "ACI Table 18.10.6.4(g)",
 }
 MEMORY = "from memory: verify"
 
@@ -678,19 +678,21 @@ def preamble(s: Settings) -> list[tuple[str, str]]:
         ),
         (
             "Inputs",
-            f"Mpr/Mu {s.aci_mpr_mu:g}; ns {ns}; delta_u {du} (Project settings 'ACI 318: ...')",
+            f"Mpr/Mu {s.aci_mpr_mu:g}; ns {ns} (not less than 0.007 hwcs in inches, 18.10.3.1.3); "
+            f"delta_u {du} (Project settings 'ACI 318: ...')",
         ),
         (
             "Rules",
             "web ratios 18.10.2.1 / 18.10.4.3 and two curtains 18.10.2.2 per pier ('(all)'); per "
             "earthquake combination: Ve = Omega_v omega_v Vu <= 3 Vu against phi Vn (18.10.3.1); "
             "boundary elements where sigma > 0.2 f'c (18.10.6.3) or c >= lw/(600 x 1.5 delta_u/hw) "
-            "(18.10.6.2); where required, their length, width and hoop spacing (18.10.6.4)",
+            "(18.10.6.2), then b >= sqrt(0.025 c lw) or the drift capacity (18.10.6.2(b)); where "
+            "required, their length, width, hoop spacing and Ash (18.10.6.4)",
         ),
         (
             "Status",
             "pass / FAIL: a rule met or not; required / not required: a boundary-element trigger (not "
-            "a failure); check: a requirement xlcore cannot verify (end-zone bars not described); "
+            "a failure); check: a requirement xlcore cannot verify (end-zone bars or ties not described); "
             "n/a: no input for the rule",
         ),
     ]

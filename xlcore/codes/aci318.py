@@ -33,8 +33,9 @@ PHI_SHEAR = 0.75
 
 PHI_SHEAR_SEISMIC = 0.60
 """21.2.4.1: phi for shear of a member resisting earthquake effects whose nominal shear
-strength is less than the shear at its nominal flexural strength (a published code case says
-0.75 may be kept where Ve of 18.10.3.1 is used). A setting, never silently applied."""
+strength is less than the shear at its nominal flexural strength (ACI 318M Chapter 21 text, a
+public OCR copy; a published code case says 0.75 may be kept where Ve of 18.10.3.1 is used;
+ACI MNL-17(21) Shear Wall Example 2 takes 0.60). A setting, never silently applied."""
 
 PHI_COMPRESSION_TIED = 0.65
 """Table 21.2.2: phi for compression-controlled sections with ties (other than spirals)."""
@@ -50,7 +51,8 @@ PHI_SIMPLIFIED = 0.65
 verify; 0.70 in editions before 2002)."""
 
 PHI_DIAGONAL_COUPLING = 0.85
-"""21.2.4.4: phi for shear of diagonally reinforced coupling beams (from memory, verify)."""
+"""21.2.4.4: phi for shear of diagonally reinforced coupling beams in structures relying on special
+structural walls (21.2.4(b)); ACI 318M Chapter 21 text, a public OCR copy."""
 
 PN_MAX_TIED = 0.80
 """Table 22.4.2.1: Pn,max = 0.80 Po for tied members (0.85 with spirals)."""
