@@ -269,3 +269,84 @@ def test_ex1_thickness_spacing_and_layers():
     # step 8 (11.7.2.3): h = 12 in. > 10 in. -> two layers
     assert aci.two_layers_required(H)
     assert not aci.two_layers_required(9.5 * IN)
+
+
+# ======================================================== Example 2 through the special-wall rows
+
+
+def _ex2_wall():
+    """The handbook's wall as xlcore input: 8534.4 x 304.8 mm, f'c 34.47 MPa, fy 413.7 MPa, No. 8
+    (25.4 mm) vertical and No. 6 (19.05 mm) horizontal @ 304.8 mm each face, cover 38.1 mm; eight
+    storeys making hwcs = 92 ft = 28 041.6 mm, the first with an 18 ft (5486.4 mm) clear height."""
+    import builders
+
+    from xlcore import geometry
+    from xlcore.mechanics import stiffness
+    from xlcore.model import Storey
+
+    first = 5.4864 + 0.2  # m: clear 5486.4 mm under a 200 mm slab
+    rest = (HW / 1000 - first) / 7
+    levels = np.concatenate([[0.0], first + rest * np.arange(7)])
+    st = [
+        Storey(index=i, name=f"L{i + 1}", level=float(lv), height=first if i == 0 else rest, slab=200.0)
+        for i, lv in enumerate(levels)
+    ]
+    w = builders.wall(
+        "W1", 0.0, 0.0, LW / 1000, 0.0, storeys=("L1", "L8"), thickness=H, fc=FC, fsy=FY,
+        v_dia=25.4, v_spacing=304.8, h_dia=19.05, h_spacing=304.8, cover=38.1,
+    )  # fmt: skip
+    geom = geometry.derive(st, [w], [])
+    return stiffness.with_stiffness(geom.piers, 0.2, "fixed-fixed")
+
+
+def test_ex2_through_the_special_wall_rows(monkeypatch):
+    # The rows xlcore writes for the handbook's 12 in. wall at its base reach the handbook's
+    # verdicts: special boundary elements required, the 12 in. web failing the drift capacity
+    # (NG at b = 12 in.) and hu/16 = 13.5 in. (so the handbook widens the boundary element to
+    # 16 in., which xlcore's input, b = tw, cannot describe). c held at the printed 67.9 in.
+    import pandas as pd
+
+    from xlcore.checks import special_walls
+    from xlcore.checks.section14 import check_section14
+    from xlcore.model import Settings
+
+    piers = _ex2_wall()
+    assert piers.H_wall.iloc[0] == pytest.approx(HW)
+    acts = pd.DataFrame(
+        dict(storey=piers.storey, pier_id=piers.pier_id, combination="E1", n=1015 * KIP * 1e-3,
+             m=37_200 * FT_KIP * 1e-6, v=470 * KIP * 1e-3)
+    )  # fmt: skip
+    monkeypatch.setattr(special_walls, "neutral_axis_depth", lambda q, pu, std: np.full(len(q), C))
+    s = Settings(
+        standard="ACI 318-19", earthquake_combinations="E1", aci_delta_u=DELTA_U, aci_mpr_mu=MPR_MU,
+        phi_shear=0.6,  # the handbook's phi (21.2.4.1)
+    )  # fmt: skip
+    out = check_section14(piers, acts, s)
+
+    def row(rule):
+        r = out[(out.storey == "L1") & (out.rule == rule)]
+        assert len(r) == 1
+        return r.iloc[0]
+
+    # step 5: rho_l = 2 x 0.79 / 144 = 0.0110 and rho_t = 2 x 0.44 / 144 = 0.0061 (xlcore's round
+    # bars of 25.4 and 19.05 mm carry 0.6 % and 1 % less area than No. 8 and No. 6: 2e-4)
+    assert row("web vertical ratio").value == pytest.approx(0.0110, abs=2e-4)
+    assert row("web horizontal ratio").value == pytest.approx(0.0061, abs=2e-4)
+    assert row("two curtains").status == "pass"
+    # Ve = 1.5 x 1.57 x 470 = 1107 kip (0.2 % rounding of omega_v); phi Vn = 0.6 x 2045 = 1227 kip
+    # (rho_t of the input 2 x 285 / 304.8^2 = 0.00614 against the printed 0.0061, and SI 0.17:
+    # 1.5 %)
+    amp = row("shear amplification")
+    assert amp.value * 1e3 / KIP == pytest.approx(1107, rel=0.003)
+    assert amp.limit * 1e3 / KIP == pytest.approx(1227, rel=0.015)
+    assert amp.status == "pass"
+    disp = row("boundary: displacement")
+    assert disp.status == "required" and disp.limit / IN == pytest.approx(34.4, abs=0.1)
+    drift = row("drift capacity")
+    # 1.5 delta_u/hwcs = 0.0163 > delta_c/hwcs (0.0035, floored 0.015); sqrt(0.025 c lw) = 23.9 in.
+    # > 12 in.: neither option of 18.10.6.2(b) met, as the handbook finds for b = 12 in.
+    assert drift.value == pytest.approx(0.0163, abs=5e-5) and drift.limit == pytest.approx(0.015)
+    assert drift.status == "FAIL"
+    assert row("boundary length").limit / IN == pytest.approx(67.9 - 33.6, abs=1e-6)  # 34.3 in.
+    width = row("boundary width")
+    assert width.limit / IN == pytest.approx(13.5) and width.status == "FAIL"  # 12 < 13.5 in.
