@@ -530,7 +530,8 @@ PROJECT = SettingsSheet(
             None,
             "ACI 318-19 special walls: ns of the dynamic amplification omega_v (18.10.3.1.3). "
             "Blank: the number of storeys on the Storeys sheet (critical section at the base; "
-            "the larger ns gives the larger omega_v).",
+            "the larger ns gives the larger omega_v). Either way not less than 0.007 hwcs with hwcs "
+            "in inches (0.007 x the wall's height in mm / 25.4), as 18.10.3.1.3 requires.",
             min=1.0,
             max=200.0,
         ),
