@@ -510,7 +510,8 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
                 *plain(ztw, z.fsy, db, hx, smax, given), described.tolist(), strict=True
             )
         ],
-        f"b = tw; hx taken at its largest, min(350, 2b/3) (18.10.6.4(f)); 5 db above 420 MPa {MEMORY}; "
+        "b = tw; hx taken at its largest, min(350, 2b/3) (18.10.6.4(f)); 5 db (Grade 550) taken above "
+        f"420 MPa, the conservative reading ({MEMORY}: no published example); "
         "db the end zones' bar, else the wall's vertical bar",
     )
 
