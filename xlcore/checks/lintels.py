@@ -67,7 +67,8 @@ BASIS_ACI = {
     "22.5.8.5.3, 22.5.1.2 (phi 0.75); some expressions from memory, verify",
     STM: "ACI 318-19 Ch. 23 strut-and-tie: fce = 0.85 beta_s f'c (Table 23.4.3), beta_n 0.80 C-C-T "
     "(Table 23.9.2), phi 0.75 (Table 21.2.1): from memory, verify",
-    DIAGONAL: "ACI 318-19 18.10.7.4 Eq (18.10.7.4), phi 0.85 (21.2.4.4, from memory: verify)",
+    DIAGONAL: "ACI 318-19 18.10.7.4 Eq (18.10.7.4); phi 0.85 where the walls are special structural "
+    "walls (21.2.4.4), else 0.75 (Table 21.2.1(b))",
 }
 COUPLING_BEAM = (
     "coupling beam of a special structural wall (18.10.7.3: designed by 18.6.3-18.6.5, strength "
