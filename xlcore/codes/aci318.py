@@ -47,8 +47,8 @@ PHI_TENSION_CONTROLLED = 0.90
 """Table 21.2.2: phi for tension-controlled sections."""
 
 PHI_SIMPLIFIED = 0.65
-"""21.2.2 / 11.5.3.1: the simplified wall method's Pn is compression-controlled (from memory,
-verify; 0.70 in editions before 2002)."""
+"""21.2.2 / 11.5.3.1: the simplified wall method's Pn is compression-controlled (ACI MNL-17(21)
+Shear Wall Example 1: phi Pn = 0.65 Pn by 21.2.2(b); 0.70 in editions before 2002)."""
 
 PHI_DIAGONAL_COUPLING = 0.85
 """21.2.4.4: phi for shear of diagonally reinforced coupling beams in structures relying on special
@@ -205,12 +205,13 @@ def simplified_applies(e, h):
     return np.abs(_a(e)) <= _a(h) / 6.0
 
 
-# --- 11.3 minimum thickness (from memory, verify)
+# --- 11.3 minimum thickness
 
 
 def min_thickness_bearing(lu, length):
     """Bearing walls: h >= max(100 mm, 1/25 of the lesser of the unsupported length and the
-    unsupported height), Table 11.3.1.1 (from memory, verify)."""
+    unsupported height), Table 11.3.1.1 (ACI MNL-17(21) Shear Wall Example 1: 18 ft x 12 / 25 =
+    8.64 in.; 4 in. in the in-lb edition)."""
     return np.maximum(100.0, np.minimum(_a(lu), _a(length)) / 25.0)
 
 
@@ -276,8 +277,8 @@ def wall_max_spacing(h, Lw, shear_steel_required=False):
 
 def two_layers_required(h):
     """Walls thicker than 250 mm (other than basement and cantilever retaining walls) have two
-    layers of reinforcement, 11.7.2.3 (the 10 in. rule of earlier editions' 14.3.4; the 2019
-    numbering from memory, verify)."""
+    layers of reinforcement, 11.7.2.3 (the 10 in. of the in-lb edition; ACI MNL-17(21) Shear Wall
+    Example 1 cites 11.7.2.3 for its 12 in. wall)."""
     return _a(h) > TWO_LAYER_THICKNESS
 
 
@@ -659,7 +660,7 @@ _CLAUSES = {
     "rho_h_min": "ACI 318-19 11.6.1 Table 11.6.1 / 11.6.2(b)",
     "spacing": "ACI 318-19 11.7.2.1 / 11.7.3.1",
     "clear_gap": "ACI 318-19 25.2.1",
-    "layers": "ACI 318-19 11.7.2.3 (two layers above 250 mm, from memory)",
+    "layers": "ACI 318-19 11.7.2.3 (two layers above 250 mm)",
     "beam_flexure": "ACI 318-19 22.2 / 22.3, Table 21.2.2",
     "beam_shear": "ACI 318-19 Table 22.5.5.1, 22.5.8.5.3, 22.5.1.2",
     "coupling_beam": "ACI 318-19 18.10.7.4 Eq. (18.10.7.4)",
@@ -964,7 +965,7 @@ _DETAILING_CLAUSES = {
 def _limit_text(key: str, **values) -> list[str]:
     """Working text of the detailing limits (see `base.Standard.limit_text`)."""
     if key == "layers":
-        return [f"{TWO_LAYER_THICKNESS:.0f} mm: two layers above it, 11.7.2.3 (from memory: verify)"] * len(
+        return [f"{TWO_LAYER_THICKNESS:.0f} mm: two layers above it, 11.7.2.3"] * len(
             np.atleast_1d(values["tw"])
         )
     if key in ("spacing_v", "spacing_h"):
