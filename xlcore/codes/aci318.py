@@ -568,7 +568,9 @@ def hoop_spacing_max(b_least, db_long, hx, fy_long=420.0):
     so = 100 + (350 - hx)/3 within 100..150 mm [mm] (the SI edition's form of 4 + (14 - hx)/3
     within 4..6 in.). ACI MNL-17(21) Vol. 1 Shear Wall Example 2 (Grade 60): min(16/3, 6 x 1.0,
     so 5.0) in.; the 5 db of Grade 80 agrees with a public column-design script, no published
-    example found."""
+    example found. 18.10.6.4(e) also caps s by Table 18.10.6.5(b) (min(6 db, 150 mm) for Grade
+    420 near the critical section, looser above): inside this limit already, which xlcore applies
+    at every height."""
     so = np.clip(100.0 + (350.0 - _a(hx)) / 3.0, 100.0, 150.0)
     mult = np.where(_a(fy_long) > 420.0, 5.0, 6.0)
     return np.minimum(np.minimum(_a(b_least) / 3.0, mult * _a(db_long)), so)
