@@ -158,6 +158,33 @@ class BeamShear:
     detail: Mapping[str, np.ndarray] = field(default_factory=dict)
 
 
+@dataclass(frozen=True)
+class Bar:
+    """One reinforcing bar of a standard's catalogue: its designation as drawings name it
+    ("N16", "No. 16"), nominal diameter [mm] and nominal area [mm^2]. The checks take a bar's
+    area as pi d^2 / 4 from the diameter the workbook gives (so a catalogue whose areas are
+    rounded up, as ASTM's soft-converted ones are, is checked on the lesser, conservative area);
+    the catalogue names bars and gives the sizes the advice offers."""
+
+    name: str
+    dia: float
+    area: float
+
+
+BAR_USES = ("horizontal", "vertical", "zone")
+"""What the advice offers bars for (`Standard.advice_bars`): a wall's horizontal and vertical
+bars, and end-zone bars."""
+
+
+def catalogue_name(catalogue: tuple[Bar, ...], dia: float, tol: float = 0.15) -> str | None:
+    """The designation of the catalogue bar whose nominal diameter is within `tol` mm of `dia`
+    (a workbook may give 12.7 or 13 for an ASTM No. 13), None where none is."""
+    for bar in catalogue:
+        if abs(bar.dia - float(dia)) <= tol:
+            return bar.name
+    return None
+
+
 @runtime_checkable
 class Standard(Protocol):
     """A design standard as the checks see it. N, mm, MPa; arrays over rows."""
@@ -377,6 +404,21 @@ class Standard(Protocol):
     def grades(self) -> tuple[float, ...]:
         """Concrete strengths f'c [MPa] a site can order under this standard, lowest first: the
         grades the advice search offers."""
+        ...
+
+    def bar_catalogue(self) -> tuple[Bar, ...]:
+        """The reinforcing bars of the standard's bar specification, smallest first."""
+        ...
+
+    def advice_bars(self, use: str) -> tuple[Bar, ...]:
+        """The catalogue bars the advice search offers for `use` (one of BAR_USES), smallest
+        first."""
+        ...
+
+    def bar_name(self, dia, n=None) -> str:
+        """A bar of nominal diameter `dia` [mm] as drawings under this standard name it, `n` of
+        them where n is given ("N16", "4N20"; "No. 16", "4 No. 19"); a diameter outside the
+        catalogue in mm."""
         ...
 
 
