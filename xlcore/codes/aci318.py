@@ -272,7 +272,8 @@ ASTM_BARS = (
 specifications): (designation, nominal diameter [mm], nominal area [mm^2]) from A615/A615M
 Table 1, the bracketed SI values (seen reproduced at https://nomeesteel.pk/astm-standards, and
 in a copy of A615/A615M-04a; No. 43 and No. 57 left out: not wall bars). The areas are the
-inch-pound ones converted (No. 13: 0.20 in^2 = 129 mm^2), about 2 % above pi d^2 / 4."""
+inch-pound ones converted (No. 13: 0.20 in^2 = 129 mm^2), within 2.5 % of pi d^2 / 4 (the
+checks' area from the diameter the workbook gives)."""
 
 ADVICE_BARS = {
     "horizontal": ("No. 10", "No. 13", "No. 16", "No. 19"),
@@ -890,10 +891,12 @@ class ACI318:
         return tuple(b for b in self.bar_catalogue() if b.name in ADVICE_BARS[use])
 
     def bar_name(self, dia, n=None):
-        """"No. 16", "4 No. 19"; a diameter no ASTM bar has (within 0.15 mm) in mm."""
+        """"No. 16", "4 No. 19"; a diameter within 0.5 mm of an ASTM bar's is that bar (the
+        designation is the nominal diameter rounded: a workbook may give 13 for No. 13), any
+        other in mm."""
         from xlcore.codes.base import catalogue_name
 
-        name = catalogue_name(self.bar_catalogue(), dia) or f"{float(dia):g} mm"
+        name = catalogue_name(self.bar_catalogue(), dia, tol=0.5) or f"{float(dia):g} mm"
         return name if n is None else f"{float(n):g} {name}"
 
     def single_layer_limits(self):

@@ -321,7 +321,7 @@ class AS3600:
     def bar_name(self, dia, n=None):
         """"N16", "4N20": the designation is N and the diameter in mm, so a diameter outside the
         catalogue is named the same way (the text AS 3600 results have always shown)."""
-        name = catalogue_name(BARS, dia, tol=0.0) or f"N{float(dia):g}"
+        name = catalogue_name(BARS, dia) or f"N{float(dia):g}"
         return name if n is None else f"{float(n):g}{name}"
 
     def single_layer_limits(self):

@@ -162,9 +162,9 @@ class BeamShear:
 class Bar:
     """One reinforcing bar of a standard's catalogue: its designation as drawings name it
     ("N16", "No. 16"), nominal diameter [mm] and nominal area [mm^2]. The checks take a bar's
-    area as pi d^2 / 4 from the diameter the workbook gives (so a catalogue whose areas are
-    rounded up, as ASTM's soft-converted ones are, is checked on the lesser, conservative area);
-    the catalogue names bars and gives the sizes the advice offers."""
+    area as pi d^2 / 4 from the diameter the workbook gives (ASTM's areas, converted from inch
+    sizes, differ from it by up to 2.5 %, either way); the catalogue names bars and gives the
+    sizes the advice offers."""
 
     name: str
     dia: float
@@ -176,7 +176,7 @@ BAR_USES = ("horizontal", "vertical", "zone")
 bars, and end-zone bars."""
 
 
-def catalogue_name(catalogue: tuple[Bar, ...], dia: float, tol: float = 0.15) -> str | None:
+def catalogue_name(catalogue: tuple[Bar, ...], dia: float, tol: float = 0.0) -> str | None:
     """The designation of the catalogue bar whose nominal diameter is within `tol` mm of `dia`
     (a workbook may give 12.7 or 13 for an ASTM No. 13), None where none is."""
     for bar in catalogue:
