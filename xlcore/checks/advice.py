@@ -1029,8 +1029,9 @@ def search_lines(s: Settings) -> list[tuple[str, str]]:
     """The lines above the advice table: what was searched, how it is priced, what a pour is."""
     std = _std(s)
     h, v = (std.advice_bars(use) for use in ("horizontal", "vertical"))
+    sym = std.symbols
     layers = (
-        "two layers each way (Section 14 both faces)"
+        f"two layers each way ({sym['earthquake_rules']} both faces)"
         if two_layers_required(s)
         else (f"one or two layers (two above {std.single_layer_limits()[0]:g} mm)")
     )
@@ -1042,8 +1043,8 @@ def search_lines(s: Settings) -> list[tuple[str, str]]:
             f"100-300 mm in 25 mm steps, {layers}, the same layers both ways; end-zone bars at both "
             "free edges; thickness +25 mm steps to +300 mm keeping the bars' ratio; where none of "
             "these passes alone, pairs of them (cheapest first). Each option run through every "
-            "check (shear, axial + bending, Cl 11.5, detailing, Section 14) with the actions held "
-            "as analysed (re-run the analysis after a change)",
+            f"check (shear, axial + bending, {sym['simplified']}, detailing, {sym['earthquake_rules']}) "
+            "with the actions held as analysed (re-run the analysis after a change)",
         ),
         (
             "Pour",

@@ -411,7 +411,7 @@ def check_pier_axial(
     )
     if not working:
         return _simplified(df, settings, of, working, std)
-    df["bars"] = np.asarray(bars.describe(df.iloc[first]), dtype=object)[of]
+    df["bars"] = np.asarray(bars.describe(df.iloc[first], std.bar_name), dtype=object)[of]
     if not text:  # every column but the working text (made later for the rows written)
         return _simplified(df, settings, of, working=False, std=std)
     ray_state = SectionState(

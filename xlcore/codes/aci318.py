@@ -661,6 +661,9 @@ class ACI318:
         "top_text": "phi 0.80 Po",
         "simplified_clause": "11.5.3.1",
         "simplified_note": "e from out-of-plane M*, within the middle third (h/6)",
+        "earthquake_rules": "Ch. 18",
+        "detailing_rules": "11.6 / 11.7",
+        "flag_line": "Boundary-element flag (18.10.6.3)",
     }
     Es = ES
     eps_cu = EPS_CU
@@ -896,7 +899,10 @@ class ACI318:
         other in mm."""
         from xlcore.codes.base import catalogue_name
 
-        name = catalogue_name(self.bar_catalogue(), dia, tol=0.5) or f"{float(dia):g} mm"
+        name = catalogue_name(self.bar_catalogue(), dia, tol=0.5)
+        if name is None:
+            name = f"{float(dia):g} mm"
+            return name if n is None else f"{float(n):g} x {name}"
         return name if n is None else f"{float(n):g} {name}"
 
     def single_layer_limits(self):

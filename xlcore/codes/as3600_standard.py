@@ -84,6 +84,9 @@ class AS3600:
         "top_text": "phi Nuo",
         "simplified_clause": "Cl 11.5.1",
         "simplified_note": "e from out-of-plane M*, at least 0.05 tw",
+        "earthquake_rules": "Section 14",
+        "detailing_rules": "Cl 11.7",
+        "flag_line": "End-zone flag (Cl 14.6)",
     }
     Es = as3600.ES
     eps_cu = as3600.EPS_CU

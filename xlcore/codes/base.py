@@ -83,6 +83,9 @@ SYMBOL_KEYS = (
     "top_text",  # the design upper limit on N*, in words
     "simplified_clause",  # clause of the simplified method's capacity (summary rows)
     "simplified_note",  # how e is taken in the simplified method (axial sheet preamble)
+    "earthquake_rules",  # the earthquake wall rules in short (summary notes, advice lines)
+    "detailing_rules",  # the detailing rules in short (summary lines)
+    "flag_line",  # the summary line of the core stress check's boundary / end-zone flag
 )
 """Names every standard gives in `Standard.symbols`."""
 

@@ -137,10 +137,10 @@ SUMMARY_COLUMNS = [
     _c("u_shear", "U shear", None, "0.000", 8),
     _c("u_nm", "U axial + bending", None, "0.000", 9),
     _c("u_simplified", "U simplified method", None, "0.000", 8),
-    _c("detailing", "Detailing Cl 11.7", width=10),
+    _c("detailing", "Detailing rules", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
-    _c("section14", "Earthquake Section 14", width=12),
-    _c("u_section14", "U Section 14", None, "0.000", 9),
+    _c("section14", "Earthquake wall rules", width=12),
+    _c("u_section14", "U earthquake rules", None, "0.000", 9),
     _c("fix", "Cheapest fix (see the advice sheet)", width=30),
     _c("note", "Note", width=30),
 ]

@@ -177,16 +177,18 @@ def stamp_lines(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
 
 
 def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
-    """The Cl 14.6 end-zone flag in one summary line: a flag, never a failing utilisation."""
+    """The Cl 14.6 end-zone flag (ACI 318: the boundary-element flag) in one summary line: a flag,
+    never a failing utilisation."""
+    label = get_standard(s.standard).symbols["flag_line"]
     quake = stress[stress.earthquake == "yes"]
     if quake.empty:
-        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet")
+        return (label, "no earthquake combinations named on the Project sheet")
     hit = quake[quake.u_compression > 1.0]
     if hit.empty:
-        return ("End-zone flag (Cl 14.6)", f"none: peak compression within {s.compression_limit:g} f'c")
+        return (label, f"none: peak compression within {s.compression_limit:g} f'c")
     w = hit.loc[hit.u_compression.idxmax()]
     return (
-        "End-zone flag (Cl 14.6)",
+        label,
         f"{len(hit)} wall cases over {s.compression_limit:g} f'c under earthquake combinations "
         f"(detailing required, not a failure); highest {w.wall_id} at {w.storey}, {w.combination}: "
         f"{w.sigma_max:.2f} MPa vs {w.limit:.2f} MPa",
@@ -280,14 +282,15 @@ def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
     return (label, f"{s.ductility}: " + "; ".join(parts))
 
 
-def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
+def members_table(piers: pd.DataFrame, lintels: pd.DataFrame, bar_name=None) -> pd.DataFrame:
+    """Piers and lintels, one row each; `bar_name` names the bars (`Standard.bar_name`)."""
     p = piers.assign(
         member=piers.pier_id,
         kind="pier",
         height=piers.h,
         k=piers.k * 1e-3,
         note=np.where(piers.position > 0, "between openings / wall ends", "wall without openings"),
-        bars=bars.describe(piers) if len(piers) else [],
+        bars=(bars.describe(piers, bar_name) if bar_name else bars.describe(piers)) if len(piers) else [],
     )
     lin = lintels.merge(
         piers.drop_duplicates(["storey", "wall_id"])[
@@ -371,8 +374,8 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
             results.SUMMARY_COLUMNS,
             attention_first(summary),
             preamble=stamp
-            + count_lines(summary, shear, special_walls.applies(s))
-            + worst_per_check(summary, lintels, stress, core_nm)
+            + count_lines(summary, shear, special_walls.applies(s), sym)
+            + worst_per_check(summary, lintels, stress, core_nm, sym)
             + [section14_line(section14, s), lintel_line],
             scale_key="util",
         ),
@@ -515,7 +518,7 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
             f"{results.MARKER}: piers and lintels derived from walls "
             "and openings (IDs to map analysis output to)",
             results.MEMBER_COLUMNS,
-            members_table(piers, geom.lintels),
+            members_table(piers, geom.lintels, std.bar_name),
             preamble=stamp,
         ),
         ResultSheet(
