@@ -28,3 +28,69 @@ def once_per(df: pd.DataFrame, keys: list, make) -> np.ndarray:
     )[0]
     _, first = np.unique(codes, return_index=True)
     return np.asarray(make(df.iloc[first]), dtype=object)[codes]
+
+
+RULE_COLUMNS = (
+    "storey",
+    "storey_index",
+    "pier_id",
+    "wall_id",
+    "rule",
+    "basis",
+    "value",
+    "kind",
+    "limit",
+    "unit",
+    "util",
+    "status",
+    "working",
+)
+"""Columns of a rule table (checks/section14.py, checks/special_walls.py: one row per storey x
+pier x rule; the special-wall rules add "combination" after "wall_id")."""
+
+
+def rule_columns(per_combination: bool = False) -> tuple[str, ...]:
+    """RULE_COLUMNS, with "combination" after "wall_id" for rules judged per combination."""
+    if not per_combination:
+        return RULE_COLUMNS
+    at = RULE_COLUMNS.index("wall_id") + 1
+    return (*RULE_COLUMNS[:at], "combination", *RULE_COLUMNS[at:])
+
+
+def empty_rules(columns: tuple[str, ...], working: bool) -> pd.DataFrame:
+    """A rule table without rows: (pier_id, util) for the advice search (`working` False), else
+    every column and the clause, so the sheets and the summary read it as they read a full one."""
+    if not working:
+        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
+    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*columns, "clause")})
+
+
+def rule_rows(
+    p, name, value, limit, kind, unit, status, util, text, basis, working, combo=None
+) -> pd.DataFrame:
+    """One rule's rows over the piers `p` (with `combo`, the combination of each row); `text`
+    makes the working when called (only with `working`); `kind` "min" reads "at least", any
+    other "at most"."""
+    n = len(p)
+    cols = dict(
+        storey=p.storey.to_numpy(),
+        storey_index=p.storey_index.to_numpy(),
+        pier_id=p.pier_id.to_numpy(),
+        wall_id=p.wall_id.to_numpy(),
+    )
+    if combo is not None:
+        cols["combination"] = np.asarray(combo, dtype=object)
+    return pd.DataFrame(
+        dict(
+            cols,
+            rule=name,
+            basis=basis,
+            value=np.broadcast_to(np.asarray(value, dtype=float), (n,)),
+            kind="at least" if kind == "min" else "at most",
+            unit=unit,
+            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
+            util=np.broadcast_to(np.asarray(util, dtype=float), (n,)),
+            status=np.asarray(status, dtype=object),
+            working=text() if working else "",
+        )
+    )

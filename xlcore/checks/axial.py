@@ -15,6 +15,7 @@ from xlcore.codes import get_standard
 from xlcore.codes.base import SectionState, Standard, num
 from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.mechanics import bars, nm
+from xlcore.mechanics.radial import ray_segment_utilisation, tension_side_utilisation
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
 
@@ -128,27 +129,6 @@ def _solve_ray(sec, n_dir, m_dir, lo, hi, phi_at, iterations: int = 60) -> np.nd
         return phi * (n * a - np.abs(m) * b)
 
     return nm._illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations)
-
-
-def tension_side_utilisation(n_star, m_star, phi_nuot, phi_mo):
-    """Radial overload factor on the tension side drawn as the straight line from (0, phi Muo)
-    to (phi Nuot, 0): lambda = N*/phi Nuot + |M*|/phi Muo (`phi_nuot` < 0, N* <= 0). Geometry,
-    the same for every standard (AS 3600 practice; conservative for ACI 318, whose tension-side
-    curve lies outside the line: docs/engineering-basis.md)."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    return n / np.asarray(phi_nuot, dtype=float) + m / np.asarray(phi_mo, dtype=float)
-
-
-def ray_segment_utilisation(n_star, m_star, n1, m1, n2, m2):
-    """Radial overload factor where the ray through (N*, |M*|) crosses the segment
-    (n1, m1)-(n2, m2): lambda = (N* dm - |M*| dn) / (n1 dm - m1 dn)."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    dn, dm = np.asarray(n2, dtype=float) - n1, np.asarray(m2, dtype=float) - m1
-    den = n1 * dm - m1 * dn
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(den != 0, (n * dm - m * dn) / np.where(den != 0, den, 1.0), np.inf)
 
 
 def interaction(

@@ -27,7 +27,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import plain
+from xlcore.checks import empty_rules, plain, rule_columns, rule_rows
 from xlcore.checks.axial import rect_sections
 from xlcore.codes import aci318, get_standard
 from xlcore.codes.base import Standard
@@ -102,7 +102,7 @@ def check_special_walls(
     utilisation of pass / FAIL rows (what the advice search needs)."""
     std = (std or get_standard(settings.standard)).configure(settings)
     if not_applicable_reason(settings) is not None or piers.empty:
-        return _empty(working)
+        return empty_rules(COLUMNS, working)
     p = piers.reset_index(drop=True).copy()
     if n_storeys is None:
         n_storeys = int(p.storey_index.max()) + 1
@@ -110,7 +110,7 @@ def check_special_walls(
     parts: list[pd.DataFrame] = []
 
     def rule(rows, combo, name, value, limit, kind, unit, status, util, text, why):
-        parts.append(_rows(rows, combo, name, value, limit, kind, unit, status, util, text, why, working))
+        parts.append(rule_rows(rows, name, value, limit, kind, unit, status, util, text, why, working, combo))
 
     Lw, tw, fc, fy = (p[k].to_numpy(float) for k in ("Lw", "tw", "fc", "fsy"))
     hwcs_lw = p.H_wall.to_numpy(float) / Lw
@@ -538,51 +538,7 @@ def _at_least(value, limit) -> np.ndarray:
         return np.where(value > 0, np.asarray(limit, dtype=float) / np.where(value > 0, value, 1.0), np.inf)
 
 
-COLUMNS = (
-    "storey",
-    "storey_index",
-    "pier_id",
-    "wall_id",
-    "combination",
-    "rule",
-    "basis",
-    "value",
-    "kind",
-    "limit",
-    "unit",
-    "util",
-    "status",
-    "working",
-)
-
-
-def _empty(working: bool) -> pd.DataFrame:
-    if not working:
-        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
-    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*COLUMNS, "clause")})
-
-
-def _rows(p, combo, name, value, limit, kind, unit, status, util, text, basis, working) -> pd.DataFrame:
-    """One rule's rows; `text` makes the working when called (only with `working`)."""
-    n = len(p)
-    return pd.DataFrame(
-        dict(
-            storey=p.storey.to_numpy(),
-            storey_index=p.storey_index.to_numpy(),
-            pier_id=p.pier_id.to_numpy(),
-            wall_id=p.wall_id.to_numpy(),
-            combination=np.asarray(combo, dtype=object),
-            rule=name,
-            basis=basis,
-            value=np.broadcast_to(np.asarray(value, dtype=float), (n,)),
-            kind="at least" if kind == "min" else "at most",
-            unit=unit,
-            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
-            util=np.broadcast_to(np.asarray(util, dtype=float), (n,)),
-            status=np.asarray(status, dtype=object),
-            working=text() if working else "",
-        )
-    )
+COLUMNS = rule_columns(per_combination=True)
 
 
 # ---------------------------------------------------------------- the sheet's preamble and summary line
