@@ -309,7 +309,8 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
             )
         ],
         f"Omega_v with Mpr/Mu {settings.aci_mpr_mu:g} (Project setting), omega_v {MEMORY}; phi "
-        f"{phi:g}; Vn capped at 0.66 sqrt(f'c) Acv (the 0.83 of one segment not used)",
+        f"{phi:g} ({_phi_source(settings)}); Vn capped at 0.66 sqrt(f'c) Acv (the 0.83 of one segment "
+        "not used)",
     )
 
     # ---- 18.10.6.3 stress method
@@ -530,6 +531,20 @@ def _zone_bars(p: pd.DataFrame) -> np.ndarray:
 
 def _pass_fail(util) -> np.ndarray:
     return np.where(np.asarray(util, dtype=float) <= 1.0 + 1e-9, PASS, FAIL).astype(object)
+
+
+def _phi_source(settings: Settings) -> str:
+    """Where the special-wall shear phi came from, and the 0.60 of 21.2.4.1 the engineer may need
+    (a setting, never applied silently: aci318.PHI_SHEAR_SEISMIC)."""
+    where = (
+        "Project setting 'phi for wall shear'"
+        if settings.phi_shear is not None
+        else "Table 21.2.1, 'phi for wall shear' blank"
+    )
+    return (
+        f"{where}; 21.2.4.1 asks {aci318.PHI_SHEAR_SEISMIC:.2f} where the wall's nominal shear "
+        "strength is less than the shear at its nominal flexural strength: set it there"
+    )
 
 
 def _at_least(value, limit) -> np.ndarray:
