@@ -94,3 +94,24 @@ def rule_rows(
             working=text() if working else "",
         )
     )
+
+
+def worst_rule_text(table: pd.DataFrame, every: str | None = None) -> str | None:
+    """The worst pass / FAIL row of a rule table in words, for a summary line: 'worst 1.250
+    FAIL at W1, L3 (rule[, combination]; n of N rule rows fail)'; the combination is named where
+    the table has one and it is not `every` (the label of rows judged over all combinations).
+    None where no row is pass / FAIL."""
+    from xlcore.results import FAIL, PASS
+
+    comp = table[table.status.isin((PASS, FAIL))]
+    if not len(comp):
+        return None
+    r = comp.loc[comp.util.astype(float).idxmax()]
+    n_fail = int((comp.status == FAIL).sum())
+    verdict = FAIL if r.util > 1.0 else PASS
+    combo = r.combination if "combination" in comp and r.combination != every else None
+    return (
+        f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}"
+        + (f", {combo}" if combo is not None else "")
+        + f"; {n_fail} of {len(comp)} rule rows fail)"
+    )

@@ -27,7 +27,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import empty_rules, plain, rule_columns, rule_rows
+from xlcore.checks import empty_rules, plain, rule_columns, rule_rows, worst_rule_text
 from xlcore.checks.axial import rect_sections
 from xlcore.codes import aci318, get_standard
 from xlcore.codes.base import Standard
@@ -610,17 +610,8 @@ def summary_line(table: pd.DataFrame | None, s: Settings) -> tuple[str, str]:
         return (label, f"not applicable: {why}")
     if table is None or not len(table):
         return (label, "not checked (no rows)")
-    comp = table[table.status.isin((PASS, FAIL))]
-    parts = []
-    if len(comp):
-        r = comp.loc[comp.util.astype(float).idxmax()]
-        n_fail = int((comp.status == FAIL).sum())
-        verdict = FAIL if r.util > 1.0 else PASS
-        parts.append(
-            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}"
-            + (f", {r.combination}" if r.combination != ALL else "")
-            + f"; {n_fail} of {len(comp)} rule rows fail)"
-        )
+    worst = worst_rule_text(table, every=ALL)
+    parts = [worst] if worst else []
     if not s.earthquake:
         parts.append("boundary elements not evaluated: no earthquake combinations named")
     else:

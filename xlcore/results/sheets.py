@@ -12,7 +12,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, cores, distribution, geometry, results
-from xlcore.checks import special_walls
+from xlcore.checks import special_walls, worst_rule_text
 from xlcore.checks.advice import search_lines
 from xlcore.checks.lintels import preamble_aci as lintels_preamble_aci
 from xlcore.checks.section14 import not_applicable_reason
@@ -260,16 +260,8 @@ def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
         return (label, f"not applicable: {why}")
     if section14 is None or not len(section14):
         return (label, "not checked (no rows)")
-    comp = section14[section14.status.isin((results.PASS, results.FAIL))]
-    parts = []
-    if len(comp):
-        r = comp.loc[comp.util.astype(float).idxmax()]
-        n_fail = int((comp.status == results.FAIL).sum())
-        verdict = results.FAIL if r.util > 1.0 else results.PASS
-        parts.append(
-            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}; "
-            f"{n_fail} of {len(comp)} rule rows fail)"
-        )
+    worst = worst_rule_text(section14)
+    parts = [worst] if worst else []
     zones = section14[section14.status == results.REQUIRED]
     checks = int((section14.status == results.CHECK).sum())
     if not s.earthquake:
