@@ -102,3 +102,19 @@ def test_search_lines_name_the_standards_bars():
     assert "horizontal No. 10-No. 19 and vertical No. 13-No. 29" in aci and " N1" not in aci
     own = dict(advice.search_lines(Settings()))["Search"]
     assert "horizontal N10-N20 and vertical N12-N28" in own
+
+
+def test_lintel_needs_name_the_assumed_bars_in_the_standards_terms():
+    # a lintel without bars: the words say which bars were assumed for its geometry (16 mm: AS
+    # N16; ACI No. 16, 15.9 mm within 0.5 mm); ACI 318 without special walls designs it the same
+    # way (strut-and-tie, Chapter 23), so the words differ only in the bars' names
+    from test_lintels import DEEP, actions, lintels
+
+    from xlcore.checks.lintels import check_lintels
+
+    bare = lintels(**DEEP, lintel_bars=None, lintel_dia=None)
+    own = check_lintels(bare, actions(v=100.0), Settings()).iloc[0].need
+    assert "N16 assumed" in own
+    aci = Settings(standard="ACI 318-19", aci_special_walls="no")
+    need = check_lintels(bare, actions(v=100.0), aci).iloc[0].need
+    assert "No. 16 assumed" in need and "N16" not in need
