@@ -420,7 +420,7 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
         ),
         ResultSheet(
             results.DETAILING_SHEET,
-            f"{results.MARKER}: detailing of piers to {s.standard} Cl 11.7 "
+            f"{results.MARKER}: detailing of piers to {s.standard} {sym['detailing_rules']} "
             "(limits as in docs/engineering-basis.md: verify)",
             results.DETAILING_COLUMNS,
             detailing,
