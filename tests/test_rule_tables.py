@@ -47,3 +47,29 @@ def test_rows_and_the_worst_rule_in_words():
         "worst 0.500 pass at W1, L1 (shear; 0 of 1 rule rows fail)"
     )
     assert worst_rule_text(b[b.status == "n/a"]) is None
+
+
+def test_finish_rules_orders_piers_then_rules_and_keeps_pass_fail_for_the_search():
+    from xlcore.checks import finish_rules
+
+    p = pd.DataFrame(dict(storey=["L1", "L1", "L2"], storey_index=[0, 0, 1], pier_id=["A", "B", "A"]))
+    out = pd.DataFrame(
+        dict(
+            storey=["L1", "L2", "L1", "L1"],
+            storey_index=[0, 1, 0, 0],
+            pier_id=["B", "A", "A", "A"],
+            rule=["r2", "r1", "r2", "r1"],
+            status=["pass", "FAIL", "n/a", "pass"],
+            util=[0.5, 1.2, float("nan"), 0.7],
+        )
+    )
+    done = finish_rules(out.copy(), p, True, {"r1": "c1", "r2": "c2"}, ("r1", "r2"))
+    # storeys top down, then the pier table's order, then the rules' order (written out by hand)
+    assert list(zip(done.storey, done.pier_id, done.rule, done.clause, strict=True)) == [
+        ("L2", "A", "r1", "c1"),
+        ("L1", "A", "r1", "c1"),
+        ("L1", "A", "r2", "c2"),
+        ("L1", "B", "r2", "c2"),
+    ]
+    search = finish_rules(out.copy(), p, False, {}, ("r1", "r2"))
+    assert list(search.columns) == ["pier_id", "util"] and search.util.tolist() == [0.5, 1.2, 0.7]

@@ -115,3 +115,27 @@ def worst_rule_text(table: pd.DataFrame, every: str | None = None) -> str | None
         + (f", {combo}" if combo is not None else "")
         + f"; {n_fail} of {len(comp)} rule rows fail)"
     )
+
+
+def finish_rules(
+    out: pd.DataFrame, p: pd.DataFrame, working: bool, clauses: dict, rules: tuple, every: str | None = None
+) -> pd.DataFrame:
+    """A rule table as the checks hand it on: without `working`, the pass / FAIL rows' (pier_id,
+    util) only (what the advice search needs); else with each rule's clause, the piers in the
+    pier table `p`'s order (storeys top down, walls and piers in natural order) and each pier's
+    rules in the order of `rules`; with `every` (rules judged per combination), a pier's rows of
+    every combination (`every`) first, then by combination."""
+    from xlcore.results import FAIL, PASS
+
+    if not working:
+        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
+    out["clause"] = out.rule.map(clauses)
+    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_rule"] = out.rule.map(pd.Series(range(len(rules)), index=rules))
+    keys = ["storey_index", "_pier", "_rule"]
+    if every is not None:
+        out["_all"] = out.combination != every
+        keys = ["storey_index", "_pier", "_all", "combination", "_rule"]
+    out = out.sort_values(keys, ascending=[False] + [True] * (len(keys) - 1), kind="stable")
+    return out.drop(columns=[k for k in keys if k.startswith("_")]).reset_index(drop=True)

@@ -18,7 +18,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import RULE_COLUMNS, empty_rules, plain, rule_rows, special_walls
+from xlcore.checks import RULE_COLUMNS, empty_rules, finish_rules, plain, rule_rows, special_walls
 from xlcore.codes import as3600, get_standard
 from xlcore.codes.base import Standard
 from xlcore.model import Settings
@@ -169,17 +169,7 @@ def check_section14(
         # without working only pass / FAIL rows count: end zones give those only where their
         # bars are described (the trigger is never a failure)
         _end_zones(p, actions, settings, rule)
-    out = pd.concat(parts, ignore_index=True)
-    if not working:
-        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
-    out["clause"] = out.rule.map(CLAUSE)
-    # piers in the pier table's order (storeys top down, walls and piers in natural order), each
-    # pier's rules in the order of RULES
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
-    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
-    out = out.sort_values(["storey_index", "_pier", "_rule"], ascending=[False, True, True], kind="stable")
-    return out.drop(columns=["_pier", "_rule"]).reset_index(drop=True)
+    return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES)
 
 
 def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule) -> None:

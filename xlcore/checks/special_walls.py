@@ -27,7 +27,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import empty_rules, plain, rule_columns, rule_rows, worst_rule_text
+from xlcore.checks import empty_rules, finish_rules, plain, rule_columns, rule_rows, worst_rule_text
 from xlcore.checks.axial import rect_sections
 from xlcore.codes import aci318, get_standard
 from xlcore.codes.base import Standard
@@ -147,20 +147,7 @@ def check_special_walls(
         a, at = a[~np.isnan(at)], at[~np.isnan(at)]
         if len(a):
             _per_combination(p, at, a, settings, std, ns, rule)
-    out = pd.concat(parts, ignore_index=True)
-    if not working:
-        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
-    out["clause"] = out.rule.map(CLAUSE)
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
-    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
-    out["_all"] = out.combination != ALL
-    out = out.sort_values(
-        ["storey_index", "_pier", "_all", "combination", "_rule"],
-        ascending=[False, True, True, True, True],
-        kind="stable",
-    )
-    return out.drop(columns=["_pier", "_rule", "_all"]).reset_index(drop=True)
+    return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES, every=ALL)
 
 
 # ---------------------------------------------------------------- per pier
