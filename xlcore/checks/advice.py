@@ -723,7 +723,8 @@ def advise(
     out = kinds.merge(best[[*group, "option", "util", "added_cost"]], on=group, how="left")
     out["option"] = out.option.fillna(NONE_PASSES)
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
-        "none alone: horizontal bars do not change axial + bending or Cl 11.5, which fail"
+        "none alone: horizontal bars do not change axial + bending or "
+        f"{_std(settings).symbols['simplified']}, which fail"
     )
     out = pd.concat([out, pair_rows], ignore_index=True)
     out = out.merge(
