@@ -16,6 +16,8 @@ codes/as3600.py by name. Read together they ask a standard for a short list of q
   coupling beams with diagonal bars.
 - core_stress / earthquake: the extreme-fibre stress that triggers (and ends) boundary-element
   detailing.
+- advice: the grades a site can order; the bar catalogue, the bars offered for each use and
+  their names in the standard's terms (also on the result sheets that describe bars).
 - every result row: `clause(key)`, the clause text of that quantity.
 
 Units: N, mm, MPa inside; arrays over rows, scalars broadcast. Nothing here knows a workbook.
@@ -421,7 +423,7 @@ class Standard(Protocol):
     def bar_name(self, dia, n=None) -> str:
         """A bar of nominal diameter `dia` [mm] as drawings under this standard name it, `n` of
         them where n is given ("N16", "4N20"; "No. 16", "4 No. 19"); a diameter outside the
-        catalogue in mm."""
+        catalogue as the standard's drawings would give it (AS 3600 "N14"; ACI 318 "14 mm")."""
         ...
 
 
