@@ -181,7 +181,7 @@ def _lines(t: pd.DataFrame, names: tuple[str, str], f: dict[str, object]) -> lis
             "Method",
             "every check run once to each standard on the same building and the same actions "
             "(only the standard differs); per storey x pier x check the worst combination under "
-            "each (detailing and Section 14: the worst rule), so the two may govern under "
+            "each (detailing and earthquake wall rules: the worst rule), so the two may govern under "
             "different combinations or clauses; settings named for one standard apply to it only",
         ),
         (

@@ -200,7 +200,9 @@ PROJECT = SettingsSheet(
             Kind.NUMBER,
             None,
             "Capacity reduction factor for in-plane shear of walls. Blank: the standard's, 0.7 "
-            "(AS 3600:2018 Table 2.2.2 as applied to walls) or 0.75 (ACI 318-19 Table 21.2.1).",
+            "(AS 3600:2018 Table 2.2.2 as applied to walls) or 0.75 (ACI 318-19 Table 21.2.1). ACI "
+            "318-19 21.2.4.1 asks 0.60 for special structural walls whose nominal shear strength is "
+            "less than the shear at their nominal flexural strength: enter 0.6 there.",
             min=0.5,
             max=1.0,
         ),

@@ -22,6 +22,7 @@ from xlcore.checks.detailing import check_detailing
 from xlcore.checks.lintels import check_lintels
 from xlcore.checks.section14 import check_section14
 from xlcore.checks.shear import check_pier_shear
+from xlcore.codes import get_standard
 from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
 from xlcore.mechanics import stiffness
 from xlcore.model import Building
@@ -149,7 +150,9 @@ def compute(
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe, shear=shear)
         section14 = check_section14(piers, acts, s, hwe)
-        summary = envelope(shear, piers, axial, detailing, section14)
+        summary = envelope(
+            shear, piers, axial, detailing, section14, get_standard(s.standard).symbols["earthquake_rules"]
+        )
         checks = pier_checks(shear, axial, detailing, section14, summary)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())

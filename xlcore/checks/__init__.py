@@ -28,3 +28,114 @@ def once_per(df: pd.DataFrame, keys: list, make) -> np.ndarray:
     )[0]
     _, first = np.unique(codes, return_index=True)
     return np.asarray(make(df.iloc[first]), dtype=object)[codes]
+
+
+RULE_COLUMNS = (
+    "storey",
+    "storey_index",
+    "pier_id",
+    "wall_id",
+    "rule",
+    "basis",
+    "value",
+    "kind",
+    "limit",
+    "unit",
+    "util",
+    "status",
+    "working",
+)
+"""Columns of a rule table (checks/section14.py, checks/special_walls.py: one row per storey x
+pier x rule; the special-wall rules add "combination" after "wall_id")."""
+
+
+def rule_columns(per_combination: bool = False) -> tuple[str, ...]:
+    """RULE_COLUMNS, with "combination" after "wall_id" for rules judged per combination."""
+    if not per_combination:
+        return RULE_COLUMNS
+    at = RULE_COLUMNS.index("wall_id") + 1
+    return (*RULE_COLUMNS[:at], "combination", *RULE_COLUMNS[at:])
+
+
+def empty_rules(columns: tuple[str, ...], working: bool) -> pd.DataFrame:
+    """A rule table without rows: (pier_id, util) for the advice search (`working` False), else
+    every column and the clause, so the sheets and the summary read it as they read a full one."""
+    if not working:
+        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
+    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*columns, "clause")})
+
+
+def rule_rows(
+    p, name, value, limit, kind, unit, status, util, text, basis, working, combo=None
+) -> pd.DataFrame:
+    """One rule's rows over the piers `p` (with `combo`, the combination of each row); `text`
+    makes the working when called (only with `working`); `kind` "min" reads "at least", any
+    other "at most"."""
+    n = len(p)
+    cols = dict(
+        storey=p.storey.to_numpy(),
+        storey_index=p.storey_index.to_numpy(),
+        pier_id=p.pier_id.to_numpy(),
+        wall_id=p.wall_id.to_numpy(),
+    )
+    if combo is not None:
+        cols["combination"] = np.asarray(combo, dtype=object)
+    return pd.DataFrame(
+        dict(
+            cols,
+            rule=name,
+            basis=basis,
+            value=np.broadcast_to(np.asarray(value, dtype=float), (n,)),
+            kind="at least" if kind == "min" else "at most",
+            unit=unit,
+            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
+            util=np.broadcast_to(np.asarray(util, dtype=float), (n,)),
+            status=np.asarray(status, dtype=object),
+            working=text() if working else "",
+        )
+    )
+
+
+def worst_rule_text(table: pd.DataFrame, every: str | None = None) -> str | None:
+    """The worst pass / FAIL row of a rule table in words, for a summary line: 'worst 1.250
+    FAIL at W1, L3 (rule[, combination]; n of N rule rows fail)'; the combination is named where
+    the table has one and it is not `every` (the label of rows judged over all combinations).
+    None where no row is pass / FAIL."""
+    from xlcore.results import FAIL, PASS
+
+    comp = table[table.status.isin((PASS, FAIL))]
+    if not len(comp):
+        return None
+    r = comp.loc[comp.util.astype(float).idxmax()]
+    n_fail = int((comp.status == FAIL).sum())
+    verdict = FAIL if r.util > 1.0 else PASS
+    combo = r.combination if "combination" in comp and r.combination != every else None
+    return (
+        f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}"
+        + (f", {combo}" if combo is not None else "")
+        + f"; {n_fail} of {len(comp)} rule rows fail)"
+    )
+
+
+def finish_rules(
+    out: pd.DataFrame, p: pd.DataFrame, working: bool, clauses: dict, rules: tuple, every: str | None = None
+) -> pd.DataFrame:
+    """A rule table as the checks hand it on: without `working`, the pass / FAIL rows' (pier_id,
+    util) only (what the advice search needs); else with each rule's clause, the piers in the
+    pier table `p`'s order (storeys top down, walls and piers in natural order) and each pier's
+    rules in the order of `rules`; with `every` (rules judged per combination), a pier's rows of
+    every combination (`every`) first, then by combination."""
+    from xlcore.results import FAIL, PASS
+
+    if not working:
+        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
+    out["clause"] = out.rule.map(clauses)
+    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_rule"] = out.rule.map(pd.Series(range(len(rules)), index=rules))
+    keys = ["storey_index", "_pier", "_rule"]
+    if every is not None:
+        out["_all"] = out.combination != every
+        keys = ["storey_index", "_pier", "_all", "combination", "_rule"]
+    out = out.sort_values(keys, ascending=[False] + [True] * (len(keys) - 1), kind="stable")
+    return out.drop(columns=[k for k in keys if k.startswith("_")]).reset_index(drop=True)

@@ -61,12 +61,9 @@ from xlcore.codes.base import Standard
 from xlcore.mechanics import bars
 from xlcore.model import Settings
 
-H_DIAS = (10.0, 12.0, 16.0, 20.0)
-V_DIAS = (12.0, 16.0, 20.0, 24.0, 28.0)
 SPACINGS = tuple(float(s) for s in range(100, 301, 25))
 LAYERS = (1, 2)
 THICKNESS_STEP, THICKNESS_STEPS = 25.0, 12
-ZONE_DIAS = (20.0, 24.0, 28.0, 32.0, 36.0)
 ZONE_BARS = (4, 6, 8, 10, 12)  # bars in each zone over all faces
 ZONE_ROUND = 25.0  # mm: zone lengths rounded up to this
 GRADE_KIND = "grade (whole pour)"
@@ -124,29 +121,34 @@ def _std(settings: Settings) -> Standard:
     return get_standard(settings.standard).configure(settings)
 
 
+def _dias(std: Standard, use: str) -> tuple[float, ...]:
+    """Nominal diameters [mm] of the bars the standard's catalogue offers for `use`
+    (`Standard.advice_bars`: AS 3600 N10-N20 horizontal, N12-N28 vertical, N20-N36 end zones)."""
+    return tuple(b.dia for b in std.advice_bars(use))
+
+
 @functools.lru_cache(maxsize=4)
-def _option_table(grades: tuple[float, ...]) -> pd.DataFrame:
+def _option_table(std: Standard) -> pd.DataFrame:
     """Every option of the search, in the order ties on cost are broken: grades up (the
     standard's, `Standard.grades`), then horizontal and vertical bars (diameter, spacing,
-    layers), then end zones and thickness."""
-    rows = [dict(kind=GRADE_KIND, option=f"f'c {g:g} MPa", grade=g) for g in grades]
-    for kind, dias, prefix in ((H_KIND, H_DIAS, "h"), (V_KIND, V_DIAS, "v")):
-        for d, sp, n in itertools.product(dias, SPACINGS, LAYERS):
+    layers; the standard's bars, `Standard.advice_bars`), then end zones and thickness."""
+    rows = [dict(kind=GRADE_KIND, option=f"f'c {g:g} MPa", grade=g) for g in std.grades()]
+    for kind, use, prefix in ((H_KIND, "horizontal", "h"), (V_KIND, "vertical", "v")):
+        for d, sp, n in itertools.product(_dias(std, use), SPACINGS, LAYERS):
             rows.append(
-                dict(
-                    kind=kind, option=_bars_text(d, sp, n), prefix=prefix, dia=d, spacing=sp, layers=float(n)
-                )
+                dict(kind=kind, option=_bars_text(d, sp, n, std), prefix=prefix, dia=d, spacing=sp,
+                     layers=float(n))
             )
     rows += [
         dict(kind=ZONE_KIND, option="", zone_dia=d, zone_bars=float(n))
-        for d, n in itertools.product(ZONE_DIAS, ZONE_BARS)
+        for d, n in itertools.product(_dias(std, "zone"), ZONE_BARS)
     ]
     rows += [dict(kind=THICK_KIND, option="", step=k * THICKNESS_STEP) for k in range(1, THICKNESS_STEPS + 1)]
     return pd.DataFrame(rows)
 
 
-def _bars_text(d: float, sp: float, n: float) -> str:
-    return f"N{d:g} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
+def _bars_text(d: float, sp: float, n: float, std: Standard) -> str:
+    return f"{std.bar_name(d)} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
 
@@ -218,7 +220,7 @@ def _candidates(
         if c not in base:
             base[c] = np.nan if c.endswith("_ties") else 0.0
     std = _std(settings)
-    o = _option_table(tuple(std.grades()))
+    o = _option_table(std)
     bi = np.repeat(np.arange(len(base)), len(o))
     oi = np.tile(np.arange(len(o)), len(base))
     var = base.iloc[bi].reset_index(drop=True)
@@ -254,7 +256,7 @@ def _candidates(
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
     option[zoned] = [
-        f"{n:g}N{d:g} in {length:g} mm at each end (ties not priced)"
+        f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)"
         for n, d, length in zip(
             *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
         )
@@ -311,10 +313,11 @@ def _thicker(
     )
     words = [f"tw {x:g} mm, bars for the same ratio:" for x in t.tolist()]
     found = np.ones(len(idx), dtype=bool)
-    for prefix, dias, label in (("v", V_DIAS, "vertical"), ("h", H_DIAS, "horizontal")):
+    std = _std(settings)
+    for prefix, label in (("v", "vertical"), ("h", "horizontal")):
         rho0 = rows[f"rho_{prefix}"].to_numpy(float)
         d, sp, rho, ok = _hold_ratio(
-            rho0, layers, t, dias, rows[f"{prefix}_dia"].to_numpy(float), _std(settings),
+            rho0, layers, t, _dias(std, label), rows[f"{prefix}_dia"].to_numpy(float), std,
             rows.Lw.to_numpy(float), 0 if prefix == "v" else 1,
         )
         found &= ok
@@ -328,7 +331,7 @@ def _thicker(
             col[idx] = new
             var[field] = col
         words = [
-            f"{w} {label} {_bars_text(di, s, n)} (rho {r0:.5f} -> {r:.5f}){';' if prefix == 'v' else ''}"
+            f"{w} {label} {_bars_text(di, s, n, std)} (rho {r0:.5f} -> {r:.5f}){';' if prefix == 'v' else ''}"
             for w, di, s, n, r0, r in zip(words, d, sp, layers, rho0, rho, strict=True)
         ]
     for p in "hv":
@@ -720,7 +723,8 @@ def advise(
     out = kinds.merge(best[[*group, "option", "util", "added_cost"]], on=group, how="left")
     out["option"] = out.option.fillna(NONE_PASSES)
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
-        "none alone: horizontal bars do not change axial + bending or Cl 11.5, which fail"
+        "none alone: horizontal bars do not change axial + bending or "
+        f"{_std(settings).symbols['simplified']}, which fail"
     )
     out = pd.concat([out, pair_rows], ignore_index=True)
     out = out.merge(
@@ -1024,20 +1028,24 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
 
 def search_lines(s: Settings) -> list[tuple[str, str]]:
     """The lines above the advice table: what was searched, how it is priced, what a pour is."""
+    std = _std(s)
+    h, v = (std.advice_bars(use) for use in ("horizontal", "vertical"))
+    sym = std.symbols
     layers = (
-        "two layers each way (Section 14 both faces)"
+        f"two layers each way ({sym['earthquake_rules']} both faces)"
         if two_layers_required(s)
-        else (f"one or two layers (two above {_std(s).single_layer_limits()[0]:g} mm)")
+        else (f"one or two layers (two above {std.single_layer_limits()[0]:g} mm)")
     )
     return [
         (
             "Search",
-            f"a standard grade for the whole pour; horizontal N10-N20 and vertical N12-N28 at "
+            f"a standard grade for the whole pour; horizontal {h[0].name}-{h[-1].name} and vertical "
+            f"{v[0].name}-{v[-1].name} at "
             f"100-300 mm in 25 mm steps, {layers}, the same layers both ways; end-zone bars at both "
             "free edges; thickness +25 mm steps to +300 mm keeping the bars' ratio; where none of "
             "these passes alone, pairs of them (cheapest first). Each option run through every "
-            "check (shear, axial + bending, Cl 11.5, detailing, Section 14) with the actions held "
-            "as analysed (re-run the analysis after a change)",
+            f"check (shear, axial + bending, {sym['simplified']}, detailing, {sym['earthquake_rules']}) "
+            "with the actions held as analysed (re-run the analysis after a change)",
         ),
         (
             "Pour",

@@ -15,6 +15,7 @@ from xlcore.codes import get_standard
 from xlcore.codes.base import SectionState, Standard, num
 from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.mechanics import bars, nm
+from xlcore.mechanics.radial import ray_segment_utilisation, tension_side_utilisation
 from xlcore.model import Settings
 from xlcore.results import FAIL, NOT_APPLICABLE, PASS
 
@@ -97,60 +98,6 @@ def asymmetric(df: pd.DataFrame) -> np.ndarray:
     return out
 
 
-def _solve_design(sec, target, lo, hi, phi_at, iterations: int = 60) -> np.ndarray:
-    """Neutral-axis depth where phi N(dn) = target: `nm.solve_dn` with a phi that may depend on
-    dn as well as N (ACI 318 reads phi from the net tensile strain, AS 3600 from Nu), the same
-    bracketing solver (`nm._illinois`) and the same tolerances."""
-    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
-    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
-    target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
-
-    def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else sec.take(rows)
-        n, _ = nm.forces(part, x)
-        return n * phi_at(n, x, rows) - (target if rows is None else target[rows])
-
-    return nm._illinois(g, lo, hi, np.abs(target), sec.D, iterations)
-
-
-def _solve_ray(sec, n_dir, m_dir, lo, hi, phi_at, iterations: int = 60) -> np.ndarray:
-    """`nm.solve_ray` with phi of (N, dn): the root of phi (N m_dir - |M| n_dir)."""
-    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
-    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
-    n_dir = np.broadcast_to(np.asarray(n_dir, dtype=float), sec.D.shape)
-    m_dir = np.broadcast_to(np.asarray(m_dir, dtype=float), sec.D.shape)
-
-    def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else sec.take(rows)
-        n, m = nm.forces(part, x)
-        phi = phi_at(n, x, rows)
-        a, b = (m_dir, n_dir) if rows is None else (m_dir[rows], n_dir[rows])
-        return phi * (n * a - np.abs(m) * b)
-
-    return nm._illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations)
-
-
-def tension_side_utilisation(n_star, m_star, phi_nuot, phi_mo):
-    """Radial overload factor on the tension side drawn as the straight line from (0, phi Muo)
-    to (phi Nuot, 0): lambda = N*/phi Nuot + |M*|/phi Muo (`phi_nuot` < 0, N* <= 0). Geometry,
-    the same for every standard (AS 3600 practice; conservative for ACI 318, whose tension-side
-    curve lies outside the line: docs/engineering-basis.md)."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    return n / np.asarray(phi_nuot, dtype=float) + m / np.asarray(phi_mo, dtype=float)
-
-
-def ray_segment_utilisation(n_star, m_star, n1, m1, n2, m2):
-    """Radial overload factor where the ray through (N*, |M*|) crosses the segment
-    (n1, m1)-(n2, m2): lambda = (N* dm - |M*| dn) / (n1 dm - m1 dn)."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    dn, dm = np.asarray(n2, dtype=float) - n1, np.asarray(m2, dtype=float) - m1
-    den = n1 * dm - m1 * dn
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(den != 0, (n * dm - m * dn) / np.where(den != 0, den, 1.0), np.inf)
-
-
 def interaction(
     sec, n_star, phi0=None, of: np.ndarray | None = None, m_star=None, *, std: Standard | None = None
 ) -> dict[str, np.ndarray]:
@@ -205,7 +152,7 @@ def interaction(
     phi_b = phi_at(np.zeros(D.shape), dn0)  # pure bending
     # regular region: phi N = N*, N between 0 and decompression
     target = np.clip(n_star, 0.0, phi_d * nd)
-    dn = _solve_design(sec, target, dn0, D, phi_at)
+    dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at)
     nu, mu = nm.forces(sec, dn)
     phi = phi_at(nu, dn)
     phi_mu = phi * np.abs(mu)
@@ -300,7 +247,7 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
         part = sec.take(rows)
-        dn = _solve_ray(
+        dn = nm.solve_ray(
             part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, x, k: phi_at(v, x, _sub(rows, k))
         )
         nu, mu = nm.forces(part, dn)
@@ -411,7 +358,7 @@ def check_pier_axial(
     )
     if not working:
         return _simplified(df, settings, of, working, std)
-    df["bars"] = np.asarray(bars.describe(df.iloc[first]), dtype=object)[of]
+    df["bars"] = np.asarray(bars.describe(df.iloc[first], std.bar_name), dtype=object)[of]
     if not text:  # every column but the working text (made later for the rows written)
         return _simplified(df, settings, of, working=False, std=std)
     ray_state = SectionState(

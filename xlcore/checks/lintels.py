@@ -256,7 +256,9 @@ def check_lintels(
             for mo, req, b_ in zip(model, diag_needed, out.basis, strict=True)
         ]
     shallow = np.select([is_beam, is_stm, is_diag], [d <= 0, z <= 0, alpha <= 0], False)
-    out["need"] = _needs(out, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow)
+    out["need"] = _needs(
+        out, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow, std.bar_name
+    )
     if aci:
         out["working"] = _working_aci(
             out, D, b, fc, fsy, a_t, z, a_g, phi_m, muo, phi_d, special, diag_needed, s.lintel_deep_ratio
@@ -268,8 +270,12 @@ def check_lintels(
     )
 
 
-def _needs(df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow) -> list[str]:
-    """The reinforcement that would make each row pass, in words (areas in the numeric columns)."""
+def _needs(
+    df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_req, shallow, name=None
+) -> list[str]:
+    """The reinforcement that would make each row pass, in words (areas in the numeric columns);
+    `name` names the assumed bars (`Standard.bar_name`; AS 3600's N bars without)."""
+    name = name or (lambda d: f"N{d:g}")
     out = []
     for i, r in enumerate(df.itertuples(index=False)):
         if r.model == "":
@@ -291,16 +297,19 @@ def _needs(df, has_bars, has_fit, beam_capped, diag_capped, strut_over, asv_s_re
                 else f"; fitments Asv/s >= {asv_s_req[i]:.3f} mm2/mm"
             )
             if not has_bars[i] or not has_fit[i]:
-                text += "; (bars or fitments not given: N16 bars, N10 fitments assumed for d)"
+                text += (
+                    f"; (bars or fitments not given: {name(ASSUMED_BAR)} bars, {name(ASSUMED_FITMENT)} "
+                    "fitments assumed for d)"
+                )
         elif r.model == STM:
             text = f"ties As >= {r.as_req:,.0f} mm2 top and bottom, anchored in the piers"
             if strut_over[i]:
                 text += (
                     f"; the concrete strut is over: diagonal bars A_sd >= {r.asd_req:,.0f} mm2 per group "
-                    f"(N{ASSUMED_DIAGONAL:.0f} assumed for the angle)"
+                    f"({name(ASSUMED_DIAGONAL)} assumed for the angle)"
                 )
             if not has_bars[i]:
-                text += "; (lintel bars not given: N16 assumed for the geometry)"
+                text += f"; (lintel bars not given: {name(ASSUMED_BAR)} assumed for the geometry)"
         else:
             text = (
                 "V*/phi above the concrete limit: deeper or thicker lintel or stronger concrete"

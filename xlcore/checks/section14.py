@@ -18,7 +18,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import plain, special_walls
+from xlcore.checks import RULE_COLUMNS, empty_rules, finish_rules, plain, rule_rows, special_walls
 from xlcore.codes import as3600, get_standard
 from xlcore.codes.base import Standard
 from xlcore.model import Settings
@@ -89,7 +89,7 @@ def check_section14(
     if special_walls.applies(settings, std):
         return special_walls.check_special_walls(piers, actions, settings, hwe, working, std=std)
     if not_applicable_reason(settings) is not None or piers.empty:
-        return _empty(working)
+        return empty_rules(COLUMNS, working)
     p = piers.copy()
     if hwe is not None:
         p = p.merge(hwe.rename("hwe"), left_on=["storey", "pier_id"], right_index=True, how="left")
@@ -101,7 +101,7 @@ def check_section14(
 
     def rule(rows, name, value, limit, kind, unit, status, util, text, why):
         parts.append(
-            _rows(rows, name, value, limit, kind, unit, status, util, text, f"{basis}; {why}", working)
+            rule_rows(rows, name, value, limit, kind, unit, status, util, text, f"{basis}; {why}", working)
         )
 
     layers = as3600.eq_wall_layers(p.v_layers, p.h_layers)
@@ -169,17 +169,7 @@ def check_section14(
         # without working only pass / FAIL rows count: end zones give those only where their
         # bars are described (the trigger is never a failure)
         _end_zones(p, actions, settings, rule)
-    out = pd.concat(parts, ignore_index=True)
-    if not working:
-        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
-    out["clause"] = out.rule.map(CLAUSE)
-    # piers in the pier table's order (storeys top down, walls and piers in natural order), each
-    # pier's rules in the order of RULES
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
-    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
-    out = out.sort_values(["storey_index", "_pier", "_rule"], ascending=[False, True, True], kind="stable")
-    return out.drop(columns=["_pier", "_rule"]).reset_index(drop=True)
+    return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES)
 
 
 def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule) -> None:
@@ -330,46 +320,4 @@ def _at_least(value, limit) -> np.ndarray:
         return np.where(value > 0, limit / np.where(value > 0, value, 1.0), np.inf)
 
 
-COLUMNS = (
-    "storey",
-    "storey_index",
-    "pier_id",
-    "wall_id",
-    "rule",
-    "basis",
-    "value",
-    "kind",
-    "limit",
-    "unit",
-    "util",
-    "status",
-    "working",
-)
-
-
-def _empty(working: bool) -> pd.DataFrame:
-    if not working:
-        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
-    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*COLUMNS, "clause")})
-
-
-def _rows(p, name, value, limit, kind, unit, status, util, text, basis, working) -> pd.DataFrame:
-    """One rule's rows; `text` makes the working when called (only with `working`)."""
-    n = len(p)
-    return pd.DataFrame(
-        dict(
-            storey=p.storey.to_numpy(),
-            storey_index=p.storey_index.to_numpy(),
-            pier_id=p.pier_id.to_numpy(),
-            wall_id=p.wall_id.to_numpy(),
-            rule=name,
-            basis=basis,
-            value=np.asarray(value, dtype=float),
-            kind="at least" if kind == "min" else "at most",
-            unit=unit,
-            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
-            util=np.asarray(util, dtype=float),
-            status=np.asarray(status, dtype=object),
-            working=text() if working else "",
-        )
-    )
+COLUMNS = RULE_COLUMNS

@@ -27,7 +27,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import plain
+from xlcore.checks import empty_rules, finish_rules, plain, rule_columns, rule_rows, worst_rule_text
 from xlcore.checks.axial import rect_sections
 from xlcore.codes import aci318, get_standard
 from xlcore.codes.base import Standard
@@ -105,7 +105,7 @@ def check_special_walls(
     utilisation of pass / FAIL rows (what the advice search needs)."""
     std = (std or get_standard(settings.standard)).configure(settings)
     if not_applicable_reason(settings) is not None or piers.empty:
-        return _empty(working)
+        return empty_rules(COLUMNS, working)
     p = piers.reset_index(drop=True).copy()
     if n_storeys is None:
         n_storeys = int(p.storey_index.max()) + 1
@@ -113,7 +113,7 @@ def check_special_walls(
     parts: list[pd.DataFrame] = []
 
     def rule(rows, combo, name, value, limit, kind, unit, status, util, text, why):
-        parts.append(_rows(rows, combo, name, value, limit, kind, unit, status, util, text, why, working))
+        parts.append(rule_rows(rows, name, value, limit, kind, unit, status, util, text, why, working, combo))
 
     Lw, tw, fc, fy = (p[k].to_numpy(float) for k in ("Lw", "tw", "fc", "fsy"))
     hwcs_lw = p.H_wall.to_numpy(float) / Lw
@@ -150,20 +150,7 @@ def check_special_walls(
         a, at = a[~np.isnan(at)], at[~np.isnan(at)]
         if len(a):
             _per_combination(p, at, a, settings, std, ns, rule)
-    out = pd.concat(parts, ignore_index=True)
-    if not working:
-        return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
-    out["clause"] = out.rule.map(CLAUSE)
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
-    out["_rule"] = out.rule.map(pd.Series(range(len(RULES)), index=RULES))
-    out["_all"] = out.combination != ALL
-    out = out.sort_values(
-        ["storey_index", "_pier", "_all", "combination", "_rule"],
-        ascending=[False, True, True, True, True],
-        kind="stable",
-    )
-    return out.drop(columns=["_pier", "_rule", "_all"]).reset_index(drop=True)
+    return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES, every=ALL)
 
 
 # ---------------------------------------------------------------- per pier
@@ -317,8 +304,8 @@ def _per_combination(p, at, a, settings: Settings, std: Standard, ns: float, rul
             )
         ],
         f"Omega_v with Mpr/Mu {settings.aci_mpr_mu:g} (Project setting); omega_v with ns not less than "
-        f"0.007 hwcs (in.) (ACI MNL-17(21) Ex. 2 agrees); phi {phi:g}; Vn capped at 0.66 sqrt(f'c) Acv "
-        "(the 0.83 of one segment not used)",
+        f"0.007 hwcs (in.) (ACI MNL-17(21) Ex. 2 agrees); phi {phi:g} ({_phi_source(settings)}); Vn "
+        "capped at 0.66 sqrt(f'c) Acv (the 0.83 of one segment not used)",
     )
 
     # ---- 18.10.6.3 stress method
@@ -598,57 +585,27 @@ def _pass_fail(util) -> np.ndarray:
     return np.where(np.asarray(util, dtype=float) <= 1.0 + 1e-9, PASS, FAIL).astype(object)
 
 
+def _phi_source(settings: Settings) -> str:
+    """Where the special-wall shear phi came from, and the 0.60 of 21.2.4.1 the engineer may need
+    (a setting, never applied silently: aci318.PHI_SHEAR_SEISMIC)."""
+    where = (
+        "Project setting 'phi for wall shear'"
+        if settings.phi_shear is not None
+        else "Table 21.2.1, 'phi for wall shear' blank"
+    )
+    return (
+        f"{where}; 21.2.4.1 asks {aci318.PHI_SHEAR_SEISMIC:.2f} where the wall's nominal shear "
+        "strength is less than the shear at its nominal flexural strength: set it there"
+    )
+
+
 def _at_least(value, limit) -> np.ndarray:
     value = np.asarray(value, dtype=float)
     with np.errstate(divide="ignore"):
         return np.where(value > 0, np.asarray(limit, dtype=float) / np.where(value > 0, value, 1.0), np.inf)
 
 
-COLUMNS = (
-    "storey",
-    "storey_index",
-    "pier_id",
-    "wall_id",
-    "combination",
-    "rule",
-    "basis",
-    "value",
-    "kind",
-    "limit",
-    "unit",
-    "util",
-    "status",
-    "working",
-)
-
-
-def _empty(working: bool) -> pd.DataFrame:
-    if not working:
-        return pd.DataFrame({"pier_id": pd.Series(dtype=object), "util": pd.Series(dtype=float)})
-    return pd.DataFrame({c: pd.Series(dtype=object) for c in (*COLUMNS, "clause")})
-
-
-def _rows(p, combo, name, value, limit, kind, unit, status, util, text, basis, working) -> pd.DataFrame:
-    """One rule's rows; `text` makes the working when called (only with `working`)."""
-    n = len(p)
-    return pd.DataFrame(
-        dict(
-            storey=p.storey.to_numpy(),
-            storey_index=p.storey_index.to_numpy(),
-            pier_id=p.pier_id.to_numpy(),
-            wall_id=p.wall_id.to_numpy(),
-            combination=np.asarray(combo, dtype=object),
-            rule=name,
-            basis=basis,
-            value=np.broadcast_to(np.asarray(value, dtype=float), (n,)),
-            kind="at least" if kind == "min" else "at most",
-            unit=unit,
-            limit=np.broadcast_to(np.asarray(limit, dtype=float), (n,)),
-            util=np.broadcast_to(np.asarray(util, dtype=float), (n,)),
-            status=np.asarray(status, dtype=object),
-            working=text() if working else "",
-        )
-    )
+COLUMNS = rule_columns(per_combination=True)
 
 
 # ---------------------------------------------------------------- the sheet's preamble and summary line
@@ -707,17 +664,8 @@ def summary_line(table: pd.DataFrame | None, s: Settings) -> tuple[str, str]:
         return (label, f"not applicable: {why}")
     if table is None or not len(table):
         return (label, "not checked (no rows)")
-    comp = table[table.status.isin((PASS, FAIL))]
-    parts = []
-    if len(comp):
-        r = comp.loc[comp.util.astype(float).idxmax()]
-        n_fail = int((comp.status == FAIL).sum())
-        verdict = FAIL if r.util > 1.0 else PASS
-        parts.append(
-            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}"
-            + (f", {r.combination}" if r.combination != ALL else "")
-            + f"; {n_fail} of {len(comp)} rule rows fail)"
-        )
+    worst = worst_rule_text(table, every=ALL)
+    parts = [worst] if worst else []
     if not s.earthquake:
         parts.append("boundary elements not evaluated: no earthquake combinations named")
     else:

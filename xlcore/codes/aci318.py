@@ -262,6 +262,32 @@ TWO_LAYER_THICKNESS = 250.0  # mm
 COMMON_GRADES = (21.0, 25.0, 28.0, 32.0, 35.0, 40.0, 45.0, 50.0, 55.0, 60.0, 65.0, 70.0, 80.0)
 """f'c [MPa] offered by the advice search under ACI 318 (common practice, no source)."""
 
+ASTM_BARS = (
+    ("No. 10", 9.5, 71.0),
+    ("No. 13", 12.7, 129.0),
+    ("No. 16", 15.9, 199.0),
+    ("No. 19", 19.1, 284.0),
+    ("No. 22", 22.2, 387.0),
+    ("No. 25", 25.4, 510.0),
+    ("No. 29", 28.7, 645.0),
+    ("No. 32", 32.3, 819.0),
+    ("No. 36", 35.8, 1006.0),
+)
+"""ASTM A615/A615M and A706/A706M deformed bars, SI designations (20.2.1.3 names these
+specifications): (designation, nominal diameter [mm], nominal area [mm^2]) from A615/A615M
+Table 1, the bracketed SI values (seen reproduced at https://nomeesteel.pk/astm-standards, and
+in a copy of A615/A615M-04a; No. 43 and No. 57 left out: not wall bars). The areas are the
+inch-pound ones converted (No. 13: 0.20 in^2 = 129 mm^2), within 2.5 % of pi d^2 / 4 (the
+checks' area from the diameter the workbook gives)."""
+
+ADVICE_BARS = {
+    "horizontal": ("No. 10", "No. 13", "No. 16", "No. 19"),
+    "vertical": ("No. 13", "No. 16", "No. 19", "No. 25", "No. 29"),
+    "zone": ("No. 19", "No. 25", "No. 29", "No. 32", "No. 36"),
+}
+"""The bars the advice offers under ACI 318 (common practice, no source): the ASTM sizes nearest
+the AS 3600 ranges (N10-N20, N12-N28, N20-N36), as many of each, so the search is as large."""
+
 
 def wall_max_spacing(h, Lw, shear_steel_required=False):
     """Largest spacing of (longitudinal, transverse) bars, 11.7.2.1 and 11.7.3.1: the lesser of
@@ -699,6 +725,9 @@ class ACI318:
         "top_text": "phi 0.80 Po",
         "simplified_clause": "11.5.3.1",
         "simplified_note": "e from out-of-plane M*, within the middle third (h/6)",
+        "earthquake_rules": "Ch. 18",
+        "detailing_rules": "11.6 / 11.7",
+        "flag_line": "Boundary-element flag (18.10.6.3)",
     }
     Es = ES
     eps_cu = EPS_CU
@@ -919,6 +948,26 @@ class ACI318:
         the SI strengths commonly specified (common practice, no source), from 21 MPa (3000 psi)
         up in the steps ready-mix suppliers quote."""
         return COMMON_GRADES
+
+    def bar_catalogue(self):
+        from xlcore.codes.base import Bar
+
+        return tuple(Bar(*b) for b in ASTM_BARS)
+
+    def advice_bars(self, use):
+        return tuple(b for b in self.bar_catalogue() if b.name in ADVICE_BARS[use])
+
+    def bar_name(self, dia, n=None):
+        """"No. 16", "4 No. 19"; a diameter within 0.5 mm of an ASTM bar's is that bar (the
+        designation is the nominal diameter rounded: a workbook may give 13 for No. 13), any
+        other in mm."""
+        from xlcore.codes.base import catalogue_name
+
+        name = catalogue_name(self.bar_catalogue(), dia, tol=0.5)
+        if name is None:
+            name = f"{float(dia):g} mm"
+            return name if n is None else f"{float(n):g} x {name}"
+        return name if n is None else f"{float(n):g} {name}"
 
     def single_layer_limits(self):
         return TWO_LAYER_THICKNESS, float("inf")

@@ -12,6 +12,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+# the radial overload factor on the diagram's straight parts is standard-neutral geometry
+from xlcore.mechanics.radial import ray_segment_utilisation, tension_side_utilisation  # noqa: F401
+
 NAME = "AS 3600:2018"
 
 PHI_WALL_SHEAR = 0.7
@@ -245,29 +248,6 @@ def min_eccentricity_moment(m_star, n_star, D):
     m = np.abs(np.asarray(m_star, dtype=float))
     n = np.asarray(n_star, dtype=float)
     return np.where(n > 0, np.maximum(m, n * MIN_ECCENTRICITY * np.asarray(D, dtype=float)), m)
-
-
-def tension_side_utilisation(n_star, m_star, phi_nuot, phi_mo):
-    """Radial overload factor lambda on the tension side of the factored interaction diagram,
-    which Table 2.2.2 practice draws as the straight line from (0, phi Muo) to (phi Nuot, 0):
-    (N*/lambda) / phi Nuot + (|M*|/lambda) / phi Muo = 1, so lambda = N*/phi Nuot + |M*|/phi Muo.
-    `phi_nuot` negative (tension), N* <= 0; any consistent units."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    return n / np.asarray(phi_nuot, dtype=float) + m / np.asarray(phi_mo, dtype=float)
-
-
-def ray_segment_utilisation(n_star, m_star, n1, m1, n2, m2):
-    """Radial overload factor lambda where the ray from the origin through (N*, |M*|) crosses
-    the straight segment (n1, m1)-(n2, m2) of a factored interaction diagram: the point
-    (N*, |M*|) / lambda lies on the segment's line, lambda = (N* dm - |M*| dn) / (n1 dm - m1 dn)
-    with dn = n2 - n1, dm = m2 - m1 (the cross product of the ray and the segment)."""
-    n = np.asarray(n_star, dtype=float)
-    m = np.abs(np.asarray(m_star, dtype=float))
-    dn, dm = np.asarray(n2, dtype=float) - n1, np.asarray(m2, dtype=float) - m1
-    den = n1 * dm - m1 * dn
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(den != 0, (n * dm - m * dn) / np.where(den != 0, den, 1.0), np.inf)
 
 
 # ---------------------------------------------------------------- walls in compression

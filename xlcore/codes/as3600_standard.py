@@ -10,10 +10,25 @@ from __future__ import annotations
 import numpy as np
 
 from xlcore.codes import as3600
-from xlcore.codes.base import BeamShear, SectionState, ShearCapacity, num
+from xlcore.codes.base import Bar, BeamShear, SectionState, ShearCapacity, catalogue_name, num
 
 EQ1_ZERO = 0.66 / 0.21
 """Hw/Lw beyond which Cl 11.6.3 Eq (1) is negative (the floor then governs)."""
+
+BARS = tuple(
+    Bar(f"N{d}", float(d), round(float(np.pi * d * d / 4.0), 1)) for d in (10, 12, 16, 20, 24, 28, 32, 36, 40)
+)
+"""AS/NZS 4671 grade D500N deformed bars (the bars AS 3600 designs with): designation N and the
+nominal diameter in mm; nominal area pi d^2 / 4 (AS/NZS 4671 sizes the bar by the nominal
+diameter; from memory, the common tables round the same areas, N12 113 mm^2, N20 314 mm^2)."""
+
+ADVICE_BARS = {
+    "horizontal": ("N10", "N12", "N16", "N20"),
+    "vertical": ("N12", "N16", "N20", "N24", "N28"),
+    "zone": ("N20", "N24", "N28", "N32", "N36"),
+}
+"""The bars the advice offers (common practice, no source): the sizes walls are usually built
+with."""
 
 _CLAUSES = {
     "wall_shear": "AS 3600:2018 Cl 11.6.3 / 11.6.4",
@@ -69,6 +84,9 @@ class AS3600:
         "top_text": "phi Nuo",
         "simplified_clause": "Cl 11.5.1",
         "simplified_note": "e from out-of-plane M*, at least 0.05 tw",
+        "earthquake_rules": "Section 14",
+        "detailing_rules": "Cl 11.7",
+        "flag_line": "End-zone flag (Cl 14.6)",
     }
     Es = as3600.ES
     eps_cu = as3600.EPS_CU
@@ -296,6 +314,18 @@ class AS3600:
     def grades(self):
         """The standard grades of Table 3.1.2 (AS 3600:2018)."""
         return tuple(as3600.STANDARD_GRADES)
+
+    def bar_catalogue(self):
+        return BARS
+
+    def advice_bars(self, use):
+        return tuple(b for b in BARS if b.name in ADVICE_BARS[use])
+
+    def bar_name(self, dia, n=None):
+        """"N16", "4N20": the designation is N and the diameter in mm, so a diameter outside the
+        catalogue is named the same way (the text AS 3600 results have always shown)."""
+        name = catalogue_name(BARS, dia) or f"N{float(dia):g}"
+        return name if n is None else f"{float(n):g}{name}"
 
     def single_layer_limits(self):
         return float(as3600.SINGLE_LAYER_MAX_THICKNESS), float(as3600.SINGLE_LAYER_SLENDERNESS)

@@ -16,6 +16,8 @@ codes/as3600.py by name. Read together they ask a standard for a short list of q
   coupling beams with diagonal bars.
 - core_stress / earthquake: the extreme-fibre stress that triggers (and ends) boundary-element
   detailing.
+- advice: the grades a site can order; the bar catalogue, the bars offered for each use and
+  their names in the standard's terms (also on the result sheets that describe bars).
 - every result row: `clause(key)`, the clause text of that quantity.
 
 Units: N, mm, MPa inside; arrays over rows, scalars broadcast. Nothing here knows a workbook.
@@ -83,6 +85,9 @@ SYMBOL_KEYS = (
     "top_text",  # the design upper limit on N*, in words
     "simplified_clause",  # clause of the simplified method's capacity (summary rows)
     "simplified_note",  # how e is taken in the simplified method (axial sheet preamble)
+    "earthquake_rules",  # the earthquake wall rules in short (summary notes, advice lines)
+    "detailing_rules",  # the detailing rules in short (summary lines)
+    "flag_line",  # the summary line of the core stress check's boundary / end-zone flag
 )
 """Names every standard gives in `Standard.symbols`."""
 
@@ -156,6 +161,33 @@ class BeamShear:
     phi: np.ndarray
     # the standard's own intermediate quantities (AS 3600: dv, kv), for the working text
     detail: Mapping[str, np.ndarray] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Bar:
+    """One reinforcing bar of a standard's catalogue: its designation as drawings name it
+    ("N16", "No. 16"), nominal diameter [mm] and nominal area [mm^2]. The checks take a bar's
+    area as pi d^2 / 4 from the diameter the workbook gives (ASTM's areas, converted from inch
+    sizes, differ from it by up to 2.5 %, either way); the catalogue names bars and gives the
+    sizes the advice offers."""
+
+    name: str
+    dia: float
+    area: float
+
+
+BAR_USES = ("horizontal", "vertical", "zone")
+"""What the advice offers bars for (`Standard.advice_bars`): a wall's horizontal and vertical
+bars, and end-zone bars."""
+
+
+def catalogue_name(catalogue: tuple[Bar, ...], dia: float, tol: float = 0.0) -> str | None:
+    """The designation of the catalogue bar whose nominal diameter is within `tol` mm of `dia`
+    (a workbook may give 12.7 or 13 for an ASTM No. 13), None where none is."""
+    for bar in catalogue:
+        if abs(bar.dia - float(dia)) <= tol:
+            return bar.name
+    return None
 
 
 @runtime_checkable
@@ -377,6 +409,21 @@ class Standard(Protocol):
     def grades(self) -> tuple[float, ...]:
         """Concrete strengths f'c [MPa] a site can order under this standard, lowest first: the
         grades the advice search offers."""
+        ...
+
+    def bar_catalogue(self) -> tuple[Bar, ...]:
+        """The reinforcing bars of the standard's bar specification, smallest first."""
+        ...
+
+    def advice_bars(self, use: str) -> tuple[Bar, ...]:
+        """The catalogue bars the advice search offers for `use` (one of BAR_USES), smallest
+        first."""
+        ...
+
+    def bar_name(self, dia, n=None) -> str:
+        """A bar of nominal diameter `dia` [mm] as drawings under this standard name it, `n` of
+        them where n is given ("N16", "4N20"; "No. 16", "4 No. 19"); a diameter outside the
+        catalogue as the standard's drawings would give it (AS 3600 "N14"; ACI 318 "14 mm")."""
         ...
 
 

@@ -6,6 +6,7 @@
 - `nm`: strain-compatibility N-M of a rectangular pier (closed-form sums for evenly spaced bars).
 - `nm_core`: biaxial N-M of a whole core by fibres.
 - `bars`: where the bars of a pier are (field bars and end-zone groups).
+- `radial`: the radial overload factor on the straight parts of an interaction diagram.
 
 A standard's numbers (stress block, strain limit, phi) come in as arguments; nothing here
 imports `xlcore.codes` except `stiffness` for Ec, which every standard shares as an input.

@@ -14,6 +14,7 @@ over piers. The layout (DEVELOPERS.md, "End zones"):
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -119,9 +120,14 @@ def layout(df: pd.DataFrame) -> Layout:
     return Layout(first, step, count, layers * bar_area(dia), zone_d, zone_A)
 
 
-def describe(df: pd.DataFrame) -> list[str]:
+def _n_bar(dia: float, n: float | None = None) -> str:
+    """AS 3600's bar names ('N16', '8N28'): `describe`'s default."""
+    return f"N{dia:g}" if n is None else f"{n:g}N{dia:g}"
+
+
+def describe(df: pd.DataFrame, name: Callable[..., str] = _n_bar) -> list[str]:
     """The bars of each pier in words, e.g. 'start 8N28 in 600 mm; field 12 x 2N16 @ 191 mm;
-    end none'."""
+    end none'; `name(dia, n=None)` names the bars (the standard's `Standard.bar_name`)."""
     lay = layout(df)
     out = []
     cols = [df[k].tolist() for k in ("v_layers", "v_dia")]
@@ -134,11 +140,12 @@ def describe(df: pd.DataFrame) -> list[str]:
             n = zones[f"z{side}_n"][i]
             if n > 0:
                 tie = zones[f"z{side}_tie"][i]
-                ties = f", ties N{tie:g} @ {zones[f'z{side}_ties'][i]:g}" if tie > 0 else ""
-                size = f"{n:g}N{zones[f'z{side}_dia'][i]:g} in {zones[f'z{side}_len'][i]:g} mm"
+                ties = f", ties {name(tie)} @ {zones[f'z{side}_ties'][i]:g}" if tie > 0 else ""
+                size = f"{name(zones[f'z{side}_dia'][i], n)} in {zones[f'z{side}_len'][i]:g} mm"
                 text[side] = f"{edge or side}: {size}{ties}"
         count = int(lay.field_count[i])
-        field = f"field {count} x {layers}N{dia:g} @ {lay.field_step[i]:.0f} mm" if count else "no field bars"
+        step = lay.field_step[i]
+        field = f"field {count} x {name(dia, layers)} @ {step:.0f} mm" if count else "no field bars"
         if not text:
             out.append(f"{field} (no end zones)")
             continue

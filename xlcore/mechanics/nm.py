@@ -250,8 +250,9 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
 
 def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None) -> np.ndarray:
     """Neutral-axis depth where g(dn) = target, for g increasing in dn, on all rows at once.
-    g is N(dn), or N(dn) x scale(N, rows) when `scale` (e.g. phi) is given; `rows` says which
-    rows N belongs to (None: all).
+    g is N(dn), or N(dn) x scale(N, dn, rows) when `scale` (e.g. phi, which ACI 318 reads from
+    the strain at dn and AS 3600 from N) is given; `rows` says which rows N belongs to (None:
+    all).
 
     Regula falsi with the Illinois modification inside a bracket that always holds the root,
     every third step a plain bisection (so kinks where bars yield cannot stall it); rows stop
@@ -267,7 +268,7 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
     def g(x: np.ndarray, rows) -> np.ndarray:
         part = sec if rows is None else sec.take(rows)
         n, _ = forces(part, x)
-        return (n * scale(n, rows) if scale else n) - (target if rows is None else target[rows])
+        return (n * scale(n, x, rows) if scale else n) - (target if rows is None else target[rows])
 
     return _illinois(g, lo, hi, np.abs(target), sec.D, iterations)
 
@@ -276,7 +277,8 @@ def solve_ray(sec: Rect | EvenRect, n_dir, m_dir, lo, hi, phi_of, iterations: in
     """Neutral-axis depth where the factored point (phi N, phi |M|)(dn) lies on the ray from the
     origin along (n_dir, m_dir), m_dir >= 0: the root of the cross product
     g(dn) = phi N m_dir - phi |M| n_dir, which rises with dn between pure bending and
-    decompression (the point's polar angle falls). `phi_of(N, rows)` gives phi at Nu = N.
+    decompression (the point's polar angle falls). `phi_of(N, dn, rows)` gives phi at the
+    nominal point (N, dn).
     Same bracketing solver as `solve_dn`."""
     lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
     hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
@@ -286,7 +288,7 @@ def solve_ray(sec: Rect | EvenRect, n_dir, m_dir, lo, hi, phi_of, iterations: in
     def g(x: np.ndarray, rows) -> np.ndarray:
         part = sec if rows is None else sec.take(rows)
         n, m = forces(part, x)
-        phi = phi_of(n, rows)
+        phi = phi_of(n, x, rows)
         a, b = (m_dir, n_dir) if rows is None else (m_dir[rows], n_dir[rows])
         return phi * (n * a - np.abs(m) * b)
 

@@ -420,7 +420,9 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
     flow.para(f"Governing case of the building: {_case(c, w)} (sheet '{sheet.name}').", size=8.5)
     u = float(w[c.util])
     status = results.PASS if u <= 1.0 else results.FAIL
-    clause = "Cl 11.5.1" if c.util == "util_s" else str(w.get("clause", "") or w.get("governs", ""))
+    std = get_standard(run.outcome.building.settings.standard)
+    simplified = std.symbols["simplified_clause"]  # AS 3600 Cl 11.5.1, ACI 318 11.5.3.1
+    clause = simplified if c.util == "util_s" else str(w.get("clause", "") or w.get("governs", ""))
     flow.lines(
         [
             ("Utilisation", f"{fmt(u, '0.000')}  {status}"),
@@ -439,8 +441,8 @@ def _calculation(flow: Flow, run: Run, c: tables.Check) -> None:
             pairs.append(
                 (
                     "Bars",
-                    f"vertical N{r.v_dia:g} at {r.v_spacing:g} mm, {int(r.v_layers)} layer(s); horizontal "
-                    f"N{r.h_dia:g} at {r.h_spacing:g} mm, {int(r.h_layers)} layer(s)",
+                    f"vertical {std.bar_name(r.v_dia)} at {r.v_spacing:g} mm, {int(r.v_layers)} layer(s); "
+                    f"horizontal {std.bar_name(r.h_dia)} at {r.h_spacing:g} mm, {int(r.h_layers)} layer(s)",
                 )
             )
     shown = {key for key, *_ in PIER_FACTS} if pairs else set()

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import pandas as pd
@@ -137,10 +137,10 @@ SUMMARY_COLUMNS = [
     _c("u_shear", "U shear", None, "0.000", 8),
     _c("u_nm", "U axial + bending", None, "0.000", 9),
     _c("u_simplified", "U simplified method", None, "0.000", 8),
-    _c("detailing", "Detailing Cl 11.7", width=10),
+    _c("detailing", "Detailing rules", width=10),
     _c("u_detailing", "U detailing", None, "0.000", 9),
-    _c("section14", "Earthquake Section 14", width=12),
-    _c("u_section14", "U Section 14", None, "0.000", 9),
+    _c("section14", "Earthquake wall rules", width=12),
+    _c("u_section14", "U earthquake rules", None, "0.000", 9),
     _c("fix", "Cheapest fix (see the advice sheet)", width=30),
     _c("note", "Note", width=30),
 ]
@@ -308,19 +308,10 @@ SECTION14_COLUMNS = [
 # the earthquake detailing sheet under ACI 318-19: Chapter 18 special structural walls, per
 # storey x pier x earthquake combination ("(all)" for the rules that do not depend on actions)
 SPECIAL_WALL_COLUMNS = [
-    _c("storey", "Storey", width=8),
-    _c("pier_id", "Pier", width=9),
+    *SECTION14_COLUMNS[:2],
     _c("combination", "Combination", width=13),
-    _c("rule", "Rule", width=22),
-    _c("value", "Value", None, "0.0####", 10),
-    _c("kind", "Must be", width=9),
-    _c("limit", "Limit", None, "0.0####", 10),
-    _c("unit", "Unit", width=6),
-    _c("util", "Ratio", None, "0.000", 8),
-    _c("status", "Status", width=11),
-    _c("clause", "Clause", width=20),
-    _c("basis", "Basis", width=40),
-    _c("working", "Working", width=60),
+    replace(SECTION14_COLUMNS[2], width=22),  # the rule, its names longer than Section 14's
+    *SECTION14_COLUMNS[3:],
 ]
 
 LINTEL_RESULT_COLUMNS = [

@@ -4,6 +4,8 @@ tables made from the checks' tables (no check runs here)."""
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+
 import numpy as np
 import pandas as pd
 
@@ -53,8 +55,10 @@ def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFra
 
 
 def count_lines(
-    summary: pd.DataFrame, shear: pd.DataFrame, special: bool = False
+    summary: pd.DataFrame, shear: pd.DataFrame, special: bool = False, sym: Mapping[str, str] | None = None
 ) -> list[tuple[str, object]]:
+    """The summary's counts; `sym` the standard's `Standard.symbols` (AS 3600's words without)."""
+    detailing = (sym or {}).get("detailing_rules", "Cl 11.7")
     checked = summary[summary.status != results.NOT_CHECKED]
     worst = checked.loc[checked.util.idxmax()] if len(checked) else None
     lines: list[tuple[str, object]] = [
@@ -72,7 +76,8 @@ def count_lines(
                 f"utilisation {worst.util:.3f} ({worst.check}, {worst.clause})",
             )
         )
-    lines.append(("Detailing Cl 11.7 failing", int((summary.detailing.str.startswith(results.FAIL)).sum())))
+    failing = int((summary.detailing.str.startswith(results.FAIL)).sum())
+    lines.append((f"Detailing {detailing} failing", failing))
     lines.append(
         (
             "Earthquake ACI 318 Ch. 18 failing" if special else "Earthquake Section 14 failing",
@@ -180,6 +185,7 @@ def envelope(
     axial: pd.DataFrame | None = None,
     detailing: pd.DataFrame | None = None,
     section14: pd.DataFrame | None = None,
+    earthquake: str = "Section 14",
 ) -> pd.DataFrame:
     """Governing structural check and worst combination per storey x pier, with each check's
     worst utilisation beside it; piers without actions are listed as not checked.
@@ -188,7 +194,8 @@ def envelope(
     each is reported beside the structural result as pass/FAIL with its ratio and makes the
     status FAIL, but never becomes the governing check, whose utilisation is the one the
     engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
-    described) shows as 'check' beside it."""
+    described) shows as 'check' beside it. `earthquake` names the earthquake rules in the notes
+    (the standard's `symbols["earthquake_rules"]`)."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
     cand = _candidates(
         shear,
@@ -219,7 +226,7 @@ def envelope(
     to_check = _section14_checks(section14, table[keys])
     for check, text_col, util_col, label in (
         (CHECK_DETAILING, "detailing", "u_detailing", "detailing fails: "),
-        (CHECK_SECTION14, "section14", "u_section14", "Section 14 fails: "),
+        (CHECK_SECTION14, "section14", "u_section14", f"{earthquake} fails: "),
     ):
         u, fails, rule = _compliance(cand, table[keys], check)
         table[util_col] = u
@@ -241,7 +248,7 @@ def envelope(
         table[text_col] = text
         table.loc[checked & fails, "status"] = results.FAIL
         notes.append(np.where(fails, label + rule, ""))
-    notes.append(np.where(to_check, "Section 14: end-zone ties to check (bars not described)", ""))
+    notes.append(np.where(to_check, f"{earthquake}: end-zone ties to check (bars not described)", ""))
     table["note"] = [
         "; ".join(x for x in parts if x) for parts in zip(*(n.tolist() for n in notes), strict=True)
     ]
@@ -301,8 +308,11 @@ def worst_per_check(
     lintels: pd.DataFrame | None = None,
     stress: pd.DataFrame | None = None,
     core_nm: pd.DataFrame | None = None,
+    sym: Mapping[str, str] | None = None,
 ) -> list[tuple[str, str]]:
-    """The building's worst case of every check, one line each, for the summary's top."""
+    """The building's worst case of every check, one line each, for the summary's top; `sym` the
+    standard's `Standard.symbols` (AS 3600's words without)."""
+    sym = sym or {}
     out: list[tuple[str, str]] = []
 
     def line(label: str, df: pd.DataFrame | None, col: str, what) -> None:
@@ -322,8 +332,8 @@ def worst_per_check(
     for label, col in (
         ("in-plane shear", "u_shear"),
         ("axial + bending", "u_nm"),
-        ("Cl 11.5 compression", "u_simplified"),
-        ("detailing Cl 11.7", "u_detailing"),
+        (f"{sym.get('simplified', 'Cl 11.5')} compression", "u_simplified"),
+        (f"detailing {sym.get('detailing_rules', 'Cl 11.7')}", "u_detailing"),
     ):
         src = checked if col != "u_detailing" else summary
         line(label, src, col, lambda r: f"{r.pier_id}, {r.storey}")

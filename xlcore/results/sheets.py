@@ -12,7 +12,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import CAUTION, __version__, cores, distribution, geometry, results
-from xlcore.checks import special_walls
+from xlcore.checks import special_walls, worst_rule_text
 from xlcore.checks.advice import search_lines
 from xlcore.checks.lintels import preamble_aci as lintels_preamble_aci
 from xlcore.checks.section14 import not_applicable_reason
@@ -177,16 +177,18 @@ def stamp_lines(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
 
 
 def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
-    """The Cl 14.6 end-zone flag in one summary line: a flag, never a failing utilisation."""
+    """The Cl 14.6 end-zone flag (ACI 318: the boundary-element flag) in one summary line: a flag,
+    never a failing utilisation."""
+    label = get_standard(s.standard).symbols["flag_line"]
     quake = stress[stress.earthquake == "yes"]
     if quake.empty:
-        return ("End-zone flag (Cl 14.6)", "no earthquake combinations named on the Project sheet")
+        return (label, "no earthquake combinations named on the Project sheet")
     hit = quake[quake.u_compression > 1.0]
     if hit.empty:
-        return ("End-zone flag (Cl 14.6)", f"none: peak compression within {s.compression_limit:g} f'c")
+        return (label, f"none: peak compression within {s.compression_limit:g} f'c")
     w = hit.loc[hit.u_compression.idxmax()]
     return (
-        "End-zone flag (Cl 14.6)",
+        label,
         f"{len(hit)} wall cases over {s.compression_limit:g} f'c under earthquake combinations "
         f"(detailing required, not a failure); highest {w.wall_id} at {w.storey}, {w.combination}: "
         f"{w.sigma_max:.2f} MPa vs {w.limit:.2f} MPa",
@@ -258,16 +260,8 @@ def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
         return (label, f"not applicable: {why}")
     if section14 is None or not len(section14):
         return (label, "not checked (no rows)")
-    comp = section14[section14.status.isin((results.PASS, results.FAIL))]
-    parts = []
-    if len(comp):
-        r = comp.loc[comp.util.astype(float).idxmax()]
-        n_fail = int((comp.status == results.FAIL).sum())
-        verdict = results.FAIL if r.util > 1.0 else results.PASS
-        parts.append(
-            f"worst {r.util:.3f} {verdict} at {r.pier_id}, {r.storey} ({r.rule}; "
-            f"{n_fail} of {len(comp)} rule rows fail)"
-        )
+    worst = worst_rule_text(section14)
+    parts = [worst] if worst else []
     zones = section14[section14.status == results.REQUIRED]
     checks = int((section14.status == results.CHECK).sum())
     if not s.earthquake:
@@ -280,14 +274,15 @@ def section14_line(section14: pd.DataFrame, s) -> tuple[str, str]:
     return (label, f"{s.ductility}: " + "; ".join(parts))
 
 
-def members_table(piers: pd.DataFrame, lintels: pd.DataFrame) -> pd.DataFrame:
+def members_table(piers: pd.DataFrame, lintels: pd.DataFrame, bar_name=None) -> pd.DataFrame:
+    """Piers and lintels, one row each; `bar_name` names the bars (`Standard.bar_name`)."""
     p = piers.assign(
         member=piers.pier_id,
         kind="pier",
         height=piers.h,
         k=piers.k * 1e-3,
         note=np.where(piers.position > 0, "between openings / wall ends", "wall without openings"),
-        bars=bars.describe(piers) if len(piers) else [],
+        bars=(bars.describe(piers, bar_name) if bar_name else bars.describe(piers)) if len(piers) else [],
     )
     lin = lintels.merge(
         piers.drop_duplicates(["storey", "wall_id"])[
@@ -371,8 +366,8 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
             results.SUMMARY_COLUMNS,
             attention_first(summary),
             preamble=stamp
-            + count_lines(summary, shear, special_walls.applies(s))
-            + worst_per_check(summary, lintels, stress, core_nm)
+            + count_lines(summary, shear, special_walls.applies(s), sym)
+            + worst_per_check(summary, lintels, stress, core_nm, sym)
             + [section14_line(section14, s), lintel_line],
             scale_key="util",
         ),
@@ -425,7 +420,7 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
         ),
         ResultSheet(
             results.DETAILING_SHEET,
-            f"{results.MARKER}: detailing of piers to {s.standard} Cl 11.7 "
+            f"{results.MARKER}: detailing of piers to {s.standard} {sym['detailing_rules']} "
             "(limits as in docs/engineering-basis.md: verify)",
             results.DETAILING_COLUMNS,
             detailing,
@@ -515,7 +510,7 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
             f"{results.MARKER}: piers and lintels derived from walls "
             "and openings (IDs to map analysis output to)",
             results.MEMBER_COLUMNS,
-            members_table(piers, geom.lintels),
+            members_table(piers, geom.lintels, std.bar_name),
             preamble=stamp,
         ),
         ResultSheet(
