@@ -1141,7 +1141,9 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
     """Worst utilisation of every variant over every check and combination (over axial +
     bending and Cl 11.5 alone with `only_axial`)."""
     axial = check_pier_axial(var, acts, s, working=False)
-    parts = [] if only_axial else [check_pier_shear(var, acts, s, working=False)[["pier_id", "util"]]]
+    # the shear table also goes to detailing, which otherwise runs the same shear check again
+    shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
+    parts = [] if shear is None else [shear[["pier_id", "util"]]]
     if len(axial):
         parts.append(axial[["pier_id", "util"]])
         simp = axial[axial.util_s.notna()]
@@ -1150,7 +1152,7 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
     else:
         hwe = None
     if not only_axial:
-        parts.append(check_detailing(var, acts, s, hwe, working=False)[["pier_id", "util"]])
+        parts.append(check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]])
         parts.append(check_section14(var, acts, s, hwe, working=False))
     if not parts:
         return pd.Series(dtype=float)
