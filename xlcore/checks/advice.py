@@ -221,6 +221,11 @@ def _candidates(
     o = _option_table(tuple(std.grades()))
     bi = np.repeat(np.arange(len(base)), len(o))
     oi = np.tile(np.arange(len(o)), len(base))
+    # the grades and bars that the rules below drop, dropped before the rows are made (the L
+    # tower: 855 000 rows of every pier column, 380 000 kept): the same tests on the same
+    # numbers, so the rows kept and their order are those the rules below keep
+    pre = _built_options(base, o, bi, oi, std, settings)
+    bi, oi = bi[pre], oi[pre]
     var = base.iloc[bi].reset_index(drop=True)
     kind = o.kind.to_numpy()[oi]
     tw0 = var.tw.to_numpy(float)
@@ -292,6 +297,27 @@ def _candidates(
         - meta.base_cost
     )
     return var, meta
+
+
+def _built_options(base: pd.DataFrame, o: pd.DataFrame, bi, oi, std: Standard, settings: Settings):
+    """Which of the (pier `bi`, option `oi`) rows `_candidates` may keep: a grade above the
+    pier's, bars adding steel within the layer, spacing and clear-gap rules (its tests, on the
+    pier's own numbers); end zones and thickness all (their rules need the rows)."""
+    kind = o.kind.to_numpy()[oi]
+    pre = (kind == ZONE_KIND) | (kind == THICK_KIND)
+    grade = kind == GRADE_KIND
+    pre[grade] = o.grade.to_numpy()[oi][grade] > base.fc.to_numpy(float)[bi][grade]
+    tw0, Lw = base.tw.to_numpy(float)[bi], base.Lw.to_numpy(float)[bi]
+    need = _layers_needed(tw0, settings)
+    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
+    rho = geometry.bar_ratio(n, d, sp, tw0)
+    for prefix, name in (("h", H_KIND), ("v", V_KIND)):
+        sel = kind == name
+        way = 0 if prefix == "v" else 1
+        built = (sp <= std.max_spacing(tw0, Lw)[way]) & (sp - d >= std.min_clear_gap(d))
+        now = base[f"rho_{prefix}"].to_numpy(float)[bi]
+        pre[sel] = ((rho > now + 1e-12) & (n >= need) & built)[sel]
+    return pre
 
 
 def _thicker(
@@ -420,6 +446,9 @@ def pour_premiums(piers: pd.DataFrame, settings: Settings) -> pd.DataFrame:
 # evaluation
 
 
+CHUNK_ROWS = 60_000  # action rows the checks of the search take at once (`_utilisation`)
+
+
 class ActionRows:
     """Action rows found by position: each (storey, pier) of `actions` is factorised once, its
     rows listed in order, so the rows of a batch of variants are gathered by integer indexing.
@@ -467,7 +496,19 @@ def _utilisation(
 ) -> pd.Series:
     """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
     (of the axial checks alone with `only_axial`), under `actions` of their piers."""
-    return _worst(rows, actions.for_variants(meta), settings, only_axial)
+    acts = actions.for_variants(meta)
+    if len(acts) <= CHUNK_ROWS:
+        return _worst(rows, acts, settings, only_axial)
+    # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
+    # row (a variant's numbers do not depend on the others in its batch), and the pieces bound
+    # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once)
+    count = pd.Series(1, index=acts.pier_id.to_numpy()).groupby(level=0).size()
+    piece = np.cumsum(count.reindex(meta.variant.to_numpy()).fillna(0).to_numpy()) // CHUNK_ROWS
+    parts = [
+        _worst(rows.iloc[at], acts[acts.pier_id.isin(meta.variant.to_numpy()[at])], settings, only_axial)
+        for at in (np.flatnonzero(piece == k) for k in np.unique(piece))
+    ]
+    return pd.concat(parts).sort_index()
 
 
 def _confirm(rows_of, first: pd.DataFrame, screened: np.ndarray, actions, settings) -> pd.Series:
@@ -656,12 +697,13 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
         if ka == GRADE_KIND:
             own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
             cost = cost + premium[a] - own
-        parts["pair"].append(np.full(len(a), k, dtype=np.int64))
-        parts["a"].append(a)
-        parts["b"].append(b)
+        # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
+        parts["pair"].append(np.full(len(a), k, dtype=np.int8))
+        parts["a"].append(a.astype(np.int32))
+        parts["b"].append(b.astype(np.int32))
         parts["added_cost"].append(cost)
     return {
-        k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int64)
+        k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
         for k, v in parts.items()
     }
 
@@ -674,7 +716,7 @@ def _pair_frame(meta: pd.DataFrame, arrays: dict[str, np.ndarray], rows: np.ndar
             storey=meta.storey.to_numpy()[a],
             pier_id=meta.pier_id.to_numpy()[a],
             bi=meta.bi.to_numpy()[a],
-            pair=k,
+            pair=k.astype(np.int64),
             a=meta.variant.to_numpy()[a],
             b=meta.variant.to_numpy()[b],
             added_cost=arrays["added_cost"][rows],
@@ -697,16 +739,20 @@ def _probed_pairs(
         pm = _pairs(meta, premiums, first_id, settings)
         return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
     bi = meta.bi.to_numpy()[arrays["a"]]
-    order = np.lexsort((arrays["added_cost"], arrays["pair"], bi))  # stable, NaN last like pandas
+    # stable, NaN last like pandas
+    order = np.lexsort((arrays["added_cost"], arrays["pair"], bi)).astype(np.int32)
     sb, sp = bi[order], arrays["pair"][order]
+    del bi
     new = np.ones(n, dtype=bool)
     new[1:] = (sb[1:] != sb[:-1]) | (sp[1:] != sp[:-1])
-    group = np.cumsum(new) - 1
+    del sb, sp
+    group = (np.cumsum(new, dtype=np.int32) - 1).astype(np.int32)
     last = np.flatnonzero(np.append(new[1:], True))  # each group's most expensive pair, sorted
-    probe = _pair_frame(meta, arrays, order[last], first_id + order[last])
+    del new
+    probe = _pair_frame(meta, arrays, order[last], first_id + order[last].astype(np.int64))
     passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
     keep = np.flatnonzero(passes[group])
-    out = _pair_frame(meta, arrays, order[keep], first_id + order[keep])
+    out = _pair_frame(meta, arrays, order[keep], first_id + order[keep].astype(np.int64))
     out.index = keep
     return out
 
