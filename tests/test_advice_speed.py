@@ -128,3 +128,35 @@ def test_probe_on_arrays_equals_the_probe_on_the_pair_table(scale):
     kept = general.groupby(["bi", "pair"]).ngroups
     assert 0 < kept < groups
     pd.testing.assert_frame_equal(fast, general, check_exact=True)
+
+
+def test_options_dropped_before_the_rows_are_made_are_those_the_rules_drop(monkeypatch):
+    """`_built_options` drops grades and bars before the variant rows are made; without it
+    (every row made, the rules alone dropping) the variants and their table are the same."""
+    piers = tower()
+    s = Settings()
+    real, seen = advice._built_options, []
+    monkeypatch.setattr(advice, "_built_options", lambda *a: seen.append(real(*a)) or seen[-1])
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    assert 0 < seen[0].sum() < len(seen[0]) / 2  # most rows dropped before they are made
+    monkeypatch.setattr(advice, "_built_options", lambda base, o, bi, *_: np.ones(len(bi), bool))
+    var_all, meta_all = advice._candidates(piers, failing_of(piers), s)
+    assert len(meta) > 500 and set(meta.kind) == {advice.GRADE_KIND, *advice.PIER_KINDS}
+    pd.testing.assert_frame_equal(var, var_all, check_exact=True)
+    pd.testing.assert_frame_equal(meta, meta_all, check_exact=True)
+
+
+def test_checks_in_pieces_equal_the_checks_at_once(monkeypatch):
+    """`_utilisation` runs the checks in pieces of CHUNK_ROWS action rows (whole variants each):
+    the same utilisation, variant by variant, as in one batch."""
+    piers = tower()
+    s = Settings()
+    acts = actions_for(piers, 2.0)
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    batch = meta.iloc[::7]
+    rows = var.iloc[batch.variant.to_numpy()]
+    whole = advice._utilisation(rows, batch, advice.ActionRows(acts), s)
+    monkeypatch.setattr(advice, "CHUNK_ROWS", 97)
+    pieces = advice._utilisation(rows, batch, advice.ActionRows(acts), s)
+    assert len(whole) == len(batch) and (whole > 1.0).any() and (whole <= 1.0).any()
+    pd.testing.assert_series_equal(pieces, whole, check_exact=True)
