@@ -17,6 +17,7 @@ import pytest
 
 from xlcore import geometry
 from xlcore.checks import advice
+from xlcore.checks.axial import check_pier_axial
 from xlcore.mechanics import stiffness
 from xlcore.model import Opening, Settings
 
@@ -160,3 +161,29 @@ def test_checks_in_pieces_equal_the_checks_at_once(monkeypatch):
     pieces = advice._utilisation(rows, batch, advice.ActionRows(acts), s)
     assert len(whole) == len(batch) and (whole > 1.0).any() and (whole <= 1.0).any()
     pd.testing.assert_series_equal(pieces, whole, check_exact=True)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_closed_form_checks_first_settle_the_same_variants(standard):
+    """With `cheap_first` a variant over 1 in shear, detailing or Section 14 skips the axial
+    checks: every variant is on the same side of 1, and those at or under 1 (all checks run)
+    have the same utilisation to the last bit. The effective height it hands detailing and
+    Section 14 is the axial check's."""
+    piers = tower()
+    s = Settings(standard=standard)
+    acts = actions_for(piers, 2.0)
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    rows = var.iloc[meta.variant.to_numpy()]
+    a = advice.ActionRows(acts).for_variants(meta)
+    full = advice._worst(rows, a, s)
+    fast = advice._worst(rows, a, s, cheap_first=True)
+    assert (full > 1.0).any() and (full <= 1.0).any()
+    pd.testing.assert_index_equal(fast.index, full.index)
+    assert ((fast > 1.0) == (full > 1.0)).all()
+    ok = (full <= 1.0).to_numpy()
+    assert np.array_equal(fast[ok].to_numpy(), full[ok].to_numpy())
+    skipped = fast < full  # the axial checks governed and were not run: over 1 all the same
+    assert skipped.any() and (fast[skipped] > 1.0).all()
+    hwe = check_pier_axial(rows, a, s, working=False).groupby(["storey", "pier_id"]).hwe.first()
+    got = advice._effective_heights(rows, a, s).sort_index()
+    pd.testing.assert_series_equal(got, hwe.sort_index(), check_exact=True)

@@ -457,8 +457,9 @@ class ActionRows:
     action rows, a 0.2 s join to confirm 24 variants). `for_variants` gives the rows the join
     `actions.merge(meta, on=[storey, pier_id])` gives, in its order (tests/test_advice_speed.py)."""
 
-    def __init__(self, actions: pd.DataFrame) -> None:
+    def __init__(self, actions: pd.DataFrame, cheap_first: bool = False) -> None:
         self.frame = actions.reset_index(drop=True)
+        self.cheap_first = cheap_first  # `_worst`: closed-form checks first (the search only)
         codes, self.keys = pd.MultiIndex.from_arrays([self.frame.storey, self.frame.pier_id]).factorize()
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
@@ -498,14 +499,15 @@ def _utilisation(
     (of the axial checks alone with `only_axial`), under `actions` of their piers."""
     acts = actions.for_variants(meta)
     if len(acts) <= CHUNK_ROWS:
-        return _worst(rows, acts, settings, only_axial)
+        return _worst(rows, acts, settings, only_axial, actions.cheap_first)
     # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
     # row (a variant's numbers do not depend on the others in its batch), and the pieces bound
     # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once)
     count = pd.Series(1, index=acts.pier_id.to_numpy()).groupby(level=0).size()
     piece = np.cumsum(count.reindex(meta.variant.to_numpy()).fillna(0).to_numpy()) // CHUNK_ROWS
+    variant = meta.variant.to_numpy()
     parts = [
-        _worst(rows.iloc[at], acts[acts.pier_id.isin(meta.variant.to_numpy()[at])], settings, only_axial)
+        _worst(rows.iloc[at], acts[acts.pier_id.isin(variant[at])], settings, only_axial, actions.cheap_first)
         for at in (np.flatnonzero(piece == k) for k in np.unique(piece))
     ]
     return pd.concat(parts).sort_index()
@@ -838,8 +840,8 @@ def advise(
         return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
     var, meta = _candidates(piers, failing, settings)
     meta["pour"], _ = pour_keys(meta.assign(**_pier_cols(piers, meta)), piers, settings)
-    screen = ActionRows(_screening_actions(actions, failing))
-    actions = ActionRows(actions)
+    screen = ActionRows(_screening_actions(actions, failing), cheap_first=True)
+    actions = ActionRows(actions, cheap_first=True)
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -1183,9 +1185,38 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     return acts[pick]
 
 
-def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False) -> pd.Series:
+def _worst(
+    var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False, cheap_first: bool = False
+) -> pd.Series:
     """Worst utilisation of every variant over every check and combination (over axial +
-    bending and Cl 11.5 alone with `only_axial`)."""
+    bending and Cl 11.5 alone with `only_axial`).
+
+    With `cheap_first` (the search, `ActionRows.cheap_first`), the closed-form checks (shear,
+    detailing, Section 14) run first and a variant already over 1 in them is not run through
+    the axial ones (the neutral-axis solve): its value is then over 1 but not its worst, which
+    the search never reads (it compares with 1, and reports utilisations of passing options
+    only). Detailing and Section 14 then take the effective height Cl 11.4 gives the axial
+    check (`_effective_heights`), the same numbers."""
+    if cheap_first and not only_axial:
+        shear = check_pier_shear(var, acts, s, working=False)
+        hwe = _effective_heights(var, acts, s)
+        cheap = [
+            shear[["pier_id", "util"]],
+            check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
+            check_section14(var, acts, s, hwe, working=False),
+        ]
+        worst = pd.concat(cheap).groupby("pier_id").util.max()
+        over = worst.index[(worst > 1.0).to_numpy()]
+        if len(over):
+            rest = ~var.pier_id.isin(over).to_numpy()
+            var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
+        axial = check_pier_axial(var, acts, s, working=False)
+        parts = cheap
+        if len(axial):
+            parts.append(axial[["pier_id", "util"]])
+            simp = axial[axial.util_s.notna()]
+            parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        return pd.concat(parts).groupby("pier_id").util.max()
     axial = check_pier_axial(var, acts, s, working=False)
     # the shear table also goes to detailing, which otherwise runs the same shear check again
     shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
@@ -1203,6 +1234,22 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def _effective_heights(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series | None:
+    """Per (storey, variant) the effective height the axial check gives detailing and Section
+    14 (`axial.groupby(...).hwe.first()` in `_worst`): its Cl 11.4 k Hc (checks/axial.py
+    `_simplified`, the same call on the same numbers), for the variants with an action row the
+    axial check keeps (N* and M* given); None where none has one, as there."""
+    kept = acts[acts.n.notna() & acts.m.notna()].pier_id.unique()
+    p = var[var.pier_id.isin(kept).to_numpy()]
+    if p.empty:
+        return None
+    std = get_standard(s.standard)  # as check_pier_axial takes it
+    Hc = p.Hc.to_numpy(float)
+    restrained = s.ends_restrained == "yes"
+    k = std.effective_height_factor(Hc, p.Lw.to_numpy(float), p.supported_edges.to_numpy(), restrained)
+    return pd.Series(k * Hc, index=pd.MultiIndex.from_arrays([p.storey, p.pier_id]), name="hwe")
 
 
 def search_lines(s: Settings) -> list[tuple[str, str]]:
