@@ -1022,30 +1022,34 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
     by = meta.set_index("variant")
     key = ["storey", "pier_id"]
-    own = (
-        alone[alone.util <= 1.0].sort_values("added_cost", kind="stable").groupby(key).head(1).set_index(key)
-    )
-    pair = best.set_index(key)
-    g = grades.set_index([*key, "fc"])
+    # rows by key as records (a label lookup per pier and grade cost most of this step at
+    # building scale); the same rows `.loc` found
+    own = {
+        (r.storey, r.pier_id): r
+        for r in alone[alone.util <= 1.0]
+        .sort_values("added_cost", kind="stable")
+        .groupby(key)
+        .head(1)
+        .itertuples(index=False)
+    }
+    pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
+    g = {(r.storey, r.pier_id, r.fc): r for r in grades.itertuples(index=False)}
     members = meta.drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
+    mine_of = {
+        pour: list(zip(group.storey.tolist(), group.pier_id.tolist(), strict=True))
+        for pour, group in members.groupby("pour", sort=False)
+    }
     for pour in pours[pours.util.isna()].pour:
-        mine = [tuple(m) for m in members[members.pour == pour][key].itertuples(index=False)]
-        named = [
-            by.loc[pair.loc[m].a].fc for m in mine if m in pair.index and pair.loc[m].pair in GRADE_PAIRS
-        ]
+        mine = mine_of.get(pour, [])
+        named = [by.at[pair[m].a, "fc"] for m in mine if m in pair and pair[m].pair in GRADE_PAIRS]
         if not named:
             continue
         top = max(named)
         wanted[pour] = (top, mine)
         for m in mine:
-            if (
-                m in pair.index
-                and pair.loc[m].pair in GRADE_PAIRS
-                and (*m, top) in g.index
-                and g.loc[(*m, top)].util > 1.0
-            ):
-                check.append((*m, int(g.loc[(*m, top)].variant), int(pair.loc[m].b)))
+            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g[(*m, top)].util > 1.0:
+                check.append((*m, int(g[(*m, top)].variant), int(pair[m].b)))
     if not wanted:
         return pours, plans
     c = pd.DataFrame(check, columns=[*key, "a", "b"])
@@ -1073,30 +1077,22 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
             - ra.base_cost.to_numpy(float)
             - costs.grade_premium(prices, ra.fc0, ra.fc, ra.Lw.to_numpy(float) * ra.tw0 * ra.Hc / 1e9)
         )
-    c = c.set_index(key)
+    c = {(r.storey, r.pier_id): r for r in c.itertuples(index=False)}
     pours = pours.copy()
     for pour, (top, mine) in wanted.items():
         total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
         for m in mine:
-            at_top = g.loc[(*m, top)].util if (*m, top) in g.index else np.nan
+            at_top = g[(*m, top)].util if (*m, top) in g else np.nan
             if at_top <= 1.0:
                 words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
-            elif m in c.index and c.loc[m].util <= 1.0:
-                other = by.loc[c.loc[m].b]
+            elif m in c and c[m].util <= 1.0:
+                other = by.loc[c[m].b]
                 words[m] = f"f'c {top:g} MPa (pour); {other.kind}: {other.option}"
-                u, cost = c.loc[m].util, c.loc[m].cost
-            elif m in own.index:
-                words[m], u, cost = (
-                    f"{own.loc[m].kind}: {own.loc[m].option}",
-                    own.loc[m].util,
-                    own.loc[m].added_cost,
-                )
-            elif m in pair.index and pair.loc[m].pair not in GRADE_PAIRS:
-                words[m], u, cost = (
-                    f"{pair.loc[m].kind}: {pair.loc[m].option}",
-                    pair.loc[m].util,
-                    pair.loc[m].added_cost,
-                )
+                u, cost = c[m].util, c[m].cost
+            elif m in own:
+                words[m], u, cost = f"{own[m].kind}: {own[m].option}", own[m].util, own[m].added_cost
+            elif m in pair and pair[m].pair not in GRADE_PAIRS:
+                words[m], u, cost = f"{pair[m].kind}: {pair[m].option}", pair[m].util, pair[m].added_cost
             else:
                 ok = False
                 break
