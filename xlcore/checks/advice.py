@@ -460,7 +460,10 @@ class ActionRows:
     def __init__(self, actions: pd.DataFrame, cheap_first: bool = False) -> None:
         self.frame = actions.reset_index(drop=True)
         self.cheap_first = cheap_first  # `_worst`: closed-form checks first (the search only)
-        codes, self.keys = pd.MultiIndex.from_arrays([self.frame.storey, self.frame.pier_id]).factorize()
+        # (storey, pier) as one integer from each column's codes (no tuple per row)
+        storey, self.storeys = pd.factorize(self.frame.storey)
+        pier, self.piers = pd.factorize(self.frame.pier_id)
+        codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
 
@@ -475,7 +478,10 @@ class ActionRows:
         """The action rows of each variant's pier, the pier ID replaced by the variant's ID: the
         rows of the join of the actions with `meta` on (storey, pier), action row by action row
         and within one the variants in `meta`'s order (the join's order), same columns."""
-        key = self.keys.get_indexer(pd.MultiIndex.from_arrays([meta.storey, meta.pier_id]))
+        storey = pd.Index(self.storeys).get_indexer(meta.storey)
+        pier = pd.Index(self.piers).get_indexer(meta.pier_id)
+        joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
+        key = pd.Index(self.keys).get_indexer(joint)
         lo = np.where(key >= 0, self.starts[np.maximum(key, 0)], 0)
         count = np.where(key >= 0, self.starts[np.maximum(key, 0) + 1] - lo, 0)
         which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
