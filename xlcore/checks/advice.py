@@ -299,7 +299,9 @@ def _candidates(
     return var, meta
 
 
-def _built_options(base: pd.DataFrame, o: pd.DataFrame, bi, oi, std: Standard, settings: Settings):
+def _built_options(
+    base: pd.DataFrame, o: pd.DataFrame, bi: np.ndarray, oi: np.ndarray, std: Standard, settings: Settings
+) -> np.ndarray:
     """Which of the (pier `bi`, option `oi`) rows `_candidates` may keep: a grade above the
     pier's, bars adding steel within the layer, spacing and clear-gap rules (its tests, on the
     pier's own numbers); end zones and thickness all (their rules need the rows)."""
@@ -716,7 +718,9 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
     }
 
 
-def _pair_frame(meta: pd.DataFrame, arrays: dict[str, np.ndarray], rows: np.ndarray, variant: np.ndarray):
+def _pair_frame(
+    meta: pd.DataFrame, arrays: dict[str, np.ndarray], rows: np.ndarray, variant: np.ndarray
+) -> pd.DataFrame:
     """The rows `rows` of `_pair_arrays` as the table `_pairs` makes (variant IDs given)."""
     a, b, k = arrays["a"][rows], arrays["b"][rows], arrays["pair"][rows]
     return pd.DataFrame(
