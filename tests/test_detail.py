@@ -70,6 +70,7 @@ def computed(failing_master) -> pipeline.Outcome:
         results.SHEAR_SHEET,
         results.AXIAL_SHEET,
         results.CORE_SHEET,
+        results.CORE_STRESS_SHEET,
     }
     return o
 

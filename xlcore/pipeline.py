@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import datetime as dt
+import functools
 import time
 from collections.abc import Iterator
 from contextlib import contextmanager
@@ -13,7 +14,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import comparison, cores, distribution, geometry, results
-from xlcore.checks import plain
+from xlcore.checks import core_stress, plain
 from xlcore.checks.advice import advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
@@ -166,7 +167,13 @@ def compute(
         with t.phase(
             "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
         ):
-            stress = per_core(check_core_stress, piers, plans, split.actions, s)
+            # the working text on the rows written where the table will be cut (select_detail)
+            numbers = functools.partial(check_core_stress, text=False)
+            stress = per_core(numbers, piers, plans, split.actions, s)
+            if defer(len(stress)):
+                rework[results.CORE_STRESS_SHEET] = functools.partial(core_stress.with_working, settings=s)
+            elif len(stress):
+                stress = core_stress.with_working(stress, s)
             core_nm = per_core(check_core_nm, piers, plans, split.actions, s)
     sheets = result_sheets(
         Checked(

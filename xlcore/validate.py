@@ -301,8 +301,14 @@ def _table(sheet: RawSheet | None, t: TableSheet, f: Findings) -> pd.DataFrame |
     keep = np.flatnonzero(filled)
     rows = (keep + 2).tolist()
     data: dict[str, object] = {"row": np.array(rows, dtype=int)}
+    all_rows = len(keep) == len(body)  # the usual case: no blank row to leave out
     for j, c in enumerate(t.columns):
-        column = np.array(columns[j], dtype=object)[keep].tolist() if len(body) else []
+        if not len(body):
+            column = []
+        elif all_rows:  # the same cells; an object array and back cost two passes of 360 000 at L
+            column = columns[j]
+        else:
+            column = np.array(columns[j], dtype=object)[keep].tolist()
         data[c.key] = _typed_column(column, rows, c, idx[j], t.name, f)
     df = pd.DataFrame(data)
     df.attrs["columns"] = cols

@@ -9,8 +9,12 @@ import pandas as pd
 def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     """Rows of `df` grouped by storey x pier: the first row of each group and each row's group,
     so what depends on the pier alone is worked out once per pier and spread to its rows."""
-    keys = (df.storey.astype(str) + "\x1f" + df.pier_id.astype(str)).to_numpy()
-    _, first, of = np.unique(keys, return_index=True, return_inverse=True)
+    # integer codes of the two columns, not joined text (a Python string per row: 0.14 s of
+    # the L tower's 360 000 rows, against 0.03 s); each row's first row of its pier is the same
+    storey, _ = pd.factorize(df.storey)
+    pier, piers = pd.factorize(df.pier_id)
+    key = storey.astype(np.int64) * len(piers) + pier
+    _, first, of = np.unique(key, return_index=True, return_inverse=True)
     return first, of
 
 

@@ -223,6 +223,11 @@ def _candidates(
     o = _option_table(std)
     bi = np.repeat(np.arange(len(base)), len(o))
     oi = np.tile(np.arange(len(o)), len(base))
+    # the grades and bars that the rules below drop, dropped before the rows are made (the L
+    # tower: 855 000 rows of every pier column, 380 000 kept): the same tests on the same
+    # numbers, so the rows kept and their order are those the rules below keep
+    pre = _built_options(base, o, bi, oi, std, settings)
+    bi, oi = bi[pre], oi[pre]
     var = base.iloc[bi].reset_index(drop=True)
     kind = o.kind.to_numpy()[oi]
     tw0 = var.tw.to_numpy(float)
@@ -294,6 +299,29 @@ def _candidates(
         - meta.base_cost
     )
     return var, meta
+
+
+def _built_options(
+    base: pd.DataFrame, o: pd.DataFrame, bi: np.ndarray, oi: np.ndarray, std: Standard, settings: Settings
+) -> np.ndarray:
+    """Which of the (pier `bi`, option `oi`) rows `_candidates` may keep: a grade above the
+    pier's, bars adding steel within the layer, spacing and clear-gap rules (its tests, on the
+    pier's own numbers); end zones and thickness all (their rules need the rows)."""
+    kind = o.kind.to_numpy()[oi]
+    pre = (kind == ZONE_KIND) | (kind == THICK_KIND)
+    grade = kind == GRADE_KIND
+    pre[grade] = o.grade.to_numpy()[oi][grade] > base.fc.to_numpy(float)[bi][grade]
+    tw0, Lw = base.tw.to_numpy(float)[bi], base.Lw.to_numpy(float)[bi]
+    need = _layers_needed(tw0, settings)
+    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
+    rho = geometry.bar_ratio(n, d, sp, tw0)
+    for prefix, name in (("h", H_KIND), ("v", V_KIND)):
+        sel = kind == name
+        way = 0 if prefix == "v" else 1
+        built = (sp <= std.max_spacing(tw0, Lw)[way]) & (sp - d >= std.min_clear_gap(d))
+        now = base[f"rho_{prefix}"].to_numpy(float)[bi]
+        pre[sel] = ((rho > now + 1e-12) & (n >= need) & built)[sel]
+    return pre
 
 
 def _thicker(
@@ -423,18 +451,77 @@ def pour_premiums(piers: pd.DataFrame, settings: Settings) -> pd.DataFrame:
 # evaluation
 
 
+CHUNK_ROWS = 60_000  # action rows the checks of the search take at once (`_utilisation`)
+
+
+class ActionRows:
+    """Action rows found by position: each (storey, pier) of `actions` is factorised once, its
+    rows listed in order, so the rows of a batch of variants are gathered by integer indexing.
+    The search asks for them in every screen and confirmation; joining the whole actions table
+    on text keys each time cost more than the checks of a small batch (the L tower: 360 000
+    action rows, a 0.2 s join to confirm 24 variants). `for_variants` gives the rows the join
+    `actions.merge(meta, on=[storey, pier_id])` gives, in its order (tests/test_advice_speed.py)."""
+
+    def __init__(self, actions: pd.DataFrame, cheap_first: bool = False) -> None:
+        self.frame = actions.reset_index(drop=True)
+        self.cheap_first = cheap_first  # `_worst`: closed-form checks first (the search only)
+        # (storey, pier) as one integer from each column's codes (no tuple per row)
+        storey, self.storeys = pd.factorize(self.frame.storey)
+        pier, self.piers = pd.factorize(self.frame.pier_id)
+        codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
+        self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
+        self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
+
+    def __len__(self) -> int:
+        return len(self.frame)
+
+    @property
+    def empty(self) -> bool:
+        return self.frame.empty
+
+    def for_variants(self, meta: pd.DataFrame) -> pd.DataFrame:
+        """The action rows of each variant's pier, the pier ID replaced by the variant's ID: the
+        rows of the join of the actions with `meta` on (storey, pier), action row by action row
+        and within one the variants in `meta`'s order (the join's order), same columns."""
+        storey = pd.Index(self.storeys).get_indexer(meta.storey)
+        pier = pd.Index(self.piers).get_indexer(meta.pier_id)
+        joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
+        key = pd.Index(self.keys).get_indexer(joint)
+        lo = np.where(key >= 0, self.starts[np.maximum(key, 0)], 0)
+        count = np.where(key >= 0, self.starts[np.maximum(key, 0) + 1] - lo, 0)
+        which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
+        step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
+        row = self.order[np.repeat(lo, count) + step]
+        by = np.lexsort((which, row))
+        out = self.frame.take(row[by]).reset_index(drop=True)
+        out = out.drop(columns="pier_id")
+        out["pier_id"] = meta.variant.to_numpy()[which[by]]
+        return out
+
+
 def _utilisation(
     rows: pd.DataFrame,
     meta: pd.DataFrame,
-    actions: pd.DataFrame,
+    actions: ActionRows,
     settings: Settings,
     only_axial: bool = False,
 ) -> pd.Series:
     """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
     (of the axial checks alone with `only_axial`), under `actions` of their piers."""
-    acts = actions.merge(meta[["storey", "pier_id", "variant"]], on=["storey", "pier_id"])
-    acts = acts.drop(columns="pier_id").rename(columns={"variant": "pier_id"})
-    return _worst(rows, acts, settings, only_axial)
+    acts = actions.for_variants(meta)
+    if len(acts) <= CHUNK_ROWS:
+        return _worst(rows, acts, settings, only_axial, actions.cheap_first)
+    # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
+    # row (a variant's numbers do not depend on the others in its batch), and the pieces bound
+    # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once)
+    count = pd.Series(1, index=acts.pier_id.to_numpy()).groupby(level=0).size()
+    piece = np.cumsum(count.reindex(meta.variant.to_numpy()).fillna(0).to_numpy()) // CHUNK_ROWS
+    variant = meta.variant.to_numpy()
+    parts = [
+        _worst(rows.iloc[at], acts[acts.pier_id.isin(variant[at])], settings, only_axial, actions.cheap_first)
+        for at in (np.flatnonzero(piece == k) for k in np.unique(piece))
+    ]
+    return pd.concat(parts).sort_index()
 
 
 def _confirm(rows_of, first: pd.DataFrame, screened: np.ndarray, actions, settings) -> pd.Series:
@@ -580,6 +667,111 @@ def _pairs(meta: pd.DataFrame, premiums: pd.DataFrame, first_id: int, settings: 
     return out
 
 
+def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings) -> dict[str, np.ndarray]:
+    """The pairs `_pairs` lists, as arrays in its order: `pair` (index in PAIRS), `a`, `b`
+    (positions in `meta` of the two single options) and `added_cost`, worked out with the same
+    operations on the same numbers, so the costs are equal to the last bit. Without a table per
+    pair: the L tower's 4 430 580 pairs as a table of text keys took 2 s and 1.5 GB, and the
+    probe then keeps about one pair in a hundred (`_probed_pairs`)."""
+    prices = costs.parse_concrete_prices(settings.concrete_prices)
+    kind, bi = meta.kind.to_numpy(), meta.bi.to_numpy()
+    col = {f: meta[f].to_numpy(float) for f in (*PRICED_ALL, *BASE)}
+    offered, layers = meta.offered.to_numpy(bool), meta.layers.to_numpy(float)
+    premium = np.full(len(meta), np.nan)
+    grade = np.flatnonzero(kind == GRADE_KIND)
+    if len(grade):
+        at = pd.MultiIndex.from_arrays([premiums.pour, premiums.grade.astype(float)]).get_indexer(
+            pd.MultiIndex.from_arrays([meta.pour.to_numpy()[grade], col["fc"][grade]])
+        )
+        premium[grade] = np.where(at >= 0, premiums.premium.to_numpy(float)[np.maximum(at, 0)], np.nan)
+    parts: dict[str, list[np.ndarray]] = {"pair": [], "a": [], "b": [], "added_cost": []}
+    for k, (ka, kb) in enumerate(PAIRS):
+        ia, ib = np.flatnonzero(kind == ka), np.flatnonzero(kind == kb)
+        if not len(ia) or not len(ib):
+            continue
+        # the join on the pier (bi): each a in order, with its pier's b options in their order
+        ob = ib[np.argsort(bi[ib], kind="stable")]
+        lo = np.searchsorted(bi[ob], bi[ia], "left")
+        count = np.searchsorted(bi[ob], bi[ia], "right") - lo
+        a = np.repeat(ia, count)
+        b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
+        if (ka, kb) == (H_KIND, V_KIND):
+            ok = layers[a] == layers[b]  # both directions in the same layers
+        else:
+            ok = offered[a] & offered[b]
+        a, b = a[ok], b[ok]
+        if not len(a):
+            continue
+        field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
+        Lw, Hc = col["Lw"][a], col["Hc"][a]
+        cost = _cost_total(
+            Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
+        ) - col["base_cost"][a]
+        if ka == GRADE_KIND:
+            own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
+            cost = cost + premium[a] - own
+        # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
+        parts["pair"].append(np.full(len(a), k, dtype=np.int8))
+        parts["a"].append(a.astype(np.int32))
+        parts["b"].append(b.astype(np.int32))
+        parts["added_cost"].append(cost)
+    return {
+        k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
+        for k, v in parts.items()
+    }
+
+
+def _pair_frame(
+    meta: pd.DataFrame, arrays: dict[str, np.ndarray], rows: np.ndarray, variant: np.ndarray
+) -> pd.DataFrame:
+    """The rows `rows` of `_pair_arrays` as the table `_pairs` makes (variant IDs given)."""
+    a, b, k = arrays["a"][rows], arrays["b"][rows], arrays["pair"][rows]
+    return pd.DataFrame(
+        dict(
+            storey=meta.storey.to_numpy()[a],
+            pier_id=meta.pier_id.to_numpy()[a],
+            bi=meta.bi.to_numpy()[a],
+            pair=k.astype(np.int64),
+            a=meta.variant.to_numpy()[a],
+            b=meta.variant.to_numpy()[b],
+            added_cost=arrays["added_cost"][rows],
+            kind=np.asarray([f"{ka} + {kb}" for ka, kb in PAIRS], dtype=object)[k],
+            kb=np.asarray([kb for _, kb in PAIRS], dtype=object)[k],
+            variant=variant,
+        )
+    )
+
+
+def _probed_pairs(
+    meta: pd.DataFrame, premiums: pd.DataFrame, first_id: int, settings: Settings, rows_of, actions, screen
+) -> pd.DataFrame:
+    """`_probed(rows_of, _pairs(meta, premiums, first_id, settings), ["bi", "pair"], ...)`, the
+    same table (rows, order, index, variant IDs), with only the probes and the pairs of the
+    groups whose probe passes made into a table: the order is the same stable sort, of arrays."""
+    arrays = _pair_arrays(meta, premiums, settings)
+    n = len(arrays["a"])
+    if not n:
+        pm = _pairs(meta, premiums, first_id, settings)
+        return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
+    bi = meta.bi.to_numpy()[arrays["a"]]
+    # stable, NaN last like pandas
+    order = np.lexsort((arrays["added_cost"], arrays["pair"], bi)).astype(np.int32)
+    sb, sp = bi[order], arrays["pair"][order]
+    del bi
+    new = np.ones(n, dtype=bool)
+    new[1:] = (sb[1:] != sb[:-1]) | (sp[1:] != sp[:-1])
+    del sb, sp
+    group = (np.cumsum(new, dtype=np.int32) - 1).astype(np.int32)
+    last = np.flatnonzero(np.append(new[1:], True))  # each group's most expensive pair, sorted
+    del new
+    probe = _pair_frame(meta, arrays, order[last], first_id + order[last].astype(np.int64))
+    passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
+    keep = np.flatnonzero(passes[group])
+    out = _pair_frame(meta, arrays, order[keep], first_id + order[keep].astype(np.int64))
+    out.index = keep
+    return out
+
+
 def pair_words(pairs: pd.DataFrame, meta: pd.DataFrame) -> list[str]:
     """The two options of each pair in words (a grade named with its pour)."""
     by = meta.set_index("variant")
@@ -621,7 +813,8 @@ def evaluate_options(
     `advise` must agree with). Singles carry `offered` (may stand alone); grades are per pier
     and priced for the pier alone here (the pour is `advise`'s)."""
     var, meta = _candidates(piers, targets, settings)
-    screen = _screening_actions(actions, targets)
+    screen = ActionRows(_screening_actions(actions, targets))
+    actions = ActionRows(actions)
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -660,7 +853,8 @@ def advise(
         return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
     var, meta = _candidates(piers, failing, settings)
     meta["pour"], _ = pour_keys(meta.assign(**_pier_cols(piers, meta)), piers, settings)
-    screen = _screening_actions(actions, failing)
+    screen = ActionRows(_screening_actions(actions, failing), cheap_first=True)
+    actions = ActionRows(actions, cheap_first=True)
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -697,9 +891,8 @@ def advise(
     pair_rows = pd.DataFrame(columns=[*group, "option", "util", "added_cost"])
     if len(left):
         sub = meta.merge(left, on=["storey", "pier_id"])
-        pm = _pairs(sub, pour_premiums(piers, settings), len(var), settings)
         rows_of = _pair_rows(var)
-        pm = _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
+        pm = _probed_pairs(sub, pour_premiums(piers, settings), len(var), settings, rows_of, actions, screen)
         putil = _rounds(rows_of, pm, ["storey", "pier_id"], actions, screen, settings)
         pm = pm.assign(util=pm.variant.map(putil))
         best = (
@@ -843,30 +1036,34 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
     by = meta.set_index("variant")
     key = ["storey", "pier_id"]
-    own = (
-        alone[alone.util <= 1.0].sort_values("added_cost", kind="stable").groupby(key).head(1).set_index(key)
-    )
-    pair = best.set_index(key)
-    g = grades.set_index([*key, "fc"])
+    # rows by key as records (a label lookup per pier and grade cost most of this step at
+    # building scale); the same rows `.loc` found
+    own = {
+        (r.storey, r.pier_id): r
+        for r in alone[alone.util <= 1.0]
+        .sort_values("added_cost", kind="stable")
+        .groupby(key)
+        .head(1)
+        .itertuples(index=False)
+    }
+    pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
+    g = {(r.storey, r.pier_id, r.fc): r for r in grades.itertuples(index=False)}
     members = meta.drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
+    mine_of = {
+        pour: list(zip(group.storey.tolist(), group.pier_id.tolist(), strict=True))
+        for pour, group in members.groupby("pour", sort=False)
+    }
     for pour in pours[pours.util.isna()].pour:
-        mine = [tuple(m) for m in members[members.pour == pour][key].itertuples(index=False)]
-        named = [
-            by.loc[pair.loc[m].a].fc for m in mine if m in pair.index and pair.loc[m].pair in GRADE_PAIRS
-        ]
+        mine = mine_of.get(pour, [])
+        named = [by.at[pair[m].a, "fc"] for m in mine if m in pair and pair[m].pair in GRADE_PAIRS]
         if not named:
             continue
         top = max(named)
         wanted[pour] = (top, mine)
         for m in mine:
-            if (
-                m in pair.index
-                and pair.loc[m].pair in GRADE_PAIRS
-                and (*m, top) in g.index
-                and g.loc[(*m, top)].util > 1.0
-            ):
-                check.append((*m, int(g.loc[(*m, top)].variant), int(pair.loc[m].b)))
+            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g[(*m, top)].util > 1.0:
+                check.append((*m, int(g[(*m, top)].variant), int(pair[m].b)))
     if not wanted:
         return pours, plans
     c = pd.DataFrame(check, columns=[*key, "a", "b"])
@@ -894,30 +1091,22 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
             - ra.base_cost.to_numpy(float)
             - costs.grade_premium(prices, ra.fc0, ra.fc, ra.Lw.to_numpy(float) * ra.tw0 * ra.Hc / 1e9)
         )
-    c = c.set_index(key)
+    c = {(r.storey, r.pier_id): r for r in c.itertuples(index=False)}
     pours = pours.copy()
     for pour, (top, mine) in wanted.items():
         total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
         for m in mine:
-            at_top = g.loc[(*m, top)].util if (*m, top) in g.index else np.nan
+            at_top = g[(*m, top)].util if (*m, top) in g else np.nan
             if at_top <= 1.0:
                 words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
-            elif m in c.index and c.loc[m].util <= 1.0:
-                other = by.loc[c.loc[m].b]
+            elif m in c and c[m].util <= 1.0:
+                other = by.loc[c[m].b]
                 words[m] = f"f'c {top:g} MPa (pour); {other.kind}: {other.option}"
-                u, cost = c.loc[m].util, c.loc[m].cost
-            elif m in own.index:
-                words[m], u, cost = (
-                    f"{own.loc[m].kind}: {own.loc[m].option}",
-                    own.loc[m].util,
-                    own.loc[m].added_cost,
-                )
-            elif m in pair.index and pair.loc[m].pair not in GRADE_PAIRS:
-                words[m], u, cost = (
-                    f"{pair.loc[m].kind}: {pair.loc[m].option}",
-                    pair.loc[m].util,
-                    pair.loc[m].added_cost,
-                )
+                u, cost = c[m].util, c[m].cost
+            elif m in own:
+                words[m], u, cost = f"{own[m].kind}: {own[m].option}", own[m].util, own[m].added_cost
+            elif m in pair and pair[m].pair not in GRADE_PAIRS:
+                words[m], u, cost = f"{pair[m].kind}: {pair[m].option}", pair[m].util, pair[m].added_cost
             else:
                 ok = False
                 break
@@ -1006,11 +1195,42 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     return acts[pick]
 
 
-def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False) -> pd.Series:
+def _worst(
+    var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False, cheap_first: bool = False
+) -> pd.Series:
     """Worst utilisation of every variant over every check and combination (over axial +
-    bending and Cl 11.5 alone with `only_axial`)."""
+    bending and Cl 11.5 alone with `only_axial`).
+
+    With `cheap_first` (the search, `ActionRows.cheap_first`), the closed-form checks (shear,
+    detailing, Section 14) run first and a variant already over 1 in them is not run through
+    the axial ones (the neutral-axis solve): its value is then over 1 but not its worst, which
+    the search never reads (it compares with 1, and reports utilisations of passing options
+    only). Detailing and Section 14 then take the effective height Cl 11.4 gives the axial
+    check (`_effective_heights`), the same numbers."""
+    if cheap_first and not only_axial:
+        shear = check_pier_shear(var, acts, s, working=False)
+        hwe = _effective_heights(var, acts, s)
+        cheap = [
+            shear[["pier_id", "util"]],
+            check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
+            check_section14(var, acts, s, hwe, working=False),
+        ]
+        worst = pd.concat(cheap).groupby("pier_id").util.max()
+        over = worst.index[(worst > 1.0).to_numpy()]
+        if len(over):
+            rest = ~var.pier_id.isin(over).to_numpy()
+            var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
+        axial = check_pier_axial(var, acts, s, working=False)
+        parts = cheap
+        if len(axial):
+            parts.append(axial[["pier_id", "util"]])
+            simp = axial[axial.util_s.notna()]
+            parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        return pd.concat(parts).groupby("pier_id").util.max()
     axial = check_pier_axial(var, acts, s, working=False)
-    parts = [] if only_axial else [check_pier_shear(var, acts, s, working=False)[["pier_id", "util"]]]
+    # the shear table also goes to detailing, which otherwise runs the same shear check again
+    shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
+    parts = [] if shear is None else [shear[["pier_id", "util"]]]
     if len(axial):
         parts.append(axial[["pier_id", "util"]])
         simp = axial[axial.util_s.notna()]
@@ -1019,11 +1239,27 @@ def _worst(var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool 
     else:
         hwe = None
     if not only_axial:
-        parts.append(check_detailing(var, acts, s, hwe, working=False)[["pier_id", "util"]])
+        parts.append(check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]])
         parts.append(check_section14(var, acts, s, hwe, working=False))
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def _effective_heights(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series | None:
+    """Per (storey, variant) the effective height the axial check gives detailing and Section
+    14 (`axial.groupby(...).hwe.first()` in `_worst`): its Cl 11.4 k Hc (checks/axial.py
+    `_simplified`, the same call on the same numbers), for the variants with an action row the
+    axial check keeps (N* and M* given); None where none has one, as there."""
+    kept = acts[acts.n.notna() & acts.m.notna()].pier_id.unique()
+    p = var[var.pier_id.isin(kept).to_numpy()]
+    if p.empty:
+        return None
+    std = get_standard(s.standard)  # as check_pier_axial takes it
+    Hc = p.Hc.to_numpy(float)
+    restrained = s.ends_restrained == "yes"
+    k = std.effective_height_factor(Hc, p.Lw.to_numpy(float), p.supported_edges.to_numpy(), restrained)
+    return pd.Series(k * Hc, index=pd.MultiIndex.from_arrays([p.storey, p.pier_id]), name="hwe")
 
 
 def search_lines(s: Settings) -> list[tuple[str, str]]:

@@ -349,7 +349,9 @@ def check_pier_axial(
         df["m_ray"] = np.where(lam > 0, df.m_design / lam, 0.0)
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
     ray = r["ray"]
-    df["governs"] = [RAY_TEXT[int(k)] for k in ray.tolist()]
+    # the same words looked up by code for the whole column (a Python step per row before)
+    words = np.array([RAY_TEXT.get(k, "") for k in range(max(RAY_TEXT) + 1)], dtype=object)
+    df["governs"] = words[ray.astype(np.int64)].tolist()
     sym = std.symbols
     df["clause"] = np.select(
         [ray == RAY_TENSION, (ray == RAY_SQUASH) | (ray == RAY_CAP)],

@@ -68,8 +68,11 @@ def check_core_stress(
     settings: Settings,
     *,
     std: Standard | None = None,
+    text: bool = True,
 ) -> pd.DataFrame:
-    """One row per storey x combination x wall. Stresses in MPa, forces in kN, steel in mm^2."""
+    """One row per storey x combination x wall. Stresses in MPa, forces in kN, steel in mm^2.
+    Without `text` the working column is left blank for `with_working` to fill on the rows
+    written (`compute --detail`: the L tower has 288 000 rows, a few thousand written)."""
     std = std or get_standard(settings.standard)
     phi_t = std.phi_tension
     parts = []
@@ -143,13 +146,25 @@ def check_core_stress(
     df["util"] = df.u_tension
     df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
     df["governs"] = "tension steel"
-    df["working"] = [
+    df["working"] = None
+    return with_working(df, settings, std=std) if text else df
+
+
+def with_working(rows: pd.DataFrame, settings: Settings, *, std: Standard | None = None) -> pd.DataFrame:
+    """The working text of core-stress rows, from the row's own numbers (so the same text on
+    the rows written as on every row)."""
+    phi_t = (std or get_standard(settings.standard)).phi_tension
+    rows = rows.copy()
+    rows["working"] = [
         f"T = {t:.1f} kN over {ta:.3f} m2 -> As = {t:.1f} x 1000 / ({phi_t:.2f} x {fy:g}) = {ar:.0f} mm2 "
         f"vs {ap:.0f} mm2 in tension (field bars smeared, end-zone bars one by one); "
         f"sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(
-            *plain(df.tension, df.tension_area, df.fsy, df.as_req, df.as_prov, df.sigma_max, df.limit),
+            *plain(
+                rows.tension, rows.tension_area, rows.fsy, rows.as_req, rows.as_prov, rows.sigma_max,
+                rows.limit,
+            ),
             strict=True,
         )
     ]
-    return df
+    return rows

@@ -63,15 +63,19 @@ def check_pier_shear(
     ratio, wall_governs = std.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
     df["hw_lw"] = ratio
     if working:  # text on every row: not for the advice search's variants (10 % of its time)
-        df["hw_basis"] = _basis_text(
-            basis,
+        args = (
             df.Hw.to_numpy(float),
             df.Lw.to_numpy(float),
             np.asarray(h_whole, float),
             df.wall_length.to_numpy(float) * 1000.0,
             beside,
-            wall_governs,
+            np.asarray(wall_governs),
         )
+        # once per distinct set of its numbers (a pier's, the same on all its combinations),
+        # spread to the rows: the same text, one format per pier instead of per row
+        first, of = _distinct(args)
+        words = _basis_text(basis, *(a[first] for a in args))
+        df["hw_basis"] = np.asarray(words, dtype=object)[of].tolist()
     phi = settings.phi_shear if settings.phi_shear is not None else std.phi_wall_shear
     r = std.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio, df.rho_h, df.rho_v, phi)
     kn = 1e-3
@@ -111,6 +115,17 @@ def check_pier_shear(
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
     order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
     return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+def _distinct(columns) -> tuple[np.ndarray, np.ndarray]:
+    """The first row of each distinct combination of values over `columns` (arrays of one
+    length) and each row's combination: integer codes, no tuple per row."""
+    codes = np.zeros(len(columns[0]), dtype=np.int64)
+    for c in columns:
+        own, values = pd.factorize(c, use_na_sentinel=False)
+        codes, _ = pd.factorize(codes * len(values) + own)
+    _, first, of = np.unique(codes, return_index=True, return_inverse=True)
+    return first, of
 
 
 def _basis_text(basis, hw, lw, h_whole, l_whole, beside, wall_governs) -> list[str]:
