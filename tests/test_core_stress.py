@@ -78,6 +78,26 @@ def test_compression_limit_setting_is_used():
     assert out.u_compression.to_numpy() == pytest.approx(out.sigma_max.to_numpy() / 8.0)
 
 
+@pytest.mark.parametrize(
+    "standard, setting, ratio",
+    [
+        # blank setting: the standard's trigger, AS 3600:2018 Cl 14.6.2 0.15 f'c (from memory,
+        # docs/engineering-basis.md) and ACI 318-19 18.10.6.3 0.2 f'c
+        ("AS 3600:2018", None, 0.15),
+        ("ACI 318-19", None, 0.20),
+        # a value the engineer gives wins under either standard
+        ("ACI 318-19", 0.15, 0.15),
+        ("AS 3600:2018", 0.2, 0.20),
+    ],
+)
+def test_compression_limit_blank_takes_the_standards_trigger(standard, setting, ratio):
+    piers, plans = box()
+    s = Settings(standard=standard, compression_limit=setting)
+    out = check_core_stress(piers, plans, core(20_000.0, 0.0), s)
+    # f'c 40 MPa in the builder's walls: limit = ratio x 40 (hand evaluation)
+    assert out.limit.to_numpy() == pytest.approx(ratio * 40.0)
+
+
 def test_end_zone_flag_on_earthquake_combinations_only_never_a_failure():
     # 60 000 kN on the box: sigma = N/A = 60e6 / ((2 x 6000 + 2 x 4000 - corner overlaps) x 250),
     # above 0.15 x 40 = 6 MPa (hand evaluation: A < 5.0e6 mm2 -> sigma > 12 MPa)

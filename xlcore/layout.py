@@ -411,12 +411,12 @@ PROJECT = SettingsSheet(
             "Elastic peak compression limit",
             "x f'c",
             Kind.NUMBER,
-            0.15,
+            None,
             "Earthquake combinations only: peak elastic compression above this fraction of f'c "
-            "calls for end-zone detailing (0.15 f'c, AS 3600:2018 Cl 14.6.2, from memory: "
-            "verify): a flag on the core stress check and the trigger of the Section 14 end-zone "
-            "rule of every pier (N*/A + M*/Z). Never a failing utilisation. ACI 318-19 18.10.6.3 "
-            "triggers special boundary elements at 0.2 f'c: set 0.2 under that standard.",
+            "calls for end-zone detailing: a flag on the core stress check and the trigger of the "
+            "Section 14 end-zone rule of every pier (N*/A + M*/Z). Never a failing utilisation. "
+            "Blank: the standard's trigger, 0.15 (AS 3600:2018 Cl 14.6.2, from memory: verify) or "
+            "0.2 (ACI 318-19 18.10.6.3, whose per-pier boundary-element rows always use 0.2).",
             min=0.05,
             max=1.0,
         ),

@@ -24,7 +24,7 @@ class Settings(BaseModel):
     phi_compression: float | None = None
     phi_simplified: float | None = None
     ends_restrained: str = "no"
-    compression_limit: float = 0.15
+    compression_limit: float | None = None  # blank: the standard's trigger (codes.compression_flag_ratio)
     earthquake_combinations: str = ""
 
     ductility: str = "limited ductile (mu = 2)"

@@ -19,7 +19,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore.checks import RULE_COLUMNS, empty_rules, finish_rules, plain, rule_rows, special_walls
-from xlcore.codes import as3600, get_standard
+from xlcore.codes import as3600, compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
 from xlcore.model import Settings
 from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
@@ -168,14 +168,14 @@ def check_section14(
     if working or not np.isnan(_end_bars(p)).all():
         # without working only pass / FAIL rows count: end zones give those only where their
         # bars are described (the trigger is never a failure)
-        _end_zones(p, actions, settings, rule)
+        _end_zones(p, actions, settings, rule, std)
     return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES)
 
 
-def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule) -> None:
+def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule, std: Standard) -> None:
     """The end-zone trigger under the earthquake combinations and, where exceeded, the ties."""
     quake = settings.earthquake
-    ratio = settings.compression_limit
+    ratio = compression_flag_ratio(settings.compression_limit, std)
     trigger = as3600.end_zone_trigger(p.fc.to_numpy(float), ratio)
     nan = np.full(len(p), np.nan)
     if not quake:

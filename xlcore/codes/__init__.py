@@ -5,6 +5,6 @@ over arrays of rows, each citing its clause; it knows nothing of workbooks.
 returns a registered one (AS 3600:2018, ACI 318-19). The checks receive a standard through the
 interface and import none by name (DEVELOPERS.md, "Adding a standard")."""
 
-from xlcore.codes.base import get_standard, register_standard, standard_names
+from xlcore.codes.base import compression_flag_ratio, get_standard, register_standard, standard_names
 
-__all__ = ["get_standard", "register_standard", "standard_names"]
+__all__ = ["compression_flag_ratio", "get_standard", "register_standard", "standard_names"]

@@ -457,3 +457,14 @@ def get_standard(name: str) -> Standard:
         target = getattr(importlib.import_module(module), attr)
         _REGISTRY[name] = target
     return target
+
+
+def compression_flag_ratio(setting: float | None, std: Standard) -> float:
+    """The fraction of f'c above which elastic peak compression under an earthquake combination
+    flags end-zone / boundary-element detailing: the Project setting where the engineer gave
+    one, otherwise the standard's own trigger (`boundary_stress_limits`: AS 3600 Cl 14.6 0.15,
+    ACI 318-19 18.10.6.3 0.2). Why: a blank setting must not leave an ACI project flagged at the
+    AS fraction."""
+    if setting is not None:
+        return float(setting)
+    return float(np.asarray(std.boundary_stress_limits(1.0)[0]))

@@ -16,7 +16,7 @@ from xlcore.checks import special_walls, worst_rule_text
 from xlcore.checks.advice import search_lines
 from xlcore.checks.lintels import preamble_aci as lintels_preamble_aci
 from xlcore.checks.section14 import not_applicable_reason
-from xlcore.codes import get_standard
+from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.mechanics import bars, stiffness
 from xlcore.model import Building
 from xlcore.results import ResultSheet
@@ -179,17 +179,18 @@ def stamp_lines(b: Building, now: dt.datetime) -> list[tuple[str, object]]:
 def _end_zone_line(stress: pd.DataFrame, s) -> tuple[str, str]:
     """The Cl 14.6 end-zone flag (ACI 318: the boundary-element flag) in one summary line: a flag,
     never a failing utilisation."""
-    label = get_standard(s.standard).symbols["flag_line"]
+    std = get_standard(s.standard)
+    label, ratio = std.symbols["flag_line"], compression_flag_ratio(s.compression_limit, std)
     quake = stress[stress.earthquake == "yes"]
     if quake.empty:
         return (label, "no earthquake combinations named on the Project sheet")
     hit = quake[quake.u_compression > 1.0]
     if hit.empty:
-        return (label, f"none: peak compression within {s.compression_limit:g} f'c")
+        return (label, f"none: peak compression within {ratio:g} f'c")
     w = hit.loc[hit.u_compression.idxmax()]
     return (
         label,
-        f"{len(hit)} wall cases over {s.compression_limit:g} f'c under earthquake combinations "
+        f"{len(hit)} wall cases over {ratio:g} f'c under earthquake combinations "
         f"(detailing required, not a failure); highest {w.wall_id} at {w.storey}, {w.combination}: "
         f"{w.sigma_max:.2f} MPa vs {w.limit:.2f} MPa",
     )
@@ -229,7 +230,8 @@ def section14_preamble(s) -> list[tuple[str, str]]:
         (
             "Rules",
             f"both faces: {s.eq_two_layers}; least ratio {s.eq_rho_min:g} each way; Hwe/tw at most "
-            f"{s.eq_slenderness:g}; end zones where N*/A + |M*|/Z exceeds {s.compression_limit:g} f'c "
+            f"{s.eq_slenderness:g}; end zones where N*/A + |M*|/Z exceeds "
+            f"{compression_flag_ratio(s.compression_limit, get_standard(s.standard)):g} f'c "
             f"under an earthquake combination, ties at most min({s.eq_tie_diameters:g} db, "
             f"{s.eq_tie_max:g} mm) (Project settings; from memory: verify)",
         ),
@@ -544,7 +546,12 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
                         "tension resultant per wall against its vertical steel in the tension zone "
                         f"(phi {std.phi_tension:.2f}, {sym['phi_table']}); fibres of 0.1 m along each pier",
                     ),
-                    ("Compression limit", f"{s.compression_limit:g} f'c (Project setting)"),
+                    (
+                        "Compression limit",
+                        f"{compression_flag_ratio(s.compression_limit, std):g} f'c "
+                        + ("(Project setting)" if s.compression_limit is not None else
+                           f"(blank setting: {std.clause('boundary_trigger')})"),
+                    ),
                 ],
                 scale_key="util",
             )
