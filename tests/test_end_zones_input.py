@@ -141,3 +141,22 @@ def test_zones_reach_the_pier_ends_they_name():
 )
 def test_location_forms(text, parsed):
     assert layout.parse_location(text) == parsed
+
+
+def test_aci_zone_bars_keep_the_boundary_element_gap_of_25_2_3(demo_book):
+    # Under ACI 318-19 an end zone is a boundary element: clear spacing of its longitudinal bars
+    # at least max(40 mm, 1.5 db), ACI 318-19 25.2.3 (in SI; 4/3 d_agg not given). Row 2: 6 x 28 mm
+    # bars over 2 faces = 3 a face, cover 30, 10 mm ties:
+    # 30 + 2 x 10 + 3 x 28 + 2 x max(40, 1.5 x 28 = 42) = 218 mm (hand evaluation), where AS 3600's
+    # 3 db gives 302 mm (the CASES above).
+    row = 2 + [s.key for s in layout.PROJECT.settings].index("standard")
+    aci = {(layout.PROJECT.name, f"B{row}"): "ACI 318-19"}
+    edit(demo_book, {**aci, at("length", 2): 250})
+    load(demo_book)  # 250 mm holds them under ACI (it would not under AS 3600: 302 mm)
+    edit(demo_book, {at("length", 2): 210})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    hits = [str(f) for f in info.value.findings.errors if str(f).startswith(where("length", 2))]
+    assert hits, [str(f) for f in info.value.findings.errors]
+    for words in ("found 210 mm", "at least 218 mm", "max(40 mm, 1.5 db) = 42 mm", "ACI 318-19 25.2.3"):
+        assert words in hits[0], hits[0]

@@ -12,8 +12,9 @@ import numpy as np
 import pandas as pd
 
 from xlcore import costs, geometry, layout
-from xlcore.codes import as3600
+from xlcore.codes import get_standard
 from xlcore.codes.as3600 import STANDARD_GRADES
+from xlcore.codes.base import Standard
 from xlcore.diagnostics import Findings, InputInvalid, cell_name, show
 from xlcore.layout import Column, Kind, TableSheet
 from xlcore.mechanics import bars, diaphragm
@@ -46,7 +47,8 @@ def build(raw: RawWorkbook) -> tuple[Building, Findings]:
     if unsound is not None:
         unsound |= _refused_opening_walls(tables["openings"], openings)
     # zones of a wall whose rows or openings were refused are checked once those are fixed
-    end_zones = _end_zones(tables.get("end_zones"), storeys, walls, geom, f, unsound)
+    std = get_standard(settings.standard)
+    end_zones = _end_zones(tables.get("end_zones"), storeys, walls, geom, f, unsound, std=std)
     actions = _member_actions(tables["member_actions"], storeys, geom, f, set() if complete else unsound)
     core = _core_actions(tables["core_actions"], storeys, geom if complete else None, f)
     _earthquake_names(raw.sheets.get(layout.PROJECT.name), settings, actions, core, f)
@@ -820,6 +822,8 @@ def _end_zones(
     geom: geometry.Geometry | None,
     f: Findings,
     unsound: set[str] | None = frozenset(),
+    *,
+    std: Standard,
 ) -> list[EndZone]:
     """End-zone rows checked against the walls, the storeys and (when the geometry is known)
     the piers' free edges: the location exists at every storey of the range, the zone is no
@@ -884,7 +888,7 @@ def _end_zones(
             tie_spacing=tie_s,
             row=rec.row,
         )
-        if _zone_problem(z, rng, storeys, runs, edges if geom is not None else None, df, f):
+        if _zone_problem(z, rng, storeys, runs, edges if geom is not None else None, df, f, std):
             continue
         spans[(z.wall_id, label)].append((rng[0], rng[1], rec.row))
         out.append(z)
@@ -899,7 +903,7 @@ def _end_zones(
                     f"{storeys[min(a1, _b1)].name}); expected each storey in one row only",
                 )
     if geom is not None and out and not any(e.sheet == t.name for e in f.errors):
-        _zones_apart(geom, out, storeys, df, f)
+        _zones_apart(geom, out, storeys, df, f, std)
     return out
 
 
@@ -907,7 +911,7 @@ def _nan(v: object) -> bool:
     return v is None or (isinstance(v, float) and math.isnan(v))
 
 
-def _zone_problem(z: EndZone, rng, storeys, runs, edges, df, f: Findings) -> bool:
+def _zone_problem(z: EndZone, rng, storeys, runs, edges, df, f: Findings, std: Standard) -> bool:
     """The first problem of one end-zone row at any storey of its range (reported), or False."""
     t = layout.END_ZONES
     for i in range(rng[0], rng[1] + 1):
@@ -950,23 +954,26 @@ def _zone_problem(z: EndZone, rng, storeys, runs, edges, df, f: Findings) -> boo
             )
             return True
         tie = z.tie_dia or 0.0
-        gap = float(as3600.wall_min_clear_gap(z.dia))
+        gap = float(std.zone_clear_gap(z.dia))
         need = float(bars.zone_min_length(z.bars, w.v_layers, z.dia, w.cover, tie, gap))
         if z.length < need - 1e-9:
             per_face = z.bars // w.v_layers
             f.error(
                 t.name,
                 _at(df, "length", z.row),
-                f"found {z.length:g} mm; expected at least {need:.0f} mm to hold {per_face} N{z.dia:g} "
-                f"a face at a clear gap of 3 db = {gap:.0f} mm (Cl 11.7) with cover {w.cover:g} mm"
-                + (f" and N{tie:g} ties" if tie else "")
+                f"found {z.length:g} mm; expected at least {need:.0f} mm to hold "
+                f"{per_face} {std.bar_name(z.dia)} a face at a clear gap of {std.zone_clear_gap_rule} = "
+                f"{gap:.0f} mm ({std.clause('zone_clear_gap')}) with cover {w.cover:g} mm"
+                + (f" and {std.bar_name(tie)} ties" if tie else "")
                 + f" (wall {z.wall_id!r} at {s.name}); fewer bars or a longer zone",
             )
             return True
     return False
 
 
-def _zones_apart(geom: geometry.Geometry, zones: list[EndZone], storeys, df, f: Findings) -> None:
+def _zones_apart(
+    geom: geometry.Geometry, zones: list[EndZone], storeys, df, f: Findings, std: Standard
+) -> None:
     """The two end zones of one pier must not overlap (their lengths add up to at most Lw)."""
     at = geometry.zones_at(zones, storeys)
     p = geom.piers
@@ -986,15 +993,15 @@ def _zones_apart(geom: geometry.Geometry, zones: list[EndZone], storeys, df, f: 
             "at most the pier's length",
         )
     if not seen:
-        _zone_neighbours(geometry.with_zones(p, at), at, df, f)
+        _zone_neighbours(geometry.with_zones(p, at), at, df, f, std)
 
 
-def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
+def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings, std: Standard) -> None:
     """Where no field bar is left between a zone and the other side of its pier (the field is
     one span: `bars.layout`), the zone's innermost bar and the bar facing it (the other zone's
-    innermost bar, or the wall's edge bar) at least the clear gap of the larger bar apart (3 db,
-    Cl 11.7 as transcribed). Gaps to field bars follow the idealised even layout and are not
-    judged here."""
+    innermost bar, or the wall's edge bar) at least the standard's zone clear gap of the larger
+    bar apart (AS 3600: 3 db, Cl 11.7 as transcribed; ACI 318-19: 25.2.3). Gaps to field bars
+    follow the idealised even layout and are not judged here."""
     zoned = piers[(piers.za_n > 0) | (piers.zb_n > 0)]
     if zoned.empty:
         return
@@ -1024,7 +1031,7 @@ def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
         order = np.argsort(d[i][live])
         pos, dia, zone = d[i][live][order], dia_of[i][live][order], in_zone[live][order]
         clear = np.diff(pos) - (dia[1:] + dia[:-1]) / 2
-        need = as3600.wall_min_clear_gap(np.maximum(dia[1:], dia[:-1]))
+        need = std.zone_clear_gap(np.maximum(dia[1:], dia[:-1]))
         bad = np.flatnonzero((clear < need - 1e-6) & (zone[1:] | zone[:-1]))
         if not bad.size:
             continue
@@ -1038,8 +1045,9 @@ def _zone_neighbours(piers: pd.DataFrame, at: dict, df, f: Findings) -> None:
             layout.END_ZONES.name,
             _at(df, "length", z.row),
             f"found {z.length:g} mm; in pier {rec.pier_id} at {rec.storey} the bar beside this zone's "
-            f"innermost bar is {clear[j]:.0f} mm clear of it; expected at least 3 db = {need[j]:.0f} mm "
-            "(Cl 11.7): a shorter zone, or a longer one holding that bar",
+            f"innermost bar is {clear[j]:.0f} mm clear of it; expected at least "
+            f"{std.zone_clear_gap_rule} = {need[j]:.0f} mm ({std.clause('zone_clear_gap')}): a shorter "
+            "zone, or a longer one holding that bar",
         )
 
 

@@ -385,7 +385,7 @@ def _zone_options(
     layers = var.v_layers.to_numpy(float)
     d, count = np.nan_to_num(dia), np.nan_to_num(n)
     need = bars.zone_min_length(
-        count, layers, d, var.cover.to_numpy(float), 0.0, std.min_clear_gap(d)
+        count, layers, d, var.cover.to_numpy(float), 0.0, std.zone_clear_gap(d)
     )
     length = np.ceil(need / ZONE_ROUND) * ZONE_ROUND
     area = count * bars.bar_area(d)
@@ -395,8 +395,8 @@ def _zone_options(
             np.nan_to_num(var[f"z{side}_dia"].to_numpy(float))
         )
         more &= area > now + 1e-9
-    # the two zones' innermost bars (no ties) stay 3 db clear of each other: 2 L <= Lw - 3 db
-    room = (var.Lw.to_numpy(float) - std.min_clear_gap(d)) / 2
+    # the two zones' innermost bars (no ties) keep the standard's zone clear gap: 2 L <= Lw - gap
+    room = (var.Lw.to_numpy(float) - std.zone_clear_gap(d)) / 2
     fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
     keep[sel] = fits[sel]
     for side in "ab":

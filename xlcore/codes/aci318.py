@@ -315,6 +315,14 @@ def min_clear_spacing(db, aggregate=None):
     return out if aggregate is None else np.maximum(out, 4.0 / 3.0 * _a(aggregate))
 
 
+def boundary_clear_spacing(db, aggregate=None):
+    """Least clear spacing of the longitudinal bars of columns, struts and boundary elements in
+    walls: max(40 mm, 1.5 db, 4/3 d_agg), 25.2.3 (SI form of 1.5 in.; aggregate optional).
+    Why apart from 25.2.1: an end zone's bars are a boundary element's, the web's are not."""
+    out = np.maximum(40.0, 1.5 * _a(db))
+    return out if aggregate is None else np.maximum(out, 4.0 / 3.0 * _a(aggregate))
+
+
 # ---------------------------------------------------------------- axial load and bending
 
 
@@ -688,6 +696,7 @@ _CLAUSES = {
     "rho_h_min": "ACI 318-19 11.6.1 Table 11.6.1 / 11.6.2(b)",
     "spacing": "ACI 318-19 11.7.2.1 / 11.7.3.1",
     "clear_gap": "ACI 318-19 25.2.1",
+    "zone_clear_gap": "ACI 318-19 25.2.3",
     "layers": "ACI 318-19 11.7.2.3 (two layers above 250 mm)",
     "beam_flexure": "ACI 318-19 22.2 / 22.3, Table 21.2.2",
     "beam_shear": "ACI 318-19 Table 22.5.5.1, 22.5.8.5.3, 22.5.1.2",
@@ -908,6 +917,11 @@ class ACI318:
 
     def min_clear_gap(self, db):
         return min_clear_spacing(db)
+
+    def zone_clear_gap(self, db):
+        return boundary_clear_spacing(db)
+
+    zone_clear_gap_rule = "max(40 mm, 1.5 db)"
 
     def single_layer_allowed(self, tw, hwe):
         return ~two_layers_required(tw)

@@ -47,6 +47,7 @@ _CLAUSES = {
     "rho_h_min": "AS 3600:2018 Cl 11.7 horizontal ratio",
     "spacing": "AS 3600:2018 Cl 11.7 spacing",
     "clear_gap": "AS 3600:2018 Cl 11.7 clear gap",
+    "zone_clear_gap": "AS 3600:2018 Cl 11.7 clear gap",
     "layers": "AS 3600:2018 Cl 11.7 one layer (from memory)",
     "beam_flexure": "AS 3600:2018 Cl 8.1 flexure",
     "beam_shear": "AS 3600:2018 Cl 8.2 shear (simplified)",
@@ -258,6 +259,12 @@ class AS3600:
 
     def min_clear_gap(self, db):
         return as3600.wall_min_clear_gap(db)
+
+    def zone_clear_gap(self, db):
+        """End-zone bars keep the wall's clear gap (Cl 11.7 as transcribed)."""
+        return as3600.wall_min_clear_gap(db)
+
+    zone_clear_gap_rule = "3 db"
 
     def single_layer_allowed(self, tw, hwe):
         tw = np.asarray(tw, dtype=float)

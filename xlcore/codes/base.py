@@ -54,6 +54,7 @@ CLAUSE_KEYS = (
     "rho_h_min",
     "spacing",
     "clear_gap",
+    "zone_clear_gap",
     "layers",
     "beam_flexure",
     "beam_shear",
@@ -316,6 +317,14 @@ class Standard(Protocol):
     def min_clear_gap(self, db) -> np.ndarray:
         """Least clear gap between parallel bars [mm]."""
         ...
+
+    def zone_clear_gap(self, db) -> np.ndarray:
+        """Least clear gap between the vertical bars of an end zone / boundary element [mm]
+        (ACI 318 sets a larger one there than between a wall's web bars)."""
+        ...
+
+    zone_clear_gap_rule: str
+    """The zone gap rule in words for messages ("3 db", "max(40 mm, 1.5 db)")."""
 
     def single_layer_allowed(self, tw, hwe) -> np.ndarray:
         """Where one layer of bars is permitted."""
