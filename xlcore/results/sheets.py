@@ -446,7 +446,8 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
                 " (checked against the ACI design handbook MNL-17(21) Shear Wall Example 2 where it "
                 "reaches; other values from secondary sources or memory: verify; docs/engineering-basis.md)"
                 if special_walls.applies(s)
-                else " (rules and values from memory and secondary sources: verify; docs/engineering-basis.md)"
+                else " (rules and values from memory and secondary sources: verify; "
+                "docs/engineering-basis.md)"
             ),
             results.SPECIAL_WALL_COLUMNS if special_walls.applies(s) else results.SECTION14_COLUMNS,
             section14,
