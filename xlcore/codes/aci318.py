@@ -371,7 +371,10 @@ def net_tensile_strain(c, dt, eps_cu=EPS_CU):
     """epsilon_t = eps_cu (dt - c) / c: strain in the extreme tension bar at nominal strength
     (22.2.1.2 linear strains), dt its depth, c the neutral-axis depth [mm]; tension positive."""
     c = _a(c)
-    return eps_cu * (_a(dt) - c) / c
+    # c = 0 (a section with no steel, no compression zone) gives +inf: tension-controlled, the
+    # limit of the expression, which Table 21.2.2 takes without a warning
+    with np.errstate(divide="ignore"):
+        return eps_cu * (_a(dt) - c) / c
 
 
 def phi_axial_flexure(eps_t, fy, Es=ES, spiral=False):
