@@ -72,6 +72,13 @@ def test_fast_envelope_equals_general_path(seed, monkeypatch):
     shear, piers, axial, detailing, s14 = _tables(seed)
     fast = env.envelope(shear, piers, axial, detailing, s14)
     fast_pc = env.pier_checks(shear, axial, detailing, s14, fast)
+    # the candidates made once for both, as the pipeline does
+    cand = env.candidates(shear, axial, detailing, s14)
+    shared = env.envelope(shear, piers, axial, detailing, s14, cand=cand)
+    pd.testing.assert_frame_equal(shared, fast, check_exact=True)
+    pd.testing.assert_frame_equal(
+        env.pier_checks(shear, axial, detailing, s14, shared, cand=cand), fast_pc, check_exact=True
+    )
     monkeypatch.setattr(env, "_codes", lambda cand: None)  # the general path (text keys, pivot)
     general = env.envelope(shear, piers, axial, detailing, s14)
     general_pc = env.pier_checks(shear, axial, detailing, s14, general)

@@ -5,6 +5,7 @@ tables made from the checks' tables (no check runs here)."""
 from __future__ import annotations
 
 from collections.abc import Mapping
+from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
@@ -19,17 +20,22 @@ def pier_checks(
     detailing: pd.DataFrame,
     section14: pd.DataFrame | None,
     order: pd.DataFrame,
+    cand: Candidates | None = None,
 ) -> pd.DataFrame:
     """Per storey x pier x check the worst row of each check the summary envelopes (shear,
     axial + bending, Cl 11.5, detailing, Section 14: its pass / FAIL rules), in the order of
     `order` (storey, pier_id) and of `UTIL_COLUMN`: storey, pier_id, check, key (the check's
     summary column, the same name whatever the standard calls the check), util, status,
-    clause, combination, structural (False for the compliance checks)."""
-    cand = _candidates(shear, axial, detailing, section14)
-    cand = cand[np.isfinite(pd.to_numeric(cand.util, errors="coerce").to_numpy(dtype=float))]
+    clause, combination, structural (False for the compliance checks). `cand`: `candidates` of
+    the same tables, where the caller made them for `envelope` too."""
+    cand = cand if cand is not None else candidates(shear, axial, detailing, section14)
+    finite = np.isfinite(pd.to_numeric(cand.rows.util, errors="coerce").to_numpy(dtype=float))
+    codes = None if cand.codes is None else tuple(x[finite] for x in cand.codes[:2]) + cand.codes[2:]
+    cand = cand.rows[finite]
     if len(cand):
         cand = cand.assign(util=cand.util.astype(float))
-        codes = _codes(cand)
+        # grouping by the codes of these rows groups as `_codes(cand)` would: sort=False orders
+        # the groups by first appearance in the rows given, whatever the codes' numbering
         by = ["storey", "pier_id", "check"] if codes is None else codes[0] * len(codes[2]) + codes[1]
         cand = cand.loc[cand.groupby(by, sort=False).util.idxmax()]
     key = [UTIL_COLUMN.get(c, c) for c in cand.check]
@@ -87,6 +93,31 @@ def count_lines(
         )
     )
     return lines
+
+
+@dataclass(frozen=True)
+class Candidates:
+    """Every check's rows in one shape (`_candidates`) with their integer codes (`_codes`),
+    made once for both `envelope` and `pier_checks` (the L tower: 720 000 rows)."""
+
+    rows: pd.DataFrame
+    codes: tuple[np.ndarray, np.ndarray, np.ndarray] | None
+
+
+def candidates(
+    shear: pd.DataFrame,
+    axial: pd.DataFrame | None,
+    detailing: pd.DataFrame | None,
+    section14: pd.DataFrame | None = None,
+) -> Candidates:
+    """The summary's candidates of the checks' tables, for `envelope` and `pier_checks`."""
+    rows = _candidates(
+        shear,
+        axial if axial is not None else pd.DataFrame(),
+        detailing if detailing is not None else pd.DataFrame(),
+        section14,
+    )
+    return Candidates(rows, _codes(rows) if len(rows) else None)
 
 
 def _candidates(
@@ -201,6 +232,7 @@ def envelope(
     detailing: pd.DataFrame | None = None,
     section14: pd.DataFrame | None = None,
     earthquake: str = "Section 14",
+    cand: Candidates | None = None,
 ) -> pd.DataFrame:
     """Governing structural check and worst combination per storey x pier, with each check's
     worst utilisation beside it; piers without actions are listed as not checked.
@@ -210,16 +242,12 @@ def envelope(
     status FAIL, but never becomes the governing check, whose utilisation is the one the
     engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
     described) shows as 'check' beside it. `earthquake` names the earthquake rules in the notes
-    (the standard's `symbols["earthquake_rules"]`)."""
+    (the standard's `symbols["earthquake_rules"]`). `cand`: `candidates` of the same tables,
+    where the caller makes them once for `pier_checks` too."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
-    cand = _candidates(
-        shear,
-        axial if axial is not None else pd.DataFrame(),
-        detailing if detailing is not None else pd.DataFrame(),
-        section14,
-    )
+    cand = cand if cand is not None else candidates(shear, axial, detailing, section14)
+    cand, codes = cand.rows, cand.codes
     keys = ["storey", "pier_id"]
-    codes = _codes(cand) if len(cand) else None
     if codes is not None:
         structural = cand[~np.isin(codes[2], COMPLIANCE)[codes[1]]]
     else:
