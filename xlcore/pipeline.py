@@ -31,6 +31,7 @@ from xlcore.progress import SILENT, Reporter
 from xlcore.results import ResultSheet
 from xlcore.results.envelope import (  # noqa: F401  (CHECK_SECTION14, worst_per_check re-exported)
     CHECK_SECTION14,
+    candidates,
     envelope,
     pier_checks,
     with_cheapest_fix,
@@ -151,10 +152,11 @@ def compute(
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe, shear=shear)
         section14 = check_section14(piers, acts, s, hwe)
-        summary = envelope(
-            shear, piers, axial, detailing, section14, get_standard(s.standard).symbols["earthquake_rules"]
-        )
-        checks = pier_checks(shear, axial, detailing, section14, summary)
+        cand = candidates(shear, axial, detailing, section14)  # once for both tables below
+        rules = get_standard(s.standard).symbols["earthquake_rules"]
+        summary = envelope(shear, piers, axial, detailing, section14, rules, cand=cand)
+        checks = pier_checks(shear, axial, detailing, section14, summary, cand=cand)
+        del cand  # not held through the advice search (memory peaks there)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())
     with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):

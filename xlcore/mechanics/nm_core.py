@@ -137,8 +137,9 @@ def _frame(a: Assembly, idx, theta):
     """Compression direction n and, per fibre, bar and vertex, the depth below the extreme
     compressive fibre along n."""
     nx, ny = -np.sin(theta)[:, None], np.cos(theta)[:, None]
-    top = np.nanmax(a.vx[idx] * nx + a.vy[idx] * ny, axis=1)[:, None]
-    bottom = np.nanmin(a.vx[idx] * nx + a.vy[idx] * ny, axis=1)[:, None]
+    along = a.vx[idx] * nx + a.vy[idx] * ny  # once for both (the same numbers)
+    top = np.nanmax(along, axis=1)[:, None]
+    bottom = np.nanmin(along, axis=1)[:, None]
     return nx, ny, top, bottom
 
 
@@ -168,21 +169,24 @@ def frame(a: Assembly, idx, theta) -> Frame:
     theta = np.asarray(theta, dtype=float)
     nx, ny, top, _ = _frame(a, idx, theta)
     conc = a.alpha2[idx] * a.fc[idx]
-    live = a.fa[idx] > 0
+    # each per-case array gathered once (cases x fibres; the core checks' frames are large)
+    fa, gamma, fx, fy, bx, by = (g[idx] for g in (a.fa, a.gamma, a.fx, a.fy, a.bx, a.by))
+    live = fa > 0
+    xc, yc = a.xc[idx][:, None], a.yc[idx][:, None]
     return Frame(
-        depth=top - (a.fx[idx] * nx + a.fy[idx] * ny),
+        depth=top - (fx * nx + fy * ny),
         ext=np.abs(a.fe_ux[idx] * nx + a.fe_uy[idx] * ny) + np.abs(a.fe_vx[idx] * nx + a.fe_vy[idx] * ny),
-        gamma=a.gamma[idx],
-        full=conc * a.fa[idx],
-        fy=a.fy[idx] - a.yc[idx][:, None],
-        fx=a.fx[idx] - a.xc[idx][:, None],
-        bdepth=top - (a.bx[idx] * nx + a.by[idx] * ny),
+        gamma=gamma,
+        full=conc * fa,
+        fy=fy - yc,
+        fx=fx - xc,
+        bdepth=top - (bx * nx + by * ny),
         ba=a.ba[idx],
         fsy=a.fsy[idx],
-        bar_gamma=np.min(np.where(live, a.gamma[idx], np.inf), axis=1, keepdims=True),
+        bar_gamma=np.min(np.where(live, gamma, np.inf), axis=1, keepdims=True),
         bar_conc=np.min(np.where(live, conc, np.inf), axis=1, keepdims=True),
-        by=a.by[idx] - a.yc[idx][:, None],
-        bx=a.bx[idx] - a.xc[idx][:, None],
+        by=by - yc,
+        bx=bx - xc,
         eps_cu=a.eps_cu,
         Es=a.Es,
     )

@@ -5,6 +5,7 @@ tables made from the checks' tables (no check runs here)."""
 from __future__ import annotations
 
 from collections.abc import Mapping
+from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
@@ -19,17 +20,24 @@ def pier_checks(
     detailing: pd.DataFrame,
     section14: pd.DataFrame | None,
     order: pd.DataFrame,
+    cand: Candidates | None = None,
 ) -> pd.DataFrame:
     """Per storey x pier x check the worst row of each check the summary envelopes (shear,
     axial + bending, Cl 11.5, detailing, Section 14: its pass / FAIL rules), in the order of
     `order` (storey, pier_id) and of `UTIL_COLUMN`: storey, pier_id, check, key (the check's
     summary column, the same name whatever the standard calls the check), util, status,
-    clause, combination, structural (False for the compliance checks)."""
-    cand = _candidates(shear, axial, detailing, section14)
-    cand = cand[np.isfinite(pd.to_numeric(cand.util, errors="coerce").to_numpy(dtype=float))]
+    clause, combination, structural (False for the compliance checks). `cand`: `candidates` of
+    the same tables, where the caller made them for `envelope` too."""
+    cand = cand if cand is not None else candidates(shear, axial, detailing, section14)
+    finite = np.isfinite(pd.to_numeric(cand.rows.util, errors="coerce").to_numpy(dtype=float))
+    codes = None if cand.codes is None else tuple(x[finite] for x in cand.codes[:2]) + cand.codes[2:]
+    cand = cand.rows[finite]
     if len(cand):
         cand = cand.assign(util=cand.util.astype(float))
-        cand = cand.loc[cand.groupby(["storey", "pier_id", "check"], sort=False).util.idxmax()]
+        # grouping by the codes of these rows groups as `_codes(cand)` would: sort=False orders
+        # the groups by first appearance in the rows given, whatever the codes' numbering
+        by = ["storey", "pier_id", "check"] if codes is None else codes[0] * len(codes[2]) + codes[1]
+        cand = cand.loc[cand.groupby(by, sort=False).util.idxmax()]
     key = [UTIL_COLUMN.get(c, c) for c in cand.check]
     cand = cand.assign(key=key, structural=~cand.check.isin(COMPLIANCE))
     at = order[["storey", "pier_id"]].drop_duplicates().reset_index(drop=True)
@@ -87,6 +95,31 @@ def count_lines(
     return lines
 
 
+@dataclass(frozen=True)
+class Candidates:
+    """Every check's rows in one shape (`_candidates`) with their integer codes (`_codes`),
+    made once for both `envelope` and `pier_checks` (the L tower: 720 000 rows)."""
+
+    rows: pd.DataFrame
+    codes: tuple[np.ndarray, np.ndarray, np.ndarray] | None
+
+
+def candidates(
+    shear: pd.DataFrame,
+    axial: pd.DataFrame | None,
+    detailing: pd.DataFrame | None,
+    section14: pd.DataFrame | None = None,
+) -> Candidates:
+    """The summary's candidates of the checks' tables, for `envelope` and `pier_checks`."""
+    rows = _candidates(
+        shear,
+        axial if axial is not None else pd.DataFrame(),
+        detailing if detailing is not None else pd.DataFrame(),
+        section14,
+    )
+    return Candidates(rows, _codes(rows) if len(rows) else None)
+
+
 def _candidates(
     shear: pd.DataFrame, axial: pd.DataFrame, detailing: pd.DataFrame, section14: pd.DataFrame | None = None
 ) -> pd.DataFrame:
@@ -103,16 +136,23 @@ def _candidates(
         "status",
         "clause",
         "note",
+        "check_no",
     ]
     parts = [
         shear.assign(
-            check=CHECK_SHEAR, demand=shear.v.abs(), capacity=shear.phi_vu, unit="kN", note=shear.advice
+            check=CHECK_SHEAR,
+            check_no=CHECKS.index(CHECK_SHEAR),
+            demand=shear.v.abs(),
+            capacity=shear.phi_vu,
+            unit="kN",
+            note=shear.advice,
         )[cols]
     ]
     if len(axial):
         parts.append(
             axial.assign(
                 check=CHECK_NM,
+                check_no=CHECKS.index(CHECK_NM),
                 demand=axial.m_design,
                 capacity=axial.m_ray,  # M where the ray from the origin meets the curve
                 unit="kNm",
@@ -123,6 +163,7 @@ def _candidates(
         parts.append(
             s.assign(
                 check=CHECK_SIMPLIFIED,
+                check_no=CHECKS.index(CHECK_SIMPLIFIED),
                 demand=s.n_end,  # N* at the pier's more compressed end, per length x Lw
                 capacity=s.phi_nu_s,
                 unit="kN",
@@ -136,6 +177,7 @@ def _candidates(
         parts.append(
             detailing.assign(
                 check=CHECK_DETAILING,
+                check_no=CHECKS.index(CHECK_DETAILING),
                 combination="(all)",
                 demand=detailing.value,
                 capacity=detailing.limit,
@@ -149,6 +191,7 @@ def _candidates(
         parts.append(
             e.assign(
                 check=CHECK_SECTION14,
+                check_no=CHECKS.index(CHECK_SECTION14),
                 combination="(all)",
                 demand=e.value,
                 capacity=e.limit,
@@ -165,6 +208,9 @@ CHECK_DETAILING = "detailing Cl 11.7"
 
 
 CHECK_SECTION14 = "earthquake Section 14"
+
+
+CHECKS = (CHECK_SHEAR, CHECK_NM, CHECK_SIMPLIFIED, CHECK_DETAILING, CHECK_SECTION14)  # `check_no` of each
 
 
 COMPLIANCE = (CHECK_DETAILING, CHECK_SECTION14)  # reported beside the governing check, never it
@@ -186,6 +232,7 @@ def envelope(
     detailing: pd.DataFrame | None = None,
     section14: pd.DataFrame | None = None,
     earthquake: str = "Section 14",
+    cand: Candidates | None = None,
 ) -> pd.DataFrame:
     """Governing structural check and worst combination per storey x pier, with each check's
     worst utilisation beside it; piers without actions are listed as not checked.
@@ -195,17 +242,29 @@ def envelope(
     status FAIL, but never becomes the governing check, whose utilisation is the one the
     engineer needs to see. A Section 14 requirement xlcore cannot verify (end-zone bars not
     described) shows as 'check' beside it. `earthquake` names the earthquake rules in the notes
-    (the standard's `symbols["earthquake_rules"]`)."""
+    (the standard's `symbols["earthquake_rules"]`). `cand`: `candidates` of the same tables,
+    where the caller makes them once for `pier_checks` too."""
     cols = [c.key for c in results.SUMMARY_COLUMNS]
-    cand = _candidates(
-        shear,
-        axial if axial is not None else pd.DataFrame(),
-        detailing if detailing is not None else pd.DataFrame(),
-        section14,
-    )
+    cand = cand if cand is not None else candidates(shear, axial, detailing, section14)
+    cand, codes = cand.rows, cand.codes
     keys = ["storey", "pier_id"]
-    structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
-    if len(structural):
+    if codes is not None:
+        structural = cand[~np.isin(codes[2], COMPLIANCE)[codes[1]]]
+    else:
+        structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
+    if len(structural) and codes is not None:
+        # the fast path (integer codes for storey x pier x check, a numpy table of maxima); the
+        # same table as the pivot below, which factorised the text keys over and over
+        g, c, names = codes
+        is_structural = ~np.isin(names, COMPLIANCE)[c]
+        at = structural.groupby(g[is_structural], sort=False).util.idxmax()
+        worst = structural.loc[at]
+        per_check = _max_per_check(cand.util.to_numpy(dtype=float), g, c, len(names))
+        g_worst = g[cand.index.get_indexer(at.to_numpy())]
+        worst = worst.reset_index(drop=True).assign(
+            **{UTIL_COLUMN.get(n, n): per_check[g_worst, j] for j, n in enumerate(names)}
+        )
+    elif len(structural):
         worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
         per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
         per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
@@ -228,7 +287,7 @@ def envelope(
         (CHECK_DETAILING, "detailing", "u_detailing", "detailing fails: "),
         (CHECK_SECTION14, "section14", "u_section14", f"{earthquake} fails: "),
     ):
-        u, fails, rule = _compliance(cand, table[keys], check)
+        u, fails, rule = _compliance(cand, table[keys], check, codes)
         table[util_col] = u
         text = np.array(
             [
@@ -262,18 +321,56 @@ def envelope(
     return table[cols].reset_index(drop=True)
 
 
+def _codes(cand: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+    """Integer codes of the candidates' storey x pier (numbered in order of first appearance,
+    as `groupby(sort=False)` numbers them) and of their check (`check_no`), with the check
+    names (`CHECKS`): grouping by them groups as by the text columns, without factorising the
+    text again for every group-by. None where a key is missing (NaN), which a group-by by the
+    text would drop (the caller then takes the general path)."""
+    s, _ = pd.factorize(cand.storey)
+    p, pier = pd.factorize(cand.pier_id)
+    c = cand.check_no.to_numpy(dtype=np.int64)  # set with the check's name in `_candidates`
+    if (s < 0).any() or (p < 0).any():
+        return None
+    g, _ = pd.factorize(s.astype(np.int64) * max(len(pier), 1) + p)
+    return g, c, np.asarray(CHECKS, dtype=object)
+
+
+def _max_per_check(u: np.ndarray, g: np.ndarray, c: np.ndarray, n_checks: int) -> np.ndarray:
+    """Per storey x pier code (row) and check code (column) the largest utilisation, NaN
+    ignored and NaN where a pair has no finite value (as the pivot's 'max' and group-by max)."""
+    out = np.full((int(g.max()) + 1 if len(g) else 0, n_checks), -np.inf)
+    ok = ~np.isnan(u)
+    np.maximum.at(out, (g[ok], c[ok]), u[ok])
+    seen = np.zeros(out.shape, dtype=bool)
+    seen[g[ok], c[ok]] = True
+    out[~seen] = np.nan
+    return out
+
+
 def _compliance(
-    cand: pd.DataFrame, at: pd.DataFrame, check: str
+    cand: pd.DataFrame, at: pd.DataFrame, check: str, codes: tuple | None = None
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Per row of `at` (storey, pier): the worst utilisation of a compliance check's rules,
-    whether any fails, and the worst rule's name (NaN, False, '' where it has no rows)."""
+    whether any fails, and the worst rule's name (NaN, False, '' where it has no rows).
+    `codes` (`_codes(cand)`) group by integers instead of the text keys (the same groups)."""
     keys = ["storey", "pier_id"]
-    rows = cand[cand.check == check] if len(cand) else cand
+    if codes is not None:
+        mine = codes[1] == CHECKS.index(check)
+        rows, g = cand[mine], codes[0][mine]
+    else:
+        rows, g = (cand[cand.check == check] if len(cand) else cand), None
     if not len(rows):
         n = len(at)
         return np.full(n, np.nan), np.zeros(n, dtype=bool), np.full(n, "", dtype=object)
-    worst = rows.loc[rows.groupby(keys, sort=False).util.idxmax()][[*keys, "util", "note"]]
-    fails = rows[rows.status == results.FAIL].groupby(keys, sort=False).size().rename("n_fail").reset_index()
+    at_worst = rows.groupby(keys if g is None else g, sort=False).util.idxmax()
+    worst = rows.loc[at_worst][[*keys, "util", "note"]]
+    failing = (rows.status == results.FAIL).to_numpy()
+    if g is None:
+        fails = rows[failing].groupby(keys, sort=False).size().rename("n_fail").reset_index()
+    else:  # one row of keys per failing storey x pier, with its count (the same table)
+        _, first, n = np.unique(g[failing], return_index=True, return_counts=True)
+        fails = rows[failing][keys].iloc[first].assign(n_fail=n)
     m = at.merge(worst, on=keys, how="left").merge(fails, on=keys, how="left")
     return (
         m.util.to_numpy(dtype=float),
