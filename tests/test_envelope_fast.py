@@ -97,3 +97,32 @@ def test_max_per_check_matches_pandas_max():
     got = env._max_per_check(u, g, c, 2)
     ref = pd.Series(u).groupby([g, c]).max().unstack().reindex(index=range(3), columns=range(2))
     np.testing.assert_array_equal(got, ref.to_numpy())
+
+
+@pytest.mark.parametrize("general_path", [False, True])
+def test_a_pier_with_no_finite_ratio_is_summarised_not_refused(general_path, monkeypatch):
+    """pandas 3's group-by idxmax raises on a group with only NaN; a pier whose shear and
+    axial ratios are all NaN (no number to judge) must still get its summary row, its worst
+    utilisation NaN, and the other piers' rows must be those of the same tables without it."""
+    if general_path:
+        monkeypatch.setattr(env, "_codes", lambda cand: None)
+    shear, piers, axial, detailing, s14 = _tables(3)
+    storey, pier = shear.storey.iloc[0], shear.pier_id.iloc[0]
+    mine = ((shear.storey == storey) & (shear.pier_id == pier)).to_numpy()
+    shear.loc[mine, "util"] = np.nan
+    axial = axial.assign(
+        util=np.where(mine, np.nan, axial.util),
+        status_s=np.where(mine, results.NOT_APPLICABLE, axial.status_s),
+    )
+    got = env.envelope(shear, piers, axial, detailing, s14)
+    row = got[(got.storey == storey) & (got.pier_id == pier)]
+    assert len(row) == 1 and np.isnan(row.u_shear.iloc[0])
+    env.pier_checks(shear, axial, detailing, s14, got)  # no ValueError either
+    # every other pier's row is unchanged by that pier's NaN: the same as with the pier's rows
+    # left out of the tables
+    keep = ~mine
+    ref = env.envelope(shear[keep], piers, axial[keep], detailing, s14)
+    others = ~((got.storey == storey) & (got.pier_id == pier))
+    pd.testing.assert_frame_equal(
+        got[others].reset_index(drop=True), ref[others.to_numpy()].reset_index(drop=True), check_exact=True
+    )

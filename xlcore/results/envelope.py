@@ -104,6 +104,13 @@ class Candidates:
     codes: tuple[np.ndarray, np.ndarray, np.ndarray] | None
 
 
+def _worst_at(util: pd.Series, by) -> pd.Series:
+    """Index label of each group's largest utilisation, groups in order of first appearance.
+    NaN never wins; a group with no number at all gives its first row (its utilisation stays
+    NaN in the table) where pandas 3's idxmax refuses an all-NaN group with a ValueError."""
+    return util.astype(float).fillna(-np.inf).groupby(by, sort=False).idxmax()
+
+
 def candidates(
     shear: pd.DataFrame,
     axial: pd.DataFrame | None,
@@ -257,7 +264,7 @@ def envelope(
         # same table as the pivot below, which factorised the text keys over and over
         g, c, names = codes
         is_structural = ~np.isin(names, COMPLIANCE)[c]
-        at = structural.groupby(g[is_structural], sort=False).util.idxmax()
+        at = _worst_at(structural.util, g[is_structural])
         worst = structural.loc[at]
         per_check = _max_per_check(cand.util.to_numpy(dtype=float), g, c, len(names))
         g_worst = g[cand.index.get_indexer(at.to_numpy())]
@@ -265,7 +272,7 @@ def envelope(
             **{UTIL_COLUMN.get(n, n): per_check[g_worst, j] for j, n in enumerate(names)}
         )
     elif len(structural):
-        worst = structural.loc[structural.groupby(keys, sort=False).util.idxmax()]
+        worst = structural.loc[_worst_at(structural.util, [structural[k] for k in keys])]
         per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
         per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
         worst = worst.merge(per_check, on=keys, how="left")
@@ -363,7 +370,7 @@ def _compliance(
     if not len(rows):
         n = len(at)
         return np.full(n, np.nan), np.zeros(n, dtype=bool), np.full(n, "", dtype=object)
-    at_worst = rows.groupby(keys if g is None else g, sort=False).util.idxmax()
+    at_worst = _worst_at(rows.util, [rows[k] for k in keys] if g is None else g)
     worst = rows.loc[at_worst][[*keys, "util", "note"]]
     failing = (rows.status == results.FAIL).to_numpy()
     if g is None:
