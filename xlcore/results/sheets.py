@@ -443,8 +443,8 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
                 else f"{s.standard} Section 14"
             )
             + (
-                " (checked against the ACI design handbook MNL-17(21) Shear Wall Example 2 where it "
-                "reaches; other values from secondary sources or memory: verify; docs/engineering-basis.md)"
+                " (checked against ACI MNL-17(21) Shear Wall Example 2; the rest: verify, "
+                "docs/engineering-basis.md)"
                 if special_walls.applies(s)
                 else " (rules and values from memory and secondary sources: verify; "
                 "docs/engineering-basis.md)"
