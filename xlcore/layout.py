@@ -427,9 +427,10 @@ PROJECT = SettingsSheet(
             Kind.TEXT,
             "",
             "Names of the load combinations that include earthquake actions, separated by "
-            "commas (blank: none). Only these get the 0.15 f'c end-zone detailing flag of the "
-            "core stress check and the Section 14 end-zone rule of the piers (AS 3600:2018 "
-            "Cl 14.6, a trigger for detailing, not a capacity).",
+            "commas (blank: none). Only these get the end-zone detailing flag of the core stress "
+            "check (at the Elastic peak compression limit) and the earthquake rules of the piers "
+            "(AS 3600:2018 Section 14 or ACI 318-19 Chapter 18); the flag is a trigger for "
+            "detailing, not a capacity.",
         ),
         Setting(
             "ductility",
