@@ -12,6 +12,7 @@ import hashlib
 import io
 import re
 import warnings
+from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -81,24 +82,29 @@ def _read_workbook(path: Path) -> RawWorkbook:
     large sheets) after a scan of each sheet's XML for what it does not give: error values,
     formulas saved without a value, hidden rows and merged cells. A sheet whose cells lie far
     beyond its rows (a stray cell at XFD1048576, say) is read with openpyxl's streaming reader,
-    which does not lay out the empty grid in memory."""
+    which does not lay out the empty grid in memory. The compiled reader reads a sheet in a
+    worker thread as soon as its extent is known to be compact, while the rest of the scans
+    run here (`_Calamine`)."""
     path = Path(path)
     findings = Findings()
     scans: dict[str, _Scan] = {}
-    with open_package(path) as zf:
-        parts = sheet_parts(zf)
-        names = list(parts)
-        strings = _shared_string_count(zf, path)
-        for name in layout.INPUT_SHEET_NAMES:
-            if name not in parts or parts[name] not in zf.namelist():
-                continue
-            xml = read_part(zf, parts[name], path)
-            plain = _plain(xml)
-            scans[name] = _scan(xml, plain)
-            _check_sheet(path, name, xml, strings, plain)
-            _layout_warnings(name, xml, findings)
-    fast = [n for n, sc in scans.items() if sc.compact]
-    sheets = _read_calamine(path, fast) if fast else {}
+    with _Calamine(path) as calamine:
+        with open_package(path) as zf:
+            parts = sheet_parts(zf)
+            names = list(parts)
+            strings = _shared_string_count(zf, path)
+            for name in layout.INPUT_SHEET_NAMES:
+                if name not in parts or parts[name] not in zf.namelist():
+                    continue
+                xml = read_part(zf, parts[name], path)
+                plain = _plain(xml)
+                compact = _compact_plain(plain) if plain is not None else _compact(xml)
+                if compact:
+                    calamine.ask(name)
+                scans[name] = _scan(xml, plain, compact)
+                _check_sheet(path, name, xml, strings, plain)
+                _layout_warnings(name, xml, findings)
+        sheets = calamine.sheets()
     slow = [n for n in scans if n not in sheets]
     if slow:
         sheets |= _read_openpyxl(path, slow)
@@ -110,6 +116,51 @@ def _read_workbook(path: Path) -> RawWorkbook:
         _resolve_formulas(path, sheets, uncached, findings)
     sheets = {n: sheets[n] for n in layout.INPUT_SHEET_NAMES if n in sheets}
     return RawWorkbook(path, names, sheets, findings, _hash(sheets))
+
+
+class _Calamine:
+    """python-calamine's reading of the sheets asked for, one after another in a worker thread.
+    The compiled reader releases the interpreter lock while it parses a sheet (1.2 s of the
+    L tower's 3 s read), so the XML scans of this and the next sheets run meanwhile. Blank
+    cells are '' (validation treats '' and None alike); a sheet it cannot read (or a package
+    it cannot open) is left out, to be read, or reported in its words, by openpyxl."""
+
+    def __init__(self, path: Path) -> None:
+        self.path = path
+        self.pool = ThreadPoolExecutor(max_workers=1, thread_name_prefix="xlcore-read")
+        self.asked: dict[str, Future] = {}
+        self.book: CalamineWorkbook | None | object = _UNSET
+
+    def __enter__(self) -> _Calamine:
+        return self
+
+    def __exit__(self, *exc) -> None:
+        self.pool.shutdown(wait=True, cancel_futures=True)
+
+    def ask(self, name: str) -> None:
+        self.asked[name] = self.pool.submit(self._read, name)
+
+    def _read(self, name: str) -> list | None:
+        if self.book is _UNSET:
+            try:
+                self.book = CalamineWorkbook.from_path(str(self.path))
+            except Exception:  # damaged package: let the openpyxl reader report it in its words
+                self.book = None
+        if self.book is None:
+            return None
+        try:
+            return self.book.get_sheet_by_name(name).to_python(skip_empty_area=False)
+        except Exception:
+            return None
+
+    def sheets(self) -> dict[str, RawSheet]:
+        """The sheets read, in the order asked."""
+        out = {}
+        for name, future in self.asked.items():
+            rows = future.result()
+            if rows is not None:
+                out[name] = RawSheet(name, rows)
+        return out
 
 
 @dataclass
@@ -190,20 +241,26 @@ def _at_least(n: int) -> bytes:
     return rb"(?:" + longer + rb"|" + rb"|".join(same) + rb")"
 
 
-def _scan_plain(xml: bytes, plain: _Plain) -> _Scan:
+def _scan_plain(xml: bytes, plain: _Plain, compact: bool | None = None) -> _Scan:
     """`_scan` on a plain sheet: the same answers from literal-led searches."""
     body = plain.body
     errors: dict[tuple[int, int], str] = {}
     if b'"e"' in body or b"'e'" in body:  # an error cell has t="e" in some quoting
         errors = _scan_errors(xml)
     uncached = b"<f" in body and any(m.group(1) is None for m in FORMULA_VALUE.finditer(body))
+    return _Scan(errors, uncached, _compact_plain(plain) if compact is None else compact)
+
+
+def _compact_plain(plain: _Plain) -> bool:
+    """`_compact` on a plain sheet, by literal-led searches."""
+    body = plain.body
     letters = set(PLAIN_LONG_COLUMN.findall(body))
     if any(len(c) > 3 for c in letters):
-        return _Scan(errors, uncached, False)
+        return False
     width = max([26, *(column_index_from_string(c.decode().upper()) for c in letters)])
     height = (MAX_GRID + 8 * plain.cells) // width
     far = re.compile(rb'<c r="[A-Za-z]{1,3}0*' + _at_least(height + 1) + rb'"')
-    return _Scan(errors, uncached, far.search(body) is None)
+    return far.search(body) is None
 
 
 def _scan_errors(xml: bytes) -> dict[tuple[int, int], str]:
@@ -219,20 +276,21 @@ def _scan_errors(xml: bytes) -> dict[tuple[int, int], str]:
 _UNSET = object()
 
 
-def _scan(xml: bytes, plain: _Plain | None | object = _UNSET) -> _Scan:
+def _scan(xml: bytes, plain: _Plain | None | object = _UNSET, compact: bool | None = None) -> _Scan:
     """What the compiled reader does not give, in passes linear in the sheet's size: by literal-led
-    searches where the sheet is plain (`_plain`; pass it when already found), else in general."""
+    searches where the sheet is plain (`_plain`; pass it when already found), else in general.
+    `compact`: the sheet's `_compact` answer when already found."""
     plain = _plain(xml) if plain is _UNSET else plain
-    return _scan_plain(xml, plain) if isinstance(plain, _Plain) else _scan_general(xml)
+    return _scan_plain(xml, plain, compact) if isinstance(plain, _Plain) else _scan_general(xml, compact)
 
 
-def _scan_general(xml: bytes) -> _Scan:
+def _scan_general(xml: bytes, compact: bool | None = None) -> _Scan:
     """`_scan` for a sheet in any form (attributes in any order and quoting, prefixed tags)."""
     errors: dict[tuple[int, int], str] = {}
     if re.search(rb"\bt" + _Q + rb"e[\"']", xml):
         errors = _scan_errors(xml)
     uncached = _has_formula(xml) and any(m.group(1) is None for m in FORMULA_VALUE.finditer(xml))
-    return _Scan(errors, uncached, _compact(xml))
+    return _Scan(errors, uncached, _compact(xml) if compact is None else compact)
 
 
 def _compact(xml: bytes) -> bool:
@@ -253,23 +311,6 @@ def _compact(xml: bytes) -> bool:
         row_tag = re.compile(rb"<(?:\w+:)?row\b[^>]*?\br" + _Q + rb"([0-9]{%d,})" % digits)
         rows += [int(r) for r in row_tag.findall(xml)]
     return max(rows, default=0) <= height
-
-
-def _read_calamine(path: Path, names: list[str]) -> dict[str, RawSheet]:
-    """Values of the named sheets, row 1 first; blank cells are '' (validation treats '' and
-    None alike)."""
-    try:
-        wb = CalamineWorkbook.from_path(str(path))
-    except Exception:  # damaged package: let the openpyxl reader report it in its words
-        return {}
-    out = {}
-    for name in names:
-        try:
-            rows = wb.get_sheet_by_name(name).to_python(skip_empty_area=False)
-        except Exception:
-            continue
-        out[name] = RawSheet(name, rows)
-    return out
 
 
 def _read_openpyxl(path: Path, names: list[str]) -> dict[str, RawSheet]:
