@@ -11,6 +11,7 @@ import gc
 import hashlib
 import io
 import re
+import threading
 import warnings
 from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass, field
@@ -138,9 +139,17 @@ class _Calamine:
         self.pool.shutdown(wait=True, cancel_futures=True)
 
     def ask(self, name: str) -> None:
-        self.asked[name] = self.pool.submit(self._read, name)
+        """Read the sheet in the worker. When the worker is idle, wait until it is inside the
+        compiled reader: else it waits for the interpreter lock while this thread runs long
+        C-level scans (0.35 s at L on a loaded machine) before its read can start."""
+        idle = all(f.done() for f in self.asked.values())
+        started = threading.Event()
+        self.asked[name] = self.pool.submit(self._read, name, started)
+        if idle:
+            started.wait(timeout=1.0)
 
-    def _read(self, name: str) -> list | None:
+    def _read(self, name: str, started: threading.Event) -> list | None:
+        started.set()
         if self.book is _UNSET:
             try:
                 self.book = CalamineWorkbook.from_path(str(self.path))
