@@ -15,6 +15,7 @@ import threading
 import warnings
 from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass, field
+from functools import cached_property
 from pathlib import Path
 
 import numpy as np
@@ -210,8 +211,16 @@ class _Plain:
     start (fast in `re`) instead of a pattern that tries every '<' (issue 15 §1: the general
     scans took 6 s of the L tower's read, more than the compiled reader itself)."""
 
-    body: bytes  # from <sheetData> to </sheetData>
+    xml: bytes
+    start: int  # where <sheetData> starts
+    end: int  # where </sheetData> starts
     cells: int
+
+    @cached_property
+    def body(self) -> bytes:
+        """From <sheetData> to </sheetData>: a copy, made once the compiled reader has started
+        (the questions asked before it search `xml` between `start` and `end`)."""
+        return self.xml[self.start : self.end]
 
 
 PLAIN_OUTSIDE = re.compile(rb"<(?:\w+:)?(?:c|row)[\s>/]")  # a cell or row tag, any form
@@ -227,13 +236,14 @@ def _plain(xml: bytes) -> _Plain | None:
         return None
     if PLAIN_OUTSIDE.search(xml, 0, start) or PLAIN_OUTSIDE.search(xml, end):
         return None
-    body = xml[start:end]
-    cells = body.count(b'<c r="')
-    if body.count(b"<c") != cells or body.count(b"<row") != body.count(b'<row r="'):
+    cells = xml.count(b'<c r="', start, end)
+    if xml.count(b"<c", start, end) != cells:
         return None
-    if PLAIN_PREFIXED.search(body):
+    if xml.count(b"<row", start, end) != xml.count(b'<row r="', start, end):
         return None
-    return _Plain(body, cells)
+    if PLAIN_PREFIXED.search(xml, start, end):
+        return None
+    return _Plain(xml, start, end, cells)
 
 
 def _at_least(n: int) -> bytes:
@@ -261,15 +271,20 @@ def _scan_plain(xml: bytes, plain: _Plain, compact: bool | None = None) -> _Scan
 
 
 def _compact_plain(plain: _Plain) -> bool:
-    """`_compact` on a plain sheet, by literal-led searches."""
-    body = plain.body
-    letters = set(PLAIN_LONG_COLUMN.findall(body))
+    """`_compact` on a plain sheet, by literal-led searches. The usual sheet (columns A to Z)
+    is settled by one search for a two-letter column or a far row at that width."""
+    xml, start, end = plain.xml, plain.start, plain.end
+    narrow = (MAX_GRID + 8 * plain.cells) // 26
+    usual = re.compile(rb'<c r="(?:[A-Za-z]{2}|[A-Za-z]0*' + _at_least(narrow + 1) + rb'")')
+    if usual.search(xml, start, end) is None:
+        return True
+    letters = set(PLAIN_LONG_COLUMN.findall(xml, start, end))
     if any(len(c) > 3 for c in letters):
         return False
     width = max([26, *(column_index_from_string(c.decode().upper()) for c in letters)])
     height = (MAX_GRID + 8 * plain.cells) // width
     far = re.compile(rb'<c r="[A-Za-z]{1,3}0*' + _at_least(height + 1) + rb'"')
-    return far.search(body) is None
+    return far.search(xml, start, end) is None
 
 
 def _scan_errors(xml: bytes) -> dict[tuple[int, int], str]:
