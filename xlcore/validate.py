@@ -1292,17 +1292,37 @@ def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of
     pairs = pd.MultiIndex.from_tuples([(st, m) for st, ms in members.items() for m in ms])
     valid = pd.MultiIndex.from_arrays([rows.storey, rows.member]).isin(pairs)
     blank = rows[["storey", "combination", "member"]].isna().any(axis=1).to_numpy()
-    repeated = rows.duplicated(["storey", "combination", "member"], keep=False).to_numpy()
-    wall = rows.member.map(walls_of).fillna(rows.member)
-    level = (wall == rows.member).to_numpy()
-    mixed = (
-        pd.DataFrame(dict(s=rows.storey, c=rows.combination, w=wall, lv=level))
-        .groupby(["s", "c", "w"], dropna=False)
-        .lv.transform("nunique")
-        .gt(1)
-        .to_numpy()
-    )
+    storey, combination = _codes(rows.storey), _codes(rows.combination)
+    member, names = pd.factorize(rows.member, use_na_sentinel=True)
+    group = _group_ids(storey, combination, (member.astype(np.int64) + 1, len(names) + 1))
+    repeated = np.bincount(group)[group] > 1  # a storey x combination x member given twice
+    # each member's wall (itself when it is a wall or unknown) and whether it is that wall,
+    # found once per distinct name; a blank member: no wall, not a wall
+    walls = [walls_of.get(n, n) for n in names]
+    of_wall = np.flatnonzero([w == n for w, n in zip(walls, names, strict=True)])
+    level = np.isin(member, of_wall)
+    wall_codes, wall_names = pd.factorize(np.array(walls, dtype=object))
+    wall = np.where(member >= 0, wall_codes[member] + 1, 0) if len(names) else np.zeros(len(member), np.int64)
+    group = _group_ids(storey, combination, (wall.astype(np.int64), len(wall_names) + 1))
+    size, whole = np.bincount(group), np.bincount(group, weights=level)
+    mixed = ((whole > 0) & (whole < size))[group]  # a wall given both whole and by its piers
     return ~known.to_numpy() | (~valid & ~blank) | repeated | mixed
+
+
+def _codes(col: pd.Series) -> tuple[np.ndarray, int]:
+    """A column's values as integer codes 0..n-1 and n, missing values one code of their own (as
+    `duplicated` and a group-by with dropna=False take them): groups are then found by
+    `np.bincount` on numbers, not by hashing the text of 360 000 action rows three times over."""
+    codes, uniques = pd.factorize(col, use_na_sentinel=True)
+    return codes.astype(np.int64) + 1, len(uniques) + 1
+
+
+def _group_ids(*columns: tuple[np.ndarray, int]) -> np.ndarray:
+    """Codes 0..g-1 of the distinct combinations of the columns' codes, row by row."""
+    key, _ = columns[0]
+    for codes, n in columns[1:]:
+        key = pd.factorize(key * n + codes)[0]  # below (rows + 1) ** 2: no overflow
+    return key
 
 
 def _unit_centre(w: pd.DataFrame) -> tuple[float, float] | None:
