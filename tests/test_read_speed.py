@@ -7,9 +7,11 @@ workbooks' stamps are compared against it. Workbook mechanics only, no engineeri
 from __future__ import annotations
 
 import math
+import random
 
 import numpy as np
 import openpyxl
+import pandas as pd
 import pytest
 
 from xlcore import layout, validate
@@ -220,3 +222,44 @@ def test_blank_cells_set_column_wise_as_cell_by_cell(c, column):
             for v, cell in zip(fast.tolist(), column, strict=True)
             if validate.blank(cell)
         )
+
+
+# ------------------------------------------------------------------ validate: action rows
+
+
+def _suspect_by_text(rows, index, members, walls_of) -> np.ndarray:
+    """`validate._suspect_action_rows` as it was before issue 15: group-bys on the text."""
+    known = rows.storey.isin(list(index)) | rows.storey.isna()
+    pairs = pd.MultiIndex.from_tuples([(st, m) for st, ms in members.items() for m in ms])
+    valid = pd.MultiIndex.from_arrays([rows.storey, rows.member]).isin(pairs)
+    blank = rows[["storey", "combination", "member"]].isna().any(axis=1).to_numpy()
+    repeated = rows.duplicated(["storey", "combination", "member"], keep=False).to_numpy()
+    wall = rows.member.map(walls_of).fillna(rows.member)
+    level = (wall == rows.member).to_numpy()
+    mixed = (
+        pd.DataFrame(dict(s=rows.storey, c=rows.combination, w=wall, lv=level))
+        .groupby(["s", "c", "w"], dropna=False)
+        .lv.transform("nunique")
+        .gt(1)
+        .to_numpy()
+    )
+    return ~known.to_numpy() | (~valid & ~blank) | repeated | mixed
+
+
+@pytest.mark.parametrize("seed", range(40))
+@pytest.mark.parametrize("text", [True, False])
+def test_suspect_action_rows_are_those_the_text_group_bys_mark(seed, text):
+    rng = random.Random(seed)
+    n = rng.randint(1, 60)
+    data = {
+        "row": np.arange(n) + 2,
+        "storey": [rng.choice(["L1", "L2", None, "X"]) for _ in range(n)],
+        "combination": [rng.choice(["C1", "C2", None]) for _ in range(n)],
+        "member": [rng.choice(["W1", "W1-1", "W1-2", "W2", None, "Q"]) for _ in range(n)],
+    }
+    rows = pd.DataFrame(data if text else {k: np.array(v, dtype=object) for k, v in data.items()})
+    members = {"L1": {"W1", "W1-1", "W1-2", "W2"}, "L2": {"W1", "W2"}}
+    walls_of = {"W1-1": "W1", "W1-2": "W1", "W1": "W1", "W2": "W2"}
+    got = validate._suspect_action_rows(rows, {"L1", "L2"}, members, walls_of)
+    want = _suspect_by_text(rows, {"L1", "L2"}, members, walls_of)
+    assert got.dtype == want.dtype and got.tolist() == want.tolist()
