@@ -263,3 +263,35 @@ def test_suspect_action_rows_are_those_the_text_group_bys_mark(seed, text):
     got = validate._suspect_action_rows(rows, {"L1", "L2"}, members, walls_of)
     want = _suspect_by_text(rows, {"L1", "L2"}, members, walls_of)
     assert got.dtype == want.dtype and got.tolist() == want.tolist()
+
+
+def _plain_by_counting(xml: bytes) -> bool:
+    """Whether `reader._plain` took a sheet before issue 15 (four counts of tag forms)."""
+    start, end = xml.find(b"<sheetData>"), xml.rfind(b"</sheetData>")
+    if start < 0 or end < start:
+        return False
+    if reader.PLAIN_OUTSIDE.search(xml, 0, start) or reader.PLAIN_OUTSIDE.search(xml, end):
+        return False
+    body = xml[start:end]
+    if body.count(b"<c") != body.count(b'<c r="') or body.count(b"<row") != body.count(b'<row r="'):
+        return False
+    return not reader.PLAIN_PREFIXED.search(body)
+
+
+ROW_FORMS = {
+    "plain": b'<row r="1"><c r="A1"><v>1</v></c></row>',
+    "cell without reference": b'<row r="1"><c><v>1</v></c></row>',
+    "cell type first": b'<row r="1"><c t="n" r="A1"><v>1</v></c></row>',
+    "cell reference in single quotes": b"<row r=\"1\"><c r='A1'><v>1</v></c></row>",
+    "row spans first": b'<row spans="1:1" r="1"><c r="A1"><v>1</v></c></row>',
+    "row without reference": b'<row><c r="A1"><v>1</v></c></row>',
+    "prefixed value": b'<row r="1"><c r="A1"><x:v>1</x:v></c></row>',
+    "spaced reference": b'<row r="1"><c  r="A1"><v>1</v></c></row>',
+}
+
+
+@pytest.mark.parametrize("name", sorted(ROW_FORMS))
+def test_plain_sheets_are_those_the_counts_took(name):
+    xml = b"<worksheet><sheetData>" + ROW_FORMS[name] + ROW_FORMS["plain"] + b"</sheetData></worksheet>"
+    assert (reader._plain(xml) is not None) == _plain_by_counting(xml)
+    assert (reader._plain(xml) is not None) == (name == "plain")
