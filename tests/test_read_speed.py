@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 import random
+from types import SimpleNamespace
 
 import numpy as np
 import openpyxl
@@ -295,3 +296,30 @@ def test_plain_sheets_are_those_the_counts_took(name):
     xml = b"<worksheet><sheetData>" + ROW_FORMS[name] + ROW_FORMS["plain"] + b"</sheetData></worksheet>"
     assert (reader._plain(xml) is not None) == _plain_by_counting(xml)
     assert (reader._plain(xml) is not None) == (name == "plain")
+
+
+# ------------------------------------------------------------------ validate: core actions
+
+
+def test_storeys_of_one_plan_share_the_stability_answer_and_others_do_not():
+    """L1 and L3 have three walls that brace each other; L2 only the two parallel ones. The
+    answer found for L1's plan serves L3, not L2."""
+    walls = {  # wall: (ux, uy, wx, wy, length)
+        "W1": (1.0, 0.0, 0.0, 0.0, 5.0),
+        "W2": (0.0, 1.0, 0.0, 0.0, 5.0),
+        "W3": (1.0, 0.0, 0.0, 5.0, 5.0),
+    }
+    plans = {"L1": ["W1", "W2", "W3"], "L2": ["W1", "W3"], "L3": ["W1", "W2", "W3"]}
+    piers = pd.DataFrame(
+        [
+            dict(storey=s, wall_id=w, core="", ux=ux, uy=uy, wx=wx, wy=wy, wall_length=length)
+            for s, ws in plans.items()
+            for w in ws
+            for ux, uy, wx, wy, length in [walls[w]]
+        ]
+    )
+    df = pd.DataFrame(dict(row=[2, 3, 4], storey=["L1", "L2", "L3"], combination="C1", core=""))
+    df.attrs["columns"] = {"storey": 0, "combination": 1, "core": 10}
+    f = Findings()
+    validate._stable_storeys(df, SimpleNamespace(piers=piers), f)
+    assert [(e.cell, "storey L2" in e.message) for e in f.errors] == [("A3", True)]

@@ -1341,6 +1341,13 @@ def _unit_centre(w: pd.DataFrame) -> tuple[float, float] | None:
         return None
 
 
+def _plan_key(w: pd.DataFrame) -> bytes:
+    """The numbers `_unit_centre` reads, as bytes: walls with the same bytes have the same
+    centre (the same arithmetic on the same numbers), whichever storey they stand at."""
+    columns = ("ux", "uy", "wx", "wy", "wall_length")
+    return np.column_stack([w[c].to_numpy(dtype=float) for c in columns]).tobytes()
+
+
 def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:
     """Core actions need, in every core they reach, walls that resist both shear directions and
     torsion on their own at that storey (a core gets its share of the storey shear at its own
@@ -1351,6 +1358,7 @@ def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:
     rows = df.dropna(subset=["storey"])
     rows = rows.assign(core=rows.core.fillna(""))
     centre: dict[tuple[str, str], tuple[float, float] | None] = {}
+    by_plan: dict[bytes, tuple[float, float] | None] = {}
     reported: set[tuple[str, str]] = set()
     for rec in rows.drop_duplicates(["storey", "core"]).itertuples(index=False):
         here = walls_at.get(rec.storey)
@@ -1363,7 +1371,10 @@ def _stable_storeys(df: pd.DataFrame, geom, f: Findings) -> None:
             if w.empty or key in reported:
                 continue
             if key not in centre:
-                centre[key] = _unit_centre(w)
+                same = _plan_key(w)  # storeys of one plan (most of a tower) share the answer
+                if same not in by_plan:
+                    by_plan[same] = _unit_centre(w)
+                centre[key] = by_plan[same]
             if centre[key] is not None:
                 continue
             reported.add(key)
