@@ -15,7 +15,6 @@ import threading
 import warnings
 from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass, field
-from functools import cached_property
 from pathlib import Path
 
 import numpy as np
@@ -214,13 +213,7 @@ class _Plain:
     xml: bytes
     start: int  # where <sheetData> starts
     end: int  # where </sheetData> starts
-    cells: int
-
-    @cached_property
-    def body(self) -> bytes:
-        """From <sheetData> to </sheetData>: a copy, made once the compiled reader has started
-        (the questions asked before it search `xml` between `start` and `end`)."""
-        return self.xml[self.start : self.end]
+    cells: int  # (the questions search `xml` between `start` and `end`: no copy of 100 MB at L)
 
 
 PLAIN_OUTSIDE = re.compile(rb"<(?:\w+:)?(?:c|row)[\s>/]")  # a cell or row tag, any form
@@ -260,11 +253,13 @@ def _at_least(n: int) -> bytes:
 
 def _scan_plain(xml: bytes, plain: _Plain, compact: bool | None = None) -> _Scan:
     """`_scan` on a plain sheet: the same answers from literal-led searches."""
-    body = plain.body
+    start, end = plain.start, plain.end
     errors: dict[tuple[int, int], str] = {}
-    if b'"e"' in body or b"'e'" in body:  # an error cell has t="e" in some quoting
+    if _has(xml, b'"e"', start, end) or _has(xml, b"'e'", start, end):  # t="e" in some quoting
         errors = _scan_errors(xml)
-    uncached = b"<f" in body and any(m.group(1) is None for m in FORMULA_VALUE.finditer(body))
+    uncached = _has(xml, b"<f", start, end) and any(
+        m.group(1) is None for m in FORMULA_VALUE.finditer(xml, start, end)
+    )
     return _Scan(errors, uncached, _compact_plain(plain) if compact is None else compact)
 
 
@@ -492,7 +487,7 @@ def _check_sheet(path: Path, sheet: str, xml: bytes, strings: int, plain: _Plain
     `_plain`) takes literal-led searches for the same answers."""
     if not re.search(rb"</(?:\w+:)?worksheet>\s*$", xml[-256:]):
         raise FileProblem(f"{path}: damaged workbook package: sheet {sheet!r} is cut short (no end of sheet)")
-    found = PLAIN_ROW.findall(plain.body) if plain is not None else ROW_NUMBER.findall(xml)
+    found = PLAIN_ROW.findall(xml, plain.start, plain.end) if plain is not None else ROW_NUMBER.findall(xml)
     rows = np.array(found, dtype=np.int64)
     back = np.flatnonzero(rows[1:] <= rows[:-1])
     if back.size:
@@ -501,7 +496,7 @@ def _check_sheet(path: Path, sheet: str, xml: bytes, strings: int, plain: _Plain
             f"{path}: damaged workbook package: sheet {sheet!r} lists row {rows[i + 1]} after row "
             f"{rows[i]} (rows must ascend); open the file in a spreadsheet program and save it again"
         )
-    if plain is not None and _plain_shared_ok(plain.body, strings):
+    if plain is not None and _plain_shared_ok(xml, strings, plain.start, plain.end):
         return
     if b"<v>" in xml:
         top = max((int(i) for i in SST_INDEX.findall(xml)), default=-1)
@@ -512,18 +507,24 @@ def _check_sheet(path: Path, sheet: str, xml: bytes, strings: int, plain: _Plain
             )
 
 
-def _plain_shared_ok(body: bytes, strings: int) -> bool:
-    """Whether no shared-string cell of a plain sheet points past the shared strings, asked by
-    one search; False also where a cell's type is quoted or spaced unusually (then the general
-    scan decides)."""
-    if b'"s"' not in body and b"'s'" not in body:
+def _plain_shared_ok(xml: bytes, strings: int, start: int = 0, end: int | None = None) -> bool:
+    """Whether no shared-string cell of a plain sheet (its cell data from `start` to `end`)
+    points past the shared strings, asked by one search; False also where a cell's type is
+    quoted or spaced unusually (then the general scan decides)."""
+    end = len(xml) if end is None else end
+    if not _has(xml, b'"s"', start, end) and not _has(xml, b"'s'", start, end):
         return True  # no cell typed s, in any quoting
-    if b"'s'" in body or body.count(b'"s"') != body.count(b't="s"'):
+    if _has(xml, b"'s'", start, end) or xml.count(b'"s"', start, end) != xml.count(b't="s"', start, end):
         return False
-    if b't="s"' not in body:
+    if not _has(xml, b't="s"', start, end):
         return True
     past = re.compile(rb't="s"[^>]*>\s*<v>\s*0*' + _at_least(strings) + rb"\s*<")
-    return past.search(body) is None
+    return past.search(xml, start, end) is None
+
+
+def _has(xml: bytes, text: bytes, start: int, end: int) -> bool:
+    """`text in xml[start:end]` without copying the slice."""
+    return xml.find(text, start, end) >= 0
 
 
 def _read_sheet(ws) -> RawSheet:
