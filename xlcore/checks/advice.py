@@ -1220,14 +1220,14 @@ def _worst(
         if len(over):
             rest = ~var.pier_id.isin(over).to_numpy()
             var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
-        axial = check_pier_axial(var, acts, s, working=False)
+        axial = check_pier_axial(var, acts, s, working=False, util_only=True)
         parts = cheap
         if len(axial):
             parts.append(axial[["pier_id", "util"]])
             simp = axial[axial.util_s.notna()]
             parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
         return pd.concat(parts).groupby("pier_id").util.max()
-    axial = check_pier_axial(var, acts, s, working=False)
+    axial = check_pier_axial(var, acts, s, working=False, util_only=True)
     # the shear table also goes to detailing, which otherwise runs the same shear check again
     shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
     parts = [] if shear is None else [shear[["pier_id", "util"]]]
