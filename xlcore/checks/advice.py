@@ -151,6 +151,22 @@ def _bars_text(d: float, sp: float, n: float, std: Standard) -> str:
     return f"{std.bar_name(d)} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
+def _memo(f):
+    """`f` (pure, of a few float arguments) with its answers kept for this call's rows: the L
+    tower words 150 000 options from a few hundred distinct bar arrangements (a catalogue lookup
+    per row cost 0.5 s). The arguments are catalogue sizes, never 0, so float keys are safe
+    (0.0 and -0.0, equal keys, would format differently)."""
+    seen: dict = {}
+
+    def cached(*args):
+        out = seen.get(args)
+        if out is None:
+            out = seen[args] = f(*args)
+        return out
+
+    return cached
+
+
 
 def two_layers_required(settings: Settings) -> bool:
     """Section 14's both-faces rule applies (checks/section14.py: a ductile structure and the
@@ -260,8 +276,9 @@ def _candidates(
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
+    zone_text = _memo(lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)")
     option[zoned] = [
-        f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)"
+        zone_text(n, d, length)
         for n, d, length in zip(
             *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
         )
@@ -339,9 +356,10 @@ def _thicker(
     layers = np.maximum.reduce(
         [rows.v_layers.to_numpy(float), rows.h_layers.to_numpy(float), _layers_needed(t, settings)]
     )
-    words = [f"tw {x:g} mm, bars for the same ratio:" for x in t.tolist()]
     found = np.ones(len(idx), dtype=bool)
     std = _std(settings)
+    bars_text = _memo(lambda d, sp, n: _bars_text(d, sp, n, std))
+    chosen = {}
     for prefix, label in (("v", "vertical"), ("h", "horizontal")):
         rho0 = rows[f"rho_{prefix}"].to_numpy(float)
         d, sp, rho, ok = _hold_ratio(
@@ -358,17 +376,21 @@ def _thicker(
             col = var[field].to_numpy(float).copy()
             col[idx] = new
             var[field] = col
-        words = [
-            f"{w} {label} {_bars_text(di, s, n, std)} (rho {r0:.5f} -> {r:.5f}){';' if prefix == 'v' else ''}"
-            for w, di, s, n, r0, r in zip(words, d, sp, layers, rho0, rho, strict=True)
-        ]
+        chosen[prefix] = (d, sp, rho0, rho)
     for p in "hv":
         var[f"{p}_layers"] = var[f"{p}_layers"].to_numpy(float).astype(int)
     col = var.tw.to_numpy(float).copy()
     col[idx] = t
     var["tw"] = col
     keep[idx] &= found
-    return words
+    (dv, sv, v0, v1), (dh, sh, h0, h1) = ((a.tolist() for a in chosen[p]) for p in "vh")
+    return [
+        f"tw {x:g} mm, bars for the same ratio: vertical {bars_text(a, b, n)} (rho {c:.5f} -> {e:.5f}); "
+        f"horizontal {bars_text(f, g, n)} (rho {h:.5f} -> {i:.5f})"
+        for x, n, a, b, c, e, f, g, h, i in zip(
+            t.tolist(), layers.tolist(), dv, sv, v0, v1, dh, sh, h0, h1, strict=True
+        )
+    ]
 
 
 def _zone_options(
@@ -753,23 +775,50 @@ def _probed_pairs(
     if not n:
         pm = _pairs(meta, premiums, first_id, settings)
         return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
-    bi = meta.bi.to_numpy()[arrays["a"]]
-    # stable, NaN last like pandas
-    order = np.lexsort((arrays["added_cost"], arrays["pair"], bi)).astype(np.int32)
-    sb, sp = bi[order], arrays["pair"][order]
-    del bi
-    new = np.ones(n, dtype=bool)
-    new[1:] = (sb[1:] != sb[:-1]) | (sp[1:] != sp[:-1])
-    del sb, sp
-    group = (np.cumsum(new, dtype=np.int32) - 1).astype(np.int32)
-    last = np.flatnonzero(np.append(new[1:], True))  # each group's most expensive pair, sorted
-    del new
-    probe = _pair_frame(meta, arrays, order[last], first_id + order[last].astype(np.int64))
+    group, count, last = _pair_groups(meta.bi.to_numpy()[arrays["a"]], arrays["pair"], arrays["added_cost"])
+    probe = _pair_frame(meta, arrays, last, first_id + last.astype(np.int64))
     passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
-    keep = np.flatnonzero(passes[group])
-    out = _pair_frame(meta, arrays, order[keep], first_id + order[keep].astype(np.int64))
-    out.index = keep
+    rows, at = _sorted_members(group, arrays["added_cost"], np.flatnonzero(passes), count)
+    out = _pair_frame(meta, arrays, rows, first_id + rows.astype(np.int64))
+    out.index = at
     return out
+
+
+def _pair_groups(bi: np.ndarray, pair: np.ndarray, cost: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The groups (pier `bi` x `pair`) of the pairs, numbered in (bi, pair) order; each group's
+    size; and each group's probe: the last pair of the group in the stable sort by cost (NaN
+    last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One
+    O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
+    of most groups (`_sorted_members` orders the few that pass)."""
+    key = bi.astype(np.int64) * len(PAIRS) + pair
+    present = np.bincount(key) > 0  # keys are small (piers x 8): numbered without sorting
+    group = (np.cumsum(present) - 1).astype(np.int32)[key]
+    # pairs are listed kind by kind, each kind by pier: a stable sort by group merges 8 runs
+    order = np.argsort(group, kind="stable")
+    count = np.bincount(group, minlength=int(present.sum()))
+    starts = np.concatenate([[0], np.cumsum(count)[:-1]])
+    c = cost[order]
+    top = np.maximum.reduceat(c, starts)  # NaN where the group holds one (maximum propagates it)
+    g = group[order]
+    hit = np.where(np.isnan(top[g]), np.isnan(c), c == top[g])
+    last = np.maximum.reduceat(np.where(hit, np.arange(len(c)), -1), starts)
+    return group, count, order[last]
+
+
+def _sorted_members(
+    group: np.ndarray, cost: np.ndarray, chosen: np.ndarray, count: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """The pairs of the groups `chosen`, in the stable sort by (group, cost) with NaN last, and
+    each one's position in that sort of every pair (the index `_probed` gives them)."""
+    take = np.zeros(len(count), dtype=bool)
+    take[chosen] = True
+    rows = np.flatnonzero(take[group])
+    rows = rows[np.lexsort((cost[rows], group[rows]))]
+    g = group[rows]
+    first = np.concatenate([[0], np.flatnonzero(g[1:] != g[:-1]) + 1]) if len(g) else np.zeros(0, dtype=int)
+    rank = np.arange(len(rows)) - np.repeat(first, np.diff(np.append(first, len(rows))))
+    offset = np.concatenate([[0], np.cumsum(count)[:-1]])
+    return rows.astype(np.int32), offset[g] + rank
 
 
 def pair_words(pairs: pd.DataFrame, meta: pd.DataFrame) -> list[str]:
