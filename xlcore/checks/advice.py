@@ -276,7 +276,9 @@ def _candidates(
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
-    zone_text = _memo(lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)")
+    zone_text = _memo(
+        lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)"
+    )
     option[zoned] = [
         zone_text(n, d, length)
         for n, d, length in zip(
@@ -784,7 +786,9 @@ def _probed_pairs(
     return out
 
 
-def _pair_groups(bi: np.ndarray, pair: np.ndarray, cost: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _pair_groups(
+    bi: np.ndarray, pair: np.ndarray, cost: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """The groups (pier `bi` x `pair`) of the pairs, numbered in (bi, pair) order; each group's
     size; and each group's probe: the last pair of the group in the stable sort by cost (NaN
     last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One

@@ -1,0 +1,161 @@
+"""The advice search's second round of fast paths (issue 15) against the general ones, bit for
+bit on crafted cases; each test fails if its fast path is broken.
+
+- `check_pier_axial(util_only=True)` (no fixed-N* solve, `interaction(at_n=False)`) against the
+  full check: util, util_s and hwe, with asymmetric end zones where the least eccentricity sets
+  M* (both senses run) so that the choice between them is exercised.
+- `_pair_groups` / `_sorted_members` (the pair probe in one pass, only passing groups sorted)
+  against the stable lexsort of every pair they replace, with cost ties and NaN costs.
+- the option words made once per distinct arrangement (`_memo`) against words made row by row.
+"""
+
+import numpy as np
+import pandas as pd
+import pytest
+from test_advice_speed import actions_for, failing_of, tower
+
+from xlcore.checks import advice
+from xlcore.checks.axial import check_pier_axial, interaction, rect_sections
+from xlcore.model import Settings
+
+
+def zoned_rows(s: Settings) -> pd.DataFrame:
+    """Variant rows of the test tower with end zones, every other one with its b zone removed
+    (asymmetric: its strength depends on the sense of M*)."""
+    piers = tower()
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    rows = var[(meta.kind == advice.ZONE_KIND).to_numpy()].reset_index(drop=True)
+    half = np.arange(len(rows)) % 2 == 0
+    for k in ("zb_n", "zb_dia", "zb_len"):
+        rows[k] = np.where(half, 0.0, rows[k].to_numpy(float))
+    return rows
+
+
+def actions_with_small_moments(rows: pd.DataFrame) -> pd.DataFrame:
+    """The test actions for these variants, a third of the moments made tiny (the standard's
+    least eccentricity then sets M*) and some axial forces tensile."""
+    acts = actions_for(tower(), 2.0)
+    out = []
+    for i, r in enumerate(rows.itertuples(index=False)):
+        a = acts[acts.storey == r.storey].drop_duplicates("combination").copy()
+        a["pier_id"] = r.pier_id
+        small = (np.arange(len(a)) + i) % 3 == 0
+        a["m"] = np.where(small, 0.5 * np.sign(np.arange(len(a)) - 3.5), a.m.to_numpy(float))
+        out.append(a)
+    return pd.concat(out, ignore_index=True)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_util_only_equals_the_full_axial_check(standard):
+    s = Settings(standard=standard)
+    rows = zoned_rows(s)
+    rows["pier_id"] = np.arange(len(rows), dtype=np.int64)
+    acts = actions_with_small_moments(rows)
+    full = check_pier_axial(rows, acts, s, working=False)
+    fast = check_pier_axial(rows, acts, s, working=False, util_only=True)
+    assert len(full) == len(fast) > 100
+    assert (full.compressed != "either").any()  # asymmetric sections, sense chosen by lam
+    if standard.startswith("AS"):  # its least eccentricity sets M*: both senses run, worse kept
+        both = full.m_design.to_numpy() > np.abs(full.m.to_numpy())
+        assert both.any() and (full.compressed[both] != "either").any()
+    assert (full.util > 1.0).any() and (full.util <= 1.0).any()
+    for col in ("storey", "pier_id", "util", "util_s", "hwe"):
+        pd.testing.assert_series_equal(fast[col], full[col], check_exact=True)
+
+
+def test_interaction_without_the_solve_at_n_keeps_every_other_value():
+    rows = zoned_rows(Settings())
+    sec = rect_sections(rows)
+    n = np.linspace(-2e6, 2e7, len(rows))
+    m = np.linspace(1e6, 4e9, len(rows))
+    full = interaction(sec, n, m_star=m)
+    fast = interaction(sec, n, m_star=m, at_n=False)
+    assert set(fast) == set(full)
+    for k in full:
+        if k in ("dn", "nu", "mu", "phi_mu", "phi"):
+            continue
+        np.testing.assert_array_equal(fast[k], full[k], err_msg=k)
+    assert np.isnan(fast["dn"]).all()
+
+
+def test_a_missing_geometry_column_fails_loudly_in_the_search():
+    s = Settings()
+    rows = zoned_rows(s)
+    rows["pier_id"] = np.arange(len(rows), dtype=np.int64)
+    acts = actions_with_small_moments(rows)
+    with pytest.raises(KeyError, match="fsy"):
+        check_pier_axial(rows.drop(columns="fsy"), acts, s, working=False, util_only=True)
+    # the optional ones (no zones, no edge names) are still optional
+    optional = [c for c in rows if c.startswith(("za_", "zb_", "edge_"))]
+    check_pier_axial(rows.drop(columns=optional), acts, s, working=False, util_only=True)
+
+
+def reference_probe(bi, pair, cost):
+    """The code `_pair_groups` replaced: a stable lexsort of every pair, NaN last."""
+    order = np.lexsort((cost, pair, bi))
+    sb, sp = bi[order], pair[order]
+    new = np.ones(len(order), dtype=bool)
+    new[1:] = (sb[1:] != sb[:-1]) | (sp[1:] != sp[:-1])
+    group = np.cumsum(new) - 1
+    last = np.flatnonzero(np.append(new[1:], True))
+    return order, group, last
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_pair_probe_in_one_pass_equals_the_full_sort(seed):
+    rng = np.random.default_rng(seed)
+    n = 20_000
+    # pairs listed kind by kind, each kind by pier (as `_pair_arrays` lists them)
+    pair = np.sort(rng.integers(0, len(advice.PAIRS), n)).astype(np.int8)
+    bi = np.concatenate([np.sort(rng.integers(0, 300, (pair == k).sum())) for k in range(len(advice.PAIRS))])
+    cost = rng.choice(np.array([1.0, 2.0, 3.0, 3.0, 5.5, 7.0]), n) + rng.integers(0, 2, n)  # ties
+    cost[rng.random(n) < 0.002] = np.nan
+    order, group_sorted, last = reference_probe(bi, pair, cost)
+    group, count, probe = advice._pair_groups(bi, pair, cost)
+    np.testing.assert_array_equal(probe, order[last])
+    np.testing.assert_array_equal(group[order], group_sorted)
+    assert np.isnan(cost[probe]).any() and (~np.isnan(cost[probe])).any()
+    chosen = np.flatnonzero(rng.random(len(count)) < 0.3)
+    rows, at = advice._sorted_members(group, cost, chosen, count)
+    keep = np.flatnonzero(np.isin(group_sorted, chosen))
+    np.testing.assert_array_equal(rows, order[keep])
+    np.testing.assert_array_equal(at, keep)
+
+
+def test_option_words_made_once_per_arrangement_equal_words_row_by_row(monkeypatch):
+    piers = tower()
+    s = Settings()
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    assert {advice.THICK_KIND, advice.ZONE_KIND} <= set(meta.kind)
+    monkeypatch.setattr(advice, "_memo", lambda f: f)
+    var_rows, meta_rows = advice._candidates(piers, failing_of(piers), s)
+    pd.testing.assert_frame_equal(meta, meta_rows, check_exact=True)
+    pd.testing.assert_frame_equal(var, var_rows, check_exact=True)
+    # the thickness words read as before: both directions, each with its ratio's change
+    base = piers.set_index(["storey", "pier_id"])
+    thick = meta[meta.kind == advice.THICK_KIND]
+    std = advice._std(s)
+    for r, v in zip(thick.itertuples(), var.iloc[thick.variant.to_numpy()].itertuples(), strict=True):
+        b = base.loc[(r.storey, r.pier_id)]
+        want = (
+            f"tw {v.tw:g} mm, bars for the same ratio: vertical "
+            f"{advice._bars_text(v.v_dia, v.v_spacing, v.v_layers, std)} "
+            f"(rho {b.rho_v:.5f} -> {v.rho_v:.5f}); "
+            f"horizontal {advice._bars_text(v.h_dia, v.h_spacing, v.h_layers, std)} "
+            f"(rho {b.rho_h:.5f} -> {v.rho_h:.5f})"
+        )
+        assert r.option == want
+
+
+def test_memo_answers_as_the_function_does_for_every_argument():
+    calls = []
+
+    def words(d, sp, n):
+        calls.append((d, sp, n))
+        return f"{d:g}/{sp:g}/{n:g}"
+
+    cached = advice._memo(words)
+    args = [(12.0, 200.0, 1.0), (12.0, 200.0, 2.0), (12.0, 150.0, 2.0), (16.0, 200.0, 2.0)]
+    args.append(args[0])
+    assert [cached(*a) for a in args] == [words(*a) for a in args]
+    assert len(calls) == 4 + 5  # the repeat answered from the memo
