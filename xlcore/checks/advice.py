@@ -305,10 +305,10 @@ def _candidates(
     meta["zarea"] = _zone_area(var)
     for key in ("fc", "tw", "rho_v", "rho_h"):
         meta[key] = var[key].to_numpy(float)
-    b = base.iloc[bi]
+    # the four base columns read, by position (not every pier column taken again)
     for key in ("Lw", "Hc"):
-        meta[key] = b[key].to_numpy(float)
-    meta["fc0"], meta["tw0"] = b.fc.to_numpy(float), b.tw.to_numpy(float)
+        meta[key] = base[key].to_numpy(float)[bi]
+    meta["fc0"], meta["tw0"] = base.fc.to_numpy(float)[bi], base.tw.to_numpy(float)[bi]
     base_cost = _cost_total(
         base.Lw, base.tw, base.rho_v, base.rho_h, base.fc, _zone_area(base), base.Hc, prices, settings
     )
@@ -795,18 +795,17 @@ def _pair_groups(
     O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
     of most groups (`_sorted_members` orders the few that pass)."""
     key = bi.astype(np.int64) * len(PAIRS) + pair
-    present = np.bincount(key) > 0  # keys are small (piers x 8): numbered without sorting
+    size = np.bincount(key)  # keys are small (piers x 8): grouped without sorting
+    present = size > 0
     group = (np.cumsum(present) - 1).astype(np.int32)[key]
-    # pairs are listed kind by kind, each kind by pier: a stable sort by group merges 8 runs
-    order = np.argsort(group, kind="stable")
-    count = np.bincount(group, minlength=int(present.sum()))
-    starts = np.concatenate([[0], np.cumsum(count)[:-1]])
-    c = cost[order]
-    top = np.maximum.reduceat(c, starts)  # NaN where the group holds one (maximum propagates it)
-    g = group[order]
-    hit = np.where(np.isnan(top[g]), np.isnan(c), c == top[g])
-    last = np.maximum.reduceat(np.where(hit, np.arange(len(c)), -1), starts)
-    return group, count, order[last]
+    nan = np.isnan(cost)
+    any_nan = np.bincount(key[nan], minlength=len(size)) > 0
+    top = np.full(len(size), -np.inf)
+    np.fmax.at(top, key, cost)  # each group's largest cost (NaN left out: any_nan says)
+    hit = np.where(any_nan[key], nan, cost == top[key])
+    last = np.full(len(size), -1, dtype=np.int64)
+    np.maximum.at(last, key[hit], np.flatnonzero(hit))  # the latest of them, as a stable sort
+    return group, size[present], last[present]
 
 
 def _sorted_members(
