@@ -59,6 +59,7 @@ def test_util_only_equals_the_full_axial_check(standard):
         both = full.m_design.to_numpy() > np.abs(full.m.to_numpy())
         assert both.any() and (full.compressed[both] != "either").any()
     assert (full.util > 1.0).any() and (full.util <= 1.0).any()
+    assert full.util_s.notna().any() and full.util_s.isna().any()  # the simplified method both ways
     for col in ("storey", "pier_id", "util", "util_s", "hwe"):
         pd.testing.assert_series_equal(fast[col], full[col], check_exact=True)
 

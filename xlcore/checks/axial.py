@@ -361,7 +361,7 @@ def check_pier_axial(
     pick[np.flatnonzero(both)[worse]] = other[worse]
     if util_only:
         df["util"] = r["lam"][pick]
-        return _simplified(df, settings, of, working=False, std=std)
+        return _simplified(df, settings, of, working=False, std=std, util_only=True)
     r = {k: v[pick] for k, v in r.items()}
     df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either")
     section_of = (of[rows] + len(first) * sense)[pick]
@@ -543,11 +543,18 @@ def end_axial_per_length(n_star, m_star, Lw):
 
 
 def _simplified(
-    df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True, std: Standard | None = None
+    df: pd.DataFrame,
+    s: Settings,
+    of: np.ndarray,
+    working: bool = True,
+    std: Standard | None = None,
+    util_only: bool = False,
 ) -> pd.DataFrame:
     """The standard's simplified method for walls in compression per row (AS 3600 Cl 11.5,
     ACI 318 11.5.3), with its applicability evaluated row by row; `of` gives each row's
-    storey x pier group (`per_pier`)."""
+    storey x pier group (`per_pier`). With `util_only` (`check_pier_axial`'s) the columns
+    k, hwe and util_s alone (the same numbers; no text columns, which cost more than the sums
+    on the advice search's rows)."""
     std = std or get_standard(s.standard)
     phi = s.phi_simplified if s.phi_simplified is not None else std.phi_simplified
     tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
@@ -556,7 +563,6 @@ def _simplified(
     n = df.n.to_numpy(float)
     m_out = df.m_out.to_numpy(float) if "m_out" in df else np.zeros(len(df))
     e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
-    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
     cap = std.simplified_capacity(df.fc.to_numpy(float), tw, Lw, hwe, e_given, phi) * 1e-3
     # in-plane moment considered: the design axial force per unit length at the pier's more
     # compressed end, N*/Lw + 6 M*/Lw^2 (M* with any least eccentricity is for the column check)
@@ -567,6 +573,12 @@ def _simplified(
     # each condition that rules the method out, as a row mask, by name
     fails = std.simplified_exclusions(n * 1e3, lo, tw, hwe, e_given, layers, stress)
     applies = ~np.logical_or.reduce(list(fails.values()))
+    if util_only:
+        df["k"], df["hwe"] = k, hwe
+        with np.errstate(divide="ignore", invalid="ignore"):
+            df["util_s"] = np.where(applies, hi * Lw * 1e-3 / np.where(cap > 0, cap, np.nan), np.nan)
+        return df
+    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
     df["k"], df["hwe"], df["e"], df["ea"] = k, hwe, e, ea
     df["slender"] = hwe / tw
     df["phi_s"] = phi
