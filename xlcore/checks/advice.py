@@ -1235,7 +1235,11 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
         "e": m / np.maximum(np.abs(n), 1e-9),
         "o": np.abs(np.nan_to_num(acts.m_out.to_numpy(float))) if "m_out" in acts else np.zeros(len(acts)),
     }
-    groups = [acts.storey.to_numpy(), acts.pier_id.to_numpy()]
+    # each (storey, pier) as one integer, factorised once for the six rankings (ranks within a
+    # group do not depend on how the groups are labelled)
+    storey, _ = pd.factorize(acts.storey)
+    pier, piers = pd.factorize(acts.pier_id)
+    groups = storey.astype(np.int64) * max(len(piers), 1) + pier
     pick = np.zeros(len(acts), dtype=bool)
     for values in measures.values():
         rank = (
