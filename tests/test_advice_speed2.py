@@ -6,7 +6,7 @@ bit on crafted cases; each test fails if its fast path is broken.
   M* (both senses run) so that the choice between them is exercised.
 - `_pair_groups` / `_sorted_members` (the pair probe in one pass, only passing groups sorted)
   against the stable lexsort of every pair they replace, with cost ties and NaN costs.
-- the option words made once per distinct arrangement (`_memo`) against words made row by row.
+- the option words made once per distinct arrangement (`_words`) against words made row by row.
 """
 
 import numpy as np
@@ -128,7 +128,10 @@ def test_option_words_made_once_per_arrangement_equal_words_row_by_row(monkeypat
     s = Settings()
     var, meta = advice._candidates(piers, failing_of(piers), s)
     assert {advice.THICK_KIND, advice.ZONE_KIND} <= set(meta.kind)
-    monkeypatch.setattr(advice, "_memo", lambda f: f)
+    def row_by_row(f, *cols):
+        return [f(*row) for row in zip(*(np.asarray(c, dtype=float).tolist() for c in cols), strict=True)]
+
+    monkeypatch.setattr(advice, "_words", row_by_row)
     var_rows, meta_rows = advice._candidates(piers, failing_of(piers), s)
     pd.testing.assert_frame_equal(meta, meta_rows, check_exact=True)
     pd.testing.assert_frame_equal(var, var_rows, check_exact=True)
@@ -148,15 +151,18 @@ def test_option_words_made_once_per_arrangement_equal_words_row_by_row(monkeypat
         assert r.option == want
 
 
-def test_memo_answers_as_the_function_does_for_every_argument():
+def test_words_once_per_distinct_row_equal_words_row_by_row():
     calls = []
 
     def words(d, sp, n):
         calls.append((d, sp, n))
-        return f"{d:g}/{sp:g}/{n:g}"
+        return f"{d:g}/{sp:g}/{n:.1f}"
 
-    cached = advice._memo(words)
-    args = [(12.0, 200.0, 1.0), (12.0, 200.0, 2.0), (12.0, 150.0, 2.0), (16.0, 200.0, 2.0)]
-    args.append(args[0])
-    assert [cached(*a) for a in args] == [words(*a) for a in args]
-    assert len(calls) == 4 + 5  # the repeat answered from the memo
+    d = np.array([12.0, 12.0, 12.0, 16.0, 12.0, 0.0, -0.0, np.nan, 12.0])
+    sp = np.array([200.0, 200.0, 150.0, 200.0, 200.0, 0.0, 0.0, 1.0, 200.0])
+    n = np.array([1.0, 2.0, 2.0, 2.0, 1.0, 0.0, 0.0, 1.0, 1.0])
+    got = advice._words(words, d, sp, n)
+    assert got == [words(*r) for r in zip(d.tolist(), sp.tolist(), n.tolist(), strict=True)]
+    assert len(calls) == 7 + 9  # the repeats of the first row answered once
+    assert got[5] == "0/0/0.0" and got[6] == "-0/0/0.0"
+    assert advice._words(words) == [] and advice._words(words, d[:0]) == []

@@ -151,20 +151,18 @@ def _bars_text(d: float, sp: float, n: float, std: Standard) -> str:
     return f"{std.bar_name(d)} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
-def _memo(f):
-    """`f` (pure, of a few float arguments) with its answers kept for this call's rows: the L
-    tower words 150 000 options from a few hundred distinct bar arrangements (a catalogue lookup
-    per row cost 0.5 s). The arguments are catalogue sizes, never 0, so float keys are safe
-    (0.0 and -0.0, equal keys, would format differently)."""
-    seen: dict = {}
-
-    def cached(*args):
-        out = seen.get(args)
-        if out is None:
-            out = seen[args] = f(*args)
-        return out
-
-    return cached
+def _words(f, *columns) -> list[str]:
+    """`[f(*row) for row in zip(*columns)]` (floats), with f called once per distinct row: the L
+    tower words 150 000 options from a few thousand distinct arrangements (a format and a
+    catalogue lookup per row cost 0.5 s). Rows are told apart by their bytes, so two rows share
+    words only where every value is the same float (0.0 and -0.0, NaNs of other bits, differ)."""
+    table = np.column_stack([np.asarray(c, dtype=float) for c in columns]) if columns else None
+    if table is None or not len(table):
+        return []
+    rows = np.ascontiguousarray(table).view(np.dtype((np.void, table.dtype.itemsize * table.shape[1])))
+    _, first, inverse = np.unique(rows.ravel(), return_index=True, return_inverse=True)
+    words = np.asarray([f(*row) for row in table[first].tolist()], dtype=object)
+    return words[inverse.ravel()].tolist()
 
 
 
@@ -276,15 +274,10 @@ def _candidates(
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
-    zone_text = _memo(
-        lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)"
+    option[zoned] = _words(
+        lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)",
+        *(var[k].to_numpy()[zoned] for k in ("za_n", "za_dia", "za_len")),
     )
-    option[zoned] = [
-        zone_text(n, d, length)
-        for n, d, length in zip(
-            *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
-        )
-    ]
     # each variant's own pier ID, unique over storeys too: an integer, so that the checks' joins
     # on (storey, pier) and the maps by variant hash numbers, not text (a text ID per variant cost
     # a Python format per row and string factorising in every join); the variant is its row
@@ -360,7 +353,6 @@ def _thicker(
     )
     found = np.ones(len(idx), dtype=bool)
     std = _std(settings)
-    bars_text = _memo(lambda d, sp, n: _bars_text(d, sp, n, std))
     chosen = {}
     for prefix, label in (("v", "vertical"), ("h", "horizontal")):
         rho0 = rows[f"rho_{prefix}"].to_numpy(float)
@@ -385,14 +377,14 @@ def _thicker(
     col[idx] = t
     var["tw"] = col
     keep[idx] &= found
-    (dv, sv, v0, v1), (dh, sh, h0, h1) = ((a.tolist() for a in chosen[p]) for p in "vh")
-    return [
-        f"tw {x:g} mm, bars for the same ratio: vertical {bars_text(a, b, n)} (rho {c:.5f} -> {e:.5f}); "
-        f"horizontal {bars_text(f, g, n)} (rho {h:.5f} -> {i:.5f})"
-        for x, n, a, b, c, e, f, g, h, i in zip(
-            t.tolist(), layers.tolist(), dv, sv, v0, v1, dh, sh, h0, h1, strict=True
+
+    def words(x, n, a, b, c, e, f, g, h, i):
+        return (
+            f"tw {x:g} mm, bars for the same ratio: vertical {_bars_text(a, b, n, std)} "
+            f"(rho {c:.5f} -> {e:.5f}); horizontal {_bars_text(f, g, n, std)} (rho {h:.5f} -> {i:.5f})"
         )
-    ]
+
+    return _words(words, t, layers, *chosen["v"], *chosen["h"])
 
 
 def _zone_options(
