@@ -166,3 +166,18 @@ def test_words_once_per_distinct_row_equal_words_row_by_row():
     assert len(calls) == 7 + 9  # the repeats of the first row answered once
     assert got[5] == "0/0/0.0" and got[6] == "-0/0/0.0"
     assert advice._words(words) == [] and advice._words(words, d[:0]) == []
+
+
+def test_interaction_works_out_only_the_sections_its_rows_read():
+    """With `of`, the sections no row reads are skipped: every value equals the one worked out
+    on all sections (here: on each row's own section, `of` None)."""
+    rows = zoned_rows(Settings())
+    sec = rect_sections(rows)
+    rng = np.random.default_rng(5)
+    of = rng.choice(np.arange(0, len(rows), 3), 400)  # a third of the sections, shuffled
+    n = rng.uniform(-2e6, 2e7, len(of))
+    m = rng.uniform(0.0, 4e9, len(of))
+    part = interaction(sec, n, of=of, m_star=m)
+    whole = interaction(sec.take(of), n, m_star=m)
+    for k in whole:
+        np.testing.assert_array_equal(part[k], whole[k], err_msg=k)

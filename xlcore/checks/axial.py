@@ -144,6 +144,11 @@ def interaction(
     std = std or get_standard(DEFAULT_STANDARD)
     phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
+    if of is not None:  # the sections no N* reads are not worked out (the search reads half)
+        used, of = np.unique(of, return_inverse=True)
+        of = of.ravel()
+        if len(used) < sec.D.size:
+            sec = sec.take(used)
     D = sec.D
     As = sec.As
     nuo = std.squash_load(sec.fc, D * sec.b - As, As, sec.fsy)
