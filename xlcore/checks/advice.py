@@ -1091,7 +1091,11 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         .itertuples(index=False)
     }
     pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
-    g = {(r.storey, r.pier_id, r.fc): r for r in grades.itertuples(index=False)}
+    # the grade rows by key, as records of the two fields read (a record of every column cost more)
+    g = {
+        (r.storey, r.pier_id, r.fc): r
+        for r in grades[["storey", "pier_id", "fc", "util", "variant"]].itertuples(index=False)
+    }
     members = meta.drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
     mine_of = {
