@@ -56,19 +56,21 @@ def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover, zones: pd.DataFrame | N
     return bars.layout(df).all_bars()
 
 
-def _geometry_columns(piers: pd.DataFrame, strict: bool) -> list[str]:
+def _geometry_columns(piers: pd.DataFrame, util_only: bool) -> list[str]:
     """The GEOMETRY columns of `piers` the check joins to its action rows. A pier table may
-    lack the optional ones (the end zones and edge names: no zones); with `strict` (the advice
-    search's variant rows) a missing required one is an error, not a silently different
-    section."""
-    if strict:
+    lack the optional ones (the end zones and edge names: no zones); with `util_only` (the
+    advice search's variant rows) a missing required one is an error, not a silently different
+    section, and the edge names (read by the bars' words alone) are not joined."""
+    if util_only:
         missing = [c for c in GEOMETRY if c not in piers and c not in OPTIONAL_GEOMETRY]
         if missing:
             raise KeyError(f"pier rows lack the axial check's columns {missing}")
+        return [c for c in GEOMETRY if c in piers and c not in EDGE_NAMES]
     return [c for c in GEOMETRY if c in piers]
 
 
-OPTIONAL_GEOMETRY = ("edge_a", "edge_b", *ZONE_COLUMNS)
+EDGE_NAMES = ("edge_a", "edge_b")
+OPTIONAL_GEOMETRY = (*EDGE_NAMES, *ZONE_COLUMNS)
 
 
 def _zone_cols(df: pd.DataFrame) -> list[str]:
