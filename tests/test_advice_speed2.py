@@ -181,3 +181,50 @@ def test_interaction_works_out_only_the_sections_its_rows_read():
     whole = interaction(sec.take(of), n, m_star=m)
     for k in whole:
         np.testing.assert_array_equal(part[k], whole[k], err_msg=k)
+
+
+def reference_probed(rows_of, meta, group, actions, screen, settings, keep_all=False):
+    """`_probed` as it was: pandas' stable sort on the keys, group-by tail, merge."""
+    if meta.empty:
+        return meta.assign(_hope=True) if keep_all else meta
+    meta = meta.sort_values([*group, "added_cost"], kind="stable")
+    probe = meta.groupby(group, sort=False).tail(1)
+    ok = probe.variant.map(advice._every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
+    marked = meta.merge(probe[ok][group].assign(_hope=True), on=group, how="left")
+    marked["_hope"] = marked._hope.eq(True)
+    return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+
+
+@pytest.mark.parametrize("keep_all", [True, False])
+@pytest.mark.parametrize("scale", [1.0, 2.5])
+def test_probe_by_integer_codes_equals_the_sort_on_text_keys(keep_all, scale):
+    """Same rows, order, index, columns and marks; groups by text keys (singles, shuffled, some
+    costs NaN or tied) and by integer keys (pairs)."""
+    piers = tower()
+    s = Settings()
+    acts = actions_for(piers, scale)
+    failing = failing_of(piers)
+    var, meta = advice._candidates(piers, failing, s)
+    screen = advice.ActionRows(advice._screening_actions(acts, failing))
+    rows = advice.ActionRows(acts)
+    rng = np.random.default_rng(11)
+    alone = meta[meta.kind.isin(advice.PIER_KINDS).to_numpy()].sample(frac=1.0, random_state=4)
+    cost = alone.added_cost.to_numpy(float).copy()
+    cost[rng.random(len(cost)) < 0.02] = np.nan
+    cost[rng.random(len(cost)) < 0.05] = 1000.0
+    alone = alone.assign(added_cost=cost)
+    group = ["storey", "pier_id", "kind"]
+
+    def single_rows(m):
+        return var.iloc[m.variant.to_numpy()]
+
+    want = reference_probed(single_rows, alone, group, rows, screen, s, keep_all)
+    got = advice._probed(single_rows, alone, group, rows, screen, s, keep_all)
+    assert 0 < int(want._hope.sum() if keep_all else len(want)) < len(alone)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    meta["pour"], _ = advice.pour_keys(meta.assign(**advice._pier_cols(piers, meta)), piers, s)
+    pairs = advice._pairs(meta, advice.pour_premiums(piers, s), len(var), s).sample(frac=0.3, random_state=2)
+    rows_of = advice._pair_rows(var)
+    want = reference_probed(rows_of, pairs, ["bi", "pair"], rows, screen, s, keep_all)
+    got = advice._probed(rows_of, pairs, ["bi", "pair"], rows, screen, s, keep_all)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)

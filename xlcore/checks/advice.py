@@ -571,12 +571,37 @@ def _probed(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
     `keep_all`, every option, marked `_hope`."""
     if meta.empty:
         return meta.assign(_hope=True) if keep_all else meta
-    meta = meta.sort_values([*group, "added_cost"], kind="stable")
-    probe = meta.groupby(group, sort=False).tail(1)
-    hope = probe[probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()]
-    marked = meta.merge(hope[group].assign(_hope=True), on=group, how="left")
-    marked["_hope"] = marked._hope.eq(True)
+    order, of = _group_order(meta, group)
+    if order is None:  # a key missing somewhere: pandas' sort, merge and NaN rules
+        meta = meta.sort_values([*group, "added_cost"], kind="stable")
+        probe = meta.groupby(group, sort=False).tail(1)
+        hope = probe[probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()]
+        marked = meta.merge(hope[group].assign(_hope=True), on=group, how="left")
+        marked["_hope"] = marked._hope.eq(True)
+        return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+    meta = meta.iloc[order]
+    probe = meta.iloc[np.flatnonzero(np.append(of[1:] != of[:-1], True))]  # each group's last
+    passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
+    marked = meta.reset_index(drop=True)  # the rows and order of the merge of the sorted table
+    marked["_hope"] = passes[of]
     return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+
+
+def _group_order(meta: pd.DataFrame, group: list[str]) -> tuple[np.ndarray | None, np.ndarray]:
+    """The stable sort of `meta` by (*group, added_cost), NaN costs last (`sort_values`'s order),
+    as positions, and each sorted row's group number: by integer codes of the keys, each
+    numbered in sorted order of its values, instead of sorting the text keys (the L tower's
+    380 000 options by storey, pier and kind). None where a key is missing (NaN)."""
+    codes = [pd.factorize(meta[c], sort=True)[0] for c in group]
+    if any((c < 0).any() for c in codes):
+        return None, np.zeros(0, dtype=np.int64)
+    order = np.lexsort((meta.added_cost.to_numpy(float), *reversed(codes)))
+    new = np.zeros(len(order), dtype=bool)
+    for c in codes:
+        k = c[order]
+        new[1:] |= k[1:] != k[:-1]
+    new[0] = True
+    return order, np.cumsum(new) - 1
 
 
 ROUND = 6  # options per group tried in the first round, cheapest first; doubling after
