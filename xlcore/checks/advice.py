@@ -151,6 +151,20 @@ def _bars_text(d: float, sp: float, n: float, std: Standard) -> str:
     return f"{std.bar_name(d)} @ {sp:g} x {n:g} layer{'s' if n > 1 else ''}"
 
 
+def _words(f, *columns) -> list[str]:
+    """`[f(*row) for row in zip(*columns)]` (floats), with f called once per distinct row: the L
+    tower words 150 000 options from a few thousand distinct arrangements (a format and a
+    catalogue lookup per row cost 0.5 s). Rows are told apart by their bytes, so two rows share
+    words only where every value is the same float (0.0 and -0.0, NaNs of other bits, differ)."""
+    table = np.column_stack([np.asarray(c, dtype=float) for c in columns]) if columns else None
+    if table is None or not len(table):
+        return []
+    rows = np.ascontiguousarray(table).view(np.dtype((np.void, table.dtype.itemsize * table.shape[1])))
+    _, first, inverse = np.unique(rows.ravel(), return_index=True, return_inverse=True)
+    words = np.asarray([f(*row) for row in table[first].tolist()], dtype=object)
+    return words[inverse.ravel()].tolist()
+
+
 
 def two_layers_required(settings: Settings) -> bool:
     """Section 14's both-faces rule applies (checks/section14.py: a ductile structure and the
@@ -260,12 +274,10 @@ def _candidates(
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = kind == ZONE_KIND
-    option[zoned] = [
-        f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)"
-        for n, d, length in zip(
-            *(var[k].to_numpy()[zoned].tolist() for k in ("za_n", "za_dia", "za_len")), strict=True
-        )
-    ]
+    option[zoned] = _words(
+        lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)",
+        *(var[k].to_numpy()[zoned] for k in ("za_n", "za_dia", "za_len")),
+    )
     # each variant's own pier ID, unique over storeys too: an integer, so that the checks' joins
     # on (storey, pier) and the maps by variant hash numbers, not text (a text ID per variant cost
     # a Python format per row and string factorising in every join); the variant is its row
@@ -286,10 +298,10 @@ def _candidates(
     meta["zarea"] = _zone_area(var)
     for key in ("fc", "tw", "rho_v", "rho_h"):
         meta[key] = var[key].to_numpy(float)
-    b = base.iloc[bi]
+    # the four base columns read, by position (not every pier column taken again)
     for key in ("Lw", "Hc"):
-        meta[key] = b[key].to_numpy(float)
-    meta["fc0"], meta["tw0"] = b.fc.to_numpy(float), b.tw.to_numpy(float)
+        meta[key] = base[key].to_numpy(float)[bi]
+    meta["fc0"], meta["tw0"] = base.fc.to_numpy(float)[bi], base.tw.to_numpy(float)[bi]
     base_cost = _cost_total(
         base.Lw, base.tw, base.rho_v, base.rho_h, base.fc, _zone_area(base), base.Hc, prices, settings
     )
@@ -339,9 +351,9 @@ def _thicker(
     layers = np.maximum.reduce(
         [rows.v_layers.to_numpy(float), rows.h_layers.to_numpy(float), _layers_needed(t, settings)]
     )
-    words = [f"tw {x:g} mm, bars for the same ratio:" for x in t.tolist()]
     found = np.ones(len(idx), dtype=bool)
     std = _std(settings)
+    chosen = {}
     for prefix, label in (("v", "vertical"), ("h", "horizontal")):
         rho0 = rows[f"rho_{prefix}"].to_numpy(float)
         d, sp, rho, ok = _hold_ratio(
@@ -358,17 +370,21 @@ def _thicker(
             col = var[field].to_numpy(float).copy()
             col[idx] = new
             var[field] = col
-        words = [
-            f"{w} {label} {_bars_text(di, s, n, std)} (rho {r0:.5f} -> {r:.5f}){';' if prefix == 'v' else ''}"
-            for w, di, s, n, r0, r in zip(words, d, sp, layers, rho0, rho, strict=True)
-        ]
+        chosen[prefix] = (d, sp, rho0, rho)
     for p in "hv":
         var[f"{p}_layers"] = var[f"{p}_layers"].to_numpy(float).astype(int)
     col = var.tw.to_numpy(float).copy()
     col[idx] = t
     var["tw"] = col
     keep[idx] &= found
-    return words
+
+    def words(x, n, a, b, c, e, f, g, h, i):
+        return (
+            f"tw {x:g} mm, bars for the same ratio: vertical {_bars_text(a, b, n, std)} "
+            f"(rho {c:.5f} -> {e:.5f}); horizontal {_bars_text(f, g, n, std)} (rho {h:.5f} -> {i:.5f})"
+        )
+
+    return _words(words, t, layers, *chosen["v"], *chosen["h"])
 
 
 def _zone_options(
@@ -555,12 +571,37 @@ def _probed(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
     `keep_all`, every option, marked `_hope`."""
     if meta.empty:
         return meta.assign(_hope=True) if keep_all else meta
-    meta = meta.sort_values([*group, "added_cost"], kind="stable")
-    probe = meta.groupby(group, sort=False).tail(1)
-    hope = probe[probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()]
-    marked = meta.merge(hope[group].assign(_hope=True), on=group, how="left")
-    marked["_hope"] = marked._hope.eq(True)
+    order, of = _group_order(meta, group)
+    if order is None:  # a key missing somewhere: pandas' sort, merge and NaN rules
+        meta = meta.sort_values([*group, "added_cost"], kind="stable")
+        probe = meta.groupby(group, sort=False).tail(1)
+        hope = probe[probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()]
+        marked = meta.merge(hope[group].assign(_hope=True), on=group, how="left")
+        marked["_hope"] = marked._hope.eq(True)
+        return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+    meta = meta.iloc[order]
+    probe = meta.iloc[np.flatnonzero(np.append(of[1:] != of[:-1], True))]  # each group's last
+    passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
+    marked = meta.reset_index(drop=True)  # the rows and order of the merge of the sorted table
+    marked["_hope"] = passes[of]
     return marked if keep_all else marked[marked._hope].drop(columns="_hope")
+
+
+def _group_order(meta: pd.DataFrame, group: list[str]) -> tuple[np.ndarray | None, np.ndarray]:
+    """The stable sort of `meta` by (*group, added_cost), NaN costs last (`sort_values`'s order),
+    as positions, and each sorted row's group number: by integer codes of the keys, each
+    numbered in sorted order of its values, instead of sorting the text keys (the L tower's
+    380 000 options by storey, pier and kind). None where a key is missing (NaN)."""
+    codes = [pd.factorize(meta[c], sort=True)[0] for c in group]
+    if any((c < 0).any() for c in codes):
+        return None, np.zeros(0, dtype=np.int64)
+    order = np.lexsort((meta.added_cost.to_numpy(float), *reversed(codes)))
+    new = np.zeros(len(order), dtype=bool)
+    for c in codes:
+        k = c[order]
+        new[1:] |= k[1:] != k[:-1]
+    new[0] = True
+    return order, np.cumsum(new) - 1
 
 
 ROUND = 6  # options per group tried in the first round, cheapest first; doubling after
@@ -753,23 +794,51 @@ def _probed_pairs(
     if not n:
         pm = _pairs(meta, premiums, first_id, settings)
         return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
-    bi = meta.bi.to_numpy()[arrays["a"]]
-    # stable, NaN last like pandas
-    order = np.lexsort((arrays["added_cost"], arrays["pair"], bi)).astype(np.int32)
-    sb, sp = bi[order], arrays["pair"][order]
-    del bi
-    new = np.ones(n, dtype=bool)
-    new[1:] = (sb[1:] != sb[:-1]) | (sp[1:] != sp[:-1])
-    del sb, sp
-    group = (np.cumsum(new, dtype=np.int32) - 1).astype(np.int32)
-    last = np.flatnonzero(np.append(new[1:], True))  # each group's most expensive pair, sorted
-    del new
-    probe = _pair_frame(meta, arrays, order[last], first_id + order[last].astype(np.int64))
+    group, count, last = _pair_groups(meta.bi.to_numpy()[arrays["a"]], arrays["pair"], arrays["added_cost"])
+    probe = _pair_frame(meta, arrays, last, first_id + last.astype(np.int64))
     passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
-    keep = np.flatnonzero(passes[group])
-    out = _pair_frame(meta, arrays, order[keep], first_id + order[keep].astype(np.int64))
-    out.index = keep
+    rows, at = _sorted_members(group, arrays["added_cost"], np.flatnonzero(passes), count)
+    out = _pair_frame(meta, arrays, rows, first_id + rows.astype(np.int64))
+    out.index = at
     return out
+
+
+def _pair_groups(
+    bi: np.ndarray, pair: np.ndarray, cost: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The groups (pier `bi` x `pair`) of the pairs, numbered in (bi, pair) order; each group's
+    size; and each group's probe: the last pair of the group in the stable sort by cost (NaN
+    last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One
+    O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
+    of most groups (`_sorted_members` orders the few that pass)."""
+    key = bi.astype(np.int64) * len(PAIRS) + pair
+    size = np.bincount(key)  # keys are small (piers x 8): grouped without sorting
+    present = size > 0
+    group = (np.cumsum(present) - 1).astype(np.int32)[key]
+    nan = np.isnan(cost)
+    any_nan = np.bincount(key[nan], minlength=len(size)) > 0
+    top = np.full(len(size), -np.inf)
+    np.fmax.at(top, key, cost)  # each group's largest cost (NaN left out: any_nan says)
+    hit = np.where(any_nan[key], nan, cost == top[key])
+    last = np.full(len(size), -1, dtype=np.int64)
+    np.maximum.at(last, key[hit], np.flatnonzero(hit))  # the latest of them, as a stable sort
+    return group, size[present], last[present]
+
+
+def _sorted_members(
+    group: np.ndarray, cost: np.ndarray, chosen: np.ndarray, count: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """The pairs of the groups `chosen`, in the stable sort by (group, cost) with NaN last, and
+    each one's position in that sort of every pair (the index `_probed` gives them)."""
+    take = np.zeros(len(count), dtype=bool)
+    take[chosen] = True
+    rows = np.flatnonzero(take[group])
+    rows = rows[np.lexsort((cost[rows], group[rows]))]
+    g = group[rows]
+    first = np.concatenate([[0], np.flatnonzero(g[1:] != g[:-1]) + 1]) if len(g) else np.zeros(0, dtype=int)
+    rank = np.arange(len(rows)) - np.repeat(first, np.diff(np.append(first, len(rows))))
+    offset = np.concatenate([[0], np.cumsum(count)[:-1]])
+    return rows.astype(np.int32), offset[g] + rank
 
 
 def pair_words(pairs: pd.DataFrame, meta: pd.DataFrame) -> list[str]:
@@ -1047,7 +1116,11 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         .itertuples(index=False)
     }
     pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
-    g = {(r.storey, r.pier_id, r.fc): r for r in grades.itertuples(index=False)}
+    # the grade rows by key, as records of the two fields read (a record of every column cost more)
+    g = {
+        (r.storey, r.pier_id, r.fc): r
+        for r in grades[["storey", "pier_id", "fc", "util", "variant"]].itertuples(index=False)
+    }
     members = meta.drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
     mine_of = {
@@ -1183,7 +1256,11 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
         "e": m / np.maximum(np.abs(n), 1e-9),
         "o": np.abs(np.nan_to_num(acts.m_out.to_numpy(float))) if "m_out" in acts else np.zeros(len(acts)),
     }
-    groups = [acts.storey.to_numpy(), acts.pier_id.to_numpy()]
+    # each (storey, pier) as one integer, factorised once for the six rankings (ranks within a
+    # group do not depend on how the groups are labelled)
+    storey, _ = pd.factorize(acts.storey)
+    pier, piers = pd.factorize(acts.pier_id)
+    groups = storey.astype(np.int64) * max(len(piers), 1) + pier
     pick = np.zeros(len(acts), dtype=bool)
     for values in measures.values():
         rank = (
@@ -1220,14 +1297,14 @@ def _worst(
         if len(over):
             rest = ~var.pier_id.isin(over).to_numpy()
             var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
-        axial = check_pier_axial(var, acts, s, working=False)
+        axial = check_pier_axial(var, acts, s, working=False, util_only=True)
         parts = cheap
         if len(axial):
             parts.append(axial[["pier_id", "util"]])
             simp = axial[axial.util_s.notna()]
             parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
         return pd.concat(parts).groupby("pier_id").util.max()
-    axial = check_pier_axial(var, acts, s, working=False)
+    axial = check_pier_axial(var, acts, s, working=False, util_only=True)
     # the shear table also goes to detailing, which otherwise runs the same shear check again
     shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
     parts = [] if shear is None else [shear[["pier_id", "util"]]]

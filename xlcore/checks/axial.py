@@ -56,6 +56,23 @@ def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover, zones: pd.DataFrame | N
     return bars.layout(df).all_bars()
 
 
+def _geometry_columns(piers: pd.DataFrame, util_only: bool) -> list[str]:
+    """The GEOMETRY columns of `piers` the check joins to its action rows. A pier table may
+    lack the optional ones (the end zones and edge names: no zones); with `util_only` (the
+    advice search's variant rows) a missing required one is an error, not a silently different
+    section, and the edge names (read by the bars' words alone) are not joined."""
+    if util_only:
+        missing = [c for c in GEOMETRY if c not in piers and c not in OPTIONAL_GEOMETRY]
+        if missing:
+            raise KeyError(f"pier rows lack the axial check's columns {missing}")
+        return [c for c in GEOMETRY if c in piers and c not in EDGE_NAMES]
+    return [c for c in GEOMETRY if c in piers]
+
+
+EDGE_NAMES = ("edge_a", "edge_b")
+OPTIONAL_GEOMETRY = (*EDGE_NAMES, *ZONE_COLUMNS)
+
+
 def _zone_cols(df: pd.DataFrame) -> list[str]:
     return [c for c in ZONE_COLUMNS if c in df]
 
@@ -99,7 +116,14 @@ def asymmetric(df: pd.DataFrame) -> np.ndarray:
 
 
 def interaction(
-    sec, n_star, phi0=None, of: np.ndarray | None = None, m_star=None, *, std: Standard | None = None
+    sec,
+    n_star,
+    phi0=None,
+    of: np.ndarray | None = None,
+    m_star=None,
+    *,
+    std: Standard | None = None,
+    at_n: bool = True,
 ) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
@@ -115,10 +139,18 @@ def interaction(
     `sec` may hold each distinct section once and `of` give the section of each N*: the
     section's own points (squash, balance, pure bending) are then found once per section.
 
-    With `m_star` [N mm] also the radial overload factor `lam` (see `radial`)."""
+    With `m_star` [N mm] also the radial overload factor `lam` (see `radial`). Without `at_n`
+    (the advice search, which reads `lam` alone) the neutral axis at phi N = N* is not solved:
+    `dn`, `nu`, `mu`, `phi` and `phi_mu` are NaN, every other value the same (`radial` reads the
+    section's own points only)."""
     std = std or get_standard(DEFAULT_STANDARD)
     phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
+    if of is not None:  # the sections no N* reads are not worked out (the search reads half)
+        used, of = np.unique(of, return_inverse=True)
+        of = of.ravel()
+        if len(used) < sec.D.size:
+            sec = sec.take(used)
     D = sec.D
     As = sec.As
     nuo = std.squash_load(sec.fc, D * sec.b - As, As, sec.fsy)
@@ -151,10 +183,13 @@ def interaction(
     phi_d = phi_at(nd, D)
     phi_b = phi_at(np.zeros(D.shape), dn0)  # pure bending
     # regular region: phi N = N*, N between 0 and decompression
-    target = np.clip(n_star, 0.0, phi_d * nd)
-    dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at)
-    nu, mu = nm.forces(sec, dn)
-    phi = phi_at(nu, dn)
+    if at_n:
+        target = np.clip(n_star, 0.0, phi_d * nd)
+        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at)
+        nu, mu = nm.forces(sec, dn)
+        phi = phi_at(nu, dn)
+    else:  # the one per-row solve `lam` does not read (half the search's N-M work)
+        dn = nu = mu = phi = np.full(D.shape, np.nan)
     phi_mu = phi * np.abs(mu)
     line_end = phi0 * nuo  # the straight line above decompression ends here (AS: = top)
     above = n_star > phi_d * nd
@@ -297,13 +332,18 @@ def check_pier_axial(
     text: bool = True,
     *,
     std: Standard | None = None,
+    util_only: bool = False,
 ) -> pd.DataFrame:
     """In-plane axial force and bending of every pier row, kN and kNm (without `working`, the
     numbers only; without `text`, every column but the working text f_nm and f_s, which the
     same call on the rows written makes later: `compute --detail`). Column keys keep their
-    first (AS 3600) names (`nuo` the squash load, AS Nuo or ACI Po); headers are neutral."""
+    first (AS 3600) names (`nuo` the squash load, AS Nuo or ACI Po); headers are neutral.
+
+    `util_only` (the advice search, which reads util, util_s and hwe alone): those columns and
+    the simplified method's, the same numbers, without the fixed-N* ratio and its solve
+    (`interaction(at_n=False)`), nor the other columns of the N-M check."""
     std = std or get_standard(settings.standard)
-    df = actions.merge(piers[[c for c in GEOMETRY if c in piers]], on=["storey", "pier_id"], how="left")
+    df = actions.merge(piers[_geometry_columns(piers, util_only)], on=["storey", "pier_id"], how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
@@ -318,11 +358,17 @@ def check_pier_axial(
     both = asym[of] & (m_design > np.abs(m_raw))
     rows = np.concatenate([np.arange(len(df)), np.flatnonzero(both)])
     sense = np.concatenate([end_compressed, ~end_compressed[both]])
-    r = interaction(sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows], std=std)
+    r = interaction(
+        sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows], std=std,
+        at_n=not util_only,
+    )  # fmt: skip
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
     worse = r["lam"][other] > r["lam"][np.flatnonzero(both)]
     pick[np.flatnonzero(both)[worse]] = other[worse]
+    if util_only:
+        df["util"] = r["lam"][pick]
+        return _simplified(df, settings, of, working=False, std=std, util_only=True)
     r = {k: v[pick] for k, v in r.items()}
     df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either")
     section_of = (of[rows] + len(first) * sense)[pick]
@@ -504,11 +550,18 @@ def end_axial_per_length(n_star, m_star, Lw):
 
 
 def _simplified(
-    df: pd.DataFrame, s: Settings, of: np.ndarray, working: bool = True, std: Standard | None = None
+    df: pd.DataFrame,
+    s: Settings,
+    of: np.ndarray,
+    working: bool = True,
+    std: Standard | None = None,
+    util_only: bool = False,
 ) -> pd.DataFrame:
     """The standard's simplified method for walls in compression per row (AS 3600 Cl 11.5,
     ACI 318 11.5.3), with its applicability evaluated row by row; `of` gives each row's
-    storey x pier group (`per_pier`)."""
+    storey x pier group (`per_pier`). With `util_only` (`check_pier_axial`'s) the columns
+    k, hwe and util_s alone (the same numbers; no text columns, which cost more than the sums
+    on the advice search's rows)."""
     std = std or get_standard(s.standard)
     phi = s.phi_simplified if s.phi_simplified is not None else std.phi_simplified
     tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
@@ -517,7 +570,6 @@ def _simplified(
     n = df.n.to_numpy(float)
     m_out = df.m_out.to_numpy(float) if "m_out" in df else np.zeros(len(df))
     e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
-    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
     cap = std.simplified_capacity(df.fc.to_numpy(float), tw, Lw, hwe, e_given, phi) * 1e-3
     # in-plane moment considered: the design axial force per unit length at the pier's more
     # compressed end, N*/Lw + 6 M*/Lw^2 (M* with any least eccentricity is for the column check)
@@ -528,6 +580,12 @@ def _simplified(
     # each condition that rules the method out, as a row mask, by name
     fails = std.simplified_exclusions(n * 1e3, lo, tw, hwe, e_given, layers, stress)
     applies = ~np.logical_or.reduce(list(fails.values()))
+    if util_only:
+        df["k"], df["hwe"] = k, hwe
+        with np.errstate(divide="ignore", invalid="ignore"):
+            df["util_s"] = np.where(applies, hi * Lw * 1e-3 / np.where(cap > 0, cap, np.nan), np.nan)
+        return df
+    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
     df["k"], df["hwe"], df["e"], df["ea"] = k, hwe, e, ea
     df["slender"] = hwe / tw
     df["phi_s"] = phi
