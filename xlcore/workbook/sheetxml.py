@@ -319,13 +319,13 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
     for j, c in enumerate(cols):
         if c.wraps and columns[j] is not None:
             room = max(1.0, widths_of[j] * 0.95)
-            lengths = np.fromiter(
-                (len(v) if type(v) is str else 0 for v in columns[j][lo:hi]), dtype=float, count=hi - lo
-            )
+            lengths = np.array(_lengths(columns[j][lo:hi].tolist()), dtype=float)
             heights = np.maximum(heights, np.ceil(lengths / room).astype(int))
-    values: list[list] = [
-        [f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else "" for k in heights.tolist()]
-    ]
+    ht = {
+        k: f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else ""
+        for k in np.unique(heights).tolist()
+    }
+    values: list[list] = [[ht[k] for k in heights.tolist()]]
     for j, c in enumerate(cols):
         arr = columns[j]
         k = len(values) + 1
@@ -388,6 +388,12 @@ def reprs(x: np.ndarray) -> list[str]:
         return list(map(repr, x.tolist()))
     texts = np.array(list(map(repr, distinct.view(np.float64).tolist())), dtype=object)
     return texts[where].tolist()
+
+
+def _lengths(vals: list) -> list[int]:
+    """Characters of each text, 0 for a value that is not text (a list, not a generator into
+    numpy: half the time)."""
+    return [len(v) if type(v) is str else 0 for v in vals]
 
 
 def _texts(vals: list) -> list[str]:
