@@ -359,12 +359,14 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
                 f'<c r="{letter}{{0}}" t="inlineStr"{st}><is><t xml:space="preserve">{{{k}}}</t></is></c>'
             )
             values.append(_texts(vals))
-        elif kinds <= {str, type(None)}:  # text with blanks: what `_cell` makes, text by text
+        elif kinds <= {str, type(None), float}:  # text with blanks (None, NaN, ''): as `_cell`
             parts.append(f"{{{k}}}")
             head, tail = f'<c r="{letter}', f'" t="inlineStr"{st}><is><t xml:space="preserve">'
             values.append(
                 [
-                    f"{head}{r}{tail}{t}</t></is></c>" if v else ""  # v, not t: "\x01" is a cell
+                    (f"{head}{r}{tail}{t}</t></is></c>" if v else "")  # v, not t: "\x01" is a cell
+                    if type(v) is str
+                    else _cell(f"{letter}{r}", v, style)
                     for r, v, t in zip(range(first + lo, first + hi), vals, _texts(vals), strict=True)
                 ]
             )
@@ -397,7 +399,9 @@ def _lengths(vals: list) -> list[int]:
 
 
 def _texts(vals: list) -> list[str]:
-    """Each text as it goes in a cell (`text`), each distinct one escaped once; None and ''
-    become '' (a blank cell)."""
-    cache: dict[object, str] = {None: "", "": ""}
-    return [cache[v] if v in cache else cache.setdefault(v, text(v)) for v in vals]
+    """Each text as it goes in a cell (`text`), each distinct one escaped once; '' for a value
+    that is not text (the caller makes its cell)."""
+    cache: dict[str, str] = {}
+    return [
+        (cache[v] if v in cache else cache.setdefault(v, text(v))) if type(v) is str else "" for v in vals
+    ]
