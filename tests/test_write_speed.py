@@ -188,3 +188,23 @@ def test_failing_rows_with_the_governing_rows_are_governing_rows_with_the_failin
         got = results.governing_rows(df, rule, failing=False) | failing_rows(df, rule)
         assert np.array_equal(got, want)
     assert failing_rows(df, results.GOVERNING[results.AXIAL_SHEET]).sum() > 0
+
+
+def test_a_large_part_with_a_bad_crc_is_refused_and_the_workbook_stays(computed, demo_book):
+    """Large untouched parts are copied as stored and checked in a thread (`_check_raw`): a bad
+    CRC there must still stop the save, as `ZipFile.read` did, leaving the workbook as it was."""
+    name = "customXml/big-note.xml"
+    payload = b"<note>" + np.random.default_rng(1).bytes(3 << 19).hex().encode() + b"</note>"
+    with zipfile.ZipFile(demo_book, "a", zipfile.ZIP_DEFLATED) as z:
+        z.writestr(name, payload, compresslevel=9)
+    data = bytearray(demo_book.read_bytes())
+    at = data.find(b"PK\x01\x02")  # the central directory entry of the part: its CRC-32
+    while data[at + 46 : at + 46 + len(name)] != name.encode():
+        at = data.find(b"PK\x01\x02", at + 4)
+    data[at + 16] ^= 0x01
+    demo_book.write_bytes(bytes(data))
+    listing = sorted(p.name for p in demo_book.parent.iterdir())
+    with pytest.raises(zipfile.BadZipFile, match="Bad CRC-32"):
+        writer.write_results(demo_book, demo_book, computed.sheets)
+    assert demo_book.read_bytes() == bytes(data)
+    assert sorted(p.name for p in demo_book.parent.iterdir()) == listing

@@ -31,6 +31,7 @@ import struct
 import tempfile
 import threading
 import zipfile
+import zlib
 from collections.abc import Callable, Iterator, Sequence
 from pathlib import Path
 
@@ -220,9 +221,13 @@ def write_results(
             reporter.begin(f"writing {len(tables)} full tables (Parquet)")
         staged = full_tables.prepare(dst, tables)  # refusals first, before any work
         tables_job = _Job(staged.write, tables, stamp)  # in a thread: pyarrow and zstd free the GIL
+        crc_job = None
         try:
             with open_package(src) as zf:
                 package = _build(zf, sheets, reporter.advance)
+            # the large parts copied as stored, inflated and checked meanwhile (zlib frees the GIL)
+            raws = [(info, data.data) for info, data in package if isinstance(data, _Raw)]
+            crc_job = _Job(_check_raw, raws)
             _save(
                 package,
                 real,
@@ -231,9 +236,11 @@ def write_results(
                 len(sheets),
                 sum(len(s.table) for s in sheets),
                 reporter,
-                ready=tables_job.result,
+                ready=lambda: (crc_job.result(), tables_job.result()),
             )
         except BaseException:
+            if crc_job is not None:
+                crc_job.wait()
             tables_job.wait()
             staged.discard()
             raise
@@ -490,6 +497,17 @@ def _deflated_bytes(zf: zipfile.ZipFile, info: zipfile.ZipInfo) -> bytes:
     return data
 
 
+def _check_raw(parts: list[tuple[zipfile.ZipInfo, bytes]]) -> None:
+    """Each part kept as its stored deflated bytes, inflated and checked as `ZipFile.read` would
+    (size and CRC-32), so a damaged part of the source is never copied into the new workbook:
+    run in a thread while the sheets are written, waited for before the workbook is replaced."""
+    for info, raw in parts:
+        data = zlib.decompressobj(-zlib.MAX_WBITS).decompress(raw)
+        if len(data) != info.file_size or zlib.crc32(data) != info.CRC:
+            raise zipfile.BadZipFile(f"Bad CRC-32 for file {info.filename!r}")
+        del data
+
+
 def _write_raw(out: zipfile.ZipFile, info: zipfile.ZipInfo, raw: bytes, zip64: bool = False) -> None:
     """A part whose deflated bytes, CRC and sizes are known, as `ZipFile.writestr` would write it
     (local header with the sizes, the data, the entry for the central directory), without
@@ -627,10 +645,10 @@ def _build(
         if info.filename in drop_parts:
             continue
         data = changed.get(info.filename)
-        if data is None:
+        if data is None and info.compress_type == zipfile.ZIP_DEFLATED and info.file_size > BIG:
+            data = _Raw(_deflated_bytes(zf, info))  # its CRC checked before the save (_check_raw)
+        elif data is None:
             data = zf.read(info.filename)  # inflated, so its CRC is checked as before
-            if info.compress_type == zipfile.ZIP_DEFLATED and len(data) > BIG:
-                data = _Raw(_deflated_bytes(zf, info))
         out.append((info, data))
     if styles_part not in names:
         raise FileProblem("workbook has no style sheet part; open and save it in a spreadsheet program")
