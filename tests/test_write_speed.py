@@ -208,3 +208,17 @@ def test_a_large_part_with_a_bad_crc_is_refused_and_the_workbook_stays(computed,
         writer.write_results(demo_book, demo_book, computed.sheets)
     assert demo_book.read_bytes() == bytes(data)
     assert sorted(p.name for p in demo_book.parent.iterdir()) == listing
+
+
+@pytest.mark.parametrize("na", [np.nan, pd.NA])
+def test_python_strings_to_arrow_equal_pandas_own_conversion(na):
+    """`tables._array` takes a Python-storage text column's own array; pandas' `__arrow_array__`
+    (the general path) must give the same Arrow array, nulls where a value is missing."""
+    import pyarrow as pa
+
+    values = ["a", None, "b & <c>", np.nan, pd.NA, "", "é", "x" * 500] * 50
+    col = pd.Series(values, dtype=pd.StringDtype("python", na_value=na))
+    want = pa.array(col, type=pa.string(), from_pandas=True)
+    got = tables._array(col, numeric=False)
+    assert got.equals(want)
+    assert got.null_count == 3 * 50

@@ -112,6 +112,10 @@ def _array(col: pd.Series, numeric: bool):
         x = pd.to_numeric(col, errors="coerce")
         if not (x.isna() & col.notna() & (col != "")).any():
             return pa.array(x.to_numpy(dtype=float), type=pa.float64(), from_pandas=True)
+    if isinstance(col.dtype, pd.StringDtype) and col.dtype.storage == "python":
+        # its own array of str and a missing-value mark (NaN or NA, both null from pandas): a
+        # third less time than pandas' `__arrow_array__`, which copies it and marks the nulls
+        return pa.array(col.to_numpy(), type=pa.string(), from_pandas=True)
     if isinstance(col.dtype, pd.StringDtype):  # pandas' own strings: Arrow's, no Python objects
         out = pa.array(col, type=pa.string(), from_pandas=True)
         return out.combine_chunks() if isinstance(out, pa.ChunkedArray) else out
