@@ -501,11 +501,17 @@ def _check_raw(parts: list[tuple[zipfile.ZipInfo, bytes]]) -> None:
     """Each part kept as its stored deflated bytes, inflated and checked as `ZipFile.read` would
     (size and CRC-32), so a damaged part of the source is never copied into the new workbook:
     run in a thread while the sheets are written, waited for before the workbook is replaced."""
+    step = 1 << 18  # inflated a slice at a time: memory stays flat beside the sheets' writing
     for info, raw in parts:
-        data = zlib.decompressobj(-zlib.MAX_WBITS).decompress(raw)
-        if len(data) != info.file_size or zlib.crc32(data) != info.CRC:
+        inflate, view = zlib.decompressobj(-zlib.MAX_WBITS), memoryview(raw)
+        crc = size = 0
+        for at in range(0, len(raw), step):
+            data = inflate.decompress(view[at : at + step])
+            crc, size = zlib.crc32(data, crc), size + len(data)
+        data = inflate.flush()
+        crc, size = zlib.crc32(data, crc), size + len(data)
+        if size != info.file_size or crc != info.CRC:
             raise zipfile.BadZipFile(f"Bad CRC-32 for file {info.filename!r}")
-        del data
 
 
 def _write_raw(out: zipfile.ZipFile, info: zipfile.ZipInfo, raw: bytes, zip64: bool = False) -> None:
