@@ -319,13 +319,13 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
     for j, c in enumerate(cols):
         if c.wraps and columns[j] is not None:
             room = max(1.0, widths_of[j] * 0.95)
-            lengths = np.fromiter(
-                (len(v) if type(v) is str else 0 for v in columns[j][lo:hi]), dtype=float, count=hi - lo
-            )
+            lengths = np.array(_lengths(columns[j][lo:hi].tolist()), dtype=float)
             heights = np.maximum(heights, np.ceil(lengths / room).astype(int))
-    values: list[list] = [
-        [f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else "" for k in heights.tolist()]
-    ]
+    ht = {
+        k: f' ht="{LINE_HEIGHT * k + 2:g}" customHeight="1"' if k > 1 else ""
+        for k in np.unique(heights).tolist()
+    }
+    values: list[list] = [[ht[k] for k in heights.tolist()]]
     for j, c in enumerate(cols):
         arr = columns[j]
         k = len(values) + 1
@@ -338,16 +338,15 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
             st = f' s="{style}"' if style else ""
             x = np.asarray(chunk, dtype=float)
             finite = np.isfinite(x)
-            xs = x.tolist()
+            xs = reprs(x)
+            parts.append(f'<c r="{letter}{{0}}"{st}><v>{{{k}}}</v></c>' if finite.all() else f"{{{k}}}")
             if finite.all():
-                parts.append(f'<c r="{letter}{{0}}"{st}><v>{{{k}!r}}</v></c>')
                 values.append(xs)
             else:
-                parts.append(f"{{{k}}}")
                 values.append(
                     [
-                        f'<c r="{letter}{first + lo + i}"{st}><v>{v!r}</v></c>' if ok else ""
-                        for i, (v, ok) in enumerate(zip(xs, finite.tolist(), strict=True))
+                        f'<c r="{letter}{r}"{st}><v>{v}</v></c>' if ok else ""
+                        for r, v, ok in zip(range(first + lo, first + hi), xs, finite.tolist(), strict=True)
                     ]
                 )
             continue
@@ -356,13 +355,53 @@ def _row_template(cols, letters, styles: Styles, columns, lo: int, hi: int, firs
         style = styles.wrap if c.wraps else styles.text
         st = f' s="{style}"' if style else ""
         if kinds == {str} and "" not in vals:
-            cache: dict[str, str] = {}
             parts.append(
                 f'<c r="{letter}{{0}}" t="inlineStr"{st}><is><t xml:space="preserve">{{{k}}}</t></is></c>'
             )
-            values.append([cache[v] if v in cache else cache.setdefault(v, text(v)) for v in vals])
+            values.append(_texts(vals))
+        elif kinds <= {str, type(None), float}:  # text with blanks (None, NaN, ''): as `_cell`
+            parts.append(f"{{{k}}}")
+            head, tail = f'<c r="{letter}', f'" t="inlineStr"{st}><is><t xml:space="preserve">'
+            values.append(
+                [
+                    (f"{head}{r}{tail}{t}</t></is></c>" if v else "")  # v, not t: "\x01" is a cell
+                    if type(v) is str
+                    else _cell(f"{letter}{r}", v, style)
+                    for r, v, t in zip(range(first + lo, first + hi), vals, _texts(vals), strict=True)
+                ]
+            )
         else:
             parts.append(f"{{{k}}}")
             values.append([_cell(f"{letter}{first + lo + i}", v, style) for i, v in enumerate(vals)])
     parts.append("</row>")
     return "".join(parts), values
+
+
+def reprs(x: np.ndarray) -> list[str]:
+    """`repr` of each float of `x`, each distinct value formatted once: a chunk of a result
+    column repeats few values (storey levels, bar sizes, f'c, the same pier's length), and
+    `repr` is the dearest part of a number's cell. Distinct by bit pattern, so -0.0 and 0.0
+    stay apart and every value's text is exactly its own `repr`."""
+    x = np.ascontiguousarray(x, dtype=np.float64)
+    if len(x) < 64:
+        return list(map(repr, x.tolist()))
+    distinct, where = np.unique(x.view(np.int64), return_inverse=True)
+    if 2 * len(distinct) > len(x):  # mostly distinct: a table of texts would not pay
+        return list(map(repr, x.tolist()))
+    texts = np.array(list(map(repr, distinct.view(np.float64).tolist())), dtype=object)
+    return texts[where].tolist()
+
+
+def _lengths(vals: list) -> list[int]:
+    """Characters of each text, 0 for a value that is not text (a list, not a generator into
+    numpy: half the time)."""
+    return [len(v) if type(v) is str else 0 for v in vals]
+
+
+def _texts(vals: list) -> list[str]:
+    """Each text as it goes in a cell (`text`), each distinct one escaped once; '' for a value
+    that is not text (the caller makes its cell)."""
+    cache: dict[str, str] = {}
+    return [
+        (cache[v] if v in cache else cache.setdefault(v, text(v))) if type(v) is str else "" for v in vals
+    ]

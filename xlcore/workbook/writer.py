@@ -23,12 +23,15 @@ import copy
 import dataclasses
 import functools
 import os
+import queue
 import re
 import shutil
 import stat
 import struct
 import tempfile
+import threading
 import zipfile
+import zlib
 from collections.abc import Callable, Iterator, Sequence
 from pathlib import Path
 
@@ -216,12 +219,29 @@ def write_results(
         stamp = {str(k): str(v) for k, v in (sheets[0].preamble if sheets else [])}
         if tables:
             reporter.begin(f"writing {len(tables)} full tables (Parquet)")
-        staged = full_tables.stage(dst, tables, stamp)
+        staged = full_tables.prepare(dst, tables)  # refusals first, before any work
+        tables_job = _Job(staged.write, tables, stamp)  # in a thread: pyarrow and zstd free the GIL
+        crc_job = None
         try:
             with open_package(src) as zf:
                 package = _build(zf, sheets, reporter.advance)
-            _save(package, real, shown, backup, len(sheets), sum(len(s.table) for s in sheets), reporter)
+            # the large parts copied as stored, inflated and checked meanwhile (zlib frees the GIL)
+            raws = [(info, data.data) for info, data in package if isinstance(data, _Raw)]
+            crc_job = _Job(_check_raw, raws)
+            _save(
+                package,
+                real,
+                shown,
+                backup,
+                len(sheets),
+                sum(len(s.table) for s in sheets),
+                reporter,
+                ready=lambda: (crc_job.result(), tables_job.result()),
+            )
         except BaseException:
+            if crc_job is not None:
+                crc_job.wait()
+            tables_job.wait()
             staged.discard()
             raise
         try:
@@ -271,9 +291,45 @@ def check_target(
     return real, shown, backup
 
 
-def _save(package: list, real: Path, shown: str, backup: Path, n_sheets: int, n_rows: int, reporter) -> None:
+class _Job:
+    """A function run in a thread of its own from now on; `result` waits for it and raises what
+    it raised, `wait` only waits. Its errors surface where the caller asks, never lost."""
+
+    def __init__(self, fn: Callable[..., object], *args: object) -> None:
+        self._error: BaseException | None = None
+        self._thread = threading.Thread(target=self._run, args=(fn, args), name="xlcore-write", daemon=False)
+        self._thread.start()
+
+    def _run(self, fn: Callable[..., object], args: tuple) -> None:
+        try:
+            fn(*args)
+        except BaseException as exc:  # handed to the caller by result()
+            self._error = exc
+
+    def wait(self) -> None:
+        self._thread.join()
+
+    def result(self) -> None:
+        self._thread.join()
+        if self._error is not None:
+            error, self._error = self._error, None
+            raise error
+
+
+def _save(
+    package: list,
+    real: Path,
+    shown: str,
+    backup: Path,
+    n_sheets: int,
+    n_rows: int,
+    reporter,
+    ready: Callable[[], None] | None = None,
+) -> None:
     """The package into a temporary file beside `real`, the previous `real` into the backup
-    (temporary file, then rename), then the new file over `real`. Called holding the lock."""
+    (temporary file, then rename), then the new file over `real`. Called holding the lock.
+    `ready` (the full tables being written meanwhile) is waited for once the new file is
+    written, before anything is replaced: its error leaves the workbook as it was."""
     folder = real.parent
     for pattern in (f".{real.name}.*.xlcore-tmp", f".{backup.name}.*.xlcore-tmp"):
         for stale in folder.glob(pattern):  # left by a run that was killed (none runs now: locked)
@@ -307,6 +363,12 @@ def _save(package: list, real: Path, shown: str, backup: Path, n_sheets: int, n_
             f"{shown}: could not write the new version in {folder} ({exc.strerror or exc}); "
             "the workbook is unchanged"
         ) from exc
+    except BaseException:
+        _remove(tmp)
+        raise
+    try:
+        if ready is not None:
+            ready()
     except BaseException:
         _remove(tmp)
         raise
@@ -374,12 +436,41 @@ def _write_package(fh, package: list, zip64: bool) -> None:
             _set_level(info, FAST)
             try:
                 with out.open(info, "w", force_zip64=zip64) as part:
-                    for piece in data():
-                        part.write(piece)
+                    _stream(part, data())
             except RuntimeError as exc:
                 if "force_zip64" in str(exc):
                     raise _NeedsZip64 from exc
                 raise
+
+
+def _stream(part, pieces: Iterator[bytes]) -> None:
+    """The pieces into an open zip part in order, deflated (and their CRC taken) in a thread of
+    its own while the next piece is made: zlib frees the GIL, so on two cores making the sheet
+    XML and deflating it overlap. A short queue keeps memory flat; the thread takes every
+    piece until the end mark, so neither side waits forever, and its error is raised here."""
+    todo: queue.Queue[bytes | None] = queue.Queue(maxsize=4)
+    failed: list[BaseException] = []
+
+    def drain() -> None:
+        while (piece := todo.get()) is not None:
+            if not failed:
+                try:
+                    part.write(piece)
+                except BaseException as exc:  # raised by the caller below
+                    failed.append(exc)
+
+    worker = threading.Thread(target=drain, name="xlcore-deflate", daemon=True)
+    worker.start()
+    try:
+        for piece in pieces:
+            if failed:
+                break
+            todo.put(piece)
+    finally:
+        todo.put(None)
+        worker.join()
+    if failed:
+        raise failed[0]
 
 
 @dataclasses.dataclass(frozen=True)
@@ -404,6 +495,23 @@ def _deflated_bytes(zf: zipfile.ZipFile, info: zipfile.ZipInfo) -> bytes:
     if len(data) != info.compress_size:
         raise zipfile.BadZipFile(f"{info.filename} is cut short")
     return data
+
+
+def _check_raw(parts: list[tuple[zipfile.ZipInfo, bytes]]) -> None:
+    """Each part kept as its stored deflated bytes, inflated and checked as `ZipFile.read` would
+    (size and CRC-32), so a damaged part of the source is never copied into the new workbook:
+    run in a thread while the sheets are written, waited for before the workbook is replaced."""
+    step = 1 << 18  # inflated a slice at a time: memory stays flat beside the sheets' writing
+    for info, raw in parts:
+        inflate, view = zlib.decompressobj(-zlib.MAX_WBITS), memoryview(raw)
+        crc = size = 0
+        for at in range(0, len(raw), step):
+            data = inflate.decompress(view[at : at + step])
+            crc, size = zlib.crc32(data, crc), size + len(data)
+        data = inflate.flush()
+        crc, size = zlib.crc32(data, crc), size + len(data)
+        if size != info.file_size or crc != info.CRC:
+            raise zipfile.BadZipFile(f"Bad CRC-32 for file {info.filename!r}")
 
 
 def _write_raw(out: zipfile.ZipFile, info: zipfile.ZipInfo, raw: bytes, zip64: bool = False) -> None:
@@ -543,10 +651,10 @@ def _build(
         if info.filename in drop_parts:
             continue
         data = changed.get(info.filename)
-        if data is None:
+        if data is None and info.compress_type == zipfile.ZIP_DEFLATED and info.file_size > BIG:
+            data = _Raw(_deflated_bytes(zf, info))  # its CRC checked before the save (_check_raw)
+        elif data is None:
             data = zf.read(info.filename)  # inflated, so its CRC is checked as before
-            if info.compress_type == zipfile.ZIP_DEFLATED and len(data) > BIG:
-                data = _Raw(_deflated_bytes(zf, info))
         out.append((info, data))
     if styles_part not in names:
         raise FileProblem("workbook has no style sheet part; open and save it in a spreadsheet program")
