@@ -215,7 +215,9 @@ def test_core_sharing_of_interleaved_actions_equals_the_storeys_alone(one_core):
     want = acts.t + acts.vy * (xv - first.xr.to_numpy()) - acts.vx * (yv - first.yr.to_numpy())
     assert np.array_equal(first.m_cr.to_numpy(), want.to_numpy())
     for storey in dict.fromkeys(acts.storey):
-        alone = distribution.core_actions_to_piers(piers, walls, plans, acts[acts.storey == storey], 0.05, text=True)
+        alone = distribution.core_actions_to_piers(
+            piers, walls, plans, acts[acts.storey == storey], 0.05, text=True
+        )
         for part in ("piers", "walls"):
             t = getattr(together, part)
             pd.testing.assert_frame_equal(
@@ -244,7 +246,9 @@ def test_core_stress_of_every_storey_at_once_equals_each_storey_alone(one_core, 
 
 def test_core_table_order_equals_sort_values(demo):
     b, piers, walls, plans, _, split = demo
-    core = pipeline.cores.core_actions_to_piers(piers, walls, plans, split.actions, b.settings.core_local_moment)
+    core = pipeline.cores.core_actions_to_piers(
+        piers, walls, plans, split.actions, b.settings.core_local_moment
+    )
     # member names whose natural order is not their text order (X2 before X10)
     ids = pd.unique(pd.concat([core.walls.wall_id, core.piers.pier_id]))
     name = {m: f"X{(7 * i) % 23 + 1}" for i, m in enumerate(ids)}
