@@ -11,6 +11,7 @@ from xlcore import distribution, pipeline
 from xlcore.checks import core_nm, core_stress, shear
 from xlcore.codes import get_standard
 from xlcore.mechanics import nm_core, stiffness
+from xlcore.results import envelope
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 
@@ -318,3 +319,19 @@ def test_clauses_once_per_code_equal_every_row(demo, standard):
     codes = list(r.governing_text)
     mixed = dataclasses.replace(r, governs=np.resize(codes[::-1], len(out)))
     assert shear._clauses(mixed).tolist() == mixed.clauses()
+
+
+# ------------------------------------------------------------------ envelope
+
+
+def test_first_largest_per_group_equals_group_by_idxmax():
+    """Ties (the first wins), infinities, groups in order of first appearance, codes in any
+    numbering."""
+    rng = np.random.default_rng(5)
+    u = rng.choice([0.5, 1.0, 1.0, 2.0, np.inf, -np.inf, -0.0, 0.0], 3000)
+    g = rng.choice([7, 3, 11, 0, 5], 3000)
+    g[:5] = [11, 11, 5, 0, 3]
+    got = envelope._first_max(u, g)
+    want = pd.Series(u).groupby(g, sort=False).idxmax().to_numpy()
+    assert got.tolist() == want.tolist()
+    assert envelope._first_max(np.zeros(0), np.zeros(0, dtype=np.int64)).tolist() == []
