@@ -335,3 +335,19 @@ def test_first_largest_per_group_equals_group_by_idxmax():
     want = pd.Series(u).groupby(g, sort=False).idxmax().to_numpy()
     assert got.tolist() == want.tolist()
     assert envelope._first_max(np.zeros(0), np.zeros(0, dtype=np.int64)).tolist() == []
+
+
+def test_text_columns_taken_from_their_strings_equal_numpy_strings():
+    """The same values and the same column type as a numpy string array made into a column."""
+    from xlcore import results
+
+    u = np.array([0.5, 1.0, 1.0000001, np.nan, np.inf, -1.0])
+    want = pd.DataFrame({"s": results.status(u)})
+    got = pd.DataFrame({"s": results.status_column(u)})
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    pick = np.array([2, 0, 1, 1, 2])
+    texts = ["n/a", "none", "end-zone detailing (Cl 14.6)"]
+    want = pd.DataFrame({"s": np.where(pick == 0, texts[0], np.where(pick == 1, texts[1], texts[2]))})
+    pd.testing.assert_frame_equal(
+        pd.DataFrame({"s": results.text_column(pick, texts)}), want, check_exact=True
+    )

@@ -15,7 +15,7 @@ from xlcore.codes.base import Standard
 from xlcore.distribution import StoreyPlan, arrays_by_storey, stack
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
-from xlcore.results import FAIL, PASS
+from xlcore.results import status_column, text_column
 
 FIBRE = 0.1  # m: fibre length along each pier
 FLAG_END_ZONE = "end-zone detailing (Cl 14.6)"  # AS 3600's flag (Standard.symbols["boundary_flag"])
@@ -145,14 +145,13 @@ def check_core_stress(
     # trigger for end-zone detailing under earthquake actions, not a capacity: a flag on
     # earthquake combinations only
     quake = df.combination.astype(str).isin(settings.earthquake).to_numpy()
-    df["earthquake"] = np.where(quake, "yes", "no")
-    df["flag"] = np.where(
-        quake,
-        np.where(df.u_compression > 1.0, std.symbols["boundary_flag"], "none"),
-        "n/a (not an earthquake combination)",
-    )
+    # text columns taken from their few strings (`text_column`: 288 000 rows at the L tower)
+    df["earthquake"] = text_column(quake, ["no", "yes"])
+    flag = np.where(quake, np.where(df.u_compression > 1.0, 2, 1), 0)
+    not_quake = "n/a (not an earthquake combination)"
+    df["flag"] = text_column(flag, [not_quake, "none", std.symbols["boundary_flag"]])
     df["util"] = df.u_tension
-    df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
+    df["status"] = status_column(df.util)
     df["governs"] = "tension steel"
     df["working"] = None
     return with_working(df, settings, std=std) if text else df

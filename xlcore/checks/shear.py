@@ -13,7 +13,7 @@ from xlcore.checks import per_pier, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
 from xlcore.model import Settings
-from xlcore.results import status, utilisation
+from xlcore.results import status_column, utilisation
 
 HEIGHT_OVERALL, HEIGHT_OPENING = "overall wall height", "opening height"  # layout.HEIGHT_BASES
 DETAIL_COLUMNS = ("eq1", "eq2", "floor", "alpha_c")
@@ -96,7 +96,7 @@ def check_pier_shear(
     df["phi"] = r.phi
     df["k"] = df.k * 1e-3  # N/mm -> kN/mm
     df["util"] = utilisation(df.v, df.phi_vu)
-    df["status"] = status(df.util)
+    df["status"] = status_column(df.util)
     df["clause"] = _clauses(r)
     if not working:
         return df
