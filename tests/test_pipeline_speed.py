@@ -351,3 +351,19 @@ def test_text_columns_taken_from_their_strings_equal_numpy_strings():
     pd.testing.assert_frame_equal(
         pd.DataFrame({"s": results.text_column(pick, texts)}), want, check_exact=True
     )
+
+
+def test_actions_given_for_piers_by_position_equal_the_inner_merge(demo):
+    b, piers, *_ = demo
+    cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
+    base = b.member_actions.assign(m_out=np.nan)[
+        ["row", "storey", "combination", "member", "n", "v", "m", "m_out"]
+    ]
+    base = base.sample(frac=1.0, random_state=6)
+    base.loc[base.index[:3], "member"] = "nowhere"  # names no pier: left out, as the merge does
+    want = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    assert 0 < len(want) < len(base)
+    pd.testing.assert_frame_equal(distribution._given_for_piers(base, piers[cols]), want, check_exact=True)
+    # pairs not unique in the table: no positions (the merge decides)
+    twice = pd.concat([piers, piers.head(1)])
+    assert distribution.rows_of(base.storey, base.member, twice.storey, twice.pier_id) is None

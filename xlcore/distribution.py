@@ -54,7 +54,7 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     if "m_out" not in actions:  # optional column
         actions = actions.assign(m_out=np.nan)
     base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
-    direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    direct = _given_for_piers(base, piers[cols])
     direct["share"] = 1.0
     direct["source"] = "given for the pier"
     cut = piers.loc[piers.position > 0, cols]
@@ -63,6 +63,34 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
         shared = _share_wall(shared, method)
     out = pd.concat([direct, shared], ignore_index=True)
     return out[ACTION_COLUMNS]
+
+
+def _given_for_piers(base: pd.DataFrame, piers: pd.DataFrame) -> pd.DataFrame:
+    """The action rows naming a pier, with its columns: the inner merge on storey x member =
+    pier_id, by position where each pier is one row (no merge of 360 000 rows of text)."""
+    at = rows_of(base.storey, base.member, piers.storey, piers.pier_id)
+    if at is None:
+        return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    found = at >= 0
+    direct = base[found].reset_index(drop=True)
+    return direct.assign(**{c: piers[c].to_numpy()[at[found]] for c in piers.columns if c != "storey"})
+
+
+def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
+    """Each pair (a, b)'s row in a table of pairs (table_a, table_b), -1 where it has none, by
+    integer codes of each key (no joined text). None where the table's pairs are not unique or
+    one is blank: a merge must then decide."""
+    ta, tb = pd.Series(table_a), pd.Series(table_b)
+    if ta.isna().any() or tb.isna().any():
+        return None
+    ia, ib = pd.Index(pd.unique(ta)), pd.Index(pd.unique(tb))
+    own = ia.get_indexer(ta) * len(ib) + ib.get_indexer(tb)
+    if len(np.unique(own)) != len(own):
+        return None
+    row_of = np.full(len(ia) * len(ib), -1)
+    row_of[own] = np.arange(len(own))
+    ca, cb = ia.get_indexer(a), ib.get_indexer(b)
+    return np.where((ca >= 0) & (cb >= 0), row_of[np.maximum(ca, 0) * len(ib) + np.maximum(cb, 0)], -1)
 
 
 def _share_wall(df: pd.DataFrame, method: str) -> pd.DataFrame:

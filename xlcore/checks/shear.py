@@ -12,6 +12,7 @@ import pandas as pd
 from xlcore.checks import per_pier, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
+from xlcore.distribution import rows_of
 from xlcore.model import Settings
 from xlcore.results import status_column, utilisation
 
@@ -131,16 +132,10 @@ def _with_piers(
     gathered by position (integer codes of the two keys; no merge of 360 000 rows of text)."""
     keys = ["storey", "pier_id"]
     at = None
-    if piers[keys].notna().all(axis=None) and not (set(actions.columns) & set(geo)) - set(keys):
-        storeys, pier_ids = pd.Index(pd.unique(piers.storey)), pd.Index(pd.unique(piers.pier_id))
-        own = storeys.get_indexer(piers.storey) * len(pier_ids) + pier_ids.get_indexer(piers.pier_id)
-        if len(np.unique(own)) == len(own):
-            s_code, p_code = storeys.get_indexer(actions.storey), pier_ids.get_indexer(actions.pier_id)
-            row_of = np.full(len(storeys) * len(pier_ids), -1)
-            row_of[own] = np.arange(len(own))
-            at = np.where((s_code >= 0) & (p_code >= 0), row_of[s_code * len(pier_ids) + p_code], -1)
-            if (at < 0).any():
-                at = None
+    if not (set(actions.columns) & set(geo)) - set(keys):
+        at = rows_of(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        if at is not None and (at < 0).any():
+            at = None
     if at is None:
         return actions.merge(piers[geo], on=keys, how="left"), None
     df = actions.reset_index(drop=True)
