@@ -347,8 +347,9 @@ def _codes(cand: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray] | No
     names (`CHECKS`): grouping by them groups as by the text columns, without factorising the
     text again for every group-by. None where a key is missing (NaN), which a group-by by the
     text would drop (the caller then takes the general path)."""
-    s, _ = pd.factorize(cand.storey)
-    p, pier = pd.factorize(cand.pier_id)
+    # on the columns' object arrays: half the time of factorising the text columns themselves
+    s, _ = pd.factorize(cand.storey.to_numpy())
+    p, pier = pd.factorize(cand.pier_id.to_numpy())
     c = cand.check_no.to_numpy(dtype=np.int64)  # set with the check's name in `_candidates`
     if (s < 0).any() or (p < 0).any():
         return None
