@@ -54,7 +54,7 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     if "m_out" not in actions:  # optional column
         actions = actions.assign(m_out=np.nan)
     base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
-    direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    direct = _given_for_piers(base, piers[cols])
     direct["share"] = 1.0
     direct["source"] = "given for the pier"
     cut = piers.loc[piers.position > 0, cols]
@@ -63,6 +63,34 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
         shared = _share_wall(shared, method)
     out = pd.concat([direct, shared], ignore_index=True)
     return out[ACTION_COLUMNS]
+
+
+def _given_for_piers(base: pd.DataFrame, piers: pd.DataFrame) -> pd.DataFrame:
+    """The action rows naming a pier, with its columns: the inner merge on storey x member =
+    pier_id, by position where each pier is one row (no merge of 360 000 rows of text)."""
+    at = rows_of(base.storey, base.member, piers.storey, piers.pier_id)
+    if at is None:
+        return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    found = at >= 0
+    direct = base[found].reset_index(drop=True)
+    return direct.assign(**{c: piers[c].to_numpy()[at[found]] for c in piers.columns if c != "storey"})
+
+
+def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
+    """Each pair (a, b)'s row in a table of pairs (table_a, table_b), -1 where it has none, by
+    integer codes of each key (no joined text). None where the table's pairs are not unique or
+    one is blank: a merge must then decide."""
+    ta, tb = pd.Series(table_a), pd.Series(table_b)
+    if ta.isna().any() or tb.isna().any():
+        return None
+    ia, ib = pd.Index(pd.unique(ta)), pd.Index(pd.unique(tb))
+    own = ia.get_indexer(ta) * len(ib) + ib.get_indexer(tb)
+    if len(np.unique(own)) != len(own):
+        return None
+    row_of = np.full(len(ia) * len(ib), -1)
+    row_of[own] = np.arange(len(own))
+    ca, cb = ia.get_indexer(a), ib.get_indexer(b)
+    return np.where((ca >= 0) & (cb >= 0), row_of[np.maximum(ca, 0) * len(ib) + np.maximum(cb, 0)], -1)
 
 
 def _share_wall(df: pd.DataFrame, method: str) -> pd.DataFrame:
@@ -217,8 +245,14 @@ def core_actions_to_piers(
     actions then replaced); `wall_v` (the wall's V* the pier shares) is kept for it.
     """
     pier_rows, wall_rows = [], []
-    piers_at, walls_at = by_storey(piers), by_storey(walls)
-    for storey, cs in core.groupby("storey", sort=False):
+    # column arrays per storey, sliced from the whole tables' arrays once (a column of a
+    # storey's sub-table costs a pandas look-up each time: 2 400 of them at the L tower)
+    piers = piers.assign(_wall_k=piers.groupby(["storey", "wall_id"], sort=False).k.transform("sum"))
+    piers_at = arrays_by_storey(piers, ["ux", "uy", "wall_id", "pier_id", "k", "_wall_k", "h", "position"])
+    walls_at = arrays_by_storey(walls, ["wall_id", "k", "ux", "uy"])
+    case_cols = ["row", "combination", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
+    cases_at = arrays_by_storey(core, case_cols + (["acc"] if "acc" in core else []))
+    for storey, cs in cases_at.items():
         sp, sw = piers_at[storey], walls_at[storey]
         plan = plans[storey]
         sec, st = plan.section, plan.walls
@@ -227,33 +261,33 @@ def core_actions_to_piers(
                 f"walls at storey {storey} cannot resist shear in both directions and torsion"
             )
         xr, yr = plan.centre
-        vx, vy, t = cs.vx.to_numpy(), cs.vy.to_numpy(), cs.t.to_numpy()
-        xv = cs.x_v.fillna(xr).to_numpy()
-        yv = cs.y_v.fillna(yr).to_numpy()
+        vx, vy, t = cs["vx"], cs["vy"], cs["t"]
+        xv = _filled(cs["x_v"], xr)
+        yv = _filled(cs["y_v"], yr)
         m_cr = t + vy * (xv - xr) - vx * (yv - yr)
-        acc = cs.acc.to_numpy(dtype=float) if "acc" in cs else accidental  # per row where given
+        acc = cs["acc"].astype(float) if "acc" in cs else accidental  # per row where given
         d_acc = acc * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
         base = diaphragm.share_with_accidental(st, vx, vy, m_cr, d_acc)
         torsion, total = base.torsion, base.total
-        a, b, c = section.stress_plane(sec, cs.n.to_numpy(), cs.mx.to_numpy(), cs.my.to_numpy())
+        a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
-        m_in, m_oop = own_moments(plan.piece_moments, b, c, sp.ux.to_numpy(), sp.uy.to_numpy())
-        walls_here = sw.wall_id.to_numpy()
-        n_w, n_c, n_p = len(walls_here), len(cs), len(sp)
-        wall_of_pier = pd.Index(walls_here).get_indexer(sp.wall_id)
+        m_in, m_oop = own_moments(plan.piece_moments, b, c, sp["ux"], sp["uy"])
+        walls_here = sw["wall_id"]
+        n_w, n_c, n_p = len(walls_here), len(cs["row"]), len(sp["k"])
+        wall_of_pier = pd.Index(walls_here).get_indexer(sp["wall_id"])
         member = np.zeros((n_w, n_p))
         member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
-        along = vx[:, None] * sw.ux.to_numpy()[None, :] + vy[:, None] * sw.uy.to_numpy()[None, :]
+        along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank when not finite
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
-        rows, combos = cs.row.to_numpy(), cs.combination.to_numpy()
+        rows, combos = cs["row"], cs["combination"]
         wall_rows.append(
             dict(
                 row=np.repeat(rows, n_w),
                 storey=np.full(n_w * n_c, storey, dtype=object),
                 combination=np.repeat(combos, n_w),
                 wall_id=np.tile(walls_here, n_c),
-                k=np.tile(sw.k.to_numpy() * 1e-3, n_c),
+                k=np.tile(sw["k"] * 1e-3, n_c),
                 direct=base.direct.T.ravel(),
                 torsion=torsion.T.ravel(),
                 v=total.T.ravel(),
@@ -265,15 +299,15 @@ def core_actions_to_piers(
                 n=(member @ n_piece).T.ravel(),
             )
         )
-        k_p = sp.k.to_numpy()
-        share = k_p / sp.groupby("wall_id").k.transform("sum").to_numpy()
+        k_p = sp["k"]
+        share = k_p / sp["_wall_k"]
         wall_v = total[wall_of_pier, :].T  # combos x piers
         v = wall_v * share[None, :]
-        h = sp.h.to_numpy() / 1000
-        beside = (sp.position.to_numpy() > 0) & (local_moment == LOCAL_BESIDE_OPENINGS)
+        h = sp["h"] / 1000
+        beside = (sp["position"] > 0) & (local_moment == LOCAL_BESIDE_OPENINGS)
         m_loc = np.where(beside[None, :], np.where(m_in.T >= 0, 1.0, -1.0) * np.abs(v) * h[None, :] / 2, 0.0)
         m_pier = m_in.T + m_loc  # combos x piers
-        pier_ids, pier_walls = sp.pier_id.to_numpy(), sp.wall_id.to_numpy()
+        pier_ids, pier_walls = sp["pier_id"], sp["wall_id"]
         tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
         source = (
             core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel())
@@ -287,7 +321,7 @@ def core_actions_to_piers(
                 combination=np.repeat(combos, n_p),
                 wall_id=tiled(pier_walls),
                 pier_id=tiled(pier_ids),
-                position=tiled(sp.position.to_numpy()),
+                position=tiled(sp["position"]),
                 k=tiled(k_p),
                 share=tiled(share),
                 n=n_piece.T.ravel(),
@@ -301,6 +335,20 @@ def core_actions_to_piers(
             )
         )
     return CoreSharing(stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA), stack(wall_rows))
+
+
+def arrays_by_storey(df: pd.DataFrame, columns: list[str]) -> dict[str, dict[str, np.ndarray]]:
+    """Each storey's rows of `df` (in the table's order, storeys in order of first appearance)
+    as column arrays."""
+    arrays = {c: df[c].to_numpy() for c in columns}
+    at = df.groupby("storey", sort=False).indices  # positions, in the table's order
+    return {storey: {c: a[at[storey]] for c, a in arrays.items()} for storey in pd.unique(df.storey)}
+
+
+def _filled(values: np.ndarray, default: float) -> np.ndarray:
+    """A float column with its blanks (NaN, None) as `default`."""
+    values = np.asarray(values, dtype=float)
+    return np.where(np.isnan(values), default, values)
 
 
 def core_source(wall_id, wall_v, share, m_curv, m_local) -> list[str]:

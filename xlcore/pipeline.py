@@ -314,15 +314,13 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
         working=core.piers.source,
     )
     out = pd.concat([w, p], ignore_index=True)
-    out["used"] = np.where(out.row.isin(given), "no: member actions given", "yes")
-    out["kind_order"] = (out.kind == "pier").astype(int)
+    out["used"] = results.text_column(out.row.isin(given), ["yes", "no: member actions given"])
+    out["kind_order"] = np.repeat([0, 1], [len(w), len(p)])  # walls first, then piers
     out["core_order"] = pd.factorize(out.core, use_na_sentinel=False)[0]  # order of first appearance
-    out = out.sort_values(
-        ["row", "core_order", "kind_order", "member"],
-        kind="stable",
-        key=lambda c: geometry.natural_rank(c) if c.name == "member" else c,
-    )
-    out = out.reset_index(drop=True)
+    # by row, core, walls before piers, member in natural order; a stable sort on integer keys
+    # (what sort_values on these columns does, without its per-column factorising)
+    keys = (geometry.natural_rank(out.member), out.kind_order, out.core_order, out.row)
+    out = out.take(np.lexsort([k.to_numpy() for k in keys])).reset_index(drop=True)
     return core_working(out) if text else out
 
 

@@ -4,14 +4,17 @@ gives the capacity, the steel needed, the working text and the advice."""
 
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 import pandas as pd
 
 from xlcore.checks import per_pier, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
+from xlcore.distribution import rows_of
 from xlcore.model import Settings
-from xlcore.results import status, utilisation
+from xlcore.results import status_column, utilisation
 
 HEIGHT_OVERALL, HEIGHT_OPENING = "overall wall height", "opening height"  # layout.HEIGHT_BASES
 DETAIL_COLUMNS = ("eq1", "eq2", "floor", "alpha_c")
@@ -51,15 +54,18 @@ def check_pier_shear(
         "rho_h",
         "rho_v",
     ]
-    df = actions.merge(piers[geo], on=["storey", "pier_id"], how="left")
-    place = piers.set_index(["storey", "pier_id"]).position  # > 0: a pier beside an opening
+    df, at = _with_piers(actions, piers, geo)
     basis = settings.shear_height
     if basis == HEIGHT_OVERALL:
         df["Hw"], h_whole = df.H_wall, df.H_wall
     else:
         use_opening = basis == HEIGHT_OPENING
         df["Hw"], h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
-    beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
+    if at is not None:  # > 0: a pier beside an opening
+        beside = piers.position.to_numpy()[at] > 0
+    else:
+        place = piers.set_index(["storey", "pier_id"]).position
+        beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
     ratio, wall_governs = std.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
     df["hw_lw"] = ratio
     if working:  # text on every row: not for the advice search's variants (10 % of its time)
@@ -91,13 +97,13 @@ def check_pier_shear(
     df["phi"] = r.phi
     df["k"] = df.k * 1e-3  # N/mm -> kN/mm
     df["util"] = utilisation(df.v, df.phi_vu)
-    df["status"] = status(df.util)
-    df["clause"] = r.clauses()
+    df["status"] = status_column(df.util)
+    df["clause"] = _clauses(r)
     if not working:
         return df
     rho_req, capped = std.wall_steel_required(df.v * 1e3, r.phi, df.fc, df.fsy, df.Lw, df.tw, ratio)
     df["rho_req"] = rho_req
-    df["advice"] = std.wall_shear_advice(df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r)
+    df["advice"] = _advice(std, df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r)
     if text:
         # capacity working depends on the pier alone: written once per storey x pier, then spread
         first, of = per_pier(df)
@@ -115,6 +121,44 @@ def check_pier_shear(
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
     order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
     return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+def _with_piers(
+    actions: pd.DataFrame, piers: pd.DataFrame, geo: list[str]
+) -> tuple[pd.DataFrame, np.ndarray | None]:
+    """The action rows with their pier's `geo` columns, as a left merge on storey x pier_id
+    would give them, and each row's pier row (None where the merge itself was used). Where
+    every action row finds exactly one pier and no column name is shared, the pier columns are
+    gathered by position (integer codes of the two keys; no merge of 360 000 rows of text)."""
+    keys = ["storey", "pier_id"]
+    at = None
+    if not (set(actions.columns) & set(geo)) - set(keys):
+        at = rows_of(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        if at is not None and (at < 0).any():
+            at = None
+    if at is None:
+        return actions.merge(piers[geo], on=keys, how="left"), None
+    df = actions.reset_index(drop=True)
+    return df.assign(**{c: piers[c].to_numpy()[at] for c in geo if c not in keys}), at
+
+
+def _clauses(r) -> np.ndarray:
+    """`r.clauses()` (the governing clause of every row) looked up once per distinct code."""
+    codes, of = np.unique(np.ravel(r.governs), return_inverse=True)
+    text = dataclasses.replace(r, governs=codes).clauses()
+    return np.asarray(text, dtype=object)[of.ravel()]
+
+
+def _advice(std: Standard, util: np.ndarray, rho_req, capped, hw_lw: np.ndarray, cap) -> np.ndarray:
+    """The standard's advice on the rows that do not pass, '' on the others (what the
+    standard's own rule gives them): a Python step per failing row only."""
+    out = np.full(len(util), "", dtype=object)
+    ask = np.flatnonzero(~(util <= 1.0))
+    if len(ask):
+        out[ask] = std.wall_shear_advice(
+            util[ask], np.asarray(rho_req)[ask], np.asarray(capped)[ask], hw_lw[ask], cap.take(ask)
+        )
+    return out
 
 
 def _distinct(columns) -> tuple[np.ndarray, np.ndarray]:

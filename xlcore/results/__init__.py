@@ -579,3 +579,17 @@ def utilisation(demand, capacity) -> np.ndarray:
 
 def status(util) -> np.ndarray:
     return np.where(np.asarray(util) <= 1.0, PASS, FAIL)
+
+
+def text_column(pick, texts) -> pd.api.extensions.ExtensionArray:
+    """`texts[pick]` as a text column, of the type pandas gives a column of those strings: a
+    take from the few distinct strings. A numpy string array (what `np.where` on strings gives)
+    becomes a column by one Python string per row: 0.1 s per 360 000 rows."""
+    choices = pd.Series(np.asarray(texts, dtype=object))
+    return choices.take(np.asarray(pick, dtype=np.intp)).array
+
+
+def status_column(util) -> pd.api.extensions.ExtensionArray:
+    """`status(util)` as a text column (`text_column`): pass where util <= 1, FAIL otherwise
+    (NaN included)."""
+    return text_column(~(np.asarray(util) <= 1.0), [PASS, FAIL])

@@ -29,15 +29,17 @@ def pier_checks(
     clause, combination, structural (False for the compliance checks). `cand`: `candidates` of
     the same tables, where the caller made them for `envelope` too."""
     cand = cand if cand is not None else candidates(shear, axial, detailing, section14)
-    finite = np.isfinite(pd.to_numeric(cand.rows.util, errors="coerce").to_numpy(dtype=float))
-    codes = None if cand.codes is None else tuple(x[finite] for x in cand.codes[:2]) + cand.codes[2:]
-    cand = cand.rows[finite]
-    if len(cand):
+    u = pd.to_numeric(cand.rows.util, errors="coerce").to_numpy(dtype=float)
+    finite = np.isfinite(u)
+    if cand.codes is not None:  # each group's worst row by position: no copy of every row
+        g, c, names = cand.codes
+        rows = np.flatnonzero(finite)
+        win = rows[_first_max(u[rows], (g * len(names) + c)[rows])]
+        cand = cand.rows.iloc[win]
         cand = cand.assign(util=cand.util.astype(float))
-        # grouping by the codes of these rows groups as `_codes(cand)` would: sort=False orders
-        # the groups by first appearance in the rows given, whatever the codes' numbering
-        by = ["storey", "pier_id", "check"] if codes is None else codes[0] * len(codes[2]) + codes[1]
-        cand = cand.loc[cand.groupby(by, sort=False).util.idxmax()]
+    elif len(cand := cand.rows[finite]):
+        cand = cand.assign(util=cand.util.astype(float))
+        cand = cand.loc[cand.groupby(["storey", "pier_id", "check"], sort=False).util.idxmax()]
     key = [UTIL_COLUMN.get(c, c) for c in cand.check]
     cand = cand.assign(key=key, structural=~cand.check.isin(COMPLIANCE))
     at = order[["storey", "pier_id"]].drop_duplicates().reset_index(drop=True)
@@ -256,28 +258,26 @@ def envelope(
     cand, codes = cand.rows, cand.codes
     keys = ["storey", "pier_id"]
     if codes is not None:
-        structural = cand[~np.isin(codes[2], COMPLIANCE)[codes[1]]]
-    else:
-        structural = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
-    if len(structural) and codes is not None:
-        # the fast path (integer codes for storey x pier x check, a numpy table of maxima); the
-        # same table as the pivot below, which factorised the text keys over and over
+        # the fast path (integer codes for storey x pier x check, a numpy table of maxima, each
+        # pier's worst row by position); the same table as the pivot below, which factorised
+        # the text keys over and over
         g, c, names = codes
-        is_structural = ~np.isin(names, COMPLIANCE)[c]
-        at = _worst_at(structural.util, g[is_structural])
-        worst = structural.loc[at]
-        per_check = _max_per_check(cand.util.to_numpy(dtype=float), g, c, len(names))
-        g_worst = g[cand.index.get_indexer(at.to_numpy())]
-        worst = worst.reset_index(drop=True).assign(
-            **{UTIL_COLUMN.get(n, n): per_check[g_worst, j] for j, n in enumerate(names)}
-        )
-    elif len(structural):
-        worst = structural.loc[_worst_at(structural.util, [structural[k] for k in keys])]
-        per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
-        per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
-        worst = worst.merge(per_check, on=keys, how="left")
+        rows = np.flatnonzero(~np.isin(names, COMPLIANCE)[c])
+        worst = cand.iloc[:0]
+        if len(rows):
+            u = cand.util.astype(float).to_numpy()[rows]
+            win = rows[_first_max(np.where(np.isnan(u), -np.inf, u), g[rows])]  # as `_worst_at`
+            per_check = _max_per_check(cand.util.to_numpy(dtype=float), g, c, len(names))
+            worst = cand.iloc[win].reset_index(drop=True).assign(
+                **{UTIL_COLUMN.get(n, n): per_check[g[win], j] for j, n in enumerate(names)}
+            )
     else:
-        worst = structural
+        worst = cand[~cand.check.isin(COMPLIANCE)] if len(cand) else cand
+        if len(worst):
+            worst = worst.loc[_worst_at(worst.util, [worst[k] for k in keys])]
+            per_check = cand.pivot_table(index=keys, columns="check", values="util", aggfunc="max")
+            per_check = per_check.rename(columns=UTIL_COLUMN).reset_index()
+            worst = worst.merge(per_check, on=keys, how="left")
     order = piers[["storey", "storey_index", "pier_id", "wall_id", "position"]]
     table = order.merge(worst, on=keys, how="left")
     for c in UTIL_COLUMN.values():
@@ -328,14 +328,28 @@ def envelope(
     return table[cols].reset_index(drop=True)
 
 
+def _first_max(u: np.ndarray, g: np.ndarray) -> np.ndarray:
+    """Position of each group's largest `u` (the first of equal ones), groups in order of first
+    appearance: what `groupby(g, sort=False).idxmax()` gives on positions, `u` without NaN."""
+    if not len(u):
+        return np.zeros(0, dtype=np.int64)
+    order = np.lexsort((-u, g))  # stable: equal values keep their order
+    head = np.ones(len(order), dtype=bool)
+    head[1:] = g[order][1:] != g[order][:-1]
+    win = order[head]  # groups by code
+    _, first = np.unique(g, return_index=True)
+    return win[np.argsort(first, kind="stable")]
+
+
 def _codes(cand: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
     """Integer codes of the candidates' storey x pier (numbered in order of first appearance,
     as `groupby(sort=False)` numbers them) and of their check (`check_no`), with the check
     names (`CHECKS`): grouping by them groups as by the text columns, without factorising the
     text again for every group-by. None where a key is missing (NaN), which a group-by by the
     text would drop (the caller then takes the general path)."""
-    s, _ = pd.factorize(cand.storey)
-    p, pier = pd.factorize(cand.pier_id)
+    # on the columns' object arrays: half the time of factorising the text columns themselves
+    s, _ = pd.factorize(cand.storey.to_numpy())
+    p, pier = pd.factorize(cand.pier_id.to_numpy())
     c = cand.check_no.to_numpy(dtype=np.int64)  # set with the check's name in `_candidates`
     if (s < 0).any() or (p < 0).any():
         return None
