@@ -90,3 +90,45 @@ def test_pair_words_by_position_equal_the_lookup_by_label():
     assert advice.pair_words(pairs, shuffled) == want
     with pytest.raises(KeyError):
         advice.pair_words(pairs.assign(b=pairs.b + 10**9), shuffled)
+
+
+def reference_pour_keys(rows: pd.DataFrame, piers: pd.DataFrame, settings: Settings):
+    """`pour_keys` as it was: a label formatted per row."""
+    import re
+
+    m = re.search(r"over (\d+) storeys", settings.grade_pour)
+    per = int(m.group(1)) if m else 1
+    group = rows.storey_index.to_numpy(int) // per
+    core = rows.core.fillna("").astype(str).to_numpy() if "core" in rows else np.full(len(rows), "")
+    names = piers[["storey", "storey_index"]].drop_duplicates().assign(g=lambda d: d.storey_index // per)
+    lo = names.sort_values("storey_index").groupby("g").storey.first()
+    hi = names.sort_values("storey_index").groupby("g").storey.last()
+    span = {g: (lo[g] if lo[g] == hi[g] else f"{lo[g]} to {hi[g]}") for g in lo.index}
+    if settings.grade_pour.startswith("each wall"):
+        who = [f"wall {w}" for w in rows.wall_id.astype(str)]
+    else:
+        who = [f"core {c}" if c else "the core" for c in core]
+    label = [f"{w}, {span[g]}" for w, g in zip(who, group.tolist(), strict=True)]
+    return pd.Series(label, index=rows.index), pd.Series(group, index=rows.index)
+
+
+@pytest.mark.parametrize(
+    "pour", ["the core at one storey", "each wall at one storey", "the core over 2 storeys"]
+)
+def test_pour_labels_once_per_pour_equal_labels_row_by_row(pour):
+    """The search's option rows (shuffled, index kept), cores named, unnamed (NaN) and empty:
+    the same labels and groups; no rows, no labels."""
+    piers, s, var, meta, rows, screen = search_case(1.0)
+    s = Settings(grade_pour=pour)
+    cols = advice._pier_cols(piers, meta)
+    third = np.arange(len(meta)) % 3
+    cols["core"] = np.where(third == 0, "C2", np.where(third == 1, None, ""))
+    opts = meta.assign(**cols).sample(frac=1.0, random_state=6)
+    want = reference_pour_keys(opts, piers, s)
+    got = advice.pour_keys(opts, piers, s)
+    assert want[0].nunique() > 1
+    for g, w in zip(got, want, strict=True):
+        pd.testing.assert_series_equal(g, w, check_exact=True)
+    none = advice.pour_keys(opts.iloc[0:0], piers, s)
+    want = reference_pour_keys(opts.iloc[0:0], piers, s)
+    pd.testing.assert_series_equal(none[0], want[0], check_exact=True)

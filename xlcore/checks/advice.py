@@ -252,14 +252,16 @@ def _candidates(
     keep[grade] = o.grade.to_numpy()[oi][grade] > var.fc.to_numpy(float)[grade]
     var["fc"] = np.where(grade, o.grade.to_numpy()[oi], var.fc.to_numpy(float))
     need = _layers_needed(tw0, settings)
+    # the arrangement's numbers and the limits, the same for both directions: worked out once
+    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
+    rho = geometry.bar_ratio(n, d, sp, tw0)
+    max_spacing, gap_ok = std.max_spacing(tw0, var.Lw.to_numpy(float)), sp - d >= std.min_clear_gap(d)
     for prefix, other, name in (("h", "v", H_KIND), ("v", "h", V_KIND)):
         sel = kind == name
-        d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
-        rho = geometry.bar_ratio(n, d, sp, tw0)
         # only more steel, never fewer layers than the thickness or Section 14 asks for, and
         # within the Cl 11.7 spacing and clear-gap limits (checks/detailing.py fails the rest)
         way = 0 if prefix == "v" else 1
-        built = (sp <= std.max_spacing(tw0, var.Lw.to_numpy(float))[way]) & (sp - d >= std.min_clear_gap(d))
+        built = (sp <= max_spacing[way]) & gap_ok
         keep[sel] = ((rho > var[f"rho_{prefix}"].to_numpy(float) + 1e-12) & (n >= need) & built)[sel]
         offered[sel] = (n == var[f"{other}_layers"].to_numpy(float))[sel]
         layers_opt[sel] = n[sel]
@@ -440,11 +442,19 @@ def pour_keys(rows: pd.DataFrame, piers: pd.DataFrame, settings: Settings) -> tu
     hi = names.sort_values("storey_index").groupby("g").storey.last()
     span = {g: (lo[g] if lo[g] == hi[g] else f"{lo[g]} to {hi[g]}") for g in lo.index}
     if settings.grade_pour.startswith("each wall"):
-        who = [f"wall {w}" for w in rows.wall_id.astype(str)]
+        names, who = rows.wall_id.astype(str).to_numpy(), "wall {}".format
     else:
-        who = [f"core {c}" if c else "the core" for c in core]
-    label = [f"{w}, {span[g]}" for w, g in zip(who, group.tolist(), strict=True)]
-    return pd.Series(label, index=rows.index), pd.Series(group, index=rows.index)
+        names, who = core, lambda c: f"core {c}" if c else "the core"
+    # one label per distinct (name, storey group), not per row (the search labels 380 000
+    # options of a few thousand pours)
+    label = np.empty(len(rows), dtype=object)
+    if len(rows):
+        name, named = pd.factorize(names)
+        part, parts = pd.factorize(group)
+        pours, at = np.unique(name.astype(np.int64) * len(parts) + part, return_inverse=True)
+        words = [f"{who(named[k // len(parts)])}, {span[parts[k % len(parts)]]}" for k in pours.tolist()]
+        label = np.asarray(words, dtype=object)[at.ravel()]
+    return pd.Series(label.tolist(), index=rows.index), pd.Series(group, index=rows.index)
 
 
 def pour_premiums(piers: pd.DataFrame, settings: Settings) -> pd.DataFrame:
