@@ -868,7 +868,7 @@ def _pair_groups(
     last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One
     O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
     of most groups (`_sorted_members` orders the few that pass)."""
-    key = bi.astype(np.int64) * len(PAIRS) + pair
+    key = bi.astype(np.int64, copy=False) * len(PAIRS) + pair  # no copy of 4.4 M positions first
     size = np.bincount(key)  # keys are small (piers x 8): grouped without sorting
     present = size > 0
     group = (np.cumsum(present) - 1).astype(np.int32)[key]
