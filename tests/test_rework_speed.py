@@ -26,7 +26,9 @@ def _supported_edges_reference(piers: pd.DataFrame) -> np.ndarray:
             braced.update({(w, which): h for w, h in zip(ids, hit, strict=True)})
         here = (piers.storey == storey).to_numpy()
         sp = piers[here]
-        at_start = (sp.start <= geometry.TOL).to_numpy() & np.array([braced[(w, 0)] for w in sp.wall_id], dtype=bool)
+        at_start = (sp.start <= geometry.TOL).to_numpy() & np.array(
+            [braced[(w, 0)] for w in sp.wall_id], dtype=bool
+        )
         at_end = (sp.wall_length - sp.end <= geometry.TOL).to_numpy() & np.array(
             [braced[(w, 1)] for w in sp.wall_id], dtype=bool
         )
@@ -36,9 +38,7 @@ def _supported_edges_reference(piers: pd.DataFrame) -> np.ndarray:
 
 def _demo_geometry() -> geometry.Geometry:
     st = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
-    return geometry.derive(
-        st, [WallRun(**w) for w in demo.walls()], [Opening(**o) for o in demo.openings()]
-    )
+    return geometry.derive(st, [WallRun(**w) for w in demo.walls()], [Opening(**o) for o in demo.openings()])
 
 
 def test_supported_edges_fast_matches_reference() -> None:
@@ -53,9 +53,7 @@ def test_supported_edges_rows_shuffled() -> None:
     """Rows of a storey not together, walls interleaved: the group numbers still find them."""
     piers = _demo_geometry().piers
     shuffled = piers.sample(frac=1.0, random_state=7).reset_index(drop=True)
-    np.testing.assert_array_equal(
-        geometry.supported_edges(shuffled), _supported_edges_reference(shuffled)
-    )
+    np.testing.assert_array_equal(geometry.supported_edges(shuffled), _supported_edges_reference(shuffled))
 
 
 def test_supported_edges_empty() -> None:
