@@ -181,8 +181,11 @@ def derive(
     cuts = openings_at(openings, storeys)
     pier_rows: list[tuple] = []
     lintel_rows: list[tuple] = []
+    standing: dict[int, set[str]] = {}  # storey index -> wall IDs there (one pass over `runs`)
+    for i, w in runs:
+        standing.setdefault(i, set()).add(w)
     for s in storeys:
-        wall_ids = sorted({w for (i, w) in runs if i == s.index}, key=_natural)
+        wall_ids = sorted(standing.get(s.index, ()), key=_natural)
         for wall_id in wall_ids:
             w = runs[(s.index, wall_id)]
             here = cuts.get((s.index, wall_id), [])
@@ -326,28 +329,40 @@ def supported_edges(piers: pd.DataFrame) -> np.ndarray:
     An edge is braced where it is an end of its wall and another, non-parallel wall at the same
     storey passes within half its thickness (plus 10 mm) of that end point. Edges at openings
     are free.
+
+    Worked on numpy arrays, storey by storey (each wall once: its first pier row); a pier takes
+    its wall's result through the wall's group number, not a filter of the whole table per
+    storey (that filter was most of the geometry's time at building scale).
     """
-    out = np.zeros(len(piers), dtype=int)
-    walls = piers.drop_duplicates(["storey", "wall_id"])
-    for storey, sw in walls.groupby("storey", sort=False):
-        wx, wy, ux, uy = (sw[k].to_numpy(float) for k in ("wx", "wy", "ux", "uy"))
-        length, reach = sw.wall_length.to_numpy(float), sw.tw.to_numpy(float) / 2000 + 0.01
-        ids = sw.wall_id.to_numpy()
-        braced = {}
-        for which, (ex, ey) in enumerate(((wx, wy), (wx + ux * length, wy + uy * length))):
-            # distance from every wall end (rows) to every other wall's centreline (columns)
-            t = np.clip((ex[:, None] - wx) * ux + (ey[:, None] - wy) * uy, 0.0, length)
-            dist = np.hypot(ex[:, None] - (wx + ux * t), ey[:, None] - (wy + uy * t))
-            crossing = np.abs(ux[:, None] * uy - uy[:, None] * ux) > 0.5  # not parallel (and not itself)
-            hit = (crossing & (dist <= reach)).any(axis=1)
-            braced.update({(w, which): h for w, h in zip(ids, hit, strict=True)})
-        here = (piers.storey == storey).to_numpy()
-        sp = piers[here]
-        at_start = (sp.start <= TOL).to_numpy() & np.array([braced[(w, 0)] for w in sp.wall_id], dtype=bool)
-        at_end = (sp.wall_length - sp.end <= TOL).to_numpy() & np.array(
-            [braced[(w, 1)] for w in sp.wall_id], dtype=bool
-        )
-        out[here] = at_start.astype(int) + at_end.astype(int)
+    if piers.empty:
+        return np.zeros(0, dtype=int)
+    wall_of = piers.groupby(["storey", "wall_id"], sort=False).ngroup().to_numpy()
+    first = np.unique(wall_of, return_index=True)[1]  # each wall's first row, walls in order
+    storey_of = pd.factorize(piers.storey.to_numpy()[first])[0]
+    col = {k: piers[k].to_numpy(float) for k in ("wx", "wy", "ux", "uy", "wall_length", "tw")}
+    braced = np.zeros((2, len(first)), dtype=bool)  # [start/end, wall]
+    for c in range(storey_of.max() + 1):
+        walls = np.flatnonzero(storey_of == c)
+        braced[:, walls] = _braced_ends(*(col[k][first[walls]] for k in col))
+    start, end = piers.start.to_numpy(float), piers.end.to_numpy(float)
+    at_start = (start <= TOL) & braced[0, wall_of]
+    at_end = (col["wall_length"] - end <= TOL) & braced[1, wall_of]
+    return at_start.astype(int) + at_end.astype(int)
+
+
+def _braced_ends(
+    wx: np.ndarray, wy: np.ndarray, ux: np.ndarray, uy: np.ndarray, length: np.ndarray, tw: np.ndarray
+) -> np.ndarray:
+    """Whether each wall of one storey is braced at its start (row 0) and its end (row 1): a
+    non-parallel wall's centreline passes within half its thickness plus 10 mm of that end."""
+    reach = tw / 2000 + 0.01
+    out = np.zeros((2, len(wx)), dtype=bool)
+    for which, (ex, ey) in enumerate(((wx, wy), (wx + ux * length, wy + uy * length))):
+        # distance from every wall end (rows) to every other wall's centreline (columns)
+        t = np.clip((ex[:, None] - wx) * ux + (ey[:, None] - wy) * uy, 0.0, length)
+        dist = np.hypot(ex[:, None] - (wx + ux * t), ey[:, None] - (wy + uy * t))
+        crossing = np.abs(ux[:, None] * uy - uy[:, None] * ux) > 0.5  # not parallel (and not itself)
+        out[which] = (crossing & (dist <= reach)).any(axis=1)
     return out
 
 

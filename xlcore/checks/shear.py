@@ -105,12 +105,11 @@ def check_pier_shear(
     df["rho_req"] = rho_req
     df["advice"] = _advice(std, df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r)
     if text:
-        # capacity working depends on the pier alone: written once per storey x pier, then spread
-        first, of = per_pier(df)
+        # capacity working depends on the pier's numbers alone: written once per distinct set
+        # of them (piers alike over many storeys share it), then spread
+        first, of = _text_rows(df, r)
         once = df.iloc[first]
-        f_vuc, f_vu = std.wall_shear_text(
-            r.take(first), once.fc, once.fsy, once.Lw, once.tw, once.hw_lw
-        )
+        f_vuc, f_vu = std.wall_shear_text(r.take(first), once.fc, once.fsy, once.Lw, once.tw, once.hw_lw)
         df["f_vuc"] = np.asarray(f_vuc, dtype=object)[of]
         df["f_vu"] = np.asarray(f_vu, dtype=object)[of]
         design = std.symbols["shear_design"]
@@ -159,6 +158,29 @@ def _advice(std: Standard, util: np.ndarray, rho_req, capped, hw_lw: np.ndarray,
             util[ask], np.asarray(rho_req)[ask], np.asarray(capped)[ask], hw_lw[ask], cap.take(ask)
         )
     return out
+
+
+def _text_rows(df: pd.DataFrame, r) -> tuple[np.ndarray, np.ndarray]:
+    """For the capacity working text (`Standard.wall_shear_text`, a function of each row's own
+    numbers): the first row of each distinct set of everything it may read (f'c, fsy, Lw, tw,
+    Hw/Lw and every array of the capacity `r`) and each row's set. Numbers compare bit for
+    bit (-0.0 is not 0.0: it prints differently), so rows of one set get the same text."""
+    first, of = per_pier(df)  # a pier's numbers are the same on all its combinations
+    cap = r.take(first)
+    columns = [df[c].to_numpy()[first] for c in ("fc", "fsy", "Lw", "tw", "hw_lw")]
+    columns += [getattr(cap, k) for k in ("area", "concrete", "steel", "limit", "nominal", "phi")]
+    columns += [cap.design, cap.governs, *cap.detail.values()]
+    same, set_of = _distinct([_bits(c) for c in columns])
+    return first[same], set_of[of]
+
+
+def _bits(values) -> np.ndarray:
+    """A column as values that are equal exactly where the numbers are the same bit for bit
+    (floats as their 64-bit patterns); other columns as they are."""
+    a = np.asarray(values)
+    if a.dtype.kind == "f":
+        return np.ascontiguousarray(a, dtype=np.float64).view(np.int64)
+    return a
 
 
 def _distinct(columns) -> tuple[np.ndarray, np.ndarray]:
