@@ -7,7 +7,7 @@ bytes, and a failure in a thread fails the whole write cleanly. Workbook mechani
 - `writer._stream` (deflate in a thread) against `ZipFile.writestr`, and its error raised;
 - the full tables written in a thread: an error there leaves the workbook and the folder as
   they were, and the files are those `tables.stage` writes alone;
-- `sheets.failing_rows` with the governing rows against `governing_rows(failing=True)`.
+- `results.failing_rows` with the governing rows against `governing_rows(failing=True)`.
 """
 
 from __future__ import annotations
@@ -22,7 +22,6 @@ import pytest
 
 from xlcore import pipeline, results
 from xlcore.results import ResultColumn, ResultSheet
-from xlcore.results.sheets import failing_rows
 from xlcore.workbook import sheetxml, tables, writer
 from xlcore.workbook.sheetxml import Styles
 
@@ -185,9 +184,9 @@ def test_failing_rows_with_the_governing_rows_are_governing_rows_with_the_failin
     )
     for rule in results.GOVERNING.values():
         want = results.governing_rows(df, rule)
-        got = results.governing_rows(df, rule, failing=False) | failing_rows(df, rule)
+        got = results.governing_rows(df, rule, failing=False) | results.failing_rows(df, rule)
         assert np.array_equal(got, want)
-    assert failing_rows(df, results.GOVERNING[results.AXIAL_SHEET]).sum() > 0
+    assert results.failing_rows(df, results.GOVERNING[results.AXIAL_SHEET]).sum() > 0
 
 
 def test_a_large_part_with_a_bad_crc_is_refused_and_the_workbook_stays(computed, demo_book):

@@ -539,7 +539,17 @@ def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -
         first = np.ones(n, dtype=bool)
         first[1:] = gid[order][1:] != gid[order][:-1]
         keep[order[first]] = True
-    for col in rule.failing if failing else ():
+    if failing:
+        keep |= failing_rows(table, rule)
+    return keep
+
+
+def failing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
+    """The rows `rule.failing` names FAIL: what `governing_rows(failing=True)` adds to the
+    governing rows. Apart so that `select_detail` sorts a table once for both of its choices
+    (with and without the failing rows), not twice (0.3 s at 360 000 rows)."""
+    keep = np.zeros(len(table), dtype=bool)
+    for col in rule.failing:
         if col in table:
             keep |= (table[col] == FAIL).to_numpy()
     return keep

@@ -86,7 +86,7 @@ def select_detail(
                 outcome.sheets[k] = _reworked(sheet, sheet.table, sheet.preamble)
             continue
         governing = results.governing_rows(sheet.table, rule, failing=False)
-        keep = governing | failing_rows(sheet.table, rule)  # = governing_rows(failing=True)
+        keep = governing | results.failing_rows(sheet.table, rule)  # = governing_rows(failing=True)
         meaning = rule.meaning + ("; plus every failing row" if rule.failing else "")
         if mode == "auto" and keep.sum() > limit:
             fails = int(keep.sum())
@@ -143,17 +143,6 @@ def select_detail(
             )
         )
     return full
-
-
-def failing_rows(table: pd.DataFrame, rule: results.Governing) -> np.ndarray:
-    """The rows `rule.failing` names FAIL: what `governing_rows(failing=True)` adds to the
-    governing rows. Kept apart so that `select_detail` sorts a table once for both of its
-    choices (with and without the failing rows), not twice (0.3 s at 360 000 rows)."""
-    keep = np.zeros(len(table), dtype=bool)
-    for col in rule.failing:
-        if col in table:
-            keep |= (table[col] == results.FAIL).to_numpy()
-    return keep
 
 
 def _reworked(sheet: ResultSheet, rows: pd.DataFrame, preamble: list) -> ResultSheet:

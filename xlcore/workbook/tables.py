@@ -155,8 +155,38 @@ class Staged:
         return done
 
     def write(self, sheets: Sequence[ResultSheet], stamp: dict[str, str]) -> None:
-        """Each table to a temporary file here (`_write`); a failure leaves the folder as it was."""
-        _write(self, sheets, stamp)
+        """Each table to a temporary file in the folder, synced; on any failure the files
+        written so far and a folder made for them are removed (the folder is as it was), and
+        the error raised."""
+        if not sheets:
+            return
+        import pyarrow as pa
+        import pyarrow.parquet as pq
+
+        folder = self.folder
+        try:
+            for sheet in sheets:
+                name = file_name(sheet.name)
+                fd, tmp = tempfile.mkstemp(prefix=f".{name}.", suffix=_TMP_SUFFIX, dir=folder)
+                self.files[name] = tmp
+                with os.fdopen(fd, "wb") as fh:
+                    # into Arrow's own buffer, then one write: pyarrow writing to a Python file
+                    # takes the GIL back for every page, stalling behind the thread making the XML
+                    out = pa.BufferOutputStream()
+                    pq.write_table(arrow_table(sheet, stamp), out, compression="zstd")
+                    fh.write(out.getvalue())
+                    fh.flush()
+                    os.fsync(fh.fileno())
+                os.chmod(tmp, 0o666 & ~self.umask)  # mkstemp makes it private; a new file's mode
+        except OSError as exc:
+            self.discard()
+            raise FileProblem(
+                f"could not write the full tables in {folder} ({exc.strerror or exc}); "
+                "the workbook is unchanged"
+            ) from exc
+        except BaseException:
+            self.discard()
+            raise
 
     def discard(self) -> None:
         """The run failed before the workbook was saved: the folder is as it was."""
@@ -210,39 +240,6 @@ def prepare(workbook: Path, sheets: Sequence[ResultSheet]) -> Staged:
             ) from exc
         staged.created = True
     return staged
-
-
-def _write(staged: Staged, sheets: Sequence[ResultSheet], stamp: dict[str, str]) -> None:
-    """`Staged.write`: each table to a temporary file in the folder, synced; on any failure
-    the files written so far and a folder made for them are removed, and the error raised."""
-    if not sheets:
-        return
-    import pyarrow as pa
-    import pyarrow.parquet as pq
-
-    folder = staged.folder
-    try:
-        for sheet in sheets:
-            name = file_name(sheet.name)
-            fd, tmp = tempfile.mkstemp(prefix=f".{name}.", suffix=_TMP_SUFFIX, dir=folder)
-            staged.files[name] = tmp
-            with os.fdopen(fd, "wb") as fh:
-                # into Arrow's own buffer, then one write: pyarrow writing to a Python file
-                # takes the GIL back for every page, stalling behind the thread making the XML
-                out = pa.BufferOutputStream()
-                pq.write_table(arrow_table(sheet, stamp), out, compression="zstd")
-                fh.write(out.getvalue())
-                fh.flush()
-                os.fsync(fh.fileno())
-            os.chmod(tmp, 0o666 & ~staged.umask)  # mkstemp makes it private; a new file's mode
-    except OSError as exc:
-        staged.discard()
-        raise FileProblem(
-            f"could not write the full tables in {folder} ({exc.strerror or exc}); the workbook is unchanged"
-        ) from exc
-    except BaseException:
-        staged.discard()
-        raise
 
 
 def _umask() -> int:
