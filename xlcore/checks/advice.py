@@ -221,6 +221,16 @@ def _zone_area(df: pd.DataFrame) -> np.ndarray:
     )
 
 
+# pier columns neither the search nor the checks it runs read (plan position, stiffness, core
+# N-M outline, edge names: the axial check's `util_only` leaves those out): not copied to the
+# 380 000 variant rows of the L tower nor through the checks' copies and joins of them. Named
+# columns dropped, not a list kept: a column a check comes to read stays (tests/test_advice_speed5.py)
+UNREAD = (
+    "start", "end", "wx", "wy", "ux", "uy", "strip", "core", "edge_a", "edge_b",
+    "px1", "py1", "px2", "py2", "mx", "my", "h", "Ec", "k",
+)  # fmt: skip
+
+
 def _candidates(
     piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
 ) -> tuple[pd.DataFrame, pd.DataFrame]:
@@ -229,19 +239,21 @@ def _candidates(
     there (a lower grade, less steel) or cannot be built (one layer where two are needed), all
     column by column. `offered`: may stand alone (bar layers equal to the other direction's)."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
-    base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
+    base = piers.drop(columns=[c for c in UNREAD if c in piers])
+    base = base.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
     for c in geometry.ZONE_COLUMNS:
         if c not in base:
             base[c] = np.nan if c.endswith("_ties") else 0.0
     std = _std(settings)
     o = _option_table(std)
-    bi = np.repeat(np.arange(len(base)), len(o))
-    oi = np.tile(np.arange(len(o)), len(base))
+    # 32-bit positions while the cross product is whole (855 000 rows at L), 64-bit once filtered
+    bi = np.repeat(np.arange(len(base), dtype=np.int32), len(o))
+    oi = np.tile(np.arange(len(o), dtype=np.int32), len(base))
     # the grades and bars that the rules below drop, dropped before the rows are made (the L
     # tower: 855 000 rows of every pier column, 380 000 kept): the same tests on the same
     # numbers, so the rows kept and their order are those the rules below keep
     pre = _built_options(base, o, bi, oi, std, settings)
-    bi, oi = bi[pre], oi[pre]
+    bi, oi = bi[pre].astype(np.int64), oi[pre].astype(np.int64)
     var = base.iloc[bi].reset_index(drop=True)
     kind = o.kind.to_numpy()[oi]
     tw0 = var.tw.to_numpy(float)
@@ -320,22 +332,36 @@ def _built_options(
 ) -> np.ndarray:
     """Which of the (pier `bi`, option `oi`) rows `_candidates` may keep: a grade above the
     pier's, bars adding steel within the layer, spacing and clear-gap rules (its tests, on the
-    pier's own numbers); end zones and thickness all (their rules need the rows)."""
-    kind = o.kind.to_numpy()[oi]
-    pre = (kind == ZONE_KIND) | (kind == THICK_KIND)
-    grade = kind == GRADE_KIND
-    pre[grade] = o.grade.to_numpy()[oi][grade] > base.fc.to_numpy(float)[bi][grade]
-    tw0, Lw = base.tw.to_numpy(float)[bi], base.Lw.to_numpy(float)[bi]
-    need = _layers_needed(tw0, settings)
-    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
-    rho = geometry.bar_ratio(n, d, sp, tw0)
+    pier's own numbers); end zones and thickness all (their rules need the rows).
+
+    Worked out on the grid of piers x options (`_built_grid`) and read at (bi, oi): the same
+    tests on the same numbers, without gathering each pier and option field to the 855 000
+    rows of the L tower's cross product (a score of arrays of 7 MB each)."""
+    return _built_grid(base, o, std, settings)[bi, oi]
+
+
+def _built_grid(base: pd.DataFrame, o: pd.DataFrame, std: Standard, settings: Settings) -> np.ndarray:
+    """`_built_options` for every pier (rows) x option (columns): each test elementwise on the
+    pier's and the option's numbers broadcast, the same operations in the same order as on
+    gathered rows, so the same bits."""
+    kind = o.kind.to_numpy()
+    grid = np.zeros((len(base), len(o)), dtype=bool)
+    grid[:, (kind == ZONE_KIND) | (kind == THICK_KIND)] = True
+    grade = np.flatnonzero(kind == GRADE_KIND)
+    fc = base.fc.to_numpy(float)[:, None]
+    grid[:, grade] = o.grade.to_numpy()[grade][None, :] > fc
+    tw0, Lw = base.tw.to_numpy(float), base.Lw.to_numpy(float)
+    need = _layers_needed(tw0, settings)[:, None]
+    max_spacing = std.max_spacing(tw0, Lw)
     for prefix, name in (("h", H_KIND), ("v", V_KIND)):
-        sel = kind == name
+        sel = np.flatnonzero(kind == name)
+        d, sp, n = (o[k].to_numpy()[sel][None, :] for k in ("dia", "spacing", "layers"))
+        rho = geometry.bar_ratio(n, d, sp, tw0[:, None])
         way = 0 if prefix == "v" else 1
-        built = (sp <= std.max_spacing(tw0, Lw)[way]) & (sp - d >= std.min_clear_gap(d))
-        now = base[f"rho_{prefix}"].to_numpy(float)[bi]
-        pre[sel] = ((rho > now + 1e-12) & (n >= need) & built)[sel]
-    return pre
+        built = (sp <= max_spacing[way][:, None]) & (sp - d >= std.min_clear_gap(d))
+        now = base[f"rho_{prefix}"].to_numpy(float)[:, None]
+        grid[:, sel] = (rho > now + 1e-12) & (n >= need) & built
+    return grid
 
 
 def _thicker(
@@ -494,6 +520,7 @@ class ActionRows:
         # (storey, pier) as one integer from each column's codes (no tuple per row)
         storey, self.storeys = pd.factorize(self.frame.storey)
         pier, self.piers = pd.factorize(self.frame.pier_id)
+        self.storey_codes = storey
         codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
@@ -505,10 +532,21 @@ class ActionRows:
     def empty(self) -> bool:
         return self.frame.empty
 
-    def for_variants(self, meta: pd.DataFrame) -> pd.DataFrame:
+    @functools.cached_property
+    def coded(self) -> pd.DataFrame:
+        """`frame` with each storey as its integer code (`code_storeys`): shares every other
+        column with `frame`."""
+        return self.frame.assign(storey=self.storey_codes)
+
+    def code_storeys(self, storey) -> np.ndarray:
+        """Storey names as the integer codes of `coded` (-1: a storey without action rows)."""
+        return pd.Index(self.storeys).get_indexer(storey)
+
+    def for_variants(self, meta: pd.DataFrame, coded: bool = False) -> pd.DataFrame:
         """The action rows of each variant's pier, the pier ID replaced by the variant's ID: the
         rows of the join of the actions with `meta` on (storey, pier), action row by action row
-        and within one the variants in `meta`'s order (the join's order), same columns."""
+        and within one the variants in `meta`'s order (the join's order), same columns. With
+        `coded`, the storey as its integer code (`code_storeys`)."""
         storey = pd.Index(self.storeys).get_indexer(meta.storey)
         pier = pd.Index(self.piers).get_indexer(meta.pier_id)
         joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
@@ -519,7 +557,7 @@ class ActionRows:
         step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
         row = self.order[np.repeat(lo, count) + step]
         by = np.lexsort((which, row))
-        out = self.frame.take(row[by]).reset_index(drop=True)
+        out = (self.coded if coded else self.frame).take(row[by]).reset_index(drop=True)
         out = out.drop(columns="pier_id")
         out["pier_id"] = meta.variant.to_numpy()[which[by]]
         return out
@@ -533,8 +571,14 @@ def _utilisation(
     only_axial: bool = False,
 ) -> pd.Series:
     """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
-    (of the axial checks alone with `only_axial`), under `actions` of their piers."""
-    acts = actions.for_variants(meta)
+    (of the axial checks alone with `only_axial`), under `actions` of their piers.
+
+    The checks see each storey as an integer code, in the variant rows and their action rows
+    alike: they read the storey only as a key, with the pier ID, which is the variant's own
+    (unique over storeys), so the same rows meet; text keys cost a fifth of the checks' time in
+    their joins and groupings (tests/test_advice_speed5.py)."""
+    acts = actions.for_variants(meta, coded=True)
+    rows = rows.assign(storey=actions.code_storeys(rows.storey))
     if len(acts) <= CHUNK_ROWS:
         return _worst(rows, acts, settings, only_axial, actions.cheap_first)
     # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
@@ -791,32 +835,49 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
         ob = ib[np.argsort(bi[ib], kind="stable")]
         lo = np.searchsorted(bi[ob], bi[ia], "left")
         count = np.searchsorted(bi[ob], bi[ia], "right") - lo
-        a = np.repeat(ia, count)
-        b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
-        if (ka, kb) == (H_KIND, V_KIND):
-            ok = layers[a] == layers[b]  # both directions in the same layers
-        else:
-            ok = offered[a] & offered[b]
-        a, b = a[ok], b[ok]
-        if not len(a):
-            continue
-        field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
-        Lw, Hc = col["Lw"][a], col["Hc"][a]
-        cost = _cost_total(
-            Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
-        ) - col["base_cost"][a]
-        if ka == GRADE_KIND:
-            own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
-            cost = cost + premium[a] - own
-        # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
-        parts["pair"].append(np.full(len(a), k, dtype=np.int8))
-        parts["a"].append(a.astype(np.int32))
-        parts["b"].append(b.astype(np.int32))
-        parts["added_cost"].append(cost)
+        # a run of the a options at a time, about PAIR_CHUNK pairs each: the same operations
+        # on each pair's own numbers (so the same bits), on arrays that stay in the cache
+        # instead of a score of 10 MB arrays per kind (page faults were half of this step)
+        ends = np.cumsum(count)
+        cuts = np.searchsorted(ends, np.arange(PAIR_CHUNK, int(ends[-1]) if len(ends) else 0, PAIR_CHUNK))
+        for run in np.split(np.arange(len(ia)), np.unique(cuts[cuts < len(ia)] + 1)):
+            _pair_run(k, ia[run], ob, lo[run], count[run], col, premium, offered, layers, prices, settings, parts)
     return {
         k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
         for k, v in parts.items()
     }
+
+
+PAIR_CHUNK = 1 << 16  # pairs priced at once (`_pair_arrays`)
+
+
+def _pair_run(k, ia, ob, lo, count, col, premium, offered, layers, prices, settings: Settings, parts) -> None:
+    """The pairs of kind PAIRS[k] of the a options `ia` (each with its pier's b options `ob`
+    from `lo`, `count` of them), filtered and priced as `_pair_arrays` states, appended to
+    `parts`."""
+    ka, kb = PAIRS[k]
+    a = np.repeat(ia, count)
+    b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
+    if (ka, kb) == (H_KIND, V_KIND):
+        ok = layers[a] == layers[b]  # both directions in the same layers
+    else:
+        ok = offered[a] & offered[b]
+    a, b = a[ok], b[ok]
+    if not len(a):
+        return
+    field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
+    Lw, Hc = col["Lw"][a], col["Hc"][a]
+    cost = _cost_total(
+        Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
+    ) - col["base_cost"][a]
+    if ka == GRADE_KIND:
+        own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
+        cost = cost + premium[a] - own
+    # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
+    parts["pair"].append(np.full(len(a), k, dtype=np.int8))
+    parts["a"].append(a.astype(np.int32))
+    parts["b"].append(b.astype(np.int32))
+    parts["added_cost"].append(cost)
 
 
 def _pair_frame(
