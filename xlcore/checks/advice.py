@@ -841,7 +841,8 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
         ends = np.cumsum(count)
         cuts = np.searchsorted(ends, np.arange(PAIR_CHUNK, int(ends[-1]) if len(ends) else 0, PAIR_CHUNK))
         for run in np.split(np.arange(len(ia)), np.unique(cuts[cuts < len(ia)] + 1)):
-            _pair_run(k, ia[run], ob, lo[run], count[run], col, premium, offered, layers, prices, settings, parts)
+            at = (ia[run], ob, lo[run], count[run])
+            _pair_run(k, *at, col, premium, offered, layers, prices, settings, parts)
     return {
         k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
         for k, v in parts.items()
