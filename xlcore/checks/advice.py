@@ -1409,9 +1409,14 @@ def _worst(
     if cheap_first and not only_axial:
         shear = check_pier_shear(var, acts, s, working=False)
         hwe = _effective_heights(var, acts, s)
+        # Section 14 on every variant (under ACI 318 its ns reads the highest storey of the rows
+        # it is given); detailing, pier by pier, only on those shear leaves at or under 1 (most
+        # variants of a screen fail shear, the demand the search is mostly fixing)
+        cut = _over_one(shear.pier_id.to_numpy(), shear.util.to_numpy(float))
+        live, live_acts = (var, acts) if not len(cut) else _without(var, acts, cut)
         cheap = [
             shear[["pier_id", "util"]],
-            check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
+            check_detailing(live, live_acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
             check_section14(var, acts, s, hwe, working=False),
         ]
         worst = pd.concat(cheap).groupby("pier_id").util.max()
@@ -1443,6 +1448,16 @@ def _worst(
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def _over_one(pier: np.ndarray, util: np.ndarray) -> np.ndarray:
+    """The pier IDs with a utilisation over 1 in (`pier`, `util`) rows."""
+    return np.unique(pier[util > 1.0])
+
+
+def _without(var: pd.DataFrame, acts: pd.DataFrame, out: np.ndarray) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """`var` and `acts` less the rows of the pier IDs `out`."""
+    return var[~np.isin(var.pier_id.to_numpy(), out)], acts[~np.isin(acts.pier_id.to_numpy(), out)]
 
 
 def _effective_heights(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series | None:
