@@ -52,6 +52,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import costs, geometry
+from xlcore.checks import special_walls
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14, not_applicable_reason
@@ -1423,16 +1424,18 @@ def _worst(
     check (`_effective_heights`), the same numbers."""
     if cheap_first and not only_axial:
         shear = check_pier_shear(var, acts, s, working=False)
-        hwe = _effective_heights(var, acts, s)
-        # Section 14 on every variant (under ACI 318 its ns reads the highest storey of the rows
-        # it is given); detailing, pier by pier, only on those shear leaves at or under 1 (most
-        # variants of a screen fail shear, the demand the search is mostly fixing)
+        # detailing and Section 14, pier by pier, only on the variants shear leaves at or under
+        # 1 (most variants of a screen fail shear, the demand the search mostly fixes); ACI 318's
+        # special-wall rules on every variant as before (their ns reads the rows' highest storey;
+        # they take no effective height)
         cut = _over_one(shear.pier_id.to_numpy(), shear.util.to_numpy(float))
         live, live_acts = (var, acts) if not len(cut) else _without(var, acts, cut)
+        hwe = _effective_heights(live, live_acts, s)
+        quake = (var, acts) if special_walls.applies(s) else (live, live_acts)
         cheap = [
             shear[["pier_id", "util"]],
             check_detailing(live, live_acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
-            check_section14(var, acts, s, hwe, working=False),
+            check_section14(*quake, s, hwe, working=False),
         ]
         worst = pd.concat(cheap).groupby("pier_id").util.max()
         over = worst.index[(worst > 1.0).to_numpy()]
