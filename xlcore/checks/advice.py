@@ -816,6 +816,27 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
     operations on the same numbers, so the costs are equal to the last bit. Without a table per
     pair: the L tower's 4 430 580 pairs as a table of text keys took 2 s and 1.5 GB, and the
     probe then keeps about one pair in a hundred (`_probed_pairs`)."""
+    runs = _pair_runs(meta, premiums, settings)
+    if not runs:
+        return {k: np.zeros(0, dtype=float if k == "added_cost" else np.int32) for k in PAIR_ARRAYS}
+    return {
+        "pair": np.concatenate([np.full(len(a), k, dtype=np.int8) for k, a, _, _ in runs]),
+        "a": np.concatenate([a for _, a, _, _ in runs]),
+        "b": np.concatenate([b for _, _, b, _ in runs]),
+        "added_cost": np.concatenate([c for _, _, _, c in runs]),
+    }
+
+
+PAIR_ARRAYS = ("pair", "a", "b", "added_cost")
+
+
+def _pair_runs(
+    meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings
+) -> list[tuple[int, np.ndarray, np.ndarray, np.ndarray]]:
+    """The pairs `_pair_arrays` lists, in its order, as runs of about PAIR_CHUNK pairs: (k, a,
+    b, added_cost), k the index in PAIRS, a and b positions in `meta` (32-bit). The search keeps
+    them so (`_probed_pairs`): the L tower's 4.4 M pairs never in arrays of every pair, which
+    cost more in page faults and copies than their pricing."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     kind, bi = meta.kind.to_numpy(), meta.bi.to_numpy()
     col = {f: meta[f].to_numpy(float) for f in (*PRICED_ALL, *BASE)}
@@ -827,7 +848,7 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
             pd.MultiIndex.from_arrays([meta.pour.to_numpy()[grade], col["fc"][grade]])
         )
         premium[grade] = np.where(at >= 0, premiums.premium.to_numpy(float)[np.maximum(at, 0)], np.nan)
-    parts: dict[str, list[np.ndarray]] = {"pair": [], "a": [], "b": [], "added_cost": []}
+    runs: list[tuple[int, np.ndarray, np.ndarray, np.ndarray]] = []
     for k, (ka, kb) in enumerate(PAIRS):
         ia, ib = np.flatnonzero(kind == ka), np.flatnonzero(kind == kb)
         if not len(ia) or not len(ib):
@@ -843,20 +864,21 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
         cuts = np.searchsorted(ends, np.arange(PAIR_CHUNK, int(ends[-1]) if len(ends) else 0, PAIR_CHUNK))
         for run in np.split(np.arange(len(ia)), np.unique(cuts[cuts < len(ia)] + 1)):
             at = (ia[run], ob, lo[run], count[run])
-            _pair_run(k, *at, col, premium, offered, layers, prices, settings, parts)
-    return {
-        k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
-        for k, v in parts.items()
-    }
+            got = _pair_run(k, *at, col, premium, offered, layers, prices, settings)
+            if got is not None:
+                runs.append((k, *got))
+    return runs
 
 
 PAIR_CHUNK = 1 << 16  # pairs priced at once (`_pair_arrays`)
 
 
-def _pair_run(k, ia, ob, lo, count, col, premium, offered, layers, prices, settings: Settings, parts) -> None:
+def _pair_run(
+    k, ia, ob, lo, count, col, premium, offered, layers, prices, settings: Settings
+) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
     """The pairs of kind PAIRS[k] of the a options `ia` (each with its pier's b options `ob`
-    from `lo`, `count` of them), filtered and priced as `_pair_arrays` states, appended to
-    `parts`."""
+    from `lo`, `count` of them), filtered and priced as `_pair_arrays` states: a, b (32-bit)
+    and added cost; None where none is left."""
     ka, kb = PAIRS[k]
     a = np.repeat(ia, count)
     b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
@@ -866,7 +888,7 @@ def _pair_run(k, ia, ob, lo, count, col, premium, offered, layers, prices, setti
         ok = offered[a] & offered[b]
     a, b = a[ok], b[ok]
     if not len(a):
-        return
+        return None
     field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
     Lw, Hc = col["Lw"][a], col["Hc"][a]
     cost = _cost_total(
@@ -876,10 +898,7 @@ def _pair_run(k, ia, ob, lo, count, col, premium, offered, layers, prices, setti
         own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
         cost = cost + premium[a] - own
     # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
-    parts["pair"].append(np.full(len(a), k, dtype=np.int8))
-    parts["a"].append(a.astype(np.int32))
-    parts["b"].append(b.astype(np.int32))
-    parts["added_cost"].append(cost)
+    return a.astype(np.int32), b.astype(np.int32), cost
 
 
 def _pair_frame(
@@ -908,19 +927,110 @@ def _probed_pairs(
 ) -> pd.DataFrame:
     """`_probed(rows_of, _pairs(meta, premiums, first_id, settings), ["bi", "pair"], ...)`, the
     same table (rows, order, index, variant IDs), with only the probes and the pairs of the
-    groups whose probe passes made into a table: the order is the same stable sort, of arrays."""
-    arrays = _pair_arrays(meta, premiums, settings)
-    n = len(arrays["a"])
-    if not n:
+    groups whose probe passes made into a table: the order is the same stable sort, of arrays.
+    The pairs stay in their runs (`_pair_runs`): the groups, probes and members are found run by
+    run (`_run_groups`, `_run_members`), the same as `_pair_groups` and `_sorted_members` find
+    them in arrays of every pair (tests/test_advice_speed5.py)."""
+    runs = _pair_runs(meta, premiums, settings)
+    if not runs:
         pm = _pairs(meta, premiums, first_id, settings)
         return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
-    group, count, last = _pair_groups(meta.bi.to_numpy()[arrays["a"]], arrays["pair"], arrays["added_cost"])
-    probe = _pair_frame(meta, arrays, last, first_id + last.astype(np.int64))
+    bi = meta.bi.to_numpy()
+    group_of, count, last, starts = _run_groups(runs, bi)
+    probe = _pair_frame(meta, _run_take(runs, starts, last), np.arange(len(last)), first_id + last)
     passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
-    rows, at = _sorted_members(group, arrays["added_cost"], np.flatnonzero(passes), count)
-    out = _pair_frame(meta, arrays, rows, first_id + rows.astype(np.int64))
+    rows, at, arrays = _run_members(runs, starts, bi, group_of, np.flatnonzero(passes), count)
+    out = _pair_frame(meta, arrays, np.arange(len(rows)), first_id + rows.astype(np.int64))
     out.index = at
     return out
+
+
+def _run_keys(k: int, a: np.ndarray, bi: np.ndarray) -> np.ndarray:
+    """The group key (pier `bi` x pair kind k) of each pair of a run, as `_pair_groups` forms it."""
+    return bi[a].astype(np.int64) * len(PAIRS) + k
+
+
+def _run_groups(
+    runs: list, bi: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """`_pair_groups` over the pairs in runs: each key's group number (groups in (bi, pair)
+    order), each group's size and probe (as a position among all pairs), and each run's first
+    position. Two passes over the runs: sizes, NaNs and largest costs, then the latest pair at
+    its group's largest cost (or its latest NaN), with the same ufuncs on the same numbers."""
+    nk = (int(bi.max()) + 1) * len(PAIRS) if len(bi) else 0
+    size, nans, top = np.zeros(nk, np.int64), np.zeros(nk, np.int64), np.full(nk, -np.inf)
+    starts = np.cumsum([0] + [len(a) for _, a, _, _ in runs[:-1]]).astype(np.int64)
+    for k, a, _, cost in runs:
+        key = _run_keys(k, a, bi)
+        size += np.bincount(key, minlength=nk)
+        nan = np.isnan(cost)
+        if nan.any():
+            nans += np.bincount(key[nan], minlength=nk)
+        np.fmax.at(top, key, cost)  # each group's largest cost (NaN left out: nans says)
+    any_nan = nans > 0
+    last = np.full(nk, -1, dtype=np.int64)
+    for (k, a, _, cost), s0 in zip(runs, starts.tolist(), strict=True):
+        key = _run_keys(k, a, bi)
+        hit = np.where(any_nan[key], np.isnan(cost), cost == top[key])
+        np.maximum.at(last, key[hit], s0 + np.flatnonzero(hit))  # the latest, as a stable sort
+    present = size > 0
+    return np.cumsum(present) - 1, size[present], last[present], starts
+
+
+def _run_take(runs: list, starts: np.ndarray, rows: np.ndarray) -> dict[str, np.ndarray]:
+    """The pairs at positions `rows` (among all, in `_pair_arrays`' order) of the runs, as the
+    arrays `_pair_arrays` gives, in the order of `rows`."""
+    run = np.searchsorted(starts, rows, "right") - 1
+    out = {
+        "pair": np.zeros(len(rows), np.int8),
+        "a": np.zeros(len(rows), np.int32),
+        "b": np.zeros(len(rows), np.int32),
+        "added_cost": np.zeros(len(rows), float),
+    }
+    for r in np.unique(run).tolist():
+        at = np.flatnonzero(run == r)
+        k, a, b, cost = runs[r]
+        local = rows[at] - starts[r]
+        out["pair"][at], out["a"][at], out["b"][at] = k, a[local], b[local]
+        out["added_cost"][at] = cost[local]
+    return out
+
+
+def _run_members(
+    runs: list,
+    starts: np.ndarray,
+    bi: np.ndarray,
+    group_of: np.ndarray,
+    chosen: np.ndarray,
+    count: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, dict[str, np.ndarray]]:
+    """`_sorted_members` over the pairs in runs: the pairs of the groups `chosen` in the stable
+    sort by (group, cost), NaN last, their positions among all pairs, each one's position in
+    that sort of every pair, and the pairs themselves (`_pair_arrays`' arrays, in that order)."""
+    take = np.zeros(len(count), dtype=bool)
+    take[chosen] = True
+    got: dict[str, list[np.ndarray]] = {key: [] for key in ("rows", "group", *PAIR_ARRAYS)}
+    for (k, a, b, cost), s0 in zip(runs, starts.tolist(), strict=True):
+        g = group_of[_run_keys(k, a, bi)]
+        sel = np.flatnonzero(take[g])
+        if len(sel):
+            got["rows"].append(s0 + sel)
+            got["group"].append(g[sel])
+            got["pair"].append(np.full(len(sel), k, dtype=np.int8))
+            got["a"].append(a[sel])
+            got["b"].append(b[sel])
+            got["added_cost"].append(cost[sel])
+    if not got["rows"]:
+        empty = _run_take(runs, starts, np.zeros(0, dtype=np.int64))
+        return np.zeros(0, dtype=np.int32), np.zeros(0, dtype=np.int64), empty
+    cat = {key: np.concatenate(v) for key, v in got.items()}
+    order = np.lexsort((cat["added_cost"], cat["group"]))
+    g = cat["group"][order]
+    first = np.concatenate([[0], np.flatnonzero(g[1:] != g[:-1]) + 1])
+    rank = np.arange(len(order)) - np.repeat(first, np.diff(np.append(first, len(order))))
+    offset = np.concatenate([[0], np.cumsum(count)[:-1]])
+    arrays = {key: cat[key][order] for key in ("pair", "a", "b", "added_cost")}
+    return cat["rows"][order].astype(np.int32), offset[g] + rank, arrays
 
 
 def _pair_groups(
