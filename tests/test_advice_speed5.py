@@ -1,0 +1,204 @@
+"""The advice search's round-3 fast paths against what they replace, bit for bit (issue 15).
+Each test fails with its fast path broken (tried: a column the checks read dropped, a storey
+coded wrongly, a test of the options grid changed, the pair runs' probe taking the first
+instead of the latest tie, a pier's rows spread to another).
+
+- variant rows without the UNREAD pier columns: the checks give the same utilisations;
+- the checks on storeys as integer codes (`_utilisation`) against the checks on text storeys;
+- `_built_options` on the piers x options grid against the tests on gathered rows;
+- the pairs kept in runs (`_run_groups`, `_run_members`, `_run_take`) against the arrays of
+  every pair (`_pair_groups`, `_sorted_members`), and `_probed_pairs` in short runs against
+  the probe over the pair table;
+- pours, flags and the piers left worked out on one row per pier against the joins of every
+  option row.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+from test_advice_speed import actions_for, failing_of, tower
+
+from xlcore import geometry
+from xlcore.checks import advice
+from xlcore.model import Settings
+
+STANDARDS = ["AS 3600:2018", "ACI 318-19"]
+
+
+def candidates(s: Settings, unread=None, monkeypatch=None):
+    piers = tower()
+    if unread is not None:
+        monkeypatch.setattr(advice, "UNREAD", unread)
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    return piers, var, meta
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("cheap_first", [False, True])
+def test_variant_rows_without_the_unread_columns_check_the_same(standard, cheap_first, monkeypatch):
+    """Every kind of option (end zones too, whose columns the checks read only where present):
+    the same utilisation of every variant with every pier column and without UNREAD's."""
+    s = Settings(standard=standard)
+    piers, full, meta = candidates(s, (), monkeypatch)
+    monkeypatch.undo()
+    _, narrow, meta2 = candidates(s)
+    pd.testing.assert_frame_equal(meta, meta2, check_exact=True)
+    dropped = set(full.columns) - set(narrow.columns)
+    assert dropped == set(advice.UNREAD) & set(piers.columns) and "core" in dropped
+    assert set(meta.kind) == {advice.GRADE_KIND, *advice.PIER_KINDS}
+    acts = advice.ActionRows(actions_for(piers, 2.0), cheap_first=cheap_first)
+    want = advice._utilisation(full.iloc[meta.variant.to_numpy()], meta, acts, s)
+    got = advice._utilisation(narrow.iloc[meta.variant.to_numpy()], meta, acts, s)
+    assert (want > 1.0).any() and (want <= 1.0).any()
+    pd.testing.assert_series_equal(got, want, check_exact=True)
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_checks_on_coded_storeys_equal_the_checks_on_text_storeys(standard):
+    """`_utilisation` hands the checks integer storey codes; `_worst` on the rows with their
+    storey names gives the same numbers (the screening set too: fewer storeys, other codes)."""
+    s = Settings(standard=standard)
+    piers, var, meta = candidates(s)
+    acts = actions_for(piers, 2.0)
+    rows = var.iloc[meta.variant.to_numpy()]
+    for table in (acts, advice._screening_actions(acts, failing_of(piers)).iloc[::2]):
+        for cheap in (False, True):
+            a = advice.ActionRows(table, cheap_first=cheap)
+            coded = a.for_variants(meta, coded=True)
+            assert coded.storey.dtype.kind == "i" and set(coded.storey) <= set(range(len(a.storeys)))
+            want = advice._worst(rows, a.for_variants(meta), s, cheap_first=cheap)
+            got = advice._utilisation(rows, meta, a, s)
+            assert (want > 1.0).any() and (want <= 1.0).any()
+            pd.testing.assert_series_equal(got, want, check_exact=True)
+            axial = advice._worst(rows, a.for_variants(meta), s, only_axial=True)
+            pd.testing.assert_series_equal(advice._utilisation(rows, meta, a, s, only_axial=True), axial)
+
+
+def built_by_rows(base, o, bi, oi, std, settings):
+    """The code `_built_grid` replaced: every test on the fields gathered to the rows."""
+    kind = o.kind.to_numpy()[oi]
+    pre = (kind == advice.ZONE_KIND) | (kind == advice.THICK_KIND)
+    grade = kind == advice.GRADE_KIND
+    pre[grade] = o.grade.to_numpy()[oi][grade] > base.fc.to_numpy(float)[bi][grade]
+    tw0, Lw = base.tw.to_numpy(float)[bi], base.Lw.to_numpy(float)[bi]
+    need = advice._layers_needed(tw0, settings)
+    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
+    rho = geometry.bar_ratio(n, d, sp, tw0)
+    for prefix, name in (("h", advice.H_KIND), ("v", advice.V_KIND)):
+        sel = kind == name
+        way = 0 if prefix == "v" else 1
+        built = (sp <= std.max_spacing(tw0, Lw)[way]) & (sp - d >= std.min_clear_gap(d))
+        now = base[f"rho_{prefix}"].to_numpy(float)[bi]
+        pre[sel] = ((rho > now + 1e-12) & (n >= need) & built)[sel]
+    return pre
+
+
+@pytest.mark.parametrize(
+    "settings",
+    [Settings(), Settings(standard="ACI 318-19"), Settings(eq_two_layers="no"), Settings(ductility="elastic (mu = 1)")],
+    ids=["as", "aci", "one-layer", "no-eq"],
+)
+def test_options_grid_equals_the_tests_on_gathered_rows(settings):
+    piers = tower()
+    base = piers.merge(failing_of(piers)[["storey", "pier_id"]], on=["storey", "pier_id"])
+    base = base.assign(rho_v=base.rho_v * np.linspace(0.5, 2.0, len(base)))  # some bars dropped, some not
+    std = advice._std(settings)
+    o = advice._option_table(std)
+    bi = np.repeat(np.arange(len(base)), len(o))
+    oi = np.tile(np.arange(len(o)), len(base))
+    want = built_by_rows(base, o, bi, oi, std, settings)
+    got = advice._built_options(base, o, bi.astype(np.int32), oi.astype(np.int32), std, settings)
+    assert 0 < want.sum() < len(want)
+    np.testing.assert_array_equal(got, want)
+    shuffled = np.random.default_rng(1).permutation(len(bi))  # any rows, not only the product
+    got = advice._built_options(base, o, bi[shuffled], oi[shuffled], std, settings)
+    np.testing.assert_array_equal(got, want[shuffled])
+
+
+def fake_runs(seed: int, nan: bool):
+    """Runs of pairs over 40 piers and the 8 kinds, in the order `_pair_runs` makes them (kind
+    by kind, each kind's a options in order), with tied and NaN costs, in short runs."""
+    rng = np.random.default_rng(seed)
+    bi = np.sort(rng.integers(0, 40, 900))  # meta rows, by pier
+    runs = []
+    for k in range(len(advice.PAIRS)):
+        a = np.sort(rng.choice(len(bi), rng.integers(50, 400), replace=True)).astype(np.int32)
+        b = rng.integers(0, len(bi), len(a)).astype(np.int32)
+        cost = np.round(rng.random(len(a)) * 5.0, 0)  # few values: many exact ties
+        cost[rng.random(len(a)) < 0.05] = -0.0
+        if nan:
+            cost[rng.random(len(a)) < 0.03] = np.nan
+        for cut in np.split(np.arange(len(a)), np.sort(rng.choice(np.arange(1, len(a)), 3, replace=False))):
+            runs.append((k, a[cut], b[cut], cost[cut]))
+    return bi, runs
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+@pytest.mark.parametrize("nan", [False, True])
+def test_pair_runs_find_the_groups_probes_and_members_of_every_pair(seed, nan):
+    bi, runs = fake_runs(seed, nan)
+    a = np.concatenate([r[1] for r in runs])
+    pair = np.concatenate([np.full(len(r[1]), r[0], dtype=np.int8) for r in runs])
+    b = np.concatenate([r[2] for r in runs])
+    cost = np.concatenate([r[3] for r in runs])
+    group, count, last = advice._pair_groups(bi[a], pair, cost)
+    group_of, count2, last2, starts = advice._run_groups(runs, bi)
+    np.testing.assert_array_equal(count2, count)
+    np.testing.assert_array_equal(last2, last)
+    np.testing.assert_array_equal(group_of[bi[a].astype(np.int64) * len(advice.PAIRS) + pair], group)
+    took = advice._run_take(runs, starts, last[::-1])
+    for key, col in (("pair", pair), ("a", a), ("b", b), ("added_cost", cost)):
+        np.testing.assert_array_equal(took[key], col[last[::-1]])
+        assert took[key].dtype == col.dtype
+    for chosen in (np.arange(0, len(count), 3), np.zeros(0, dtype=np.int64)):
+        rows, at = advice._sorted_members(group, cost, chosen, count)
+        rows2, at2, arrays = advice._run_members(runs, starts, bi, group_of, chosen, count)
+        np.testing.assert_array_equal(rows2, rows)
+        np.testing.assert_array_equal(at2, at)
+        assert rows2.dtype == rows.dtype and at2.dtype == at.dtype
+        for key, col in (("pair", pair), ("a", a), ("b", b), ("added_cost", cost)):
+            np.testing.assert_array_equal(arrays[key], col[rows])
+
+
+@pytest.mark.parametrize("chunk", [97, 1 << 16])
+def test_probe_of_pairs_in_short_runs_equals_the_probe_over_the_pair_table(chunk, monkeypatch):
+    monkeypatch.setattr(advice, "PAIR_CHUNK", chunk)
+    piers = tower()
+    s = Settings()
+    acts = actions_for(piers, 2.5)
+    failing = failing_of(piers)
+    var, meta = advice._candidates(piers, failing, s)
+    meta["pour"], _ = advice.pour_keys(meta.assign(**advice._pier_cols(piers, meta)), piers, s)
+    premiums = advice.pour_premiums(piers, s)
+    screen = advice.ActionRows(advice._screening_actions(acts, failing), cheap_first=True)
+    rows = advice.ActionRows(acts, cheap_first=True)
+    rows_of = advice._pair_rows(var)
+    table = advice._pairs(meta, premiums, len(var), s)
+    assert len(advice._pair_runs(meta, premiums, s)) > (len(table) // chunk)
+    general = advice._probed(rows_of, table, ["bi", "pair"], rows, screen, s)
+    fast = advice._probed_pairs(meta, premiums, len(var), s, rows_of, rows, screen)
+    assert 0 < general.groupby(["bi", "pair"]).ngroups < table.groupby(["bi", "pair"]).ngroups
+    pd.testing.assert_frame_equal(fast, general, check_exact=True)
+    arrays = advice._pair_arrays(meta, premiums, s)
+    got = advice._pair_frame(meta, arrays, np.arange(len(table)), len(var) + np.arange(len(table)))
+    pd.testing.assert_frame_equal(got, table, check_exact=True)
+
+
+def test_per_pier_pours_flags_and_rows_equal_the_joins_of_every_option_row():
+    piers = tower()
+    s = Settings(grade_pour="each wall at one storey")
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    meta = meta.iloc[np.random.default_rng(4).permutation(len(meta))]  # any order of rows
+    one, of = advice._one_row_per_pier(meta)
+    assert len(one) == meta.bi.nunique() and (one.bi.to_numpy()[of] == meta.bi.to_numpy()).all()
+    want = advice.pour_keys(meta.assign(**advice._pier_cols(piers, meta)), piers, s)[0]
+    per_pier = advice.pour_keys(one.assign(**advice._pier_cols(piers, one)), piers, s)[0]
+    got = per_pier.take(of).set_axis(meta.index)
+    pd.testing.assert_series_equal(got, want, check_exact=True)
+    left = failing_of(piers).iloc[[0, 2]][["storey", "pier_id"]]
+    wanted = one.merge(left.assign(_l=True), on=["storey", "pier_id"], how="left")._l.eq(True).to_numpy()
+    pd.testing.assert_frame_equal(
+        meta[wanted[of]].reset_index(drop=True), meta.merge(left, on=["storey", "pier_id"]), check_exact=True
+    )
