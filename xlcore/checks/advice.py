@@ -261,7 +261,9 @@ def _candidates(
     keep = np.ones(len(var), dtype=bool)
     offered = np.ones(len(var), dtype=bool)
     layers_opt = np.full(len(var), np.nan)
-    grade = kind == GRADE_KIND
+    # which kind each row is, tested on the option table and gathered (not 380 000 text tests)
+    of_kind = {k: (o.kind.to_numpy() == k)[oi] for k in (GRADE_KIND, *PIER_KINDS)}
+    grade = of_kind[GRADE_KIND]
     keep[grade] = o.grade.to_numpy()[oi][grade] > var.fc.to_numpy(float)[grade]
     var["fc"] = np.where(grade, o.grade.to_numpy()[oi], var.fc.to_numpy(float))
     need = _layers_needed(tw0, settings)
@@ -270,7 +272,7 @@ def _candidates(
     rho = geometry.bar_ratio(n, d, sp, tw0)
     max_spacing, gap_ok = std.max_spacing(tw0, var.Lw.to_numpy(float)), sp - d >= std.min_clear_gap(d)
     for prefix, other, name in (("h", "v", H_KIND), ("v", "h", V_KIND)):
-        sel = kind == name
+        sel = of_kind[name]
         # only more steel, never fewer layers than the thickness or Section 14 asks for, and
         # within the Cl 11.7 spacing and clear-gap limits (checks/detailing.py fails the rest)
         way = 0 if prefix == "v" else 1
@@ -281,14 +283,14 @@ def _candidates(
         for field, new in ((f"{prefix}_dia", d), (f"{prefix}_spacing", sp), (f"rho_{prefix}", rho)):
             var[field] = np.where(sel, new, var[field].to_numpy(float))
         var[f"{prefix}_layers"] = np.where(sel, n, var[f"{prefix}_layers"].to_numpy(float)).astype(int)
-    thick = kind == THICK_KIND
+    thick = of_kind[THICK_KIND]
     thick_text = _thicker(var, thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), keep, settings)
-    keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
+    keep &= _zone_options(var, of_kind[ZONE_KIND], o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
     option = o.option.to_numpy()[oi].copy()
     option[thick] = thick_text
     var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
     option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
-    zoned = kind == ZONE_KIND
+    zoned = of_kind[ZONE_KIND][keep]
     option[zoned] = _words(
         lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)",
         *(var[k].to_numpy()[zoned] for k in ("za_n", "za_dia", "za_len")),
@@ -557,7 +559,7 @@ class ActionRows:
         which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
         step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
         row = self.order[np.repeat(lo, count) + step]
-        by = np.lexsort((which, row))
+        by = np.argsort(row, kind="stable")  # by row, then `which` (ascending as made): a lexsort
         out = (self.coded if coded else self.frame).take(row[by]).reset_index(drop=True)
         out = out.drop(columns="pier_id")
         out["pier_id"] = meta.variant.to_numpy()[which[by]]
@@ -849,8 +851,10 @@ def _pair_runs(
         )
         premium[grade] = np.where(at >= 0, premiums.premium.to_numpy(float)[np.maximum(at, 0)], np.nan)
     runs: list[tuple[int, np.ndarray, np.ndarray, np.ndarray]] = []
+    code, kinds = pd.factorize(kind)  # each row's kind as a number: 16 tests of text were 50 ms
+    named = {k: i for i, k in enumerate(kinds)}
     for k, (ka, kb) in enumerate(PAIRS):
-        ia, ib = np.flatnonzero(kind == ka), np.flatnonzero(kind == kb)
+        ia, ib = np.flatnonzero(code == named.get(ka, -2)), np.flatnonzero(code == named.get(kb, -2))
         if not len(ia) or not len(ib):
             continue
         # the join on the pier (bi): each a in order, with its pier's b options in their order
@@ -1200,7 +1204,8 @@ def advise(
     # pairs where neither a single change nor the pour's grade fixes the pier
     fixed = alone[alone.util <= 1.0][["storey", "pier_id"]].drop_duplicates()
     fixed_by_pour = pours[pours.util <= 1.0].pour
-    done = pd.concat([fixed, meta[meta.pour.isin(fixed_by_pour)][["storey", "pier_id"]]]).drop_duplicates()
+    by_pour = one[pours_of.isin(fixed_by_pour).to_numpy()][["storey", "pier_id"]]  # per pier, as above
+    done = pd.concat([fixed, by_pour]).drop_duplicates()
     left = failing.merge(done, how="left", indicator=True)
     left = left[left._merge == "left_only"][["storey", "pier_id"]]
     pair_rows = pd.DataFrame(columns=[*group, "option", "util", "added_cost"])
@@ -1364,12 +1369,14 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         .itertuples(index=False)
     }
     pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
-    # the grade rows by key, as records of the two fields read (a record of every column cost more)
-    g = {
-        (r.storey, r.pier_id, r.fc): r
-        for r in grades[["storey", "pier_id", "fc", "util", "variant"]].itertuples(index=False)
-    }
-    members = meta.drop_duplicates(key)[[*key, "pour"]]
+    # the grade rows by key: their position, and the two fields read as lists (a record per row
+    # cost more)
+    keys = zip(grades.storey.tolist(), grades.pier_id.tolist(), grades.fc.tolist(), strict=True)
+    g = dict(zip(keys, range(len(grades)), strict=True))
+    g_util, g_variant = grades.util.tolist(), grades.variant.tolist()
+    # each pier's first row (a pier's rows share its bi), then `drop_duplicates` on those few
+    _, first = np.unique(meta.bi.to_numpy(), return_index=True)
+    members = meta.iloc[np.sort(first)].drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
     mine_of = {
         pour: list(zip(group.storey.tolist(), group.pier_id.tolist(), strict=True))
@@ -1383,8 +1390,8 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         top = max(named)
         wanted[pour] = (top, mine)
         for m in mine:
-            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g[(*m, top)].util > 1.0:
-                check.append((*m, int(g[(*m, top)].variant), int(pair[m].b)))
+            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g_util[g[(*m, top)]] > 1.0:
+                check.append((*m, int(g_variant[g[(*m, top)]]), int(pair[m].b)))
     if not wanted:
         return pours, plans
     c = pd.DataFrame(check, columns=[*key, "a", "b"])
@@ -1417,7 +1424,7 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     for pour, (top, mine) in wanted.items():
         total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
         for m in mine:
-            at_top = g[(*m, top)].util if (*m, top) in g else np.nan
+            at_top = g_util[g[(*m, top)]] if (*m, top) in g else np.nan
             if at_top <= 1.0:
                 words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
             elif m in c and c[m].util <= 1.0:
