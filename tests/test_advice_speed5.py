@@ -97,7 +97,12 @@ def built_by_rows(base, o, bi, oi, std, settings):
 
 @pytest.mark.parametrize(
     "settings",
-    [Settings(), Settings(standard="ACI 318-19"), Settings(eq_two_layers="no"), Settings(ductility="elastic (mu = 1)")],
+    [
+        Settings(),
+        Settings(standard="ACI 318-19"),
+        Settings(eq_two_layers="no"),
+        Settings(ductility="elastic (mu = 1)"),
+    ],
     ids=["as", "aci", "one-layer", "no-eq"],
 )
 def test_options_grid_equals_the_tests_on_gathered_rows(settings):
@@ -202,3 +207,20 @@ def test_per_pier_pours_flags_and_rows_equal_the_joins_of_every_option_row():
     pd.testing.assert_frame_equal(
         meta[wanted[of]].reset_index(drop=True), meta.merge(left, on=["storey", "pier_id"]), check_exact=True
     )
+
+
+def test_screening_rows_by_the_action_codes_equal_the_join_on_text_keys():
+    """The failing piers' rows found by ActionRows' codes: the join's rows, order and index, and
+    the same screening set; a key the actions lack, and duplicated keys (the join's repeats)."""
+    piers = tower()
+    acts = actions_for(piers, 2.0)
+    rows = advice.ActionRows(acts)
+    failing = failing_of(piers).iloc[[3, 0, 2]]
+    stray = pd.DataFrame({"storey": ["L9"], "pier_id": ["W1-1"]})
+    for keys in (failing, pd.concat([failing, stray]), pd.concat([failing, failing.iloc[:1]])):
+        want = advice._screening_actions(acts, keys)
+        got = advice._screening_actions(rows.frame, keys, rows)
+        assert 0 < len(got) < len(acts)
+        pd.testing.assert_frame_equal(got, want, check_exact=True)
+    joined, _ = advice._failing_rows(rows, failing)
+    pd.testing.assert_frame_equal(joined, acts.merge(failing[["storey", "pier_id"]]), check_exact=True)

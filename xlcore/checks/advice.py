@@ -524,7 +524,9 @@ class ActionRows:
         storey, self.storeys = pd.factorize(self.frame.storey)
         pier, self.piers = pd.factorize(self.frame.pier_id)
         self.storey_codes = storey
+        self.coded_keys = not ((storey < 0).any() or (pier < 0).any())  # no NaN storey or pier
         codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
+        self.codes = codes  # each row's (storey, pier), numbered in order of appearance
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
 
@@ -1172,8 +1174,8 @@ def advise(
     one, of = _one_row_per_pier(meta)  # pour and flags worked out per pier, not per option row
     pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
     meta["pour"] = pours_of.take(of).set_axis(meta.index)
-    screen = ActionRows(_screening_actions(actions, failing), cheap_first=True)
     actions = ActionRows(actions, cheap_first=True)
+    screen = ActionRows(_screening_actions(actions.frame, failing, actions), cheap_first=True)
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -1494,11 +1496,22 @@ def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
 SCREEN = 2  # combinations per pier and measure of demand in the screening set
 
 
-def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataFrame:
+def _screening_actions(
+    actions: pd.DataFrame, failing: pd.DataFrame, rows: ActionRows | None = None
+) -> pd.DataFrame:
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
-    Cl 11.5 for any change of section in the search (a screen only: results are confirmed)."""
-    acts = actions.merge(failing[["storey", "pier_id"]], on=["storey", "pier_id"])
+    Cl 11.5 for any change of section in the search (a screen only: results are confirmed).
+
+    `rows`, the ActionRows of `actions`: the failing piers' rows found by its codes instead of
+    joining the actions on text keys, and its codes group them (the same rows, order and index
+    as the join; tests/test_advice_speed5.py)."""
+    keys = failing[["storey", "pier_id"]]
+    if rows is not None and rows.coded_keys and not keys.duplicated().any():
+        acts, groups = _failing_rows(rows, keys)
+    else:
+        acts = actions.merge(keys, on=["storey", "pier_id"])
+        groups = None
     if acts.empty:
         return acts
     n = acts.n.to_numpy(float)
@@ -1513,9 +1526,10 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     }
     # each (storey, pier) as one integer, factorised once for the six rankings (ranks within a
     # group do not depend on how the groups are labelled)
-    storey, _ = pd.factorize(acts.storey)
-    pier, piers = pd.factorize(acts.pier_id)
-    groups = storey.astype(np.int64) * max(len(piers), 1) + pier
+    if groups is None:
+        storey, _ = pd.factorize(acts.storey)
+        pier, piers = pd.factorize(acts.pier_id)
+        groups = storey.astype(np.int64) * max(len(piers), 1) + pier
     pick = np.zeros(len(acts), dtype=bool)
     for values in measures.values():
         rank = (
@@ -1525,6 +1539,20 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
         )
         pick |= (rank <= SCREEN).to_numpy()
     return acts[pick]
+
+
+def _failing_rows(rows: ActionRows, keys: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray]:
+    """The action rows of `rows` at the (storey, pier) `keys` (unique, no NaN in the actions'),
+    in table order with a fresh index, as the inner join on the keys gives them, and each one's
+    (storey, pier) code."""
+    storey = pd.Index(rows.storeys).get_indexer(keys.storey)
+    pier = pd.Index(rows.piers).get_indexer(keys.pier_id)
+    known = (storey >= 0) & (pier >= 0)
+    key = pd.Index(rows.keys).get_indexer(storey[known].astype(np.int64) * len(rows.piers) + pier[known])
+    wanted = np.zeros(len(rows.keys), dtype=bool)
+    wanted[key[key >= 0]] = True
+    at = np.flatnonzero(wanted[rows.codes])
+    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
 
 
 def _worst(
