@@ -681,7 +681,9 @@ def _rounds(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
     order, of = _group_order(meta, group)
     if order is None:
         return _rounds_by_keys(rows_of, meta, group, actions, screen, settings)
-    meta = meta.iloc[order].reset_index(drop=True)
+    if not np.array_equal(order, np.arange(len(order))):  # the search hands them sorted already
+        meta = meta.iloc[order]
+    meta = meta.reset_index(drop=True)
     starts = np.flatnonzero(np.append(True, of[1:] != of[:-1]))
     rank = np.arange(len(of)) - starts[of]  # each option's place in its group, cheapest first
     is_open = np.ones(len(starts), dtype=bool)
