@@ -821,7 +821,8 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
     (positions in `meta` of the two single options) and `added_cost`, worked out with the same
     operations on the same numbers, so the costs are equal to the last bit. Without a table per
     pair: the L tower's 4 430 580 pairs as a table of text keys took 2 s and 1.5 GB, and the
-    probe then keeps about one pair in a hundred (`_probed_pairs`)."""
+    probe then keeps about one pair in a hundred (`_probed_pairs`). The search keeps the pairs
+    in their runs (`_pair_runs`); these arrays, the runs joined, are the tests' reference."""
     runs = _pair_runs(meta, premiums, settings)
     if not runs:
         return {k: np.zeros(0, dtype=float if k == "added_cost" else np.int32) for k in PAIR_ARRAYS}
@@ -1048,7 +1049,8 @@ def _pair_groups(
     size; and each group's probe: the last pair of the group in the stable sort by cost (NaN
     last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One
     O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
-    of most groups (`_sorted_members` orders the few that pass)."""
+    of most groups (`_sorted_members` orders the few that pass). The search does the same run
+    by run (`_run_groups`); this, on arrays of every pair, is the tests' reference."""
     key = bi.astype(np.int64, copy=False) * len(PAIRS) + pair  # no copy of 4.4 M positions first
     size = np.bincount(key)  # keys are small (piers x 8): grouped without sorting
     present = size > 0
@@ -1067,7 +1069,8 @@ def _sorted_members(
     group: np.ndarray, cost: np.ndarray, chosen: np.ndarray, count: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray]:
     """The pairs of the groups `chosen`, in the stable sort by (group, cost) with NaN last, and
-    each one's position in that sort of every pair (the index `_probed` gives them)."""
+    each one's position in that sort of every pair (the index `_probed` gives them). The
+    tests' reference for `_run_members`."""
     take = np.zeros(len(count), dtype=bool)
     take[chosen] = True
     rows = np.flatnonzero(take[group])
