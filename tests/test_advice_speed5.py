@@ -224,3 +224,24 @@ def test_screening_rows_by_the_action_codes_equal_the_join_on_text_keys():
         pd.testing.assert_frame_equal(got, want, check_exact=True)
     joined, _ = advice._failing_rows(rows, failing)
     pd.testing.assert_frame_equal(joined, acts.merge(failing[["storey", "pier_id"]]), check_exact=True)
+
+
+def test_ranked_keys_sort_and_group_as_the_text_keys():
+    """`_ranked`'s storey and pier ranks give `_group_order` the order and groups of the text
+    keys (rows shuffled, a subset of the piers); a missing storey keeps the text keys."""
+    piers = tower()
+    var, meta = advice._candidates(piers, failing_of(piers), Settings())
+    one, of = advice._one_row_per_pier(meta)
+    rows = meta[meta.kind.isin(advice.PIER_KINDS).to_numpy()]
+    rows = rows.iloc[np.random.default_rng(6).permutation(len(rows))]
+    rows = rows[rows.pier_id.to_numpy() != rows.pier_id.iloc[0]]
+    group = ["storey", "pier_id", "kind"]
+    by = advice._ranked(rows, one, of[rows.index.to_numpy()], group)
+    assert by == ["_storey", "_pier", "kind"]
+    want, want_of = advice._group_order(rows, group)
+    got, got_of = advice._group_order(rows, by)
+    assert want_of.max() > 10
+    np.testing.assert_array_equal(got, want)
+    np.testing.assert_array_equal(got_of, want_of)
+    gap = one.assign(storey=one.storey.where(np.arange(len(one)) > 0))
+    assert advice._ranked(rows.copy(), gap, of[rows.index.to_numpy()], group) == group

@@ -1142,6 +1142,20 @@ def evaluate_options(
     return pm
 
 
+def _ranked(rows: pd.DataFrame, one: pd.DataFrame, of: np.ndarray, group: list[str]) -> list[str]:
+    """The keys to sort and group `rows` by in place of `group` (storey, pier ID, ...): the
+    storey and pier ID as their ranks among `one`'s (`_storey`, `_pier`, added to `rows`; `of`:
+    each row's pier in `one`), numbered in sorted order as `pd.factorize(sort=True)` numbers the
+    text, so `_group_order` sorts the same, hashing integers rather than 370 000 strings twice.
+    `group` itself where a storey or pier ID is missing (pandas' rules for NaN keys)."""
+    storey = pd.factorize(one.storey, sort=True)[0]
+    pier = pd.factorize(one.pier_id, sort=True)[0]
+    if (storey < 0).any() or (pier < 0).any() or group[:2] != ["storey", "pier_id"]:
+        return group
+    rows["_storey"], rows["_pier"] = storey[of], pier[of]
+    return ["_storey", "_pier", *group[2:]]
+
+
 def _one_row_per_pier(meta: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray]:
     """A row of each pier (`bi`: its storey and pier ID are the same on every one of its rows)
     and each row's pier among them, so what depends on the pier alone is worked out a few
@@ -1199,8 +1213,9 @@ def advise(
     skip = flagged[alone.index] & (alone.kind == H_KIND).to_numpy()
     skipped = alone[skip][group].drop_duplicates()
     alone = alone[~skip]
-    alone = _probed(single_rows, alone, group, actions, screen, settings, keep_all=True)
-    util = _rounds(single_rows, alone[alone._hope], group, actions, screen, settings)
+    by = _ranked(alone, one, of[alone.index.to_numpy()], group)  # the same order, by numbers
+    alone = _probed(single_rows, alone, by, actions, screen, settings, keep_all=True)
+    util = _rounds(single_rows, alone[alone._hope], by, actions, screen, settings)
     alone = alone.assign(util=alone.variant.map(util))
 
     # grades: every grade of every failing pier, then per pour
