@@ -237,11 +237,17 @@ def test_ranked_keys_sort_and_group_as_the_text_keys():
     rows = rows[rows.pier_id.to_numpy() != rows.pier_id.iloc[0]]
     group = ["storey", "pier_id", "kind"]
     by = advice._ranked(rows, one, of[rows.index.to_numpy()], group)
-    assert by == ["_storey", "_pier", "kind"]
+    assert by == ["_storey", "_pier", "_kind"]
     want, want_of = advice._group_order(rows, group)
     got, got_of = advice._group_order(rows, by)
     assert want_of.max() > 10
     np.testing.assert_array_equal(got, want)
     np.testing.assert_array_equal(got_of, want_of)
+    # the same rows de-duplicated and grouped by the ranks as by the text keys
+    pd.testing.assert_frame_equal(rows.drop_duplicates(by)[group], rows[group].drop_duplicates())
+    heads = rows.groupby(group, sort=False).head(1)
+    pd.testing.assert_frame_equal(rows.groupby(by, sort=False).head(1), heads)
     gap = one.assign(storey=one.storey.where(np.arange(len(one)) > 0))
     assert advice._ranked(rows.copy(), gap, of[rows.index.to_numpy()], group) == group
+    no_kind = rows.assign(kind=rows.kind.where(np.arange(len(rows)) > 0))
+    assert advice._ranked(no_kind, one, of[rows.index.to_numpy()], group) == ["_storey", "_pier", "kind"]

@@ -1143,17 +1143,27 @@ def evaluate_options(
 
 
 def _ranked(rows: pd.DataFrame, one: pd.DataFrame, of: np.ndarray, group: list[str]) -> list[str]:
-    """The keys to sort and group `rows` by in place of `group` (storey, pier ID, ...): the
+    """The keys to sort and group `rows` by in place of `group` (storey, pier ID, kind): the
     storey and pier ID as their ranks among `one`'s (`_storey`, `_pier`, added to `rows`; `of`:
-    each row's pier in `one`), numbered in sorted order as `pd.factorize(sort=True)` numbers the
-    text, so `_group_order` sorts the same, hashing integers rather than 370 000 strings twice.
-    `group` itself where a storey or pier ID is missing (pandas' rules for NaN keys)."""
+    each row's pier in `one`), the kind as its rank among the rows' (`_kind`), numbered in
+    sorted order as `pd.factorize(sort=True)` numbers the text, so `_group_order` sorts the
+    same and joins, groups and de-duplications by them find the same rows, hashing integers
+    rather than 370 000 strings a time. `group` itself where a storey or pier ID is missing, a
+    missing kind kept as text (pandas' rules for NaN keys)."""
     storey = pd.factorize(one.storey, sort=True)[0]
     pier = pd.factorize(one.pier_id, sort=True)[0]
     if (storey < 0).any() or (pier < 0).any() or group[:2] != ["storey", "pier_id"]:
         return group
     rows["_storey"], rows["_pier"] = storey[of], pier[of]
-    return ["_storey", "_pier", *group[2:]]
+    by = ["_storey", "_pier"]
+    for c in group[2:]:  # the rest (the kind) ranked among the rows once, where none is missing
+        code = pd.factorize(rows[c], sort=True)[0]
+        if (code < 0).any():
+            by.append(c)
+        else:
+            rows[f"_{c}"] = code
+            by.append(f"_{c}")
+    return by
 
 
 def _one_row_per_pier(meta: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray]:
@@ -1221,10 +1231,11 @@ def advise(
     # grades: every grade of every failing pier, then per pour
     grades = meta[meta.kind == GRADE_KIND]
     grades = grades.assign(util=grades.variant.map(_every(single_rows, grades, actions, screen, settings)))
-    pours = _pour_rows(piers, failing, summary, grades, settings)
+    premiums = pour_premiums(piers, settings)  # once for the pours, the pairs and the plans
+    pours = _pour_rows(piers, failing, summary, grades, settings, premiums)
 
     # pairs where neither a single change nor the pour's grade fixes the pier
-    fixed = alone[alone.util <= 1.0][["storey", "pier_id"]].drop_duplicates()
+    fixed = alone[alone.util <= 1.0].drop_duplicates(by[:2])[["storey", "pier_id"]]  # by numbers
     fixed_by_pour = pours[pours.util <= 1.0].pour
     by_pour = one[pours_of.isin(fixed_by_pour).to_numpy()][["storey", "pier_id"]]  # per pier, as above
     done = pd.concat([fixed, by_pour]).drop_duplicates()
@@ -1236,7 +1247,7 @@ def advise(
         wanted = one.merge(left.assign(_l=True), on=["storey", "pier_id"], how="left")._l.eq(True).to_numpy()
         sub = meta[wanted[of]].reset_index(drop=True)
         rows_of = _pair_rows(var)
-        pm = _probed_pairs(sub, pour_premiums(piers, settings), len(var), settings, rows_of, actions, screen)
+        pm = _probed_pairs(sub, premiums, len(var), settings, rows_of, actions, screen)
         putil = _rounds(rows_of, pm, ["storey", "pier_id"], actions, screen, settings)
         pm = pm.assign(util=pm.variant.map(putil))
         best = (
@@ -1250,13 +1261,15 @@ def advise(
         pair_rows["option"] = pair_rows.option.astype(object).fillna(
             "none: no single change, pour grade or pair of changes in the search range passes every check"
         )
-        pours, plans = _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings)
+        pours, plans = _pour_plans(
+            pours, best, alone, grades, meta, var, actions, screen, piers, settings, premiums
+        )
     else:
         plans = {}
 
     passing = alone[alone.util <= 1.0].sort_values("added_cost", kind="stable")
-    best = passing.groupby(group, sort=False).head(1)
-    kinds = pd.concat([alone[group].drop_duplicates(), skipped], ignore_index=True)
+    best = passing.groupby(by, sort=False).head(1)  # the ranks stand for the keys one to one
+    kinds = pd.concat([alone.drop_duplicates(by)[group], skipped], ignore_index=True)
     out = kinds.merge(best[[*group, "option", "util", "added_cost"]], on=group, how="left")
     out["option"] = out.option.fillna(NONE_PASSES)
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
@@ -1273,13 +1286,14 @@ def advise(
     first = ((out.kind == ZONE_KIND) & (out.check == AXIAL_CHECK)).to_numpy()
     key = out.added_cost.to_numpy(float) - np.where(first, 1e15, 0.0)
     out["rank"] = pd.Series(key, index=out.index).groupby([out.storey, out.pier_id]).rank(method="first")
-    names, _ = pour_keys(out.assign(**_pier_cols(piers, out)), piers, settings)
+    out_cols = _pier_cols(piers, out)  # once for the pour names and the order
+    names, _ = pour_keys(out.assign(**out_cols), piers, settings)
     out["pour"] = names.to_numpy()
     out["fixes"] = ""
     out["scope"] = "pier"
     out["plan"] = [plans.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
     out.loc[out["rank"].ne(1).to_numpy(), "plan"] = ""  # said once, on the pier's first row
-    at = _pier_cols(piers, out)["storey_index"]
+    at = out_cols["storey_index"]
     out["_order"] = at
     pours["scope"] = "pour"
     table = pd.concat([pours, out], ignore_index=True)
@@ -1303,6 +1317,7 @@ def _pour_rows(
     summary: pd.DataFrame,
     grades: pd.DataFrame,
     settings: Settings,
+    premiums: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
     """One row per pour holding a failing pier: the cheapest standard grade with which every
     failing pier of the pour passes (a pier already at or above a grade is not changed by it,
@@ -1311,7 +1326,7 @@ def _pour_rows(
     f["pour"], _ = pour_keys(f, piers, settings)
     f = f.merge(summary[["storey", "pier_id", "check", "util"]], on=["storey", "pier_id"])
     f["_order"] = f.storey_index.to_numpy(float)
-    prem = pour_premiums(piers, settings)
+    prem = pour_premiums(piers, settings) if premiums is None else premiums
     count = f.groupby("pour").size().rename("n")
     g = grades.drop(columns="pour", errors="ignore").merge(
         f[["storey", "pier_id", "pour"]], on=["storey", "pier_id"]
@@ -1367,7 +1382,9 @@ PLAN_KIND = GRADE_KIND + " + pier changes"
 GRADE_PAIRS = {k for k, (ka, _) in enumerate(PAIRS) if ka == GRADE_KIND}
 
 
-def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings):
+def _pour_plans(
+    pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings, premiums=None
+):
     """One buildable plan for a pour that no grade alone fixes but whose piers' pairs name a
     grade: the highest grade those pairs name, G, for the whole pour, and each failing pier
     either passing at G alone, or its pair's other change at G (checked again at G), or its own
@@ -1377,7 +1394,8 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     if best.empty or not pours.util.isna().any():
         return pours, plans
     prices = costs.parse_concrete_prices(settings.concrete_prices)
-    prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
+    premiums = pour_premiums(piers, settings) if premiums is None else premiums
+    prem = premiums.set_index(["pour", "grade"]).premium
     by = meta.set_index("variant")
     key = ["storey", "pier_id"]
     # rows by key as records (a label lookup per pier and grade cost most of this step at
