@@ -1219,10 +1219,11 @@ def advise(
     flagged = (
         one.merge(hopeless.assign(_h=True), on=["storey", "pier_id"], how="left")._h.eq(True).to_numpy()[of]
     )
-    alone = meta[meta.kind.isin(PIER_KINDS).to_numpy() & meta.offered.to_numpy()]
-    skip = flagged[alone.index] & (alone.kind == H_KIND).to_numpy()
-    skipped = alone[skip][group].drop_duplicates()
-    alone = alone[~skip]
+    kind = meta.kind.to_numpy()
+    single = np.isin(kind, PIER_KINDS) & meta.offered.to_numpy()
+    skip = single & flagged & (kind == H_KIND)
+    skipped = meta[skip][group].drop_duplicates()
+    alone = meta[single & ~skip]  # one copy of the option rows kept, not two
     by = _ranked(alone, one, of[alone.index.to_numpy()], group)  # the same order, by numbers
     alone = _probed(single_rows, alone, by, actions, screen, settings, keep_all=True)
     util = _rounds(single_rows, alone[alone._hope], by, actions, screen, settings)
