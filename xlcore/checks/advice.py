@@ -288,8 +288,9 @@ def _candidates(
     keep &= _zone_options(var, of_kind[ZONE_KIND], o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
     option = o.option.to_numpy()[oi].copy()
     option[thick] = thick_text
-    var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
-    option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
+    if not keep.all():  # (at L the rules before the rows were made left nothing to drop here)
+        var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
+        option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
     zoned = of_kind[ZONE_KIND][keep]
     option[zoned] = _words(
         lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)",
