@@ -52,6 +52,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import costs, geometry
+from xlcore.checks import special_walls
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14, not_applicable_reason
@@ -221,6 +222,16 @@ def _zone_area(df: pd.DataFrame) -> np.ndarray:
     )
 
 
+# pier columns neither the search nor the checks it runs read (plan position, stiffness, core
+# N-M outline, edge names: the axial check's `util_only` leaves those out): not copied to the
+# 380 000 variant rows of the L tower nor through the checks' copies and joins of them. Named
+# columns dropped, not a list kept: a column a check comes to read stays (tests/test_advice_speed5.py)
+UNREAD = (
+    "start", "end", "wx", "wy", "ux", "uy", "strip", "core", "edge_a", "edge_b",
+    "px1", "py1", "px2", "py2", "mx", "my", "h", "Ec", "k",
+)  # fmt: skip
+
+
 def _candidates(
     piers: pd.DataFrame, targets: pd.DataFrame, settings: Settings
 ) -> tuple[pd.DataFrame, pd.DataFrame]:
@@ -229,26 +240,30 @@ def _candidates(
     there (a lower grade, less steel) or cannot be built (one layer where two are needed), all
     column by column. `offered`: may stand alone (bar layers equal to the other direction's)."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
-    base = piers.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
+    base = piers.drop(columns=[c for c in UNREAD if c in piers])
+    base = base.merge(targets[["storey", "pier_id"]], on=["storey", "pier_id"]).reset_index(drop=True)
     for c in geometry.ZONE_COLUMNS:
         if c not in base:
             base[c] = np.nan if c.endswith("_ties") else 0.0
     std = _std(settings)
     o = _option_table(std)
-    bi = np.repeat(np.arange(len(base)), len(o))
-    oi = np.tile(np.arange(len(o)), len(base))
+    # 32-bit positions while the cross product is whole (855 000 rows at L), 64-bit once filtered
+    bi = np.repeat(np.arange(len(base), dtype=np.int32), len(o))
+    oi = np.tile(np.arange(len(o), dtype=np.int32), len(base))
     # the grades and bars that the rules below drop, dropped before the rows are made (the L
     # tower: 855 000 rows of every pier column, 380 000 kept): the same tests on the same
     # numbers, so the rows kept and their order are those the rules below keep
     pre = _built_options(base, o, bi, oi, std, settings)
-    bi, oi = bi[pre], oi[pre]
+    bi, oi = bi[pre].astype(np.int64), oi[pre].astype(np.int64)
     var = base.iloc[bi].reset_index(drop=True)
     kind = o.kind.to_numpy()[oi]
     tw0 = var.tw.to_numpy(float)
     keep = np.ones(len(var), dtype=bool)
     offered = np.ones(len(var), dtype=bool)
     layers_opt = np.full(len(var), np.nan)
-    grade = kind == GRADE_KIND
+    # which kind each row is, tested on the option table and gathered (not 380 000 text tests)
+    of_kind = {k: (o.kind.to_numpy() == k)[oi] for k in (GRADE_KIND, *PIER_KINDS)}
+    grade = of_kind[GRADE_KIND]
     keep[grade] = o.grade.to_numpy()[oi][grade] > var.fc.to_numpy(float)[grade]
     var["fc"] = np.where(grade, o.grade.to_numpy()[oi], var.fc.to_numpy(float))
     need = _layers_needed(tw0, settings)
@@ -257,7 +272,7 @@ def _candidates(
     rho = geometry.bar_ratio(n, d, sp, tw0)
     max_spacing, gap_ok = std.max_spacing(tw0, var.Lw.to_numpy(float)), sp - d >= std.min_clear_gap(d)
     for prefix, other, name in (("h", "v", H_KIND), ("v", "h", V_KIND)):
-        sel = kind == name
+        sel = of_kind[name]
         # only more steel, never fewer layers than the thickness or Section 14 asks for, and
         # within the Cl 11.7 spacing and clear-gap limits (checks/detailing.py fails the rest)
         way = 0 if prefix == "v" else 1
@@ -268,14 +283,15 @@ def _candidates(
         for field, new in ((f"{prefix}_dia", d), (f"{prefix}_spacing", sp), (f"rho_{prefix}", rho)):
             var[field] = np.where(sel, new, var[field].to_numpy(float))
         var[f"{prefix}_layers"] = np.where(sel, n, var[f"{prefix}_layers"].to_numpy(float)).astype(int)
-    thick = kind == THICK_KIND
+    thick = of_kind[THICK_KIND]
     thick_text = _thicker(var, thick, tw0 + np.nan_to_num(o.step.to_numpy()[oi]), keep, settings)
-    keep &= _zone_options(var, kind == ZONE_KIND, o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
+    keep &= _zone_options(var, of_kind[ZONE_KIND], o.zone_dia.to_numpy()[oi], o.zone_bars.to_numpy()[oi], std)
     option = o.option.to_numpy()[oi].copy()
     option[thick] = thick_text
-    var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
-    option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
-    zoned = kind == ZONE_KIND
+    if not keep.all():  # (at L the rules before the rows were made left nothing to drop here)
+        var, kind, oi, bi = var[keep].reset_index(drop=True), kind[keep], oi[keep], bi[keep]
+        option, offered, layers_opt = option[keep], offered[keep], layers_opt[keep]
+    zoned = of_kind[ZONE_KIND][keep]
     option[zoned] = _words(
         lambda n, d, length: f"{std.bar_name(d, n)} in {length:g} mm at each end (ties not priced)",
         *(var[k].to_numpy()[zoned] for k in ("za_n", "za_dia", "za_len")),
@@ -320,22 +336,36 @@ def _built_options(
 ) -> np.ndarray:
     """Which of the (pier `bi`, option `oi`) rows `_candidates` may keep: a grade above the
     pier's, bars adding steel within the layer, spacing and clear-gap rules (its tests, on the
-    pier's own numbers); end zones and thickness all (their rules need the rows)."""
-    kind = o.kind.to_numpy()[oi]
-    pre = (kind == ZONE_KIND) | (kind == THICK_KIND)
-    grade = kind == GRADE_KIND
-    pre[grade] = o.grade.to_numpy()[oi][grade] > base.fc.to_numpy(float)[bi][grade]
-    tw0, Lw = base.tw.to_numpy(float)[bi], base.Lw.to_numpy(float)[bi]
-    need = _layers_needed(tw0, settings)
-    d, sp, n = (o[k].to_numpy()[oi] for k in ("dia", "spacing", "layers"))
-    rho = geometry.bar_ratio(n, d, sp, tw0)
+    pier's own numbers); end zones and thickness all (their rules need the rows).
+
+    Worked out on the grid of piers x options (`_built_grid`) and read at (bi, oi): the same
+    tests on the same numbers, without gathering each pier and option field to the 855 000
+    rows of the L tower's cross product (a score of arrays of 7 MB each)."""
+    return _built_grid(base, o, std, settings)[bi, oi]
+
+
+def _built_grid(base: pd.DataFrame, o: pd.DataFrame, std: Standard, settings: Settings) -> np.ndarray:
+    """`_built_options` for every pier (rows) x option (columns): each test elementwise on the
+    pier's and the option's numbers broadcast, the same operations in the same order as on
+    gathered rows, so the same bits."""
+    kind = o.kind.to_numpy()
+    grid = np.zeros((len(base), len(o)), dtype=bool)
+    grid[:, (kind == ZONE_KIND) | (kind == THICK_KIND)] = True
+    grade = np.flatnonzero(kind == GRADE_KIND)
+    fc = base.fc.to_numpy(float)[:, None]
+    grid[:, grade] = o.grade.to_numpy()[grade][None, :] > fc
+    tw0, Lw = base.tw.to_numpy(float), base.Lw.to_numpy(float)
+    need = _layers_needed(tw0, settings)[:, None]
+    max_spacing = std.max_spacing(tw0, Lw)
     for prefix, name in (("h", H_KIND), ("v", V_KIND)):
-        sel = kind == name
+        sel = np.flatnonzero(kind == name)
+        d, sp, n = (o[k].to_numpy()[sel][None, :] for k in ("dia", "spacing", "layers"))
+        rho = geometry.bar_ratio(n, d, sp, tw0[:, None])
         way = 0 if prefix == "v" else 1
-        built = (sp <= std.max_spacing(tw0, Lw)[way]) & (sp - d >= std.min_clear_gap(d))
-        now = base[f"rho_{prefix}"].to_numpy(float)[bi]
-        pre[sel] = ((rho > now + 1e-12) & (n >= need) & built)[sel]
-    return pre
+        built = (sp <= max_spacing[way][:, None]) & (sp - d >= std.min_clear_gap(d))
+        now = base[f"rho_{prefix}"].to_numpy(float)[:, None]
+        grid[:, sel] = (rho > now + 1e-12) & (n >= need) & built
+    return grid
 
 
 def _thicker(
@@ -494,7 +524,10 @@ class ActionRows:
         # (storey, pier) as one integer from each column's codes (no tuple per row)
         storey, self.storeys = pd.factorize(self.frame.storey)
         pier, self.piers = pd.factorize(self.frame.pier_id)
+        self.storey_codes = storey
+        self.coded_keys = not ((storey < 0).any() or (pier < 0).any())  # no NaN storey or pier
         codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
+        self.codes = codes  # each row's (storey, pier), numbered in order of appearance
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
 
@@ -505,10 +538,21 @@ class ActionRows:
     def empty(self) -> bool:
         return self.frame.empty
 
-    def for_variants(self, meta: pd.DataFrame) -> pd.DataFrame:
+    @functools.cached_property
+    def coded(self) -> pd.DataFrame:
+        """`frame` with each storey as its integer code (`code_storeys`): shares every other
+        column with `frame`."""
+        return self.frame.assign(storey=self.storey_codes)
+
+    def code_storeys(self, storey) -> np.ndarray:
+        """Storey names as the integer codes of `coded` (-1: a storey without action rows)."""
+        return pd.Index(self.storeys).get_indexer(storey)
+
+    def for_variants(self, meta: pd.DataFrame, coded: bool = False) -> pd.DataFrame:
         """The action rows of each variant's pier, the pier ID replaced by the variant's ID: the
         rows of the join of the actions with `meta` on (storey, pier), action row by action row
-        and within one the variants in `meta`'s order (the join's order), same columns."""
+        and within one the variants in `meta`'s order (the join's order), same columns. With
+        `coded`, the storey as its integer code (`code_storeys`)."""
         storey = pd.Index(self.storeys).get_indexer(meta.storey)
         pier = pd.Index(self.piers).get_indexer(meta.pier_id)
         joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
@@ -518,8 +562,8 @@ class ActionRows:
         which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
         step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
         row = self.order[np.repeat(lo, count) + step]
-        by = np.lexsort((which, row))
-        out = self.frame.take(row[by]).reset_index(drop=True)
+        by = np.argsort(row, kind="stable")  # by row, then `which` (ascending as made): a lexsort
+        out = (self.coded if coded else self.frame).take(row[by]).reset_index(drop=True)
         out = out.drop(columns="pier_id")
         out["pier_id"] = meta.variant.to_numpy()[which[by]]
         return out
@@ -533,8 +577,14 @@ def _utilisation(
     only_axial: bool = False,
 ) -> pd.Series:
     """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
-    (of the axial checks alone with `only_axial`), under `actions` of their piers."""
-    acts = actions.for_variants(meta)
+    (of the axial checks alone with `only_axial`), under `actions` of their piers.
+
+    The checks see each storey as an integer code, in the variant rows and their action rows
+    alike: they read the storey only as a key, with the pier ID, which is the variant's own
+    (unique over storeys), so the same rows meet; text keys cost a fifth of the checks' time in
+    their joins and groupings (tests/test_advice_speed5.py)."""
+    acts = actions.for_variants(meta, coded=True)
+    rows = rows.assign(storey=actions.code_storeys(rows.storey))
     if len(acts) <= CHUNK_ROWS:
         return _worst(rows, acts, settings, only_axial, actions.cheap_first)
     # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
@@ -632,7 +682,9 @@ def _rounds(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
     order, of = _group_order(meta, group)
     if order is None:
         return _rounds_by_keys(rows_of, meta, group, actions, screen, settings)
-    meta = meta.iloc[order].reset_index(drop=True)
+    if not np.array_equal(order, np.arange(len(order))):  # the search hands them sorted already
+        meta = meta.iloc[order]
+    meta = meta.reset_index(drop=True)
     starts = np.flatnonzero(np.append(True, of[1:] != of[:-1]))
     rank = np.arange(len(of)) - starts[of]  # each option's place in its group, cheapest first
     is_open = np.ones(len(starts), dtype=bool)
@@ -770,7 +822,29 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
     (positions in `meta` of the two single options) and `added_cost`, worked out with the same
     operations on the same numbers, so the costs are equal to the last bit. Without a table per
     pair: the L tower's 4 430 580 pairs as a table of text keys took 2 s and 1.5 GB, and the
-    probe then keeps about one pair in a hundred (`_probed_pairs`)."""
+    probe then keeps about one pair in a hundred (`_probed_pairs`). The search keeps the pairs
+    in their runs (`_pair_runs`); these arrays, the runs joined, are the tests' reference."""
+    runs = _pair_runs(meta, premiums, settings)
+    if not runs:
+        return {k: np.zeros(0, dtype=float if k == "added_cost" else np.int32) for k in PAIR_ARRAYS}
+    return {
+        "pair": np.concatenate([np.full(len(a), k, dtype=np.int8) for k, a, _, _ in runs]),
+        "a": np.concatenate([a for _, a, _, _ in runs]),
+        "b": np.concatenate([b for _, _, b, _ in runs]),
+        "added_cost": np.concatenate([c for _, _, _, c in runs]),
+    }
+
+
+PAIR_ARRAYS = ("pair", "a", "b", "added_cost")
+
+
+def _pair_runs(
+    meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings
+) -> list[tuple[int, np.ndarray, np.ndarray, np.ndarray]]:
+    """The pairs `_pair_arrays` lists, in its order, as runs of about PAIR_CHUNK pairs: (k, a,
+    b, added_cost), k the index in PAIRS, a and b positions in `meta` (32-bit). The search keeps
+    them so (`_probed_pairs`): the L tower's 4.4 M pairs never in arrays of every pair, which
+    cost more in page faults and copies than their pricing."""
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     kind, bi = meta.kind.to_numpy(), meta.bi.to_numpy()
     col = {f: meta[f].to_numpy(float) for f in (*PRICED_ALL, *BASE)}
@@ -782,41 +856,59 @@ def _pair_arrays(meta: pd.DataFrame, premiums: pd.DataFrame, settings: Settings)
             pd.MultiIndex.from_arrays([meta.pour.to_numpy()[grade], col["fc"][grade]])
         )
         premium[grade] = np.where(at >= 0, premiums.premium.to_numpy(float)[np.maximum(at, 0)], np.nan)
-    parts: dict[str, list[np.ndarray]] = {"pair": [], "a": [], "b": [], "added_cost": []}
+    runs: list[tuple[int, np.ndarray, np.ndarray, np.ndarray]] = []
+    code, kinds = pd.factorize(kind)  # each row's kind as a number: 16 tests of text were 50 ms
+    named = {k: i for i, k in enumerate(kinds)}
     for k, (ka, kb) in enumerate(PAIRS):
-        ia, ib = np.flatnonzero(kind == ka), np.flatnonzero(kind == kb)
+        ia, ib = np.flatnonzero(code == named.get(ka, -2)), np.flatnonzero(code == named.get(kb, -2))
         if not len(ia) or not len(ib):
             continue
         # the join on the pier (bi): each a in order, with its pier's b options in their order
         ob = ib[np.argsort(bi[ib], kind="stable")]
         lo = np.searchsorted(bi[ob], bi[ia], "left")
         count = np.searchsorted(bi[ob], bi[ia], "right") - lo
-        a = np.repeat(ia, count)
-        b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
-        if (ka, kb) == (H_KIND, V_KIND):
-            ok = layers[a] == layers[b]  # both directions in the same layers
-        else:
-            ok = offered[a] & offered[b]
-        a, b = a[ok], b[ok]
-        if not len(a):
-            continue
-        field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
-        Lw, Hc = col["Lw"][a], col["Hc"][a]
-        cost = _cost_total(
-            Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
-        ) - col["base_cost"][a]
-        if ka == GRADE_KIND:
-            own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
-            cost = cost + premium[a] - own
-        # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
-        parts["pair"].append(np.full(len(a), k, dtype=np.int8))
-        parts["a"].append(a.astype(np.int32))
-        parts["b"].append(b.astype(np.int32))
-        parts["added_cost"].append(cost)
-    return {
-        k: np.concatenate(v) if v else np.zeros(0, dtype=float if k == "added_cost" else np.int32)
-        for k, v in parts.items()
-    }
+        # a run of the a options at a time, about PAIR_CHUNK pairs each: the same operations
+        # on each pair's own numbers (so the same bits), on arrays that stay in the cache
+        # instead of a score of 10 MB arrays per kind (page faults were half of this step)
+        ends = np.cumsum(count)
+        cuts = np.searchsorted(ends, np.arange(PAIR_CHUNK, int(ends[-1]) if len(ends) else 0, PAIR_CHUNK))
+        for run in np.split(np.arange(len(ia)), np.unique(cuts[cuts < len(ia)] + 1)):
+            at = (ia[run], ob, lo[run], count[run])
+            got = _pair_run(k, *at, col, premium, offered, layers, prices, settings)
+            if got is not None:
+                runs.append((k, *got))
+    return runs
+
+
+PAIR_CHUNK = 1 << 16  # pairs priced at once (`_pair_arrays`)
+
+
+def _pair_run(
+    k, ia, ob, lo, count, col, premium, offered, layers, prices, settings: Settings
+) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+    """The pairs of kind PAIRS[k] of the a options `ia` (each with its pier's b options `ob`
+    from `lo`, `count` of them), filtered and priced as `_pair_arrays` states: a, b (32-bit)
+    and added cost; None where none is left."""
+    ka, kb = PAIRS[k]
+    a = np.repeat(ia, count)
+    b = ob[np.repeat(lo, count) + np.arange(len(a)) - np.repeat(np.cumsum(count) - count, count)]
+    if (ka, kb) == (H_KIND, V_KIND):
+        ok = layers[a] == layers[b]  # both directions in the same layers
+    else:
+        ok = offered[a] & offered[b]
+    a, b = a[ok], b[ok]
+    if not len(a):
+        return None
+    field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
+    Lw, Hc = col["Lw"][a], col["Hc"][a]
+    cost = _cost_total(
+        Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
+    ) - col["base_cost"][a]
+    if ka == GRADE_KIND:
+        own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
+        cost = cost + premium[a] - own
+    # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
+    return a.astype(np.int32), b.astype(np.int32), cost
 
 
 def _pair_frame(
@@ -845,19 +937,110 @@ def _probed_pairs(
 ) -> pd.DataFrame:
     """`_probed(rows_of, _pairs(meta, premiums, first_id, settings), ["bi", "pair"], ...)`, the
     same table (rows, order, index, variant IDs), with only the probes and the pairs of the
-    groups whose probe passes made into a table: the order is the same stable sort, of arrays."""
-    arrays = _pair_arrays(meta, premiums, settings)
-    n = len(arrays["a"])
-    if not n:
+    groups whose probe passes made into a table: the order is the same stable sort, of arrays.
+    The pairs stay in their runs (`_pair_runs`): the groups, probes and members are found run by
+    run (`_run_groups`, `_run_members`), the same as `_pair_groups` and `_sorted_members` find
+    them in arrays of every pair (tests/test_advice_speed5.py)."""
+    runs = _pair_runs(meta, premiums, settings)
+    if not runs:
         pm = _pairs(meta, premiums, first_id, settings)
         return _probed(rows_of, pm, ["bi", "pair"], actions, screen, settings)
-    group, count, last = _pair_groups(meta.bi.to_numpy()[arrays["a"]], arrays["pair"], arrays["added_cost"])
-    probe = _pair_frame(meta, arrays, last, first_id + last.astype(np.int64))
+    bi = meta.bi.to_numpy()
+    group_of, count, last, starts = _run_groups(runs, bi)
+    probe = _pair_frame(meta, _run_take(runs, starts, last), np.arange(len(last)), first_id + last)
     passes = probe.variant.map(_every(rows_of, probe, actions, screen, settings)).le(1.0).to_numpy()
-    rows, at = _sorted_members(group, arrays["added_cost"], np.flatnonzero(passes), count)
-    out = _pair_frame(meta, arrays, rows, first_id + rows.astype(np.int64))
+    rows, at, arrays = _run_members(runs, starts, bi, group_of, np.flatnonzero(passes), count)
+    out = _pair_frame(meta, arrays, np.arange(len(rows)), first_id + rows.astype(np.int64))
     out.index = at
     return out
+
+
+def _run_keys(k: int, a: np.ndarray, bi: np.ndarray) -> np.ndarray:
+    """The group key (pier `bi` x pair kind k) of each pair of a run, as `_pair_groups` forms it."""
+    return bi[a].astype(np.int64) * len(PAIRS) + k
+
+
+def _run_groups(
+    runs: list, bi: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """`_pair_groups` over the pairs in runs: each key's group number (groups in (bi, pair)
+    order), each group's size and probe (as a position among all pairs), and each run's first
+    position. Two passes over the runs: sizes, NaNs and largest costs, then the latest pair at
+    its group's largest cost (or its latest NaN), with the same ufuncs on the same numbers."""
+    nk = (int(bi.max()) + 1) * len(PAIRS) if len(bi) else 0
+    size, nans, top = np.zeros(nk, np.int64), np.zeros(nk, np.int64), np.full(nk, -np.inf)
+    starts = np.cumsum([0] + [len(a) for _, a, _, _ in runs[:-1]]).astype(np.int64)
+    for k, a, _, cost in runs:
+        key = _run_keys(k, a, bi)
+        size += np.bincount(key, minlength=nk)
+        nan = np.isnan(cost)
+        if nan.any():
+            nans += np.bincount(key[nan], minlength=nk)
+        np.fmax.at(top, key, cost)  # each group's largest cost (NaN left out: nans says)
+    any_nan = nans > 0
+    last = np.full(nk, -1, dtype=np.int64)
+    for (k, a, _, cost), s0 in zip(runs, starts.tolist(), strict=True):
+        key = _run_keys(k, a, bi)
+        hit = np.where(any_nan[key], np.isnan(cost), cost == top[key])
+        np.maximum.at(last, key[hit], s0 + np.flatnonzero(hit))  # the latest, as a stable sort
+    present = size > 0
+    return np.cumsum(present) - 1, size[present], last[present], starts
+
+
+def _run_take(runs: list, starts: np.ndarray, rows: np.ndarray) -> dict[str, np.ndarray]:
+    """The pairs at positions `rows` (among all, in `_pair_arrays`' order) of the runs, as the
+    arrays `_pair_arrays` gives, in the order of `rows`."""
+    run = np.searchsorted(starts, rows, "right") - 1
+    out = {
+        "pair": np.zeros(len(rows), np.int8),
+        "a": np.zeros(len(rows), np.int32),
+        "b": np.zeros(len(rows), np.int32),
+        "added_cost": np.zeros(len(rows), float),
+    }
+    for r in np.unique(run).tolist():
+        at = np.flatnonzero(run == r)
+        k, a, b, cost = runs[r]
+        local = rows[at] - starts[r]
+        out["pair"][at], out["a"][at], out["b"][at] = k, a[local], b[local]
+        out["added_cost"][at] = cost[local]
+    return out
+
+
+def _run_members(
+    runs: list,
+    starts: np.ndarray,
+    bi: np.ndarray,
+    group_of: np.ndarray,
+    chosen: np.ndarray,
+    count: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, dict[str, np.ndarray]]:
+    """`_sorted_members` over the pairs in runs: the pairs of the groups `chosen` in the stable
+    sort by (group, cost), NaN last, their positions among all pairs, each one's position in
+    that sort of every pair, and the pairs themselves (`_pair_arrays`' arrays, in that order)."""
+    take = np.zeros(len(count), dtype=bool)
+    take[chosen] = True
+    got: dict[str, list[np.ndarray]] = {key: [] for key in ("rows", "group", *PAIR_ARRAYS)}
+    for (k, a, b, cost), s0 in zip(runs, starts.tolist(), strict=True):
+        g = group_of[_run_keys(k, a, bi)]
+        sel = np.flatnonzero(take[g])
+        if len(sel):
+            got["rows"].append(s0 + sel)
+            got["group"].append(g[sel])
+            got["pair"].append(np.full(len(sel), k, dtype=np.int8))
+            got["a"].append(a[sel])
+            got["b"].append(b[sel])
+            got["added_cost"].append(cost[sel])
+    if not got["rows"]:
+        empty = _run_take(runs, starts, np.zeros(0, dtype=np.int64))
+        return np.zeros(0, dtype=np.int32), np.zeros(0, dtype=np.int64), empty
+    cat = {key: np.concatenate(v) for key, v in got.items()}
+    order = np.lexsort((cat["added_cost"], cat["group"]))
+    g = cat["group"][order]
+    first = np.concatenate([[0], np.flatnonzero(g[1:] != g[:-1]) + 1])
+    rank = np.arange(len(order)) - np.repeat(first, np.diff(np.append(first, len(order))))
+    offset = np.concatenate([[0], np.cumsum(count)[:-1]])
+    arrays = {key: cat[key][order] for key in ("pair", "a", "b", "added_cost")}
+    return cat["rows"][order].astype(np.int32), offset[g] + rank, arrays
 
 
 def _pair_groups(
@@ -867,7 +1050,8 @@ def _pair_groups(
     size; and each group's probe: the last pair of the group in the stable sort by cost (NaN
     last, as pandas sorts), i.e. of its largest cost (a NaN where any) the latest pair. One
     O(n) pass in place of sorting the L tower's 4.4 M costs: the probe is all the search needs
-    of most groups (`_sorted_members` orders the few that pass)."""
+    of most groups (`_sorted_members` orders the few that pass). The search does the same run
+    by run (`_run_groups`); this, on arrays of every pair, is the tests' reference."""
     key = bi.astype(np.int64, copy=False) * len(PAIRS) + pair  # no copy of 4.4 M positions first
     size = np.bincount(key)  # keys are small (piers x 8): grouped without sorting
     present = size > 0
@@ -886,7 +1070,8 @@ def _sorted_members(
     group: np.ndarray, cost: np.ndarray, chosen: np.ndarray, count: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray]:
     """The pairs of the groups `chosen`, in the stable sort by (group, cost) with NaN last, and
-    each one's position in that sort of every pair (the index `_probed` gives them)."""
+    each one's position in that sort of every pair (the index `_probed` gives them). The
+    tests' reference for `_run_members`."""
     take = np.zeros(len(count), dtype=bool)
     take[chosen] = True
     rows = np.flatnonzero(take[group])
@@ -958,6 +1143,41 @@ def evaluate_options(
     return pm
 
 
+def _ranked(rows: pd.DataFrame, one: pd.DataFrame, of: np.ndarray, group: list[str]) -> list[str]:
+    """The keys to sort and group `rows` by in place of `group` (storey, pier ID, kind): the
+    storey and pier ID as their ranks among `one`'s (`_storey`, `_pier`, added to `rows`; `of`:
+    each row's pier in `one`), the kind as its rank among the rows' (`_kind`), numbered in
+    sorted order as `pd.factorize(sort=True)` numbers the text, so `_group_order` sorts the
+    same and joins, groups and de-duplications by them find the same rows, hashing integers
+    rather than 370 000 strings a time. `group` itself where a storey or pier ID is missing, a
+    missing kind kept as text (pandas' rules for NaN keys)."""
+    storey = pd.factorize(one.storey, sort=True)[0]
+    pier = pd.factorize(one.pier_id, sort=True)[0]
+    if (storey < 0).any() or (pier < 0).any() or group[:2] != ["storey", "pier_id"]:
+        return group
+    rows["_storey"], rows["_pier"] = storey[of], pier[of]
+    by = ["_storey", "_pier"]
+    for c in group[2:]:  # the rest (the kind) ranked among the rows once, where none is missing
+        code = pd.factorize(rows[c], sort=True)[0]
+        if (code < 0).any():
+            by.append(c)
+        else:
+            rows[f"_{c}"] = code
+            by.append(f"_{c}")
+    return by
+
+
+def _one_row_per_pier(meta: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray]:
+    """A row of each pier (`bi`: its storey and pier ID are the same on every one of its rows)
+    and each row's pier among them, so what depends on the pier alone is worked out a few
+    thousand times, not for the L tower's 380 000 option rows (joins on text keys each)."""
+    bi = meta.bi.to_numpy()
+    rep = np.full(int(bi.max()) + 1 if len(bi) else 0, -1, dtype=np.int64)
+    rep[bi] = np.arange(len(bi))
+    present = rep >= 0
+    return meta.iloc[rep[present]], (np.cumsum(present) - 1)[bi]
+
+
 def _pier_cols(piers: pd.DataFrame, meta: pd.DataFrame) -> dict[str, np.ndarray]:
     """The pier columns a pour needs, for the rows of `meta`."""
     p = meta[["storey", "pier_id"]].merge(
@@ -981,9 +1201,11 @@ def advise(
     if failing.empty:
         return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
     var, meta = _candidates(piers, failing, settings)
-    meta["pour"], _ = pour_keys(meta.assign(**_pier_cols(piers, meta)), piers, settings)
-    screen = ActionRows(_screening_actions(actions, failing), cheap_first=True)
+    one, of = _one_row_per_pier(meta)  # pour and flags worked out per pier, not per option row
+    pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
+    meta["pour"] = pours_of.take(of).set_axis(meta.index)
     actions = ActionRows(actions, cheap_first=True)
+    screen = ActionRows(_screening_actions(actions.frame, failing, actions), cheap_first=True)
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -996,32 +1218,38 @@ def advise(
         summary[(summary[cols] > 1.0).any(axis=1)][["storey", "pier_id"]] if cols else summary.iloc[0:0]
     )
     flagged = (
-        meta.merge(hopeless.assign(_h=True), on=["storey", "pier_id"], how="left")._h.eq(True).to_numpy()
+        one.merge(hopeless.assign(_h=True), on=["storey", "pier_id"], how="left")._h.eq(True).to_numpy()[of]
     )
-    alone = meta[meta.kind.isin(PIER_KINDS).to_numpy() & meta.offered.to_numpy()]
-    skip = flagged[alone.index] & (alone.kind == H_KIND).to_numpy()
-    skipped = alone[skip][group].drop_duplicates()
-    alone = alone[~skip]
-    alone = _probed(single_rows, alone, group, actions, screen, settings, keep_all=True)
-    util = _rounds(single_rows, alone[alone._hope], group, actions, screen, settings)
+    kind = meta.kind.to_numpy()
+    single = np.isin(kind, PIER_KINDS) & meta.offered.to_numpy()
+    skip = single & flagged & (kind == H_KIND)
+    skipped = meta[skip][group].drop_duplicates()
+    alone = meta[single & ~skip]  # one copy of the option rows kept, not two
+    by = _ranked(alone, one, of[alone.index.to_numpy()], group)  # the same order, by numbers
+    alone = _probed(single_rows, alone, by, actions, screen, settings, keep_all=True)
+    util = _rounds(single_rows, alone[alone._hope], by, actions, screen, settings)
     alone = alone.assign(util=alone.variant.map(util))
 
     # grades: every grade of every failing pier, then per pour
     grades = meta[meta.kind == GRADE_KIND]
     grades = grades.assign(util=grades.variant.map(_every(single_rows, grades, actions, screen, settings)))
-    pours = _pour_rows(piers, failing, summary, grades, settings)
+    premiums = pour_premiums(piers, settings)  # once for the pours, the pairs and the plans
+    pours = _pour_rows(piers, failing, summary, grades, settings, premiums)
 
     # pairs where neither a single change nor the pour's grade fixes the pier
-    fixed = alone[alone.util <= 1.0][["storey", "pier_id"]].drop_duplicates()
+    fixed = alone[alone.util <= 1.0].drop_duplicates(by[:2])[["storey", "pier_id"]]  # by numbers
     fixed_by_pour = pours[pours.util <= 1.0].pour
-    done = pd.concat([fixed, meta[meta.pour.isin(fixed_by_pour)][["storey", "pier_id"]]]).drop_duplicates()
+    by_pour = one[pours_of.isin(fixed_by_pour).to_numpy()][["storey", "pier_id"]]  # per pier, as above
+    done = pd.concat([fixed, by_pour]).drop_duplicates()
     left = failing.merge(done, how="left", indicator=True)
     left = left[left._merge == "left_only"][["storey", "pier_id"]]
     pair_rows = pd.DataFrame(columns=[*group, "option", "util", "added_cost"])
     if len(left):
-        sub = meta.merge(left, on=["storey", "pier_id"])
+        # the option rows of the piers left, in their order (an inner join on the keys, per pier)
+        wanted = one.merge(left.assign(_l=True), on=["storey", "pier_id"], how="left")._l.eq(True).to_numpy()
+        sub = meta[wanted[of]].reset_index(drop=True)
         rows_of = _pair_rows(var)
-        pm = _probed_pairs(sub, pour_premiums(piers, settings), len(var), settings, rows_of, actions, screen)
+        pm = _probed_pairs(sub, premiums, len(var), settings, rows_of, actions, screen)
         putil = _rounds(rows_of, pm, ["storey", "pier_id"], actions, screen, settings)
         pm = pm.assign(util=pm.variant.map(putil))
         best = (
@@ -1035,13 +1263,15 @@ def advise(
         pair_rows["option"] = pair_rows.option.astype(object).fillna(
             "none: no single change, pour grade or pair of changes in the search range passes every check"
         )
-        pours, plans = _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings)
+        pours, plans = _pour_plans(
+            pours, best, alone, grades, meta, var, actions, screen, piers, settings, premiums
+        )
     else:
         plans = {}
 
     passing = alone[alone.util <= 1.0].sort_values("added_cost", kind="stable")
-    best = passing.groupby(group, sort=False).head(1)
-    kinds = pd.concat([alone[group].drop_duplicates(), skipped], ignore_index=True)
+    best = passing.groupby(by, sort=False).head(1)  # the ranks stand for the keys one to one
+    kinds = pd.concat([alone.drop_duplicates(by)[group], skipped], ignore_index=True)
     out = kinds.merge(best[[*group, "option", "util", "added_cost"]], on=group, how="left")
     out["option"] = out.option.fillna(NONE_PASSES)
     out.loc[out.merge(skipped.assign(_s=True), on=group, how="left")._s.eq(True).to_numpy(), "option"] = (
@@ -1058,13 +1288,14 @@ def advise(
     first = ((out.kind == ZONE_KIND) & (out.check == AXIAL_CHECK)).to_numpy()
     key = out.added_cost.to_numpy(float) - np.where(first, 1e15, 0.0)
     out["rank"] = pd.Series(key, index=out.index).groupby([out.storey, out.pier_id]).rank(method="first")
-    names, _ = pour_keys(out.assign(**_pier_cols(piers, out)), piers, settings)
+    out_cols = _pier_cols(piers, out)  # once for the pour names and the order
+    names, _ = pour_keys(out.assign(**out_cols), piers, settings)
     out["pour"] = names.to_numpy()
     out["fixes"] = ""
     out["scope"] = "pier"
     out["plan"] = [plans.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
     out.loc[out["rank"].ne(1).to_numpy(), "plan"] = ""  # said once, on the pier's first row
-    at = _pier_cols(piers, out)["storey_index"]
+    at = out_cols["storey_index"]
     out["_order"] = at
     pours["scope"] = "pour"
     table = pd.concat([pours, out], ignore_index=True)
@@ -1088,6 +1319,7 @@ def _pour_rows(
     summary: pd.DataFrame,
     grades: pd.DataFrame,
     settings: Settings,
+    premiums: pd.DataFrame | None = None,
 ) -> pd.DataFrame:
     """One row per pour holding a failing pier: the cheapest standard grade with which every
     failing pier of the pour passes (a pier already at or above a grade is not changed by it,
@@ -1096,7 +1328,7 @@ def _pour_rows(
     f["pour"], _ = pour_keys(f, piers, settings)
     f = f.merge(summary[["storey", "pier_id", "check", "util"]], on=["storey", "pier_id"])
     f["_order"] = f.storey_index.to_numpy(float)
-    prem = pour_premiums(piers, settings)
+    prem = pour_premiums(piers, settings) if premiums is None else premiums
     count = f.groupby("pour").size().rename("n")
     g = grades.drop(columns="pour", errors="ignore").merge(
         f[["storey", "pier_id", "pour"]], on=["storey", "pier_id"]
@@ -1152,7 +1384,9 @@ PLAN_KIND = GRADE_KIND + " + pier changes"
 GRADE_PAIRS = {k for k, (ka, _) in enumerate(PAIRS) if ka == GRADE_KIND}
 
 
-def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings):
+def _pour_plans(
+    pours, best, alone, grades, meta, var, actions, screen, piers, settings: Settings, premiums=None
+):
     """One buildable plan for a pour that no grade alone fixes but whose piers' pairs name a
     grade: the highest grade those pairs name, G, for the whole pour, and each failing pier
     either passing at G alone, or its pair's other change at G (checked again at G), or its own
@@ -1162,7 +1396,8 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     if best.empty or not pours.util.isna().any():
         return pours, plans
     prices = costs.parse_concrete_prices(settings.concrete_prices)
-    prem = pour_premiums(piers, settings).set_index(["pour", "grade"]).premium
+    premiums = pour_premiums(piers, settings) if premiums is None else premiums
+    prem = premiums.set_index(["pour", "grade"]).premium
     by = meta.set_index("variant")
     key = ["storey", "pier_id"]
     # rows by key as records (a label lookup per pier and grade cost most of this step at
@@ -1176,12 +1411,14 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         .itertuples(index=False)
     }
     pair = {(r.storey, r.pier_id): r for r in best.itertuples(index=False)}
-    # the grade rows by key, as records of the two fields read (a record of every column cost more)
-    g = {
-        (r.storey, r.pier_id, r.fc): r
-        for r in grades[["storey", "pier_id", "fc", "util", "variant"]].itertuples(index=False)
-    }
-    members = meta.drop_duplicates(key)[[*key, "pour"]]
+    # the grade rows by key: their position, and the two fields read as lists (a record per row
+    # cost more)
+    keys = zip(grades.storey.tolist(), grades.pier_id.tolist(), grades.fc.tolist(), strict=True)
+    g = dict(zip(keys, range(len(grades)), strict=True))
+    g_util, g_variant = grades.util.tolist(), grades.variant.tolist()
+    # each pier's first row (a pier's rows share its bi), then `drop_duplicates` on those few
+    _, first = np.unique(meta.bi.to_numpy(), return_index=True)
+    members = meta.iloc[np.sort(first)].drop_duplicates(key)[[*key, "pour"]]
     wanted, check = {}, []
     mine_of = {
         pour: list(zip(group.storey.tolist(), group.pier_id.tolist(), strict=True))
@@ -1195,8 +1432,8 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
         top = max(named)
         wanted[pour] = (top, mine)
         for m in mine:
-            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g[(*m, top)].util > 1.0:
-                check.append((*m, int(g[(*m, top)].variant), int(pair[m].b)))
+            if m in pair and pair[m].pair in GRADE_PAIRS and (*m, top) in g and g_util[g[(*m, top)]] > 1.0:
+                check.append((*m, int(g_variant[g[(*m, top)]]), int(pair[m].b)))
     if not wanted:
         return pours, plans
     c = pd.DataFrame(check, columns=[*key, "a", "b"])
@@ -1229,7 +1466,7 @@ def _pour_plans(pours, best, alone, grades, meta, var, actions, screen, piers, s
     for pour, (top, mine) in wanted.items():
         total, worst, words, ok = float(prem[(pour, top)]), 0.0, {}, True
         for m in mine:
-            at_top = g[(*m, top)].util if (*m, top) in g else np.nan
+            at_top = g_util[g[(*m, top)]] if (*m, top) in g else np.nan
             if at_top <= 1.0:
                 words[m], u, cost = f"f'c {top:g} MPa (pour) alone", at_top, 0.0
             elif m in c and c[m].util <= 1.0:
@@ -1299,11 +1536,22 @@ def cheapest_fixes(advice: pd.DataFrame) -> dict[tuple[str, str], str]:
 SCREEN = 2  # combinations per pier and measure of demand in the screening set
 
 
-def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataFrame:
+def _screening_actions(
+    actions: pd.DataFrame, failing: pd.DataFrame, rows: ActionRows | None = None
+) -> pd.DataFrame:
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
-    Cl 11.5 for any change of section in the search (a screen only: results are confirmed)."""
-    acts = actions.merge(failing[["storey", "pier_id"]], on=["storey", "pier_id"])
+    Cl 11.5 for any change of section in the search (a screen only: results are confirmed).
+
+    `rows`, the ActionRows of `actions`: the failing piers' rows found by its codes instead of
+    joining the actions on text keys, and its codes group them (the same rows, order and index
+    as the join; tests/test_advice_speed5.py)."""
+    keys = failing[["storey", "pier_id"]]
+    if rows is not None and rows.coded_keys and not keys.duplicated().any():
+        acts, groups = _failing_rows(rows, keys)
+    else:
+        acts = actions.merge(keys, on=["storey", "pier_id"])
+        groups = None
     if acts.empty:
         return acts
     n = acts.n.to_numpy(float)
@@ -1318,9 +1566,10 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
     }
     # each (storey, pier) as one integer, factorised once for the six rankings (ranks within a
     # group do not depend on how the groups are labelled)
-    storey, _ = pd.factorize(acts.storey)
-    pier, piers = pd.factorize(acts.pier_id)
-    groups = storey.astype(np.int64) * max(len(piers), 1) + pier
+    if groups is None:
+        storey, _ = pd.factorize(acts.storey)
+        pier, piers = pd.factorize(acts.pier_id)
+        groups = storey.astype(np.int64) * max(len(piers), 1) + pier
     pick = np.zeros(len(acts), dtype=bool)
     for values in measures.values():
         rank = (
@@ -1330,6 +1579,20 @@ def _screening_actions(actions: pd.DataFrame, failing: pd.DataFrame) -> pd.DataF
         )
         pick |= (rank <= SCREEN).to_numpy()
     return acts[pick]
+
+
+def _failing_rows(rows: ActionRows, keys: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray]:
+    """The action rows of `rows` at the (storey, pier) `keys` (unique, no NaN in the actions'),
+    in table order with a fresh index, as the inner join on the keys gives them, and each one's
+    (storey, pier) code."""
+    storey = pd.Index(rows.storeys).get_indexer(keys.storey)
+    pier = pd.Index(rows.piers).get_indexer(keys.pier_id)
+    known = (storey >= 0) & (pier >= 0)
+    key = pd.Index(rows.keys).get_indexer(storey[known].astype(np.int64) * len(rows.piers) + pier[known])
+    wanted = np.zeros(len(rows.keys), dtype=bool)
+    wanted[key[key >= 0]] = True
+    at = np.flatnonzero(wanted[rows.codes])
+    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
 
 
 def _worst(
@@ -1346,11 +1609,18 @@ def _worst(
     check (`_effective_heights`), the same numbers."""
     if cheap_first and not only_axial:
         shear = check_pier_shear(var, acts, s, working=False)
-        hwe = _effective_heights(var, acts, s)
+        # detailing and Section 14, pier by pier, only on the variants shear leaves at or under
+        # 1 (most variants of a screen fail shear, the demand the search mostly fixes); ACI 318's
+        # special-wall rules on every variant as before (their ns reads the rows' highest storey;
+        # they take no effective height)
+        cut = _over_one(shear.pier_id.to_numpy(), shear.util.to_numpy(float))
+        live, live_acts = (var, acts) if not len(cut) else _without(var, acts, cut)
+        hwe = _effective_heights(live, live_acts, s)
+        quake = (var, acts) if special_walls.applies(s) else (live, live_acts)
         cheap = [
             shear[["pier_id", "util"]],
-            check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
-            check_section14(var, acts, s, hwe, working=False),
+            check_detailing(live, live_acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
+            check_section14(*quake, s, hwe, working=False),
         ]
         worst = pd.concat(cheap).groupby("pier_id").util.max()
         over = worst.index[(worst > 1.0).to_numpy()]
@@ -1381,6 +1651,16 @@ def _worst(
     if not parts:
         return pd.Series(dtype=float)
     return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def _over_one(pier: np.ndarray, util: np.ndarray) -> np.ndarray:
+    """The pier IDs with a utilisation over 1 in (`pier`, `util`) rows."""
+    return np.unique(pier[util > 1.0])
+
+
+def _without(var: pd.DataFrame, acts: pd.DataFrame, out: np.ndarray) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """`var` and `acts` less the rows of the pier IDs `out`."""
+    return var[~np.isin(var.pier_id.to_numpy(), out)], acts[~np.isin(acts.pier_id.to_numpy(), out)]
 
 
 def _effective_heights(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series | None:
