@@ -160,32 +160,28 @@ def interaction(
     dn_b = d0 * sec.eps_cu / (sec.eps_cu + sec.fsy / sec.Es)
     nub, _ = nm.forces(sec, dn_b)
     dn0 = nm.solve_dn(sec, 0.0, 1e-6 * D, D)
-    _, m0 = nm.forces(sec, dn0)
+    n_lo, m0 = nm.forces(sec, dn0)
     kuo = dn0 / d0
     nd, md = nm.forces(sec, D)
+    # phi at the section's own points, once per section (phi is the standard's per-row formula
+    # of the point, so the same numbers as worked out on every row); n_lo, phi_lo: the point at
+    # dn0, where both solves below start (their first evaluation, per section)
+    phi_sec = _phi_from(std, phi0, sec, d0, nub, nuot, kuo)
+    phi_d = phi_sec(nd, D)
+    phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
+    phi_lo = phi_sec(n_lo, dn0)
     if of is not None:  # from here on, one row per N*
         sec = sec.take(of)
-        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0 = (
-            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0)
+        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo = (
+            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo)
         )
     fsy = sec.fsy
-
-    def state(n, dn, rows=None) -> SectionState:  # what phi may depend on, at (Nu, dn)
-        pick = (lambda v: v) if rows is None else (lambda v: v[rows])
-        return SectionState(
-            nu=n, dn=dn, d0=pick(d0), fy=pick(fsy), nub=pick(nub), nuot=pick(nuot), kuo=pick(kuo),
-            eps_cu=sec.eps_cu, Es=sec.Es,
-        )  # fmt: skip
-
-    def phi_at(n, dn, rows=None):  # the standard's phi at the nominal point (n, dn)
-        return std.phi_axial_bending(state(n, dn, rows), phi0)
-
-    phi_d = phi_at(nd, D)
-    phi_b = phi_at(np.zeros(D.shape), dn0)  # pure bending
+    phi_at = _phi_from(std, phi0, sec, d0, nub, nuot, kuo)  # (n, dn, rows): phi at nominal points
     # regular region: phi N = N*, N between 0 and decompression
     if at_n:
         target = np.clip(n_star, 0.0, phi_d * nd)
-        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at)
+        ends = (n_lo * phi_lo - target, nd * phi_d - target)  # g at dn0 and at D, as the solver's
+        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends)
         nu, mu = nm.forces(sec, dn)
         phi = phi_at(nu, dn)
     else:  # the one per-row solve `lam` does not read (half the search's N-M work)
@@ -226,8 +222,26 @@ def interaction(
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_at)
+        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo))
     return out
+
+
+def _phi_from(std: Standard, phi0, sec, d0, nub, nuot, kuo):
+    """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the sections'
+    rows `rows` (None: all); what it reads of the section gathered once per `rows` array (the
+    solvers pass one array until their active rows shrink)."""
+    memo = nm.RowsMemo()
+    own = (d0, sec.fsy, nub, nuot, kuo)
+
+    def phi_at(n, dn, rows=None):
+        picked = own if rows is None else memo("own", rows, lambda: [v[rows] for v in own])
+        d0_, fy, nub_, nuot_, kuo_ = picked
+        state = SectionState(
+            nu=n, dn=dn, d0=d0_, fy=fy, nub=nub_, nuot=nuot_, kuo=kuo_, eps_cu=sec.eps_cu, Es=sec.Es
+        )
+        return std.phi_axial_bending(state, phi0)
+
+    return phi_at
 
 
 def _oriented(
@@ -251,7 +265,7 @@ RAY_TEXT = {
 }
 
 
-def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, np.ndarray]:
+def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None) -> dict[str, np.ndarray]:
     """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
     diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
     compression alike (docs/engineering-basis.md, "Axial + bending utilisation").
@@ -262,7 +276,8 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
     (phi0 Nuo, 0); cut flat at the standard's upper limit on N* where that lies below the
     line's end (ACI 318 phi 0.80 Po: lambda is then at least N*/top, the diagram being the
     uncut one intersected with N <= top). `r` is `interaction`'s per-row dict, `sec` one section
-    per row, `phi_at(N, dn, rows)` the standard's phi; N, N mm."""
+    per row, `phi_at(N, dn, rows)` the standard's phi, `at_dn0` (where given) Nu and phi at
+    each row's dn0 (where the solve starts: its first evaluation without forces); N, N mm."""
     n = np.asarray(n_star, dtype=float)
     m = np.abs(np.asarray(m_star, dtype=float))
     phi_mo = r["phi_b"] * np.abs(r["m0"])
@@ -282,9 +297,20 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
         part = sec.take(rows)
-        dn = nm.solve_ray(
-            part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, x, k: phi_at(v, x, _sub(rows, k))
-        )
+        sub = nm.RowsMemo()  # one array of whole-table rows per array of the solver's rows
+
+        def phi_of(v, x, k):
+            return phi_at(v, x, rows if k is None else sub("rows", k, lambda: rows[k]))
+
+        ends = None
+        if at_dn0 is not None:  # g at dn0 and at D from the points the caller has
+            n_lo, phi_lo = at_dn0
+            a, b = m[rows], n[rows]
+            ends = (
+                nm.ray_g(phi_lo[rows], n_lo[rows], r["m0"][rows], a, b),
+                nm.ray_g(r["phi_d"][rows], r["nd"][rows], r["md"][rows], a, b),
+            )
+        dn = nm.solve_ray(part, n[rows], m[rows], r["dn0"][rows], part.D, phi_of, ends=ends)
         nu, mu = nm.forces(part, dn)
         phi = phi_at(nu, dn, rows)
         dn_ray[rows], nu_ray[rows], mu_ray[rows], phi_ray[rows] = dn, nu, np.abs(mu), phi
@@ -308,11 +334,6 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
         phi_ray=phi_ray,
         phi_mo=phi_mo,
     )
-
-
-def _sub(rows: np.ndarray, k: np.ndarray | None) -> np.ndarray:
-    """Rows of the whole table for the solver's subset `k` of `rows` (None: all of them)."""
-    return rows if k is None else rows[k]
 
 
 REGION_TEXT = {
