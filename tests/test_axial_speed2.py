@@ -4,7 +4,7 @@ range-by-range `_even_sums` form, and `nm._illinois` (active rows held packed, t
 gathers kept per rows array, the first evaluations handed in by the caller) against the solver
 that gathered and scattered every array on every step. Each test fails with its fast path
 broken (tried: a term's order changed in `_forces_even`, a packed array not packed with the
-rest, the `ends` at dn0 taken from the wrong point)."""
+rest, the `ends` at dn0 taken from the wrong point, N alone summed in another order)."""
 
 from __future__ import annotations
 
@@ -15,15 +15,17 @@ import pandas as pd
 import pytest
 
 from xlcore import demo, geometry
-from xlcore.checks import axial
+from xlcore.checks import axial, per_pier
 from xlcore.checks.axial import check_pier_axial, rect_sections
 from xlcore.codes import get_standard
-from xlcore.mechanics import nm
+from xlcore.mechanics import bars, nm
 from xlcore.model import Opening, Settings, Storey, WallRun
 
 
-def _forces_even_reference(sec: nm.EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """`nm._forces_even` as it was (round 3): `_even_sums` over each range."""
+def _forces_even_reference(
+    sec: nm.EvenRect, dn: np.ndarray, moment: bool = True
+) -> tuple[np.ndarray, np.ndarray]:
+    """`nm._forces_even` as it was (round 3): `_even_sums` over each range; N and M always."""
     depth = np.minimum(sec.gamma * dn, sec.D)
     conc_stress = sec.alpha2 * sec.fc
     cc = conc_stress * depth * sec.b
@@ -155,6 +157,8 @@ def test_forces_equal_the_range_by_range_sums(standard):
             got, want = nm.forces(s, dn), _forces_even_reference(s, dn)
             for a, b in zip(got, want, strict=True):
                 assert np.array_equal(a.view(np.int64), b.view(np.int64))
+            alone = nm.axial_force(dataclasses.replace(s), dn)  # N without the moment's sums
+            assert np.array_equal(alone.view(np.int64), want[0].view(np.int64))
 
 
 def _check(p, acts, s, **kw) -> pd.DataFrame:
@@ -216,3 +220,59 @@ def test_rows_memo_keeps_one_gather_per_rows_array():
     assert len(made) == 1
     memo("x", rows.copy(), make)
     assert len(made) == 2
+
+
+def _joined_reference(actions: pd.DataFrame, geometry: pd.DataFrame) -> pd.DataFrame:
+    """The join as it was: every action row merged, then the rows without N* or M* dropped."""
+    df = actions.merge(geometry, on=["storey", "pier_id"], how="left")
+    return df[df.n.notna() & df.m.notna()].reset_index(drop=True)
+
+
+def test_join_by_first_rows_equals_the_merge():
+    """The geometry joined on each storey x pier's first row and spread by position: the same
+    table (values, dtypes, index) as the merge of every row, and `per_pier`'s groups; also
+    where a pier has no geometry row (NaN), a pier is listed twice in the geometry, a column
+    is on both sides, or no row is left."""
+    p = _piers()
+    geo = p[axial._geometry_columns(p, False)]
+    acts = _actions(p)
+    cases = [(acts, geo)]
+    cases.append((acts.assign(pier_id=acts.pier_id.where(acts.index % 13 != 0, "nowhere")), geo))
+    cases.append((acts, pd.concat([geo, geo.iloc[[5]]], ignore_index=True)))
+    cases.append((acts.assign(Lw=1.0), geo))
+    cases.append((acts.assign(n=np.nan), geo))
+    for a, g in cases:
+        df, first, of = axial._joined(a, g)
+        want = _joined_reference(a, g)
+        pd.testing.assert_frame_equal(df, want, check_exact=True)
+        if len(want):
+            f2, o2 = per_pier(want)
+            assert np.array_equal(first, f2) and np.array_equal(of, o2)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_text_columns_equal_the_strings_per_row(standard):
+    """The status, sense, governing and clause columns taken from their few strings by code:
+    the strings (and column type) the per-row expressions gave."""
+    p, s = _piers(), Settings(standard=standard)
+    df = check_pier_axial(p, _actions(p), s, text=False)
+    std = get_standard(standard)
+    sym = std.symbols
+    util, util_s = df.util.to_numpy(), df.util_s.to_numpy()
+    want = {
+        "status": np.where(util <= 1.0, "pass", "FAIL"),
+        "status_s": np.where(df.phi_nu_s.notna(), np.where(util_s <= 1.0, "pass", "FAIL"), "n/a"),
+        "clause": np.select(
+            [df.governs == "tension side", df.governs.isin(["near squash", "axial upper limit"])],
+            [sym["clause_tension"], sym["clause_squash"]],
+            sym["clause_curve"],
+        ),
+    }
+    for col, w in want.items():
+        pd.testing.assert_series_equal(df[col], pd.Series(w, name=col), check_exact=True)
+    asym = axial.asymmetric(df)
+    assert set(df.compressed[~asym]) == {"either"} and set(df.compressed[asym]) == {"start", "end"}
+    assert set(df.governs) <= set(axial.RAY_TEXT.values()) and df.governs.dtype == df.status.dtype
+    keys = pd.MultiIndex.from_frame(df[["storey", "pier_id"]])
+    texts = bars.describe(p.set_index(["storey", "pier_id"]).loc[keys].reset_index(), std.bar_name)
+    assert df.bars.tolist() == texts

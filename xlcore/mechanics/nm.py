@@ -195,7 +195,7 @@ _P1_0 = 0.0 * (0.0 - 1)
 _P2_0 = (0.0 - 1) * 0.0 * (2 * 0.0 - 1)
 
 
-def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def _forces_even(sec: EvenRect, dn: np.ndarray, moment: bool = True) -> tuple[np.ndarray, np.ndarray | None]:
     """`forces` for evenly spaced bars: the bars fall in three strain zones (yielded in
     compression, elastic, yielded in tension), each an arithmetic series of depths.
 
@@ -203,7 +203,8 @@ def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]
     term for term, with each bound's series terms j (j - 1) and (j - 1) j (2 j - 1) worked out
     once (not once per range it bounds), the sums of squares only where read (the elastic
     range) and the section's own terms once (`_even_consts`): the same numbers to the last
-    bit (tests/test_axial_speed2.py holds it against `_even_sums`)."""
+    bit (tests/test_axial_speed2.py holds it against `_even_sums`). Without `moment` N alone
+    (M None): what the solve for N = N* reads, in less than half the arithmetic."""
     c = _even_consts(sec)
     depth = np.minimum(sec.gamma * dn, sec.D)
     conc_stress = c["conc_stress"]
@@ -219,61 +220,68 @@ def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]
     ja = upto(dn * c["ya"])  # d <= this: yielded in compression
     jb = upto(dn * c["yb"])  # d >= this: yielded in tension
     p1a, p1b = ja * (ja - 1), jb * (jb - 1)
-    # [0, ja): count ja (ja - 0 is ja to the bit), sum of depths
+    # [0, ja): count ja (ja - 0 is ja to the bit); [ja, jb): count and sum of depths; [jb, n)
     c0 = ja
-    c1 = c0 * e + s * ((p1a - _P1_0) / 2)
-    # [ja, jb): count, sum of depths and of squared depths
     e0 = jb - ja
     sj = (p1b - p1a) / 2
-    sjj = ((jb - 1) * jb * (2 * jb - 1) - (ja - 1) * ja * (2 * ja - 1)) / 6
     e0e = e0 * e
     e1 = e0e + s * sj
-    e2 = e0e * e + c["e2s"] * sj + c["ss"] * sjj
-    # [jb, n)
     t0 = n - jb
-    t1 = t0 * e + s * ((c["p1n"] - p1b) / 2)
-    h = c["h"]
     k = sec.Es * sec.eps_cu / dn
     fy, area = sec.fsy, sec.bar_area
     ns = area * (fy * (c0 - t0) + k * (dn * e0 - e1))
-    ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
+    ms = None
+    if moment:  # the sums of depths of the outer ranges, and of squared depths of the elastic one
+        c1 = c0 * e + s * ((p1a - _P1_0) / 2)
+        sjj = ((jb - 1) * jb * (2 * jb - 1) - (ja - 1) * ja * (2 * ja - 1)) / 6
+        e2 = e0e * e + c["e2s"] * sj + c["ss"] * sjj
+        t1 = t0 * e + s * ((c["p1n"] - p1b) / 2)
+        h = c["h"]
+        ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
     if sec.deduct:
         b0 = upto(depth, inclusive=False)
-        b1 = b0 * e + s * ((b0 * (b0 - 1) - _P1_0) / 2)
         ns = ns - conc_stress * area * b0
-        ms = ms - conc_stress * area * (h * b0 - b1)
+        if moment:
+            b1 = b0 * e + s * ((b0 * (b0 - 1) - _P1_0) / 2)
+            ms = ms - conc_stress * area * (h * b0 - b1)
     if sec.zd is not None and sec.zd.shape[1]:
         ns, ms = _add_zone_forces(sec, dn, depth, conc_stress, ns, ms)
-    return cc + ns, cc * (h - depth / 2) + ms
+    return cc + ns, (cc * (h - depth / 2) + ms if moment else None)
 
 
-def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.ndarray, np.ndarray]:
+def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.ndarray, np.ndarray | None]:
     """ns, ms plus the forces of the discrete bars, worked out only on the rows that have any
     (the advice search pads every variant to the most zone bars of any: at the M tower 7 rows
     in 10 carry none). A row without bars would add sums of zeros, so the result is the same
-    to the last bit; each row's sum runs over the same columns as before."""
+    to the last bit; each row's sum runs over the same columns as before. `ms` None: N alone."""
     has = sec.__dict__.get(_ZMASK)
     if has is None:
         has = (sec.zA > 0).any(axis=1)
         object.__setattr__(sec, _ZMASK, has)
+    moment = ms is not None
     if has.all():
-        zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress)
-        return ns + zn, ms + zm
+        zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress, moment=moment)
+        return ns + zn, (ms + zm if moment else None)
     rows = np.flatnonzero(has)
     if rows.size == 0:
-        return ns + 0.0, ms + 0.0
+        return ns + 0.0, (ms + 0.0 if moment else None)
     zn, zm = _bar_forces(
-        sec, sec.zd[rows], sec.zA[rows], dn[rows], depth[rows], conc_stress[rows], sec.fsy[rows], sec.D[rows]
-    )
-    ns, ms = ns.copy(), ms.copy()
+        sec, sec.zd[rows], sec.zA[rows], dn[rows], depth[rows], conc_stress[rows], sec.fsy[rows], sec.D[rows],
+        moment=moment,
+    )  # fmt: skip
+    ns = ns.copy()
     ns[rows] += zn
-    ms[rows] += zm
+    if moment:
+        ms = ms.copy()
+        ms[rows] += zm
     return ns, ms
 
 
-def _bar_forces(sec, d, A, dn, depth, conc_stress, fsy=None, D=None) -> tuple[np.ndarray, np.ndarray]:
+def _bar_forces(
+    sec, d, A, dn, depth, conc_stress, fsy=None, D=None, moment: bool = True
+) -> tuple[np.ndarray, np.ndarray | None]:
     """Axial force and moment about mid-depth of bars given one by one (depths d, areas A);
-    `fsy` and `D` for rows other than all of `sec`'s."""
+    `fsy` and `D` for rows other than all of `sec`'s; without `moment` the force alone."""
     fsy = sec.fsy if fsy is None else fsy
     D = sec.D if D is None else D
     strain = sec.eps_cu * (dn[:, None] - d) / dn[:, None]
@@ -281,7 +289,7 @@ def _bar_forces(sec, d, A, dn, depth, conc_stress, fsy=None, D=None) -> tuple[np
     if sec.deduct:
         stress = stress - np.where(d < depth[:, None], conc_stress[:, None], 0.0)
     fs = stress * A
-    return fs.sum(axis=1), (fs * (D[:, None] / 2 - d)).sum(axis=1)
+    return fs.sum(axis=1), ((fs * (D[:, None] / 2 - d)).sum(axis=1) if moment else None)
 
 
 def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
@@ -294,6 +302,13 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     cc = conc_stress * depth * sec.b
     ns, ms = _bar_forces(sec, sec.d, sec.A, dn, depth, conc_stress)
     return cc + ns, cc * (sec.D / 2 - depth / 2) + ms
+
+
+def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
+    """N of `forces` alone (the same numbers; evenly spaced bars without the moment's sums)."""
+    if isinstance(sec, EvenRect):
+        return _forces_even(sec, np.asarray(dn, dtype=float), moment=False)[0]
+    return forces(sec, dn)[0]
 
 
 def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None) -> np.ndarray:
@@ -318,7 +333,7 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
 
     def g(x: np.ndarray, rows) -> np.ndarray:
         part = sec if rows is None else memo("sec", rows, lambda: sec.take(rows))
-        n, _ = forces(part, x)
+        n = axial_force(part, x)
         aim = target if rows is None else memo("target", rows, lambda: target[rows])
         return (n * scale(n, x, rows) if scale else n) - aim
 
