@@ -276,3 +276,21 @@ def test_text_columns_equal_the_strings_per_row(standard):
     keys = pd.MultiIndex.from_frame(df[["storey", "pier_id"]])
     texts = bars.describe(p.set_index(["storey", "pier_id"]).loc[keys].reset_index(), std.bar_name)
     assert df.bars.tolist() == texts
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_bar_words_with_names_once_each_equal_a_name_per_call(monkeypatch, standard):
+    """`bars.describe` naming each distinct bar once: the same words as naming on every call,
+    for piers with and without end zones (ties named too), and really fewer calls."""
+    p, std = _piers(), get_standard(standard)
+    calls = []
+
+    def counted(*args):
+        calls.append(args)
+        return std.bar_name(*args)
+
+    fast = bars.describe(p, counted)
+    assert 0 < len(calls) < len(p)
+    monkeypatch.setattr(bars, "_once_each", lambda name: name)
+    assert fast == bars.describe(p, std.bar_name)
+    assert any("ties" in t for t in fast) and any("no end zones" in t for t in fast)

@@ -71,9 +71,9 @@ def _joined(actions: pd.DataFrame, geometry: pd.DataFrame) -> tuple[pd.DataFrame
     extra = [c for c in geometry.columns if c not in KEYS]
     if not acts.empty and not any(c in acts for c in extra):
         first, of = per_pier(acts)
-        geo = acts[KEYS].iloc[first].merge(geometry, on=KEYS, how="left")
-        if len(geo) == len(first):
-            spread = geo[extra].take(of)
+        at = _geometry_rows(acts[KEYS].iloc[first], geometry[KEYS])
+        if at is not None:
+            spread = geometry[extra].take(at[of])
             spread.index = acts.index
             return pd.concat([acts, spread], axis=1), first, of
     df = actions.merge(geometry, on=KEYS, how="left")
@@ -81,6 +81,26 @@ def _joined(actions: pd.DataFrame, geometry: pd.DataFrame) -> tuple[pd.DataFrame
     if df.empty:
         return df, np.zeros(0, dtype=np.intp), np.zeros(0, dtype=np.intp)
     return df, *per_pier(df)
+
+
+def _geometry_rows(want: pd.DataFrame, have: pd.DataFrame) -> np.ndarray | None:
+    """For each (storey, pier_id) row of `want`, the position of the one row of `have` with
+    that key; None where a key of `want` is missing from `have` or `have` lists a key twice
+    (the caller's merge then says what happens). Keys as integer codes of both columns
+    factorised together: pandas' equality of values, as a merge on the columns."""
+    codes = []
+    for k in KEYS:
+        both, _ = pd.factorize(pd.concat([have[k], want[k]], ignore_index=True))
+        codes.append(both)
+    width = int(max(codes[1].max(initial=0), 0)) + 1
+    if (codes[0] < 0).any() or (codes[1] < 0).any():  # a missing key (NaN): the merge's rules
+        return None
+    key = codes[0].astype(np.int64) * width + codes[1]
+    index = pd.Index(key[: len(have)])
+    if not index.is_unique:
+        return None
+    at = index.get_indexer(key[len(have) :])
+    return None if (at < 0).any() else at
 
 
 def _geometry_columns(piers: pd.DataFrame, util_only: bool) -> list[str]:

@@ -409,7 +409,7 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
     active = np.flatnonzero((glo < 0) & (ghi > 0) & (hi - lo > tol_x))
     rows = None if active.size == D.size else active
     a, b, ga, gb, tg, tx = (v if rows is None else v[rows] for v in (lo, hi, glo, ghi, tol_g, tol_x))
-    last = np.zeros(a.shape, dtype=np.int8)
+    below = None  # each row's side of its last step (every row packed has taken as many)
     for it in range(iterations):
         if a.size == 0:
             break
@@ -419,16 +419,18 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
         else:
             with np.errstate(divide="ignore", invalid="ignore"):
                 x = (a * gb - b * ga) / (gb - ga)
-            bad = ~np.isfinite(x) | (x <= a) | (x >= b)
-            x = np.where(bad, mid, x)
+            # inside the bracket (false for NaN and the infinities): not finite, or <= a, or >= b
+            x = np.where((x > a) & (x < b), x, mid)
         gx = g(x, rows)
-        below = gx < 0
         # Illinois: an end kept twice in a row has its g halved, so the next point moves off it
-        ga_next = np.where(below, gx, np.where(last == -1, 0.5 * ga, ga))
-        gb_next = np.where(below, np.where(last == 1, 0.5 * gb, gb), gx)
+        prev, below = below, gx < 0
+        if prev is None:
+            ga_next, gb_next = np.where(below, gx, ga), np.where(below, gb, gx)
+        else:
+            ga_next = np.where(below, gx, np.where(prev, ga, 0.5 * ga))
+            gb_next = np.where(below, np.where(prev, 0.5 * gb, gb), gx)
         a, b = np.where(below, x, a), np.where(below, b, x)
         ga, gb = ga_next, gb_next
-        last = np.where(below, 1, -1).astype(np.int8)
         done = (np.abs(gx) <= tg) | (b - a <= tx)
         if not done.any():
             continue
@@ -436,7 +438,7 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
         out[index[done]] = x[done]
         keep = ~done
         rows = index[keep]
-        a, b, ga, gb, tg, tx, last = (v[keep] for v in (a, b, ga, gb, tg, tx, last))
+        a, b, ga, gb, tg, tx, below = (v[keep] for v in (a, b, ga, gb, tg, tx, below))
     if a.size:
         index = active if rows is None else rows
         out[index] = 0.5 * (a + b)
