@@ -294,3 +294,33 @@ def test_bar_words_with_names_once_each_equal_a_name_per_call(monkeypatch, stand
     monkeypatch.setattr(bars, "_once_each", lambda name: name)
     assert fast == bars.describe(p, std.bar_name)
     assert any("ties" in t for t in fast) and any("no end zones" in t for t in fast)
+
+
+def test_solver_on_edge_cases_equals_the_gather_every_step_solver():
+    """The packed solver against the round-3 one on rows made to reach every branch: a false
+    position that lands on the bracket's end (g tiny at lo), one that is NaN (g infinite at
+    hi), a step function (the Illinois halving), roots at an end, outside the bracket, and
+    rows stopping at different steps."""
+    rng = np.random.default_rng(3)
+    k = 420
+    root = rng.uniform(0.05, 0.95, k)
+    kind = np.arange(k) % 7
+    lo, hi = np.zeros(k), np.ones(k)
+    lo[kind == 3] = 0.01  # g tiny at lo: the false position is lo itself
+    lo[kind == 4] = root[kind == 4]  # the root at the lower end
+    hi[kind == 5] = 0.5 * root[kind == 5]  # the root beyond the bracket
+
+    def g_of(x, rows):
+        r, kd = (root, kind) if rows is None else (root[rows], kind[rows])
+        with np.errstate(over="ignore"):
+            out = np.where(kd == 0, (x - r) ** 3, x - r)
+            out = np.where(kd == 1, np.where(x > r, 1e300 * 1e10, -1e-300), out)  # inf above, tiny below
+            out = np.where(kd == 2, np.sign(x - r) * (1 + x), out)  # a step: regula falsi stalls
+            out = np.where(kd == 3, np.where(x < r, -1e-300, 1e6 * (x - r)), out)
+            out = np.where(kd == 6, np.where(x > r, 1e-300, 1e6 * (x - r)), out)  # at hi: hi itself
+        return out
+
+    for it in (3, 8, 60):
+        want = _illinois_reference(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
+        got = nm._illinois(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
+        assert np.array_equal(got.view(np.int64), want.view(np.int64))
