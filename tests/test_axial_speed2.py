@@ -229,25 +229,28 @@ def _joined_reference(actions: pd.DataFrame, geometry: pd.DataFrame) -> pd.DataF
 
 
 def test_join_by_first_rows_equals_the_merge():
-    """The geometry joined on each storey x pier's first row and spread by position: the same
-    table (values, dtypes, index) as the merge of every row, and `per_pier`'s groups; also
-    where a pier has no geometry row (NaN), a pier is listed twice in the geometry, a column
-    is on both sides, or no row is left."""
+    """The geometry looked up per storey x pier and spread by position: the same table (values,
+    dtypes, index) as the merge of every row, `per_pier`'s groups, and each group's geometry
+    as its first row's; also where a pier has no geometry row (NaN), a pier is listed twice in
+    the geometry, a column is on both sides, or no row is left."""
     p = _piers()
-    geo = p[axial._geometry_columns(p, False)]
+    cols = axial._geometry_columns(p, False)
     acts = _actions(p)
-    cases = [(acts, geo)]
-    cases.append((acts.assign(pier_id=acts.pier_id.where(acts.index % 13 != 0, "nowhere")), geo))
-    cases.append((acts, pd.concat([geo, geo.iloc[[5]]], ignore_index=True)))
-    cases.append((acts.assign(Lw=1.0), geo))
-    cases.append((acts.assign(n=np.nan), geo))
+    cases = [(acts, p)]
+    cases.append((acts.assign(pier_id=acts.pier_id.where(acts.index % 13 != 0, "nowhere")), p))
+    cases.append((acts, pd.concat([p, p.iloc[[5]]], ignore_index=True)))
+    cases.append((acts.assign(Lw=1.0), p))
+    cases.append((acts.assign(n=np.nan), p))
+    extra = [c for c in cols if c not in ("storey", "pier_id")]
     for a, g in cases:
-        df, first, of = axial._joined(a, g)
-        want = _joined_reference(a, g)
+        df, first, of, per = axial._joined(a, g, cols)
+        want = _joined_reference(a, g[cols])
         pd.testing.assert_frame_equal(df, want, check_exact=True)
         if len(want):
             f2, o2 = per_pier(want)
             assert np.array_equal(first, f2) and np.array_equal(of, o2)
+            own = want.iloc[first][[c for c in extra if c in want]].reset_index(drop=True)
+            pd.testing.assert_frame_equal(per, own, check_exact=True)
 
 
 @pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])

@@ -59,47 +59,50 @@ def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover, zones: pd.DataFrame | N
 KEYS = ["storey", "pier_id"]
 
 
-def _joined(actions: pd.DataFrame, geometry: pd.DataFrame) -> tuple[pd.DataFrame, np.ndarray, np.ndarray]:
-    """The action rows with N* and M*, each with its pier's `geometry` columns (a left join on
-    storey and pier), and `per_pier`'s groups of them (first row of each, each row's group).
+def _joined(
+    actions: pd.DataFrame, piers: pd.DataFrame, columns: list[str]
+) -> tuple[pd.DataFrame, np.ndarray, np.ndarray, pd.DataFrame]:
+    """The action rows with N* and M*, each with its pier's geometry `columns` of `piers` (a
+    left join on storey and pier), `per_pier`'s groups of them (first row of each, each row's
+    group), and the geometry of each group (one row per group, what the sections are built from).
 
-    The join is made on the first row of each storey x pier (a few thousand rows) and spread to
-    the rest by position: the same table as joining every row (0.03 s at the L tower's 360 000
-    rows; tests/test_axial_speed2.py). Where the geometry holds a storey x pier twice (the join
-    would repeat rows), or a column name on both sides, or there are no rows: the join itself."""
+    The pier of each group is looked up once (a few thousand keys, `_geometry_rows`) and its
+    geometry spread to the rows by position: the same table as merging every row (0.03 s at
+    the L tower's 360 000 rows; tests/test_axial_speed2.py). Where a pier is missing or listed
+    twice in `piers`, a column name is on both sides, or no row is left: the merge itself."""
     acts = actions[(actions.n.notna() & actions.m.notna()).to_numpy()].reset_index(drop=True)
-    extra = [c for c in geometry.columns if c not in KEYS]
+    extra = [c for c in columns if c not in KEYS]
     if not acts.empty and not any(c in acts for c in extra):
         first, of = per_pier(acts)
-        at = _geometry_rows(acts[KEYS].iloc[first], geometry[KEYS])
+        at = _geometry_rows([acts[k].to_numpy()[first] for k in KEYS], [piers[k].to_numpy() for k in KEYS])
         if at is not None:
-            spread = geometry[extra].take(at[of])
+            per = piers[extra].take(at).reset_index(drop=True)
+            spread = per.take(of)
             spread.index = acts.index
-            return pd.concat([acts, spread], axis=1), first, of
-    df = actions.merge(geometry, on=KEYS, how="left")
+            return pd.concat([acts, spread], axis=1), first, of, per
+    df = actions.merge(piers[columns], on=KEYS, how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     if df.empty:
-        return df, np.zeros(0, dtype=np.intp), np.zeros(0, dtype=np.intp)
-    return df, *per_pier(df)
+        none = np.zeros(0, dtype=np.intp)
+        return df, none, none, df
+    first, of = per_pier(df)
+    return df, first, of, df.iloc[first][[c for c in extra if c in df]].reset_index(drop=True)
 
 
-def _geometry_rows(want: pd.DataFrame, have: pd.DataFrame) -> np.ndarray | None:
-    """For each (storey, pier_id) row of `want`, the position of the one row of `have` with
-    that key; None where a key of `want` is missing from `have` or `have` lists a key twice
-    (the caller's merge then says what happens). Keys as integer codes of both columns
+def _geometry_rows(want: list[np.ndarray], have: list[np.ndarray]) -> np.ndarray | None:
+    """For each key (storey, pier_id) in `want` (two arrays), the position of the one key of
+    `have` equal to it; None where a key of `want` is missing from `have` or `have` lists a key
+    twice (the caller's merge then says what happens). Keys as integer codes of both columns
     factorised together: pandas' equality of values, as a merge on the columns."""
-    codes = []
-    for k in KEYS:
-        both, _ = pd.factorize(pd.concat([have[k], want[k]], ignore_index=True))
-        codes.append(both)
-    width = int(max(codes[1].max(initial=0), 0)) + 1
+    codes = [pd.factorize(np.concatenate([h, w]))[0] for h, w in zip(have, want, strict=True)]
     if (codes[0] < 0).any() or (codes[1] < 0).any():  # a missing key (NaN): the merge's rules
         return None
-    key = codes[0].astype(np.int64) * width + codes[1]
-    index = pd.Index(key[: len(have)])
+    key = codes[0].astype(np.int64) * (int(codes[1].max(initial=0)) + 1) + codes[1]
+    n = len(have[0])
+    index = pd.Index(key[:n])
     if not index.is_unique:
         return None
-    at = index.get_indexer(key[len(have) :])
+    at = index.get_indexer(key[n:])
     return None if (at < 0).any() else at
 
 
@@ -292,14 +295,15 @@ def _phi_from(std: Standard, phi0, sec, d0, nub, nuot, kuo):
 
 
 def _oriented(
-    df: pd.DataFrame, first: np.ndarray, std: Standard
+    df: pd.DataFrame, per: pd.DataFrame, std: Standard
 ) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
-    """Each distinct pier's section twice: compressed at its start (rows 0..k-1) and at its end
-    (rows k..2k-1); which piers are asymmetric; and for each row whether M* compresses the end
-    (M* >= 0, the sign convention of the actions sheets)."""
-    base = rect_sections(df.iloc[first], std)
+    """Each distinct pier's section (`per`: one geometry row each) twice: compressed at its
+    start (rows 0..k-1) and at its end (rows k..2k-1); which piers are asymmetric; and for each
+    row of `df` whether M* compresses the end (M* >= 0, the sign convention of the actions
+    sheets)."""
+    base = rect_sections(per, std)
     sec = nm.concat(base, base.flipped())
-    return sec, asymmetric(df.iloc[first]), df.m.to_numpy(float) >= 0
+    return sec, asymmetric(per), df.m.to_numpy(float) >= 0
 
 
 RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE, RAY_CAP = 1, 2, 3, 0, 4
@@ -411,11 +415,11 @@ def check_pier_axial(
     the simplified method's, the same numbers, without the fixed-N* ratio and its solve
     (`interaction(at_n=False)`), nor the other columns of the N-M check."""
     std = std or get_standard(settings.standard)
-    df, first, of = _joined(actions, piers[_geometry_columns(piers, util_only)])
+    df, first, of, per = _joined(actions, piers, _geometry_columns(piers, util_only))
     phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
         return df
-    sec, asym, end_compressed = _oriented(df, first, std)
+    sec, asym, end_compressed = _oriented(df, per, std)
     n_star = df.n.to_numpy(float) * 1e3
     m_raw = df.m.to_numpy(float) * 1e6
     m_design = std.design_moment(m_raw, n_star, df.Lw.to_numpy(float))
@@ -473,7 +477,7 @@ def check_pier_axial(
     )
     if not working:
         return _simplified(df, settings, of, working, std)
-    df["bars"] = text_column(of, bars.describe(df.iloc[first], std.bar_name))
+    df["bars"] = text_column(of, bars.describe(per, std.bar_name))
     if not text:  # every column but the working text (made later for the rows written)
         return _simplified(df, settings, of, working=False, std=std)
     ray_state = SectionState(
