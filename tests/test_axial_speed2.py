@@ -327,3 +327,19 @@ def test_solver_on_edge_cases_equals_the_gather_every_step_solver():
         want = _illinois_reference(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
         got = nm._illinois(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
         assert np.array_equal(got.view(np.int64), want.view(np.int64))
+
+
+def test_used_sections_by_counting_equal_unique():
+    """The sections read and each row's place among them, by counting: `np.unique`'s answer
+    (values and places) for non-negative integers, with gaps and repeats; its own for others."""
+    rng = np.random.default_rng(9)
+    for of in (
+        rng.integers(0, 50, 300) * 3,
+        np.array([4]),
+        np.array([0, 0]),
+        np.array([2, -1, 2]),
+        np.array([1.0, 0.0]),
+    ):
+        used, place = axial._used(of)
+        want, inverse = np.unique(of, return_inverse=True)
+        assert np.array_equal(used, want) and np.array_equal(place, inverse.ravel())
