@@ -241,6 +241,7 @@ def test_join_by_first_rows_equals_the_merge():
     cases.append((acts, pd.concat([p, p.iloc[[5]]], ignore_index=True)))
     cases.append((acts.assign(Lw=1.0), p))
     cases.append((acts.assign(n=np.nan), p))
+    cases.append((acts.dropna(subset=["n", "m"]).iloc[::-1], p))  # every row kept, index not 0..n-1
     extra = [c for c in cols if c not in ("storey", "pier_id")]
     for a, g in cases:
         df, first, of, per = axial._joined(a, g, cols)

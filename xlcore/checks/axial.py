@@ -70,7 +70,8 @@ def _joined(
     geometry spread to the rows by position: the same table as merging every row (0.03 s at
     the L tower's 360 000 rows; tests/test_axial_speed2.py). Where a pier is missing or listed
     twice in `piers`, a column name is on both sides, or no row is left: the merge itself."""
-    acts = actions[(actions.n.notna() & actions.m.notna()).to_numpy()].reset_index(drop=True)
+    keep = pd.notna(actions["n"].to_numpy()) & pd.notna(actions["m"].to_numpy())
+    acts = (actions if keep.all() else actions[keep]).reset_index(drop=True)
     extra = [c for c in columns if c not in KEYS]
     if not acts.empty and not any(c in acts for c in extra):
         first, of = per_pier(acts)
