@@ -344,3 +344,15 @@ def test_used_sections_by_counting_equal_unique():
         used, place = axial._used(of)
         want, inverse = np.unique(of, return_inverse=True)
         assert np.array_equal(used, want) and np.array_equal(place, inverse.ravel())
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_util_only_equals_the_full_check(standard):
+    """The advice search's call (`util_only`: no solve at N*, the ray's rows taking their
+    sections from one per pier) gives the full check's util, util_s and hwe to the bit."""
+    p, s = _piers(), Settings(standard=standard)
+    acts = _actions(p)
+    full = check_pier_axial(p, acts, s, text=False)
+    quick = check_pier_axial(p, acts, s, working=False, util_only=True)
+    for c in ("util", "util_s", "hwe"):
+        assert np.array_equal(quick[c].to_numpy().view(np.int64), full[c].to_numpy().view(np.int64)), c

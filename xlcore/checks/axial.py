@@ -216,17 +216,19 @@ def interaction(
     # phi at the section's own points, once per section (phi is the standard's per-row formula
     # of the point, so the same numbers as worked out on every row); n_lo, phi_lo: the point at
     # dn0, where both solves below start (their first evaluation, per section)
-    phi_sec = _phi_from(std, phi0, sec, d0, nub, nuot, kuo)
+    phi_sec = _phi_from(std, phi0, sec, d0, sec.fsy, nub, nuot, kuo)
     phi_d = phi_sec(nd, D)
     phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
     phi_lo = phi_sec(n_lo, dn0)
-    if of is not None:  # from here on, one row per N*
-        sec = sec.take(of)
-        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo = (
-            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo)
-        )
     fsy = sec.fsy
-    phi_at = _phi_from(std, phi0, sec, d0, nub, nuot, kuo)  # (n, dn, rows): phi at nominal points
+    by_section = of is not None and not at_n  # the ray's rows take their sections from here
+    if of is not None:  # from here on, one row per N*
+        if at_n:  # the solve at N* runs on every row
+            sec = sec.take(of)
+        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
+            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
+        )
+    phi_at = _phi_from(std, phi0, sec, d0, fsy, nub, nuot, kuo)  # (n, dn, rows): phi at nominal points
     # regular region: phi N = N*, N between 0 and decompression
     if at_n:
         target = np.clip(n_star, 0.0, phi_d * nd)
@@ -272,16 +274,16 @@ def interaction(
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo))
+        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of if by_section else None)
     return out
 
 
-def _phi_from(std: Standard, phi0, sec, d0, nub, nuot, kuo):
-    """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the sections'
-    rows `rows` (None: all); what it reads of the section gathered once per `rows` array (the
-    solvers pass one array until their active rows shrink)."""
+def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
+    """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the rows
+    `rows` (None: all) of the arrays given (eps_cu and Es from `sec`); what it reads gathered
+    once per `rows` array (the solvers pass one array until their active rows shrink)."""
     memo = nm.RowsMemo()
-    own = (d0, sec.fsy, nub, nuot, kuo)
+    own = (d0, fsy, nub, nuot, kuo)
 
     def phi_at(n, dn, rows=None):
         picked = own if rows is None else memo("own", rows, lambda: [v[rows] for v in own])
@@ -330,7 +332,9 @@ RAY_TEXT = {
 }
 
 
-def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None) -> dict[str, np.ndarray]:
+def radial(
+    sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None, of: np.ndarray | None = None
+) -> dict[str, np.ndarray]:
     """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
     diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
     compression alike (docs/engineering-basis.md, "Axial + bending utilisation").
@@ -342,7 +346,8 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None) -
     line's end (ACI 318 phi 0.80 Po: lambda is then at least N*/top, the diagram being the
     uncut one intersected with N <= top). `r` is `interaction`'s per-row dict, `sec` one section
     per row, `phi_at(N, dn, rows)` the standard's phi, `at_dn0` (where given) Nu and phi at
-    each row's dn0 (where the solve starts: its first evaluation without forces); N, N mm."""
+    each row's dn0 (where the solve starts: its first evaluation without forces); with `of`,
+    `sec` holds each section once and `of` gives each row's (no per-row copy); N, N mm."""
     n = np.asarray(n_star, dtype=float)
     m = np.abs(np.asarray(m_star, dtype=float))
     phi_mo = r["phi_b"] * np.abs(r["m0"])
@@ -361,7 +366,7 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None) -
     phi_ray = np.full(n.shape, np.nan)
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
-        part = sec.take(rows)
+        part = sec.take(rows if of is None else of[rows])
         sub = nm.RowsMemo()  # one array of whole-table rows per array of the solver's rows
 
         def phi_of(v, x, k):
