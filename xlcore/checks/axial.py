@@ -17,7 +17,7 @@ from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.mechanics import bars, nm
 from xlcore.mechanics.radial import ray_segment_utilisation, tension_side_utilisation
 from xlcore.model import Settings
-from xlcore.results import FAIL, NOT_APPLICABLE, PASS
+from xlcore.results import FAIL, NOT_APPLICABLE, PASS, status_column, text_column
 
 DEFAULT_STANDARD = "AS 3600:2018"
 """The standard of callers that pass none and have no Project settings (the report's figures)."""
@@ -54,6 +54,57 @@ def pier_bars(Lw, tw, v_dia, v_spacing, v_layers, cover, zones: pd.DataFrame | N
     if zones is not None:
         df = pd.concat([df, zones.reset_index(drop=True)[_zone_cols(zones)]], axis=1)
     return bars.layout(df).all_bars()
+
+
+KEYS = ["storey", "pier_id"]
+
+
+def _joined(
+    actions: pd.DataFrame, piers: pd.DataFrame, columns: list[str]
+) -> tuple[pd.DataFrame, np.ndarray, np.ndarray, pd.DataFrame]:
+    """The action rows with N* and M*, each with its pier's geometry `columns` of `piers` (a
+    left join on storey and pier), `per_pier`'s groups of them (first row of each, each row's
+    group), and the geometry of each group (one row per group, what the sections are built from).
+
+    The pier of each group is looked up once (a few thousand keys, `_geometry_rows`) and its
+    geometry spread to the rows by position: the same table as merging every row (0.03 s at
+    the L tower's 360 000 rows; tests/test_axial_speed2.py). Where a pier is missing or listed
+    twice in `piers`, a column name is on both sides, or no row is left: the merge itself."""
+    keep = pd.notna(actions["n"].to_numpy()) & pd.notna(actions["m"].to_numpy())
+    acts = (actions if keep.all() else actions[keep]).reset_index(drop=True)
+    extra = [c for c in columns if c not in KEYS]
+    if not acts.empty and not any(c in acts for c in extra):
+        first, of = per_pier(acts)
+        at = _geometry_rows([acts[k].to_numpy()[first] for k in KEYS], [piers[k].to_numpy() for k in KEYS])
+        if at is not None:
+            per = piers[extra].take(at).reset_index(drop=True)
+            spread = per.take(of)
+            spread.index = acts.index
+            return pd.concat([acts, spread], axis=1), first, of, per
+    df = actions.merge(piers[columns], on=KEYS, how="left")
+    df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
+    if df.empty:
+        none = np.zeros(0, dtype=np.intp)
+        return df, none, none, df
+    first, of = per_pier(df)
+    return df, first, of, df.iloc[first][[c for c in extra if c in df]].reset_index(drop=True)
+
+
+def _geometry_rows(want: list[np.ndarray], have: list[np.ndarray]) -> np.ndarray | None:
+    """For each key (storey, pier_id) in `want` (two arrays), the position of the one key of
+    `have` equal to it; None where a key of `want` is missing from `have` or `have` lists a key
+    twice (the caller's merge then says what happens). Keys as integer codes of both columns
+    factorised together: pandas' equality of values, as a merge on the columns."""
+    codes = [pd.factorize(np.concatenate([h, w]))[0] for h, w in zip(have, want, strict=True)]
+    if (codes[0] < 0).any() or (codes[1] < 0).any():  # a missing key (NaN): the merge's rules
+        return None
+    key = codes[0].astype(np.int64) * (int(codes[1].max(initial=0)) + 1) + codes[1]
+    n = len(have[0])
+    index = pd.Index(key[:n])
+    if not index.is_unique:
+        return None
+    at = index.get_indexer(key[n:])
+    return None if (at < 0).any() else at
 
 
 def _geometry_columns(piers: pd.DataFrame, util_only: bool) -> list[str]:
@@ -147,8 +198,7 @@ def interaction(
     phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
     if of is not None:  # the sections no N* reads are not worked out (the search reads half)
-        used, of = np.unique(of, return_inverse=True)
-        of = of.ravel()
+        used, of = _used(np.asarray(of))
         if len(used) < sec.D.size:
             sec = sec.take(used)
     D = sec.D
@@ -160,32 +210,30 @@ def interaction(
     dn_b = d0 * sec.eps_cu / (sec.eps_cu + sec.fsy / sec.Es)
     nub, _ = nm.forces(sec, dn_b)
     dn0 = nm.solve_dn(sec, 0.0, 1e-6 * D, D)
-    _, m0 = nm.forces(sec, dn0)
+    n_lo, m0 = nm.forces(sec, dn0)
     kuo = dn0 / d0
     nd, md = nm.forces(sec, D)
-    if of is not None:  # from here on, one row per N*
-        sec = sec.take(of)
-        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0 = (
-            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0)
-        )
+    # phi at the section's own points, once per section (phi is the standard's per-row formula
+    # of the point, so the same numbers as worked out on every row); n_lo, phi_lo: the point at
+    # dn0, where both solves below start (their first evaluation, per section)
+    phi_sec = _phi_from(std, phi0, sec, d0, sec.fsy, nub, nuot, kuo)
+    phi_d = phi_sec(nd, D)
+    phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
+    phi_lo = phi_sec(n_lo, dn0)
     fsy = sec.fsy
-
-    def state(n, dn, rows=None) -> SectionState:  # what phi may depend on, at (Nu, dn)
-        pick = (lambda v: v) if rows is None else (lambda v: v[rows])
-        return SectionState(
-            nu=n, dn=dn, d0=pick(d0), fy=pick(fsy), nub=pick(nub), nuot=pick(nuot), kuo=pick(kuo),
-            eps_cu=sec.eps_cu, Es=sec.Es,
-        )  # fmt: skip
-
-    def phi_at(n, dn, rows=None):  # the standard's phi at the nominal point (n, dn)
-        return std.phi_axial_bending(state(n, dn, rows), phi0)
-
-    phi_d = phi_at(nd, D)
-    phi_b = phi_at(np.zeros(D.shape), dn0)  # pure bending
+    by_section = of is not None and not at_n  # the ray's rows take their sections from here
+    if of is not None:  # from here on, one row per N*
+        if at_n:  # the solve at N* runs on every row
+            sec = sec.take(of)
+        D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
+            v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
+        )
+    phi_at = _phi_from(std, phi0, sec, d0, fsy, nub, nuot, kuo)  # (n, dn, rows): phi at nominal points
     # regular region: phi N = N*, N between 0 and decompression
     if at_n:
         target = np.clip(n_star, 0.0, phi_d * nd)
-        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at)
+        ends = (n_lo * phi_lo - target, nd * phi_d - target)  # g at dn0 and at D, as the solver's
+        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends)
         nu, mu = nm.forces(sec, dn)
         phi = phi_at(nu, dn)
     else:  # the one per-row solve `lam` does not read (half the search's N-M work)
@@ -226,19 +274,52 @@ def interaction(
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_at)
+        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of if by_section else None)
     return out
 
 
+def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
+    """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the rows
+    `rows` (None: all) of the arrays given (eps_cu and Es from `sec`); what it reads gathered
+    once per `rows` array (the solvers pass one array until their active rows shrink)."""
+    memo = nm.RowsMemo()
+    own = (d0, fsy, nub, nuot, kuo)
+
+    def phi_at(n, dn, rows=None):
+        picked = own if rows is None else memo("own", rows, lambda: [v[rows] for v in own])
+        d0_, fy, nub_, nuot_, kuo_ = picked
+        state = SectionState(
+            nu=n, dn=dn, d0=d0_, fy=fy, nub=nub_, nuot=nuot_, kuo=kuo_, eps_cu=sec.eps_cu, Es=sec.Es
+        )
+        return std.phi_axial_bending(state, phi0)
+
+    return phi_at
+
+
+def _used(of: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`np.unique(of, return_inverse=True)` (flattened): the sections read, ascending, and each
+    row's place among them; by counting where `of` holds non-negative integers (a sort of
+    every row before: 10 ms at the L tower's 360 000)."""
+    if of.dtype.kind in "iu" and of.size and of.min() >= 0:
+        seen = np.bincount(of.ravel())
+        used = np.flatnonzero(seen)
+        place = np.zeros(seen.size, dtype=np.intp)
+        place[used] = np.arange(used.size)
+        return used, place[of.ravel()]
+    used, inverse = np.unique(of, return_inverse=True)
+    return used, inverse.ravel()
+
+
 def _oriented(
-    df: pd.DataFrame, first: np.ndarray, std: Standard
+    df: pd.DataFrame, per: pd.DataFrame, std: Standard
 ) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
-    """Each distinct pier's section twice: compressed at its start (rows 0..k-1) and at its end
-    (rows k..2k-1); which piers are asymmetric; and for each row whether M* compresses the end
-    (M* >= 0, the sign convention of the actions sheets)."""
-    base = rect_sections(df.iloc[first], std)
+    """Each distinct pier's section (`per`: one geometry row each) twice: compressed at its
+    start (rows 0..k-1) and at its end (rows k..2k-1); which piers are asymmetric; and for each
+    row of `df` whether M* compresses the end (M* >= 0, the sign convention of the actions
+    sheets)."""
+    base = rect_sections(per, std)
     sec = nm.concat(base, base.flipped())
-    return sec, asymmetric(df.iloc[first]), df.m.to_numpy(float) >= 0
+    return sec, asymmetric(per), df.m.to_numpy(float) >= 0
 
 
 RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE, RAY_CAP = 1, 2, 3, 0, 4
@@ -251,7 +332,9 @@ RAY_TEXT = {
 }
 
 
-def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, np.ndarray]:
+def radial(
+    sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None, of: np.ndarray | None = None
+) -> dict[str, np.ndarray]:
     """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
     diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
     compression alike (docs/engineering-basis.md, "Axial + bending utilisation").
@@ -262,7 +345,9 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
     (phi0 Nuo, 0); cut flat at the standard's upper limit on N* where that lies below the
     line's end (ACI 318 phi 0.80 Po: lambda is then at least N*/top, the diagram being the
     uncut one intersected with N <= top). `r` is `interaction`'s per-row dict, `sec` one section
-    per row, `phi_at(N, dn, rows)` the standard's phi; N, N mm."""
+    per row, `phi_at(N, dn, rows)` the standard's phi, `at_dn0` (where given) Nu and phi at
+    each row's dn0 (where the solve starts: its first evaluation without forces); with `of`,
+    `sec` holds each section once and `of` gives each row's (no per-row copy); N, N mm."""
     n = np.asarray(n_star, dtype=float)
     m = np.abs(np.asarray(m_star, dtype=float))
     phi_mo = r["phi_b"] * np.abs(r["m0"])
@@ -281,10 +366,21 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
     phi_ray = np.full(n.shape, np.nan)
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
-        part = sec.take(rows)
-        dn = nm.solve_ray(
-            part, n[rows], m[rows], r["dn0"][rows], part.D, lambda v, x, k: phi_at(v, x, _sub(rows, k))
-        )
+        part = sec.take(rows if of is None else of[rows])
+        sub = nm.RowsMemo()  # one array of whole-table rows per array of the solver's rows
+
+        def phi_of(v, x, k):
+            return phi_at(v, x, rows if k is None else sub("rows", k, lambda: rows[k]))
+
+        ends = None
+        if at_dn0 is not None:  # g at dn0 and at D from the points the caller has
+            n_lo, phi_lo = at_dn0
+            a, b = m[rows], n[rows]
+            ends = (
+                nm.ray_g(phi_lo[rows], n_lo[rows], r["m0"][rows], a, b),
+                nm.ray_g(r["phi_d"][rows], r["nd"][rows], r["md"][rows], a, b),
+            )
+        dn = nm.solve_ray(part, n[rows], m[rows], r["dn0"][rows], part.D, phi_of, ends=ends)
         nu, mu = nm.forces(part, dn)
         phi = phi_at(nu, dn, rows)
         dn_ray[rows], nu_ray[rows], mu_ray[rows], phi_ray[rows] = dn, nu, np.abs(mu), phi
@@ -308,11 +404,6 @@ def radial(sec, n_star, m_star, r: dict[str, np.ndarray], phi_at) -> dict[str, n
         phi_ray=phi_ray,
         phi_mo=phi_mo,
     )
-
-
-def _sub(rows: np.ndarray, k: np.ndarray | None) -> np.ndarray:
-    """Rows of the whole table for the solver's subset `k` of `rows` (None: all of them)."""
-    return rows if k is None else rows[k]
 
 
 REGION_TEXT = {
@@ -343,13 +434,11 @@ def check_pier_axial(
     the simplified method's, the same numbers, without the fixed-N* ratio and its solve
     (`interaction(at_n=False)`), nor the other columns of the N-M check."""
     std = std or get_standard(settings.standard)
-    df = actions.merge(piers[_geometry_columns(piers, util_only)], on=["storey", "pier_id"], how="left")
-    df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
+    df, first, of, per = _joined(actions, piers, _geometry_columns(piers, util_only))
     phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
         return df
-    first, of = per_pier(df)
-    sec, asym, end_compressed = _oriented(df, first, std)
+    sec, asym, end_compressed = _oriented(df, per, std)
     n_star = df.n.to_numpy(float) * 1e3
     m_raw = df.m.to_numpy(float) * 1e6
     m_design = std.design_moment(m_raw, n_star, df.Lw.to_numpy(float))
@@ -369,8 +458,12 @@ def check_pier_axial(
     if util_only:
         df["util"] = r["lam"][pick]
         return _simplified(df, settings, of, working=False, std=std, util_only=True)
-    r = {k: v[pick] for k, v in r.items()}
-    df["compressed"] = np.where(asym[of], np.where(sense[pick], "end", "start"), "either")
+    if len(other):  # else each row's own values (pick is the identity)
+        r = {k: v[pick] for k, v in r.items()}
+    # text columns taken from their few strings by code (`text_column`), not a string per row
+    df["compressed"] = text_column(
+        np.where(asym[of], np.where(sense[pick], 0, 1), 2), ["end", "start", "either"]
+    )
     section_of = (of[rows] + len(first) * sense)[pick]
     kn, knm = 1e-3, 1e-6
     df["m_design"] = m_design * knm
@@ -393,20 +486,18 @@ def check_pier_axial(
     with np.errstate(divide="ignore", invalid="ignore"):
         df["n_ray"] = np.where(lam > 0, df.n / lam, 0.0)
         df["m_ray"] = np.where(lam > 0, df.m_design / lam, 0.0)
-    df["status"] = np.where(df.util <= 1.0, PASS, FAIL)
+    df["status"] = status_column(df.util.to_numpy())
     ray = r["ray"]
     # the same words looked up by code for the whole column (a Python step per row before)
-    words = np.array([RAY_TEXT.get(k, "") for k in range(max(RAY_TEXT) + 1)], dtype=object)
-    df["governs"] = words[ray.astype(np.int64)].tolist()
+    df["governs"] = text_column(ray, [RAY_TEXT.get(k, "") for k in range(max(RAY_TEXT) + 1)])
     sym = std.symbols
-    df["clause"] = np.select(
-        [ray == RAY_TENSION, (ray == RAY_SQUASH) | (ray == RAY_CAP)],
-        [sym["clause_tension"], sym["clause_squash"]],
-        sym["clause_curve"],
+    df["clause"] = text_column(
+        np.where(ray == RAY_TENSION, 0, np.where((ray == RAY_SQUASH) | (ray == RAY_CAP), 1, 2)),
+        [sym["clause_tension"], sym["clause_squash"], sym["clause_curve"]],
     )
     if not working:
         return _simplified(df, settings, of, working, std)
-    df["bars"] = np.asarray(bars.describe(df.iloc[first], std.bar_name), dtype=object)[of]
+    df["bars"] = text_column(of, bars.describe(per, std.bar_name))
     if not text:  # every column but the working text (made later for the rows written)
         return _simplified(df, settings, of, working=False, std=std)
     ray_state = SectionState(
@@ -593,7 +684,10 @@ def _simplified(
     df["n_end"] = hi * Lw * 1e-3  # end force per length over the whole length [kN]
     df["n_end_lo"] = lo * Lw * 1e-3
     df["util_s"] = np.where(applies, df.n_end / np.where(cap > 0, cap, np.nan), np.nan)
-    df["status_s"] = np.where(applies, np.where(df.util_s <= 1.0, PASS, FAIL), NOT_APPLICABLE)
+    util_s = df.util_s.to_numpy()
+    df["status_s"] = text_column(
+        np.where(applies, np.where(util_s <= 1.0, 0, 1), 2), [PASS, FAIL, NOT_APPLICABLE]
+    )
     df["clause_s"] = std.symbols["simplified_clause"]
     if not working:
         return df

@@ -125,10 +125,25 @@ def _n_bar(dia: float, n: float | None = None) -> str:
     return f"N{dia:g}" if n is None else f"{n:g}N{dia:g}"
 
 
+def _once_each(name: Callable[..., str]) -> Callable[..., str]:
+    """`name` called once per distinct (dia, n): a pier tower names the same few bars
+    thousands of times (the standard's catalogue lookup per call was most of `describe`)."""
+    seen: dict[tuple, str] = {}
+
+    def named(*args) -> str:
+        got = seen.get(args)
+        if got is None:
+            got = seen[args] = name(*args)
+        return got
+
+    return named
+
+
 def describe(df: pd.DataFrame, name: Callable[..., str] = _n_bar) -> list[str]:
     """The bars of each pier in words, e.g. 'start 8N28 in 600 mm; field 12 x 2N16 @ 191 mm;
     end none'; `name(dia, n=None)` names the bars (the standard's `Standard.bar_name`)."""
     lay = layout(df)
+    name = _once_each(name)
     out = []
     cols = [df[k].tolist() for k in ("v_layers", "v_dia")]
     zones = {c: _col(df, c).tolist() for c in ZONE_COLUMNS}

@@ -165,67 +165,123 @@ def _even_sums(sec: EvenRect, j0, j1) -> tuple[np.ndarray, np.ndarray, np.ndarra
     return cnt, cnt * e + s * sj, cnt * e * e + 2 * e * s * sj + s * s * sjj
 
 
-def _forces_even(sec: EvenRect, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+_CONSTS = "_even_consts"  # cached on an EvenRect: what `_forces_even` reads per section
+
+
+def _even_consts(sec: EvenRect) -> dict[str, np.ndarray]:
+    """The section's own terms of `_forces_even` (its strain limits' ratios, the last bar
+    position's series term, ...), worked out once per section object: the solvers call
+    `forces` a dozen times on one. Each is the same expression as before, so the same bits."""
+    c = sec.__dict__.get(_CONSTS)
+    if c is None:
+        ey = sec.fsy / sec.Es
+        n = sec.count
+        e, s = sec.edge, sec.step
+        c = dict(
+            conc_stress=sec.alpha2 * sec.fc,
+            ya=1 - ey / sec.eps_cu,
+            yb=1 + ey / sec.eps_cu,
+            h=sec.D / 2,
+            p1n=n * (n - 1),
+            e2s=2 * e * s,
+            ss=s * s,
+        )
+        object.__setattr__(sec, _CONSTS, c)
+    return c
+
+
+# The series terms of j = 0 (`_even_sums` with j0 = 0): j0 (j0 - 1) and (j0 - 1) j0 (2 j0 - 1)
+_P1_0 = 0.0 * (0.0 - 1)
+_P2_0 = (0.0 - 1) * 0.0 * (2 * 0.0 - 1)
+
+
+def _forces_even(sec: EvenRect, dn: np.ndarray, moment: bool = True) -> tuple[np.ndarray, np.ndarray | None]:
     """`forces` for evenly spaced bars: the bars fall in three strain zones (yielded in
-    compression, elastic, yielded in tension), each an arithmetic series of depths."""
+    compression, elastic, yielded in tension), each an arithmetic series of depths.
+
+    The arithmetic of `_even_sums` over the ranges [0, ja), [ja, jb), [jb, n) and [0, jd),
+    term for term, with each bound's series terms j (j - 1) and (j - 1) j (2 j - 1) worked out
+    once (not once per range it bounds), the sums of squares only where read (the elastic
+    range) and the section's own terms once (`_even_consts`): the same numbers to the last
+    bit (tests/test_axial_speed2.py holds it against `_even_sums`). Without `moment` N alone
+    (M None): what the solve for N = N* reads, in less than half the arithmetic."""
+    c = _even_consts(sec)
     depth = np.minimum(sec.gamma * dn, sec.D)
-    conc_stress = sec.alpha2 * sec.fc
+    conc_stress = c["conc_stress"]
     cc = conc_stress * depth * sec.b
-    ey = sec.fsy / sec.Es
     n = sec.count
+    e, s = sec.edge, sec.step
 
     def upto(x, inclusive=True):  # bar positions with depth <= x (or < x)
-        q = (x - sec.edge) / sec.step
+        q = (x - e) / s
         j = np.floor(q) + 1 if inclusive else np.ceil(q)
         return np.clip(j, 0, n)
 
-    ja = upto(dn * (1 - ey / sec.eps_cu))  # d <= this: yielded in compression
-    jb = upto(dn * (1 + ey / sec.eps_cu))  # d >= this: yielded in tension
-    zero = np.zeros_like(ja)
-    c0, c1, _ = _even_sums(sec, zero, ja)
-    e0, e1, e2 = _even_sums(sec, ja, jb)
-    t0, t1, _ = _even_sums(sec, jb, n)
-    h = sec.D / 2
+    ja = upto(dn * c["ya"])  # d <= this: yielded in compression
+    jb = upto(dn * c["yb"])  # d >= this: yielded in tension
+    p1a, p1b = ja * (ja - 1), jb * (jb - 1)
+    # [0, ja): count ja (ja - 0 is ja to the bit); [ja, jb): count and sum of depths; [jb, n)
+    c0 = ja
+    e0 = jb - ja
+    sj = (p1b - p1a) / 2
+    e0e = e0 * e
+    e1 = e0e + s * sj
+    t0 = n - jb
     k = sec.Es * sec.eps_cu / dn
     fy, area = sec.fsy, sec.bar_area
     ns = area * (fy * (c0 - t0) + k * (dn * e0 - e1))
-    ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
+    ms = None
+    if moment:  # the sums of depths of the outer ranges, and of squared depths of the elastic one
+        c1 = c0 * e + s * ((p1a - _P1_0) / 2)
+        sjj = ((jb - 1) * jb * (2 * jb - 1) - (ja - 1) * ja * (2 * ja - 1)) / 6
+        e2 = e0e * e + c["e2s"] * sj + c["ss"] * sjj
+        t1 = t0 * e + s * ((c["p1n"] - p1b) / 2)
+        h = c["h"]
+        ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
     if sec.deduct:
-        b0, b1, _ = _even_sums(sec, zero, upto(depth, inclusive=False))
+        b0 = upto(depth, inclusive=False)
         ns = ns - conc_stress * area * b0
-        ms = ms - conc_stress * area * (h * b0 - b1)
+        if moment:
+            b1 = b0 * e + s * ((b0 * (b0 - 1) - _P1_0) / 2)
+            ms = ms - conc_stress * area * (h * b0 - b1)
     if sec.zd is not None and sec.zd.shape[1]:
         ns, ms = _add_zone_forces(sec, dn, depth, conc_stress, ns, ms)
-    return cc + ns, cc * (h - depth / 2) + ms
+    return cc + ns, (cc * (h - depth / 2) + ms if moment else None)
 
 
-def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.ndarray, np.ndarray]:
+def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.ndarray, np.ndarray | None]:
     """ns, ms plus the forces of the discrete bars, worked out only on the rows that have any
     (the advice search pads every variant to the most zone bars of any: at the M tower 7 rows
     in 10 carry none). A row without bars would add sums of zeros, so the result is the same
-    to the last bit; each row's sum runs over the same columns as before."""
+    to the last bit; each row's sum runs over the same columns as before. `ms` None: N alone."""
     has = sec.__dict__.get(_ZMASK)
     if has is None:
         has = (sec.zA > 0).any(axis=1)
         object.__setattr__(sec, _ZMASK, has)
+    moment = ms is not None
     if has.all():
-        zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress)
-        return ns + zn, ms + zm
+        zn, zm = _bar_forces(sec, sec.zd, sec.zA, dn, depth, conc_stress, moment=moment)
+        return ns + zn, (ms + zm if moment else None)
     rows = np.flatnonzero(has)
     if rows.size == 0:
-        return ns + 0.0, ms + 0.0
+        return ns + 0.0, (ms + 0.0 if moment else None)
     zn, zm = _bar_forces(
-        sec, sec.zd[rows], sec.zA[rows], dn[rows], depth[rows], conc_stress[rows], sec.fsy[rows], sec.D[rows]
-    )
-    ns, ms = ns.copy(), ms.copy()
+        sec, sec.zd[rows], sec.zA[rows], dn[rows], depth[rows], conc_stress[rows], sec.fsy[rows], sec.D[rows],
+        moment=moment,
+    )  # fmt: skip
+    ns = ns.copy()
     ns[rows] += zn
-    ms[rows] += zm
+    if moment:
+        ms = ms.copy()
+        ms[rows] += zm
     return ns, ms
 
 
-def _bar_forces(sec, d, A, dn, depth, conc_stress, fsy=None, D=None) -> tuple[np.ndarray, np.ndarray]:
+def _bar_forces(
+    sec, d, A, dn, depth, conc_stress, fsy=None, D=None, moment: bool = True
+) -> tuple[np.ndarray, np.ndarray | None]:
     """Axial force and moment about mid-depth of bars given one by one (depths d, areas A);
-    `fsy` and `D` for rows other than all of `sec`'s."""
+    `fsy` and `D` for rows other than all of `sec`'s; without `moment` the force alone."""
     fsy = sec.fsy if fsy is None else fsy
     D = sec.D if D is None else D
     strain = sec.eps_cu * (dn[:, None] - d) / dn[:, None]
@@ -233,7 +289,7 @@ def _bar_forces(sec, d, A, dn, depth, conc_stress, fsy=None, D=None) -> tuple[np
     if sec.deduct:
         stress = stress - np.where(d < depth[:, None], conc_stress[:, None], 0.0)
     fs = stress * A
-    return fs.sum(axis=1), (fs * (D[:, None] / 2 - d)).sum(axis=1)
+    return fs.sum(axis=1), ((fs * (D[:, None] / 2 - d)).sum(axis=1) if moment else None)
 
 
 def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
@@ -248,11 +304,20 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     return cc + ns, cc * (sec.D / 2 - depth / 2) + ms
 
 
-def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None) -> np.ndarray:
+def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
+    """N of `forces` alone (the same numbers; evenly spaced bars without the moment's sums)."""
+    if isinstance(sec, EvenRect):
+        return _forces_even(sec, np.asarray(dn, dtype=float), moment=False)[0]
+    return forces(sec, dn)[0]
+
+
+def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None) -> np.ndarray:
     """Neutral-axis depth where g(dn) = target, for g increasing in dn, on all rows at once.
     g is N(dn), or N(dn) x scale(N, dn, rows) when `scale` (e.g. phi, which ACI 318 reads from
     the strain at dn and AS 3600 from N) is given; `rows` says which rows N belongs to (None:
-    all).
+    all). The solver passes one `rows` array until its set of rows shrinks, so a callback may
+    keep what it gathers for it (`RowsMemo`). `ends`, where the caller has them, are g at lo
+    and at hi (the same numbers: e.g. worked out once per section and spread to its rows).
 
     Regula falsi with the Illinois modification inside a bracket that always holds the root,
     every third step a plain bisection (so kinks where bars yield cannot stall it); rows stop
@@ -264,70 +329,119 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
     lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
     hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
     target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
+    memo = RowsMemo()
 
     def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else sec.take(rows)
-        n, _ = forces(part, x)
-        return (n * scale(n, x, rows) if scale else n) - (target if rows is None else target[rows])
+        part = sec if rows is None else memo("sec", rows, lambda: sec.take(rows))
+        n = axial_force(part, x)
+        aim = target if rows is None else memo("target", rows, lambda: target[rows])
+        return (n * scale(n, x, rows) if scale else n) - aim
 
-    return _illinois(g, lo, hi, np.abs(target), sec.D, iterations)
+    return _illinois(g, lo, hi, np.abs(target), sec.D, iterations, ends)
 
 
-def solve_ray(sec: Rect | EvenRect, n_dir, m_dir, lo, hi, phi_of, iterations: int = 60) -> np.ndarray:
+def solve_ray(
+    sec: Rect | EvenRect, n_dir, m_dir, lo, hi, phi_of, iterations: int = 60, ends=None
+) -> np.ndarray:
     """Neutral-axis depth where the factored point (phi N, phi |M|)(dn) lies on the ray from the
     origin along (n_dir, m_dir), m_dir >= 0: the root of the cross product
     g(dn) = phi N m_dir - phi |M| n_dir, which rises with dn between pure bending and
     decompression (the point's polar angle falls). `phi_of(N, dn, rows)` gives phi at the
-    nominal point (N, dn).
+    nominal point (N, dn). `ends`: g at lo and at hi where the caller has them (`ray_ends`).
     Same bracketing solver as `solve_dn`."""
     lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
     hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
     n_dir = np.broadcast_to(np.asarray(n_dir, dtype=float), sec.D.shape)
     m_dir = np.broadcast_to(np.asarray(m_dir, dtype=float), sec.D.shape)
+    memo = RowsMemo()
 
     def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else sec.take(rows)
+        if rows is None:
+            part, a, b = sec, m_dir, n_dir
+        else:
+            part = memo("sec", rows, lambda: sec.take(rows))
+            a = memo("m_dir", rows, lambda: m_dir[rows])
+            b = memo("n_dir", rows, lambda: n_dir[rows])
         n, m = forces(part, x)
-        phi = phi_of(n, x, rows)
-        a, b = (m_dir, n_dir) if rows is None else (m_dir[rows], n_dir[rows])
-        return phi * (n * a - np.abs(m) * b)
+        return ray_g(phi_of(n, x, rows), n, m, a, b)
 
-    return _illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations)
+    return _illinois(g, lo, hi, np.zeros(sec.D.shape), sec.D, iterations, ends)
 
 
-def _illinois(g, lo, hi, scale_g, D, iterations) -> np.ndarray:
+def ray_g(phi, n, m, m_dir, n_dir) -> np.ndarray:
+    """`solve_ray`'s function at a nominal point (n, m) with its phi: also for its `ends`."""
+    return phi * (n * m_dir - np.abs(m) * n_dir)
+
+
+class RowsMemo:
+    """What a solver's callback gathers for one `rows` array, kept until another comes: the
+    solver passes the same array on every step until its set of active rows shrinks (a
+    gather of every per-row input on every step cost more than a third of the N-M check)."""
+
+    def __init__(self) -> None:
+        self._rows: np.ndarray | None = None
+        self._got: dict = {}
+
+    def __call__(self, key, rows: np.ndarray, make):
+        if rows is not self._rows:
+            self._rows, self._got = rows, {}
+        got = self._got.get(key)
+        if got is None:
+            got = self._got[key] = make()
+        return got
+
+
+def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
     """Root of g (increasing) in [lo, hi] per row; `scale_g` adds to the force scale of the
-    tolerance. Regula falsi, Illinois modification, every third step a bisection."""
-    glo, ghi = g(lo, None), g(hi, None)
+    tolerance; `ends` = (g(lo), g(hi)) where known. Regula falsi, Illinois modification,
+    every third step a bisection.
+
+    The rows still iterating are held packed (their brackets, g values and last sides), and
+    packed again only when some finish: g is called with one `rows` array until then (None
+    while every row iterates). Each row's steps are the same arithmetic on the same numbers as
+    when every array was gathered from and scattered back to full length on every step, so
+    the same roots to the last bit (tests/test_axial_speed2.py)."""
+    glo, ghi = (g(lo, None), g(hi, None)) if ends is None else ends
     tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + scale_g)
     tol_x = 1e-12 * D
     out = 0.5 * (lo + hi)
     out = np.where(glo >= 0, lo, np.where(ghi <= 0, hi, out))  # target outside: the nearer end
     active = np.flatnonzero((glo < 0) & (ghi > 0) & (hi - lo > tol_x))
-    last = np.zeros(D.shape, dtype=np.int8)
+    rows = None if active.size == D.size else active
+    a, b, ga, gb, tg, tx = (v if rows is None else v[rows] for v in (lo, hi, glo, ghi, tol_g, tol_x))
+    below = None  # each row's side of its last step (every row packed has taken as many)
     for it in range(iterations):
-        if active.size == 0:
+        if a.size == 0:
             break
-        a, b, ga, gb = lo[active], hi[active], glo[active], ghi[active]
         mid = 0.5 * (a + b)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            x = (a * gb - b * ga) / (gb - ga)
-        bad = ~np.isfinite(x) | (x <= a) | (x >= b)
-        x = mid if it % 3 == 2 else np.where(bad, mid, x)
-        gx = g(x, None if active.size == D.size else active)
-        below = gx < 0
-        prev = last[active]
-        lo[active] = np.where(below, x, a)
-        hi[active] = np.where(below, b, x)
+        if it % 3 == 2:
+            x = mid
+        else:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                x = (a * gb - b * ga) / (gb - ga)
+            # inside the bracket (false for NaN and the infinities): not finite, or <= a, or >= b
+            x = np.where((x > a) & (x < b), x, mid)
+        gx = g(x, rows)
         # Illinois: an end kept twice in a row has its g halved, so the next point moves off it
-        glo[active] = np.where(below, gx, np.where(prev == -1, 0.5 * ga, ga))
-        ghi[active] = np.where(below, np.where(prev == 1, 0.5 * gb, gb), gx)
-        last[active] = np.where(below, 1, -1)
-        out[active] = x
-        done = (np.abs(gx) <= tol_g[active]) | (hi[active] - lo[active] <= tol_x[active])
-        active = active[~done]
-    if active.size:
-        out[active] = 0.5 * (lo[active] + hi[active])
+        prev, below = below, gx < 0
+        if prev is None:
+            ga_next, gb_next = np.where(below, gx, ga), np.where(below, gb, gx)
+        else:
+            ga_next = np.where(below, gx, np.where(prev, ga, 0.5 * ga))
+            gb_next = np.where(below, np.where(prev, 0.5 * gb, gb), gx)
+        a, b = np.where(below, x, a), np.where(below, b, x)
+        ga, gb = ga_next, gb_next
+        done = (np.abs(gx) <= tg) | (b - a <= tx)
+        if not done.any():
+            continue
+        index = active if rows is None else rows
+        out[index[done]] = x[done]
+        keep = ~done
+        rows = index[keep]
+        a, b, ga, gb, tg, tx, below = (v[keep] for v in (a, b, ga, gb, tg, tx, below))
+    if a.size:
+        index = active if rows is None else rows
+        out[index] = 0.5 * (a + b)
     return out
 
 
