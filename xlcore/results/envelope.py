@@ -330,15 +330,9 @@ def envelope(
 
 def _first_max(u: np.ndarray, g: np.ndarray) -> np.ndarray:
     """Position of each group's largest `u` (the first of equal ones), groups in order of first
-    appearance: what `groupby(g, sort=False).idxmax()` gives on positions, `u` without NaN."""
-    if not len(u):
-        return np.zeros(0, dtype=np.int64)
-    order = np.lexsort((-u, g))  # stable: equal values keep their order
-    head = np.ones(len(order), dtype=bool)
-    head[1:] = g[order][1:] != g[order][:-1]
-    win = order[head]  # groups by code
-    _, first = np.unique(g, return_index=True)
-    return win[np.argsort(first, kind="stable")]
+    appearance: what `groupby(g, sort=False).idxmax()` gives on positions, `u` without NaN
+    (`results.first_max`: two passes, no sort)."""
+    return results.first_max(u, g)
 
 
 def _codes(cand: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
