@@ -101,3 +101,53 @@ def test_group_codes_partition_as_the_group_by(missing):
     # the same partition: one code of one for the other, both ways
     pairs = pd.DataFrame(dict(a=got, b=ref)).drop_duplicates()
     assert pairs.a.is_unique and pairs.b.is_unique
+
+
+# ------------------------------------------------------------------ the envelope without the candidates' table
+
+
+def _envelope_both_ways(shear, piers, axial, detailing, s14, monkeypatch):
+    from xlcore.results import envelope as env
+
+    fast = env.envelope(shear, piers, axial, detailing, s14)
+    fast_pc = env.pier_checks(shear, axial, detailing, s14, fast)
+    with monkeypatch.context() as m:
+        m.setattr(env, "_codes", lambda parts: None)  # the general path: the whole table, text keys
+        general = env.envelope(shear, piers, axial, detailing, s14)
+        general_pc = env.pier_checks(shear, axial, detailing, s14, general)
+    pd.testing.assert_frame_equal(fast, general, check_exact=True)
+    pd.testing.assert_frame_equal(fast_pc, general_pc, check_exact=True)
+    return fast
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_envelope_with_ties_across_checks_equals_the_general_path(seed, monkeypatch):
+    """Each pier's worst row over shear, axial + bending and Cl 11.5 found per check and then
+    across them: where two checks tie, the earlier check's row governs (as in the one table),
+    and its combination is the one reported."""
+    from test_envelope_fast import _tables
+
+    shear, piers, axial, detailing, s14 = _tables(seed)
+    rng = np.random.default_rng(seed)
+    u = rng.choice([0.5, 0.9, 1.1], size=len(axial))  # the shear's values: ties across checks
+    axial = axial.assign(
+        util=u,
+        status=np.where(u > 1, results.FAIL, results.PASS),
+        util_s=rng.choice([0.9, 1.1], size=len(axial)),
+        combination=[f"A{i}" for i in rng.integers(0, 5, len(axial))],  # tells which row governs
+    )
+    fast = _envelope_both_ways(shear, piers, axial, detailing, s14, monkeypatch)
+    assert (fast.check == "in-plane shear").any() and (fast.check != "in-plane shear").any()
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_envelope_of_checks_in_different_row_orders_equals_the_general_path(seed, monkeypatch):
+    """The axial table's rows in another order than the shear's (they do not share codes), a
+    whole check of a pier NaN, and empty compliance tables."""
+    from test_envelope_fast import _tables
+
+    shear, piers, axial, detailing, s14 = _tables(seed)
+    axial = axial.sample(frac=1.0, random_state=seed).reset_index(drop=True)
+    _envelope_both_ways(shear, piers, axial, detailing, s14, monkeypatch)
+    _envelope_both_ways(shear, piers, axial, detailing.iloc[:0], s14.iloc[:0], monkeypatch)
+    _envelope_both_ways(shear, piers, axial.iloc[:0], detailing, None, monkeypatch)
