@@ -103,7 +103,7 @@ def test_group_codes_partition_as_the_group_by(missing):
     assert pairs.a.is_unique and pairs.b.is_unique
 
 
-# ------------------------------------------------------------------ the envelope without the candidates' table
+# ------------------------------------------------------------------ the envelope, no candidates' table
 
 
 def _envelope_both_ways(shear, piers, axial, detailing, s14, monkeypatch):
@@ -151,3 +151,124 @@ def test_envelope_of_checks_in_different_row_orders_equals_the_general_path(seed
     _envelope_both_ways(shear, piers, axial, detailing, s14, monkeypatch)
     _envelope_both_ways(shear, piers, axial, detailing.iloc[:0], s14.iloc[:0], monkeypatch)
     _envelope_both_ways(shear, piers, axial.iloc[:0], detailing, None, monkeypatch)
+
+
+# ------------------------------------------------------------------ sharing
+
+
+@pytest.fixture(scope="module")
+def demo(demo_master):
+    """The demo building with its piers, walls and plans."""
+    from xlcore import cores, geometry, pipeline
+    from xlcore.mechanics import stiffness
+
+    b, _ = pipeline.load(demo_master)
+    s = b.settings
+    g = geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
+    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
+    walls = stiffness.sharing_stiffness(
+        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
+    )
+    return b, piers, walls, cores.plans_by_core(piers, walls)
+
+
+def _pier_actions_merged(piers, actions, method):
+    """`distribution.pier_actions` as it was: the wall rows found by a merge of every row."""
+    from xlcore import distribution
+
+    cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
+    base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
+    direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    direct["share"] = 1.0
+    direct["source"] = "given for the pier"
+    cut = piers.loc[piers.position > 0, cols]
+    shared = base.merge(cut, left_on=["storey", "member"], right_on=["storey", "wall_id"])
+    if len(shared):
+        shared = distribution._share_wall(shared, method)
+    return pd.concat([direct, shared], ignore_index=True)[distribution.ACTION_COLUMNS]
+
+
+@pytest.mark.parametrize("method", ["composite section", "pier moments from shear"])
+@pytest.mark.parametrize("walls_named", [True, False])
+def test_pier_actions_of_coded_keys_equal_the_merges(demo, method, walls_named):
+    """Action rows naming piers, walls cut by openings (shared among their piers), uncut walls,
+    nothing known and a blank, shuffled: the same table as the merges of every row; with no
+    row naming a cut wall, the same (empty) sharing too."""
+    from xlcore import distribution
+
+    b, piers, *_ = demo
+    acts = b.member_actions.assign(m_out=1.5).sample(frac=1.0, random_state=3).reset_index(drop=True)
+    cut = piers[piers.position > 0].drop_duplicates(["storey", "wall_id"])
+    if walls_named:
+        assert len(cut)
+        named = acts.iloc[: len(cut)].assign(storey=cut.storey.to_numpy(), member=cut.wall_id.to_numpy())
+        acts = pd.concat([acts, named], ignore_index=True).sample(frac=1.0, random_state=4)
+    acts = acts.reset_index(drop=True)
+    acts.loc[acts.index[:2], "member"] = "nowhere"
+    acts.loc[acts.index[2], "member"] = np.nan
+    acts.loc[acts.index[3], "storey"] = np.nan
+    got = distribution.pier_actions(piers, acts, method)
+    want = _pier_actions_merged(piers, acts, method)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    assert (got.source.str.startswith("wall ").any()) == walls_named
+
+
+def test_text_columns_from_codes_equal_the_object_arrays():
+    """`distribution.stack` with text columns given as codes gives the table the object
+    arrays give (the type pandas infers, NaN kept), and `TextCodes` keeps 1 and 1.0 apart."""
+    from xlcore import distribution
+
+    names = distribution.TextCodes()
+    parts, raw = [], []
+    for storey, walls in (("L1", ["W1", "W10", "W2"]), ("L2", ["W2", "W1"]), ("L1", ["W1"])):
+        combos = np.array([0, 2, 1])
+        parts.append(
+            dict(
+                row=np.arange(len(walls) * 3),
+                storey=np.full(len(walls) * 3, names.codes([storey])[0]),
+                combination=np.repeat(combos, len(walls)),
+                wall_id=np.tile(names.codes(walls), 3),
+                source=None,
+            )
+        )
+        raw.append(
+            dict(
+                row=np.arange(len(walls) * 3),
+                storey=np.full(len(walls) * 3, storey, dtype=object),
+                combination=np.repeat(np.array(["C1", np.nan, "C2"], dtype=object)[combos], len(walls)),
+                wall_id=np.tile(np.array(walls, dtype=object), 3),
+                source=np.full(len(walls) * 3, None, dtype=object),
+            )
+        )
+    texts = dict(storey=names.values, wall_id=names.values, combination=["C1", np.nan, "C2"])
+    got = distribution.stack(parts, texts=texts)
+    want = pd.DataFrame({k: np.concatenate([p[k] for p in raw]) for k in raw[0]})
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    assert got.storey.dtype == want.storey.dtype and got.source.dtype == object
+    # equal values of other types (1 == 1.0) are other texts ('1' and '1.0'): kept apart
+    one, real_one, text_one = names.codes([1, 1.0, "1"])
+    assert len({one, real_one, text_one}) == 3 and names.codes([1.0, 1]).tolist() == [real_one, one]
+
+
+def test_core_sharing_text_columns_are_the_storeys_members(demo):
+    """The core sharing's text columns (made from codes) name each row's storey, combination,
+    wall and pier as the storey's own arrays do, row for row."""
+    from xlcore import cores
+
+    b, piers, walls, plans = demo
+    s = b.settings
+    split = cores.share_among_cores(piers, plans, b.core_actions, s.accidental)
+    out = cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment)
+    p = out.piers
+    ref = piers.set_index(["storey", "pier_id"])
+    assert (
+        ref.loc[list(zip(p.storey, p.pier_id, strict=True)), "wall_id"].to_numpy() == p.wall_id.to_numpy()
+    ).all()
+    acts = split.actions.set_index(["row", "core"])  # the demo's two cores share each row
+    for t in (p, out.walls):
+        at = list(zip(t.row, t.core, strict=True))
+        assert (acts.loc[at, "combination"].to_numpy() == t.combination.to_numpy()).all()
+        assert (acts.loc[at, "storey"].to_numpy() == t.storey.to_numpy()).all()
+    w = out.walls
+    assert set(zip(w.storey, w.wall_id, strict=True)) <= set(zip(walls.storey, walls.wall_id, strict=True))
+    assert str(p.storey.dtype) == "str" and str(w.wall_id.dtype) == "str"
