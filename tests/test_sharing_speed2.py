@@ -272,3 +272,50 @@ def test_core_sharing_text_columns_are_the_storeys_members(demo):
     w = out.walls
     assert set(zip(w.storey, w.wall_id, strict=True)) <= set(zip(walls.storey, walls.wall_id, strict=True))
     assert str(p.storey.dtype) == "str" and str(w.wall_id.dtype) == "str"
+
+
+@pytest.mark.parametrize("blank", [False, True])
+def test_natural_rank_and_first_seen_codes_equal_pandas(blank):
+    """The core table's sort keys: natural rank by the distinct IDs (ties of equal natural keys,
+    W01 and W1, in order of first appearance) and codes in order of first appearance."""
+    from xlcore import geometry, pipeline
+
+    rng = np.random.default_rng(5)
+    ids = rng.choice(np.array(["W10", "W2", "W1", "W01", "B3-1", "B3-10", "B3-2", "w1"], dtype=object), 400)
+    if blank:
+        ids[[7, 50]] = np.nan
+    np.testing.assert_array_equal(
+        pipeline._natural_rank(ids), geometry.natural_rank(pd.Series(ids, dtype="str")).to_numpy()
+    )
+    np.testing.assert_array_equal(
+        pipeline._first_seen_codes(ids), pd.factorize(ids, use_na_sentinel=False)[0]
+    )
+
+
+@pytest.mark.parametrize("blank", [False, True])
+def test_pairs_in_from_the_distinct_pairs_equal_every_row(blank):
+    """Core-action rows whose storey x combination the member actions cover: the member
+    actions' distinct pairs found by codes, then compared as text, as every row was."""
+    from xlcore import pipeline
+
+    rng = np.random.default_rng(6)
+    n = 2000
+    member = pd.DataFrame(
+        dict(
+            storey=pd.array(rng.choice(["L1", "L2", "L10"], n), dtype="str"),
+            combination=pd.array(rng.choice(["C1", "C2"], n), dtype="str"),
+        )
+    )
+    if blank:
+        member.loc[[3, 9], "combination"] = np.nan
+    core = pd.DataFrame(
+        dict(
+            storey=pd.array(["L1", "L2", "L10", "L3", "L1", "L2"], dtype="str"),
+            combination=pd.array(["C1", "C2", "C3", "C1", np.nan, np.nan], dtype="str"),
+        )
+    )
+    key = lambda d: pd.MultiIndex.from_arrays([d.storey.astype(str), d.combination.astype(str)])  # noqa: E731
+    want = key(core).isin(key(member).unique())
+    np.testing.assert_array_equal(pipeline._pairs_in(core, member), want)
+    assert want.any() and not want.all()
+    assert len(pipeline._distinct_pairs(member)) == (len(member) if blank else 6)
