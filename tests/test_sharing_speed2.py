@@ -319,3 +319,41 @@ def test_pairs_in_from_the_distinct_pairs_equal_every_row(blank):
     np.testing.assert_array_equal(pipeline._pairs_in(core, member), want)
     assert want.any() and not want.all()
     assert len(pipeline._distinct_pairs(member)) == (len(member) if blank else 6)
+
+
+# ------------------------------------------------------------------ core checks
+
+
+def test_section_keys_from_rows_sliced_equal_each_storeys_table(demo):
+    """The core N-M check's section keys from the key columns rounded once and sliced per storey
+    equal those of each storey's own table (so the storeys share sections as before), and
+    storeys that differ get different keys."""
+    from xlcore.checks import core_nm
+
+    _, piers, _, plans = demo
+    for core, p in piers.groupby("core", sort=False):
+        values = p[core_nm._key_columns(p)].round(6).to_numpy()
+        at = p.groupby("storey", sort=False).indices
+        keys = {}
+        for storey, sp in p.groupby("storey", sort=False):
+            sec = plans[core][storey].section
+            keys[storey] = core_nm._key_of(values[at[storey]], sec)
+            assert keys[storey] == core_nm._section_key(sp, sec)
+        assert 1 < len(set(keys.values())) < len(keys)  # some storeys share a section, not all
+
+
+def test_core_stress_text_columns_are_the_storeys_walls(demo):
+    """The core stress table's storey, combination and wall (made from codes) are each row's
+    own, as the storey's arrays give them, and of the type a column of those strings takes."""
+    from xlcore import cores, pipeline
+    from xlcore.checks.core_stress import check_core_stress
+
+    b, piers, walls, plans = demo
+    split = cores.share_among_cores(piers, plans, b.core_actions, b.settings.accidental)
+    t = pipeline.per_core(check_core_stress, piers, plans, split.actions, b.settings)
+    acts = split.actions.set_index(["row", "core"])
+    at = list(zip(t.row, t.core, strict=True))
+    assert (acts.loc[at, "combination"].to_numpy() == t.combination.to_numpy()).all()
+    assert (acts.loc[at, "storey"].to_numpy() == t.storey.to_numpy()).all()
+    assert set(zip(t.storey, t.wall_id, strict=True)) <= set(zip(walls.storey, walls.wall_id, strict=True))
+    assert str(t.storey.dtype) == str(t.wall_id.dtype) == str(t.combination.dtype) == "str"
