@@ -357,3 +357,57 @@ def test_core_stress_text_columns_are_the_storeys_walls(demo):
     assert (acts.loc[at, "storey"].to_numpy() == t.storey.to_numpy()).all()
     assert set(zip(t.storey, t.wall_id, strict=True)) <= set(zip(walls.storey, walls.wall_id, strict=True))
     assert str(t.storey.dtype) == str(t.wall_id.dtype) == str(t.combination.dtype) == "str"
+
+
+def _storey_plans_by_table(piers, walls):
+    """`distribution.storey_plans` as it was: a sub-table per storey."""
+    from xlcore import distribution
+    from xlcore.mechanics import diaphragm, section
+
+    out, seen = {}, {}
+    walls_at = distribution.by_storey(walls)
+    for storey, sp in piers.groupby("storey", sort=False):
+        sw = walls_at[storey]
+        key = distribution._plan_key(sp, sw)
+        if key in seen:
+            out[storey] = seen[key]
+            continue
+        pieces = section.disjoint_pieces(sp)
+        st = diaphragm.Storey(
+            sw.k.to_numpy(), sw.ux.to_numpy(), sw.uy.to_numpy(), sw.mx.to_numpy(), sw.my.to_numpy()
+        )
+        try:
+            centre = diaphragm.centre_of_rigidity(st)
+        except diaphragm.Unstable:
+            centre = None
+        out[storey] = seen[key] = distribution.StoreyPlan(
+            section.section_of(pieces), np.array([section.moments(p) for p in pieces]), st, centre
+        )
+    return out
+
+
+def test_storey_plans_from_arrays_equal_the_sub_tables(demo):
+    """Storey plans keyed and built from the whole tables' arrays: the same plans (every number
+    bit for bit), shared by the same storeys, in the same order; a storey whose walls differ in
+    stiffness gets a plan of its own."""
+    import dataclasses
+
+    from xlcore import distribution
+
+    _, piers, walls, _ = demo
+    walls = walls.copy()
+    last = walls.storey.iloc[-1]
+    walls.loc[walls.storey == last, "k"] *= 1.5  # a storey unlike the others
+    for core in dict.fromkeys(piers.core):
+        p, w = piers[piers.core == core], walls[walls.core == core]
+        got, want = distribution.storey_plans(p, w), _storey_plans_by_table(p, w)
+        assert list(got) == list(want)
+        for storey in got:
+            a, b = got[storey], want[storey]
+            assert a.centre == b.centre and a.section == b.section
+            np.testing.assert_array_equal(a.piece_moments, b.piece_moments)
+            for f in dataclasses.fields(a.walls):
+                np.testing.assert_array_equal(getattr(a.walls, f.name), getattr(b.walls, f.name))
+        shared = [[got[s] is got[t] for t in got] for s in got]
+        assert shared == [[want[s] is want[t] for t in want] for s in want]
+        assert len({id(v) for v in got.values()}) > 1

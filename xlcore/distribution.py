@@ -186,17 +186,21 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
     """Net section and centre of rigidity of every storey."""
     out = {}
     seen: dict[bytes, StoreyPlan] = {}  # storeys alike in plan, thickness and stiffness share one
-    walls_at = by_storey(walls)
-    for storey, sp in piers.groupby("storey", sort=False):
-        sw = walls_at[storey]
-        key = _plan_key(sp, sw)
+    # each storey's rows by position in arrays of the whole tables (a sub-table per storey cost
+    # more than the plans themselves where storeys repeat); a sub-table only for a new plan
+    plan_cols, wall_cols = piers[PLAN_COLUMNS].to_numpy(float), walls[WALL_COLUMNS].to_numpy(float)
+    wall_ids = walls.wall_id.to_numpy()
+    piers_at = piers.groupby("storey", sort=False).indices
+    walls_at = walls.groupby("storey", sort=False).indices
+    for storey in pd.unique(piers.storey):
+        ip, iw = piers_at[storey], walls_at[storey]
+        key = _plan_key_of(plan_cols[ip], wall_cols[iw], wall_ids[iw])
         if key in seen:
             out[storey] = seen[key]
             continue
-        pieces = section.disjoint_pieces(sp)
-        st = diaphragm.Storey(
-            sw.k.to_numpy(), sw.ux.to_numpy(), sw.uy.to_numpy(), sw.mx.to_numpy(), sw.my.to_numpy()
-        )
+        pieces = section.disjoint_pieces(piers.iloc[ip])
+        k, ux, uy, mx, my = (np.ascontiguousarray(wall_cols[iw, j]) for j in range(len(WALL_COLUMNS)))
+        st = diaphragm.Storey(k, ux, uy, mx, my)
         try:
             centre = diaphragm.centre_of_rigidity(st)
         except diaphragm.Unstable:
@@ -207,13 +211,25 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
     return out
 
 
+PLAN_COLUMNS = ["px1", "py1", "px2", "py2", "tw"]  # the piers' plan rectangles
+WALL_COLUMNS = ["k", "ux", "uy", "mx", "my"]  # the walls' stiffness and lines of action
+
+
 def _plan_key(sp: pd.DataFrame, sw: pd.DataFrame) -> bytes:
     """Everything a storey plan is made from: the piers' plan rectangles in order and the
     walls' stiffness and lines of action."""
+    return _plan_key_of(
+        sp[PLAN_COLUMNS].to_numpy(float), sw[WALL_COLUMNS].to_numpy(float), sw.wall_id.to_numpy()
+    )
+
+
+def _plan_key_of(plan: np.ndarray, walls: np.ndarray, wall_ids: np.ndarray) -> bytes:
+    """`_plan_key` from a storey's rows of the arrays (rows x `PLAN_COLUMNS`, rows x
+    `WALL_COLUMNS`, wall IDs)."""
     parts = [
-        sp[["px1", "py1", "px2", "py2", "tw"]].to_numpy(float).tobytes(),
-        sw[["k", "ux", "uy", "mx", "my"]].to_numpy(float).tobytes(),
-        "\x1f".join(map(str, sw.wall_id)).encode(),
+        np.ascontiguousarray(plan).tobytes(),
+        np.ascontiguousarray(walls).tobytes(),
+        "\x1f".join(map(str, wall_ids)).encode(),
     ]
     return b"\x1e".join(parts)
 
