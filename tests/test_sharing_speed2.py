@@ -411,3 +411,45 @@ def test_storey_plans_from_arrays_equal_the_sub_tables(demo):
         shared = [[got[s] is got[t] for t in got] for s in got]
         assert shared == [[want[s] is want[t] for t in want] for s in want]
         assert len({id(v) for v in got.values()}) > 1
+
+
+def _element_forces_ref(f, dn):
+    """`nm_core._element_forces` as it was: one new array per operation."""
+    dn = np.asarray(dn, dtype=float)[:, None]
+    inside = np.clip((f.gamma * dn - f.depth + f.ext) / np.maximum(2 * f.ext, 1e-9), 0.0, 1.0)
+    strain = f.eps_cu * (dn - f.bdepth) / dn
+    stress = np.clip(f.Es * strain, -f.fsy, f.fsy)
+    fbar = (stress - np.where(f.bdepth <= f.bar_gamma * dn, f.bar_conc, 0.0)) * f.ba
+    return f.full * inside, fbar
+
+
+def test_element_forces_in_place_equal_the_expressions(demo):
+    """The in-place element forces of the core N-M equal the expressions they replace, bit for
+    bit, over every angle and depths from a sliver to beyond the section (one case many
+    depths, as the curve; many cases one depth each, as the solve); and the forces' sums."""
+    from xlcore.checks import core_nm
+    from xlcore.mechanics import nm_core
+
+    _, piers, _, plans = demo
+    core = piers.core.iloc[0]
+    p = piers[piers.core == core]
+    storeys = list(dict.fromkeys(p.storey))[:3]
+    asm = core_nm.storey_assemblies(p, plans[core], storeys)
+    theta = np.linspace(-np.pi, np.pi, core_nm.ANGLES, endpoint=False)
+    si, th = np.repeat(np.arange(len(storeys)), len(theta)), np.tile(theta, len(storeys))
+    full = nm_core.full_depth(asm, si, th)
+    rng = np.random.default_rng(7)
+    for row in range(0, len(si), 5):
+        fr = nm_core.frame(asm, si[row : row + 1], th[row : row + 1])
+        dn = full[row] * np.geomspace(1e-3, 1.5, 40)
+        for got, want in zip(nm_core._element_forces(fr, dn), _element_forces_ref(fr, dn), strict=True):
+            np.testing.assert_array_equal(got, want)
+    fr = nm_core.frame(asm, si, th)
+    dn = full * rng.uniform(0.01, 1.2, len(si))
+    for got, want in zip(nm_core._element_forces(fr, dn), _element_forces_ref(fr, dn), strict=True):
+        np.testing.assert_array_equal(got, want)
+    fcon, fbar = _element_forces_ref(fr, dn)
+    n, mx, my = nm_core.forces_in(fr, dn)
+    np.testing.assert_array_equal(n, fcon.sum(axis=1) + fbar.sum(axis=1))
+    np.testing.assert_array_equal(mx, (fcon * fr.fy).sum(axis=1) + (fbar * fr.by).sum(axis=1))
+    np.testing.assert_array_equal(my, (fcon * fr.fx).sum(axis=1) + (fbar * fr.bx).sum(axis=1))
