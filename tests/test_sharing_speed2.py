@@ -453,3 +453,72 @@ def test_element_forces_in_place_equal_the_expressions(demo):
     np.testing.assert_array_equal(n, fcon.sum(axis=1) + fbar.sum(axis=1))
     np.testing.assert_array_equal(mx, (fcon * fr.fy).sum(axis=1) + (fbar * fr.by).sum(axis=1))
     np.testing.assert_array_equal(my, (fcon * fr.fx).sum(axis=1) + (fbar * fr.bx).sum(axis=1))
+
+
+def _one_by_lists(walls, fibre, across):
+    """`nm_core._one` as it was: fibres tested against each earlier wall in turn, lists."""
+    out = {
+        k: []
+        for k in ("fx", "fy", "fa", "eux", "euy", "evx", "evy", "fc", "bx", "by", "ba", "fsy", "vx", "vy")
+    }
+    rects = []
+    for x1, y1, x2, y2, t, fc, fsy, bars in walls:
+        L = float(np.hypot(x2 - x1, y2 - y1))
+        ux, uy = (x2 - x1) / L, (y2 - y1) / L
+        vx, vy = -uy, ux
+        n_along = max(int(np.ceil(L / fibre)), 1)
+        s = (np.arange(n_along) + 0.5) * L / n_along
+        r = (np.arange(across) + 0.5) * t / across - t / 2
+        S, R = np.meshgrid(s, r, indexing="ij")
+        px, py = x1 + ux * S + vx * R, y1 + uy * S + vy * R
+        keep = np.ones(S.shape, dtype=bool)
+        for ax, ay, aux, auy, aL, at in rects:
+            along = (px - ax) * aux + (py - ay) * auy
+            off = -(px - ax) * auy + (py - ay) * aux
+            keep &= ~((along >= 0) & (along <= aL) & (np.abs(off) <= at / 2))
+        rects.append((x1, y1, ux, uy, L, t))
+        k = keep.ravel()
+        out["fx"] += list(px.ravel()[k])
+        out["fy"] += list(py.ravel()[k])
+        out["fa"] += [L / n_along * t / across] * int(k.sum())
+        out["eux"] += [ux * L / n_along / 2] * int(k.sum())
+        out["euy"] += [uy * L / n_along / 2] * int(k.sum())
+        out["evx"] += [vx * t / across / 2] * int(k.sum())
+        out["evy"] += [vy * t / across / 2] * int(k.sum())
+        out["fc"] += [fc] * int(k.sum())
+        for along, off, area in bars:
+            out["bx"].append(x1 + ux * along + vx * off)
+            out["by"].append(y1 + uy * along + vy * off)
+            out["ba"].append(area)
+            out["fsy"].append(fsy)
+        for sa, sb in ((0, -t / 2), (L, -t / 2), (L, t / 2), (0, t / 2)):
+            out["vx"].append(x1 + ux * sa + vx * sb)
+            out["vy"].append(y1 + uy * sa + vy * sb)
+    return {k: np.asarray(v, dtype=float) for k, v in out.items()}
+
+
+def test_fibres_of_every_earlier_wall_at_once_equal_one_at_a_time():
+    """The core section's fibres and bars: corner overlaps dropped against every earlier wall at
+    once give the arrays the wall-by-wall test gave, bit for bit (a box with crossing and
+    slanted walls, a wall without bars, a single wall)."""
+    from xlcore.mechanics import nm_core
+
+    bars = [(100.0, -60.0, 200.0), (900.0, 60.0, 200.0)]
+    walls = [
+        (0.0, 0.0, 6000.0, 0.0, 250, 40, 500, bars),
+        (6000.0, 0.0, 6000.0, 5000.0, 250, 40.0, 500.0, bars),
+        (6000.0, 5000.0, 0.0, 5000.0, 200, 50, 500, []),
+        (0.0, 5000.0, 0.0, 0.0, 300, 40, 450, bars[:1]),
+        (3000.0, -500.0, 3000.0, 5500.0, 250, 40, 500, bars),  # crosses two walls
+        (500.0, 500.0, 2500.0, 2200.0, 180, 32, 500, bars),  # slanted, inside the box
+    ]
+    for ws in (walls, walls[:1], walls[2:3]):
+        got, want = nm_core._one(ws, 100.0, 4), _one_by_lists(ws, 100.0, 4)
+        assert got.keys() == want.keys()
+        for k in got:
+            np.testing.assert_array_equal(got[k], want[k], err_msg=k)
+            assert got[k].dtype == want[k].dtype
+    dropped = len(_one_by_lists(walls, 100.0, 4)["fx"]) < sum(
+        len(_one_by_lists([w], 100.0, 4)["fx"]) for w in walls
+    )
+    assert dropped  # the overlaps are there to drop
