@@ -512,8 +512,10 @@ def test_fibres_of_every_earlier_wall_at_once_equal_one_at_a_time():
         (3000.0, -500.0, 3000.0, 5500.0, 250, 40, 500, bars),  # crosses two walls
         (500.0, 500.0, 2500.0, 2200.0, 180, 32, 500, bars),  # slanted, inside the box
     ]
-    for ws in (walls, walls[:1], walls[2:3]):
-        got, want = nm_core._one(ws, 100.0, 4), _one_by_lists(ws, 100.0, 4)
+    # fibres exactly on an earlier wall's end (one fibre across: on the centreline)
+    tee = [(0.0, 0.0, 1000.0, 0.0, 200, 40, 500, bars), (1000.0, -500.0, 1000.0, 500.0, 200, 40, 500, bars)]
+    for ws, across in ((walls, 4), (walls[:1], 4), (walls[2:3], 4), (tee, 1), (walls, 1)):
+        got, want = nm_core._one(ws, 100.0, across), _one_by_lists(ws, 100.0, across)
         assert got.keys() == want.keys()
         for k in got:
             np.testing.assert_array_equal(got[k], want[k], err_msg=k)
