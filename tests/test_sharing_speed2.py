@@ -524,3 +524,60 @@ def test_fibres_of_every_earlier_wall_at_once_equal_one_at_a_time():
         len(_one_by_lists([w], 100.0, 4)["fx"]) for w in walls
     )
     assert dropped  # the overlaps are there to drop
+
+
+def _share_among_cores_by_storey(piers, plans, core_rows, accidental=0.0):
+    """`cores.share_among_cores` as it was: one part per storey, a sub-table per storey x core."""
+    from xlcore import cores
+
+    rows = core_rows.copy()
+    if "core" not in rows:
+        rows["core"] = ""
+    rows["core"] = rows.core.fillna("").astype(object)
+    own = rows[rows.core != ""].assign(acc=accidental)
+    parts, shares = [own], []
+    piers_at = {(s, c): g for (s, c), g in piers.groupby(["storey", "core"], sort=False)}
+    for storey, cs in rows[rows.core == ""].groupby("storey", sort=False):
+        here = [c for c in plans if storey in plans[c]]
+        if not here:
+            continue
+        if len(here) == 1:
+            parts.append(cs.assign(core=here[0], acc=accidental))
+            continue
+        a, b = cores._share_storey(storey, here, piers_at, plans, cs, accidental)
+        parts.append(a)
+        shares.append(b)
+    actions = pd.concat(parts, ignore_index=True)
+    actions = actions.sort_values("row", kind="stable").reset_index(drop=True)
+    table = pd.concat(shares, ignore_index=True) if shares else pd.DataFrame()
+    return cores.CoreSplit(actions[[k for k in cores.ACTION_KEYS if k in actions]], table)
+
+
+@pytest.mark.parametrize("repeated_rows", [False, True])
+def test_cores_sharing_in_one_part_per_core_equals_one_per_storey(demo, repeated_rows):
+    """The building's rows at storeys of one core taken in one part per core: the same actions
+    and shares as one part per storey, with storeys of two cores, of one (either), of none,
+    rows naming a core, rows out of order and (the general path) row numbers repeated."""
+    from xlcore import cores
+
+    b, piers, _, plans = demo
+    names = list(plans)
+    assert len(names) == 2
+    storeys = list(plans[names[0]])
+    plans = {names[0]: dict(plans[names[0]]), names[1]: dict(plans[names[1]])}
+    for s in storeys[:2]:
+        plans[names[1]].pop(s, None)  # the first core alone
+    plans[names[0]].pop(storeys[2], None)  # the second alone
+    for c in names:
+        plans[c].pop(storeys[3], None)  # no walls: its rows are dropped
+    rows = b.core_actions.copy()
+    rows["core"] = ""
+    rows.loc[rows.index[::7], "core"] = names[0]  # the core's own rows
+    rows = rows.sample(frac=1.0, random_state=8).reset_index(drop=True)
+    if repeated_rows:
+        rows.loc[rows.index[:5], "row"] = rows.row.iloc[5]
+    got = cores.share_among_cores(piers, plans, rows, 0.05)
+    want = _share_among_cores_by_storey(piers, plans, rows, 0.05)
+    pd.testing.assert_frame_equal(got.actions, want.actions, check_exact=True)
+    pd.testing.assert_frame_equal(got.shares, want.shares, check_exact=True)
+    assert set(got.actions.core) == set(names) and len(got.shares)
