@@ -581,3 +581,27 @@ def test_cores_sharing_in_one_part_per_core_equals_one_per_storey(demo, repeated
     pd.testing.assert_frame_equal(got.actions, want.actions, check_exact=True)
     pd.testing.assert_frame_equal(got.shares, want.shares, check_exact=True)
     assert set(got.actions.core) == set(names) and len(got.shares)
+
+
+@pytest.mark.parametrize("blank", [False, True])
+def test_first_per_pier_equals_the_group_by(blank):
+    """Each storey x pier's first value that is not NaN (NaN where none), keys sorted: by codes,
+    the same Series as the group-by's `first` (values, index, its levels and names)."""
+    from xlcore import pipeline
+
+    rng = np.random.default_rng(9)
+    n = 3000
+    t = pd.DataFrame(
+        dict(
+            storey=pd.array(rng.choice(["L2", "L10", "L1"], n), dtype="str"),
+            pier_id=pd.array(rng.choice(["W1-1", "W10", "W2", "B"], n), dtype="str"),
+            hwe=rng.choice([2400.0, 3100.0, np.nan], n),
+        )
+    )
+    t.loc[(t.storey == "L2") & (t.pier_id == "B"), "hwe"] = np.nan  # a pier with no value at all
+    if blank:
+        t.loc[5, "pier_id"] = np.nan  # the group-by leaves it out
+    got = pipeline._first_per_pier(t, "hwe")
+    want = t.groupby(["storey", "pier_id"]).hwe.first()
+    pd.testing.assert_series_equal(got, want, check_exact=True)
+    assert got.index.equals(want.index) and got.isna().any()

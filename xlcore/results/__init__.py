@@ -543,17 +543,21 @@ def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -
 def group_codes(table: pd.DataFrame, columns: list[str]) -> np.ndarray:
     """Integer codes of the rows' groups by `columns` (NaN a group of its own, as
     `groupby(dropna=False)`): the same partition as `groupby(...).ngroup()`, the numbers not
-    (only which rows share a group is read). Each column factorised on its plain array (half
-    the time of pandas' text columns) where no key is missing; else the group-by."""
+    (only which rows share a group is read), non-negative and below a few times the rows.
+    Each column factorised on its plain array (half the time of pandas' text columns) where
+    no key is missing; else the group-by."""
     n = len(table)
     if not columns:
         return np.zeros(n, dtype=np.int64)
-    gid = np.zeros(n, dtype=np.int64)
+    gid, size = np.zeros(n, dtype=np.int64), 1  # codes below `size`
     for c in columns:
         codes, uniques = pd.factorize(table[c].to_numpy())
         if (codes < 0).any():  # a missing key: the group-by's own NaN handling
             return table.groupby(columns, sort=False, dropna=False).ngroup().to_numpy()
-        gid, _ = pd.factorize(gid * max(len(uniques), 1) + codes)
+        gid, size = gid * max(len(uniques), 1) + codes, size * max(len(uniques), 1)
+        if size > 4 * n + 1024:  # numbered afresh where the product of the keys' sizes is large
+            gid, _ = pd.factorize(gid)
+            size = int(gid.max()) + 1
     return gid
 
 
