@@ -290,6 +290,12 @@ def test_natural_rank_and_first_seen_codes_equal_pandas(blank):
     np.testing.assert_array_equal(
         pipeline._first_seen_codes(ids), pd.factorize(ids, use_na_sentinel=False)[0]
     )
+    for same in (np.full(9, "", dtype=object), np.array(["C", "C", np.nan], dtype=object), ids[:0]):
+        got, want = pipeline._first_seen(same), pd.factorize(same, use_na_sentinel=False)
+        np.testing.assert_array_equal(got[0], want[0])
+        assert len(got[1]) == len(want[1]) and all(
+            a == b or (pd.isna(a) and pd.isna(b)) for a, b in zip(got[1], want[1], strict=True)
+        )
 
 
 @pytest.mark.parametrize("blank", [False, True])

@@ -364,7 +364,9 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
 def _first_seen(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """`pd.factorize(values, use_na_sentinel=False)`: codes numbered in order of first
     appearance, NaN a value of its own. Without a NaN, the sentinel factorize, which gives the
-    same and takes a third of the time."""
+    same and takes a third of the time; where every value equals the first, no hashing."""
+    if len(values) and (values == values[0]).all():  # one value (one core): nothing to hash
+        return np.zeros(len(values), dtype=np.intp), values[:1]
     codes, distinct = pd.factorize(values)
     if (codes < 0).any():
         codes, distinct = pd.factorize(values, use_na_sentinel=False)
