@@ -219,6 +219,7 @@ def test_text_columns_from_codes_equal_the_object_arrays():
     from xlcore import distribution
 
     names = distribution.TextCodes()
+    names.codes([7])  # a value no row names, of another type: the columns are of their own values
     parts, raw = [], []
     for storey, walls in (("L1", ["W1", "W10", "W2"]), ("L2", ["W2", "W1"]), ("L1", ["W1"])):
         combos = np.array([0, 2, 1])

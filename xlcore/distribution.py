@@ -305,9 +305,15 @@ def core_actions_to_piers(
     core = core.assign(_combo=combos_of)
     # column arrays per storey, sliced from the whole tables' arrays once (a column of a
     # storey's sub-table costs a pandas look-up each time: 2 400 of them at the L tower)
-    piers = piers.assign(_wall_k=piers.groupby(["storey", "wall_id"], sort=False).k.transform("sum"))
-    piers_at = arrays_by_storey(piers, ["ux", "uy", "wall_id", "pier_id", "k", "_wall_k", "h", "position"])
-    walls_at = arrays_by_storey(walls, ["wall_id", "k", "ux", "uy"])
+    piers = piers.assign(
+        _wall_k=piers.groupby(["storey", "wall_id"], sort=False).k.transform("sum"),
+        _wall=names.codes(piers.wall_id.to_numpy()),  # each table's IDs coded once, not per storey
+        _pier=names.codes(piers.pier_id.to_numpy()),
+    )
+    walls = walls.assign(_wall=names.codes(walls.wall_id.to_numpy()))
+    pier_cols = ["ux", "uy", "wall_id", "_wall", "_pier", "k", "_wall_k", "h", "position"]
+    piers_at = arrays_by_storey(piers, pier_cols)
+    walls_at = arrays_by_storey(walls, ["wall_id", "_wall", "k", "ux", "uy"])
     case_cols = ["row", "_combo", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
     cases_at = arrays_by_storey(core, case_cols + (["acc"] if "acc" in core else []))
     for storey, cs in cases_at.items():
@@ -345,7 +351,7 @@ def core_actions_to_piers(
                 row=np.repeat(rows, n_w),
                 storey=np.full(n_w * n_c, storey_code),
                 combination=np.repeat(combos, n_w),
-                wall_id=np.tile(names.codes(walls_here), n_c),
+                wall_id=np.tile(sw["_wall"], n_c),
                 k=np.tile(sw["k"] * 1e-3, n_c),
                 direct=base.direct.T.ravel(),
                 torsion=torsion.T.ravel(),
@@ -366,7 +372,7 @@ def core_actions_to_piers(
         beside = (sp["position"] > 0) & (local_moment == LOCAL_BESIDE_OPENINGS)
         m_loc = np.where(beside[None, :], np.where(m_in.T >= 0, 1.0, -1.0) * np.abs(v) * h[None, :] / 2, 0.0)
         m_pier = m_in.T + m_loc  # combos x piers
-        pier_ids, pier_walls = sp["pier_id"], sp["wall_id"]
+        pier_walls = sp["wall_id"]
         tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
         source = (
             np.array(
@@ -381,8 +387,8 @@ def core_actions_to_piers(
                 row=np.repeat(rows, n_p),
                 storey=np.full(n_p * n_c, storey_code),
                 combination=np.repeat(combos, n_p),
-                wall_id=tiled(names.codes(pier_walls)),
-                pier_id=tiled(names.codes(pier_ids)),
+                wall_id=tiled(sp["_wall"]),
+                pier_id=tiled(sp["_pier"]),
                 position=tiled(sp["position"]),
                 k=tiled(k_p),
                 share=tiled(share),
@@ -472,6 +478,18 @@ def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np
     return my * ux + mx * uy, mx * ux - my * uy
 
 
+def _text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
+    """A text column of `values[codes]` (`results.text_column`), of the type pandas gives a
+    column of the values present: those no row names are left out first, so that the type is
+    that of exactly the column's values, found on the few of them (a value of another type
+    among the rest would leave an object array for the table to scan row by row)."""
+    values = np.asarray(values, dtype=object)
+    used = np.bincount(codes, minlength=len(values)) > 0
+    if not used.all():
+        codes, values = (np.cumsum(used) - 1)[codes], values[used]
+    return text_column(codes, values)
+
+
 def stack(
     parts: list[dict[str, np.ndarray | None]], columns: list[str] | None = None, texts: dict | None = None
 ) -> pd.DataFrame:
@@ -486,7 +504,7 @@ def stack(
         if parts[0][k] is None:
             out[k] = np.full(sum(len(p["row"]) for p in parts), None, dtype=object)
         elif k in texts:
-            out[k] = text_column(np.concatenate([p[k] for p in parts]), texts[k])
+            out[k] = _text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
         else:
             out[k] = np.concatenate([p[k] for p in parts])
     return pd.DataFrame(out, columns=columns)

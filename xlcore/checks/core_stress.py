@@ -86,6 +86,7 @@ def check_core_stress(
     # text columns as integer codes while the storeys' pieces are made, columns once at the end
     # (`stack`: no object array per storey, no text inferred row by row; 288 000 rows at L)
     names = TextCodes()
+    cols["_wall"] = names.codes(cols["wall_id"])  # the IDs coded once, not per storey
     combos_of, combo_names = pd.factorize(core.combination.to_numpy(), use_na_sentinel=False)
     core = core.assign(_combo=combos_of)
     for storey, cs in arrays_by_storey(core, ["row", "_combo", "n", "mx", "my"]).items():
@@ -125,7 +126,7 @@ def check_core_stress(
                 row=np.repeat(cs["row"], n_w),
                 storey=np.full(n_w * n_c, names.codes([storey])[0]),
                 combination=np.repeat(cs["_combo"], n_w),
-                wall_id=per_wall(names.codes(walls["wall_id"])),
+                wall_id=per_wall(walls["_wall"]),
                 sigma_start=end_sigma[0].T.ravel(),
                 sigma_end=end_sigma[1].T.ravel(),
                 sigma_max=np.maximum.reduceat(sigma, starts, axis=0).T.ravel(),
