@@ -61,7 +61,8 @@ def with_cheapest_fix(summary: pd.DataFrame, advice: pd.DataFrame) -> pd.DataFra
     out["fix"] = ""
     if len(advice):
         text = cheapest_fixes(advice)
-        out["fix"] = [text.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
+        keys = zip(out.storey.to_numpy().tolist(), out.pier_id.to_numpy().tolist(), strict=True)
+        out["fix"] = [text.get(k, "") for k in keys]  # the plain values: not item by item
         none = (out.status == results.FAIL) & (out.fix == "")
         out.loc[none, "fix"] = "no change or pair of changes in the search range passes"
     return out
