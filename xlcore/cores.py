@@ -85,8 +85,17 @@ def share_among_cores(
     rows["core"] = rows.core.fillna("").astype(object)
     own = rows[rows.core != ""].assign(acc=accidental)
     parts, shares = [own], []
-    piers_at = {(s, c): g for (s, c), g in piers.groupby(["storey", "core"], sort=False)}
-    for storey, cs in rows[rows.core == ""].groupby("storey", sort=False):
+    piers_at = _Groups(piers, ["storey", "core"])  # each storey x core's piers, made where asked
+    blank = rows[rows.core == ""]
+    if pd.Index(rows.row).is_unique:
+        # the rows are sorted by `row` below, so the parts' order is free: the storeys of one
+        # core take their rows in one part per core, not one per storey (the L tower: 100)
+        one_of = {s: _alone([c for c in plans if s in plans[c]]) for s in pd.unique(blank.storey)}
+        alone = [one_of.get(storey) for storey in blank.storey.to_numpy()]
+        for core in dict.fromkeys(c for c in alone if c is not None):
+            parts.append(blank[[c == core for c in alone]].assign(core=core, acc=accidental))
+        blank = blank[[c is None for c in alone]]  # several cores, or none: the storeys below
+    for storey, cs in blank.groupby("storey", sort=False):
         here = [c for c in plans if storey in plans[c]]
         if not here:  # no walls at this storey: nothing to share to
             continue
@@ -100,6 +109,23 @@ def share_among_cores(
     actions = actions.sort_values("row", kind="stable").reset_index(drop=True)
     table = pd.concat(shares, ignore_index=True) if shares else pd.DataFrame()
     return CoreSplit(actions[[k for k in ACTION_KEYS if k in actions]], table)
+
+
+def _alone(cores: list[str]) -> str | None:
+    """The one core at a storey, None where there are several or none."""
+    return cores[0] if len(cores) == 1 else None
+
+
+class _Groups:
+    """A table's groups by `keys` as sub-tables, each made when first asked for (a sub-table
+    per storey x core cost more than the sharing where only some storeys have several cores)."""
+
+    def __init__(self, table: pd.DataFrame, keys: list[str]) -> None:
+        self.table = table
+        self.at = table.groupby(keys, sort=False).indices
+
+    def __getitem__(self, key) -> pd.DataFrame:
+        return self.table.iloc[self.at[key]]
 
 
 def _share_storey(storey: str, cores: list[str], piers_at, plans, cs: pd.DataFrame, accidental: float):

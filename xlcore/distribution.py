@@ -14,6 +14,7 @@ import pandas as pd
 
 from xlcore.mechanics import diaphragm, section
 from xlcore.mechanics.stiffness import pier_stiffness, with_stiffness  # noqa: F401  (part of this API)
+from xlcore.results import text_column
 
 COMPOSITE = "composite section"
 FROM_SHEAR = "pier moments from shear"
@@ -54,21 +55,57 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     if "m_out" not in actions:  # optional column
         actions = actions.assign(m_out=np.nan)
     base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
-    direct = _given_for_piers(base, piers[cols])
+    keys = (Coded(base.storey), Coded(base.member))  # each row's text keys hashed once, for both
+    direct = _given_for_piers(base, piers[cols], keys)
     direct["share"] = 1.0
     direct["source"] = "given for the pier"
     cut = piers.loc[piers.position > 0, cols]
-    shared = base.merge(cut, left_on=["storey", "member"], right_on=["storey", "wall_id"])
+    shared = base[_naming(keys, cut.storey, cut.wall_id)].merge(
+        cut, left_on=["storey", "member"], right_on=["storey", "wall_id"]
+    )  # the merge of only the rows that have a match: the same rows, in the same order
     if len(shared):
         shared = _share_wall(shared, method)
     out = pd.concat([direct, shared], ignore_index=True)
     return out[ACTION_COLUMNS]
 
 
-def _given_for_piers(base: pd.DataFrame, piers: pd.DataFrame) -> pd.DataFrame:
+class Coded:
+    """A column's values as integer codes of its distinct values (NaN: -1), so that looking its
+    rows up in a small table hashes each distinct value once, not every row."""
+
+    def __init__(self, values) -> None:
+        self.codes, self.values = pd.factorize(np.asarray(values))
+
+    def __len__(self) -> int:
+        return len(self.codes)
+
+    def indexer(self, index: pd.Index) -> np.ndarray:
+        """`index.get_indexer(values)` (-1 where a value is not in `index`; NaN never is, as in
+        an index without NaN, the only kind asked)."""
+        return np.where(self.codes >= 0, index.get_indexer(self.values)[self.codes], -1)
+
+
+def _naming(keys: tuple[Coded, Coded], table_a, table_b) -> np.ndarray:
+    """Whether each row's key pair (`keys`) is among the table's pairs (table_a, table_b), as an
+    inner merge matches them; all True where the table has a blank key (the merge decides)."""
+    ta, tb = pd.Series(table_a), pd.Series(table_b)
+    a, b = keys
+    if ta.isna().any() or tb.isna().any():
+        return np.ones(len(a), dtype=bool)
+    ca = pd.Index(a.values).get_indexer(ta)  # codes of the table's pairs among the rows' keys
+    cb = pd.Index(b.values).get_indexer(tb)
+    there = (ca >= 0) & (cb >= 0)
+    pairs = np.unique(ca[there] * len(b.values) + cb[there])
+    return (a.codes >= 0) & (b.codes >= 0) & np.isin(a.codes * len(b.values) + b.codes, pairs)
+
+
+def _given_for_piers(
+    base: pd.DataFrame, piers: pd.DataFrame, keys: tuple[Coded, Coded] | None = None
+) -> pd.DataFrame:
     """The action rows naming a pier, with its columns: the inner merge on storey x member =
-    pier_id, by position where each pier is one row (no merge of 360 000 rows of text)."""
-    at = rows_of(base.storey, base.member, piers.storey, piers.pier_id)
+    pier_id, by position where each pier is one row (no merge of 360 000 rows of text).
+    `keys`: the rows' storey and member, `Coded` once by the caller."""
+    at = rows_of(*(keys or (base.storey, base.member)), piers.storey, piers.pier_id)
     if at is None:
         return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
     found = at >= 0
@@ -78,8 +115,8 @@ def _given_for_piers(base: pd.DataFrame, piers: pd.DataFrame) -> pd.DataFrame:
 
 def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
     """Each pair (a, b)'s row in a table of pairs (table_a, table_b), -1 where it has none, by
-    integer codes of each key (no joined text). None where the table's pairs are not unique or
-    one is blank: a merge must then decide."""
+    integer codes of each key (no joined text); `a`, `b` columns or `Coded`. None where the
+    table's pairs are not unique or one is blank: a merge must then decide."""
     ta, tb = pd.Series(table_a), pd.Series(table_b)
     if ta.isna().any() or tb.isna().any():
         return None
@@ -89,7 +126,7 @@ def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
         return None
     row_of = np.full(len(ia) * len(ib), -1)
     row_of[own] = np.arange(len(own))
-    ca, cb = ia.get_indexer(a), ib.get_indexer(b)
+    ca, cb = (x.indexer(i) if isinstance(x, Coded) else i.get_indexer(x) for x, i in ((a, ia), (b, ib)))
     return np.where((ca >= 0) & (cb >= 0), row_of[np.maximum(ca, 0) * len(ib) + np.maximum(cb, 0)], -1)
 
 
@@ -149,17 +186,21 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
     """Net section and centre of rigidity of every storey."""
     out = {}
     seen: dict[bytes, StoreyPlan] = {}  # storeys alike in plan, thickness and stiffness share one
-    walls_at = by_storey(walls)
-    for storey, sp in piers.groupby("storey", sort=False):
-        sw = walls_at[storey]
-        key = _plan_key(sp, sw)
+    # each storey's rows by position in arrays of the whole tables (a sub-table per storey cost
+    # more than the plans themselves where storeys repeat); a sub-table only for a new plan
+    plan_cols, wall_cols = piers[PLAN_COLUMNS].to_numpy(float), walls[WALL_COLUMNS].to_numpy(float)
+    wall_ids = walls.wall_id.to_numpy()
+    piers_at = piers.groupby("storey", sort=False).indices
+    walls_at = walls.groupby("storey", sort=False).indices
+    for storey in pd.unique(piers.storey):
+        ip, iw = piers_at[storey], walls_at[storey]
+        key = _plan_key_of(plan_cols[ip], wall_cols[iw], wall_ids[iw])
         if key in seen:
             out[storey] = seen[key]
             continue
-        pieces = section.disjoint_pieces(sp)
-        st = diaphragm.Storey(
-            sw.k.to_numpy(), sw.ux.to_numpy(), sw.uy.to_numpy(), sw.mx.to_numpy(), sw.my.to_numpy()
-        )
+        pieces = section.disjoint_pieces(piers.iloc[ip])
+        k, ux, uy, mx, my = (np.ascontiguousarray(wall_cols[iw, j]) for j in range(len(WALL_COLUMNS)))
+        st = diaphragm.Storey(k, ux, uy, mx, my)
         try:
             centre = diaphragm.centre_of_rigidity(st)
         except diaphragm.Unstable:
@@ -170,13 +211,25 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
     return out
 
 
+PLAN_COLUMNS = ["px1", "py1", "px2", "py2", "tw"]  # the piers' plan rectangles
+WALL_COLUMNS = ["k", "ux", "uy", "mx", "my"]  # the walls' stiffness and lines of action
+
+
 def _plan_key(sp: pd.DataFrame, sw: pd.DataFrame) -> bytes:
     """Everything a storey plan is made from: the piers' plan rectangles in order and the
     walls' stiffness and lines of action."""
+    return _plan_key_of(
+        sp[PLAN_COLUMNS].to_numpy(float), sw[WALL_COLUMNS].to_numpy(float), sw.wall_id.to_numpy()
+    )
+
+
+def _plan_key_of(plan: np.ndarray, walls: np.ndarray, wall_ids: np.ndarray) -> bytes:
+    """`_plan_key` from a storey's rows of the arrays (rows x `PLAN_COLUMNS`, rows x
+    `WALL_COLUMNS`, wall IDs)."""
     parts = [
-        sp[["px1", "py1", "px2", "py2", "tw"]].to_numpy(float).tobytes(),
-        sw[["k", "ux", "uy", "mx", "my"]].to_numpy(float).tobytes(),
-        "\x1f".join(map(str, sw.wall_id)).encode(),
+        np.ascontiguousarray(plan).tobytes(),
+        np.ascontiguousarray(walls).tobytes(),
+        "\x1f".join(map(str, wall_ids)).encode(),
     ]
     return b"\x1e".join(parts)
 
@@ -245,12 +298,23 @@ def core_actions_to_piers(
     actions then replaced); `wall_v` (the wall's V* the pier shares) is kept for it.
     """
     pier_rows, wall_rows = [], []
+    # text columns as integer codes while the storeys' pieces are made, a column once at the end
+    # (`stack`): no object array per storey, no text inferred row by row (648 000 rows at L)
+    names = TextCodes()  # storeys, walls and piers
+    combos_of, combo_names = pd.factorize(core.combination.to_numpy(), use_na_sentinel=False)
+    core = core.assign(_combo=combos_of)
     # column arrays per storey, sliced from the whole tables' arrays once (a column of a
     # storey's sub-table costs a pandas look-up each time: 2 400 of them at the L tower)
-    piers = piers.assign(_wall_k=piers.groupby(["storey", "wall_id"], sort=False).k.transform("sum"))
-    piers_at = arrays_by_storey(piers, ["ux", "uy", "wall_id", "pier_id", "k", "_wall_k", "h", "position"])
-    walls_at = arrays_by_storey(walls, ["wall_id", "k", "ux", "uy"])
-    case_cols = ["row", "combination", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
+    piers = piers.assign(
+        _wall_k=piers.groupby(["storey", "wall_id"], sort=False).k.transform("sum"),
+        _wall=names.codes(piers.wall_id.to_numpy()),  # each table's IDs coded once, not per storey
+        _pier=names.codes(piers.pier_id.to_numpy()),
+    )
+    walls = walls.assign(_wall=names.codes(walls.wall_id.to_numpy()))
+    pier_cols = ["ux", "uy", "wall_id", "_wall", "_pier", "k", "_wall_k", "h", "position"]
+    piers_at = arrays_by_storey(piers, pier_cols)
+    walls_at = arrays_by_storey(walls, ["wall_id", "_wall", "k", "ux", "uy"])
+    case_cols = ["row", "_combo", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
     cases_at = arrays_by_storey(core, case_cols + (["acc"] if "acc" in core else []))
     for storey, cs in cases_at.items():
         sp, sw = piers_at[storey], walls_at[storey]
@@ -280,13 +344,14 @@ def core_actions_to_piers(
         along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank when not finite
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
-        rows, combos = cs["row"], cs["combination"]
+        rows, combos = cs["row"], cs["_combo"]
+        storey_code = names.codes([storey])[0]
         wall_rows.append(
             dict(
                 row=np.repeat(rows, n_w),
-                storey=np.full(n_w * n_c, storey, dtype=object),
+                storey=np.full(n_w * n_c, storey_code),
                 combination=np.repeat(combos, n_w),
-                wall_id=np.tile(walls_here, n_c),
+                wall_id=np.tile(sw["_wall"], n_c),
                 k=np.tile(sw["k"] * 1e-3, n_c),
                 direct=base.direct.T.ravel(),
                 torsion=torsion.T.ravel(),
@@ -307,34 +372,60 @@ def core_actions_to_piers(
         beside = (sp["position"] > 0) & (local_moment == LOCAL_BESIDE_OPENINGS)
         m_loc = np.where(beside[None, :], np.where(m_in.T >= 0, 1.0, -1.0) * np.abs(v) * h[None, :] / 2, 0.0)
         m_pier = m_in.T + m_loc  # combos x piers
-        pier_ids, pier_walls = sp["pier_id"], sp["wall_id"]
+        pier_walls = sp["wall_id"]
         tiled = lambda a, n_c=n_c: np.tile(a, n_c)  # noqa: E731
         source = (
-            core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel())
+            np.array(
+                core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel()),
+                dtype=object,
+            )
             if text
-            else np.full(n_p * n_c, None, dtype=object)
+            else None  # blank, made once for every row (`stack`)
         )
         pier_rows.append(
             dict(
                 row=np.repeat(rows, n_p),
-                storey=np.full(n_p * n_c, storey, dtype=object),
+                storey=np.full(n_p * n_c, storey_code),
                 combination=np.repeat(combos, n_p),
-                wall_id=tiled(pier_walls),
-                pier_id=tiled(pier_ids),
+                wall_id=tiled(sp["_wall"]),
+                pier_id=tiled(sp["_pier"]),
                 position=tiled(sp["position"]),
                 k=tiled(k_p),
                 share=tiled(share),
                 n=n_piece.T.ravel(),
                 v=v.ravel(),
                 m=m_pier.ravel(),
-                source=np.array(source, dtype=object),
+                source=source,
                 m_curv=m_in.T.ravel(),
                 m_local=m_loc.ravel(),
                 m_oop=m_oop.T.ravel(),
                 wall_v=wall_v.ravel(),
             )
         )
-    return CoreSharing(stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA), stack(wall_rows))
+    texts = dict(storey=names.values, wall_id=names.values, pier_id=names.values, combination=combo_names)
+    return CoreSharing(
+        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts)
+    )
+
+
+class TextCodes:
+    """Integer codes of text values (IDs, names) for tables assembled in pieces: each distinct
+    value numbered once (by type and value, so 1 and '1' stay apart), `values` the texts."""
+
+    def __init__(self) -> None:
+        self.values: list = []
+        self._code: dict = {}
+
+    def codes(self, values) -> np.ndarray:
+        out = np.empty(len(values), dtype=np.int64)
+        for i, v in enumerate(values):
+            key = (type(v), v)
+            code = self._code.get(key)
+            if code is None:
+                code = self._code[key] = len(self.values)
+                self.values.append(v)
+            out[i] = code
+        return out
 
 
 def arrays_by_storey(df: pd.DataFrame, columns: list[str]) -> dict[str, dict[str, np.ndarray]]:
@@ -387,8 +478,33 @@ def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np
     return my * ux + mx * uy, mx * ux - my * uy
 
 
-def stack(parts: list[dict[str, np.ndarray]], columns: list[str] | None = None) -> pd.DataFrame:
-    """One table from per-storey column arrays."""
+def _text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
+    """A text column of `values[codes]` (`results.text_column`), of the type pandas gives a
+    column of the values present: those no row names are left out first, so that the type is
+    that of exactly the column's values, found on the few of them (a value of another type
+    among the rest would leave an object array for the table to scan row by row)."""
+    values = np.asarray(values, dtype=object)
+    used = np.bincount(codes, minlength=len(values)) > 0
+    if not used.all():
+        codes, values = (np.cumsum(used) - 1)[codes], values[used]
+    return text_column(codes, values)
+
+
+def stack(
+    parts: list[dict[str, np.ndarray | None]], columns: list[str] | None = None, texts: dict | None = None
+) -> pd.DataFrame:
+    """One table from per-storey column arrays. `texts`: columns given as integer codes into
+    these values (`TextCodes`), made text columns once (`results.text_column`: the type a
+    column of those strings takes); a column given as None in every piece is blank (None)."""
     if not parts:
         return pd.DataFrame(columns=columns)
-    return pd.DataFrame({k: np.concatenate([p[k] for p in parts]) for k in parts[0]}, columns=columns)
+    texts = texts or {}
+    out = {}
+    for k in parts[0]:
+        if parts[0][k] is None:
+            out[k] = np.full(sum(len(p["row"]) for p in parts), None, dtype=object)
+        elif k in texts:
+            out[k] = _text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
+        else:
+            out[k] = np.concatenate([p[k] for p in parts])
+    return pd.DataFrame(out, columns=columns)

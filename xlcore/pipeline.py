@@ -149,7 +149,7 @@ def compute(
         else:
             shear = check_pier_shear(piers, acts, s)
             axial = check_pier_axial(piers, acts, s)
-        hwe = axial.groupby(["storey", "pier_id"]).hwe.first() if len(axial) else None
+        hwe = _first_per_pier(axial, "hwe") if len(axial) else None
         detailing = check_detailing(piers, acts, s, hwe, shear=shear)
         section14 = check_section14(piers, acts, s, hwe)
         cand = candidates(shear, axial, detailing, section14)  # once for both tables below
@@ -294,11 +294,48 @@ def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) 
     return parts[0] if parts else pd.DataFrame()
 
 
+def _first_per_pier(table: pd.DataFrame, col: str) -> pd.Series:
+    """`table.groupby(["storey", "pier_id"])[col].first()` (each storey x pier's first value
+    that is not NaN, NaN where none; keys sorted): by integer codes of the keys, the index made
+    from each group's first row (the group-by factorised the text keys of 360 000 rows at L).
+    The group-by itself where a key is blank or the column is not of floats."""
+    keys = ["storey", "pier_id"]
+    v = table[col].to_numpy()
+    s, s_values = pd.factorize(table.storey.to_numpy())
+    p, p_values = pd.factorize(table.pier_id.to_numpy())
+    if v.dtype.kind != "f" or (s < 0).any() or (p < 0).any():
+        return table.groupby(keys)[col].first()
+    g = s.astype(np.int64) * max(len(p_values), 1) + p
+    n, size = len(g), len(s_values) * max(len(p_values), 1)
+    first, first_valid = np.full(size, n), np.full(size, n)
+    np.minimum.at(first, g, np.arange(n))
+    valid = np.flatnonzero(~np.isnan(v))
+    np.minimum.at(first_valid, g[valid], valid)
+    present = np.flatnonzero(first < n)
+    at = first_valid[present]
+    values = np.where(at < n, v[np.minimum(at, n - 1)], np.nan)
+    index = pd.MultiIndex.from_frame(table[keys].iloc[first[present]])
+    return pd.Series(values, index=index, name=col).sort_index()
+
+
 def _pairs_in(df: pd.DataFrame, other: pd.DataFrame) -> np.ndarray:
     """Whether each row's storey x combination is among `other`'s (hashed pairs, no joined
-    text per row: the L tower has 360 000 member-action rows)."""
+    text per row: the L tower has 360 000 member-action rows). `other`'s distinct pairs are
+    found on integer codes first, so only those few are made text."""
     key = lambda d: pd.MultiIndex.from_arrays([d.storey.astype(str), d.combination.astype(str)])  # noqa: E731
-    return key(df).isin(key(other).unique())
+    return key(df).isin(key(_distinct_pairs(other)).unique())
+
+
+def _distinct_pairs(df: pd.DataFrame) -> pd.DataFrame:
+    """The first row of each distinct (storey, combination) of `df`, a few rows of the same
+    columns: found on integer codes of each column, no text per row (`df` itself where a key
+    is blank: None and NaN share a code but not a text)."""
+    s, s_values = pd.factorize(df.storey.to_numpy())
+    c, c_values = pd.factorize(df.combination.to_numpy())
+    if (s < 0).any() or (c < 0).any():
+        return df
+    pair = s.astype(np.int64) * max(len(c_values), 1) + c
+    return df.iloc[np.flatnonzero(~pd.Index(pair).duplicated())]
 
 
 def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = True) -> pd.DataFrame:
@@ -316,12 +353,39 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
     out = pd.concat([w, p], ignore_index=True)
     out["used"] = results.text_column(out.row.isin(given), ["yes", "no: member actions given"])
     out["kind_order"] = np.repeat([0, 1], [len(w), len(p)])  # walls first, then piers
-    out["core_order"] = pd.factorize(out.core, use_na_sentinel=False)[0]  # order of first appearance
+    out["core_order"] = _first_seen_codes(out.core.to_numpy())  # order of first appearance
     # by row, core, walls before piers, member in natural order; a stable sort on integer keys
     # (what sort_values on these columns does, without its per-column factorising)
-    keys = (geometry.natural_rank(out.member), out.kind_order, out.core_order, out.row)
-    out = out.take(np.lexsort([k.to_numpy() for k in keys])).reset_index(drop=True)
+    keys = (_natural_rank(out.member.to_numpy()), out.kind_order.to_numpy(), out.core_order.to_numpy())
+    out = out.take(np.lexsort([*keys, out.row.to_numpy()])).reset_index(drop=True)
     return core_working(out) if text else out
+
+
+def _first_seen(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`pd.factorize(values, use_na_sentinel=False)`: codes numbered in order of first
+    appearance, NaN a value of its own. Without a NaN, the sentinel factorize, which gives the
+    same and takes a third of the time; where every value equals the first, no hashing."""
+    if len(values) and (values == values[0]).all():  # one value (one core): nothing to hash
+        return np.zeros(len(values), dtype=np.intp), values[:1]
+    codes, distinct = pd.factorize(values)
+    if (codes < 0).any():
+        codes, distinct = pd.factorize(values, use_na_sentinel=False)
+    return codes, distinct
+
+
+def _first_seen_codes(values: np.ndarray) -> np.ndarray:
+    return _first_seen(values)[0]
+
+
+def _natural_rank(ids: np.ndarray) -> np.ndarray:
+    """`geometry.natural_rank` of many rows of few IDs: the IDs numbered in order of first
+    appearance (the order `pd.unique` gives), those few put in natural order (the same stable
+    sort on the same sequence), each row's rank taken by its number."""
+    codes, distinct = _first_seen(ids)
+    order = sorted(range(len(distinct)), key=lambda i: geometry._natural(str(distinct[i])))
+    rank = np.empty(len(distinct), dtype=np.int64)
+    rank[order] = np.arange(len(distinct))
+    return rank[codes]
 
 
 def core_working(rows: pd.DataFrame) -> pd.DataFrame:

@@ -13,7 +13,6 @@ from xlcore.checks import plain
 from xlcore.checks.axial import pier_bars
 from xlcore.codes import get_standard
 from xlcore.codes.base import SectionState, Standard
-from xlcore.distribution import by_storey
 from xlcore.geometry import ZONE_COLUMNS
 from xlcore.mechanics import nm_core
 from xlcore.model import Settings
@@ -32,9 +31,9 @@ def storey_assemblies(
     stress block of `std` (default AS 3600)."""
     std = std or get_standard("AS 3600:2018")
     walls_per_storey, centroids = [], []
-    piers_at = by_storey(piers)
+    rows_at = piers.groupby("storey", sort=False).indices  # the storeys asked only, not every one
     for storey in storeys:
-        sp = piers_at[storey]
+        sp = piers.iloc[rows_at[storey]]
         d, area = pier_bars(
             *(sp[k].to_numpy(dtype=float) for k in ("Lw", "tw", "v_dia", "v_spacing", "v_layers", "cover")),
             zones=sp,
@@ -62,10 +61,19 @@ def storey_assemblies(
     )
 
 
-def _section_key(sp: pd.DataFrame, sec) -> tuple:
+def _key_columns(sp: pd.DataFrame) -> list[str]:
+    """What a storey's section is made from (`storey_assemblies`), beside its centroid."""
     cols = ["px1", "py1", "px2", "py2", "tw", "fc", "fsy", "v_dia", "v_spacing", "v_layers", "cover"]
-    cols += [c for c in ZONE_COLUMNS if c in sp and not c.endswith("_ties")]
-    return (tuple(map(tuple, sp[cols].round(6).to_numpy())), round(sec.xc, 9), round(sec.yc, 9))
+    return cols + [c for c in ZONE_COLUMNS if c in sp and not c.endswith("_ties")]
+
+
+def _section_key(sp: pd.DataFrame, sec) -> tuple:
+    return _key_of(sp[_key_columns(sp)].round(6).to_numpy(), sec)
+
+
+def _key_of(values: np.ndarray, sec) -> tuple:
+    """A storey's section key from its piers' rounded key columns (`_key_columns`)."""
+    return (tuple(map(tuple, values)), round(sec.xc, 9), round(sec.yc, 9))
 
 
 def check_core_nm(
@@ -85,9 +93,12 @@ def check_core_nm(
     # storeys with the same walls, grades and bars share one section: solve each section once
     by_key: dict[tuple, str] = {}
     section_of = {}
-    piers_at = by_storey(piers)
+    # the key columns rounded once for every storey, each storey's rows sliced by position (a
+    # sub-table per storey cost more than the sections' keys themselves); the same keys
+    values = piers[_key_columns(piers)].round(6).to_numpy()
+    rows_at = piers.groupby("storey", sort=False).indices
     for storey in dict.fromkeys(core.storey):
-        key = _section_key(piers_at[storey], plans[storey].section)
+        key = _key_of(values[rows_at[storey]], plans[storey].section)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
     asm = storey_assemblies(piers, plans, storeys, std)

@@ -12,7 +12,7 @@ import pandas as pd
 from xlcore.checks import plain
 from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import StoreyPlan, arrays_by_storey, stack
+from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, stack
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column
@@ -83,7 +83,13 @@ def check_core_stress(
     zones_at = pd.Series(piers.storey.to_numpy()[zp_all]).groupby(piers.storey.to_numpy()[zp_all]).indices
     first = ~piers.duplicated(["storey", "wall_id"]).to_numpy()  # each wall's first pier at a storey
     cols = {k: piers[k].to_numpy() for k in ("wall_id", "wx", "wy", "ux", "uy", "wall_length", "fsy", "fc")}
-    for storey, cs in arrays_by_storey(core, ["row", "combination", "n", "mx", "my"]).items():
+    # text columns as integer codes while the storeys' pieces are made, columns once at the end
+    # (`stack`: no object array per storey, no text inferred row by row; 288 000 rows at L)
+    names = TextCodes()
+    cols["_wall"] = names.codes(cols["wall_id"])  # the IDs coded once, not per storey
+    combos_of, combo_names = pd.factorize(core.combination.to_numpy(), use_na_sentinel=False)
+    core = core.assign(_combo=combos_of)
+    for storey, cs in arrays_by_storey(core, ["row", "_combo", "n", "mx", "my"]).items():
         here = piers_at[storey]
         sec = plans[storey].section
         a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
@@ -118,9 +124,9 @@ def check_core_stress(
         parts.append(
             dict(
                 row=np.repeat(cs["row"], n_w),
-                storey=np.full(n_w * n_c, storey, dtype=object),
-                combination=np.repeat(cs["combination"], n_w),
-                wall_id=per_wall(walls["wall_id"]),
+                storey=np.full(n_w * n_c, names.codes([storey])[0]),
+                combination=np.repeat(cs["_combo"], n_w),
+                wall_id=per_wall(walls["_wall"]),
                 sigma_start=end_sigma[0].T.ravel(),
                 sigma_end=end_sigma[1].T.ravel(),
                 sigma_max=np.maximum.reduceat(sigma, starts, axis=0).T.ravel(),
@@ -134,7 +140,7 @@ def check_core_stress(
                 limit=per_wall(limit * fc),
             )
         )
-    df = stack(parts)
+    df = stack(parts, texts=dict(storey=names.values, wall_id=names.values, combination=combo_names))
     if df.empty:
         return df
     with np.errstate(divide="ignore", invalid="ignore"):

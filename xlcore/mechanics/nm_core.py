@@ -93,11 +93,9 @@ def build(
 
 
 def _one(walls: list[tuple], fibre: float, across: int) -> dict[str, np.ndarray]:
-    out: dict[str, list] = {
-        k: []
-        for k in ("fx", "fy", "fa", "eux", "euy", "evx", "evy", "fc", "bx", "by", "ba", "fsy", "vx", "vy")
-    }
-    rects = []
+    keys = ("fx", "fy", "fa", "eux", "euy", "evx", "evy", "fc", "bx", "by", "ba", "fsy", "vx", "vy")
+    out: dict[str, list[np.ndarray]] = {k: [] for k in keys}
+    rects: list[tuple] = []
     for x1, y1, x2, y2, t, fc, fsy, bars in walls:
         L = float(np.hypot(x2 - x1, y2 - y1))
         ux, uy = (x2 - x1) / L, (y2 - y1) / L
@@ -107,30 +105,43 @@ def _one(walls: list[tuple], fibre: float, across: int) -> dict[str, np.ndarray]
         r = (np.arange(across) + 0.5) * t / across - t / 2
         S, R = np.meshgrid(s, r, indexing="ij")
         px, py = x1 + ux * S + vx * R, y1 + uy * S + vy * R
-        keep = np.ones(S.shape, dtype=bool)
-        for ax, ay, aux, auy, aL, at in rects:  # drop fibres already inside an earlier wall
-            along = (px - ax) * aux + (py - ay) * auy
-            off = -(px - ax) * auy + (py - ay) * aux
-            keep &= ~((along >= 0) & (along <= aL) & (np.abs(off) <= at / 2))
+        k = ~_inside_any(px.ravel(), py.ravel(), rects)  # drop fibres already inside an earlier wall
         rects.append((x1, y1, ux, uy, L, t))
-        k = keep.ravel()
-        out["fx"] += list(px.ravel()[k])
-        out["fy"] += list(py.ravel()[k])
-        out["fa"] += [L / n_along * t / across] * int(k.sum())
-        out["eux"] += [ux * L / n_along / 2] * int(k.sum())
-        out["euy"] += [uy * L / n_along / 2] * int(k.sum())
-        out["evx"] += [vx * t / across / 2] * int(k.sum())
-        out["evy"] += [vy * t / across / 2] * int(k.sum())
-        out["fc"] += [fc] * int(k.sum())
-        for along, off, area in bars:
+        count = int(k.sum())
+        out["fx"].append(px.ravel()[k])
+        out["fy"].append(py.ravel()[k])
+        for key, value in (
+            ("fa", L / n_along * t / across),
+            ("eux", ux * L / n_along / 2),
+            ("euy", uy * L / n_along / 2),
+            ("evx", vx * t / across / 2),
+            ("evy", vy * t / across / 2),
+            ("fc", fc),
+        ):
+            out[key].append(np.full(count, value, dtype=float))
+        if bars:
+            along, off, area = (np.array(c, dtype=float) for c in zip(*bars, strict=True))
             out["bx"].append(x1 + ux * along + vx * off)
             out["by"].append(y1 + uy * along + vy * off)
             out["ba"].append(area)
-            out["fsy"].append(fsy)
+            out["fsy"].append(np.full(len(bars), fsy, dtype=float))
         for sa, sb in ((0, -t / 2), (L, -t / 2), (L, t / 2), (0, t / 2)):
-            out["vx"].append(x1 + ux * sa + vx * sb)
-            out["vy"].append(y1 + uy * sa + vy * sb)
-    return {k: np.asarray(v, dtype=float) for k, v in out.items()}
+            out["vx"].append(np.array([x1 + ux * sa + vx * sb], dtype=float))
+            out["vy"].append(np.array([y1 + uy * sa + vy * sb], dtype=float))
+    return {k: np.concatenate(v) if v else np.zeros(0) for k, v in out.items()}
+
+
+def _inside_any(px: np.ndarray, py: np.ndarray, rects: list[tuple]) -> np.ndarray:
+    """Whether each point lies inside any of the rectangles (x1, y1, ux, uy, L, t): a wall's
+    centreline from (x1, y1) along (ux, uy), L long, t thick. Every rectangle at once (the
+    same arithmetic per point and rectangle as one at a time)."""
+    if not rects:
+        return np.zeros(len(px), dtype=bool)
+    ax, ay, aux, auy, a_len, a_t = (np.array(c, dtype=float)[None, :] for c in zip(*rects, strict=True))
+    dx, dy = px[:, None] - ax, py[:, None] - ay
+    along = dx * aux + dy * auy
+    off = -dx * auy + dy * aux
+    return ((along >= 0) & (along <= a_len) & (np.abs(off) <= a_t / 2)).any(axis=1)
 
 
 def _frame(a: Assembly, idx, theta):
@@ -193,12 +204,27 @@ def frame(a: Assembly, idx, theta) -> Frame:
 
 
 def _element_forces(f: Frame, dn) -> tuple[np.ndarray, np.ndarray]:
+    """Concrete and bar forces at depths `dn` (cases x fibres, cases x bars). Worked in place
+    on one array each, in the order of the expression it replaces (the same numbers to the
+    last bit: each step is the same operation on the same operands), so that a curve of a
+    hundred depths over ten thousand fibres does not allocate six arrays of its size."""
     dn = np.asarray(dn, dtype=float)[:, None]
-    inside = np.clip((f.gamma * dn - f.depth + f.ext) / np.maximum(2 * f.ext, 1e-9), 0.0, 1.0)
-    strain = f.eps_cu * (dn - f.bdepth) / dn
-    stress = np.clip(f.Es * strain, -f.fsy, f.fsy)
-    fbar = (stress - np.where(f.bdepth <= f.bar_gamma * dn, f.bar_conc, 0.0)) * f.ba
-    return f.full * inside, fbar
+    # inside = clip((gamma dn - depth + ext) / max(2 ext, 1e-9), 0, 1); fcon = full x inside
+    fcon = np.subtract(f.gamma * dn, f.depth)
+    fcon += f.ext
+    fcon /= np.maximum(2 * f.ext, 1e-9)
+    np.clip(fcon, 0.0, 1.0, out=fcon)
+    fcon *= f.full
+    # strain = eps_cu (dn - bdepth) / dn; stress = clip(Es strain, -fsy, fsy)
+    fbar = np.subtract(dn, f.bdepth)
+    fbar *= f.eps_cu
+    fbar /= dn
+    fbar *= f.Es
+    np.clip(fbar, -f.fsy, f.fsy, out=fbar)
+    # less the concrete the bar displaces inside the block; times the bar's area
+    fbar -= np.where(f.bdepth <= f.bar_gamma * dn, f.bar_conc, 0.0)
+    fbar *= f.ba
+    return fcon, fbar
 
 
 def axial(f: Frame, dn) -> np.ndarray:
@@ -209,8 +235,9 @@ def axial(f: Frame, dn) -> np.ndarray:
 def forces_in(f: Frame, dn) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     fcon, fbar = _element_forces(f, dn)
     n = fcon.sum(axis=1) + fbar.sum(axis=1)
-    mx = (fcon * f.fy).sum(axis=1) + (fbar * f.by).sum(axis=1)
-    my = (fcon * f.fx).sum(axis=1) + (fbar * f.bx).sum(axis=1)
+    arm = np.multiply(fcon, f.fy)  # one array for both lever-arm products (the same sums)
+    mx = arm.sum(axis=1) + (fbar * f.by).sum(axis=1)
+    my = np.multiply(fcon, f.fx, out=arm).sum(axis=1) + (fbar * f.bx).sum(axis=1)
     return n, mx, my
 
 

@@ -518,30 +518,64 @@ GOVERNING: dict[str, Governing] = {
 
 
 def governing_rows(table: pd.DataFrame, rule: Governing, failing: bool = True) -> np.ndarray:
-    """Boolean mask of the rows `rule` keeps (see `Governing`), vectorised: one stable sort
-    per `worst` column, the first row of each group after it; without `failing`, the failing
-    rows that do not govern are left out too."""
+    """Boolean mask of the rows `rule` keeps (see `Governing`), vectorised: per `worst` column
+    each group's first row of the largest value (`first_max`, what a stable sort by group,
+    largest first, then table order, puts first); without `failing`, the failing rows that do
+    not govern are left out too."""
     n = len(table)
     keep = np.zeros(n, dtype=bool)
     if n == 0:
         return keep
     group = [g for g in rule.group if g in table]  # e.g. `core` only where the table has it
-    gid = table.groupby(group, sort=False, dropna=False).ngroup().to_numpy() if group else np.zeros(n, int)
-    pos = np.arange(n)
+    gid = group_codes(table, group)
     for col in rule.worst:
         if col not in table:
             continue
         v = pd.to_numeric(table[col], errors="coerce").to_numpy(dtype=float)
         if col in rule.magnitude:
             v = np.abs(v)
-        v = np.where(np.isnan(v), -np.inf, v)
-        order = np.lexsort((pos, -v, gid))  # by group, largest first, then table order
-        first = np.ones(n, dtype=bool)
-        first[1:] = gid[order][1:] != gid[order][:-1]
-        keep[order[first]] = True
+        keep[first_max(np.where(np.isnan(v), -np.inf, v), gid)] = True
     if failing:
         keep |= failing_rows(table, rule)
     return keep
+
+
+def group_codes(table: pd.DataFrame, columns: list[str]) -> np.ndarray:
+    """Integer codes of the rows' groups by `columns` (NaN a group of its own, as
+    `groupby(dropna=False)`): the same partition as `groupby(...).ngroup()`, the numbers not
+    (only which rows share a group is read), non-negative and below a few times the rows.
+    Each column factorised on its plain array (half the time of pandas' text columns) where
+    no key is missing; else the group-by."""
+    n = len(table)
+    if not columns:
+        return np.zeros(n, dtype=np.int64)
+    gid, size = np.zeros(n, dtype=np.int64), 1  # codes below `size`
+    for c in columns:
+        codes, uniques = pd.factorize(table[c].to_numpy())
+        if (codes < 0).any():  # a missing key: the group-by's own NaN handling
+            return table.groupby(columns, sort=False, dropna=False).ngroup().to_numpy()
+        gid, size = gid * max(len(uniques), 1) + codes, size * max(len(uniques), 1)
+        if size > 4 * n + 1024:  # numbered afresh where the product of the keys' sizes is large
+            gid, _ = pd.factorize(gid)
+            size = int(gid.max()) + 1
+    return gid
+
+
+def first_max(u: np.ndarray, g: np.ndarray) -> np.ndarray:
+    """Position of each group's largest `u` (the first of equal ones), groups (non-negative
+    integer codes `g`) in order of first appearance: what `groupby(g, sort=False).idxmax()`
+    gives on positions and what a stable sort by (g, -u) puts first, `u` without NaN. Two
+    passes over the rows (each group's maximum, then its first row equal to it) in place of
+    the sort (0.26 s -> 0.01 s on a million rows of random ratios)."""
+    if not len(u):
+        return np.zeros(0, dtype=np.int64)
+    size = int(g.max()) + 1
+    top = np.full(size, -np.inf)
+    np.maximum.at(top, g, u)
+    hit = np.flatnonzero(u == top[g])  # every row equal to its group's largest
+    first = np.full(size, len(u), dtype=np.int64)
+    np.minimum.at(first, g[hit], hit)
+    return first[pd.unique(g)]
 
 
 def failing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
@@ -551,7 +585,7 @@ def failing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
     keep = np.zeros(len(table), dtype=bool)
     for col in rule.failing:
         if col in table:
-            keep |= (table[col] == FAIL).to_numpy()
+            keep |= table[col].to_numpy() == FAIL  # on the plain array: the same test, less time
     return keep
 
 
