@@ -152,7 +152,7 @@ def test_shear_by_position_equals_the_merge(shear_case, basis, mode, monkeypatch
     s = _settings(b, standard, shear_height=basis)
     fast = [shear.check_pier_shear(piers, a, s, **mode) for a in (acts, shuffled)]
     in_order = shear._in_order
-    monkeypatch.setattr(shear, "rows_of", lambda *a: None)  # the merge
+    monkeypatch.setattr(shear, "pier_rows", lambda *a: None)  # the merge
     monkeypatch.setattr(shear, "_in_order", lambda df, keys: False)  # the sort, always
     slow = [shear.check_pier_shear(piers, a, s, **mode) for a in (acts, shuffled)]
     for got, want in zip(fast, slow, strict=True):

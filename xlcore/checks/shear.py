@@ -9,10 +9,9 @@ import dataclasses
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import per_pier, plain
+from xlcore.checks import per_pier, pier_rows, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import rows_of
 from xlcore.model import Settings
 from xlcore.results import status_column, utilisation
 
@@ -202,7 +201,7 @@ def _with_piers(
     keys = ["storey", "pier_id"]
     at = None
     if not (set(actions.columns) & set(geo)) - set(keys):
-        at = rows_of(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
         if at is not None and (at < 0).any():
             at = None
     if at is None:
