@@ -9,9 +9,10 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline
-from xlcore.checks import shear
+from xlcore.checks import detailing, group_first, group_max, pier_rows, shear
 from xlcore.codes import get_standard
 from xlcore.codes.base import first_rows, row_keys, words_once
+from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
@@ -192,3 +193,105 @@ def test_joined_equals_the_column_inserts():
     assert got.u.iloc[0] == 7.0 and df.x.iloc[0] == 1.0
     replaced = shear._joined(df, {"x": np.array([4.0, 5.0, 6.0]), "y": 1})
     assert list(replaced.columns) == ["x", "s", "y"] and replaced.x.tolist() == [4.0, 5.0, 6.0]
+
+
+# ---- detailing: per-pier inputs by position against the joins
+
+
+def test_group_max_and_first_equal_the_group_bys():
+    """NaN skipped, groups without a value NaN, -0.0 and 0.0 as the first row gives them."""
+    rng = np.random.default_rng(3)
+    n, groups = 3000, 400
+    g = rng.integers(0, groups, n)
+    v = rng.choice([-0.0, 0.0, -1.0, 2.5, np.nan, 7.0], n) * rng.choice([1.0, 1.0, 3.0], n)
+    v[g % 7 == 0] = np.nan  # groups with no value
+    v[g % 11 == 0] = rng.choice([-0.0, 0.0], int((g % 11 == 0).sum()))  # zero the largest
+    frame = pd.DataFrame({"g": g, "v": v})
+    want_max = frame.groupby("g").v.max().reindex(range(groups)).to_numpy()
+    want_first = frame.groupby("g").v.first().reindex(range(groups)).to_numpy()
+    assert np.signbit(want_max[np.nan_to_num(want_max, nan=1.0) == 0.0]).any()
+    assert np.array_equal(group_max(v, g, groups).view(np.int64), want_max.view(np.int64))
+    assert np.array_equal(group_first(v, g, groups).view(np.int64), want_first.view(np.int64))
+
+
+@pytest.mark.parametrize("spread", [1, 1000])
+def test_pier_rows_by_number_equal_rows_of(spread):
+    """Integer pier IDs (dense: a table by number; spread: a hash index), a storey that does not
+    match, a number not in the table, a number on two storeys, a pair twice, a blank storey:
+    rows_of's answer."""
+    t_storey = np.array(["L1", "L2", "L1", "L3", "L2"], dtype=object)
+    t_pier = np.array([4, 0, 2, 9, 7]) * spread
+    a_storey = pd.Series(["L1", "L2", "L2", "L3", "L1", "L1", "L2"])
+    a_pier = pd.Series(np.array([4, 0, 2, 9, 5, 2, 7]) * spread)
+    want = rows_of(a_storey, a_pier, t_storey, t_pier)
+    assert want.tolist() == [0, 1, -1, 3, -1, 2, 4]
+    assert pier_rows(a_storey, a_pier, t_storey, t_pier).tolist() == want.tolist()
+    twice = t_pier.copy()
+    twice[4] = twice[0]  # number 4 on two storeys: by the pairs (rows_of itself)
+    assert rows_of(a_storey, a_pier, t_storey, twice).tolist() == [0, 1, -1, 3, -1, 2, -1]
+    assert pier_rows(a_storey, a_pier, t_storey, twice).tolist() == [0, 1, -1, 3, -1, 2, -1]
+    same_pair = t_storey.copy()
+    same_pair[4] = "L1"  # the pair (L1, 4) twice
+    assert rows_of(a_storey, a_pier, same_pair, twice) is None
+    assert pier_rows(a_storey, a_pier, same_pair, twice) is None
+    blank = t_storey.copy()
+    blank[1] = None
+    assert rows_of(a_storey, a_pier, blank, t_pier) is None
+    assert pier_rows(a_storey, a_pier, blank, t_pier) is None
+
+
+def detailing_case(demo, standard, numbered: int):
+    """The demo's piers (some with one layer of bars, so the one-layer rules have rows) and
+    actions (N* of some rows -0.0, 0.0 or NaN; some rows of no pier), an effective height per
+    pier in another order with one missing and one NaN, the shear table; with `numbered` the
+    pier IDs as integers (the advice search's variants), `numbered` apart."""
+    b, piers, acts = demo
+    s = _settings(b, standard)
+    piers = piers.copy()
+    one = np.arange(len(piers)) % 9 == 4
+    piers.loc[one, "v_layers"] = 1
+    piers.loc[np.arange(len(piers)) % 5 == 1, "h_spacing"] = 450.0  # over the spacing limit
+    k = np.arange(len(acts))
+    acts = acts.assign(n=acts.n * np.where(k % 3 == 0, 30.0, 1.0), v=acts.v * np.where(k % 4 == 0, 25.0, 1.0))
+    acts.loc[k % 13 == 1, "n"] = -0.0
+    acts.loc[k % 17 == 2, "n"] = 0.0
+    acts.loc[k % 19 == 3, "n"] = np.nan
+    acts.loc[k % 23 == 5, "pier_id"] = "nowhere"
+    if numbered:
+        ids = {p: i * numbered for i, p in enumerate(piers.pier_id.unique())}
+        piers["pier_id"] = piers.pier_id.map(ids).astype(np.int64)
+        acts["pier_id"] = acts.pier_id.map(ids).fillna(-5).astype(np.int64)
+    hwe = pd.Series(
+        piers.Hc.to_numpy(float) * 0.85,
+        index=pd.MultiIndex.from_arrays([piers.storey, piers.pier_id]),
+        name="hwe",
+    ).iloc[::-1]
+    hwe = hwe.iloc[1:]
+    hwe.iloc[3] = np.nan
+    return s, piers, acts, hwe
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("numbered", [0, 1, 1000])
+@pytest.mark.parametrize("with_hwe", [True, False])
+def test_detailing_by_position_equals_the_joins(demo, standard, numbered, with_hwe, monkeypatch):
+    """sigma, hwe, V* and Hw/Lw per pier by position: the same tables (with and without working,
+    with the shear table given and run inside) as by the joins on (storey, pier_id); the
+    numbers-only table the (pier_id, util) of the full one."""
+    s, piers, acts, hwe = detailing_case(demo, standard, numbered)
+    hwe = hwe if with_hwe else None
+    shear_table = shear.check_pier_shear(piers, acts, s, working=False)
+    runs = [
+        dict(working=True, shear=shear_table),
+        dict(working=False, shear=shear_table),
+        dict(working=False, shear=None),
+    ]
+    fast = [detailing.check_detailing(piers, acts, s, hwe, **r) for r in runs]
+    assert detailing._inputs_by_position(piers, acts, s, hwe, get_standard(standard), shear_table) is not None
+    monkeypatch.setattr(detailing, "_inputs_by_position", lambda *a: None)  # the joins
+    slow = [detailing.check_detailing(piers, acts, s, hwe, **r) for r in runs]
+    for got, want in zip(fast, slow, strict=True):
+        same_frame(got, want)
+    full, numbers = fast[0], fast[1]
+    assert (full.rule == "one layer: thickness").any() and (full.status == "FAIL").any()
+    same_frame(numbers, full[["pier_id", "util"]].astype({"pier_id": numbers.pier_id.dtype}))
