@@ -281,6 +281,10 @@ def test_detailing_by_position_equals_the_joins(demo, standard, numbered, with_h
     s, piers, acts, hwe = detailing_case(demo, standard, numbered)
     hwe = hwe if with_hwe else None
     shear_table = shear.check_pier_shear(piers, acts, s, working=False)
+    # Hw/Lw that differs between a pier's rows, NaN on some: the first valid row's is read
+    k = np.arange(len(shear_table))
+    hw_lw = shear_table.hw_lw.to_numpy() * (1.0 + 0.1 * (k % 3))
+    shear_table = shear_table.assign(hw_lw=np.where(k % 7 == 0, np.nan, hw_lw))
     runs = [
         dict(working=True, shear=shear_table),
         dict(working=False, shear=shear_table),
