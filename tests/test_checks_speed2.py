@@ -9,7 +9,16 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline
-from xlcore.checks import detailing, group_first, group_max, pier_rows, shear
+from xlcore.checks import (
+    detailing,
+    finish_rules,
+    group_first,
+    group_max,
+    pier_rows,
+    rule_rows,
+    section14,
+    shear,
+)
 from xlcore.codes import get_standard
 from xlcore.codes.base import first_rows, row_keys, words_once
 from xlcore.distribution import rows_of
@@ -299,3 +308,72 @@ def test_detailing_by_position_equals_the_joins(demo, standard, numbered, with_h
     full, numbers = fast[0], fast[1]
     assert (full.rule == "one layer: thickness").any() and (full.status == "FAIL").any()
     same_frame(numbers, full[["pier_id", "util"]].astype({"pier_id": numbers.pier_id.dtype}))
+
+
+# ---- Section 14: hwe and each pier's worst earthquake row by position against the joins
+
+
+def pass_fail_by_tables(p, parts):
+    """The (pier_id, util) rows as they were made: a rule table per rule (`rule_rows`), joined
+    and filtered by `finish_rules` without working."""
+    frames = [
+        rule_rows(p if rows is None else p.iloc[rows].reset_index(drop=True), *rest, False)
+        for rows, *rest in parts
+    ]
+    return finish_rules(pd.concat(frames, ignore_index=True), p, False, section14.CLAUSE, section14.RULES)
+
+
+@pytest.mark.parametrize("numbered", [0, 1000])
+@pytest.mark.parametrize("with_hwe", [True, False])
+@pytest.mark.parametrize("two_layers", ["yes", "no"])
+def test_section14_by_position_equals_the_joins(demo, numbered, with_hwe, two_layers, monkeypatch):
+    """The same rule tables (with and without working) by position as by the joins on (storey,
+    pier_id), and the pass / FAIL rows without a table per rule: piers over the end-zone trigger
+    (ties given and not), some without earthquake rows, N* NaN on some rows, ties between a
+    pier's largest stresses."""
+    s, piers, acts, hwe = detailing_case(demo, "AS 3600:2018", numbered)
+    s = s.model_copy(update={"eq_two_layers": two_layers})
+    assert section14.not_applicable_reason(s) is None and s.earthquake
+    k = np.arange(len(acts))
+    quake = acts.combination.astype(str).isin(s.earthquake).to_numpy()
+    # some piers' earthquake rows all dropped; a repeated worst row (same N*, M*) on others
+    acts = acts[~(quake & (acts.storey == "L3").to_numpy())].reset_index(drop=True)
+    again = acts.iloc[k[: len(acts)][quake[: len(acts)]][:40]]
+    other = {
+        c: sorted(s.earthquake)[(sorted(s.earthquake).index(c) + 1) % len(s.earthquake)] for c in s.earthquake
+    }
+    assert len(s.earthquake) > 1
+    again = again.assign(combination=again.combination.map(other).astype(acts.combination.dtype))
+    acts = pd.concat([acts, again], ignore_index=True)  # the same stresses under another name
+    # N* NaN on the first earthquake row of some piers that have others (all NaN: next test)
+    acts = acts.assign(n=acts.n.fillna(100.0))
+    quake = acts.combination.astype(str).isin(s.earthquake).to_numpy()
+    g = acts[quake].groupby(["storey", "pier_id"])
+    first = g.cumcount().to_numpy() == 0
+    several = g.pier_id.transform("size").to_numpy() > 1
+    lucky = (np.arange(int(quake.sum())) % 3 == 0) & first & several
+    acts.loc[np.flatnonzero(quake)[lucky], "n"] = np.nan
+    hwe = hwe if with_hwe else None
+    modes = [True, False]
+    fast = [section14.check_section14(piers, acts, s, hwe, working=w) for w in modes]
+    assert section14._worst_by_position(piers, acts, s.earthquake) is not None
+    monkeypatch.setattr(section14, "pier_rows", lambda *a: None)  # the joins
+    slow = [section14.check_section14(piers, acts, s, hwe, working=w) for w in modes]
+    monkeypatch.setattr(section14, "_pass_fail_rows", pass_fail_by_tables)
+    tables = section14.check_section14(piers, acts, s, hwe, working=False)
+    for got, want in zip(fast, slow, strict=True):
+        same_frame(got, want)
+    same_frame(fast[1], tables)
+    full = fast[0]
+    trig = full[full.rule == "end-zone trigger"]
+    assert (trig.status == "required").any() and (trig.status == "n/a").any()
+    ties = full[full.rule == "end-zone ties"]
+    assert (ties.status == "check").any() and ties.status.isin(["pass", "FAIL"]).any()
+
+
+def test_section14_worst_row_all_nan_left_to_the_joins(demo):
+    """A pier whose earthquake rows' stresses are all NaN: the joins decide (idxmax refuses)."""
+    s, piers, acts, _ = detailing_case(demo, "AS 3600:2018", 0)
+    quake = acts.combination.astype(str).isin(s.earthquake).to_numpy()
+    acts = acts.assign(n=np.where(quake & (acts.pier_id == piers.pier_id.iloc[0]).to_numpy(), np.nan, acts.n))
+    assert section14._worst_by_position(piers, acts, s.earthquake) is None
