@@ -4,11 +4,12 @@ branch. Each test fails with its fast path broken (tried)."""
 
 from __future__ import annotations
 
+import builders
 import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import pipeline
+from xlcore import geometry, pipeline
 from xlcore.checks import (
     detailing,
     finish_rules,
@@ -23,6 +24,7 @@ from xlcore.codes import get_standard
 from xlcore.codes.base import first_rows, row_keys, words_once
 from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
+from xlcore.model import Opening
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 
@@ -377,3 +379,53 @@ def test_section14_worst_row_all_nan_left_to_the_joins(demo):
     quake = acts.combination.astype(str).isin(s.earthquake).to_numpy()
     acts = acts.assign(n=np.where(quake & (acts.pier_id == piers.pier_id.iloc[0]).to_numpy(), np.nan, acts.n))
     assert section14._worst_by_position(piers, acts, s.earthquake) is None
+
+
+# ---- geometry: a walls-sheet row's numbers once, one braced-ends answer per plan
+
+
+def supported_edges_storey_by_storey(piers: pd.DataFrame) -> np.ndarray:
+    """geometry.supported_edges as it was: `_braced_ends` worked out for every storey."""
+    wall_of = piers.groupby(["storey", "wall_id"], sort=False).ngroup().to_numpy()
+    first = np.unique(wall_of, return_index=True)[1]
+    storey_of = pd.factorize(piers.storey.to_numpy()[first])[0]
+    col = {k: piers[k].to_numpy(float) for k in ("wx", "wy", "ux", "uy", "wall_length", "tw")}
+    braced = np.zeros((2, len(first)), dtype=bool)
+    for c in range(storey_of.max() + 1):
+        walls = np.flatnonzero(storey_of == c)
+        braced[:, walls] = geometry._braced_ends(*(col[k][first[walls]] for k in col))
+    start, end = piers.start.to_numpy(float), piers.end.to_numpy(float)
+    at_start = (start <= geometry.TOL) & braced[0, wall_of]
+    at_end = (col["wall_length"] - end <= geometry.TOL) & braced[1, wall_of]
+    return at_start.astype(int) + at_end.astype(int)
+
+
+def test_derive_once_per_run_and_plan_equals_storey_by_storey():
+    """Two plans (a return wall at the lower storeys only, a wall that starts halfway up), a
+    wall whose row changes up the building, a door: every pier's run numbers as its own run
+    gives them, the braced edges as every storey's own answer, walls in natural order."""
+    storeys = [builders.storey(f"L{i}", index=i, level=3.2 * i) for i in range(1, 7)]
+    walls = [
+        builders.wall("W1", 0, 0, 6.0, 0, storeys=("L1", "L3"), fc=32.0, h_dia=10.0),
+        builders.wall("W1", 0, 0, 6.0, 0, storeys=("L4", "L6"), fc=40.0, thickness=250.0, v_spacing=150.0),
+        builders.wall("W2", 0, -2.0, 0, 2.0, storeys=("L1", "L4")),
+        builders.wall("W10", 6.0, -1.0, 6.0, 3.0, storeys=("L3", "L6"), v_layers=1, h_layers=1),
+    ]
+    door = Opening(wall_id="W1", storey_from="L2", storey_to="L5", offset=2.0, width=1.0, sill=0.0, head=2.1)
+    piers = geometry.derive(storeys, walls, [door]).piers
+    runs = geometry.run_at(walls, storeys)
+    for r in piers.itertuples():
+        w = runs[(r.storey_index, r.wall_id)]
+        assert r.rho_v == geometry.bar_ratio(w.v_layers, w.v_dia, w.v_spacing, w.thickness)
+        assert r.rho_h == geometry.bar_ratio(w.h_layers, w.h_dia, w.h_spacing, w.thickness)
+        assert (r.ux, r.uy, r.wall_length, r.fc) == (
+            (w.x2 - w.x1) / w.length,
+            (w.y2 - w.y1) / w.length,
+            w.length,
+            w.fc,
+        )
+    assert np.array_equal(piers.supported_edges.to_numpy(), supported_edges_storey_by_storey(piers))
+    # W2 braces W1's start up to L4, W10 its end from L3
+    assert piers.supported_edges.tolist() == [1, 0, 1, 0, 0, 1, 1, 0, 0, 1, 1, 0, 0, 0, 1, 0, 1, 0]
+    at = piers[piers.storey == "L4"]
+    assert list(dict.fromkeys(at.wall_id)) == ["W1", "W2", "W10"]
