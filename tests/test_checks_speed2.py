@@ -15,6 +15,7 @@ from xlcore.checks import (
     finish_rules,
     group_first,
     group_max,
+    per_pier,
     pier_rows,
     rule_rows,
     section14,
@@ -429,3 +430,31 @@ def test_derive_once_per_run_and_plan_equals_storey_by_storey():
     assert piers.supported_edges.tolist() == [1, 0, 1, 0, 0, 1, 1, 0, 0, 1, 1, 0, 0, 0, 1, 0, 1, 0]
     at = piers[piers.storey == "L4"]
     assert list(dict.fromkeys(at.wall_id)) == ["W1", "W2", "W10"]
+
+
+# ---- per_pier: groups numbered by counting
+
+
+def per_pier_by_sorting(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
+    """checks.per_pier as it was: np.unique over the integer keys."""
+    storey, _ = pd.factorize(df.storey)
+    pier, piers = pd.factorize(df.pier_id)
+    key = storey.astype(np.int64) * len(piers) + pier
+    _, first, of = np.unique(key, return_index=True, return_inverse=True)
+    return first, of
+
+
+@pytest.mark.parametrize("rows", [0, 1, 7, 500])
+def test_per_pier_by_counting_equals_np_unique(rows):
+    """The same first rows and group numbers, text and integer pier IDs, a blank storey."""
+    rng = np.random.default_rng(rows)
+    storey = rng.choice(["L1", "L2", "L10"], rows).astype(object)
+    for pier_id in (rng.choice(["W1-1", "W1-2", "W2"], rows), rng.integers(0, 40, rows)):
+        df = pd.DataFrame({"storey": storey, "pier_id": pier_id})
+        for want, got in zip(per_pier_by_sorting(df), per_pier(df), strict=True):
+            assert got.dtype == want.dtype and got.tolist() == want.tolist()
+    if rows > 2:
+        storey[1] = None
+        df = pd.DataFrame({"storey": storey, "pier_id": rng.integers(0, 40, rows)})
+        for want, got in zip(per_pier_by_sorting(df), per_pier(df), strict=True):
+            assert got.tolist() == want.tolist()
