@@ -9,7 +9,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import geometry, pipeline
+from xlcore import costs, geometry, pipeline
 from xlcore.checks import (
     detailing,
     finish_rules,
@@ -458,3 +458,30 @@ def test_per_pier_by_counting_equals_np_unique(rows):
         df = pd.DataFrame({"storey": storey, "pier_id": rng.integers(0, 40, rows)})
         for want, got in zip(per_pier_by_sorting(df), per_pier(df), strict=True):
             assert got.tolist() == want.tolist()
+
+
+# ---- costs: the cost per metre height into two arrays
+
+
+def test_per_metre_height_in_place_equals_the_formula():
+    """Float arrays (with a price per row or one price): the formula's numbers to the bit; other
+    inputs (numbers, integer arrays) by the formula itself."""
+    rng = np.random.default_rng(9)
+    n = 5000
+    Lw, tw = rng.uniform(300.0, 9000.0, n), rng.choice([200.0, 250.0, 300.0], n)
+    rho_v, rho_h = rng.uniform(0.0015, 0.03, n), rng.uniform(0.0015, 0.03, n)
+    before = [a.copy() for a in (Lw, tw, rho_v, rho_h)]
+    for price in (rng.uniform(230.0, 520.0, n), 285.0):
+        area = Lw * tw / 1e6
+        want = area * price + (rho_v + rho_h) * area * costs.STEEL_DENSITY / 1000.0 * 2400.0
+        got = costs.per_metre_height(Lw, tw, rho_v, rho_h, price, 2400.0)
+        assert np.array_equal(got.view(np.int64), want.view(np.int64))
+    assert all(np.array_equal(a, b) for a, b in zip((Lw, tw, rho_v, rho_h), before, strict=True))  # untouched
+    assert costs.per_metre_height(1000.0, 200.0, 0.0025, 0.0025, 260.0, 2400.0) == pytest.approx(
+        0.2 * 260.0 + 0.005 * 0.2 * 7.85 * 2400.0
+    )
+    ints = costs.per_metre_height(np.array([1000, 2000]), np.array([200, 250]), 0.0025, 0.0025, 260.0, 2400.0)
+    assert ints.tolist() == [
+        0.2 * 260.0 + 0.005 * 0.2 * 7850.0 / 1000.0 * 2400.0,
+        0.5 * 260.0 + 0.005 * 0.5 * 7850.0 / 1000.0 * 2400.0,
+    ]
