@@ -120,7 +120,7 @@ def check_section14(
             need,
             "min",
             "layers",
-            np.where(met, PASS, FAIL).astype(object),
+            _pass_fail_where(met),
             np.where(met, np.nan, need / np.maximum(layers, 1.0)),
             lambda: [
                 f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
@@ -405,7 +405,13 @@ def _zone_words(zone: float, Lw: float) -> str:
 
 
 def _pass_fail(util) -> np.ndarray:
-    return np.where(np.asarray(util, dtype=float) <= 1.0 + 1e-9, PASS, FAIL).astype(object)
+    return _pass_fail_where(np.asarray(util, dtype=float) <= 1.0 + 1e-9)
+
+
+def _pass_fail_where(ok) -> np.ndarray:
+    """PASS where `ok`, FAIL elsewhere, as an object array: taken from the two words (not a
+    numpy string array converted to a Python string per row)."""
+    return np.array([FAIL, PASS], dtype=object)[np.asarray(ok, dtype=bool).astype(np.intp)]
 
 
 def _at_least(value, limit) -> np.ndarray:

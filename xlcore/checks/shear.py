@@ -13,7 +13,7 @@ from xlcore.checks import per_pier, pier_rows, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
 from xlcore.model import Settings
-from xlcore.results import status_column, utilisation
+from xlcore.results import status_column, text_column, utilisation
 
 HEIGHT_OVERALL, HEIGHT_OPENING = "overall wall height", "opening height"  # layout.HEIGHT_BASES
 DETAIL_COLUMNS = ("eq1", "eq2", "floor", "alpha_c")
@@ -168,17 +168,20 @@ def _in_order(df: pd.DataFrame, keys: list[str]) -> bool:
     return True
 
 
-def _hw_basis(basis: str, args: tuple, at: np.ndarray | None, n_piers: int) -> list[str]:
-    """`_basis_text` of every row, written once per distinct set of its numbers: a pier's, the
-    same on all its combinations. With `at` (each row's pier) the distinct sets are found among
-    one row of each pier instead of among every row."""
+def _hw_basis(
+    basis: str, args: tuple, at: np.ndarray | None, n_piers: int
+) -> pd.api.extensions.ExtensionArray:
+    """`_basis_text` of every row as a text column, written once per distinct set of its
+    numbers: a pier's, the same on all its combinations. With `at` (each row's pier) the
+    distinct sets are found among one row of each pier instead of among every row; the column
+    is taken from the few words (`text_column`), not made from a list of every row's."""
     if at is None:
         rows, slot = np.arange(len(args[0])), np.arange(len(args[0]))
     else:
         rows, slot = _one_row_per_pier(at, n_piers)
     first, of = _distinct([a[rows] for a in args])
     words = _basis_text(basis, *(a[rows[first]] for a in args))
-    return np.asarray(words, dtype=object)[of][slot].tolist()
+    return text_column(of[slot], words)
 
 
 def _one_row_per_pier(at: np.ndarray, n_piers: int) -> tuple[np.ndarray, np.ndarray]:
@@ -210,12 +213,12 @@ def _with_piers(
     return _joined(df, {c: piers[c].to_numpy()[at] for c in geo if c not in keys}), at
 
 
-def _clauses(r) -> np.ndarray:
+def _clauses(r) -> pd.api.extensions.ExtensionArray:
     """`r.clauses()` (the governing clause of every row) looked up once per distinct code
     (codes by hashing, not sorting 360 000 rows)."""
     of, codes = pd.factorize(np.ravel(r.governs), use_na_sentinel=False)
     text = dataclasses.replace(r, governs=np.asarray(codes)).clauses()
-    return np.asarray(text, dtype=object)[of]
+    return text_column(of, text)
 
 
 def _advice(std: Standard, util: np.ndarray, rho_req, capped, hw_lw: np.ndarray, cap) -> np.ndarray:
