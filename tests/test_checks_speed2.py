@@ -485,3 +485,26 @@ def test_per_metre_height_in_place_equals_the_formula():
         0.2 * 260.0 + 0.005 * 0.2 * 7850.0 / 1000.0 * 2400.0,
         0.5 * 260.0 + 0.005 * 0.5 * 7850.0 / 1000.0 * 2400.0,
     ]
+
+
+def test_words_taken_from_few_equal_the_words_per_row(demo):
+    """The Hw/Lw basis column from its few words: the words `_basis_text` writes row by row, in
+    the column type a list of them gives; the clause column likewise; pass / FAIL of Section 14
+    as np.where's words (NaN fails)."""
+    b, piers, acts = demo
+    s = _settings(b, "AS 3600:2018", shear_height="opening height")
+    out = shear.check_pier_shear(piers, acts, s)
+    args = (
+        out.Hw.to_numpy(float),
+        out.Lw.to_numpy(float),
+        out.Hc.to_numpy(float),
+        out.wall_length.to_numpy(float) * 1000.0,
+        out.position.to_numpy() > 0,
+        out.hw_lw.to_numpy() > out.Hw.to_numpy() / out.Lw.to_numpy(),
+    )
+    per_row = pd.Series(shear._basis_text("opening height", *args))
+    assert out.hw_basis.dtype == per_row.dtype and out.hw_basis.tolist() == per_row.tolist()
+    assert out.clause.dtype == pd.Series(out.clause.tolist()).dtype
+    u = np.array([0.5, 1.0 + 1e-10, 1.1, np.nan, np.inf])
+    want = np.where(u <= 1.0 + 1e-9, "pass", "FAIL").astype(object)
+    assert section14._pass_fail(u).tolist() == want.tolist() and section14._pass_fail(u).dtype == object
