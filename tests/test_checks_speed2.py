@@ -508,3 +508,17 @@ def test_words_taken_from_few_equal_the_words_per_row(demo):
     u = np.array([0.5, 1.0 + 1e-10, 1.1, np.nan, np.inf])
     want = np.where(u <= 1.0 + 1e-9, "pass", "FAIL").astype(object)
     assert section14._pass_fail(u).tolist() == want.tolist() and section14._pass_fail(u).dtype == object
+
+
+@pytest.mark.parametrize("with_hwe", [True, False])
+def test_section14_words_once_equal_the_words_per_row(demo, with_hwe, monkeypatch):
+    """Section 14's working written once per distinct set of its numbers: the same table as
+    written row by row."""
+    s, piers, acts, hwe = detailing_case(demo, "AS 3600:2018", 0)
+    acts = acts.assign(n=acts.n.fillna(100.0))
+    hwe = hwe if with_hwe else None
+    fast = section14.check_section14(piers, acts, s, hwe)
+    monkeypatch.setattr(section14, "words_once", lambda make, *cols: make(*cols))
+    slow = section14.check_section14(piers, acts, s, hwe)
+    same_frame(fast, slow)
+    assert fast.working.nunique() > 20

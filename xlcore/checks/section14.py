@@ -29,7 +29,7 @@ from xlcore.checks import (
     special_walls,
 )
 from xlcore.codes import as3600, compression_flag_ratio, get_standard
-from xlcore.codes.base import Standard
+from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
 from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
 
@@ -122,10 +122,15 @@ def check_section14(
             "layers",
             _pass_fail_where(met),
             np.where(met, np.nan, need / np.maximum(layers, 1.0)),
-            lambda: [
-                f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
-                for v, h, n in zip(*plain(p.v_layers, p.h_layers, layers), strict=True)
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
+                    for v, h, n in zip(*plain(*cols), strict=True)
+                ],
+                p.v_layers,
+                p.h_layers,
+                layers,
+            ),
             f"both faces (Project setting), {MEMORY}",
         )
     rho_min = as3600.eq_wall_rho_min(settings.eq_rho_min)
@@ -144,10 +149,17 @@ def check_section14(
             "",
             _pass_fail(u),
             u,
-            lambda rho=rho, dia=dia, s=s, n=n: [
-                f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
-                for k, d, sp, t, r in zip(*plain(n, dia, s, p.tw, rho), strict=True)
-            ],
+            lambda rho=rho, dia=dia, s=s, n=n: words_once(
+                lambda *cols: [
+                    f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
+                    for k, d, sp, t, r in zip(*plain(*cols), strict=True)
+                ],
+                n,
+                dia,
+                s,
+                p.tw,
+                rho,
+            ),
             f"{rho_min:g} each way, no Cl 11.7 relaxation (Project setting), {MEMORY}",
         )
     slender = as3600.eq_wall_slenderness(p.hwe, p.tw)
@@ -162,10 +174,15 @@ def check_section14(
         "",
         _pass_fail(u),
         u,
-        lambda: [
-            f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
-            for h, t, r in zip(*plain(p.hwe, p.tw, slender), strict=True)
-        ],
+        lambda: words_once(
+            lambda *cols: [
+                f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
+                for h, t, r in zip(*plain(*cols), strict=True)
+            ],
+            p.hwe,
+            p.tw,
+            slender,
+        ),
         f"Hwe by Cl 11.4 (clear height where no actions); {limit:g} (Project setting), {MEMORY}",
     )
     if working or not np.isnan(_end_bars(p)).all():
