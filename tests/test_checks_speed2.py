@@ -522,3 +522,16 @@ def test_section14_words_once_equal_the_words_per_row(demo, with_hwe, monkeypatc
     slow = section14.check_section14(piers, acts, s, hwe)
     same_frame(fast, slow)
     assert fast.working.nunique() > 20
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_detailing_words_once_equal_the_words_per_row(demo, standard, monkeypatch):
+    """Detailing's working written once per distinct set of its numbers and limit words: the
+    same table as written row by row."""
+    s, piers, acts, hwe = detailing_case(demo, standard, 0)
+    shear_table = shear.check_pier_shear(piers, acts, s, working=False)
+    fast = detailing.check_detailing(piers, acts, s, hwe, shear=shear_table)
+    monkeypatch.setattr(detailing, "words_once", lambda make, *cols: make(*cols))
+    slow = detailing.check_detailing(piers, acts, s, hwe, shear=shear_table)
+    same_frame(fast, slow)
+    assert fast.working.nunique() > 20

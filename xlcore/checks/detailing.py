@@ -12,7 +12,7 @@ import pandas as pd
 
 from xlcore.checks import group_first, group_max, pier_rows
 from xlcore.codes import get_standard
-from xlcore.codes.base import Standard
+from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
 from xlcore.results import FAIL, PASS
 
@@ -101,16 +101,15 @@ def check_detailing(
             rv_min,
             "min",
             "",
-            lambda: [
-                f"rho_v = {v:.5f} vs {m:.4f} ({w}){z}"
-                for v, m, w, z in zip(
-                    p.rho_v,
-                    rv_min,
-                    why("rho_v_min", bar_dia=p.v_dia.to_numpy(float)),
-                    field_note,
-                    strict=True,
-                )
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"rho_v = {v:.5f} vs {m:.4f} ({w}){z}" for v, m, w, z in zip(*_plain(*cols), strict=True)
+                ],
+                p.rho_v,
+                rv_min,
+                why("rho_v_min", bar_dia=p.v_dia.to_numpy(float)),
+                field_note,
+            ),
         ),
         (
             None,
@@ -119,12 +118,14 @@ def check_detailing(
             rh_min,
             "min",
             "",
-            lambda: [
-                f"rho_h = {v:.5f} vs {m:.4f} ({w})"
-                for v, m, w in zip(
-                    p.rho_h, rh_min, why("rho_h_min", bar_dia=p.h_dia.to_numpy(float)), strict=True
-                )
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"rho_h = {v:.5f} vs {m:.4f} ({w})" for v, m, w in zip(*_plain(*cols), strict=True)
+                ],
+                p.rho_h,
+                rh_min,
+                why("rho_h_min", bar_dia=p.h_dia.to_numpy(float)),
+            ),
         ),
         (
             None,
@@ -133,10 +134,15 @@ def check_detailing(
             sv_max,
             "max",
             "mm",
-            lambda: [
-                f"s = {s:.0f} vs {w} = {m:.0f} mm{z}"
-                for s, w, m, z in zip(p.v_spacing, why("spacing_v"), sv_max, field_note, strict=True)
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"s = {s:.0f} vs {w} = {m:.0f} mm{z}" for s, w, m, z in zip(*_plain(*cols), strict=True)
+                ],
+                p.v_spacing,
+                why("spacing_v"),
+                sv_max,
+                field_note,
+            ),
         ),
         (
             None,
@@ -145,10 +151,14 @@ def check_detailing(
             sh_max,
             "max",
             "mm",
-            lambda: [
-                f"s = {s:.0f} vs {w} = {m:.0f} mm"
-                for s, w, m in zip(p.h_spacing, why("spacing_h"), sh_max, strict=True)
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"s = {s:.0f} vs {w} = {m:.0f} mm" for s, w, m in zip(*_plain(*cols), strict=True)
+                ],
+                p.h_spacing,
+                why("spacing_h"),
+                sh_max,
+            ),
         ),
     ]
     for name, s, db in (
@@ -164,10 +174,15 @@ def check_detailing(
                 need,
                 "min",
                 "mm",
-                lambda gap=gap, db=db, need=need: [
-                    f"clear gap = {g:.0f} vs {w} = {n:.0f} mm"
-                    for g, w, n in zip(gap, why("clear_gap", db=db.to_numpy(float)), need, strict=True)
-                ],
+                lambda gap=gap, db=db, need=need: words_once(
+                    lambda *cols: [
+                        f"clear gap = {g:.0f} vs {w} = {n:.0f} mm"
+                        for g, w, n in zip(*_plain(*cols), strict=True)
+                    ],
+                    gap,
+                    why("clear_gap", db=db.to_numpy(float)),
+                    need,
+                ),
             )
         )
     single = ((p.v_layers < 2) | (p.h_layers < 2)).to_numpy()
@@ -361,3 +376,9 @@ def _util(value, limit, kind: str) -> np.ndarray:
         if kind == "min":  # value must reach the limit
             return np.where(limit <= 0, 0.0, np.where(value > 0, limit / value, np.inf))
         return value / limit
+
+
+def _plain(*columns) -> list[list]:
+    """Columns as the rows' own values (`ndarray.tolist`), what iterating the columns gave the
+    working text: the same words from numpy arrays, Series and lists."""
+    return [np.asarray(c, dtype=object if isinstance(c, list) else None).tolist() for c in columns]
