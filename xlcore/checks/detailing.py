@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import group_first, group_max, pier_rows
+from xlcore.checks import group_first, group_max, pier_rows, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
@@ -103,7 +103,7 @@ def check_detailing(
             "",
             lambda: words_once(
                 lambda *cols: [
-                    f"rho_v = {v:.5f} vs {m:.4f} ({w}){z}" for v, m, w, z in zip(*_plain(*cols), strict=True)
+                    f"rho_v = {v:.5f} vs {m:.4f} ({w}){z}" for v, m, w, z in zip(*plain(*cols), strict=True)
                 ],
                 p.rho_v,
                 rv_min,
@@ -120,7 +120,7 @@ def check_detailing(
             "",
             lambda: words_once(
                 lambda *cols: [
-                    f"rho_h = {v:.5f} vs {m:.4f} ({w})" for v, m, w in zip(*_plain(*cols), strict=True)
+                    f"rho_h = {v:.5f} vs {m:.4f} ({w})" for v, m, w in zip(*plain(*cols), strict=True)
                 ],
                 p.rho_h,
                 rh_min,
@@ -136,7 +136,7 @@ def check_detailing(
             "mm",
             lambda: words_once(
                 lambda *cols: [
-                    f"s = {s:.0f} vs {w} = {m:.0f} mm{z}" for s, w, m, z in zip(*_plain(*cols), strict=True)
+                    f"s = {s:.0f} vs {w} = {m:.0f} mm{z}" for s, w, m, z in zip(*plain(*cols), strict=True)
                 ],
                 p.v_spacing,
                 why("spacing_v"),
@@ -153,7 +153,7 @@ def check_detailing(
             "mm",
             lambda: words_once(
                 lambda *cols: [
-                    f"s = {s:.0f} vs {w} = {m:.0f} mm" for s, w, m in zip(*_plain(*cols), strict=True)
+                    f"s = {s:.0f} vs {w} = {m:.0f} mm" for s, w, m in zip(*plain(*cols), strict=True)
                 ],
                 p.h_spacing,
                 why("spacing_h"),
@@ -177,7 +177,7 @@ def check_detailing(
                 lambda gap=gap, db=db, need=need: words_once(
                     lambda *cols: [
                         f"clear gap = {g:.0f} vs {w} = {n:.0f} mm"
-                        for g, w, n in zip(*_plain(*cols), strict=True)
+                        for g, w, n in zip(*plain(*cols), strict=True)
                     ],
                     gap,
                     why("clear_gap", db=db.to_numpy(float)),
@@ -376,9 +376,3 @@ def _util(value, limit, kind: str) -> np.ndarray:
         if kind == "min":  # value must reach the limit
             return np.where(limit <= 0, 0.0, np.where(value > 0, limit / value, np.inf))
         return value / limit
-
-
-def _plain(*columns) -> list[list]:
-    """Columns as the rows' own values (`ndarray.tolist`), what iterating the columns gave the
-    working text: the same words from numpy arrays, Series and lists."""
-    return [np.asarray(c, dtype=object if isinstance(c, list) else None).tolist() for c in columns]
