@@ -15,6 +15,7 @@ from xlcore.checks import (
     finish_rules,
     group_first,
     group_max,
+    lintels,
     per_pier,
     pier_rows,
     rule_rows,
@@ -535,3 +536,26 @@ def test_detailing_words_once_equal_the_words_per_row(demo, standard, monkeypatc
     slow = detailing.check_detailing(piers, acts, s, hwe, shear=shear_table)
     same_frame(fast, slow)
     assert fast.working.nunique() > 20
+
+
+# ---- lintels: the join over the action rows that name a lintel
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_lintels_join_of_their_own_rows_equals_the_join_of_every_row(demo, standard, monkeypatch):
+    """The member actions filtered to the lintels' IDs before the left join: the same table as
+    the join of every action row (lintels with and without actions)."""
+    b, _, _ = demo
+    s = _settings(b, standard)
+    g = pipeline.geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
+    acts = b.member_actions
+    named = acts.member.isin(g.lintels.lintel_id)
+    assert named.any() and not named.all()
+    some = acts[~(named & (acts.storey == acts.storey.iloc[0])).to_numpy()]  # a storey's lintels without
+    for a in (acts, some):
+        fast = lintels.check_lintels(g.lintels, a, s)
+        with monkeypatch.context() as m:
+            m.setattr(lintels, "_of_lintels", lambda acts, lin: acts)
+            slow = lintels.check_lintels(g.lintels, a, s)
+        same_frame(fast, slow)
+        assert (fast.model == "").any() == (a is some)
