@@ -559,3 +559,23 @@ def test_lintels_join_of_their_own_rows_equals_the_join_of_every_row(demo, stand
             slow = lintels.check_lintels(g.lintels, a, s)
         same_frame(fast, slow)
         assert (fast.model == "").any() == (a is some)
+
+
+def test_bar_ratio_in_place_equals_the_formula():
+    """Arrays (the advice's rows x arrangements, and shapes where the spacing widens the result):
+    the formula's numbers to the bit; numbers as before; the inputs untouched."""
+    rng = np.random.default_rng(4)
+    layers = rng.choice([1.0, 2.0], (300, 1))
+    dia = rng.choice([10.0, 12.0, 16.0, 20.0], (1, 40))
+    sp, tw = rng.choice([100.0, 150.0, 225.0], (1, 40)), rng.choice([200.0, 250.0], (300, 1))
+    before = [a.copy() for a in (layers, dia, sp, tw)]
+    for args in (
+        (layers, dia, sp, tw),
+        (layers, 16.0, sp, tw),
+        (layers[:, 0], dia[0, 0], sp[0, 0], tw[:, 0]),
+    ):
+        want = args[0] * np.pi * np.asarray(args[1]) ** 2 / 4.0 / (args[2] * args[3])
+        got = geometry.bar_ratio(*args)
+        assert got.shape == want.shape and np.array_equal(got.view(np.int64), want.view(np.int64))
+    assert all(np.array_equal(a, b) for a, b in zip((layers, dia, sp, tw), before, strict=True))
+    assert geometry.bar_ratio(2, 12.0, 200.0, 200.0) == 2 * np.pi * 144.0 / 4.0 / 40000.0

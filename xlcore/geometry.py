@@ -97,7 +97,20 @@ class Geometry:
 def bar_ratio(layers, dia, spacing, thickness):
     """rho = n_layers * A_bar / (s * tw): steel area per unit of concrete section (numbers or
     arrays)."""
-    return layers * math.pi * dia**2 / 4.0 / (spacing * thickness)
+    out = layers * math.pi * dia**2
+    if (
+        isinstance(out, np.ndarray)
+        and out.dtype == np.float64
+        and out.ndim
+        and out.base is None
+        and np.broadcast_shapes(out.shape, np.shape(spacing), np.shape(thickness)) == out.shape
+    ):
+        # arrays (the advice search's rows x arrangements): the same operations in the same
+        # order, divided into the product's own array instead of two more of its size
+        out /= 4.0
+        out /= spacing * thickness
+        return out
+    return out / 4.0 / (spacing * thickness)
 
 
 def run_at(walls: list[WallRun], storeys: list[Storey]) -> dict[tuple[int, str], WallRun]:
