@@ -97,7 +97,20 @@ class Geometry:
 def bar_ratio(layers, dia, spacing, thickness):
     """rho = n_layers * A_bar / (s * tw): steel area per unit of concrete section (numbers or
     arrays)."""
-    return layers * math.pi * dia**2 / 4.0 / (spacing * thickness)
+    out = layers * math.pi * dia**2
+    if (
+        isinstance(out, np.ndarray)
+        and out.dtype == np.float64
+        and out.ndim
+        and out.base is None
+        and np.broadcast_shapes(out.shape, np.shape(spacing), np.shape(thickness)) == out.shape
+    ):
+        # arrays (the advice search's rows x arrangements): the same operations in the same
+        # order, divided into the product's own array instead of two more of its size
+        out /= 4.0
+        out /= spacing * thickness
+        return out
+    return out / 4.0 / (spacing * thickness)
 
 
 def run_at(walls: list[WallRun], storeys: list[Storey]) -> dict[tuple[int, str], WallRun]:
@@ -184,36 +197,24 @@ def derive(
     standing: dict[int, set[str]] = {}  # storey index -> wall IDs there (one pass over `runs`)
     for i, w in runs:
         standing.setdefault(i, set()).add(w)
+    natural: dict[str, tuple] = {}  # each wall ID's sort key, made once (not per storey)
+    per_run: dict[int, tuple] = {}  # each walls-sheet row's own numbers, worked out once
     for s in storeys:
-        wall_ids = sorted(standing.get(s.index, ()), key=_natural)
+        here_ids = standing.get(s.index, ())
+        for wall_id in here_ids:
+            if wall_id not in natural:
+                natural[wall_id] = _natural(wall_id)
+        wall_ids = sorted(here_ids, key=natural.__getitem__)
+        hc = s.clear_height * 1000.0
         for wall_id in wall_ids:
             w = runs[(s.index, wall_id)]
             here = cuts.get((s.index, wall_id), [])
-            rho_v = bar_ratio(w.v_layers, w.v_dia, w.v_spacing, w.thickness)
-            rho_h = bar_ratio(w.h_layers, w.h_dia, w.h_spacing, w.thickness)
-            ux, uy = (w.x2 - w.x1) / w.length, (w.y2 - w.y1) / w.length
+            own = per_run.get(id(w))
+            if own is None:
+                own = per_run[id(w)] = _run_numbers(w)
+            length, head, tail = own
             strip = max((o.head - o.sill for o in here), default=float("nan")) * 1000.0
-            common = (
-                w.fc,
-                w.fsy,
-                rho_v,
-                rho_h,
-                w.v_layers,
-                w.h_layers,
-                w.cover,
-                w.x1,
-                w.y1,
-                ux,
-                uy,
-                w.length,
-                strip,
-                w.v_dia,
-                w.v_spacing,
-                w.h_dia,
-                w.h_spacing,
-                w.core,
-            )
-            hc = s.clear_height * 1000.0
+            common = (*head, strip, *tail)
             if not here:
                 pier_rows.append(
                     (
@@ -223,8 +224,8 @@ def derive(
                         wall_id,
                         0,
                         0.0,
-                        w.length,
-                        w.length * 1000.0,
+                        length,
+                        length * 1000.0,
                         w.thickness,
                         hc,
                         float("nan"),
@@ -234,7 +235,7 @@ def derive(
                     )
                 )
                 continue
-            for k, (a, b, h_open) in enumerate(segments(w.length, here), start=1):
+            for k, (a, b, h_open) in enumerate(segments(length, here), start=1):
                 pier_rows.append(
                     (
                         s.name,
@@ -249,7 +250,7 @@ def derive(
                         hc,
                         h_open * 1000.0,
                         *common,
-                        *_edges(w.length, here, a, b),
+                        *_edges(length, here, a, b),
                     )
                 )
             for k, o in enumerate(here, start=1):
@@ -291,6 +292,18 @@ def derive(
         piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
+
+
+def _run_numbers(w: WallRun) -> tuple[float, tuple, tuple]:
+    """A walls-sheet row's centreline length [m] and the pier columns it gives every pier of
+    every storey it spans, before and after the opening strip (`derive`'s `common`): worked out
+    once per row, not once per storey (the length is a square root per call)."""
+    length = w.length
+    rho_v = bar_ratio(w.v_layers, w.v_dia, w.v_spacing, w.thickness)
+    rho_h = bar_ratio(w.h_layers, w.h_dia, w.h_spacing, w.thickness)
+    ux, uy = (w.x2 - w.x1) / length, (w.y2 - w.y1) / length
+    head = (w.fc, w.fsy, rho_v, rho_h, w.v_layers, w.h_layers, w.cover, w.x1, w.y1, ux, uy, length)
+    return length, head, (w.v_dia, w.v_spacing, w.h_dia, w.h_spacing, w.core)
 
 
 def with_zones(piers: pd.DataFrame, zones: dict[tuple[int, str, str], EndZone]) -> pd.DataFrame:
@@ -341,9 +354,16 @@ def supported_edges(piers: pd.DataFrame) -> np.ndarray:
     storey_of = pd.factorize(piers.storey.to_numpy()[first])[0]
     col = {k: piers[k].to_numpy(float) for k in ("wx", "wy", "ux", "uy", "wall_length", "tw")}
     braced = np.zeros((2, len(first)), dtype=bool)  # [start/end, wall]
+    # storeys of one plan (the same walls in the same order) share the answer: it is a function
+    # of these numbers alone, so it is worked out once per distinct set of them
+    seen: dict[bytes, np.ndarray] = {}
     for c in range(storey_of.max() + 1):
         walls = np.flatnonzero(storey_of == c)
-        braced[:, walls] = _braced_ends(*(col[k][first[walls]] for k in col))
+        plan = [col[k][first[walls]] for k in col]
+        key = b"".join(a.tobytes() for a in plan)
+        if key not in seen:
+            seen[key] = _braced_ends(*plan)
+        braced[:, walls] = seen[key]
     start, end = piers.start.to_numpy(float), piers.end.to_numpy(float)
     at_start = (start <= TOL) & braced[0, wall_of]
     at_end = (col["wall_length"] - end <= TOL) & braced[1, wall_of]

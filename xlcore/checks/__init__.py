@@ -11,11 +11,84 @@ def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     so what depends on the pier alone is worked out once per pier and spread to its rows."""
     # integer codes of the two columns, not joined text (a Python string per row: 0.14 s of
     # the L tower's 360 000 rows, against 0.03 s); each row's first row of its pier is the same
-    storey, _ = pd.factorize(df.storey)
+    storey, storeys = pd.factorize(df.storey)
     pier, piers = pd.factorize(df.pier_id)
     key = storey.astype(np.int64) * len(piers) + pier
-    _, first, of = np.unique(key, return_index=True, return_inverse=True)
+    size = len(storeys) * len(piers)
+    if not len(key) or size > 8 * len(key) or (key < 0).any():
+        _, first, of = np.unique(key, return_index=True, return_inverse=True)
+        return first, of
+    # the keys are small integers: groups numbered in key order by counting (np.unique's
+    # numbering, without sorting every row), each group's first row by a minimum
+    present = np.zeros(size, dtype=bool)
+    present[key] = True
+    number = np.cumsum(present) - 1
+    of = number[key]
+    first = np.full(int(number[-1]) + 1, len(key), dtype=np.intp)
+    np.minimum.at(first, of, np.arange(len(key)))
     return first, of
+
+
+def pier_rows(a_storey, a_pier, t_storey, t_pier) -> np.ndarray | None:
+    """Each pair (storey, pier)'s row in a table of pairs, -1 where it has none; None where the
+    table's pairs are not unique or one is blank: `distribution.rows_of`, the same answer. Where
+    the table's pier IDs are integers, each once (the advice search's variant numbers), a pier
+    is looked up by its number alone and the storey compared (a third of the time: no text
+    keys factorised), else `rows_of`."""
+    from xlcore.distribution import rows_of
+
+    tp, ap = np.asarray(t_pier), np.asarray(a_pier)
+    if tp.dtype.kind in "iu" and ap.dtype.kind in "iu" and len(tp) and len(ap):
+        at = _by_number(ap, tp)
+        ts = np.asarray(t_storey, dtype=object)
+        if at is not None and not pd.isna(ts).any():
+            same = ts[np.maximum(at, 0)] == np.asarray(a_storey, dtype=object)
+            return np.where((at >= 0) & same, at, -1)
+    return rows_of(a_storey, a_pier, t_storey, t_pier)
+
+
+def _by_number(numbers: np.ndarray, table: np.ndarray) -> np.ndarray | None:
+    """Each integer's row in `table` (integers), -1 where it is not there; None where a number
+    is in the table twice. A table by number where the numbers are dense, else a hash index."""
+    lo, hi = int(table.min()), int(table.max())
+    if hi - lo < 4 * len(table) + 1024:
+        pos = np.full(hi - lo + 1, -1, dtype=np.intp)
+        pos[table - lo] = np.arange(len(table))
+        if np.count_nonzero(pos >= 0) != len(table):
+            return None
+        inside = (numbers >= lo) & (numbers <= hi)
+        return np.where(inside, pos[np.clip(numbers - lo, 0, hi - lo)], -1)
+    index = pd.Index(table)
+    return index.get_indexer(numbers) if index.is_unique else None
+
+
+def group_max(values, group: np.ndarray, n: int) -> np.ndarray:
+    """Per group 0..n-1 the largest of `values` (NaN skipped; NaN where a group has none): what
+    pandas' `groupby(...).max()` gives, to the bit. Among equal largest values it keeps the first
+    row's, which matters for a zero only (-0.0 or 0.0, whichever comes first)."""
+    v = np.asarray(values, dtype=float)
+    out = np.full(n, np.nan)
+    np.fmax.at(out, group, v)
+    zero = out == 0.0
+    if zero.any():
+        rows = np.flatnonzero((v == 0.0) & zero[group])
+        g = group[rows]
+        _, first = np.unique(g, return_index=True)
+        out[g[first]] = v[rows[first]]
+    return out
+
+
+def group_first(values, group: np.ndarray, n: int) -> np.ndarray:
+    """Per group 0..n-1 the first value in row order that is not NaN (NaN where none): what
+    pandas' `groupby(...).first()` gives."""
+    v = np.asarray(values, dtype=float)
+    ok = np.flatnonzero(~np.isnan(v))
+    first = np.full(n, len(v), dtype=np.intp)
+    np.minimum.at(first, group[ok], ok)
+    out = np.full(n, np.nan)
+    has = first < len(v)
+    out[has] = v[first[has]]
+    return out
 
 
 def plain(*columns) -> list[list]:

@@ -18,9 +18,18 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import RULE_COLUMNS, empty_rules, finish_rules, plain, rule_rows, special_walls
+from xlcore.checks import (
+    RULE_COLUMNS,
+    empty_rules,
+    finish_rules,
+    group_max,
+    pier_rows,
+    plain,
+    rule_rows,
+    special_walls,
+)
 from xlcore.codes import as3600, compression_flag_ratio, get_standard
-from xlcore.codes.base import Standard
+from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
 from xlcore.results import CHECK, FAIL, NOT_APPLICABLE, NOT_REQUIRED, PASS, REQUIRED
 
@@ -90,19 +99,13 @@ def check_section14(
         return special_walls.check_special_walls(piers, actions, settings, hwe, working, std=std)
     if not_applicable_reason(settings) is not None or piers.empty:
         return empty_rules(COLUMNS, working)
-    p = piers.copy()
-    if hwe is not None:
-        p = p.merge(hwe.rename("hwe"), left_on=["storey", "pier_id"], right_index=True, how="left")
-    else:
-        p["hwe"] = np.nan
-    p["hwe"] = p.hwe.fillna(p.Hc)
+    p = _with_hwe(piers, hwe)
     basis = ductility_basis(settings)
-    parts = []
+    parts: list[tuple] = []
 
     def rule(rows, name, value, limit, kind, unit, status, util, text, why):
-        parts.append(
-            rule_rows(rows, name, value, limit, kind, unit, status, util, text, f"{basis}; {why}", working)
-        )
+        """One rule's rows over the piers `rows` (positions in p; None: every pier)."""
+        parts.append((rows, name, value, limit, kind, unit, status, util, text, f"{basis}; {why}"))
 
     layers = as3600.eq_wall_layers(p.v_layers, p.h_layers)
     if settings.eq_two_layers == "yes":
@@ -111,18 +114,23 @@ def check_section14(
         # a yes/no rule: no ratio where it is met (a 1.00 on every pier would read as "close"),
         # layers needed / provided where it is not
         rule(
-            p,
+            None,
             "both faces",
             layers,
             need,
             "min",
             "layers",
-            np.where(met, PASS, FAIL).astype(object),
+            _pass_fail_where(met),
             np.where(met, np.nan, need / np.maximum(layers, 1.0)),
-            lambda: [
-                f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
-                for v, h, n in zip(*plain(p.v_layers, p.h_layers, layers), strict=True)
-            ],
+            lambda: words_once(
+                lambda *cols: [
+                    f"layers: vertical {v:.0f}, horizontal {h:.0f} -> {n:.0f} vs 2 (one near each face)"
+                    for v, h, n in zip(*plain(*cols), strict=True)
+                ],
+                p.v_layers,
+                p.h_layers,
+                layers,
+            ),
             f"both faces (Project setting), {MEMORY}",
         )
     rho_min = as3600.eq_wall_rho_min(settings.eq_rho_min)
@@ -133,7 +141,7 @@ def check_section14(
         rho = rho.to_numpy(float)
         u = _at_least(rho, rho_min)
         rule(
-            p,
+            None,
             name,
             rho,
             np.full(len(p), rho_min),
@@ -141,17 +149,24 @@ def check_section14(
             "",
             _pass_fail(u),
             u,
-            lambda rho=rho, dia=dia, s=s, n=n: [
-                f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
-                for k, d, sp, t, r in zip(*plain(n, dia, s, p.tw, rho), strict=True)
-            ],
+            lambda rho=rho, dia=dia, s=s, n=n: words_once(
+                lambda *cols: [
+                    f"rho = {k:.0f} x pi {d:g}^2/4 / ({sp:g} x {t:g}) = {r:.5f} vs {rho_min:g}"
+                    for k, d, sp, t, r in zip(*plain(*cols), strict=True)
+                ],
+                n,
+                dia,
+                s,
+                p.tw,
+                rho,
+            ),
             f"{rho_min:g} each way, no Cl 11.7 relaxation (Project setting), {MEMORY}",
         )
     slender = as3600.eq_wall_slenderness(p.hwe, p.tw)
     limit = settings.eq_slenderness
     u = slender / limit
     rule(
-        p,
+        None,
         "Hwe/tw",
         slender,
         np.full(len(p), limit),
@@ -159,17 +174,64 @@ def check_section14(
         "",
         _pass_fail(u),
         u,
-        lambda: [
-            f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
-            for h, t, r in zip(*plain(p.hwe, p.tw, slender), strict=True)
-        ],
+        lambda: words_once(
+            lambda *cols: [
+                f"Hwe/tw = {h:.0f} / {t:.0f} = {r:.1f} vs {limit:g}"
+                for h, t, r in zip(*plain(*cols), strict=True)
+            ],
+            p.hwe,
+            p.tw,
+            slender,
+        ),
         f"Hwe by Cl 11.4 (clear height where no actions); {limit:g} (Project setting), {MEMORY}",
     )
     if working or not np.isnan(_end_bars(p)).all():
         # without working only pass / FAIL rows count: end zones give those only where their
         # bars are described (the trigger is never a failure)
         _end_zones(p, actions, settings, rule, std)
-    return finish_rules(pd.concat(parts, ignore_index=True), p, working, CLAUSE, RULES)
+    if not working:
+        return _pass_fail_rows(p, parts)
+    frames = [
+        rule_rows(p if rows is None else p.iloc[rows].reset_index(drop=True), *rest, working)
+        for rows, *rest in parts
+    ]
+    return finish_rules(pd.concat(frames, ignore_index=True), p, working, CLAUSE, RULES)
+
+
+def _with_hwe(piers: pd.DataFrame, hwe: pd.Series | None) -> pd.DataFrame:
+    """The pier table with `hwe` [mm], the effective height given per (storey, pier_id) or the
+    storey clear height where none is: by position where each pier is one row of `hwe`
+    (`pier_rows`), else by the join on the two keys."""
+    if hwe is None:
+        return piers.assign(hwe=piers.Hc.to_numpy(dtype=float))
+    at = None
+    if hwe.index.nlevels == 2:
+        keys = (hwe.index.get_level_values(0), hwe.index.get_level_values(1))
+        at = pier_rows(piers.storey, piers.pier_id, *keys)
+    if at is None:
+        p = piers.merge(hwe.rename("hwe"), left_on=["storey", "pier_id"], right_index=True, how="left")
+        p["hwe"] = p.hwe.fillna(p.Hc)
+        return p
+    he = hwe.to_numpy(dtype=float)
+    he = np.where(at >= 0, he[np.maximum(at, 0)] if len(he) else np.nan, np.nan)
+    return piers.assign(hwe=np.where(np.isnan(he), piers.Hc.to_numpy(), he))
+
+
+def _pass_fail_rows(p: pd.DataFrame, parts: list[tuple]) -> pd.DataFrame:
+    """(pier_id, util) of the rules' pass / FAIL rows, as `finish_rules` without working gives
+    them from the rule tables (`rule_rows`): one array each, no table per rule."""
+    every = np.arange(len(p))
+    rows = np.concatenate([every if r[0] is None else r[0] for r in parts])
+    n = [len(p) if r[0] is None else len(r[0]) for r in parts]
+    util = np.concatenate(
+        [np.broadcast_to(np.asarray(r[7], dtype=float), (k,)) for r, k in zip(parts, n, strict=True)]
+    )
+    status = np.concatenate(
+        [np.broadcast_to(np.asarray(r[6], dtype=object), (k,)) for r, k in zip(parts, n, strict=True)]
+    )
+    keep = (status == PASS) | (status == FAIL)
+    out = pd.DataFrame({"pier_id": p.pier_id.to_numpy()[rows], "util": util})
+    return out[keep][["pier_id", "util"]].reset_index(drop=True)
 
 
 def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule, std: Standard) -> None:
@@ -180,7 +242,7 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
     nan = np.full(len(p), np.nan)
     if not quake:
         rule(
-            p,
+            None,
             "end-zone trigger",
             nan,
             trigger,
@@ -192,17 +254,9 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
             "n/a: the 0.15 f'c trigger applies under earthquake combinations only and none is named",
         )
         return
-    acts = actions[actions.combination.astype(str).isin(quake)]
-    geo = p[["storey", "pier_id", "Lw", "tw"]]
-    a = acts[["storey", "pier_id", "combination", "n", "m"]].merge(geo, on=["storey", "pier_id"])
-    smax, smin = as3600.pier_extreme_fibre_stress(a.n * 1e3, a.m * 1e6, a.Lw, a.tw)
-    a = a.assign(smax=smax, smin=smin)
-    worst = a.loc[a.groupby(["storey", "pier_id"], sort=False).smax.idxmax()] if len(a) else a
-    w = p[["storey", "pier_id"]].merge(
-        worst[["storey", "pier_id", "combination", "n", "m", "smax", "smin"]],
-        on=["storey", "pier_id"],
-        how="left",
-    )
+    w = _worst_by_position(p, actions, quake)
+    if w is None:  # a key blank or not unique, or a pier's stresses all NaN: the joins decide
+        w = _worst_by_merge(p, actions, quake)
     has = w.smax.notna().to_numpy()
     smax, smin = w.smax.to_numpy(float), w.smin.to_numpy(float)
     over = has & (smax > trigger)
@@ -232,7 +286,7 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
         return out
 
     rule(
-        p,
+        None,
         "end-zone trigger",
         np.where(has, smax, np.nan),
         trigger,
@@ -246,7 +300,8 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
     )
     if not over.any():
         return
-    z = p[over].reset_index(drop=True)
+    at_z = np.flatnonzero(over)
+    z = p.iloc[at_z].reset_index(drop=True)
     zlen = zone[over]
     bars = _end_bars(z)  # end-zone bar diameter and tie spacing; NaN where not described
     described = ~np.isnan(bars).any(axis=1)
@@ -271,7 +326,7 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
         return out
 
     rule(
-        z,
+        at_z,
         "end-zone ties",
         given,
         need,
@@ -282,6 +337,63 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
         ties_text,
         f"where the trigger is exceeded; min({k:g} db, {cap:g} mm) (Project settings), {MEMORY}; "
         "'check' until end-zone bars are described",
+    )
+
+
+def _worst_by_merge(p: pd.DataFrame, actions: pd.DataFrame, quake) -> pd.DataFrame:
+    """Per pier of `p` (in its order) the action row under the earthquake combinations `quake`
+    with the largest extreme-fibre compression (the first of equal ones), its combination, N*,
+    M* and the two stresses; NaN where the pier has none: by joins on (storey, pier_id)."""
+    acts = actions[actions.combination.astype(str).isin(quake)]
+    geo = p[["storey", "pier_id", "Lw", "tw"]]
+    a = acts[["storey", "pier_id", "combination", "n", "m"]].merge(geo, on=["storey", "pier_id"])
+    smax, smin = as3600.pier_extreme_fibre_stress(a.n * 1e3, a.m * 1e6, a.Lw, a.tw)
+    a = a.assign(smax=smax, smin=smin)
+    worst = a.loc[a.groupby(["storey", "pier_id"], sort=False).smax.idxmax()] if len(a) else a
+    return p[["storey", "pier_id"]].merge(
+        worst[["storey", "pier_id", "combination", "n", "m", "smax", "smin"]],
+        on=["storey", "pier_id"],
+        how="left",
+    )
+
+
+def _worst_by_position(p: pd.DataFrame, actions: pd.DataFrame, quake) -> pd.DataFrame | None:
+    """`_worst_by_merge`'s rows (the columns the trigger reads: combination, n, m, smax, smin)
+    with the action rows found by position (`pier_rows`) and each pier's first largest stress
+    by group (`group_max`: what `idxmax` picks), no join of the action rows' text keys. None
+    where a key is blank or a pier not unique, or where a pier's stresses are all NaN (idxmax
+    refuses that group: the joins say so)."""
+    at = pier_rows(actions.storey, actions.pier_id, p.storey, p.pier_id)
+    if at is None:
+        return None
+    rows = np.flatnonzero(actions.combination.astype(str).isin(quake).to_numpy() & (at >= 0))
+    pier = at[rows]
+    n_star, m_star = actions.n.to_numpy()[rows] * 1e3, actions.m.to_numpy()[rows] * 1e6
+    smax, smin = as3600.pier_extreme_fibre_stress(
+        n_star, m_star, p.Lw.to_numpy()[pier], p.tw.to_numpy()[pier]
+    )
+    top = group_max(smax, pier, len(p))
+    if (np.isnan(top) & (np.bincount(pier, minlength=len(p)) > 0)).any():
+        return None
+    hit = np.flatnonzero(smax == top[pier])
+    first = np.full(len(p), len(rows), dtype=np.intp)
+    np.minimum.at(first, pier[hit], hit)
+    has = first < len(rows)
+    pick = first[has]
+
+    def per_pier(values: np.ndarray, blank) -> np.ndarray:
+        out = np.full(len(p), blank, dtype=values.dtype if blank is not None else object)
+        out[has] = values[pick]
+        return out
+
+    return pd.DataFrame(
+        {
+            "combination": per_pier(actions.combination.to_numpy(dtype=object)[rows], None),
+            "n": per_pier(actions.n.to_numpy(dtype=float)[rows], np.nan),
+            "m": per_pier(actions.m.to_numpy(dtype=float)[rows], np.nan),
+            "smax": per_pier(np.asarray(smax, dtype=float), np.nan),
+            "smin": per_pier(np.asarray(smin, dtype=float), np.nan),
+        }
     )
 
 
@@ -310,7 +422,13 @@ def _zone_words(zone: float, Lw: float) -> str:
 
 
 def _pass_fail(util) -> np.ndarray:
-    return np.where(np.asarray(util, dtype=float) <= 1.0 + 1e-9, PASS, FAIL).astype(object)
+    return _pass_fail_where(np.asarray(util, dtype=float) <= 1.0 + 1e-9)
+
+
+def _pass_fail_where(ok) -> np.ndarray:
+    """PASS where `ok`, FAIL elsewhere, as an object array: taken from the two words (not a
+    numpy string array converted to a Python string per row)."""
+    return np.array([FAIL, PASS], dtype=object)[np.asarray(ok, dtype=bool).astype(np.intp)]
 
 
 def _at_least(value, limit) -> np.ndarray:

@@ -9,12 +9,11 @@ import dataclasses
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import per_pier, plain
+from xlcore.checks import per_pier, pier_rows, plain
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import rows_of
 from xlcore.model import Settings
-from xlcore.results import status_column, utilisation
+from xlcore.results import status_column, text_column, utilisation
 
 HEIGHT_OVERALL, HEIGHT_OPENING = "overall wall height", "opening height"  # layout.HEIGHT_BASES
 DETAIL_COLUMNS = ("eq1", "eq2", "floor", "alpha_c")
@@ -57,31 +56,29 @@ def check_pier_shear(
     df, at = _with_piers(actions, piers, geo)
     basis = settings.shear_height
     if basis == HEIGHT_OVERALL:
-        df["Hw"], h_whole = df.H_wall, df.H_wall
+        hw, h_whole = df.H_wall.to_numpy(), df.H_wall
     else:
         use_opening = basis == HEIGHT_OPENING
-        df["Hw"], h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
+        hw, h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
     if at is not None:  # > 0: a pier beside an opening
         beside = piers.position.to_numpy()[at] > 0
     else:
         place = piers.set_index(["storey", "pier_id"]).position
         beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
-    ratio, wall_governs = std.wall_aspect_ratio(df.Hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
-    df["hw_lw"] = ratio
+    ratio, wall_governs = std.wall_aspect_ratio(hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
+    # the result columns, in the order they are written, joined to the action rows at once (a
+    # column insert each copied every column of 360 000 rows at L)
+    new: dict[str, object] = {"Hw": hw, "hw_lw": ratio}
     if working:  # text on every row: not for the advice search's variants (10 % of its time)
         args = (
-            df.Hw.to_numpy(float),
+            np.asarray(hw, float),
             df.Lw.to_numpy(float),
             np.asarray(h_whole, float),
             df.wall_length.to_numpy(float) * 1000.0,
             beside,
             np.asarray(wall_governs),
         )
-        # once per distinct set of its numbers (a pier's, the same on all its combinations),
-        # spread to the rows: the same text, one format per pier instead of per row
-        first, of = _distinct(args)
-        words = _basis_text(basis, *(a[first] for a in args))
-        df["hw_basis"] = np.asarray(words, dtype=object)[of].tolist()
+        new["hw_basis"] = _hw_basis(basis, args, at, len(piers))
     phi = settings.phi_shear if settings.phi_shear is not None else std.phi_wall_shear
     r = std.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio, df.rho_h, df.rho_v, phi)
     kn = 1e-3
@@ -89,21 +86,23 @@ def check_pier_shear(
     # alpha_c), NaN where a standard has no such term, so every standard fills the same columns
     for key in DETAIL_COLUMNS:
         v = r.detail.get(key)
-        df[key] = np.nan if v is None else v * (kn if key in ("eq1", "eq2", "floor") else 1.0)
-    df.loc[~np.isfinite(df.eq2), "eq2"] = np.nan  # AS Eq (2) applies only where Hw/Lw > 1
+        new[key] = np.nan if v is None else v * (kn if key in ("eq1", "eq2", "floor") else 1.0)
+    new["eq2"] = _finite_or_nan(new["eq2"], len(df))  # AS Eq (2) applies only where Hw/Lw > 1
     for key, v in (("vuc", r.concrete), ("vus", r.steel), ("vu_max", r.limit), ("phi_vu", r.design)):
-        df[key] = v * kn
-    df["rho_w"] = r.detail.get("rho_w", df.rho_h.to_numpy(float))
-    df["phi"] = r.phi
-    df["k"] = df.k * 1e-3  # N/mm -> kN/mm
-    df["util"] = utilisation(df.v, df.phi_vu)
-    df["status"] = status_column(df.util)
-    df["clause"] = _clauses(r)
+        new[key] = v * kn
+    new["rho_w"] = r.detail.get("rho_w", df.rho_h.to_numpy(float))
+    new["phi"] = r.phi
+    k = df.k * 1e-3  # N/mm -> kN/mm
+    new["util"] = util = utilisation(df.v, new["phi_vu"])
+    new["status"] = status_column(util)
+    new["clause"] = _clauses(r)
+    if working:
+        rho_req, capped = std.wall_steel_required(df.v * 1e3, r.phi, df.fc, df.fsy, df.Lw, df.tw, ratio)
+        new["rho_req"] = rho_req
+        new["advice"] = _advice(std, util, rho_req, capped, np.asarray(ratio, dtype=float), r)
+    df = _joined(df.assign(k=k), new)
     if not working:
         return df
-    rho_req, capped = std.wall_steel_required(df.v * 1e3, r.phi, df.fc, df.fsy, df.Lw, df.tw, ratio)
-    df["rho_req"] = rho_req
-    df["advice"] = _advice(std, df.util.to_numpy(), rho_req, capped, df.hw_lw.to_numpy(), r)
     if text:
         # capacity working depends on the pier's numbers alone: written once per distinct set
         # of them (piers alike over many storeys share it), then spread
@@ -119,7 +118,80 @@ def check_pier_shear(
         ]
     # the engineer's row order; piers shared from one wall row stay together, from the wall start
     order = ["origin", "row", "position"] if "origin" in df else ["row", "position"]
+    if _in_order(df, order):  # the sharing gives them so: the same rows as the stable sort
+        return df.reset_index(drop=True)
     return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+def _finite_or_nan(values, n: int):
+    """`values` with NaN where not finite (a scalar broadcast to `n` rows first where it is
+    not finite, as the column assignment did)."""
+    a = np.asarray(values, dtype=float)
+    if a.ndim == 0:
+        return values if np.isfinite(a) else np.full(n, np.nan)
+    return np.where(np.isfinite(a), a, np.nan)
+
+
+def _joined(df: pd.DataFrame, new: dict) -> pd.DataFrame:
+    """`df` with the columns `new` added as `df[name] = value` one after another adds them,
+    in one step (one frame of the new columns beside the old: no copy of every column per
+    insert). Arrays made here become columns as they are; a read-only one (a view of another
+    table's column) or one given twice is copied, as the insert copied it. The inserts where
+    a name is already a column of `df` (it keeps its place)."""
+    if set(new) & set(df.columns):
+        df = df.copy()
+        for name, value in new.items():
+            df[name] = value
+        return df
+    seen: set[int] = set()
+    own = {}
+    for name, value in new.items():
+        if isinstance(value, np.ndarray) and (not value.flags.writeable or id(value) in seen):
+            value = value.copy()
+        seen.add(id(value))
+        own[name] = value
+    return pd.concat([df, pd.DataFrame(own, index=df.index, copy=False)], axis=1)
+
+
+def _in_order(df: pd.DataFrame, keys: list[str]) -> bool:
+    """Whether the rows already stand in the order a stable sort on the integer columns
+    `keys` gives (then the sort would return them as they are)."""
+    cols = [df[k].to_numpy() for k in keys]
+    if len(df) < 2 or any(c.dtype.kind not in "iu" for c in cols):
+        return len(df) < 2
+    tied = np.ones(len(df) - 1, dtype=bool)  # pairs of neighbours equal on the keys so far
+    for c in cols:
+        a, b = c[:-1], c[1:]
+        if (tied & (b < a)).any():
+            return False
+        tied &= b == a
+    return True
+
+
+def _hw_basis(
+    basis: str, args: tuple, at: np.ndarray | None, n_piers: int
+) -> pd.api.extensions.ExtensionArray:
+    """`_basis_text` of every row as a text column, written once per distinct set of its
+    numbers: a pier's, the same on all its combinations. With `at` (each row's pier) the
+    distinct sets are found among one row of each pier instead of among every row; the column
+    is taken from the few words (`text_column`), not made from a list of every row's."""
+    if at is None:
+        rows, slot = np.arange(len(args[0])), np.arange(len(args[0]))
+    else:
+        rows, slot = _one_row_per_pier(at, n_piers)
+    first, of = _distinct([a[rows] for a in args])
+    words = _basis_text(basis, *(a[rows[first]] for a in args))
+    return text_column(of[slot], words)
+
+
+def _one_row_per_pier(at: np.ndarray, n_piers: int) -> tuple[np.ndarray, np.ndarray]:
+    """A row of each pier that has rows (`at`: each row's pier) and each row's index among
+    them. Which row stands for a pier does not matter to what reads its pier's values."""
+    row_of = np.full(n_piers, -1, dtype=np.intp)
+    row_of[at] = np.arange(len(at))
+    has = row_of >= 0
+    slot = np.cumsum(has) - 1
+    return row_of[has], slot[at]
 
 
 def _with_piers(
@@ -132,20 +204,21 @@ def _with_piers(
     keys = ["storey", "pier_id"]
     at = None
     if not (set(actions.columns) & set(geo)) - set(keys):
-        at = rows_of(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
         if at is not None and (at < 0).any():
             at = None
     if at is None:
         return actions.merge(piers[geo], on=keys, how="left"), None
     df = actions.reset_index(drop=True)
-    return df.assign(**{c: piers[c].to_numpy()[at] for c in geo if c not in keys}), at
+    return _joined(df, {c: piers[c].to_numpy()[at] for c in geo if c not in keys}), at
 
 
-def _clauses(r) -> np.ndarray:
-    """`r.clauses()` (the governing clause of every row) looked up once per distinct code."""
-    codes, of = np.unique(np.ravel(r.governs), return_inverse=True)
-    text = dataclasses.replace(r, governs=codes).clauses()
-    return np.asarray(text, dtype=object)[of.ravel()]
+def _clauses(r) -> pd.api.extensions.ExtensionArray:
+    """`r.clauses()` (the governing clause of every row) looked up once per distinct code
+    (codes by hashing, not sorting 360 000 rows)."""
+    of, codes = pd.factorize(np.ravel(r.governs), use_na_sentinel=False)
+    text = dataclasses.replace(r, governs=np.asarray(codes)).clauses()
+    return text_column(of, text)
 
 
 def _advice(std: Standard, util: np.ndarray, rho_req, capped, hw_lw: np.ndarray, cap) -> np.ndarray:

@@ -822,18 +822,12 @@ class ACI318:
         return first, second
 
     def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap):
-        out = []
-        for u, need, over in zip(*(_a(c).tolist() for c in (util, rho_req, capped)), strict=True):
-            if u <= 1.0:
-                out.append("")
-            elif over:
-                out.append(
-                    "Vu/phi exceeds 0.66 sqrt(f'c) Acv (ACI 318-19 11.5.4.2): only a thicker wall or "
-                    "a higher f'c helps"
-                )
-            else:
-                out.append(f"raise horizontal steel to rho_t >= {need:.5f} (11.5.4.3)")
-        return out
+        from xlcore.codes.base import words_once
+
+        # the words read Vu / phi Vn only against 1: worded once per distinct (fails, capped,
+        # rho needed), the same words as row by row
+        fails = ~(_a(util) <= 1.0)
+        return words_once(_shear_advice_words, fails, _a(capped).astype(bool), rho_req)
 
     # ---- axial load and bending
     def stress_block(self, fc):
@@ -1095,3 +1089,19 @@ def beam_av_s_required(v_u, fc, b, d, fyt, rho_w, lam=1.0):
 
 
 STANDARD = ACI318()
+
+
+def _shear_advice_words(fails, capped, rho_req) -> list[str]:
+    """The advice of each row (`ACI318.wall_shear_advice`): '' where it passes."""
+    out = []
+    for fail, over, need in zip(*(_a(c).tolist() for c in (fails, capped, rho_req)), strict=True):
+        if not fail:
+            out.append("")
+        elif over:
+            out.append(
+                "Vu/phi exceeds 0.66 sqrt(f'c) Acv (ACI 318-19 11.5.4.2): only a thicker wall or "
+                "a higher f'c helps"
+            )
+        else:
+            out.append(f"raise horizontal steel to rho_t >= {need:.5f} (11.5.4.3)")
+    return out

@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from xlcore.codes import as3600
-from xlcore.codes.base import Bar, BeamShear, SectionState, ShearCapacity, catalogue_name, num
+from xlcore.codes.base import Bar, BeamShear, SectionState, ShearCapacity, catalogue_name, num, words_once
 
 EQ1_ZERO = 0.66 / 0.21
 """Hw/Lw beyond which Cl 11.6.3 Eq (1) is negative (the floor then governs)."""
@@ -162,18 +162,12 @@ class AS3600:
         return first, second
 
     def wall_shear_advice(self, util, rho_req, capped, hw_lw, cap):
-        out = []
-        cols = [np.asarray(c).tolist() for c in (util, rho_req, capped, hw_lw, cap.detail["rho_w"])]
-        for u, need, over, hl, have in zip(*cols, strict=True):
-            if u <= 1.0:
-                out.append("")
-            elif over:
-                out.append("V*/phi exceeds Vu.max (Cl 11.6.2): only a thicker wall or a higher f'c helps")
-            elif hl > 1.0:
-                out.append(f"raise horizontal steel to rho_h >= {need:.5f} (now {have:.5f})")
-            else:
-                out.append(f"raise the lesser of rho_h and rho_v to >= {need:.5f} (now {have:.5f})")
-        return out
+        # the words read V*/phiVu and Hw/Lw only against 1: worded once per distinct (fails,
+        # capped, Hw/Lw > 1, rho needed, rho given), the same words as row by row
+        fails = ~(np.asarray(util, dtype=float) <= 1.0)
+        steep = np.asarray(hw_lw, dtype=float) > 1.0
+        over = np.asarray(capped).astype(bool)
+        return words_once(_shear_advice_words, fails, over, steep, rho_req, cap.detail["rho_w"])
 
     # ---- axial load and bending
     def stress_block(self, fc):
@@ -367,3 +361,19 @@ class AS3600:
 
 
 STANDARD = AS3600()
+
+
+def _shear_advice_words(fails, capped, steep_ratio, rho_req, rho_w) -> list[str]:
+    """The advice of each row (`AS3600.wall_shear_advice`): '' where it passes."""
+    out = []
+    cols = [np.asarray(c).tolist() for c in (fails, rho_req, capped, steep_ratio, rho_w)]
+    for fail, need, over, steep, have in zip(*cols, strict=True):
+        if not fail:
+            out.append("")
+        elif over:
+            out.append("V*/phi exceeds Vu.max (Cl 11.6.2): only a thicker wall or a higher f'c helps")
+        elif steep:
+            out.append(f"raise horizontal steel to rho_h >= {need:.5f} (now {have:.5f})")
+        else:
+            out.append(f"raise the lesser of rho_h and rho_v to >= {need:.5f} (now {have:.5f})")
+    return out
