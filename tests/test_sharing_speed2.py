@@ -612,3 +612,17 @@ def test_first_per_pier_equals_the_group_by(blank):
     want = t.groupby(["storey", "pier_id"]).hwe.first()
     pd.testing.assert_series_equal(got, want, check_exact=True)
     assert got.index.equals(want.index) and got.isna().any()
+
+
+def test_rows_of_an_empty_table_finds_no_row():
+    """An empty table of pairs (the advice search hands detailing no variant when shear rules
+    them all out): every pair has no row, as the inner merge on an empty table keeps none."""
+    from xlcore.distribution import rows_of
+
+    empty = pd.Series([], dtype=object)
+    at = rows_of(pd.Series(["L1", "L2"]), pd.Series(["P1", "P2"]), empty, empty)
+    assert at.tolist() == [-1, -1]
+    merged = pd.DataFrame({"s": ["L1", "L2"], "p": ["P1", "P2"]}).merge(
+        pd.DataFrame({"s": empty, "p": empty}), on=["s", "p"]
+    )
+    assert merged.empty

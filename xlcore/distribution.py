@@ -127,6 +127,8 @@ def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
     row_of = np.full(len(ia) * len(ib), -1)
     row_of[own] = np.arange(len(own))
     ca, cb = (x.indexer(i) if isinstance(x, Coded) else i.get_indexer(x) for x, i in ((a, ia), (b, ib)))
+    if not len(row_of):  # an empty table: no pair has a row (the advice search's empty batches)
+        return np.full(len(ca), -1)
     return np.where((ca >= 0) & (cb >= 0), row_of[np.maximum(ca, 0) * len(ib) + np.maximum(cb, 0)], -1)
 
 
