@@ -8,10 +8,10 @@ References, named beside each check:
   Buildings", Chapter 6 shear-wall example as excerpted on what-when-how.com ("Simplified Design
   of Reinforced Concrete Buildings 216"): hw/lw = 2, rho_t = 0.0055 -> rho_l = 0.0033 (page
   number not shown in the excerpt).
-- Published worked example, ratios and spacing: StructurePoint "Reinforced Concrete Shear Wall
-  Analysis and Design" (ACI 318-14, Version Mar-23-2018), reproducing Wight, Reinforced Concrete
-  Mechanics and Design, 7th ed. (2016), Example 18-2, section 1 "Minimum Reinforcement
-  Requirements": 10 in wall, 18 ft long, #4 @ 16 in and #5 @ 18 in each face.
+- Published worked example, ratios and spacing: Wight, Reinforced Concrete Mechanics and Design,
+  7th ed. (2016), Example 18-2, as reproduced (to ACI 318-14) in a published shear-wall design
+  example, section 1 "Minimum Reinforcement Requirements": 10 in wall, 18 ft long, #4 @ 16 in
+  and #5 @ 18 in each face.
 - Everything else: the section's expression evaluated by hand (calculator), at and either side of
   every limit; the values are written out, not computed by xlcore.
 Common case: Lw 3000 mm, tw 200 mm, f'c 40 MPa, fyt 420 MPa: Acv = 600 000 mm^2,
@@ -196,7 +196,7 @@ def test_eq_11_6_2_published_pca_example():
 
 
 def test_published_wight_example_18_2_ratios_and_spacing():
-    """Wight 7th ed. Example 18-2 via StructurePoint: rho_t = 2 x 0.20 / (10 x 16) = 0.0025 >= 0.0025;
+    """Wight 7th ed. Example 18-2: rho_t = 2 x 0.20 / (10 x 16) = 0.0025 >= 0.0025;
     rho_l,min = greater of 0.0025 + 0.5 (2.5 - hw/lw)(0.0025 - 0.0025) and 0.0025 = 0.0025; both
     spacings limited to 18 in (3h = 30 in, lw/5 = 43.2 in, lw/3 = 72 in); the SI edition's
     450 mm stands for 18 in (457 mm)."""
