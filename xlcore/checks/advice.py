@@ -1190,6 +1190,18 @@ def _pier_cols(piers: pd.DataFrame, meta: pd.DataFrame) -> dict[str, np.ndarray]
 # the search
 
 
+def building_ns(settings: Settings, piers: pd.DataFrame) -> Settings:
+    """The settings with ACI 318-19 ns (18.10.3.1.3, the storeys above the critical section)
+    fixed at the building's own where the Project setting is blank: the design check takes the
+    storeys up to the highest wall of the whole pier table (`special_walls.check_special_walls`),
+    while the search checks batches of variants whose highest storey is the batch's own, which
+    gave a smaller ns, a smaller omega_v and an amplified shear below the design check's
+    (unconservative, and dependent on which variants shared a batch)."""
+    if settings.aci_storeys_above is not None or piers.empty:
+        return settings
+    return settings.model_copy(update={"aci_storeys_above": float(int(piers.storey_index.max()) + 1)})
+
+
 def advise(
     piers: pd.DataFrame, actions: pd.DataFrame, summary: pd.DataFrame, settings: Settings
 ) -> pd.DataFrame:
@@ -1200,6 +1212,7 @@ def advise(
     failing = summary[summary.status == "FAIL"][["storey", "pier_id"]]
     if failing.empty:
         return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
+    settings = building_ns(settings, piers)
     var, meta = _candidates(piers, failing, settings)
     one, of = _one_row_per_pier(meta)  # pour and flags worked out per pier, not per option row
     pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
