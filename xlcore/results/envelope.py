@@ -244,25 +244,22 @@ def _parts(
             note="",
         )[cols]
 
-    def detailing_rows(t: pd.DataFrame) -> pd.DataFrame:
-        return t.assign(
-            check=CHECK_DETAILING,
-            check_no=CHECKS.index(CHECK_DETAILING),
-            combination="(all)",
-            demand=t.value,
-            capacity=t.limit,
-            note=t.rule,
-        )[cols]
+    def rule_rows(check: str):
+        """The shaping of a table of rules (detailing, Section 14): one row per rule."""
 
-    def section14_rows(e: pd.DataFrame) -> pd.DataFrame:
-        return e.assign(
-            check=CHECK_SECTION14,
-            check_no=CHECKS.index(CHECK_SECTION14),
-            combination="(all)",
-            demand=e.value,
-            capacity=e.limit,
-            note=e.rule,
-        )[cols]
+        def shape(t: pd.DataFrame) -> pd.DataFrame:
+            return t.assign(
+                check=check,
+                check_no=CHECKS.index(check),
+                combination="(all)",
+                demand=t.value,
+                capacity=t.limit,
+                note=t.rule,
+            )[cols]
+
+        return shape
+
+    detailing_rows, section14_rows = rule_rows(CHECK_DETAILING), rule_rows(CHECK_SECTION14)
 
     own = ("storey", "pier_id", "combination", "util", "status", "clause")  # the columns kept as they are
     parts = [_Part(CHECK_SHEAR, shear, None, shear_rows, (*own, "v", "phi_vu", "advice"))]
