@@ -579,3 +579,14 @@ def test_bar_ratio_in_place_equals_the_formula():
         assert got.shape == want.shape and np.array_equal(got.view(np.int64), want.view(np.int64))
     assert all(np.array_equal(a, b) for a, b in zip((layers, dia, sp, tw), before, strict=True))
     assert geometry.bar_ratio(2, 12.0, 200.0, 200.0) == 2 * np.pi * 144.0 / 4.0 / 40000.0
+
+
+def test_pier_rows_with_a_missing_storey_as_pd_na_answers_as_rows_of():
+    """A nullable column's pd.NA has no == answer: the look-up by number must not compare it
+    (it raised TypeError) but give rows_of's answer, -1 for that row (found in review)."""
+    from xlcore.checks import pier_rows
+
+    a_storey = pd.Series(["1", pd.NA, "2"], dtype=object)
+    a_pier, t_storey, t_pier = np.array([1, 2, 3]), ["1", "1", "2"], np.array([1, 2, 3])
+    assert pier_rows(a_storey, a_pier, t_storey, t_pier).tolist() == [0, -1, 2]
+    assert rows_of(a_storey, a_pier, t_storey, t_pier).tolist() == [0, -1, 2]

@@ -194,7 +194,7 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
     wall_ids = walls.wall_id.to_numpy()
     piers_at = piers.groupby("storey", sort=False).indices
     walls_at = walls.groupby("storey", sort=False).indices
-    for storey in pd.unique(piers.storey):
+    for storey in pd.unique(piers.storey[piers.storey.notna()]):  # a blank storey: no plan, as the group-by
         ip, iw = piers_at[storey], walls_at[storey]
         key = _plan_key_of(plan_cols[ip], wall_cols[iw], wall_ids[iw])
         if key in seen:

@@ -40,9 +40,9 @@ def pier_rows(a_storey, a_pier, t_storey, t_pier) -> np.ndarray | None:
     tp, ap = np.asarray(t_pier), np.asarray(a_pier)
     if tp.dtype.kind in "iu" and ap.dtype.kind in "iu" and len(tp) and len(ap):
         at = _by_number(ap, tp)
-        ts = np.asarray(t_storey, dtype=object)
-        if at is not None and not pd.isna(ts).any():
-            same = ts[np.maximum(at, 0)] == np.asarray(a_storey, dtype=object)
+        ts, as_ = np.asarray(t_storey, dtype=object), np.asarray(a_storey, dtype=object)
+        if at is not None and not pd.isna(ts).any() and not pd.isna(as_).any():  # pd.NA: no == answer
+            same = ts[np.maximum(at, 0)] == as_
             return np.where((at >= 0) & same, at, -1)
     return rows_of(a_storey, a_pier, t_storey, t_pier)
 
@@ -64,8 +64,10 @@ def _by_number(numbers: np.ndarray, table: np.ndarray) -> np.ndarray | None:
 
 def group_max(values, group: np.ndarray, n: int) -> np.ndarray:
     """Per group 0..n-1 the largest of `values` (NaN skipped; NaN where a group has none): what
-    pandas' `groupby(...).max()` gives, to the bit. Among equal largest values it keeps the first
-    row's, which matters for a zero only (-0.0 or 0.0, whichever comes first)."""
+    pandas' `groupby(...).max()` gives, to the bit, except the sign of a largest zero: this keeps
+    the first row's (-0.0 or 0.0, whichever comes first), while pandas 3.1's choice between equal
+    zeros depends on the group's length (review: 8 rows gave 0.0, 16 the same values -0.0); only
+    a printed "-0.00" can differ, never a utilisation."""
     v = np.asarray(values, dtype=float)
     out = np.full(n, np.nan)
     np.fmax.at(out, group, v)
