@@ -461,12 +461,13 @@ def test_per_pier_by_counting_equals_np_unique(rows):
             assert got.tolist() == want.tolist()
 
 
-# ---- costs: the cost per metre height into two arrays
+# ---- costs: the cost per metre height
 
 
-def test_per_metre_height_in_place_equals_the_formula():
-    """Float arrays (with a price per row or one price): the formula's numbers to the bit; other
-    inputs (numbers, integer arrays) by the formula itself."""
+def test_per_metre_height_is_the_formula():
+    """Float arrays (with a price per row or one price), numbers and integer arrays: concrete
+    area x price plus (rho_v + rho_h) x area x 7.85 t/m^3 x steel price, to the bit (hand
+    evaluation of the formula; steel density 7 850 kg/m^3, from memory)."""
     rng = np.random.default_rng(9)
     n = 5000
     Lw, tw = rng.uniform(300.0, 9000.0, n), rng.choice([200.0, 250.0, 300.0], n)

@@ -40,35 +40,9 @@ def concrete_price(prices: dict[float, float], fc):
 
 def per_metre_height(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t):
     """Cost of one metre height of pier: concrete plus vertical and horizontal steel."""
-    arrays = (Lw_mm, tw_mm, rho_v, rho_h)
-    if all(isinstance(a, np.ndarray) and a.dtype == np.float64 for a in arrays) and _same_shape(
-        *arrays, concrete_per_m3, steel_per_t
-    ):
-        return _per_metre_height_in_place(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t)
     area = Lw_mm * tw_mm / 1e6  # m^2
     steel_t = (rho_v + rho_h) * area * STEEL_DENSITY / 1000.0
     return area * concrete_per_m3 + steel_t * steel_per_t
-
-
-def _same_shape(first: np.ndarray, *others) -> bool:
-    """Whether every one of `others` is a number or an array of `first`'s shape."""
-    return all(np.ndim(o) == 0 or np.shape(o) == first.shape for o in others)
-
-
-def _per_metre_height_in_place(Lw_mm, tw_mm, rho_v, rho_h, concrete_per_m3, steel_per_t) -> np.ndarray:
-    """`per_metre_height` of float arrays (the advice search's 380 000 variant rows at L): the
-    same operations in the same order, each into one of two arrays instead of a new array each
-    (two allocations, not seven)."""
-    area = np.multiply(Lw_mm, tw_mm)
-    area /= 1e6  # m^2
-    steel = np.add(rho_v, rho_h)
-    steel *= area
-    steel *= STEEL_DENSITY
-    steel /= 1000.0
-    steel *= steel_per_t
-    out = np.multiply(area, concrete_per_m3)
-    out += steel
-    return out
 
 
 def bars_per_metre_height(area_mm2, steel_per_t):
