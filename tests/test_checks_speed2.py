@@ -461,6 +461,16 @@ def test_per_pier_by_counting_equals_np_unique(rows):
             assert got.tolist() == want.tolist()
 
 
+def test_per_pier_keeps_a_blank_pier_id_out_of_other_piers_groups():
+    """A row whose pier ID is blank is a group of its own at its storey: before, its code (-1)
+    made its key that of the storey below's last pier, and it took that pier's numbers."""
+    df = pd.DataFrame({"storey": ["L1", "L1", "L2", "L2", "L2"], "pier_id": ["W1", "W2", "W1", None, None]})
+    first, of = per_pier(df)
+    # groups: (L1, W1), (L1, W2), (L2, W1), (L2, blank) -- the two blank rows together
+    assert of.tolist() == [0, 1, 2, 3, 3]
+    assert first.tolist() == [0, 1, 2, 3]
+
+
 # ---- costs: the cost per metre height
 
 

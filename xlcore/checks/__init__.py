@@ -13,8 +13,12 @@ def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     # the L tower's 360 000 rows, against 0.03 s); each row's first row of its pier is the same
     storey, storeys = pd.factorize(df.storey)
     pier, piers = pd.factorize(df.pier_id)
-    key = storey.astype(np.int64) * len(piers) + pier
-    size = len(storeys) * len(piers)
+    n_piers = len(piers)
+    if (pier < 0).any():  # a blank pier ID: a code of its own, not the storey below's last pier
+        pier = np.where(pier < 0, n_piers, pier)
+        n_piers += 1
+    key = storey.astype(np.int64) * n_piers + pier
+    size = len(storeys) * n_piers
     if not len(key) or size > 8 * len(key) or (key < 0).any():
         _, first, of = np.unique(key, return_index=True, return_inverse=True)
         return first, of
