@@ -52,7 +52,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import costs, geometry
-from xlcore.checks import special_walls
+from xlcore.checks import group_max, special_walls
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14, not_applicable_reason
@@ -553,6 +553,11 @@ class ActionRows:
         rows of the join of the actions with `meta` on (storey, pier), action row by action row
         and within one the variants in `meta`'s order (the join's order), same columns. With
         `coded`, the storey as its integer code (`code_storeys`)."""
+        return self.frame_of(*self.rows_of(meta), meta, coded)
+
+    def rows_of(self, meta: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
+        """`for_variants`' rows as positions: each one's action row (in `frame`) and its row
+        of `meta`, in the join's order."""
         storey = pd.Index(self.storeys).get_indexer(meta.storey)
         pier = pd.Index(self.piers).get_indexer(meta.pier_id)
         joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
@@ -563,9 +568,13 @@ class ActionRows:
         step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
         row = self.order[np.repeat(lo, count) + step]
         by = np.argsort(row, kind="stable")  # by row, then `which` (ascending as made): a lexsort
-        out = (self.coded if coded else self.frame).take(row[by]).reset_index(drop=True)
+        return row[by], which[by]
+
+    def frame_of(self, row: np.ndarray, which: np.ndarray, meta: pd.DataFrame, coded: bool = False) -> pd.DataFrame:
+        """The action rows `row` (of `frame`) as the variants `which` (rows of `meta`) take them."""
+        out = (self.coded if coded else self.frame).take(row).reset_index(drop=True)
         out = out.drop(columns="pier_id")
-        out["pier_id"] = meta.variant.to_numpy()[which[by]]
+        out["pier_id"] = meta.variant.to_numpy()[which]
         return out
 
 
@@ -583,20 +592,23 @@ def _utilisation(
     alike: they read the storey only as a key, with the pier ID, which is the variant's own
     (unique over storeys), so the same rows meet; text keys cost a fifth of the checks' time in
     their joins and groupings (tests/test_advice_speed5.py)."""
-    acts = actions.for_variants(meta, coded=True)
+    row, which = actions.rows_of(meta)
     rows = rows.assign(storey=actions.code_storeys(rows.storey))
-    if len(acts) <= CHUNK_ROWS:
+    if len(row) <= CHUNK_ROWS:
+        acts = actions.frame_of(row, which, meta, coded=True)
         return _worst(rows, acts, settings, only_axial, actions.cheap_first)
     # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
     # row (a variant's numbers do not depend on the others in its batch), and the pieces bound
-    # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once)
-    count = pd.Series(1, index=acts.pier_id.to_numpy()).groupby(level=0).size()
-    piece = np.cumsum(count.reindex(meta.variant.to_numpy()).fillna(0).to_numpy()) // CHUNK_ROWS
-    variant = meta.variant.to_numpy()
-    parts = [
-        _worst(rows.iloc[at], acts[acts.pier_id.isin(variant[at])], settings, only_axial, actions.cheap_first)
-        for at in (np.flatnonzero(piece == k) for k in np.unique(piece))
-    ]
+    # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once).
+    # Each piece's action rows taken alone (its rows of the join, in order), not the whole
+    # join's table made and then searched by variant ID per piece
+    piece = np.cumsum(np.bincount(which, minlength=len(meta))) // CHUNK_ROWS
+    parts = []
+    for k in np.unique(piece):
+        at = np.flatnonzero(piece == k)
+        mine = np.flatnonzero(piece[which] == k)
+        acts = actions.frame_of(row[mine], which[mine], meta, coded=True)
+        parts.append(_worst(rows.iloc[at], acts, settings, only_axial, actions.cheap_first))
     return pd.concat(parts).sort_index()
 
 
@@ -1554,68 +1566,111 @@ def _worst(
     var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False, cheap_first: bool = False
 ) -> pd.Series:
     """Worst utilisation of every variant over every check and combination (over axial +
-    bending and Cl 11.5 alone with `only_axial`).
+    bending and Cl 11.5 alone with `only_axial`), by variant ID (sorted), for the variants with
+    a row in some check: `pd.concat(parts).groupby("pier_id").util.max()` of the checks' tables.
 
     With `cheap_first` (the search, `ActionRows.cheap_first`), the closed-form checks (shear,
     detailing, Section 14) run first and a variant already over 1 in them is not run through
     the axial ones (the neutral-axis solve): its value is then over 1 but not its worst, which
     the search never reads (it compares with 1, and reports utilisations of passing options
     only). Detailing and Section 14 then take the effective height Cl 11.4 gives the axial
-    check (`_effective_heights`), the same numbers."""
+    check (`_effective_heights`), the same numbers.
+
+    Each check's rows are folded into one maximum per variant by the variant's position
+    (`_Worst`) instead of concatenating the checks' tables and grouping them by variant (a
+    fifth of the search's time in the checks was those concatenations, groupings and the
+    filters of rows by variant ID)."""
+    w = _Worst(var, acts)
     if cheap_first and not only_axial:
         shear = check_pier_shear(var, acts, s, working=False)
+        w.fold(shear)
         # detailing and Section 14, pier by pier, only on the variants shear leaves at or under
         # 1 (most variants of a screen fail shear, the demand the search mostly fixes); ACI 318's
         # special-wall rules on every variant as before (their ns reads the rows' highest storey;
         # they take no effective height)
-        cut = _over_one(shear.pier_id.to_numpy(), shear.util.to_numpy(float))
-        live, live_acts = (var, acts) if not len(cut) else _without(var, acts, cut)
+        live, live_acts = w.without(w.worst > 1.0)
         hwe = _effective_heights(live, live_acts, s)
         quake = (var, acts) if special_walls.applies(s) else (live, live_acts)
-        cheap = [
-            shear[["pier_id", "util"]],
-            check_detailing(live, live_acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
-            check_section14(*quake, s, hwe, working=False),
-        ]
-        worst = pd.concat(cheap).groupby("pier_id").util.max()
-        over = worst.index[(worst > 1.0).to_numpy()]
-        if len(over):
-            rest = ~var.pier_id.isin(over).to_numpy()
-            var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
+        w.fold(check_detailing(live, live_acts, s, hwe, working=False, shear=shear))
+        w.fold(check_section14(*quake, s, hwe, working=False))
+        var, acts = w.without(w.worst > 1.0)
         axial = check_pier_axial(var, acts, s, working=False, util_only=True)
-        parts = cheap
         if len(axial):
-            parts.append(axial[["pier_id", "util"]])
-            simp = axial[axial.util_s.notna()]
-            parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
-        return pd.concat(parts).groupby("pier_id").util.max()
+            w.fold(axial)
+            w.fold(axial, "util_s")
+        return w.series()
     axial = check_pier_axial(var, acts, s, working=False, util_only=True)
     # the shear table also goes to detailing, which otherwise runs the same shear check again
     shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
-    parts = [] if shear is None else [shear[["pier_id", "util"]]]
+    if shear is not None:
+        w.fold(shear)
     if len(axial):
-        parts.append(axial[["pier_id", "util"]])
-        simp = axial[axial.util_s.notna()]
-        parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        w.fold(axial)
+        w.fold(axial, "util_s")
         hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
     else:
         hwe = None
     if not only_axial:
-        parts.append(check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]])
-        parts.append(check_section14(var, acts, s, hwe, working=False))
-    if not parts:
-        return pd.Series(dtype=float)
-    return pd.concat(parts).groupby("pier_id").util.max()
+        w.fold(check_detailing(var, acts, s, hwe, working=False, shear=shear))
+        w.fold(check_section14(var, acts, s, hwe, working=False))
+    return w.series()
 
 
-def _over_one(pier: np.ndarray, util: np.ndarray) -> np.ndarray:
-    """The pier IDs with a utilisation over 1 in (`pier`, `util`) rows."""
-    return np.unique(pier[util > 1.0])
+class _Worst:
+    """Each variant's largest utilisation so far, by its position among the variant rows
+    `var` (pier ID = variant, one row each), and each action row's variant position: the
+    checks' tables folded in one at a time (`fold`), the rows of the variants already over 1
+    left out by position (`without`). The maxima are `group_max`'s (NaN skipped, NaN where
+    none), the same numbers `groupby(...).max()` gives over the checks' tables together."""
+
+    def __init__(self, var: pd.DataFrame, acts: pd.DataFrame) -> None:
+        self.var, self.acts = var, acts
+        self.ids = var.pier_id.to_numpy()
+        self.index = pd.Index(self.ids)
+        self.at = self.index.get_indexer(acts.pier_id.to_numpy())  # -1: no variant row (kept)
+        self.worst = np.full(len(self.ids), np.nan)
+        self.seen = np.zeros(len(self.ids), dtype=bool)  # a row in some check's table
+        self.kept = np.ones(len(self.ids), dtype=bool)  # rows of `var` and `acts` still in play
+
+    def _positions(self, ids: np.ndarray) -> np.ndarray:
+        at = self.index.get_indexer(ids)
+        if (at < 0).any():
+            raise KeyError("a check's row names a variant that is not among the variant rows")
+        return at
+
+    def fold(self, table: pd.DataFrame, column: str = "util") -> None:
+        """Fold a check's rows (pier ID = variant) into each variant's maximum."""
+        if not len(table):
+            return
+        at = self._positions(table.pier_id.to_numpy())
+        values = table[column].to_numpy(float)
+        if column != "util":  # Cl 11.5's column: only its rows with a value count as rows
+            ok = ~np.isnan(values)
+            at, values = at[ok], values[ok]
+        self.seen[at] = True
+        self.worst = _fmax_keep(self.worst, group_max(values, at, len(self.ids)))
+
+    def without(self, out: np.ndarray) -> tuple[pd.DataFrame, pd.DataFrame]:
+        """The variant rows and action rows still in play, less those of the variants `out`
+        (a flag per position); the same rows, in order, as filtering by variant ID."""
+        self.kept &= ~out
+        return self.var[self.kept], self.acts[(self.at < 0) | self.kept[self.at]]
+
+    def series(self) -> pd.Series:
+        """The maxima by variant ID, sorted, of the variants with a row in some check."""
+        at = np.flatnonzero(self.seen)
+        at = at[np.argsort(self.ids[at], kind="stable")]
+        return pd.Series(self.worst[at], index=pd.Index(self.ids[at], name="pier_id"), name="util")
 
 
-def _without(var: pd.DataFrame, acts: pd.DataFrame, out: np.ndarray) -> tuple[pd.DataFrame, pd.DataFrame]:
-    """`var` and `acts` less the rows of the pier IDs `out`."""
-    return var[~np.isin(var.pier_id.to_numpy(), out)], acts[~np.isin(acts.pier_id.to_numpy(), out)]
+def _fmax_keep(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """`np.fmax(a, b)`, the earlier's zero where both are zeros (`group_max`'s rule: the first
+    row's zero, whichever sign)."""
+    out = np.fmax(a, b)
+    both = (a == 0.0) & (b == 0.0)
+    if both.any():
+        out[both] = a[both]
+    return out
 
 
 def _effective_heights(var: pd.DataFrame, acts: pd.DataFrame, s: Settings) -> pd.Series | None:
