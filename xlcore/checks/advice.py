@@ -558,17 +558,22 @@ class ActionRows:
     def rows_of(self, meta: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
         """`for_variants`' rows as positions: each one's action row (in `frame`) and its row
         of `meta`, in the join's order."""
+        lo, count = self.spans(meta)
+        which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
+        step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
+        row = self.order[np.repeat(lo, count) + step]
+        by = np.argsort(row, kind="stable")  # by row, then `which` (ascending as made): a lexsort
+        return row[by], which[by]
+
+    def spans(self, meta: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
+        """Per row of `meta`, where its pier's rows start in `order` and how many there are."""
         storey = pd.Index(self.storeys).get_indexer(meta.storey)
         pier = pd.Index(self.piers).get_indexer(meta.pier_id)
         joint = np.where((storey >= 0) & (pier >= 0), storey.astype(np.int64) * len(self.piers) + pier, -1)
         key = pd.Index(self.keys).get_indexer(joint)
         lo = np.where(key >= 0, self.starts[np.maximum(key, 0)], 0)
         count = np.where(key >= 0, self.starts[np.maximum(key, 0) + 1] - lo, 0)
-        which = np.repeat(np.arange(len(meta)), count)  # the meta row of each action row taken
-        step = np.arange(len(which)) - np.repeat(np.cumsum(count) - count, count)
-        row = self.order[np.repeat(lo, count) + step]
-        by = np.argsort(row, kind="stable")  # by row, then `which` (ascending as made): a lexsort
-        return row[by], which[by]
+        return lo, count
 
     def frame_of(self, row: np.ndarray, which: np.ndarray, meta: pd.DataFrame, coded: bool = False) -> pd.DataFrame:
         """The action rows `row` (of `frame`) as the variants `which` (rows of `meta`) take them."""
@@ -576,6 +581,52 @@ class ActionRows:
         out = out.drop(columns="pier_id")
         out["pier_id"] = meta.variant.to_numpy()[which]
         return out
+
+
+# action columns that set no number of a pier check: the engineer's row and its origin (the
+# shear table's row order only) and the combination's name (read by the earthquake rules alone,
+# for the combinations the Project names: `_distinct_actions` keeps those apart)
+ORDER_ONLY = ("row", "origin", "combination")
+
+
+def _distinct_actions(actions: ActionRows, settings: Settings) -> pd.DataFrame:
+    """The action rows the search checks: of the rows of one storey and pier equal in every
+    other column (every number a check reads), the first; an earthquake combination's rows
+    (Project setting) are kept apart by name. The checks work row by row and the search reads
+    each variant's largest utilisation over its rows (and which rows govern for the screen),
+    so the rows left give every variant the same worst value to the bit: the L tower's 60
+    combinations per pier hold 3 distinct sets of (N*, V*, M*), and the confirmations ran the
+    N-M solve on all 60.
+
+    Rows are told apart by the (storey, pier) code of `actions` and every other kept column's
+    own values (floats by their bits: -0.0 from 0.0), checked against the first row of the same
+    hash: a row is dropped only where it equals an earlier one exactly, never on a hash alone
+    (a text column's missing value equals none, so such rows stay)."""
+    frame = actions.frame
+    n = len(frame)
+    cols = [c for c in frame.columns if c not in (*ORDER_ONLY, "storey", "pier_id")]
+    if n < 2:
+        return frame
+    numeric = [c for c in cols if frame[c].dtype.kind in "fiub"]
+    texts = [frame[c].to_numpy(dtype=object) for c in cols if c not in numeric]
+    quake = settings.earthquake
+    if quake and "combination" in frame:
+        named = frame.combination.astype(str)
+        texts.append(named.where(named.isin(quake), "").to_numpy(dtype=object))
+    key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)}).assign(_pier=actions.codes)
+    code, _ = pd.factorize(pd.util.hash_pandas_object(key, index=False).to_numpy())
+    first = np.full(int(code.max()) + 1, n, dtype=np.int64)
+    np.minimum.at(first, code, np.arange(n))
+    rep = first[code]  # the first row of each hash
+    same = (rep != np.arange(n)) & (actions.codes[rep] == actions.codes)
+    for c in numeric:
+        values = frame[c].to_numpy()
+        if values.dtype.kind == "f":
+            values = values.astype(np.float64, copy=False).view(np.int64)
+        same &= values[rep] == values
+    for values in texts:
+        same &= values[rep] == values
+    return frame[~same] if same.any() else frame
 
 
 def _utilisation(
@@ -612,12 +663,29 @@ def _utilisation(
     return pd.concat(parts).sort_index()
 
 
-def _confirm(rows_of, first: pd.DataFrame, screened: np.ndarray, actions, settings) -> pd.Series:
+def _confirm(
+    rows_of, first: pd.DataFrame, screened: np.ndarray, actions, settings, screen: ActionRows | None = None
+) -> pd.Series:
     """Full utilisation of the variants `first` that passed the screen: shear governs at the
     largest |V*| and detailing at the largest N*, both in the screen; axial + bending and
-    Cl 11.5 need every combination."""
-    axial = first.variant.map(_utilisation(rows_of(first), first, actions, settings, only_axial=True))
-    full = pd.Series(np.fmax(screened, axial.to_numpy()), index=first.variant.to_numpy())
+    Cl 11.5 need every combination. A variant whose screen held every action row of its pier
+    (`screen`'s rows are some of `actions`': as many are all of them) is not run again: the
+    screen ran axial + bending on those rows (it passed the closed-form checks), so its value
+    is the full one (the L tower: each pier's distinct rows, `_distinct_actions`, are few
+    enough for the screen to take them all)."""
+    again = np.ones(len(first), dtype=bool)
+    if screen is not None:
+        count = actions.spans(first)[1]
+        again = (screen.spans(first)[1] != count) | (count == 0)
+    axial = np.full(len(first), np.nan)
+    if again.all():
+        axial = first.variant.map(_utilisation(rows_of(first), first, actions, settings, only_axial=True))
+        axial = axial.to_numpy(float)
+    elif again.any():
+        part = first[again]
+        got = _utilisation(rows_of(part), part, actions, settings, only_axial=True)
+        axial[again] = part.variant.map(got).to_numpy(float)
+    full = pd.Series(np.fmax(screened, axial), index=first.variant.to_numpy())
     unseen = first[np.isnan(screened)]  # no screen rows (not expected): every check
     if len(unseen):
         full.update(_utilisation(rows_of(unseen), unseen, actions, settings))
@@ -632,7 +700,7 @@ def _every(rows_of, meta: pd.DataFrame, actions, screen, settings) -> pd.Series:
     hopeful = ~(screened > 1.0)
     util = pd.Series(screened, index=meta.variant.to_numpy())
     if hopeful.any():
-        util.update(_confirm(rows_of, meta[hopeful], screened[hopeful], actions, settings))
+        util.update(_confirm(rows_of, meta[hopeful], screened[hopeful], actions, settings, screen))
     return util
 
 
@@ -718,7 +786,7 @@ def _rounds(rows_of, meta: pd.DataFrame, group: list[str], actions, screen, sett
         while len(hopeful):
             _, head = np.unique(bg[hopeful], return_index=True)
             first = hopeful[np.sort(head)]  # each group's first hopeful option, in batch order
-            full = _confirm(rows_of, batch.iloc[first], screened[first], actions, settings)
+            full = _confirm(rows_of, batch.iloc[first], screened[first], actions, settings, screen)
             util[first] = full.reindex(variant[first]).to_numpy(float)
             settled = np.zeros(len(is_open), dtype=bool)
             settled[bg[first][util[first] <= 1.0]] = True
@@ -755,7 +823,9 @@ def _rounds_by_keys(rows_of, meta: pd.DataFrame, group: list[str], actions, scre
         while len(hopeful):
             first = hopeful.groupby(group, sort=False).head(1)
             # the screen's value by variant ID (`screened` is indexed by the batch's rows)
-            full = _confirm(rows_of, first, first.variant.map(by_variant).to_numpy(float), actions, settings)
+            full = _confirm(
+                rows_of, first, first.variant.map(by_variant).to_numpy(float), actions, settings, screen
+            )
             util = util.where(~batch.variant.isin(full.index), batch.variant.map(full))
             settled = first[first.variant.map(full).le(1.0).to_numpy()][group]
             hopeful = hopeful[~hopeful.variant.isin(first.variant)]
@@ -1171,7 +1241,8 @@ def advise(
     one, of = _one_row_per_pier(meta)  # pour and flags worked out per pier, not per option row
     pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
     meta["pour"] = pours_of.take(of).set_axis(meta.index)
-    actions = ActionRows(actions, cheap_first=True)
+    # each pier's distinct action rows (`_distinct_actions`): every variant's worst value the same
+    actions = ActionRows(_distinct_actions(ActionRows(actions), settings), cheap_first=True)
     screen = ActionRows(_screening_actions(actions.frame, failing, actions), cheap_first=True)
 
     def single_rows(m):
