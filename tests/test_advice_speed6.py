@@ -1,0 +1,200 @@
+"""The advice search's round-5 fast paths against what they replace, bit for bit (issue 15).
+Each test fails with its fast path broken (tried: Cl 11.5's rows left out of the maxima, the
+variants over 1 in shear not left out, a column the checks read taken for an order-only one,
+every confirmation skipped).
+
+- `_worst` folding each check's rows into a maximum per variant by position (`_Worst`)
+  against the checks' tables concatenated and grouped by variant ID;
+- each pier's distinct action rows (`_distinct_actions`): the same worst value per variant as
+  every row, and the same advice table;
+- `_confirm` not running again a variant whose screen held every action row of its pier.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+from test_advice_speed import actions_for, failing_of, tower
+
+from xlcore.checks import advice, special_walls
+from xlcore.checks.axial import check_pier_axial
+from xlcore.checks.detailing import check_detailing
+from xlcore.checks.section14 import check_section14
+from xlcore.checks.shear import check_pier_shear
+from xlcore.model import Settings
+
+STANDARDS = ["AS 3600:2018", "ACI 318-19"]
+
+
+def worst_by_tables(var, acts, s, only_axial=False, cheap_first=False):
+    """`_worst` as it was: the checks' tables concatenated and grouped by variant ID, the rows
+    of the variants over 1 left out by their IDs."""
+    if cheap_first and not only_axial:
+        shear = check_pier_shear(var, acts, s, working=False)
+        cut = np.unique(shear.pier_id.to_numpy()[shear.util.to_numpy(float) > 1.0])
+        live, live_acts = (var, acts)
+        if len(cut):
+            live = var[~np.isin(var.pier_id.to_numpy(), cut)]
+            live_acts = acts[~np.isin(acts.pier_id.to_numpy(), cut)]
+        hwe = advice._effective_heights(live, live_acts, s)
+        quake = (var, acts) if special_walls.applies(s) else (live, live_acts)
+        cheap = [
+            shear[["pier_id", "util"]],
+            check_detailing(live, live_acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]],
+            check_section14(*quake, s, hwe, working=False),
+        ]
+        worst = pd.concat(cheap).groupby("pier_id").util.max()
+        over = worst.index[(worst > 1.0).to_numpy()]
+        if len(over):
+            rest = ~var.pier_id.isin(over).to_numpy()
+            var, acts = var[rest], acts[~acts.pier_id.isin(over).to_numpy()]
+        axial = check_pier_axial(var, acts, s, working=False, util_only=True)
+        parts = cheap
+        if len(axial):
+            parts.append(axial[["pier_id", "util"]])
+            simp = axial[axial.util_s.notna()]
+            parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        return pd.concat(parts).groupby("pier_id").util.max()
+    axial = check_pier_axial(var, acts, s, working=False, util_only=True)
+    shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
+    parts = [] if shear is None else [shear[["pier_id", "util"]]]
+    if len(axial):
+        parts.append(axial[["pier_id", "util"]])
+        simp = axial[axial.util_s.notna()]
+        parts.append(simp[["pier_id", "util_s"]].rename(columns={"util_s": "util"}))
+        hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
+    else:
+        hwe = None
+    if not only_axial:
+        parts.append(check_detailing(var, acts, s, hwe, working=False, shear=shear)[["pier_id", "util"]])
+        parts.append(check_section14(var, acts, s, hwe, working=False))
+    return pd.concat(parts).groupby("pier_id").util.max()
+
+
+def search_inputs(standard, scale=2.0):
+    s = Settings(standard=standard)
+    piers = tower()
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    return s, piers, var, meta, actions_for(piers, scale)
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("mode", ["all", "cheap_first", "only_axial"])
+def test_worst_by_position_equals_the_checks_tables_grouped(standard, mode):
+    s, piers, var, meta, acts = search_inputs(standard)
+    # the rows in another order than the variants' (positions, not order, pair them)
+    rows = var.iloc[meta.variant.to_numpy()[::-1]]
+    a = advice.ActionRows(acts).for_variants(meta)
+    kw = dict(cheap_first=mode == "cheap_first", only_axial=mode == "only_axial")
+    want = worst_by_tables(rows, a, s, **kw)
+    got = advice._worst(rows, a, s, **kw)
+    assert (want > 1.0).any() and (want <= 1.0).any()
+    pd.testing.assert_series_equal(got, want, check_exact=True)
+
+
+def with_repeats(acts: pd.DataFrame) -> pd.DataFrame:
+    """Each combination's rows again under other names and row numbers (the same numbers), a
+    copy with M* = -0.0 where it is 0.0 and one with another V*: what the search may drop and
+    what it must keep."""
+    again = acts.assign(combination=acts.combination + "x", row=acts.row + len(acts))
+    zero = acts.assign(m=0.0).iloc[:5]
+    signed = zero.assign(m=-0.0, combination="Z", row=-1)
+    other = acts.iloc[:3].assign(v=acts.v.iloc[:3] * 1.5, combination="V", row=-2)
+    return pd.concat([acts, again, zero, signed, other], ignore_index=True)
+
+
+def test_distinct_rows_drop_only_rows_equal_to_an_earlier_one():
+    acts = with_repeats(actions_for(tower(), 2.0))
+    kept = advice._distinct_actions(advice.ActionRows(acts), Settings())
+    assert len(kept) < len(acts)
+    # a row is dropped where an earlier row equals it in every column but the order-only ones
+    # (floats by their bits), and only there
+    key = acts.drop(columns=list(advice.ORDER_ONLY))
+    key = key.assign(**{c: key[c].to_numpy().view(np.int64) for c in key if key[c].dtype.kind == "f"})
+    first = ~key.duplicated().to_numpy()
+    assert kept.index.equals(acts.index[first])
+    # -0.0 kept apart from 0.0, an earthquake combination's rows kept apart by name
+    assert (kept.combination == "Z").sum() == 5
+    quake = advice._distinct_actions(advice.ActionRows(acts), Settings(earthquake_combinations="C1x"))
+    assert len(quake) == len(kept) + (acts.combination == "C1x").sum()
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("cheap_first", [False, True])
+def test_distinct_rows_give_every_variant_the_same_worst(standard, cheap_first):
+    s, piers, var, meta, acts = search_inputs(standard)
+    acts = with_repeats(acts)
+    rows = var.iloc[meta.variant.to_numpy()]
+    every = advice.ActionRows(acts, cheap_first=cheap_first)
+    distinct = advice.ActionRows(advice._distinct_actions(every, s), cheap_first=cheap_first)
+    assert len(distinct) < len(every)
+    want = advice._utilisation(rows, meta, every, s)
+    got = advice._utilisation(rows, meta, distinct, s)
+    assert (want > 1.0).any() and (want <= 1.0).any()
+    pd.testing.assert_series_equal(got, want, check_exact=True)
+    axial = advice._utilisation(rows, meta, every, s, only_axial=True)
+    pd.testing.assert_series_equal(advice._utilisation(rows, meta, distinct, s, only_axial=True), axial)
+
+
+def few_combinations(piers, scale):
+    """Three combinations per pier, each given four times under other names (the L tower's
+    kind: few distinct rows, all in the screen)."""
+    acts = actions_for(piers, scale)
+    acts = acts[acts.combination.isin(["C1", "C4", "C7"])]
+    out = pd.concat(
+        [acts.assign(combination=acts.combination + f"-{k}") for k in range(4)], ignore_index=True
+    )
+    return out.assign(row=np.arange(len(out)))
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("scale", [1.2, 2.0])
+def test_search_on_distinct_rows_equals_the_search_on_every_row(standard, scale, monkeypatch):
+    """The advice table with each pier's distinct rows and the confirmations the screen makes
+    needless, against the search on every row with every confirmation run."""
+    s = Settings(standard=standard)
+    piers = tower()
+    acts = few_combinations(piers, scale)
+    summary = failing_of(piers)
+    runs = []
+    real = advice._utilisation
+
+    def counted(rows, meta, actions, settings, only_axial=False):
+        runs.append(only_axial)
+        return real(rows, meta, actions, settings, only_axial)
+
+    monkeypatch.setattr(advice, "_utilisation", counted)
+    got = advice.advise(piers, acts, summary, s)
+    fast_confirms = sum(runs)
+    runs.clear()
+    monkeypatch.setattr(advice, "_distinct_actions", lambda rows, settings: rows.frame)
+    confirm = advice._confirm
+    monkeypatch.setattr(advice, "_confirm", lambda *a: confirm(*a[:5]))  # no screen: every one run
+    want = advice.advise(piers, acts, summary, s)
+    assert sum(runs) > fast_confirms  # the fast search left confirmations out
+    assert (want.util <= 1.0).any()
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_confirm_without_rerun_equals_the_confirm_on_every_row(standard):
+    """A variant whose screen holds all its pier's rows keeps the screen's value; one whose
+    screen holds some is run on every row; the same values as running every one."""
+    s, piers, var, meta, acts = search_inputs(standard, 2.0)
+    every = advice.ActionRows(acts, cheap_first=True)
+    # the whole table as the screen of the first storey's piers, a part of it for the second
+    part = acts[(acts.storey == "L1") | acts.combination.isin(["C0", "C1"])]
+    screen = advice.ActionRows(part, cheap_first=True)
+
+    def rows_of(m):
+        return var.iloc[m.variant.to_numpy()]
+
+    screened = meta.variant.map(advice._utilisation(rows_of(meta), meta, screen, s)).to_numpy(float)
+    hopeful = ~(screened > 1.0)
+    first = meta[hopeful]
+    assert (first.storey == "L1").any() and (first.storey == "L2").any()
+    want = advice._confirm(rows_of, first, screened[hopeful], every, s)
+    got = advice._confirm(rows_of, first, screened[hopeful], every, s, screen)
+    assert (want > 1.0).any() and (want <= 1.0).any()
+    pd.testing.assert_series_equal(got, want, check_exact=True)
