@@ -575,7 +575,9 @@ class ActionRows:
         count = np.where(key >= 0, self.starts[np.maximum(key, 0) + 1] - lo, 0)
         return lo, count
 
-    def frame_of(self, row: np.ndarray, which: np.ndarray, meta: pd.DataFrame, coded: bool = False) -> pd.DataFrame:
+    def frame_of(
+        self, row: np.ndarray, which: np.ndarray, meta: pd.DataFrame, coded: bool = False
+    ) -> pd.DataFrame:
         """The action rows `row` (of `frame`) as the variants `which` (rows of `meta`) take them."""
         out = (self.coded if coded else self.frame).take(row).reset_index(drop=True)
         out = out.drop(columns="pier_id")
@@ -613,7 +615,8 @@ def _distinct_actions(actions: ActionRows, settings: Settings) -> pd.DataFrame:
     if quake and "combination" in frame:
         named = frame.combination.astype(str)
         texts.append(named.where(named.isin(quake), "").to_numpy(dtype=object))
-    key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)}).assign(_pier=actions.codes)
+    key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)})
+    key["_pier"] = actions.codes
     code, _ = pd.factorize(pd.util.hash_pandas_object(key, index=False).to_numpy())
     first = np.full(int(code.max()) + 1, n, dtype=np.int64)
     np.minimum.at(first, code, np.arange(n))
