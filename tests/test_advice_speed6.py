@@ -198,3 +198,31 @@ def test_confirm_without_rerun_equals_the_confirm_on_every_row(standard):
     got = advice._confirm(rows_of, first, screened[hopeful], every, s, screen)
     assert (want > 1.0).any() and (want <= 1.0).any()
     pd.testing.assert_series_equal(got, want, check_exact=True)
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_hold_ratio_once_per_distinct_row_equals_row_by_row(standard):
+    """`_hold_ratio` works each distinct row out once and spreads it: the rows' own answers,
+    bit for bit, on repeated rows, rows one value apart, and a ratio no arrangement holds."""
+    s = Settings(standard=standard)
+    std = advice._std(s)
+    rng = np.random.default_rng(5)
+    base = np.array(
+        [
+            [0.0025, 1.0, 200.0, 12.0, 3000.0],
+            [0.0025, 2.0, 200.0, 12.0, 3000.0],
+            [0.0040, 2.0, 250.0, 16.0, 1200.0],
+            [0.0040, 2.0, 275.0, 16.0, 1200.0],
+            [0.0040, 2.0, 275.0, 20.0, 1200.0],
+            [0.0600, 2.0, 300.0, 16.0, 2500.0],  # more than the catalogue holds
+        ]
+    )
+    rows = base[rng.integers(0, len(base), 200)]
+    for label, way in (("vertical", 0), ("horizontal", 1)):
+        dias = advice._dias(std, label)
+        args = (rows[:, 0], rows[:, 1], rows[:, 2], dias, rows[:, 3], std, rows[:, 4], way)
+        got = advice._hold_ratio(*args)
+        want = advice._hold_ratio_rows(*args)
+        assert want[3].any() and not want[3].all()
+        for g, w in zip(got, want, strict=True):
+            assert g.dtype == w.dtype and np.array_equal(g, w)

@@ -182,6 +182,23 @@ def _layers_needed(tw: np.ndarray, settings: Settings) -> np.ndarray:
 
 
 def _hold_ratio(rho0, layers, tw, dias, dia_now, std: Standard, Lw, way: int):
+    """`_hold_ratio_rows` once per distinct row of (rho0, layers, tw, dia_now, Lw), spread to
+    the rows: its answer for a row reads that row alone (the L tower's 48 000 thickness options
+    hold 48 distinct rows; each row's arrangements are a row of a rows x catalogue grid).
+    Rows are told apart by their bytes (-0.0 from 0.0), as `_words` tells them."""
+    cols = [np.asarray(c) for c in (rho0, layers, tw, dia_now, Lw)]
+    if len(cols[0]) < 2:
+        return _hold_ratio_rows(cols[0], cols[1], cols[2], dias, cols[3], std, cols[4], way)
+    table = np.ascontiguousarray(np.column_stack([c.astype(float) for c in cols]))
+    rows = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1]))).ravel()
+    _, first, inverse = np.unique(rows, return_index=True, return_inverse=True)
+    r, n, t, now, L = (c[first] for c in cols)
+    d, sp, rho, found = _hold_ratio_rows(r, n, t, dias, now, std, L, way)
+    inverse = inverse.ravel()
+    return d[inverse], sp[inverse], rho[inverse], found[inverse]
+
+
+def _hold_ratio_rows(rho0, layers, tw, dias, dia_now, std: Standard, Lw, way: int):
     """Per row, the catalogue arrangement (`dias` x SPACINGS, `layers` layers) with the least
     ratio at or above `rho0` in a wall `tw` thick, within the Cl 11.7 spacing and clear-gap
     limits (exact ties: the present diameter). Returns dia, spacing, ratio and whether found."""
@@ -1264,7 +1281,7 @@ def advise(
     kind = meta.kind.to_numpy()
     single = np.isin(kind, PIER_KINDS) & meta.offered.to_numpy()
     skip = single & flagged & (kind == H_KIND)
-    skipped = meta[skip][group].drop_duplicates()
+    skipped = meta.loc[skip, group].drop_duplicates()
     alone = meta[single & ~skip]  # one copy of the option rows kept, not two
     by = _ranked(alone, one, of[alone.index.to_numpy()], group)  # the same order, by numbers
     alone = _probed(single_rows, alone, by, actions, screen, settings, keep_all=True)
@@ -1334,8 +1351,12 @@ def advise(
     out["pour"] = names.to_numpy()
     out["fixes"] = ""
     out["scope"] = "pier"
-    out["plan"] = [plans.get((a, b), "") for a, b in zip(out.storey, out.pier_id, strict=True)]
-    out.loc[out["rank"].ne(1).to_numpy(), "plan"] = ""  # said once, on the pier's first row
+    # said once, on the pier's first row: looked up for those rows alone
+    plan = np.full(len(out), "", dtype=object)
+    lead = np.flatnonzero(out["rank"].eq(1).to_numpy()) if plans else np.zeros(0, dtype=np.int64)
+    keys = zip(out.storey.to_numpy()[lead].tolist(), out.pier_id.to_numpy()[lead].tolist(), strict=True)
+    plan[lead] = [plans.get(k, "") for k in keys]
+    out["plan"] = plan.tolist()
     at = out_cols["storey_index"]
     out["_order"] = at
     pours["scope"] = "pour"
