@@ -226,3 +226,35 @@ def test_hold_ratio_once_per_distinct_row_equals_row_by_row(standard):
         assert want[3].any() and not want[3].all()
         for g, w in zip(got, want, strict=True):
             assert g.dtype == w.dtype and np.array_equal(g, w)
+
+
+def group_order_by_columns(meta, group):
+    """`_group_order` as it was: a lexsort of each key's codes in turn."""
+    codes = [pd.factorize(meta[c], sort=True)[0] for c in group]
+    order = np.lexsort((meta.added_cost.to_numpy(float), *reversed(codes)))
+    new = np.zeros(len(order), dtype=bool)
+    for c in codes:
+        k = c[order]
+        new[1:] |= k[1:] != k[:-1]
+    new[0] = True
+    return order, np.cumsum(new) - 1
+
+
+def test_group_order_on_one_key_equals_the_sort_by_each_key():
+    """The keys' codes as one mixed-radix number: the same stable order (tied costs, NaN
+    costs last) and the same group numbers as sorting by each key in turn."""
+    rng = np.random.default_rng(11)
+    n = 3000
+    meta = pd.DataFrame(
+        dict(
+            storey=rng.choice(["L1", "L10", "L2", "B1"], n),
+            pier_id=rng.choice([f"W{i}" for i in range(13)], n),
+            kind=rng.choice(list(advice.PIER_KINDS), n),
+            added_cost=rng.choice([1.0, 2.0, 2.0, 3.5, np.nan, -0.0, 0.0], n),
+        )
+    )
+    for group in (["storey", "pier_id", "kind"], ["storey", "pier_id"], ["kind"]):
+        want = group_order_by_columns(meta, group)
+        got = advice._group_order(meta, group)
+        assert np.array_equal(got[0], want[0]) and np.array_equal(got[1], want[1])
+        assert want[1].max() >= 3
