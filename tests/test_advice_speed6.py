@@ -258,3 +258,49 @@ def test_group_order_on_one_key_equals_the_sort_by_each_key():
         got = advice._group_order(meta, group)
         assert np.array_equal(got[0], want[0]) and np.array_equal(got[1], want[1])
         assert want[1].max() >= 3
+
+
+def zone_options_on_every_row(var, sel, dia, n, std):
+    """`_zone_options` as it was: the rules worked out on every variant row."""
+    from xlcore.mechanics import bars
+
+    keep = np.ones(len(var), dtype=bool)
+    if not sel.any():
+        return keep
+    layers = var.v_layers.to_numpy(float)
+    d, count = np.nan_to_num(dia), np.nan_to_num(n)
+    need = bars.zone_min_length(count, layers, d, var.cover.to_numpy(float), 0.0, std.zone_clear_gap(d))
+    length = np.ceil(need / advice.ZONE_ROUND) * advice.ZONE_ROUND
+    area = count * bars.bar_area(d)
+    more = np.ones(len(var), dtype=bool)
+    for side in "ab":
+        now = np.nan_to_num(var[f"z{side}_n"].to_numpy(float)) * bars.bar_area(
+            np.nan_to_num(var[f"z{side}_dia"].to_numpy(float))
+        )
+        more &= area > now + 1e-9
+    room = (var.Lw.to_numpy(float) - std.zone_clear_gap(d)) / 2
+    fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
+    keep[sel] = fits[sel]
+    for side in "ab":
+        for k, v in (("n", count), ("dia", d), ("len", length), ("tie", 0.0), ("ties", np.nan)):
+            col = f"z{side}_{k}"
+            var[col] = np.where(sel, v, var[col].to_numpy(float))
+    return keep
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_zone_options_on_their_rows_equal_the_rules_on_every_row(standard, monkeypatch):
+    s = Settings(standard=standard)
+    piers = tower()
+    # a short pier (zones that do not fit) and one with zones already (options with no more steel)
+    piers.loc[0, "Lw"] = 700.0
+    for side in "ab":
+        piers[[f"z{side}_n", f"z{side}_dia", f"z{side}_len"]] = 0.0
+        piers.loc[1, [f"z{side}_n", f"z{side}_dia", f"z{side}_len"]] = [6.0, 28.0, 400.0]
+    var, meta = advice._candidates(piers, failing_of(piers), s)
+    monkeypatch.setattr(advice, "_zone_options", zone_options_on_every_row)
+    var_all, meta_all = advice._candidates(piers, failing_of(piers), s)
+    zoned = meta.kind == advice.ZONE_KIND
+    assert zoned.sum() > 10 and len(meta) > 500
+    pd.testing.assert_frame_equal(var, var_all, check_exact=True)
+    pd.testing.assert_frame_equal(meta, meta_all, check_exact=True)

@@ -447,23 +447,26 @@ def _zone_options(
     keep = np.ones(len(var), dtype=bool)
     if not sel.any():
         return keep
-    layers = var.v_layers.to_numpy(float)
+    # the rules on the option rows alone (the same operations on their own numbers)
+    idx = np.flatnonzero(sel)
+    layers = var.v_layers.to_numpy(float)[idx]
     d, count = np.nan_to_num(dia), np.nan_to_num(n)
+    ds, cs = d[idx], count[idx]
     need = bars.zone_min_length(
-        count, layers, d, var.cover.to_numpy(float), 0.0, std.zone_clear_gap(d)
+        cs, layers, ds, var.cover.to_numpy(float)[idx], 0.0, std.zone_clear_gap(ds)
     )
-    length = np.ceil(need / ZONE_ROUND) * ZONE_ROUND
-    area = count * bars.bar_area(d)
-    more = np.ones(len(var), dtype=bool)
+    length = np.zeros(len(var))
+    length[idx] = np.ceil(need / ZONE_ROUND) * ZONE_ROUND
+    area = cs * bars.bar_area(ds)
+    more = np.ones(len(idx), dtype=bool)
     for side in "ab":
-        now = np.nan_to_num(var[f"z{side}_n"].to_numpy(float)) * bars.bar_area(
-            np.nan_to_num(var[f"z{side}_dia"].to_numpy(float))
+        now = np.nan_to_num(var[f"z{side}_n"].to_numpy(float)[idx]) * bars.bar_area(
+            np.nan_to_num(var[f"z{side}_dia"].to_numpy(float)[idx])
         )
         more &= area > now + 1e-9
     # the two zones' innermost bars (no ties) keep the standard's zone clear gap: 2 L <= Lw - gap
-    room = (var.Lw.to_numpy(float) - std.zone_clear_gap(d)) / 2
-    fits = (count % np.maximum(layers, 1) == 0) & (length <= room) & more
-    keep[sel] = fits[sel]
+    room = (var.Lw.to_numpy(float)[idx] - std.zone_clear_gap(ds)) / 2
+    keep[idx] = (cs % np.maximum(layers, 1) == 0) & (length[idx] <= room) & more
     for side in "ab":
         for k, v in (("n", count), ("dia", d), ("len", length), ("tie", 0.0), ("ties", np.nan)):
             col = f"z{side}_{k}"
