@@ -219,16 +219,24 @@ def _hold_ratio_rows(rho0, layers, tw, dias, dia_now, std: Standard, Lw, way: in
 def _cost_total(Lw, tw, rho_v, rho_h, fc, zarea, Hc, prices, settings: Settings) -> np.ndarray:
     """Cost of a pier over its storey's clear height: concrete at its grade, wall bars, end-zone
     bars (`costs.py`)."""
+    concrete = costs.concrete_price(prices, np.asarray(fc, float))
+    zone = costs.bars_per_metre_height(zarea, settings.steel_price)
+    return _cost_priced(Lw, tw, rho_v, rho_h, concrete, zone, Hc, settings)
+
+
+def _cost_priced(Lw, tw, rho_v, rho_h, concrete, zone, Hc, settings: Settings) -> np.ndarray:
+    """`_cost_total` with the concrete's price per m3 and the end-zone bars' cost per metre
+    given (each a function of one field alone: the pairs take them from their option rows)."""
     per_m = np.asarray(
         costs.per_metre_height(
             np.asarray(Lw, float),
             np.asarray(tw, float),
             np.asarray(rho_v, float),
             np.asarray(rho_h, float),
-            costs.concrete_price(prices, np.asarray(fc, float)),
+            concrete,
             settings.steel_price,
         )
-    ) + costs.bars_per_metre_height(zarea, settings.steel_price)
+    ) + zone
     return costs.over_height(per_m, Hc)
 
 
@@ -948,6 +956,14 @@ def _pair_runs(
     prices = costs.parse_concrete_prices(settings.concrete_prices)
     kind, bi = meta.kind.to_numpy(), meta.bi.to_numpy()
     col = {f: meta[f].to_numpy(float) for f in (*PRICED_ALL, *BASE)}
+    # what each option row alone sets, worked out once per row instead of once per pair: the
+    # concrete's price (its grade), the end-zone bars' cost (its zones) and a grade's premium
+    # over the pier's own concrete; the same functions of the same numbers
+    col["_concrete"] = costs.concrete_price(prices, col["fc"])
+    col["_zone"] = costs.bars_per_metre_height(col["zarea"], settings.steel_price)
+    col["_own"] = costs.grade_premium(
+        prices, col["fc0"], col["fc"], col["Lw"] * col["tw0"] * col["Hc"] / 1e9
+    )
     offered, layers = meta.offered.to_numpy(bool), meta.layers.to_numpy(float)
     premium = np.full(len(meta), np.nan)
     grade = np.flatnonzero(kind == GRADE_KIND)
@@ -999,14 +1015,21 @@ def _pair_run(
     a, b = a[ok], b[ok]
     if not len(a):
         return None
-    field = {f: (col[f][b] if f in PRICED[kb] else col[f][a]) for f in PRICED_ALL}
-    Lw, Hc = col["Lw"][a], col["Hc"][a]
-    cost = _cost_total(
-        Lw, field["tw"], field["rho_v"], field["rho_h"], field["fc"], field["zarea"], Hc, prices, settings
+    # each priced field from the option that sets it (the concrete's price with the grade,
+    # the zones' cost with the zones)
+    side = {f: b if f in PRICED[kb] else a for f in PRICED_ALL}
+    cost = _cost_priced(
+        col["Lw"][a],
+        col["tw"][side["tw"]],
+        col["rho_v"][side["rho_v"]],
+        col["rho_h"][side["rho_h"]],
+        col["_concrete"][side["fc"]],
+        col["_zone"][side["zarea"]],
+        col["Hc"][a],
+        settings,
     ) - col["base_cost"][a]
     if ka == GRADE_KIND:
-        own = costs.grade_premium(prices, col["fc0"][a], col["fc"][a], Lw * col["tw0"][a] * Hc / 1e9)
-        cost = cost + premium[a] - own
+        cost = cost + premium[a] - col["_own"][a]
     # narrow types: the L tower holds 4.4 M pairs at once (positions fit 32 bits)
     return a.astype(np.int32), b.astype(np.int32), cost
 
