@@ -304,3 +304,117 @@ def test_zone_options_on_their_rows_equal_the_rules_on_every_row(standard, monke
     assert zoned.sum() > 10 and len(meta) > 500
     pd.testing.assert_frame_equal(var, var_all, check_exact=True)
     pd.testing.assert_frame_equal(meta, meta_all, check_exact=True)
+
+
+
+def pour_rows_by_groups(
+    piers,
+    failing,
+    summary,
+    grades,
+    settings,
+    premiums=None,
+):
+    """`_pour_rows` as it was: a group frame per pour and label lookups."""
+    f = failing.assign(**advice._pier_cols(piers, failing))
+    f["pour"], _ = advice.pour_keys(f, piers, settings)
+    f = f.merge(summary[["storey", "pier_id", "check", "util"]], on=["storey", "pier_id"])
+    f["_order"] = f.storey_index.to_numpy(float)
+    prem = advice.pour_premiums(piers, settings) if premiums is None else premiums
+    count = f.groupby("pour").size().rename("n")
+    g = grades.drop(columns="pour", errors="ignore").merge(
+        f[["storey", "pier_id", "pour"]], on=["storey", "pier_id"]
+    )
+    ok = (
+        g[g.util <= 1.0]
+        .groupby(["pour", "fc"])
+        .agg(n_ok=("util", "size"), util=("util", "max"))
+        .reset_index()
+    )
+    ok = ok.merge(count.reset_index(), on="pour")
+    ok = ok[ok.n_ok == ok.n].merge(prem, left_on=["pour", "fc"], right_on=["pour", "grade"])
+    best = ok.sort_values(["premium", "fc"], kind="stable").groupby("pour").head(1).set_index("pour")
+    rows = []
+    for pour, members in f.sort_values(["_order", "pier_id"]).groupby("pour", sort=False):
+        worst = members.loc[members.util.idxmax()]
+        listed = ", ".join(
+            members.pier_id.astype(str)
+            if members.storey.nunique() == 1
+            else (members.storey.astype(str) + " " + members.pier_id.astype(str))
+        )
+        storeys = pour.split(", ", 1)[1]
+        row = dict(
+            storey=storeys,
+            pier_id="",
+            pour=pour,
+            check=worst.check,
+            util_now=worst.util,
+            rank=np.nan,
+            kind=advice.GRADE_KIND,
+            fixes=listed,
+            _order=members._order.min(),
+        )
+        if pour in best.index:
+            b = best.loc[pour]
+            row |= dict(
+                option=f"f'c {b.fc:g} MPa for every wall of the pour below it ({pour})",
+                util=b.util,
+                added_cost=b.premium,
+            )
+        else:
+            row |= dict(
+                option="none: no standard grade makes every failing pier of the pour pass",
+                util=np.nan,
+                added_cost=np.nan,
+                fixes="",
+            )
+        rows.append(row)
+    return pd.DataFrame(rows)
+
+
+
+@pytest.mark.parametrize(
+    "pour", ["the core at one storey", "each wall at one storey", "the core over 2 storeys"]
+)
+@pytest.mark.parametrize("scale", [1.2, 2.0])
+def test_pour_rows_by_position_equal_the_rows_by_groups(pour, scale, monkeypatch):
+    """The advice table with the pour rows made from arrays per pour, against the rows made
+    from a group frame per pour (pours of one and of two storeys, with and without a grade
+    that fixes them, a tie of the worst utilisation)."""
+    s = Settings(grade_pour=pour)
+    piers = tower()
+    summary = failing_of(piers)
+    summary.loc[1, "util"] = 3.0  # the worst of its pour, and a tie with the pour's others elsewhere
+    acts = actions_for(piers, scale)
+    got = advice.advise(piers, acts, summary, s)
+    monkeypatch.setattr(advice, "_pour_rows", pour_rows_by_groups)
+    want = advice.advise(piers, acts, summary, s)
+    pours = want[want.scope == "pour"]
+    assert len(pours) >= 1 and (pours.fixes.str.len().gt(0).any() or pours.util.isna().all())
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+
+
+@pytest.mark.parametrize(
+    "pour", ["the core at one storey", "each wall at one storey", "the core over 2 storeys"]
+)
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_pour_rows_on_given_grades_equal_the_rows_by_groups(pour, seed):
+    """`_pour_rows` against the rows by groups on grades given directly: pours that a grade
+    fixes and pours none fixes, members over one and two storeys, tied worst utilisations."""
+    s = Settings(grade_pour=pour)
+    piers = tower()
+    rng = np.random.default_rng(seed)
+    summary = failing_of(piers).assign(util=rng.choice([1.5, 2.0, 2.0], len(piers)))
+    summary["check"] = [f"check {i}" for i in range(len(summary))]
+    grades = pd.DataFrame(
+        [
+            dict(storey=r.storey, pier_id=r.pier_id, fc=g, util=float(rng.choice([0.7, 0.9, 1.2])), variant=i)
+            for i, (r, g) in enumerate(
+                (r, g) for r in summary.itertuples() for g in advice._std(s).grades() if g > 25.0
+            )
+        ]
+    )
+    want = pour_rows_by_groups(piers, summary[["storey", "pier_id"]], summary, grades, s)
+    got = advice._pour_rows(piers, summary[["storey", "pier_id"]], summary, grades, s)
+    assert want.util.notna().any() or pour != "each wall at one storey"
+    pd.testing.assert_frame_equal(got, want, check_exact=True)

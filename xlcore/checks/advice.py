@@ -1458,32 +1458,40 @@ def _pour_rows(
     ok = ok.merge(count.reset_index(), on="pour")
     ok = ok[ok.n_ok == ok.n].merge(prem, left_on=["pour", "fc"], right_on=["pour", "grade"])
     best = ok.sort_values(["premium", "fc"], kind="stable").groupby("pour").head(1).set_index("pour")
+    # the pours' members by position in the sorted rows, their fields as arrays and the best
+    # grades as columns by pour: a few numbers per pour, not a group frame and label lookups each
+    srt = f.sort_values(["_order", "pier_id"])
+    code, named = pd.factorize(srt.pour.to_numpy())  # in order of first appearance, as groupby
+    order = np.argsort(code, kind="stable")
+    ends = np.cumsum(np.bincount(code, minlength=len(named)))
+    util, order_at = srt.util.to_numpy(float), srt._order.to_numpy(float)
+    check, storey, pier = (srt[c].to_numpy(dtype=object) for c in ("check", "storey", "pier_id"))
+    best_of = {c: best[c].to_dict() for c in ("fc", "util", "premium")}
     rows = []
-    for pour, members in f.sort_values(["_order", "pier_id"]).groupby("pour", sort=False):
-        worst = members.loc[members.util.idxmax()]
-        listed = ", ".join(
-            members.pier_id.astype(str)
-            if members.storey.nunique() == 1
-            else (members.storey.astype(str) + " " + members.pier_id.astype(str))
-        )
-        storeys = pour.split(", ", 1)[1]
+    for g, pour in enumerate(named.tolist()):
+        at = order[(ends[g - 1] if g else 0) : ends[g]]
+        w = at[int(np.nanargmax(util[at]))]  # the first largest, as idxmax (all NaN: ValueError too)
+        names = storey[at].tolist()
+        if len({x for x in names if not pd.isna(x)}) == 1:
+            listed = ", ".join(str(x) for x in pier[at].tolist())
+        else:
+            listed = ", ".join(f"{a} {b}" for a, b in zip(names, pier[at].tolist(), strict=True))
         row = dict(
-            storey=storeys,
+            storey=pour.split(", ", 1)[1],
             pier_id="",
             pour=pour,
-            check=worst.check,
-            util_now=worst.util,
+            check=check[w],
+            util_now=util[w],
             rank=np.nan,
             kind=GRADE_KIND,
             fixes=listed,
-            _order=members._order.min(),
+            _order=np.fmin.reduce(order_at[at]),
         )
-        if pour in best.index:
-            b = best.loc[pour]
+        if pour in best_of["fc"]:
             row |= dict(
-                option=f"f'c {b.fc:g} MPa for every wall of the pour below it ({pour})",
-                util=b.util,
-                added_cost=b.premium,
+                option=f"f'c {best_of['fc'][pour]:g} MPa for every wall of the pour below it ({pour})",
+                util=best_of["util"][pour],
+                added_cost=best_of["premium"][pour],
             )
         else:
             row |= dict(
@@ -1803,6 +1811,8 @@ class _Worst:
         """The variant rows and action rows still in play, less those of the variants `out`
         (a flag per position); the same rows, in order, as filtering by variant ID."""
         self.kept &= ~out
+        if self.kept.all():  # none left out: the tables themselves, not copies
+            return self.var, self.acts
         return self.var[self.kept], self.acts[(self.at < 0) | self.kept[self.at]]
 
     def series(self) -> pd.Series:
