@@ -106,7 +106,7 @@ def with_repeats(acts: pd.DataFrame) -> pd.DataFrame:
 
 def test_distinct_rows_drop_only_rows_equal_to_an_earlier_one():
     acts = with_repeats(actions_for(tower(), 2.0))
-    kept = advice._distinct_actions(advice.ActionRows(acts), Settings())
+    kept = advice._distinct_actions(acts, Settings())
     assert len(kept) < len(acts)
     # a row is dropped where an earlier row equals it in every column but the order-only ones
     # (floats by their bits), and only there
@@ -116,7 +116,7 @@ def test_distinct_rows_drop_only_rows_equal_to_an_earlier_one():
     assert kept.index.equals(acts.index[first])
     # -0.0 kept apart from 0.0, an earthquake combination's rows kept apart by name
     assert (kept.combination == "Z").sum() == 5
-    quake = advice._distinct_actions(advice.ActionRows(acts), Settings(earthquake_combinations="C1x"))
+    quake = advice._distinct_actions(acts, Settings(earthquake_combinations="C1x"))
     assert len(quake) == len(kept) + (acts.combination == "C1x").sum()
 
 
@@ -127,7 +127,7 @@ def test_distinct_rows_give_every_variant_the_same_worst(standard, cheap_first):
     acts = with_repeats(acts)
     rows = var.iloc[meta.variant.to_numpy()]
     every = advice.ActionRows(acts, cheap_first=cheap_first)
-    distinct = advice.ActionRows(advice._distinct_actions(every, s), cheap_first=cheap_first)
+    distinct = advice.ActionRows(advice._distinct_actions(acts, s), cheap_first=cheap_first)
     assert len(distinct) < len(every)
     want = advice._utilisation(rows, meta, every, s)
     got = advice._utilisation(rows, meta, distinct, s)
@@ -168,7 +168,7 @@ def test_search_on_distinct_rows_equals_the_search_on_every_row(standard, scale,
     got = advice.advise(piers, acts, summary, s)
     fast_confirms = sum(runs)
     runs.clear()
-    monkeypatch.setattr(advice, "_distinct_actions", lambda rows, settings: rows.frame)
+    monkeypatch.setattr(advice, "_distinct_actions", lambda rows, settings: rows)
     confirm = advice._confirm
     monkeypatch.setattr(advice, "_confirm", lambda *a: confirm(*a[:5]))  # no screen: every one run
     want = advice.advise(piers, acts, summary, s)

@@ -619,7 +619,7 @@ class ActionRows:
 ORDER_ONLY = ("row", "origin", "combination")
 
 
-def _distinct_actions(actions: ActionRows, settings: Settings) -> pd.DataFrame:
+def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
     """The action rows the search checks: of the rows of one storey and pier equal in every
     other column (every number a check reads), the first; an earthquake combination's rows
     (Project setting) are kept apart by name. The checks work row by row and the search reads
@@ -628,11 +628,10 @@ def _distinct_actions(actions: ActionRows, settings: Settings) -> pd.DataFrame:
     combinations per pier hold 3 distinct sets of (N*, V*, M*), and the confirmations ran the
     N-M solve on all 60.
 
-    Rows are told apart by the (storey, pier) code of `actions` and every other kept column's
-    own values (floats by their bits: -0.0 from 0.0), checked against the first row of the same
-    hash: a row is dropped only where it equals an earlier one exactly, never on a hash alone
-    (a text column's missing value equals none, so such rows stay)."""
-    frame = actions.frame
+    Rows are told apart by their (storey, pier) codes and every other kept column's own values
+    (floats by their bits: -0.0 from 0.0), checked against the first row of the same hash: a
+    row is dropped only where it equals an earlier one exactly, never on a hash alone (a text
+    column's missing value equals none, so such rows stay)."""
     n = len(frame)
     cols = [c for c in frame.columns if c not in (*ORDER_ONLY, "storey", "pier_id")]
     if n < 2:
@@ -643,13 +642,17 @@ def _distinct_actions(actions: ActionRows, settings: Settings) -> pd.DataFrame:
     if quake and "combination" in frame:
         named = frame.combination.astype(str)
         texts.append(named.where(named.isin(quake), "").to_numpy(dtype=object))
+    # (storey, pier) as one number, a missing name (code -1) a value of its own
+    storey, _ = pd.factorize(frame.storey)
+    pier, piers = pd.factorize(frame.pier_id)
+    at = (storey.astype(np.int64) + 1) * (len(piers) + 1) + (pier + 1)
     key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)})
-    key["_pier"] = actions.codes
+    key["_pier"] = at
     code, _ = pd.factorize(pd.util.hash_pandas_object(key, index=False).to_numpy())
     first = np.full(int(code.max()) + 1, n, dtype=np.int64)
     np.minimum.at(first, code, np.arange(n))
     rep = first[code]  # the first row of each hash
-    same = (rep != np.arange(n)) & (actions.codes[rep] == actions.codes)
+    same = (rep != np.arange(n)) & (at[rep] == at)
     for c in numeric:
         values = frame[c].to_numpy()
         if values.dtype.kind == "f":
@@ -1314,7 +1317,7 @@ def advise(
     pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
     meta["pour"] = pours_of.take(of).set_axis(meta.index)
     # each pier's distinct action rows (`_distinct_actions`): every variant's worst value the same
-    actions = ActionRows(_distinct_actions(ActionRows(actions), settings), cheap_first=True)
+    actions = ActionRows(_distinct_actions(actions, settings), cheap_first=True)
     screen = ActionRows(_screening_actions(actions.frame, failing, actions), cheap_first=True)
 
     def single_rows(m):
