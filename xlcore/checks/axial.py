@@ -12,7 +12,7 @@ import pandas as pd
 
 from xlcore.checks import once_per, per_pier, plain
 from xlcore.codes import get_standard
-from xlcore.codes.base import SectionState, Standard, num
+from xlcore.codes.base import SectionState, Standard, first_rows, num, row_keys
 from xlcore.geometry import ZONE_COLUMNS, ZONE_FIELDS
 from xlcore.mechanics import bars, nm
 from xlcore.mechanics.radial import ray_segment_utilisation, tension_side_utilisation
@@ -310,16 +310,61 @@ def _used(of: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return used, inverse.ravel()
 
 
+SECTION_COLUMNS = ("Lw", "tw", "fc", "fsy", "v_dia", "v_spacing", "v_layers", "cover", *ZONE_COLUMNS)
+"""The geometry columns a pier's section is built from (`rect_sections`, `asymmetric`)."""
+
+
 def _oriented(
     df: pd.DataFrame, per: pd.DataFrame, std: Standard
-) -> tuple[nm.EvenRect, np.ndarray, np.ndarray]:
-    """Each distinct pier's section (`per`: one geometry row each) twice: compressed at its
-    start (rows 0..k-1) and at its end (rows k..2k-1); which piers are asymmetric; and for each
+) -> tuple[nm.EvenRect, np.ndarray, np.ndarray, np.ndarray]:
+    """Each distinct section of the piers `per` (one geometry row each) twice: compressed at
+    its start (rows 0..k-1) and at its end (rows k..2k-1); which piers are asymmetric; for each
     row of `df` whether M* compresses the end (M* >= 0, the sign convention of the actions
-    sheets)."""
-    base = rect_sections(per, std)
+    sheets); and each pier's section among the k.
+
+    Piers alike in every number their section is built from (`SECTION_COLUMNS`, as the floats
+    the section reads, bit for bit) share one section: a tower repeats a few sections over
+    its storeys (the L tower's 6 000 storey x pier rows hold 4), and the section's own points
+    (squash, balance, pure bending: a solve each) are then found once per section. Each
+    section's arithmetic reads its own row alone, so the same numbers as one per pier."""
+    kind = row_keys(*(per[c].to_numpy(dtype=float) for c in SECTION_COLUMNS if c in per))
+    one = first_rows(kind)
+    distinct = per if len(one) == len(per) else per.take(one)
+    base = rect_sections(distinct, std)
     sec = nm.concat(base, base.flipped())
-    return sec, asymmetric(per), df.m.to_numpy(float) >= 0
+    return sec, asymmetric(distinct)[kind], df.m.to_numpy(float) >= 0, kind
+
+
+def _cases_once(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The cases worked out (positions, ascending) and each case's place among them, where a
+    case whose `columns` (its section, N*, M*) equal bit for bit those of its storey x pier's
+    first row (`ref`: that row's position, among the first rows) takes that row's answer:
+    the check's numbers read the case's own section, N* and M* alone, so a case equal to
+    another has its answers to the last bit. Only the first row is compared, not every
+    case with every other (hashing 360 000 cases costs more than it saves where they all
+    differ): the combinations of a storey x pier that repeat its first row's actions (the L
+    tower's 60, each alike) cost one case."""
+    same = np.ones(ref.shape, dtype=bool)
+    for c in columns:
+        bits = c.view(np.int64) if c.dtype == np.float64 else c
+        same &= bits == bits[ref]
+    keep = ~same
+    keep[ref] = True
+    place = np.cumsum(keep) - 1
+    return np.flatnonzero(keep), np.where(same, place[ref], place)
+
+
+class _Spread(dict):
+    """`interaction`'s answers for each row, `at` giving each row's case: a value gathered the
+    first time it is read (the working reads a dozen more than the numbers)."""
+
+    def __init__(self, by_case: dict[str, np.ndarray], at: np.ndarray) -> None:
+        super().__init__()
+        self._by_case, self._at = by_case, at
+
+    def __missing__(self, key: str) -> np.ndarray:
+        value = self[key] = self._by_case[key][self._at]
+        return value
 
 
 RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE, RAY_CAP = 1, 2, 3, 0, 4
@@ -438,7 +483,7 @@ def check_pier_axial(
     phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
         return df
-    sec, asym, end_compressed = _oriented(df, per, std)
+    sec, asym, end_compressed, kind = _oriented(df, per, std)
     n_star = df.n.to_numpy(float) * 1e3
     m_raw = df.m.to_numpy(float) * 1e6
     m_design = std.design_moment(m_raw, n_star, df.Lw.to_numpy(float))
@@ -447,24 +492,27 @@ def check_pier_axial(
     both = asym[of] & (m_design > np.abs(m_raw))
     rows = np.concatenate([np.arange(len(df)), np.flatnonzero(both)])
     sense = np.concatenate([end_compressed, ~end_compressed[both]])
+    case_sec = kind[of[rows]] + sec.D.size // 2 * sense
+    n_case, m_case = n_star[rows], m_design[rows]
+    # each distinct case (section, N*, M*) worked out once (`_cases_once`) and spread to its rows
+    keep, back = _cases_once(first[of[rows]], case_sec, n_case, m_case)
     r = interaction(
-        sec, n_star[rows], phi0, of=of[rows] + len(first) * sense, m_star=m_design[rows], std=std,
-        at_n=not util_only,
-    )  # fmt: skip
+        sec, n_case[keep], phi0, of=case_sec[keep], m_star=m_case[keep], std=std, at_n=not util_only
+    )
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
-    worse = r["lam"][other] > r["lam"][np.flatnonzero(both)]
+    lam = r["lam"][back]
+    worse = lam[other] > lam[np.flatnonzero(both)]
     pick[np.flatnonzero(both)[worse]] = other[worse]
     if util_only:
-        df["util"] = r["lam"][pick]
+        df["util"] = lam[pick]
         return _simplified(df, settings, of, working=False, std=std, util_only=True)
-    if len(other):  # else each row's own values (pick is the identity)
-        r = {k: v[pick] for k, v in r.items()}
+    r = _Spread(r, back[pick])  # each row's values, gathered when first read
     # text columns taken from their few strings by code (`text_column`), not a string per row
     df["compressed"] = text_column(
         np.where(asym[of], np.where(sense[pick], 0, 1), 2), ["end", "start", "either"]
     )
-    section_of = (of[rows] + len(first) * sense)[pick]
+    section_of = case_sec[pick]
     kn, knm = 1e-3, 1e-6
     df["m_design"] = m_design * knm
     df["m_min"] = np.maximum(n_star, 0.0) * std.min_eccentricity * df.Lw.to_numpy(float) * knm

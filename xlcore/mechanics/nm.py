@@ -391,16 +391,25 @@ class RowsMemo:
         return got
 
 
+REPACK = 8
+"""The solver packs its rows again once more than 1 / REPACK of those it holds have finished
+(`_illinois`)."""
+
+
 def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
     """Root of g (increasing) in [lo, hi] per row; `scale_g` adds to the force scale of the
     tolerance; `ends` = (g(lo), g(hi)) where known. Regula falsi, Illinois modification,
     every third step a bisection.
 
     The rows still iterating are held packed (their brackets, g values and last sides), and
-    packed again only when some finish: g is called with one `rows` array until then (None
-    while every row iterates). Each row's steps are the same arithmetic on the same numbers as
-    when every array was gathered from and scattered back to full length on every step, so
-    the same roots to the last bit (tests/test_axial_speed2.py)."""
+    packed again only once more than 1 / `REPACK` of those held have finished: g is called
+    with one `rows` array until then (None while every row is held), and the rows that
+    finished meanwhile take further steps whose answers are not read (each packing gathers
+    every per-row input of g again: a few rows finishing per step cost a gather of all of
+    them, more than the steps they skip). Each row's steps, up to the one it finishes at,
+    are the same arithmetic on the same numbers as when every array was gathered from and
+    scattered back to full length on every step, so the same roots to the last bit
+    (tests/test_axial_speed2.py, test_axial_speed3.py)."""
     glo, ghi = (g(lo, None), g(hi, None)) if ends is None else ends
     tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + scale_g)
     tol_x = 1e-12 * D
@@ -410,8 +419,10 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
     rows = None if active.size == D.size else active
     a, b, ga, gb, tg, tx = (v if rows is None else v[rows] for v in (lo, hi, glo, ghi, tol_g, tol_x))
     below = None  # each row's side of its last step (every row packed has taken as many)
+    live = None  # which rows held are still iterating (None: all)
+    left = a.size
     for it in range(iterations):
-        if a.size == 0:
+        if left == 0:
             break
         mid = 0.5 * (a + b)
         if it % 3 == 2:
@@ -432,16 +443,23 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
         a, b = np.where(below, x, a), np.where(below, b, x)
         ga, gb = ga_next, gb_next
         done = (np.abs(gx) <= tg) | (b - a <= tx)
+        if live is not None:
+            done &= live
         if not done.any():
             continue
         index = active if rows is None else rows
         out[index[done]] = x[done]
-        keep = ~done
-        rows = index[keep]
-        a, b, ga, gb, tg, tx, below = (v[keep] for v in (a, b, ga, gb, tg, tx, below))
-    if a.size:
+        live = ~done if live is None else live & ~done
+        left = int(np.count_nonzero(live))
+        if (a.size - left) * REPACK <= a.size:  # few finished: held as they are
+            continue
+        rows = index[live]
+        a, b, ga, gb, tg, tx, below = (v[live] for v in (a, b, ga, gb, tg, tx, below))
+        live = None
+    if left:
         index = active if rows is None else rows
-        out[index] = 0.5 * (a + b)
+        mid = 0.5 * (a + b)
+        out[index if live is None else index[live]] = mid if live is None else mid[live]
     return out
 
 

@@ -1,0 +1,154 @@
+"""The pier N-M check's round-5 fast paths against the code they replace, bit for bit: each
+distinct pier section built once (`axial._oriented`: piers alike share one), each case whose
+section, N* and M* repeat its storey x pier's first row's worked out once (`axial._cases_once`),
+and the solver packing its rows again only once enough have finished (`nm.REPACK`). Each test
+fails with its fast path broken (tried: a section column left out of the key, M* left out of
+the cases' comparison, a case given its own place instead of its first row's, the rows that
+finished written again on a later step)."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+from test_axial_speed2 import _actions, _illinois_reference, _piers
+
+from xlcore.checks import axial
+from xlcore.checks.axial import check_pier_axial
+from xlcore.mechanics import nm
+from xlcore.model import Settings
+
+KWS = [dict(), dict(text=False), dict(working=False, util_only=True)]
+
+
+def _repeated(acts: pd.DataFrame) -> pd.DataFrame:
+    """The actions with cases that repeat: every storey x pier's actions again under five more
+    combinations, each the first row's N* and M* (the same cases), and in two of them the
+    first row's N* with another M* or the sign of a zero M* changed (cases that differ only
+    there); combinations of a pier whose N* and M* all repeat (as in the L tower) among them."""
+    acts = acts.dropna(subset=["n", "m"])
+    first = acts.groupby(["storey", "pier_id"], sort=False).head(1)
+    more = []
+    for c in range(5):
+        rows = first.assign(combination=f"R{c}")
+        if c == 3:
+            rows = rows.assign(m=rows.m * 1.5 + 1.0)
+        if c == 4:
+            rows = rows.assign(m=np.where(rows.m == 0, -0.0, rows.m), n=np.where(rows.n == 0, -0.0, rows.n))
+        more.append(rows)
+    out = pd.concat([acts, *more], ignore_index=True)
+    zero = out.index[::17]
+    out.loc[zero, ["n", "m"]] = 0.0  # some storey x pier's first rows at (0, 0), the R4 copies at -0.0
+    return out
+
+
+def _same(fast: pd.DataFrame, general: pd.DataFrame) -> None:
+    pd.testing.assert_frame_equal(fast, general, check_exact=True)
+    for c in fast.columns:
+        if fast[c].dtype.kind == "f":
+            assert np.array_equal(fast[c].to_numpy().view(np.int64), general[c].to_numpy().view(np.int64)), c
+
+
+def _every_case(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`_cases_once` without sharing: every case worked out on its own."""
+    return np.arange(ref.size), np.arange(ref.size)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+@pytest.mark.parametrize("kw", KWS)
+def test_cases_once_equal_every_case_on_its_own(monkeypatch, standard, kw):
+    """The table (every number and text) with repeated cases worked out once equals the table
+    with every case worked out, where many cases repeat, some differ from their first row in
+    M* alone or in the sign of a zero, and asymmetric piers run in both senses."""
+    p, s = _piers(), Settings(standard=standard)
+    acts = _repeated(_actions(p))
+    seen = []
+
+    def counted(ref, *columns):
+        keep, back = axial_cases_once(ref, *columns)
+        seen.append((ref.size, keep.size))
+        return keep, back
+
+    axial_cases_once = axial._cases_once
+    monkeypatch.setattr(axial, "_cases_once", counted)
+    fast = check_pier_axial(p, acts, s, **kw)
+    assert seen and seen[0][1] < 0.8 * seen[0][0]  # really fewer cases
+    monkeypatch.setattr(axial, "_cases_once", _every_case)
+    _same(fast, check_pier_axial(p, acts, s, **kw))
+
+
+def test_cases_once_keeps_apart_what_differs():
+    """Cases equal bit for bit to their first row's share its place; -0.0 and 0.0, NaN and
+    another value, another section each keep a place of their own."""
+    ref = np.array([0, 0, 0, 0, 0, 5, 5, 5])
+    sec = np.array([1, 1, 2, 1, 1, 3, 3, 3])
+    n = np.array([1.0, 1.0, 1.0, -0.0, 1.0, 0.0, -0.0, 0.0])
+    m = np.array([2.0, 2.0, 2.0, 2.0, np.nan, np.nan, np.nan, np.nan])
+    keep, back = axial._cases_once(ref, sec, n, m)
+    assert keep.tolist() == [0, 2, 3, 4, 5, 6] and back.tolist() == [0, 0, 1, 2, 3, 4, 5, 4]
+    for col in (sec, n, m):  # each row's case has the row's own values, bit for bit
+        bits = col.view(np.int64) if col.dtype.kind == "f" else col
+        assert np.array_equal(bits[keep][back], bits)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+@pytest.mark.parametrize("kw", KWS)
+def test_sections_once_equal_one_section_per_pier(monkeypatch, standard, kw):
+    """The table with piers alike sharing one section equals the table with a section per
+    pier (with and without end zones; some piers differ from another in f'c alone)."""
+    p, s = _piers(), Settings(standard=standard)
+    p.loc[p.index[::3], "fc"] = 65.0
+    acts = _actions(p)
+    fast = check_pier_axial(p, acts, s, **kw)
+    monkeypatch.setattr(axial, "row_keys", lambda *columns: np.arange(len(columns[0])))
+    monkeypatch.setattr(axial, "first_rows", lambda codes: np.arange(len(codes)))
+    _same(fast, check_pier_axial(p, acts, s, **kw))
+
+
+def test_sections_once_are_fewer_and_differ_in_every_column():
+    """Piers share a section only where every section column is the same: changing any one
+    column of one pier gives it a section of its own."""
+    p = _piers()
+    df = p[["storey", "pier_id"]].assign(m=1.0)
+    sec, asym, _, kind = axial._oriented(df, p, axial.get_standard("AS 3600:2018"))
+    assert sec.D.size // 2 == len(np.unique(kind)) < len(p)
+    cols = ["Lw", "tw", "fc", "fsy", "v_dia", "v_spacing", "v_layers", "cover"]
+    cols += [f"z{side}_{k}" for side in "ab" for k in ("n", "dia", "len", "tie")]
+    twin = int(np.flatnonzero(np.bincount(kind) > 1)[0])
+    i = int(np.flatnonzero(kind == twin)[0])
+    for c in cols:
+        q = p.copy()
+        q.loc[q.index[i], c] = np.nan_to_num(q[c].iloc[i]) + 1.0
+        _, _, _, k2 = axial._oriented(df, q, axial.get_standard("AS 3600:2018"))
+        assert len(np.unique(k2)) == len(np.unique(kind)) + 1, c
+
+
+@pytest.mark.parametrize("repack", [1, 2, 8, 1e9])
+def test_solver_packing_again_late_equals_the_gather_every_step_solver(monkeypatch, repack):
+    """The solver holding finished rows until more than 1 / REPACK of those held have
+    finished (1: never packed again; 1e9: at every finish, as before) finds the roots of the
+    round-3 solver on rows that finish at different steps and reach every branch."""
+    monkeypatch.setattr(nm, "REPACK", repack)
+    rng = np.random.default_rng(3)
+    k = 420
+    root = rng.uniform(0.05, 0.95, k)
+    kind = np.arange(k) % 7
+    lo, hi = np.zeros(k), np.ones(k)
+    lo[kind == 3] = 0.01
+    lo[kind == 4] = root[kind == 4]
+    hi[kind == 5] = 0.5 * root[kind == 5]
+
+    def g_of(x, rows):
+        r, kd = (root, kind) if rows is None else (root[rows], kind[rows])
+        with np.errstate(over="ignore"):
+            out = np.where(kd == 0, (x - r) ** 3, x - r)
+            out = np.where(kd == 1, np.where(x > r, 1e300 * 1e10, -1e-300), out)
+            out = np.where(kd == 2, np.sign(x - r) * (1 + x), out)
+            out = np.where(kd == 3, np.where(x < r, -1e-300, 1e6 * (x - r)), out)
+            out = np.where(kd == 6, np.where(x > r, 1e-300, 1e6 * (x - r)), out)
+        return out
+
+    for it in (3, 8, 60):
+        want = _illinois_reference(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
+        got = nm._illinois(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
+        assert np.array_equal(got.view(np.int64), want.view(np.int64))
