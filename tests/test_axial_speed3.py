@@ -152,3 +152,26 @@ def test_solver_packing_again_late_equals_the_gather_every_step_solver(monkeypat
         want = _illinois_reference(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
         got = nm._illinois(g_of, lo.copy(), hi.copy(), np.zeros(k), np.ones(k), it)
         assert np.array_equal(got.view(np.int64), want.view(np.int64))
+
+
+def _one_by_one(df: pd.DataFrame, new: dict) -> pd.DataFrame:
+    """`_with_columns` as the check did it before: `df[key] = value` for each in order."""
+    for key, value in new.items():
+        df[key] = value
+    return df
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+@pytest.mark.parametrize("kw", KWS)
+def test_columns_joined_at_once_equal_set_one_by_one(monkeypatch, standard, kw):
+    """The check's table with its result columns joined at once: the same table (order, values,
+    column types) as with each set in turn, where the actions carry a column of a result's name
+    (`k`, the sharing factor, which the simplified method's k replaces in its place)."""
+    p, s = _piers(), Settings(standard=standard)
+    acts = _actions(p).assign(k=0.5)
+    fast = check_pier_axial(p, acts, s, **kw)
+    assert list(fast.columns).count("k") == 1 and not (fast.k == 0.5).all()
+    monkeypatch.setattr(axial, "_with_columns", _one_by_one)
+    general = check_pier_axial(p, acts, s, **kw)
+    _same(fast, general)
+    assert fast.dtypes.equals(general.dtypes)
