@@ -1,7 +1,8 @@
 """The pier N-M check's round-5 fast paths against the code they replace, bit for bit: each
 distinct pier section built once (`axial._oriented`: piers alike share one), each case whose
 section, N* and M* repeat its storey x pier's first row's worked out once (`axial._cases_once`),
-and the solver packing its rows again only once enough have finished (`nm.REPACK`). Each test
+the result columns joined at once (`axial._with_columns`), and the solver working in blocks of
+rows (`nm.BLOCK`) and packing its rows again only once enough have finished (`nm.REPACK`). Each test
 fails with its fast path broken (tried: a section column left out of the key, M* left out of
 the cases' comparison, a case given its own place instead of its first row's, the rows that
 finished written again on a later step)."""
@@ -123,12 +124,15 @@ def test_sections_once_are_fewer_and_differ_in_every_column():
         assert len(np.unique(k2)) == len(np.unique(kind)) + 1, c
 
 
+@pytest.mark.parametrize("block", [10**9, 64, 7])
 @pytest.mark.parametrize("repack", [1, 2, 8, 1e9])
-def test_solver_packing_again_late_equals_the_gather_every_step_solver(monkeypatch, repack):
+def test_solver_packing_again_late_equals_the_gather_every_step_solver(monkeypatch, repack, block):
     """The solver holding finished rows until more than 1 / REPACK of those held have
-    finished (1: never packed again; 1e9: at every finish, as before) finds the roots of the
-    round-3 solver on rows that finish at different steps and reach every branch."""
+    finished (1: never packed again; 1e9: at every finish, as before), one block of rows or
+    blocks of 64 or 7 rows, finds the roots of the round-3 solver on rows that finish at
+    different steps and reach every branch."""
     monkeypatch.setattr(nm, "REPACK", repack)
+    monkeypatch.setattr(nm, "BLOCK", block)
     rng = np.random.default_rng(3)
     k = 420
     root = rng.uniform(0.05, 0.95, k)
@@ -175,3 +179,16 @@ def test_columns_joined_at_once_equal_set_one_by_one(monkeypatch, standard, kw):
     general = check_pier_axial(p, acts, s, **kw)
     _same(fast, general)
     assert fast.dtypes.equals(general.dtypes)
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+@pytest.mark.parametrize("kw", KWS)
+def test_check_in_solver_blocks_equals_the_gather_every_step_solver(monkeypatch, standard, kw):
+    """The whole check's table with the solver working in blocks of 50 rows (the check's
+    1 640 cases: many blocks, the last one short) equals the table with the round-3 solver."""
+    p, s = _piers(), Settings(standard=standard)
+    acts = _actions(p)
+    monkeypatch.setattr(nm, "BLOCK", 50)
+    fast = check_pier_axial(p, acts, s, **kw)
+    monkeypatch.setattr(nm, "_illinois", _illinois_reference)
+    _same(fast, check_pier_axial(p, acts, s, **kw))
