@@ -192,3 +192,23 @@ def test_check_in_solver_blocks_equals_the_gather_every_step_solver(monkeypatch,
     fast = check_pier_axial(p, acts, s, **kw)
     monkeypatch.setattr(nm, "_illinois", _illinois_reference)
     _same(fast, check_pier_axial(p, acts, s, **kw))
+
+
+@pytest.mark.parametrize("standard", ["AS 3600:2018", "ACI 318-19"])
+def test_bar_words_once_per_distinct_pier_equal_row_by_row(standard):
+    """`bars.describe` wording each distinct set of the values it reads once: the words of every
+    pier worded on its own, where piers repeat over storeys and some differ from another in an
+    edge's name alone, in the zone's tie spacing alone, or have no edge name."""
+    from xlcore.codes import get_standard
+    from xlcore.mechanics import bars
+
+    p = pd.concat([_piers()] * 3, ignore_index=True)
+    p.loc[p.index[::5], "edge_a"] = "opening 9 far"
+    p.loc[p.index[::7], "za_ties"] = 150.0
+    p.loc[p.index[::11], "edge_b"] = np.nan
+    name = get_standard(standard).bar_name
+    fast = bars.describe(p, name)
+    assert len(set(fast)) < len(p) // 3
+    assert fast == bars._describe(p, name)
+    assert bars.describe(p.iloc[:1], name) == bars._describe(p.iloc[:1], name)
+    assert bars.describe(p.iloc[:0], name) == []
