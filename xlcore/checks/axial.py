@@ -522,7 +522,7 @@ def check_pier_axial(
     new: dict[str, object] = {}
     if util_only:
         new["util"] = lam[pick]
-        return _simplified(df, settings, of, new, working=False, std=std, util_only=True)
+        return _simplified(df, settings, of, new, working=False, std=std, util_only=True, first=first)
     r = _Spread(r, back[pick])  # each row's values, gathered when first read
     # text columns taken from their few strings by code (`text_column`), not a string per row
     new["compressed"] = text_column(
@@ -562,10 +562,10 @@ def check_pier_axial(
         [sym["clause_tension"], sym["clause_squash"], sym["clause_curve"]],
     )
     if not working:
-        return _simplified(df, settings, of, new, working, std)
+        return _simplified(df, settings, of, new, working, std, first=first)
     new["bars"] = text_column(of, bars.describe(per, std.bar_name))
     if not text:  # every column but the working text (made later for the rows written)
-        return _simplified(df, settings, of, new, working=False, std=std)
+        return _simplified(df, settings, of, new, working=False, std=std, first=first)
     ray_state = SectionState(
         nu=r["nu_ray"], dn=r["dn_ray"], d0=r["d0"], fy=r["fsy"], nub=r["nub"], nuot=r["nuot"],
         kuo=r["kuo"], eps_cu=sec.eps_cu, Es=sec.Es,
@@ -719,6 +719,28 @@ def end_axial_per_length(n_star, m_star, Lw):
     return n / lw + bend, n / lw - bend
 
 
+def _simplified_numbers(x: dict[str, np.ndarray], s: Settings, std: Standard, phi) -> dict:
+    """`_simplified`'s numbers of the rows `x` (its arrays by name): k, hwe, the given
+    eccentricity, the capacity [kN], the end forces per length, the end stress, the reasons
+    the method does not apply (row masks by name) and where it applies."""
+    tw, Lw, Hc, n = x["tw"], x["Lw"], x["Hc"], x["n"]
+    k = std.effective_height_factor(Hc, Lw, x["edges"], s.ends_restrained == "yes")
+    hwe = k * Hc
+    m_out = x["m_out"]
+    e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
+    cap = std.simplified_capacity(x["fc"], tw, Lw, hwe, e_given, phi) * 1e-3
+    # in-plane moment considered: the design axial force per unit length at the pier's more
+    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with any least eccentricity is for the column check)
+    hi, lo = end_axial_per_length(n * 1e3, x["m"] * 1e6, Lw)
+    stress = hi / tw
+    # each condition that rules the method out, as a row mask, by name
+    fails = std.simplified_exclusions(n * 1e3, lo, tw, hwe, e_given, x["layers"], stress)
+    applies = ~np.logical_or.reduce(list(fails.values()))
+    return dict(
+        k=k, hwe=hwe, e_given=e_given, cap=cap, hi=hi, lo=lo, stress=stress, fails=fails, applies=applies
+    )
+
+
 def _simplified(
     df: pd.DataFrame,
     s: Settings,
@@ -727,51 +749,70 @@ def _simplified(
     working: bool = True,
     std: Standard | None = None,
     util_only: bool = False,
+    first: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """The standard's simplified method for walls in compression per row (AS 3600 Cl 11.5,
     ACI 318 11.5.3), with its applicability evaluated row by row; `of` gives each row's
-    storey x pier group (`per_pier`); its columns follow those of `new` (`check_pier_axial`'s
-    own, `_with_columns`). With `util_only` (`check_pier_axial`'s) the columns k, hwe and
-    util_s alone (the same numbers; no text columns, which cost more than the sums on the
-    advice search's rows)."""
+    storey x pier group (`per_pier`), `first` each group's first row; its columns follow those
+    of `new` (`check_pier_axial`'s own, `_with_columns`). With `util_only` (`check_pier_axial`'s)
+    the columns k, hwe and util_s alone (the same numbers; no text columns, which cost more
+    than the sums on the advice search's rows).
+
+    Without the working text, and given `first`, a row whose every value read equals its
+    group's first row's bit for bit takes that row's numbers (`_cases_once`; each row's
+    numbers read its own values alone), where at least half the rows do (the L tower's 60
+    combinations of a pier: one); else every row is worked out."""
     std = std or get_standard(s.standard)
     phi = s.phi_simplified if s.phi_simplified is not None else std.phi_simplified
-    tw, Lw, Hc = df.tw.to_numpy(float), df.Lw.to_numpy(float), df.Hc.to_numpy(float)
-    k = std.effective_height_factor(Hc, Lw, df.supported_edges.to_numpy(), s.ends_restrained == "yes")
-    hwe = k * Hc
-    n = df.n.to_numpy(float)
-    m_out = df.m_out.to_numpy(float) if "m_out" in df else np.zeros(len(df))
-    e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
-    cap = std.simplified_capacity(df.fc.to_numpy(float), tw, Lw, hwe, e_given, phi) * 1e-3
-    # in-plane moment considered: the design axial force per unit length at the pier's more
-    # compressed end, N*/Lw + 6 M*/Lw^2 (M* with any least eccentricity is for the column check)
-    hi, lo = end_axial_per_length(n * 1e3, df.m.to_numpy(float) * 1e6, Lw)
-    stress = hi / tw
-    layers = df.v_layers.to_numpy()
-    slender = hwe / tw
-    # each condition that rules the method out, as a row mask, by name
-    fails = std.simplified_exclusions(n * 1e3, lo, tw, hwe, e_given, layers, stress)
-    applies = ~np.logical_or.reduce(list(fails.values()))
+    x = dict(
+        tw=df.tw.to_numpy(float),
+        Lw=df.Lw.to_numpy(float),
+        Hc=df.Hc.to_numpy(float),
+        edges=df.supported_edges.to_numpy(),
+        fc=df.fc.to_numpy(float),
+        n=df.n.to_numpy(float),
+        m=df.m.to_numpy(float),
+        m_out=df.m_out.to_numpy(float) if "m_out" in df else np.zeros(len(df)),
+        layers=df.v_layers.to_numpy(),
+    )
+    back = None
+    if not working and first is not None:
+        keep, back = _cases_once(first[of], *x.values())
+        if keep.size * 2 > len(df):  # few repeat: every row on its own
+            back = None
+        else:
+            x = {key: v[keep] for key, v in x.items()}
+    y = _simplified_numbers(x, s, std, phi)
+    k, hwe, cap, hi, lo, applies = (y[key] for key in ("k", "hwe", "cap", "hi", "lo", "applies"))
+    tw, Lw = x["tw"], x["Lw"]
+
+    def rows(v: np.ndarray) -> np.ndarray:  # a number of each case as a number of each row
+        return v if back is None else v[back]
+
     if util_only:
-        new["k"], new["hwe"] = k, hwe
+        new["k"], new["hwe"] = rows(k), rows(hwe)
         with np.errstate(divide="ignore", invalid="ignore"):
-            new["util_s"] = np.where(applies, hi * Lw * 1e-3 / np.where(cap > 0, cap, np.nan), np.nan)
+            new["util_s"] = rows(np.where(applies, hi * Lw * 1e-3 / np.where(cap > 0, cap, np.nan), np.nan))
         return _with_columns(df, new)
-    e, ea = std.simplified_eccentricities(e_given, tw, hwe)
-    new["k"], new["hwe"], new["e"], new["ea"] = k, hwe, e, ea
-    new["slender"] = hwe / tw
+    e, ea = std.simplified_eccentricities(y["e_given"], tw, hwe)
+    new["k"], new["hwe"], new["e"], new["ea"] = rows(k), rows(hwe), rows(e), rows(ea)
+    new["slender"] = rows(hwe / tw)
     new["phi_s"] = phi
-    new["phi_nu_s"] = np.where(applies, cap, np.nan)
-    new["n_end"] = n_end = hi * Lw * 1e-3  # end force per length over the whole length [kN]
-    new["n_end_lo"] = lo * Lw * 1e-3
+    new["phi_nu_s"] = rows(np.where(applies, cap, np.nan))
+    n_end = hi * Lw * 1e-3  # end force per length over the whole length [kN]
+    new["n_end"] = rows(n_end)
+    new["n_end_lo"] = rows(lo * Lw * 1e-3)
     with np.errstate(divide="ignore", invalid="ignore"):
-        new["util_s"] = util_s = np.where(applies, n_end / np.where(cap > 0, cap, np.nan), np.nan)
+        util_s = np.where(applies, n_end / np.where(cap > 0, cap, np.nan), np.nan)
+    new["util_s"] = rows(util_s)
     new["status_s"] = text_column(
-        np.where(applies, np.where(util_s <= 1.0, 0, 1), 2), [PASS, FAIL, NOT_APPLICABLE]
+        rows(np.where(applies, np.where(util_s <= 1.0, 0, 1), 2)), [PASS, FAIL, NOT_APPLICABLE]
     )
     new["clause_s"] = std.symbols["simplified_clause"]
     if not working:
         return _with_columns(df, new)
+    Hc, n, layers, stress, fails = x["Hc"], x["n"], x["layers"], y["stress"], y["fails"]
+    slender = hwe / tw
     reasons = [""] * len(df)
     for i in np.flatnonzero(~applies).tolist():
         why = []
