@@ -101,7 +101,9 @@ def test_cases_once_keeps_apart_what_differs():
 @pytest.mark.parametrize("kw", KWS)
 def test_sections_once_equal_one_section_per_pier(monkeypatch, standard, kw):
     """The table with piers alike sharing one section equals the table with a section per
-    pier (with and without end zones; some piers differ from another in f'c alone)."""
+    pier (with and without end zones; some piers differ from another in f'c alone); and, the
+    same keys (`row_keys`) being the simplified method's, its working text made once per
+    distinct set of numbers equals the text of every row made on its own."""
     p, s = _piers(), Settings(standard=standard)
     p.loc[p.index[::3], "fc"] = 65.0
     acts = _actions(p)
