@@ -219,3 +219,12 @@ def test_bar_words_once_per_distinct_pier_equal_row_by_row(standard):
     assert fast == bars._describe(p, name)
     assert bars.describe(p.iloc[:1], name) == bars._describe(p.iloc[:1], name)
     assert bars.describe(p.iloc[:0], name) == []
+
+
+def test_cases_once_with_object_and_narrow_columns():
+    """Object columns (pd.NA among them) compared by pandas' equality, float32 bit for bit."""
+    ref = np.array([0, 0, 0, 0])
+    obj = np.array([2, 2, pd.NA, 2], dtype=object)
+    narrow = np.array([1.0, 1.0, 1.0, -0.0], dtype=np.float32)
+    keep, back = axial._cases_once(ref, obj, narrow)
+    assert keep.tolist() == [0, 2, 3] and back.tolist() == [0, 0, 1, 2]

@@ -346,7 +346,13 @@ def _cases_once(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.n
     tower's 60, each alike) cost one case."""
     same = np.ones(ref.shape, dtype=bool)
     for c in columns:
-        bits = c.view(np.int64) if c.dtype == np.float64 else c
+        c = np.asarray(c)
+        if c.dtype.kind == "f":  # floats bit for bit: -0.0 and 0.0 apart, NaN equal to itself
+            bits = np.ascontiguousarray(c).view(f"i{c.itemsize}")
+        elif c.dtype.kind in "iub":
+            bits = c
+        else:  # objects (pd.NA has no == answer): pandas' equality, NA equal to NA
+            bits = pd.factorize(c, use_na_sentinel=False)[0]
         same &= bits == bits[ref]
     keep = ~same
     keep[ref] = True
