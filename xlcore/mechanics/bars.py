@@ -20,6 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from xlcore.codes.base import first_rows, row_keys
 from xlcore.geometry import ZONE_COLUMNS
 
 
@@ -139,9 +140,29 @@ def _once_each(name: Callable[..., str]) -> Callable[..., str]:
     return named
 
 
+DESCRIBED = ("Lw", "v_dia", "v_spacing", "v_layers", "cover", *ZONE_COLUMNS, "edge_a", "edge_b")
+"""The columns `describe` reads (`layout`'s and the edges' names)."""
+
+
 def describe(df: pd.DataFrame, name: Callable[..., str] = _n_bar) -> list[str]:
     """The bars of each pier in words, e.g. 'start 8N28 in 600 mm; field 12 x 2N16 @ 191 mm;
-    end none'; `name(dia, n=None)` names the bars (the standard's `Standard.bar_name`)."""
+    end none'; `name(dia, n=None)` names the bars (the standard's `Standard.bar_name`).
+
+    Worded once per distinct set of the values read (`DESCRIBED`, floats bit for bit:
+    `codes.base.row_keys`) and spread to the piers alike: a tower's storeys repeat a few
+    (the L tower's 6 000 storey x pier rows, 8); each pier's words read its own row alone."""
+    if len(df) < 2:
+        return _describe(df, name)
+    kinds = row_keys(*(df[c].to_numpy() for c in DESCRIBED if c in df))
+    one = first_rows(kinds)
+    if len(one) == len(df):
+        return _describe(df, name)
+    words = np.asarray(_describe(df.take(one), name), dtype=object)
+    return words[kinds].tolist()
+
+
+def _describe(df: pd.DataFrame, name: Callable[..., str]) -> list[str]:
+    """`describe` of every row of `df`."""
     lay = layout(df)
     name = _once_each(name)
     out = []

@@ -391,27 +391,56 @@ class RowsMemo:
         return got
 
 
+REPACK = 8
+"""The solver packs its rows again once more than 1 / REPACK of those it holds have finished
+(`_illinois`)."""
+
+BLOCK = 32_768
+"""The solver works through its rows in blocks of this many (`_illinois`)."""
+
+
 def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
     """Root of g (increasing) in [lo, hi] per row; `scale_g` adds to the force scale of the
     tolerance; `ends` = (g(lo), g(hi)) where known. Regula falsi, Illinois modification,
     every third step a bisection.
 
-    The rows still iterating are held packed (their brackets, g values and last sides), and
-    packed again only when some finish: g is called with one `rows` array until then (None
-    while every row iterates). Each row's steps are the same arithmetic on the same numbers as
-    when every array was gathered from and scattered back to full length on every step, so
-    the same roots to the last bit (tests/test_axial_speed2.py)."""
+    The rows are solved in blocks of `BLOCK` rows, one block to its end before the next: a
+    block's arrays (256 kB each) stay in the processor's cache over its dozen steps, where
+    every step over all the rows streamed them from memory (a quarter of the solver's time at
+    the L tower's 250 000 rows). Within a block the rows still iterating are held packed
+    (their brackets, g values and last sides), and packed again only once more than
+    1 / `REPACK` of those held have finished: g is called with one `rows` array until then
+    (None while every row is held), and the rows that finished meanwhile take further steps
+    whose answers are not read (each packing gathers every per-row input of g again: a few
+    rows finishing per step cost a gather of all of them, more than the steps they skip).
+    Each row's steps, up to the one it finishes at, are the same arithmetic on the same
+    numbers as when every array was gathered from and scattered back to full length on every
+    step, so the same roots to the last bit (tests/test_axial_speed2.py, test_axial_speed3.py)."""
     glo, ghi = (g(lo, None), g(hi, None)) if ends is None else ends
     tol_g = 1e-12 * (np.abs(glo) + np.abs(ghi) + scale_g)
     tol_x = 1e-12 * D
     out = 0.5 * (lo + hi)
     out = np.where(glo >= 0, lo, np.where(ghi <= 0, hi, out))  # target outside: the nearer end
     active = np.flatnonzero((glo < 0) & (ghi > 0) & (hi - lo > tol_x))
-    rows = None if active.size == D.size else active
-    a, b, ga, gb, tg, tx = (v if rows is None else v[rows] for v in (lo, hi, glo, ghi, tol_g, tol_x))
+    if active.size == D.size and active.size <= BLOCK:
+        _solve_block(g, None, lo, hi, glo, ghi, tol_g, tol_x, out, iterations)
+        return out
+    for start in range(0, active.size, BLOCK):
+        rows = active[start : start + BLOCK]
+        a, b, ga, gb, tg, tx = (v[rows] for v in (lo, hi, glo, ghi, tol_g, tol_x))
+        _solve_block(g, rows, a, b, ga, gb, tg, tx, out, iterations)
+    return out
+
+
+def _solve_block(g, rows, a, b, ga, gb, tg, tx, out, iterations) -> None:
+    """`_illinois`'s steps on the rows `rows` (None: every row) whose brackets (a, b), g
+    values (ga, gb) and tolerances (tg, tx) are given packed; the roots written into `out`."""
+    held = np.arange(a.size) if rows is None else rows  # the rows held, as rows of `out`
     below = None  # each row's side of its last step (every row packed has taken as many)
+    live = None  # which rows held are still iterating (None: all)
+    left = a.size
     for it in range(iterations):
-        if a.size == 0:
+        if left == 0:
             break
         mid = 0.5 * (a + b)
         if it % 3 == 2:
@@ -432,17 +461,21 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
         a, b = np.where(below, x, a), np.where(below, b, x)
         ga, gb = ga_next, gb_next
         done = (np.abs(gx) <= tg) | (b - a <= tx)
+        if live is not None:
+            done &= live
         if not done.any():
             continue
-        index = active if rows is None else rows
-        out[index[done]] = x[done]
-        keep = ~done
-        rows = index[keep]
-        a, b, ga, gb, tg, tx, below = (v[keep] for v in (a, b, ga, gb, tg, tx, below))
-    if a.size:
-        index = active if rows is None else rows
-        out[index] = 0.5 * (a + b)
-    return out
+        out[held[done]] = x[done]
+        live = ~done if live is None else live & ~done
+        left = int(np.count_nonzero(live))
+        if (a.size - left) * REPACK <= a.size:  # few finished: held as they are
+            continue
+        rows = held = held[live]
+        a, b, ga, gb, tg, tx, below = (v[live] for v in (a, b, ga, gb, tg, tx, below))
+        live = None
+    if left:
+        mid = 0.5 * (a + b)
+        out[held if live is None else held[live]] = mid if live is None else mid[live]
 
 
 def tension_capacity(sec: Rect | EvenRect) -> np.ndarray:
