@@ -9,7 +9,8 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline
-from xlcore.checks import shear
+from xlcore.checks import detailing, same_keys, shear
+from xlcore.codes import get_standard
 from xlcore.mechanics import stiffness
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
@@ -98,3 +99,87 @@ def test_rows_of_reads_the_per_pier_capacity_by_row(demo):
         assert np.array_equal(getattr(got, k), getattr(want, k)), k
     for k in want.detail:
         assert np.array_equal(got.detail[k], want.detail[k]), k
+
+
+
+# ---- detailing: the shear table's rows matched once with the actions' where they are the same
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_detailing_shear_rows_taken_as_the_actions_equal_their_own_match(demo, standard, monkeypatch):
+    """A shear table made from the actions shares their key columns (the same arrays): its rows'
+    piers are the actions' (one match, not two); the same table as with its own match. A shear
+    table in another order, or a copy, is matched on its own (and gives the same table too)."""
+    b, piers, acts = demo
+    s = _settings(b, standard)
+    k = np.arange(len(acts))
+    acts = acts.assign(v=acts.v * np.where(k % 4 == 0, 25.0, 1.0), n=acts.n * np.where(k % 3 == 0, 30.0, 1.0))
+    table = shear.check_pier_shear(piers, acts, s, working=False)
+    assert same_keys(table.storey, table.pier_id, acts.storey, acts.pier_id)
+    shuffled = table.sample(frac=1.0, random_state=2).reset_index(drop=True)
+    copied = table.copy(deep=True)
+    copied["pier_id"] = np.array(copied.pier_id.tolist(), dtype=object)
+    assert not same_keys(shuffled.storey, shuffled.pier_id, acts.storey, acts.pier_id)
+    assert not same_keys(copied.storey, copied.pier_id, acts.storey, acts.pier_id)
+    got = [detailing.check_detailing(piers, acts, s, shear=t) for t in (table, shuffled, copied)]
+    monkeypatch.setattr(detailing, "same_keys", lambda *a: False)  # each table its own match
+    want = detailing.check_detailing(piers, acts, s, shear=table)
+    for g in got:
+        same_frame(g, want)
+    if standard == "ACI 318-19":  # the minima read V*: a wrong pier's V* changes the table
+        wrong = table.assign(v=table.v.to_numpy()[::-1])
+        assert not detailing.check_detailing(piers, acts, s, shear=wrong).equals(want)
+
+
+def test_same_keys_reads_data_strides_and_length():
+    """The same array, a view of it that starts elsewhere, steps otherwise or is shorter, and
+    an equal copy: only the first is the same."""
+    a = np.array(["L1", "L2", "L3", "L4"], dtype=object)
+    p = np.array(["W1", "W1", "W2", "W2"], dtype=object)
+    assert same_keys(a, p, a, p)
+    assert same_keys(pd.Series(a), pd.Series(p), a, p) == same_keys(np.asarray(pd.Series(a)), p, a, p)
+    assert not same_keys(a[1:], p[1:], a[:-1], p[:-1])
+    assert not same_keys(a[::2], p[::2], a[:2], p[:2])
+    assert not same_keys(a[:3], p[:3], a, p)
+    assert not same_keys(a.copy(), p, a, p)
+    assert not same_keys(a, p.copy(), a, p)
+
+
+# ---- AS 3600 limit words: once per distinct value, numbers as Python floats
+
+
+def as3600_limit_text_row_by_row(key, **values) -> list[str]:
+    """AS3600.limit_text as it was: every row formatted from numpy scalars."""
+    v = {k: np.atleast_1d(np.asarray(x)) for k, x in values.items()}
+    if key == "rho_v_min":
+        return [
+            f"N*/(Lw tw) = {s:.2f} MPa {'<=' if s <= 0.03 * fc else '>'} 0.03 f'c"
+            for s, fc in zip(*np.broadcast_arrays(v["sigma"], v["fc"]), strict=True)
+        ]
+    if key == "rho_h_min":
+        r, L = np.broadcast_arrays(v["restrained"], v["wall_length"])
+        return [f"{'restrained' if x else 'unrestrained'}, wall {n:.2f} m" for x, n in zip(r, L, strict=True)]
+    if key in ("spacing_v", "spacing_h"):
+        return [f"min(2.5 x {t:.0f}, 350)" for t in v["tw"]]
+    if key == "clear_gap":
+        return [f"3 x {d:.0f}" for d in v["db"]]
+    return ["from memory: verify"] * len(v["tw"])
+
+
+@pytest.mark.parametrize("restrained", [True, False, np.array([True, False, True, True, False, False, True])])
+def test_as3600_limit_words_equal_the_words_row_by_row(restrained):
+    """Every key, values repeated and apart, -0.0 and 0.0, NaN, a scalar broadcast: the same
+    words row by row."""
+    std = get_standard("AS 3600:2018")
+    values = dict(
+        sigma=np.array([0.0, -0.0, 1.2, 1.2, np.nan, 0.9, 1.21]),
+        fc=40.0,
+        wall_length=np.array([3.0, 3.0, 12.345, -0.0, 0.0, np.nan, 3.0]),
+        restrained=restrained,
+        tw=np.array([200.0, 200.0, 250.0, -0.0, 0.0, 199.5, np.nan]),
+        db=np.array([12.0, 16.0, 16.0, 12.5, -0.0, np.nan, 12.0]),
+    )
+    for key in ("rho_v_min", "rho_h_min", "spacing_v", "spacing_h", "clear_gap", "layers"):
+        assert std.limit_text(key, **values) == as3600_limit_text_row_by_row(key, **values), key
+    assert std.limit_text("clear_gap", db=np.zeros(0)) == []
+    assert std.limit_text("spacing_v", tw=250.0) == ["min(2.5 x 250, 350)"]

@@ -51,6 +51,24 @@ def pier_rows(a_storey, a_pier, t_storey, t_pier) -> np.ndarray | None:
     return rows_of(a_storey, a_pier, t_storey, t_pier)
 
 
+def same_keys(a_storey, a_pier, b_storey, b_pier) -> bool:
+    """Whether two tables' (storey, pier) columns are the same arrays in memory (the same data,
+    strides and length: equal now, row for row), so that their rows' piers are one answer of
+    `pier_rows` (the shear table of the actions it was made from: one match of 360 000 text
+    keys, not two). False where that is not so plainly so (then each table is matched)."""
+
+    def same(x, y) -> bool:
+        u, v = np.asarray(x), np.asarray(y)
+        return (
+            u.dtype == v.dtype
+            and u.shape == v.shape
+            and u.strides == v.strides
+            and u.__array_interface__["data"][0] == v.__array_interface__["data"][0]
+        )
+
+    return same(a_storey, b_storey) and same(a_pier, b_pier)
+
+
 def _by_number(numbers: np.ndarray, table: np.ndarray) -> np.ndarray | None:
     """Each integer's row in `table` (integers), -1 where it is not there; None where a number
     is in the table twice. A table by number where the numbers are dense, else a hash index."""

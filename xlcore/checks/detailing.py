@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import group_first, group_max, pier_rows, plain
+from xlcore.checks import group_first, group_max, pier_rows, plain, same_keys
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
@@ -281,7 +281,8 @@ def _inputs_by_position(
         return piers.assign(**cols, v_star=np.nan, hw_lw=np.nan)
     if shear is None:  # the shear check run here (and joined)
         return _with_shear(piers.assign(**cols), actions, settings, std, shear)
-    at = pier_rows(shear.storey, shear.pier_id, piers.storey, piers.pier_id)
+    if not same_keys(shear.storey, shear.pier_id, actions.storey, actions.pier_id):
+        at = pier_rows(shear.storey, shear.pier_id, piers.storey, piers.pier_id)
     if at is None:
         return None
     found = at >= 0
