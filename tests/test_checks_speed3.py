@@ -9,9 +9,10 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline
-from xlcore.checks import detailing, same_keys, shear
+from xlcore.checks import detailing, lintels, records, same_keys, shear
 from xlcore.codes import get_standard
 from xlcore.mechanics import stiffness
+from xlcore.results import envelope
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 
@@ -183,3 +184,59 @@ def test_as3600_limit_words_equal_the_words_row_by_row(restrained):
         assert std.limit_text(key, **values) == as3600_limit_text_row_by_row(key, **values), key
     assert std.limit_text("clear_gap", db=np.zeros(0)) == []
     assert std.limit_text("spacing_v", tw=250.0) == ["min(2.5 x 250, 350)"]
+
+
+# ---- lintels: rows from each column's values at once
+
+
+def test_records_equal_itertuples():
+    """Text with a missing value, floats with NaN and -0.0, integers, booleans, objects and a
+    column name that is no identifier: the same rows as `itertuples(index=False)`, value for
+    value and type for type."""
+    df = pd.DataFrame(
+        {
+            "model": pd.array(["beam", None, "", "strut-and-tie"], dtype="str"),
+            "x": [1.5, np.nan, -0.0, 2.0],
+            "n": np.array([1, 2, 3, 4], dtype=np.int64),
+            "ok": [True, False, True, False],
+            "o": np.array([None, 1.0, "a", 2], dtype=object),
+            "2 bad": [0.1, 0.2, 0.3, 0.4],
+        },
+        index=[7, 3, 5, 1],
+    )
+    want, got = list(df.itertuples(index=False)), list(records(df))
+    assert repr(got) == repr(want)
+    assert [[type(v) for v in r] for r in got] == [[type(v) for v in r] for r in want]
+    assert got[0]._fields == want[0]._fields
+    assert list(records(df.iloc[:0])) == []
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+def test_lintels_with_records_and_isin_on_objects_equal_itertuples(demo, standard, monkeypatch):
+    """The lintel table (needs and working per row) with `records` and the object isin equals the
+    table made with `itertuples` and the text column's isin."""
+    b, _, _ = demo
+    s = _settings(b, standard)
+    g = pipeline.geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
+    fast = lintels.check_lintels(g.lintels, b.member_actions, s)
+    assert (fast.model != "").sum() > 3
+    monkeypatch.setattr(lintels, "records", lambda df: df.itertuples(index=False))
+    of_lintels = lintels._of_lintels
+
+    def isin_of_text(acts, table):
+        named = acts.lintel_id.isin(pd.unique(table.lintel_id)).to_numpy()
+        got = of_lintels(acts, table)
+        assert got.equals(acts if named.all() else acts[named])
+        return got
+
+    monkeypatch.setattr(lintels, "_of_lintels", isin_of_text)
+    same_frame(fast, lintels.check_lintels(g.lintels, b.member_actions, s))
+
+
+# ---- envelope: the compliance words
+
+
+@pytest.mark.parametrize("first", ["", "pass 0.50", "FAIL 1.20"])
+@pytest.mark.parametrize("second", ["", "check"])
+def test_joined_words_equal_the_join_of_those_not_empty(first, second):
+    assert envelope._joined_words(first, second) == ", ".join(x for x in (first, second) if x)

@@ -5,6 +5,7 @@ tables made from the checks' tables (no check runs here)."""
 from __future__ import annotations
 
 import functools
+import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 
@@ -380,27 +381,23 @@ def envelope(
         fast = codes is not None
         u, fails, rule = _compliance_of(cand, at, check) if fast else _compliance(cand.rows, at, check)
         table[util_col] = u
-        text = np.array(
-            [
-                "" if not np.isfinite(x) else f"{results.FAIL if bad else results.PASS} {x:.2f}"
-                for x, bad in zip(u.tolist(), fails.tolist(), strict=True)
-            ],
-            dtype=object,
-        )
-        if check == CHECK_SECTION14:
-            text = np.array(
-                [
-                    ", ".join(x for x in (t, results.CHECK if c else "") if x)
-                    for t, c in zip(text.tolist(), to_check.tolist(), strict=True)
-                ],
-                dtype=object,
-            )
+        # Python floats tested by `math.isfinite` (numpy's on a scalar is a tenth of the speed)
+        text = [
+            "" if not math.isfinite(x) else f"{results.FAIL if bad else results.PASS} {x:.2f}"
+            for x, bad in zip(u.tolist(), fails.tolist(), strict=True)
+        ]
+        if check == CHECK_SECTION14:  # ", ".join of the words that are not empty
+            text = [
+                _joined_words(t, results.CHECK if c else "")
+                for t, c in zip(text, to_check.tolist(), strict=True)
+            ]
+        text = np.array(text, dtype=object)
         table[text_col] = text
         table.loc[checked & fails, "status"] = results.FAIL
         notes.append(np.where(fails, label + rule, ""))
     notes.append(np.where(to_check, f"{earthquake}: end-zone ties to check (bars not described)", ""))
     table["note"] = [
-        "; ".join(x for x in parts if x) for parts in zip(*(n.tolist() for n in notes), strict=True)
+        "; ".join(filter(None, parts)) for parts in zip(*(n.tolist() for n in notes), strict=True)
     ]
     table = table.sort_values(
         ["storey_index", "wall_id", "position"],
@@ -410,6 +407,13 @@ def envelope(
     table["util"] = table.util.astype(float)
     table["fix"] = ""  # filled by with_cheapest_fix once the advice search has run
     return table[cols].reset_index(drop=True)
+
+
+def _joined_words(first: str, second: str) -> str:
+    """`", ".join` of the two words that are not empty."""
+    if first and second:
+        return f"{first}, {second}"
+    return first or second
 
 
 def _first_max(u: np.ndarray, g: np.ndarray) -> np.ndarray:
