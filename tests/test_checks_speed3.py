@@ -9,8 +9,9 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline
-from xlcore.checks import detailing, lintels, records, same_keys, shear
+from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, shear
 from xlcore.codes import get_standard
+from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
 from xlcore.results import envelope
 
@@ -240,3 +241,27 @@ def test_lintels_with_records_and_isin_on_objects_equal_itertuples(demo, standar
 @pytest.mark.parametrize("second", ["", "check"])
 def test_joined_words_equal_the_join_of_those_not_empty(first, second):
     assert envelope._joined_words(first, second) == ", ".join(x for x in (first, second) if x)
+
+
+# ---- pier_rows: coded storeys compared as integers
+
+
+@pytest.mark.parametrize("spread", [1, 1000])
+@pytest.mark.parametrize("storey_type", [np.int64, np.uint32])
+def test_pier_rows_with_coded_storeys_equal_rows_of(spread, storey_type):
+    """Pier numbers (dense and sparse) and storey codes as integers: rows at another storey,
+    of a number not in the table, and the table in another order: `rows_of`'s answer."""
+    rng = np.random.default_rng(6)
+    t_pier = rng.permutation(300) * spread
+    t_storey = rng.integers(0, 5, 300).astype(storey_type)
+    pick = rng.integers(0, 300, 5000)
+    a_pier = t_pier[pick].copy()
+    a_storey = t_storey[pick].astype(np.int64)
+    a_storey[::7] += 1  # not that pier's storey
+    a_pier[::11] = 300 * spread + 5  # no such pier
+    got = pier_rows(a_storey, a_pier, t_storey, t_pier)
+    want = rows_of(pd.Series(a_storey), pd.Series(a_pier), pd.Series(t_storey), pd.Series(t_pier))
+    assert np.array_equal(got, want)
+    assert (got < 0).any() and (got >= 0).any()
+    objects = pier_rows(a_storey.astype(object), a_pier, t_storey.astype(object), t_pier)
+    assert np.array_equal(objects, want)  # the object path, the same answer

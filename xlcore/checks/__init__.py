@@ -40,13 +40,17 @@ def pier_rows(a_storey, a_pier, t_storey, t_pier) -> np.ndarray | None:
     table's pairs are not unique or one is blank: `distribution.rows_of`, the same answer. Where
     the table's pier IDs are integers, each once (the advice search's variant numbers), a pier
     is looked up by its number alone and the storey compared (a third of the time: no text
-    keys factorised), else `rows_of`."""
+    keys factorised; storeys coded as integers, the search's, compared as integers), else
+    `rows_of`."""
     from xlcore.distribution import rows_of
 
     tp, ap = np.asarray(t_pier), np.asarray(a_pier)
     if tp.dtype.kind in "iu" and ap.dtype.kind in "iu" and len(tp) and len(ap):
         at = _by_number(ap, tp)
-        ts, as_ = np.asarray(t_storey, dtype=object), np.asarray(a_storey, dtype=object)
+        ts, as_ = np.asarray(t_storey), np.asarray(a_storey)
+        if at is not None and ts.dtype.kind in "iu" and as_.dtype.kind in "iu":  # coded storeys
+            return np.where((at >= 0) & (ts[np.maximum(at, 0)] == as_), at, -1)
+        ts, as_ = ts.astype(object), as_.astype(object)
         if at is not None and not pd.isna(ts).any() and not pd.isna(as_).any():  # pd.NA: no == answer
             same = ts[np.maximum(at, 0)] == as_
             return np.where((at >= 0) & same, at, -1)
