@@ -8,7 +8,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import pipeline
+from xlcore import pipeline, results
 from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, shear
 from xlcore.codes import get_standard
 from xlcore.distribution import rows_of
@@ -265,3 +265,77 @@ def test_pier_rows_with_coded_storeys_equal_rows_of(spread, storey_type):
     assert (got < 0).any() and (got >= 0).any()
     objects = pier_rows(a_storey.astype(object), a_pier, t_storey.astype(object), t_pier)
     assert np.array_equal(objects, want)  # the object path, the same answer
+
+
+# ---- results: groups in order of first appearance, utilisation, the pier checks' keys
+
+
+@pytest.mark.parametrize("case", ["numbered", "rows dropped", "shuffled", "one", "empty", "late low"])
+def test_appearance_order_equals_pd_unique(case):
+    """Codes numbered as they appear (a check table's), the same with rows dropped, in another
+    order, one row, none, and a low code first seen after higher ones: `pd.unique`'s answer."""
+    rng = np.random.default_rng(7)
+    g = pd.factorize(rng.integers(0, 400, 3000))[0]
+    g = {
+        "numbered": g,
+        "rows dropped": g[rng.random(len(g)) < 0.3],
+        "shuffled": rng.permutation(g),
+        "one": g[:1],
+        "empty": g[:0],
+        "late low": np.array([0, 2, 2, 1, 3, 1, 4]),
+    }[case]
+    got = results.appearance_order(g)
+    assert np.array_equal(got, pd.unique(g)) and got.dtype == pd.unique(g).dtype
+    u = rng.random(len(g))
+    want = pd.Series(u).groupby(g, sort=False).idxmax().to_numpy() if len(g) else np.zeros(0, np.int64)
+    assert np.array_equal(results.first_max(u, g), want)
+
+
+def utilisation_formula(demand, capacity) -> np.ndarray:
+    d = np.abs(np.asarray(demand, dtype=float))
+    c = np.asarray(capacity, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(c > 0, d / np.where(c > 0, c, 1.0), np.where(d > 0, np.inf, 0.0))
+
+
+def test_utilisation_equals_the_formula():
+    """Rows with capacities positive, zero, -0.0, negative, NaN and infinite against demands
+    positive, zero, negative, NaN and infinite; scalars and a broadcast: the formula's bits."""
+    d = np.array([1.0, 0.0, -2.0, np.nan, np.inf, 3.0, -0.0])
+    c = np.array([2.0, 0.0, -0.0, -1.0, np.nan, np.inf, 5.0])
+    dd, cc = (a.ravel() for a in np.meshgrid(d, c))
+    cases = ((dd, cc), (pd.Series(dd), pd.Series(cc)), (3.0, 0.0), (dd, 2.0), (1.5, cc), (dd[:0], cc[:0]))
+    for args in cases:
+        got, want = results.utilisation(*args), utilisation_formula(*args)
+        assert got.shape == want.shape and np.array_equal(got.view(np.int64), want.view(np.int64))
+    assert not np.shares_memory(results.utilisation(dd, cc), dd)
+
+
+def test_pier_checks_keys_and_order_by_check_number():
+    """Each row's key, kind and place among its pier's checks, read by the check's number: the
+    key of its check, structural where it is no compliance check, the checks in UTIL_COLUMN's
+    order within a pier."""
+    rng = np.random.default_rng(8)
+    piers = pd.DataFrame({"storey": ["L1"] * 4 + ["L2"] * 4, "pier_id": ["W1", "W2", "W3", "W4"] * 2})
+    rows = piers.loc[piers.index.repeat(3)].reset_index(drop=True)
+    m = len(rows)
+    u = rng.random(m) * 1.4
+    status = np.where(u > 1, "FAIL", "pass")
+    shear_t = rows.assign(combination="C1", v=1.0, phi_vu=1.0, util=u, status=status, clause="c", advice="")
+    axial = rows.assign(
+        combination="C2", m_design=1.0, m_ray=1.0, util=u[::-1].copy(), status=status, clause="c",
+        governs="g", status_s="pass", n_end=1.0, phi_nu_s=1.0, util_s=0.3, clause_s="c",
+    )  # fmt: skip
+    det = piers.assign(value=1.0, limit=1.0, unit="", util=0.7, clause="c", status="pass", rule="r")
+    s14 = piers.iloc[::-1].assign(value=1.0, limit=1.0, unit="", util=1.2, clause="c", status="FAIL")
+    s14 = s14.assign(rule="r")
+    order = piers.iloc[[4, 5, 6, 7, 0, 1, 2, 3]]
+    out = envelope.pier_checks(shear_t, axial, det, s14, order)
+    assert out.key.tolist() == [envelope.UTIL_COLUMN[c] for c in out.check]
+    assert out.key.dtype == "str"
+    assert out.structural.tolist() == [c not in envelope.COMPLIANCE for c in out.check]
+    rank = list(envelope.UTIL_COLUMN)
+    want = [(s, p, rank.index(c)) for s, p, c in zip(out.storey, out.pier_id, out.check, strict=True)]
+    pos = {k: i for i, k in enumerate(zip(order.storey, order.pier_id, strict=True))}
+    assert want == sorted(want, key=lambda t: (pos[t[:2]], t[2]))
+    assert len(set(out.check)) == 5

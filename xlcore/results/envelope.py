@@ -44,12 +44,16 @@ def pier_checks(
         if len(cand := cand.rows[np.isfinite(u)]):
             cand = cand.assign(util=cand.util.astype(float))
             cand = cand.loc[cand.groupby(["storey", "pier_id", "check"], sort=False).util.idxmax()]
-    key = [UTIL_COLUMN.get(c, c) for c in cand.check.to_numpy().tolist()]  # not item by item
-    cand = cand.assign(key=key, structural=~cand.check.isin(COMPLIANCE))
+    # the key, the kind and the rank of each row's check read by its number (`check_no`, the
+    # check's place in CHECKS): a look-up among five, not a text test of every row
+    no = cand.check_no.to_numpy(dtype=np.intp)
+    # (no rows: an empty list, the column type the list of keys always gave an empty table)
+    key = results.text_column(no, [UTIL_COLUMN.get(c, c) for c in CHECKS]) if len(no) else []
+    cand = cand.assign(key=key, structural=~np.isin(no, [CHECKS.index(c) for c in COMPLIANCE]))
     at = order[["storey", "pier_id"]].drop_duplicates().reset_index(drop=True)
-    rank = {c: i for i, c in enumerate(UTIL_COLUMN)}
+    rank = np.array([list(UTIL_COLUMN).index(c) if c in UTIL_COLUMN else len(UTIL_COLUMN) for c in CHECKS])
     out = at.assign(_pos=np.arange(len(at))).merge(cand, on=["storey", "pier_id"], how="inner")
-    out = out.assign(_check=out.check.map(rank).fillna(len(rank)))
+    out = out.assign(_check=rank[out.check_no.to_numpy(dtype=np.intp)])
     out = out.sort_values(["_pos", "_check"], kind="stable").drop(columns=["_pos", "_check"])
     cols = ["storey", "pier_id", "check", "key", "util", "status", "clause", "combination", "structural"]
     return out[cols].reset_index(drop=True)
