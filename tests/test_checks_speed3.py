@@ -9,7 +9,7 @@ import pandas as pd
 import pytest
 
 from xlcore import pipeline, results
-from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, shear
+from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, section14, shear
 from xlcore.codes import get_standard
 from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
@@ -339,3 +339,68 @@ def test_pier_checks_keys_and_order_by_check_number():
     pos = {k: i for i, k in enumerate(zip(order.storey, order.pier_id, strict=True))}
     assert want == sorted(want, key=lambda t: (pos[t[:2]], t[2]))
     assert len(set(out.check)) == 5
+
+
+# ---- the action rows matched to their piers once, handed to shear, detailing and Section 14
+
+
+def matched_case(demo, standard):
+    """The demo's piers and actions shuffled, N* and V* raised on some rows, some rows of no
+    pier, an effective height per pier (one missing), and every combination an earthquake one
+    (Section 14's end-zone trigger reads the actions)."""
+    b, piers, acts = demo
+    s = _settings(b, standard, earthquake=set(acts.combination.unique()))
+    k = np.arange(len(acts))
+    acts = acts.assign(n=acts.n * np.where(k % 3 == 0, 30.0, 1.0), v=acts.v * np.where(k % 4 == 0, 25.0, 1.0))
+    acts = acts.sample(frac=1.0, random_state=9).reset_index(drop=True)
+    hwe = pd.Series(
+        piers.Hc.to_numpy(float) * 0.85, index=pd.MultiIndex.from_arrays([piers.storey, piers.pier_id])
+    ).iloc[1:]
+    return s, piers, acts, hwe
+
+
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("lost", [False, True])
+def test_checks_with_the_callers_match_equal_their_own(demo, standard, lost):
+    """Shear (with and without working), detailing and Section 14 handed `pier_rows`' answer
+    give the tables they give matching the rows themselves; with rows of no pier too (shear
+    then merges)."""
+    s, piers, acts, hwe = matched_case(demo, standard)
+    if lost:
+        acts.loc[np.arange(len(acts)) % 23 == 5, "pier_id"] = "nowhere"
+    pier_of = pier_rows(acts.storey, acts.pier_id, piers.storey, piers.pier_id)
+    assert pier_of is not None and (pier_of < 0).any() == lost
+    for mode in (dict(), dict(text=False), dict(working=False)):
+        got = shear.check_pier_shear(piers, acts, s, pier_of=pier_of, **mode)
+        same_frame(got, shear.check_pier_shear(piers, acts, s, **mode))
+    table = shear.check_pier_shear(piers, acts, s, working=False)
+    for working in (True, False):
+        same_frame(
+            detailing.check_detailing(piers, acts, s, hwe, working, shear=table, pier_of=pier_of),
+            detailing.check_detailing(piers, acts, s, hwe, working, shear=table),
+        )
+        got = section14.check_section14(piers, acts, s, hwe, working, pier_of=pier_of)
+        same_frame(got, section14.check_section14(piers, acts, s, hwe, working))
+    if standard == "AS 3600:2018":
+        assert (got.rule == "end-zone trigger").any() if working else len(got)
+
+
+def test_section14_leaves_the_callers_match_where_its_piers_are_not_the_tables(demo, monkeypatch):
+    """An effective height given twice for a pier makes Section 14's pier rows the joins' (more
+    rows than the pier table; the numbers only: the rule table's order refuses them): the
+    caller's match is not read there."""
+    s, piers, acts, hwe = matched_case(demo, "AS 3600:2018")
+    twice = pd.concat([hwe, hwe.iloc[:1] * 0.5])
+    pier_of = pier_rows(acts.storey, acts.pier_id, piers.storey, piers.pier_id)
+    seen = []
+    worst = section14._worst_by_position
+
+    def spy(p, actions, quake, pier_of=None):
+        seen.append(pier_of is not None)
+        return worst(p, actions, quake, pier_of)
+
+    monkeypatch.setattr(section14, "_worst_by_position", spy)
+    got = section14.check_section14(piers, acts, s, twice, False, pier_of=pier_of)
+    same_frame(got, section14.check_section14(piers, acts, s, twice, False))
+    section14.check_section14(piers, acts, s, hwe, False, pier_of=pier_of)
+    assert seen == [False, False, True]

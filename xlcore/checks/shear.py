@@ -28,6 +28,7 @@ def check_pier_shear(
     text: bool = True,
     *,
     std: Standard | None = None,
+    pier_of: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """Shear table: one row per storey x pier x combination, forces in kN.
 
@@ -36,7 +37,9 @@ def check_pier_shear(
     every column but the working text (f_vuc, f_vu, f_util), which the same call on the rows
     written makes later (`compute --detail`: most rows of a tall tower are not written).
     Column keys keep their first (AS 3600) names, e.g. `vuc` the concrete part; the headers
-    (results.py) are neutral.
+    (results.py) are neutral. `pier_of`: each action row's row in `piers` as
+    `checks.pier_rows` gives it, where the caller has it (the pipeline matches the action rows
+    once for shear, detailing and Section 14); None: matched here.
     """
     std = (std or get_standard(settings.standard)).configure(settings)
     geo = [
@@ -53,7 +56,7 @@ def check_pier_shear(
         "rho_h",
         "rho_v",
     ]
-    df, at = _with_piers(actions, piers, geo)
+    df, at = _with_piers(actions, piers, geo, pier_of)
     # what depends on the pier alone (Hw, Hw/Lw, the capacity and its parts) is worked out once
     # per pier and gathered to the rows (`at`: each row's pier; element by element the same
     # arithmetic, so the same bits); per row where the merge decided (`at` None)
@@ -214,16 +217,19 @@ def _piers_with_rows(at: np.ndarray, n_piers: int) -> tuple[np.ndarray, np.ndarr
 
 
 def _with_piers(
-    actions: pd.DataFrame, piers: pd.DataFrame, geo: list[str]
+    actions: pd.DataFrame, piers: pd.DataFrame, geo: list[str], pier_of: np.ndarray | None = None
 ) -> tuple[pd.DataFrame, np.ndarray | None]:
     """The action rows with their pier's `geo` columns, as a left merge on storey x pier_id
     would give them, and each row's pier row (None where the merge itself was used). Where
     every action row finds exactly one pier and no column name is shared, the pier columns are
-    gathered by position (integer codes of the two keys; no merge of 360 000 rows of text)."""
+    gathered by position (integer codes of the two keys; no merge of 360 000 rows of text).
+    `pier_of`: `pier_rows`' answer for these tables where the caller has it."""
     keys = ["storey", "pier_id"]
     at = None
     if not (set(actions.columns) & set(geo)) - set(keys):
-        at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        at = pier_of if pier_of is not None else pier_rows(
+            actions.storey, actions.pier_id, piers.storey, piers.pier_id
+        )
         if at is not None and (at < 0).any():
             at = None
     if at is None:
