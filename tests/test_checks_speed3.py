@@ -4,15 +4,17 @@ fast path broken (tried)."""
 
 from __future__ import annotations
 
+import builders
 import numpy as np
 import pandas as pd
 import pytest
 
-from xlcore import pipeline, results
+from xlcore import geometry, pipeline, results
 from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, section14, shear
 from xlcore.codes import get_standard
 from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
+from xlcore.model import Opening
 from xlcore.results import envelope
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
@@ -404,3 +406,71 @@ def test_section14_leaves_the_callers_match_where_its_piers_are_not_the_tables(d
     same_frame(got, section14.check_section14(piers, acts, s, twice, False))
     section14.check_section14(piers, acts, s, hwe, False, pier_of=pier_of)
     assert seen == [False, False, True]
+
+
+# ---- geometry: each walls-sheet row cut by its openings once per distinct set of them
+
+
+def derive_rows_storey_by_storey(storeys, walls, openings):
+    """`geometry.derive`'s pier and lintel rows as it made them before: every wall of every
+    storey cut afresh."""
+    runs, cuts = geometry.run_at(walls, storeys), geometry.openings_at(openings, storeys)
+    pier_rows, lintel_rows = [], []
+    for s in storeys:
+        ids = sorted({w for i, w in runs if i == s.index}, key=geometry._natural)
+        hc = s.clear_height * 1000.0
+        for wall_id in ids:
+            w = runs[(s.index, wall_id)]
+            here = cuts.get((s.index, wall_id), [])
+            length, head, tail = geometry._run_numbers(w)
+            strip = max((o.head - o.sill for o in here), default=float("nan")) * 1000.0
+            common = (*head, strip, *tail)
+            if not here:
+                pier_rows.append(
+                    (s.name, s.index, wall_id, wall_id, 0, 0.0, length, length * 1000.0, w.thickness, hc,
+                     float("nan"), *common, "start", "end")
+                )  # fmt: skip
+                continue
+            for k, (a, b, h) in enumerate(geometry.segments(length, here), start=1):
+                pier_rows.append(
+                    (s.name, s.index, wall_id, f"{wall_id}-{k}", k, a, b, (b - a) * 1000.0, w.thickness, hc,
+                     h * 1000.0, *common, *geometry._edges(length, here, a, b))
+                )  # fmt: skip
+            for k, o in enumerate(here, start=1):
+                n = geometry._nan
+                lintel_rows.append(
+                    (s.name, s.index, wall_id, f"{wall_id}-L{k}", o.width, (s.height - o.head) * 1000.0,
+                     w.thickness, o.head, o.label or "", w.cover, w.fc, w.fsy, n(o.lintel_bars),
+                     n(o.lintel_dia), n(o.stirrup_dia), n(o.stirrup_legs), n(o.stirrup_spacing),
+                     n(o.diag_bars), n(o.diag_dia), o.offset)
+                )  # fmt: skip
+    return pier_rows, lintel_rows
+
+
+def test_derive_cut_once_per_row_and_openings_equals_storey_by_storey():
+    """Openings that start and stop up the building (storeys alike in between), a wall whose row
+    changes, one opening giving way to another up a wall, storeys of different heights, a wall
+    without openings, lintel bars given on one:
+    the same pier and lintel rows as every storey cut afresh, in the same order."""
+    heights = [3.2 + 0.1 * (i % 2) for i in range(8)]
+    storeys = [builders.storey(f"L{i}", index=i, level=3.2 * i, height=heights[i]) for i in range(1, 8)]
+    walls = [
+        builders.wall("W1", 0, 0, 8.0, 0, storeys=("L1", "L4")),
+        builders.wall("W1", 0, 0, 8.0, 0, storeys=("L5", "L7"), thickness=250.0),
+        builders.wall("W2", 0, -2.0, 0, 2.0, storeys=("L1", "L7")),
+        builders.wall("W10", 8.0, -1.0, 8.0, 3.0, storeys=("L2", "L7")),
+    ]
+    openings = [
+        Opening(wall_id="W1", storey_from="L2", storey_to="L6", offset=2.0, width=1.0, sill=0.0, head=2.1),
+        Opening(wall_id="W1", storey_from="L4", storey_to="L7", offset=5.0, width=1.2, sill=0.9, head=2.4,
+                lintel_bars=3, lintel_dia=16.0),
+        Opening(wall_id="W10", storey_from="L3", storey_to="L3", offset=0.0, width=1.0, sill=0.0, head=2.1),
+        Opening(wall_id="W2", storey_from="L1", storey_to="L3", offset=1.0, width=0.9, sill=0.0, head=2.1),
+        Opening(wall_id="W2", storey_from="L4", storey_to="L7", offset=2.5, width=0.9, sill=0.0, head=2.1),
+    ]  # fmt: skip
+    g = geometry.derive(storeys, walls, openings)
+    pier_rows, lintel_rows = derive_rows_storey_by_storey(storeys, walls, openings)
+    want = pd.DataFrame(pier_rows, columns=geometry.PIER_COLUMNS)
+    same_frame(g.piers[geometry.PIER_COLUMNS], want)
+    same_frame(g.lintels, pd.DataFrame(lintel_rows, columns=geometry.LINTEL_COLUMNS))
+    assert g.piers.pier_id.nunique() > 5 and len(g.lintels) > 8
