@@ -474,3 +474,23 @@ def test_derive_cut_once_per_row_and_openings_equals_storey_by_storey():
     same_frame(g.piers[geometry.PIER_COLUMNS], want)
     same_frame(g.lintels, pd.DataFrame(lintel_rows, columns=geometry.LINTEL_COLUMNS))
     assert g.piers.pier_id.nunique() > 5 and len(g.lintels) > 8
+
+
+# ---- rule tables: each row's pier found by codes
+
+
+@pytest.mark.parametrize("two_layers", ["yes", "no"])
+def test_rule_order_by_codes_equals_the_join(demo, two_layers, monkeypatch):
+    """Section 14's rule table put in the pier table's order with each row's pier found by
+    `pier_rows`: the same table as with the join on the text keys; the pier table in another
+    order (storeys top down, walls reversed) so that the order is the pier table's own."""
+    import xlcore.checks as checks
+
+    b, piers, acts = demo
+    s = _settings(b, "AS 3600:2018", eq_two_layers=two_layers, earthquake=set(acts.combination.unique()))
+    piers = piers.iloc[::-1].reset_index(drop=True)
+    fast = section14.check_section14(piers, acts, s)
+    monkeypatch.setattr(checks, "pier_rows", lambda *a: None)
+    slow = section14.check_section14(piers, acts, s)
+    same_frame(fast, slow)
+    assert fast.rule.nunique() >= 4

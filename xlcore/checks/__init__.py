@@ -246,8 +246,13 @@ def finish_rules(
     if not working:
         return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
     out["clause"] = out.rule.map(clauses)
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    # each row's pier's place in p by integer codes of the keys (`pier_rows`); the join on the
+    # two text keys where that does not answer for every row
+    at = pier_rows(out.storey, out.pier_id, p.storey, p.pier_id)
+    if at is None or (at < 0).any():
+        pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+        at = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_pier"] = at
     out["_rule"] = out.rule.map(pd.Series(range(len(rules)), index=rules))
     keys = ["storey_index", "_pier", "_rule"]
     if every is not None:
