@@ -494,3 +494,25 @@ def test_rule_order_by_codes_equals_the_join(demo, two_layers, monkeypatch):
     slow = section14.check_section14(piers, acts, s)
     same_frame(fast, slow)
     assert fast.rule.nunique() >= 4
+
+
+# ---- text columns: a take of the strings' array alone
+
+
+@pytest.mark.parametrize(
+    "texts, pick",
+    [
+        (["pass", "FAIL"], [0, 1, 1, 0, 1]),
+        (["a", "b", "c"], [2, -1, 0, -3]),  # positions from the end, as numpy's take reads them
+        (["only"], []),
+        ([], []),
+        (["x", np.nan, "y"], [1, 0, 2, 1]),  # a missing value among the words
+        (np.array(["u", "v"]), np.array([1, 1, 0], dtype=np.int32)),
+    ],
+)
+def test_text_column_equals_the_series_take(texts, pick):
+    """The same array, type and values as the Series' take it replaces."""
+    want = pd.Series(np.asarray(texts, dtype=object)).take(np.asarray(pick, dtype=np.intp)).array
+    got = results.text_column(pick, texts)
+    assert type(got) is type(want) and got.dtype == want.dtype
+    assert pd.Series(got).equals(pd.Series(want)) and len(got) == len(pick)
