@@ -10,7 +10,7 @@ import pandas as pd
 import pytest
 
 from xlcore import geometry, pipeline, results
-from xlcore.checks import detailing, lintels, pier_rows, records, same_keys, section14, shear
+from xlcore.checks import detailing, lintels, per_pier, pier_rows, records, same_keys, section14, shear
 from xlcore.codes import get_standard
 from xlcore.distribution import rows_of
 from xlcore.mechanics import stiffness
@@ -516,3 +516,28 @@ def test_text_column_equals_the_series_take(texts, pick):
     got = results.text_column(pick, texts)
     assert type(got) is type(want) and got.dtype == want.dtype
     assert pd.Series(got).equals(pd.Series(want)) and len(got) == len(pick)
+
+
+# ---- per_pier: text keys factorised on their plain arrays
+
+
+@pytest.mark.parametrize("kind", ["str", "object", "int", "category"])
+def test_per_pier_on_plain_text_equals_on_the_columns(kind, monkeypatch):
+    """Storeys and pier IDs as text columns (with a missing pier ID), objects, integers and
+    categories: the same groups and first rows as factorising the columns themselves."""
+    import xlcore.checks as checks
+
+    rng = np.random.default_rng(10)
+    storey = rng.choice(["L1", "L2", "L10"], 400)
+    pier = rng.choice(["W1-1", "W1-2", "W2", "W10"], 400).astype(object)
+    pier[[5, 77]] = None
+    if kind == "int":
+        storey, pier = rng.integers(0, 3, 400), rng.integers(0, 6, 400)
+    df = pd.DataFrame({"storey": storey, "pier_id": pier})
+    if kind in ("str", "category", "object"):
+        df = df.astype({"storey": kind, "pier_id": kind})
+    got = per_pier(df)
+    monkeypatch.setattr(checks, "_plain_text", lambda column: column)  # the columns themselves
+    want = per_pier(df)
+    assert all(np.array_equal(g, w) for g, w in zip(got, want, strict=True))
+    assert len(got[0]) > 3
