@@ -199,6 +199,9 @@ def derive(
         standing.setdefault(i, set()).add(w)
     natural: dict[str, tuple] = {}  # each wall ID's sort key, made once (not per storey)
     per_run: dict[int, tuple] = {}  # each walls-sheet row's own numbers, worked out once
+    # each walls-sheet row with the same openings (storeys alike) cuts into the same piers and
+    # lintels: their columns but the storey's worked out once per distinct pair, by identity
+    cut: dict[tuple, tuple] = {}
     for s in storeys:
         here_ids = standing.get(s.index, ())
         for wall_id in here_ids:
@@ -209,76 +212,21 @@ def derive(
         for wall_id in wall_ids:
             w = runs[(s.index, wall_id)]
             here = cuts.get((s.index, wall_id), [])
-            own = per_run.get(id(w))
-            if own is None:
-                own = per_run[id(w)] = _run_numbers(w)
-            length, head, tail = own
-            strip = max((o.head - o.sill for o in here), default=float("nan")) * 1000.0
-            common = (*head, strip, *tail)
-            if not here:
+            key = (id(w), *map(id, here))
+            parts = cut.get(key)
+            if parts is None:
+                own = per_run.get(id(w))
+                if own is None:
+                    own = per_run[id(w)] = _run_numbers(w)
+                parts = cut[key] = _cut(wall_id, w, here, own)
+            piers_here, lintels_here = parts
+            for k, pier_id, a, b, lw, h_open, common, ea, eb in piers_here:
                 pier_rows.append(
-                    (
-                        s.name,
-                        s.index,
-                        wall_id,
-                        wall_id,
-                        0,
-                        0.0,
-                        length,
-                        length * 1000.0,
-                        w.thickness,
-                        hc,
-                        float("nan"),
-                        *common,
-                        "start",
-                        "end",
-                    )
+                    (s.name, s.index, wall_id, pier_id, k, a, b, lw, w.thickness, hc, h_open, *common, ea, eb)
                 )
-                continue
-            for k, (a, b, h_open) in enumerate(segments(length, here), start=1):
-                pier_rows.append(
-                    (
-                        s.name,
-                        s.index,
-                        wall_id,
-                        f"{wall_id}-{k}",
-                        k,
-                        a,
-                        b,
-                        (b - a) * 1000.0,
-                        w.thickness,
-                        hc,
-                        h_open * 1000.0,
-                        *common,
-                        *_edges(length, here, a, b),
-                    )
-                )
-            for k, o in enumerate(here, start=1):
+            for lintel_id, o, rest in lintels_here:
                 depth = (s.height - o.head) * 1000.0  # head of opening to top of the slab above
-                lintel_rows.append(
-                    (
-                        s.name,
-                        s.index,
-                        wall_id,
-                        f"{wall_id}-L{k}",
-                        o.width,
-                        depth,
-                        w.thickness,
-                        o.head,
-                        o.label or "",
-                        w.cover,
-                        w.fc,
-                        w.fsy,
-                        _nan(o.lintel_bars),
-                        _nan(o.lintel_dia),
-                        _nan(o.stirrup_dia),
-                        _nan(o.stirrup_legs),
-                        _nan(o.stirrup_spacing),
-                        _nan(o.diag_bars),
-                        _nan(o.diag_dia),
-                        o.offset,
-                    )
-                )
+                lintel_rows.append((s.name, s.index, wall_id, lintel_id, o.width, depth, *rest))
     piers = pd.DataFrame(pier_rows, columns=PIER_COLUMNS)
     piers = with_zones(piers, zones_at(list(end_zones), storeys))
     # plan end points and mid-point of each pier's centreline [m]
@@ -292,6 +240,46 @@ def derive(
         piers=piers,
         lintels=pd.DataFrame(lintel_rows, columns=LINTEL_COLUMNS),
     )
+
+
+def _cut(wall_id: str, w: WallRun, here: list[Opening], own: tuple) -> tuple[list, list]:
+    """A walls-sheet row `w` cut by its openings `here` (sorted along the wall): per pier its
+    number, ID, ends [m], length [mm], neighbouring opening height [mm], the columns every pier
+    of the row shares (`_run_numbers`) with the opening strip, and its free edges; per lintel its
+    ID, opening and the columns after the depth. The same at every storey with these openings."""
+    length, head, tail = own
+    strip = max((o.head - o.sill for o in here), default=float("nan")) * 1000.0
+    common = (*head, strip, *tail)
+    if not here:
+        return [(0, wall_id, 0.0, length, length * 1000.0, float("nan"), common, "start", "end")], []
+    piers = [
+        (k, f"{wall_id}-{k}", a, b, (b - a) * 1000.0, h_open * 1000.0, common, *_edges(length, here, a, b))
+        for k, (a, b, h_open) in enumerate(segments(length, here), start=1)
+    ]
+    lintels = [
+        (
+            f"{wall_id}-L{k}",
+            o,
+            (
+                w.thickness,
+                o.head,
+                o.label or "",
+                w.cover,
+                w.fc,
+                w.fsy,
+                _nan(o.lintel_bars),
+                _nan(o.lintel_dia),
+                _nan(o.stirrup_dia),
+                _nan(o.stirrup_legs),
+                _nan(o.stirrup_spacing),
+                _nan(o.diag_bars),
+                _nan(o.diag_dia),
+                o.offset,
+            ),
+        )
+        for k, o in enumerate(here, start=1)
+    ]
+    return piers, lintels
 
 
 def _run_numbers(w: WallRun) -> tuple[float, tuple, tuple]:

@@ -14,7 +14,7 @@ import numpy as np
 import pandas as pd
 
 from xlcore import comparison, cores, distribution, geometry, results
-from xlcore.checks import core_stress, plain
+from xlcore.checks import core_stress, pier_rows, plain
 from xlcore.checks.advice import advise
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
@@ -140,18 +140,20 @@ def compute(
     elif core is not None:
         core = core_working(core)
     with t.phase("checks", "shear, axial + bending, detailing, lintels", total=len(acts)):
+        # each action row's pier, matched once for shear, detailing and Section 14
+        pier_of = pier_rows(acts.storey, acts.pier_id, piers.storey, piers.pier_id)
         if defer(len(acts)):  # numbers now, working text for the rows written (select_detail)
             acts_i = acts.assign(_act=np.arange(len(acts)))
-            shear = check_pier_shear(piers, acts_i, s, text=False)
+            shear = check_pier_shear(piers, acts_i, s, text=False, pier_of=pier_of)
             axial = check_pier_axial(piers, acts_i, s, text=False)
             rework[results.SHEAR_SHEET] = _rework_rows(lambda a: check_pier_shear(piers, a, s), acts_i)
             rework[results.AXIAL_SHEET] = _rework_rows(lambda a: check_pier_axial(piers, a, s), acts_i)
         else:
-            shear = check_pier_shear(piers, acts, s)
+            shear = check_pier_shear(piers, acts, s, pier_of=pier_of)
             axial = check_pier_axial(piers, acts, s)
         hwe = _first_per_pier(axial, "hwe") if len(axial) else None
-        detailing = check_detailing(piers, acts, s, hwe, shear=shear)
-        section14 = check_section14(piers, acts, s, hwe)
+        detailing = check_detailing(piers, acts, s, hwe, shear=shear, pier_of=pier_of)
+        section14 = check_section14(piers, acts, s, hwe, pier_of=pier_of)
         cand = candidates(shear, axial, detailing, section14)  # once for both tables below
         rules = get_standard(s.standard).symbols["earthquake_rules"]
         summary = envelope(shear, piers, axial, detailing, section14, rules, cand=cand)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import collections
+
 import numpy as np
 import pandas as pd
 
@@ -11,8 +13,8 @@ def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     so what depends on the pier alone is worked out once per pier and spread to its rows."""
     # integer codes of the two columns, not joined text (a Python string per row: 0.14 s of
     # the L tower's 360 000 rows, against 0.03 s); each row's first row of its pier is the same
-    storey, storeys = pd.factorize(df.storey)
-    pier, piers = pd.factorize(df.pier_id)
+    storey, storeys = pd.factorize(_plain_text(df.storey))
+    pier, piers = pd.factorize(_plain_text(df.pier_id))
     n_piers = len(piers)
     if (pier < 0).any():  # a blank pier ID: a code of its own, not the storey below's last pier
         pier = np.where(pier < 0, n_piers, pier)
@@ -33,22 +35,52 @@ def per_pier(df: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     return first, of
 
 
+def _plain_text(column: pd.Series):
+    """A text column as its plain array of Python strings (factorised in two thirds of the time
+    of the text column itself: the same codes); any other column as it is."""
+    if column.dtype == object or isinstance(column.dtype, pd.StringDtype):
+        return column.to_numpy(dtype=object)
+    return column
+
+
 def pier_rows(a_storey, a_pier, t_storey, t_pier) -> np.ndarray | None:
     """Each pair (storey, pier)'s row in a table of pairs, -1 where it has none; None where the
     table's pairs are not unique or one is blank: `distribution.rows_of`, the same answer. Where
     the table's pier IDs are integers, each once (the advice search's variant numbers), a pier
     is looked up by its number alone and the storey compared (a third of the time: no text
-    keys factorised), else `rows_of`."""
+    keys factorised; storeys coded as integers, the search's, compared as integers), else
+    `rows_of`."""
     from xlcore.distribution import rows_of
 
     tp, ap = np.asarray(t_pier), np.asarray(a_pier)
     if tp.dtype.kind in "iu" and ap.dtype.kind in "iu" and len(tp) and len(ap):
         at = _by_number(ap, tp)
-        ts, as_ = np.asarray(t_storey, dtype=object), np.asarray(a_storey, dtype=object)
+        ts, as_ = np.asarray(t_storey), np.asarray(a_storey)
+        if at is not None and ts.dtype.kind in "iu" and as_.dtype.kind in "iu":  # coded storeys
+            return np.where((at >= 0) & (ts[np.maximum(at, 0)] == as_), at, -1)
+        ts, as_ = ts.astype(object), as_.astype(object)
         if at is not None and not pd.isna(ts).any() and not pd.isna(as_).any():  # pd.NA: no == answer
             same = ts[np.maximum(at, 0)] == as_
             return np.where((at >= 0) & same, at, -1)
     return rows_of(a_storey, a_pier, t_storey, t_pier)
+
+
+def same_keys(a_storey, a_pier, b_storey, b_pier) -> bool:
+    """Whether two tables' (storey, pier) columns are the same arrays in memory (the same data,
+    strides and length: equal now, row for row), so that their rows' piers are one answer of
+    `pier_rows` (the shear table of the actions it was made from: one match of 360 000 text
+    keys, not two). False where that is not so plainly so (then each table is matched)."""
+
+    def same(x, y) -> bool:
+        u, v = np.asarray(x), np.asarray(y)
+        return (
+            u.dtype == v.dtype
+            and u.shape == v.shape
+            and u.strides == v.strides
+            and u.__array_interface__["data"][0] == v.__array_interface__["data"][0]
+        )
+
+    return same(a_storey, b_storey) and same(a_pier, b_pier)
 
 
 def _by_number(numbers: np.ndarray, table: np.ndarray) -> np.ndarray | None:
@@ -101,6 +133,15 @@ def plain(*columns) -> list[list]:
     """Columns as lists of Python numbers: formatting those into working text is several times
     faster than formatting numpy scalars (what iterating an array or a Series yields)."""
     return [np.asarray(c).tolist() for c in columns]
+
+
+def records(df: pd.DataFrame):
+    """`df.itertuples(index=False)`'s rows (named tuples of the columns' Python values), made
+    from each column's values taken at once: iterating a text column item by item through
+    pandas cost most of the lintels' working text."""
+    row = collections.namedtuple("Pandas", [str(c) for c in df.columns], rename=True)
+    columns = [df.iloc[:, k].to_numpy().tolist() for k in range(df.shape[1])]
+    return map(row._make, zip(*columns, strict=True))
 
 
 def once_per(df: pd.DataFrame, keys: list, make) -> np.ndarray:
@@ -213,8 +254,13 @@ def finish_rules(
     if not working:
         return out[out.status.isin((PASS, FAIL))][["pier_id", "util"]].reset_index(drop=True)
     out["clause"] = out.rule.map(clauses)
-    pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
-    out["_pier"] = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    # each row's pier's place in p by integer codes of the keys (`pier_rows`); the join on the
+    # two text keys where that does not answer for every row
+    at = pier_rows(out.storey, out.pier_id, p.storey, p.pier_id)
+    if at is None or (at < 0).any():
+        pier_pos = pd.Series(np.arange(len(p)), index=pd.MultiIndex.from_frame(p[["storey", "pier_id"]]))
+        at = pier_pos.reindex(pd.MultiIndex.from_frame(out[["storey", "pier_id"]])).to_numpy()
+    out["_pier"] = at
     out["_rule"] = out.rule.map(pd.Series(range(len(rules)), index=rules))
     keys = ["storey_index", "_pier", "_rule"]
     if every is not None:

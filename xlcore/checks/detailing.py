@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore.checks import group_first, group_max, pier_rows, plain
+from xlcore.checks import group_first, group_max, pier_rows, plain, same_keys
 from xlcore.codes import get_standard
 from xlcore.codes.base import Standard, words_once
 from xlcore.model import Settings
@@ -37,6 +37,7 @@ def check_detailing(
     *,
     std: Standard | None = None,
     shear: pd.DataFrame | None = None,
+    pier_of: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """One row per storey x pier x rule. `hwe` [mm] per (storey, pier) for the one-layer limit
     (from the Cl 11.4 effective height of the axial check); storey clear height otherwise.
@@ -45,9 +46,10 @@ def check_detailing(
     `shear`: the shear table (storey, pier_id, v [kN], hw_lw) of these piers and actions, read
     where the standard's minima and spacing depend on V* (`std.detailing_needs_shear`): per
     pier the largest |V*| over the combinations and the shear check's Hw/Lw. Not given, the
-    shear check is run here on `actions` (numbers only)."""
+    shear check is run here on `actions` (numbers only). `pier_of`: each action row's row in
+    `piers` as `checks.pier_rows` gives it, where the caller has it; None: matched here."""
     std = (std or get_standard(settings.standard)).configure(settings)
-    p = _inputs_by_position(piers, actions, settings, hwe, std, shear)
+    p = _inputs_by_position(piers, actions, settings, hwe, std, shear, pier_of)
     if p is None:  # a key blank or not unique: the joins decide
         p = _inputs_by_merge(piers, actions, settings, hwe, std, shear)
     restrained = settings.shrinkage_restrained == "yes"
@@ -248,13 +250,16 @@ def _inputs_by_position(
     hwe: pd.Series | None,
     std: Standard,
     shear: pd.DataFrame | None,
+    pier_of: np.ndarray | None = None,
 ) -> pd.DataFrame | None:
     """`_inputs_by_merge`'s table where each pier is one row of `piers` (and of `hwe`): the
     action and shear rows found by position (`pier_rows`), their per-pier maxima and firsts by
     group (`group_max`, `group_first`: the values the group-bys give), no join of the action
     rows' text keys. None where a key is blank or a pier not unique (the joins then decide)."""
     n = len(piers)
-    at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+    at = pier_of
+    if at is None:
+        at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
     if at is None:
         return None
     if hwe is not None:
@@ -281,7 +286,8 @@ def _inputs_by_position(
         return piers.assign(**cols, v_star=np.nan, hw_lw=np.nan)
     if shear is None:  # the shear check run here (and joined)
         return _with_shear(piers.assign(**cols), actions, settings, std, shear)
-    at = pier_rows(shear.storey, shear.pier_id, piers.storey, piers.pier_id)
+    if not same_keys(shear.storey, shear.pier_id, actions.storey, actions.pier_id):
+        at = pier_rows(shear.storey, shear.pier_id, piers.storey, piers.pier_id)
     if at is None:
         return None
     found = at >= 0

@@ -85,6 +85,7 @@ def check_section14(
     working: bool = True,
     *,
     std: Standard | None = None,
+    pier_of: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """One row per storey x pier x applicable rule (empty where Section 14 does not apply:
     `not_applicable_reason`). `hwe` [mm] per (storey, pier) from the Cl 11.4 effective height of
@@ -93,7 +94,8 @@ def check_section14(
 
     The earthquake wall rules of the Project's standard: under ACI 318-19 the special
     structural wall rules of Chapter 18 (`special_walls.check_special_walls`), so the pipeline
-    and the advice search reach either through this one call."""
+    and the advice search reach either through this one call. `pier_of`: each action row's row
+    in `piers` as `checks.pier_rows` gives it, where the caller has it; None: matched here."""
     std = (std or get_standard(settings.standard)).configure(settings)
     if special_walls.applies(settings, std):
         return special_walls.check_special_walls(piers, actions, settings, hwe, working, std=std)
@@ -188,7 +190,8 @@ def check_section14(
     if working or not np.isnan(_end_bars(p)).all():
         # without working only pass / FAIL rows count: end zones give those only where their
         # bars are described (the trigger is never a failure)
-        _end_zones(p, actions, settings, rule, std)
+        # the caller's match holds for p where p is the pier table's rows (one hwe each)
+        _end_zones(p, actions, settings, rule, std, pier_of if len(p) == len(piers) else None)
     if not working:
         return _pass_fail_rows(p, parts)
     frames = [
@@ -234,7 +237,9 @@ def _pass_fail_rows(p: pd.DataFrame, parts: list[tuple]) -> pd.DataFrame:
     return out[keep][["pier_id", "util"]].reset_index(drop=True)
 
 
-def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule, std: Standard) -> None:
+def _end_zones(
+    p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule, std: Standard, pier_of=None
+) -> None:
     """The end-zone trigger under the earthquake combinations and, where exceeded, the ties."""
     quake = settings.earthquake
     ratio = compression_flag_ratio(settings.compression_limit, std)
@@ -254,7 +259,7 @@ def _end_zones(p: pd.DataFrame, actions: pd.DataFrame, settings: Settings, rule,
             "n/a: the 0.15 f'c trigger applies under earthquake combinations only and none is named",
         )
         return
-    w = _worst_by_position(p, actions, quake)
+    w = _worst_by_position(p, actions, quake, pier_of)
     if w is None:  # a key blank or not unique, or a pier's stresses all NaN: the joins decide
         w = _worst_by_merge(p, actions, quake)
     has = w.smax.notna().to_numpy()
@@ -357,13 +362,16 @@ def _worst_by_merge(p: pd.DataFrame, actions: pd.DataFrame, quake) -> pd.DataFra
     )
 
 
-def _worst_by_position(p: pd.DataFrame, actions: pd.DataFrame, quake) -> pd.DataFrame | None:
+def _worst_by_position(
+    p: pd.DataFrame, actions: pd.DataFrame, quake, pier_of: np.ndarray | None = None
+) -> pd.DataFrame | None:
     """`_worst_by_merge`'s rows (the columns the trigger reads: combination, n, m, smax, smin)
     with the action rows found by position (`pier_rows`) and each pier's first largest stress
     by group (`group_max`: what `idxmax` picks), no join of the action rows' text keys. None
     where a key is blank or a pier not unique, or where a pier's stresses are all NaN (idxmax
-    refuses that group: the joins say so)."""
-    at = pier_rows(actions.storey, actions.pier_id, p.storey, p.pier_id)
+    refuses that group: the joins say so). `pier_of`: `pier_rows`' answer for these tables
+    where the caller has it."""
+    at = pier_of if pier_of is not None else pier_rows(actions.storey, actions.pier_id, p.storey, p.pier_id)
     if at is None:
         return None
     rows = np.flatnonzero(actions.combination.astype(str).isin(quake).to_numpy() & (at >= 0))

@@ -11,7 +11,7 @@ import pandas as pd
 
 from xlcore.checks import per_pier, pier_rows, plain
 from xlcore.codes import get_standard
-from xlcore.codes.base import Standard
+from xlcore.codes.base import ShearCapacity, Standard
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column, utilisation
 
@@ -28,6 +28,7 @@ def check_pier_shear(
     text: bool = True,
     *,
     std: Standard | None = None,
+    pier_of: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """Shear table: one row per storey x pier x combination, forces in kN.
 
@@ -36,7 +37,9 @@ def check_pier_shear(
     every column but the working text (f_vuc, f_vu, f_util), which the same call on the rows
     written makes later (`compute --detail`: most rows of a tall tower are not written).
     Column keys keep their first (AS 3600) names, e.g. `vuc` the concrete part; the headers
-    (results.py) are neutral.
+    (results.py) are neutral. `pier_of`: each action row's row in `piers` as
+    `checks.pier_rows` gives it, where the caller has it (the pipeline matches the action rows
+    once for shear, detailing and Section 14); None: matched here.
     """
     std = (std or get_standard(settings.standard)).configure(settings)
     geo = [
@@ -53,62 +56,70 @@ def check_pier_shear(
         "rho_h",
         "rho_v",
     ]
-    df, at = _with_piers(actions, piers, geo)
+    df, at = _with_piers(actions, piers, geo, pier_of)
+    # what depends on the pier alone (Hw, Hw/Lw, the capacity and its parts) is worked out once
+    # per pier and gathered to the rows (`at`: each row's pier; element by element the same
+    # arithmetic, so the same bits); per row where the merge decided (`at` None)
+    own = df if at is None else piers
+    spread = (lambda v: v) if at is None else (lambda v: v[at])  # noqa: E731
     basis = settings.shear_height
     if basis == HEIGHT_OVERALL:
-        hw, h_whole = df.H_wall.to_numpy(), df.H_wall
+        hw, h_whole = own.H_wall.to_numpy(), own.H_wall
     else:
         use_opening = basis == HEIGHT_OPENING
-        hw, h_whole = np.where(use_opening & df.Ho.notna(), df.Ho, df.Hc), df.Hc
+        hw, h_whole = np.where(use_opening & own.Ho.notna(), own.Ho, own.Hc), own.Hc
     if at is not None:  # > 0: a pier beside an opening
-        beside = piers.position.to_numpy()[at] > 0
+        beside = piers.position.to_numpy() > 0
     else:
         place = piers.set_index(["storey", "pier_id"]).position
         beside = place.reindex(pd.MultiIndex.from_frame(df[["storey", "pier_id"]])).to_numpy() > 0
-    ratio, wall_governs = std.wall_aspect_ratio(hw, df.Lw, h_whole, df.wall_length * 1000.0, beside)
+    ratio, wall_governs = std.wall_aspect_ratio(hw, own.Lw, h_whole, own.wall_length * 1000.0, beside)
     # the result columns, in the order they are written, joined to the action rows at once (a
     # column insert each copied every column of 360 000 rows at L)
-    new: dict[str, object] = {"Hw": hw, "hw_lw": ratio}
+    new: dict[str, object] = {"Hw": spread(np.asarray(hw)), "hw_lw": spread(np.asarray(ratio))}
     if working:  # text on every row: not for the advice search's variants (10 % of its time)
         args = (
             np.asarray(hw, float),
-            df.Lw.to_numpy(float),
+            own.Lw.to_numpy(float),
             np.asarray(h_whole, float),
-            df.wall_length.to_numpy(float) * 1000.0,
+            own.wall_length.to_numpy(float) * 1000.0,
             beside,
             np.asarray(wall_governs),
         )
         new["hw_basis"] = _hw_basis(basis, args, at, len(piers))
     phi = settings.phi_shear if settings.phi_shear is not None else std.phi_wall_shear
-    r = std.wall_shear(df.fc, df.fsy, df.Lw, df.tw, ratio, df.rho_h, df.rho_v, phi)
+    r = std.wall_shear(own.fc, own.fsy, own.Lw, own.tw, ratio, own.rho_h, own.rho_v, phi)
     kn = 1e-3
     # the standard's own intermediate terms (AS 3600: Eq (1), Eq (2), the floor; ACI 318:
     # alpha_c), NaN where a standard has no such term, so every standard fills the same columns
     for key in DETAIL_COLUMNS:
         v = r.detail.get(key)
-        new[key] = np.nan if v is None else v * (kn if key in ("eq1", "eq2", "floor") else 1.0)
+        new[key] = np.nan if v is None else spread(v * (kn if key in ("eq1", "eq2", "floor") else 1.0))
     new["eq2"] = _finite_or_nan(new["eq2"], len(df))  # AS Eq (2) applies only where Hw/Lw > 1
     for key, v in (("vuc", r.concrete), ("vus", r.steel), ("vu_max", r.limit), ("phi_vu", r.design)):
-        new[key] = v * kn
-    new["rho_w"] = r.detail.get("rho_w", df.rho_h.to_numpy(float))
-    new["phi"] = r.phi
+        new[key] = spread(v * kn)
+    new["rho_w"] = spread(np.asarray(r.detail.get("rho_w", own.rho_h.to_numpy(float))))
+    new["phi"] = phi_rows = spread(np.asarray(r.phi))
     k = df.k * 1e-3  # N/mm -> kN/mm
     new["util"] = util = utilisation(df.v, new["phi_vu"])
     new["status"] = status_column(util)
-    new["clause"] = _clauses(r)
+    new["clause"] = _clauses(r, at)
+    cap = r if at is None else _RowsOf(r, at)  # the capacity read by action row
     if working:
-        rho_req, capped = std.wall_steel_required(df.v * 1e3, r.phi, df.fc, df.fsy, df.Lw, df.tw, ratio)
+        rho_req, capped = std.wall_steel_required(
+            df.v * 1e3, phi_rows, df.fc, df.fsy, df.Lw, df.tw, new["hw_lw"]
+        )
         new["rho_req"] = rho_req
-        new["advice"] = _advice(std, util, rho_req, capped, np.asarray(ratio, dtype=float), r)
+        new["advice"] = _advice(std, util, rho_req, capped, np.asarray(new["hw_lw"], dtype=float), cap)
     df = _joined(df.assign(k=k), new)
     if not working:
         return df
     if text:
         # capacity working depends on the pier's numbers alone: written once per distinct set
         # of them (piers alike over many storeys share it), then spread
-        first, of = _text_rows(df, r)
+        first, of = _text_rows(df, cap)
         once = df.iloc[first]
-        f_vuc, f_vu = std.wall_shear_text(r.take(first), once.fc, once.fsy, once.Lw, once.tw, once.hw_lw)
+        f_vuc, f_vu = std.wall_shear_text(cap.take(first), once.fc, once.fsy, once.Lw, once.tw, once.hw_lw)
         df["f_vuc"] = np.asarray(f_vuc, dtype=object)[of]
         df["f_vu"] = np.asarray(f_vu, dtype=object)[of]
         design = std.symbols["shear_design"]
@@ -121,6 +132,17 @@ def check_pier_shear(
     if _in_order(df, order):  # the sharing gives them so: the same rows as the stable sort
         return df.reset_index(drop=True)
     return df.sort_values(order, kind="stable").reset_index(drop=True)
+
+
+class _RowsOf:
+    """A capacity worked out per pier, read by action row (`at`: each row's pier): `take(rows)`
+    gives those rows' quantities, as the capacity worked out on every row gave them."""
+
+    def __init__(self, per_pier: ShearCapacity, at: np.ndarray) -> None:
+        self.per_pier, self.at = per_pier, at
+
+    def take(self, rows) -> ShearCapacity:
+        return self.per_pier.take(self.at[rows])
 
 
 def _finite_or_nan(values, n: int):
@@ -174,37 +196,40 @@ def _hw_basis(
     """`_basis_text` of every row as a text column, written once per distinct set of its
     numbers: a pier's, the same on all its combinations. With `at` (each row's pier) the
     distinct sets are found among one row of each pier instead of among every row; the column
-    is taken from the few words (`text_column`), not made from a list of every row's."""
+    is taken from the few words (`text_column`), not made from a list of every row's. With
+    `at` the `args` are per pier (row i reads pier at[i]'s), else per row."""
     if at is None:
         rows, slot = np.arange(len(args[0])), np.arange(len(args[0]))
     else:
-        rows, slot = _one_row_per_pier(at, n_piers)
+        rows, slot = _piers_with_rows(at, n_piers)
     first, of = _distinct([a[rows] for a in args])
     words = _basis_text(basis, *(a[rows[first]] for a in args))
     return text_column(of[slot], words)
 
 
-def _one_row_per_pier(at: np.ndarray, n_piers: int) -> tuple[np.ndarray, np.ndarray]:
-    """A row of each pier that has rows (`at`: each row's pier) and each row's index among
-    them. Which row stands for a pier does not matter to what reads its pier's values."""
-    row_of = np.full(n_piers, -1, dtype=np.intp)
-    row_of[at] = np.arange(len(at))
-    has = row_of >= 0
+def _piers_with_rows(at: np.ndarray, n_piers: int) -> tuple[np.ndarray, np.ndarray]:
+    """The piers that have rows (`at`: each row's pier), in pier order, and each row's index
+    among them."""
+    has = np.zeros(n_piers, dtype=bool)
+    has[at] = True
     slot = np.cumsum(has) - 1
-    return row_of[has], slot[at]
+    return np.flatnonzero(has), slot[at]
 
 
 def _with_piers(
-    actions: pd.DataFrame, piers: pd.DataFrame, geo: list[str]
+    actions: pd.DataFrame, piers: pd.DataFrame, geo: list[str], pier_of: np.ndarray | None = None
 ) -> tuple[pd.DataFrame, np.ndarray | None]:
     """The action rows with their pier's `geo` columns, as a left merge on storey x pier_id
     would give them, and each row's pier row (None where the merge itself was used). Where
     every action row finds exactly one pier and no column name is shared, the pier columns are
-    gathered by position (integer codes of the two keys; no merge of 360 000 rows of text)."""
+    gathered by position (integer codes of the two keys; no merge of 360 000 rows of text).
+    `pier_of`: `pier_rows`' answer for these tables where the caller has it."""
     keys = ["storey", "pier_id"]
     at = None
     if not (set(actions.columns) & set(geo)) - set(keys):
-        at = pier_rows(actions.storey, actions.pier_id, piers.storey, piers.pier_id)
+        at = pier_of if pier_of is not None else pier_rows(
+            actions.storey, actions.pier_id, piers.storey, piers.pier_id
+        )
         if at is not None and (at < 0).any():
             at = None
     if at is None:
@@ -213,12 +238,13 @@ def _with_piers(
     return _joined(df, {c: piers[c].to_numpy()[at] for c in geo if c not in keys}), at
 
 
-def _clauses(r) -> pd.api.extensions.ExtensionArray:
+def _clauses(r, at: np.ndarray | None = None) -> pd.api.extensions.ExtensionArray:
     """`r.clauses()` (the governing clause of every row) looked up once per distinct code
-    (codes by hashing, not sorting 360 000 rows)."""
+    (codes by hashing, not sorting 360 000 rows); with `at`, `r` is per pier and row i takes
+    pier at[i]'s clause."""
     of, codes = pd.factorize(np.ravel(r.governs), use_na_sentinel=False)
     text = dataclasses.replace(r, governs=np.asarray(codes)).clauses()
-    return text_column(of, text)
+    return text_column(of if at is None else of[at], text)
 
 
 def _advice(std: Standard, util: np.ndarray, rho_req, capped, hw_lw: np.ndarray, cap) -> np.ndarray:

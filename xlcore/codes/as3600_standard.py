@@ -293,21 +293,20 @@ class AS3600:
         return "Cl 11.7 " + rule
 
     def limit_text(self, key, **values):
+        # numbers as Python floats (formatting numpy scalars is twice the time); the words that
+        # read few distinct values (wall length, thickness, bar) made once per distinct value
         v = {k: np.atleast_1d(np.asarray(x)) for k, x in values.items()}
         if key == "rho_v_min":
             return [
                 f"N*/(Lw tw) = {s:.2f} MPa {'<=' if s <= 0.03 * fc else '>'} 0.03 f'c"
-                for s, fc in zip(*np.broadcast_arrays(v["sigma"], v["fc"]), strict=True)
+                for s, fc in zip(*(a.tolist() for a in np.broadcast_arrays(v["sigma"], v["fc"])), strict=True)
             ]
         if key == "rho_h_min":
-            r, L = np.broadcast_arrays(v["restrained"], v["wall_length"])
-            return [
-                f"{'restrained' if x else 'unrestrained'}, wall {n:.2f} m" for x, n in zip(r, L, strict=True)
-            ]
+            return words_once(_shrinkage_words, *np.broadcast_arrays(v["restrained"], v["wall_length"]))
         if key in ("spacing_v", "spacing_h"):
-            return [f"min(2.5 x {t:.0f}, 350)" for t in v["tw"]]
+            return words_once(lambda tw: [f"min(2.5 x {t:.0f}, 350)" for t in tw.tolist()], v["tw"])
         if key == "clear_gap":
-            return [f"3 x {d:.0f}" for d in v["db"]]
+            return words_once(lambda db: [f"3 x {d:.0f}" for d in db.tolist()], v["db"])
         if key == "layers":
             return ["from memory: verify"] * len(v["tw"])
         raise KeyError(key)
@@ -361,6 +360,14 @@ class AS3600:
 
 
 STANDARD = AS3600()
+
+
+def _shrinkage_words(restrained, wall_length) -> list[str]:
+    """The horizontal minimum's basis in words, per row: restraint and wall length [m]."""
+    return [
+        f"{'restrained' if x else 'unrestrained'}, wall {n:.2f} m"
+        for x, n in zip(restrained.tolist(), wall_length.tolist(), strict=True)
+    ]
 
 
 def _shear_advice_words(fails, capped, steep_ratio, rho_req, rho_w) -> list[str]:

@@ -575,7 +575,23 @@ def first_max(u: np.ndarray, g: np.ndarray) -> np.ndarray:
     hit = np.flatnonzero(u == top[g])  # every row equal to its group's largest
     first = np.full(size, len(u), dtype=np.int64)
     np.minimum.at(first, g[hit], hit)
-    return first[pd.unique(g)]
+    return first[appearance_order(g)]
+
+
+def appearance_order(g: np.ndarray) -> np.ndarray:
+    """The distinct codes of `g` (non-negative integers) in order of first appearance:
+    `pd.unique(g)`. Where each new code is larger than every code before it (a code table's
+    own numbering, `pd.factorize`'s: the checks' tables) they are the rows where the running
+    largest code rises, found without hashing; otherwise `pd.unique`."""
+    if not len(g):
+        return pd.unique(g)
+    top = np.maximum.accumulate(g)
+    rises = np.flatnonzero(top[1:] > top[:-1]) + 1
+    present = np.zeros(int(top[-1]) + 1, dtype=bool)
+    present[g] = True
+    if len(rises) + 1 == np.count_nonzero(present):
+        return np.concatenate((g[:1], g[rises]))
+    return pd.unique(g)
 
 
 def failing_rows(table: pd.DataFrame, rule: Governing) -> np.ndarray:
@@ -616,8 +632,16 @@ def utilisation(demand, capacity) -> np.ndarray:
     """|demand| / capacity; inf where capacity is zero and there is demand."""
     d = np.abs(np.asarray(demand, dtype=float))
     c = np.asarray(capacity, dtype=float)
+    if d.ndim != 1 or c.shape != d.shape:  # scalars and broadcasts: the formula as it stands
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return np.where(c > 0, d / np.where(c > 0, c, 1.0), np.where(d > 0, np.inf, 0.0))
+    # rows: d / c where the capacity is positive (most rows), the rest set apart (the same
+    # numbers as the formula, without its four temporary arrays of every row)
     with np.errstate(divide="ignore", invalid="ignore"):
-        u = np.where(c > 0, d / np.where(c > 0, c, 1.0), np.where(d > 0, np.inf, 0.0))
+        u = d / c
+    off = ~(c > 0)
+    if off.any():
+        u[off] = np.where(d[off] > 0, np.inf, 0.0)
     return u
 
 
@@ -629,8 +653,10 @@ def text_column(pick, texts) -> pd.api.extensions.ExtensionArray:
     """`texts[pick]` as a text column, of the type pandas gives a column of those strings: a
     take from the few distinct strings. A numpy string array (what `np.where` on strings gives)
     becomes a column by one Python string per row: 0.1 s per 360 000 rows."""
-    choices = pd.Series(np.asarray(texts, dtype=object))
-    return choices.take(np.asarray(pick, dtype=np.intp)).array
+    # the column type pandas gives those strings (a Series of them), then a take of its array
+    # alone: the Series' own take made an index of every row as well (half the time)
+    choices = pd.Series(np.asarray(texts, dtype=object)).array
+    return choices.take(np.asarray(pick, dtype=np.intp))
 
 
 def status_column(util) -> pd.api.extensions.ExtensionArray:
