@@ -29,6 +29,7 @@ eccentricity apart, which increases each core's force by design).
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
@@ -240,16 +241,17 @@ def core_actions_to_piers(
     """Every core's actions (`share_among_cores(...).actions`) shared to its own walls and piers
     (`distribution.core_actions_to_piers` over that core's section alone); tables with a `core`
     column. Without `text` the piers' `source` is blank (`distribution.core_source_of`)."""
-    pier_parts, wall_parts = [], []
+    pier_parts, wall_parts, layouts = [], [], []
     for core, rows in actions.groupby("core", sort=False):
         out = distribution.core_actions_to_piers(
             piers[piers.core == core], walls[walls.core == core], plans[core], rows, 0.0, local_moment, text
         )
         pier_parts.append(out.piers.assign(core=core))
         wall_parts.append(out.walls.assign(core=core))
+        layouts += [dataclasses.replace(lay, core=core) for lay in out.layouts]
     cols = distribution.ACTION_COLUMNS + distribution.CORE_PIER_EXTRA + ["core"]
     if not pier_parts:
         return distribution.CoreSharing(pd.DataFrame(columns=cols), pd.DataFrame())
     return distribution.CoreSharing(
-        pd.concat(pier_parts, ignore_index=True), pd.concat(wall_parts, ignore_index=True)
+        pd.concat(pier_parts, ignore_index=True), pd.concat(wall_parts, ignore_index=True), layouts
     )

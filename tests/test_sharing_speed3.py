@@ -1,0 +1,111 @@
+"""Fast paths of the fifth speed round (issue 15: sharing actions to piers, core checks) against
+the general ways they replace, bit for bit, on cases made to reach every branch."""
+
+import numpy as np
+import pandas as pd
+import pytest
+
+
+@pytest.fixture(scope="module")
+def demo(demo_master):
+    """The demo building (two cores) with its piers, walls and plans."""
+    from xlcore import cores, geometry, pipeline
+    from xlcore.mechanics import stiffness
+
+    b, _ = pipeline.load(demo_master)
+    s = b.settings
+    g = geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
+    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
+    walls = stiffness.sharing_stiffness(
+        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
+    )
+    return b, piers, walls, cores.plans_by_core(piers, walls)
+
+
+def _sharing(demo, rows: pd.DataFrame):
+    from xlcore import cores
+
+    b, piers, walls, plans = demo
+    s = b.settings
+    split = cores.share_among_cores(piers, plans, rows, s.accidental)
+    return cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment, text=False)
+
+
+def _renamed(core, names: dict):
+    """The sharing with wall and pier IDs renamed (in the tables and in the layouts alike)."""
+    from xlcore import distribution
+
+    lays = [
+        distribution.Layout([names.get(v, v) for v in lay.names], lay.walls, lay.piers, lay.core)
+        for lay in core.layouts
+    ]
+    rename = lambda col: col.map(lambda v: names.get(v, v)).astype(col.dtype)  # noqa: E731
+    walls = core.walls.assign(wall_id=rename(core.walls.wall_id))
+    piers = core.piers.assign(wall_id=rename(core.piers.wall_id), pier_id=rename(core.piers.pier_id))
+    return distribution.CoreSharing(piers, walls, lays)
+
+
+def _both_ways(core, given, monkeypatch):
+    """`core_table` by the layout and by the sort (no layout), with the sort refused while the
+    layout is used, so that a test of the layout path cannot pass on the sort."""
+    from xlcore import distribution, pipeline
+
+    sort = pipeline._sorted_order
+    with monkeypatch.context() as m:
+        m.setattr(pipeline, "_sorted_order", lambda out: pytest.fail("the sort was used"))
+        fast = pipeline.core_table(core, given)
+    general = distribution.CoreSharing(core.piers, core.walls)  # no layout: the sort
+    assert pipeline._sorted_order is sort
+    return fast, pipeline.core_table(general, given)
+
+
+@pytest.mark.parametrize("shuffle", [False, True])
+def test_core_table_by_layout_equals_the_sort(demo, shuffle, monkeypatch):
+    """The core-sharing table ordered by its layout (cases sorted, members once per storey)
+    equals the stable sort of every row: two cores sharing the building's rows, rows out of
+    order, rows naming a core, IDs whose natural order is not their order in the plan (W2
+    before W10) and distinct IDs of equal natural key (W01, W1: first seen first)."""
+    b = demo[0]
+    rows = b.core_actions.copy()
+    if shuffle:
+        rows["core"] = ""
+        rows.loc[rows.index[::5], "core"] = list(demo[3])[1]
+        rows = rows.sample(frac=1.0, random_state=3).reset_index(drop=True)
+    core = _sharing(demo, rows)
+    assert len(core.layouts) == 2
+    ids = list(dict.fromkeys([*core.walls.wall_id, *core.piers.pier_id]))
+    names = {v: f"W{len(ids) - i}" for i, v in enumerate(ids)}  # reversed natural order
+    names[ids[0]], names[ids[1]] = "W01", "W1"  # equal natural keys
+    core = _renamed(core, names)
+    given = rows.row.to_numpy()[::4]
+    fast, general = _both_ways(core, given, monkeypatch)
+    pd.testing.assert_frame_equal(fast, general, check_exact=True)
+    assert fast.core.nunique() == 2 and (fast.used != "yes").any()
+
+
+def test_core_table_falls_back_to_the_sort_where_the_layout_does_not_decide(demo):
+    """Two core-actions rows of one row number (cases of one row, core and kind: the sort
+    interleaves their members) and an ID that is not text: the layout gives no order."""
+    from xlcore import pipeline
+
+    rows = demo[0].core_actions.copy()
+    rows.loc[rows.index[:3], "row"] = rows.row.iloc[3]
+    core = _sharing(demo, rows)
+    assert pipeline._layout_order(core) is None
+    core = _sharing(demo, demo[0].core_actions)
+    assert pipeline._layout_order(core) is not None
+    core.layouts[0].names[0] = 7  # an ID that is not text
+    assert pipeline._layout_order(core) is None
+
+
+def test_layout_order_is_a_permutation_that_sorts(demo):
+    """The order is a permutation of the rows that sorts them by row, core and kind."""
+    from xlcore import pipeline
+
+    core = _sharing(demo, demo[0].core_actions)
+    core_order, order = pipeline._layout_order(core)
+    n = len(core.walls) + len(core.piers)
+    assert np.array_equal(np.sort(order), np.arange(n))
+    rows = np.concatenate([core.walls.row.to_numpy(), core.piers.row.to_numpy()])[order]
+    assert (np.diff(rows) >= 0).all()
+    assert len(core_order) == n
