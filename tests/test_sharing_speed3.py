@@ -32,17 +32,13 @@ def _sharing(demo, rows: pd.DataFrame):
 
 
 def _renamed(core, names: dict):
-    """The sharing with wall and pier IDs renamed (in the tables and in the layouts alike)."""
+    """The sharing with wall and pier IDs renamed in its tables (the layout reads them there)."""
     from xlcore import distribution
 
-    lays = [
-        distribution.Layout([names.get(v, v) for v in lay.names], lay.walls, lay.piers, lay.core)
-        for lay in core.layouts
-    ]
     rename = lambda col: col.map(lambda v: names.get(v, v)).astype(col.dtype)  # noqa: E731
     walls = core.walls.assign(wall_id=rename(core.walls.wall_id))
     piers = core.piers.assign(wall_id=rename(core.piers.wall_id), pier_id=rename(core.piers.pier_id))
-    return distribution.CoreSharing(piers, walls, lays)
+    return distribution.CoreSharing(piers, walls, core.layout)
 
 
 def _both_ways(core, given, monkeypatch):
@@ -72,7 +68,7 @@ def test_core_table_by_layout_equals_the_sort(demo, shuffle, monkeypatch):
         rows.loc[rows.index[::5], "core"] = list(demo[3])[1]
         rows = rows.sample(frac=1.0, random_state=3).reset_index(drop=True)
     core = _sharing(demo, rows)
-    assert len(core.layouts) == 2
+    assert core.layout is not None and core.walls.core.nunique() == 2
     ids = list(dict.fromkeys([*core.walls.wall_id, *core.piers.pier_id]))
     names = {v: f"W{len(ids) - i}" for i, v in enumerate(ids)}  # reversed natural order
     names[ids[0]], names[ids[1]] = "W01", "W1"  # equal natural keys
@@ -85,8 +81,9 @@ def test_core_table_by_layout_equals_the_sort(demo, shuffle, monkeypatch):
 
 def test_core_table_falls_back_to_the_sort_where_the_layout_does_not_decide(demo):
     """Two core-actions rows of one row number (cases of one row, core and kind: the sort
-    interleaves their members) and an ID that is not text: the layout gives no order."""
-    from xlcore import pipeline
+    interleaves their members), an ID that is not text and a layout that does not fit the
+    tables: the layout gives no order."""
+    from xlcore import distribution, pipeline
 
     rows = demo[0].core_actions.copy()
     rows.loc[rows.index[:3], "row"] = rows.row.iloc[3]
@@ -94,8 +91,17 @@ def test_core_table_falls_back_to_the_sort_where_the_layout_does_not_decide(demo
     assert pipeline._layout_order(core) is None
     core = _sharing(demo, demo[0].core_actions)
     assert pipeline._layout_order(core) is not None
-    core.layouts[0].names[0] = 7  # an ID that is not text
-    assert pipeline._layout_order(core) is None
+    ids = core.piers.pier_id.astype(object)
+    ids.iloc[0] = 7  # an ID that is not text (read at its storey's first case)
+    assert (
+        pipeline._layout_order(
+            distribution.CoreSharing(core.piers.assign(pier_id=ids), core.walls, core.layout)
+        )
+        is None
+    )
+    # a layout that does not fit the rows
+    wrong = distribution.Layout(core.layout.walls, [(1, 1), *core.layout.piers[1:]])
+    assert pipeline._layout_order(distribution.CoreSharing(core.piers, core.walls, wrong)) is None
 
 
 def test_layout_order_is_a_permutation_that_sorts(demo):

@@ -266,15 +266,13 @@ def sections_table(plans: dict[str, StoreyPlan], storey_index: dict[str, int]) -
 @dataclass
 class Layout:
     """How `core_actions_to_piers` made its tables' rows, for `pipeline.core_table` to order
-    them by position instead of sorting every row: per storey, one block of rows, case after
-    case (`row`: each case's core-actions row), each case its members in one order (`members`:
-    codes into `names`). `walls` and `piers` list the blocks in their tables' order; `core`
-    is the core the tables' rows name (`cores.core_actions_to_piers` sets it)."""
+    them by position instead of sorting every row: per storey a block of rows, case after case
+    (a case: one core-actions row's walls, or its piers), every case of a block with the same
+    members in the same order. `walls` and `piers`: each block's (cases, members), blocks in
+    their table's order. Only counts: the rows, members and cores are read from the tables."""
 
-    names: list
-    walls: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # (rows, members)
-    piers: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)
-    core: object = ""
+    walls: list[tuple[int, int]] = field(default_factory=list)
+    piers: list[tuple[int, int]] = field(default_factory=list)
 
 
 @dataclass
@@ -283,8 +281,7 @@ class CoreSharing:
 
     piers: pd.DataFrame  # ACTION_COLUMNS, one row per storey x combination x pier
     walls: pd.DataFrame  # one row per storey x combination x wall: k, direct, torsion, V, N
-    # how the rows were made, one per core in the tables' order; empty where not known
-    layouts: list[Layout] = field(default_factory=list)
+    layout: Layout | None = None  # how the rows were made; None where not known
 
 
 def core_actions_to_piers(
@@ -319,7 +316,7 @@ def core_actions_to_piers(
     # text columns as integer codes while the storeys' pieces are made, a column once at the end
     # (`stack`): no object array per storey, no text inferred row by row (648 000 rows at L)
     names = TextCodes()  # storeys, walls and piers
-    layout = Layout(names.values)
+    layout = Layout()
     combos_of, combo_names = pd.factorize(core.combination.to_numpy(), use_na_sentinel=False)
     core = core.assign(_combo=combos_of)
     # column arrays per storey, sliced from the whole tables' arrays once (a column of a
@@ -365,8 +362,8 @@ def core_actions_to_piers(
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
         rows, combos = cs["row"], cs["_combo"]
         storey_code = names.codes([storey])[0]
-        layout.walls.append((rows, sw["_wall"]))
-        layout.piers.append((rows, sp["_pier"]))
+        layout.walls.append((n_c, n_w))
+        layout.piers.append((n_c, n_p))
         wall_rows.append(
             dict(
                 row=np.repeat(rows, n_w),
@@ -425,7 +422,7 @@ def core_actions_to_piers(
         )
     texts = dict(storey=names.values, wall_id=names.values, pier_id=names.values, combination=combo_names)
     return CoreSharing(
-        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts), [layout]
+        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts), layout
     )
 
 

@@ -371,80 +371,90 @@ def _sorted_order(out: pd.DataFrame) -> np.ndarray:
     return np.lexsort([*keys, out.row.to_numpy()])
 
 
-@dataclass
-class _Cases:
-    """The cases (one core-actions row's walls, or its piers) of the core-sharing rows, for
-    `_layout_order`: each case's row, core code, kind (0 walls, 1 piers), first position in
-    the walls-then-piers table, and its block (one storey's cases, members in one order)."""
-
-    row: list = field(default_factory=list)
-    core: list = field(default_factory=list)
-    kind: list = field(default_factory=list)
-    start: list = field(default_factory=list)
-    block: list = field(default_factory=list)
-
-
 def _layout_order(core: distribution.CoreSharing) -> tuple[np.ndarray, np.ndarray] | None:
     """`_sorted_order` of the walls-then-piers rows and their `core_order` column, by position
-    from the layout `distribution.core_actions_to_piers` made them in (`CoreSharing.layouts`):
-    the rows of one core-actions row (a case) stand together, each storey's cases with their
-    members in one order. So the order is: the cases sorted by row, core and kind (12 000 at
-    the L tower, not 648 000 rows), each case's members in the natural order of their IDs,
-    found once per storey. None where the layout is unknown or does not decide the order (two
-    cases of one row, core and kind: the sort interleaves their members), or an ID is not text.
-    """
-    lays = core.layouts
-    n_w = [sum(len(r) * len(m) for r, m in lay.walls) for lay in lays]
-    n_p = [sum(len(r) * len(m) for r, m in lay.piers) for lay in lays]
-    if not lays or sum(n_w) != len(core.walls) or sum(n_p) != len(core.piers):
+    from the layout `distribution.core_actions_to_piers` made them in (`CoreSharing.layout`):
+    the rows of one core-actions row (a case) stand together, every case of a storey with the
+    same members in the same order. So the order is: the cases sorted by row, core and kind
+    (12 000 at the L tower, not 648 000 rows), each case's members in the natural order of
+    their IDs, found once per storey. Rows, IDs and cores are read from the tables (at each
+    case's or storey's first row), the rows checked against the layout. None where the layout
+    is unknown or does not fit the tables' rows, does not decide the order (two cases of one
+    row, core and kind: the sort interleaves their members) or an ID or core is not text."""
+    if core.layout is None:
         return None
-    # the cores numbered in order of first appearance over the rows (walls', then piers')
-    labels = [lay.core for lay, n in zip(lays, n_w, strict=True) if n]
-    labels += [lay.core for lay, n in zip(lays, n_p, strict=True) if n]
-    if not all(isinstance(c, str) for c in labels):
-        return None  # (a dictionary and factorize could tell other values apart differently)
-    codes = dict(zip(labels, _first_seen_codes(np.array(labels, dtype=object)), strict=True))
-    blocks = [  # (kind, layout, rows, member IDs) of every block that has rows
-        (kind, lay, rows, [lay.names[c] for c in members])
-        for kind, side in ((0, "walls"), (1, "piers"))
-        for lay in lays
-        for rows, members in getattr(lay, side)
-        if len(rows) and len(members)
+    sides = [
+        _cases(core.walls, core.layout.walls, "wall_id", 0),
+        _cases(core.piers, core.layout.piers, "pier_id", len(core.walls)),
     ]
-    ids = dict.fromkeys(m for *_, members in blocks for m in members)  # first appearance
-    if not all(isinstance(m, str) for m in ids):
+    if sides[0] is None or sides[1] is None:
         return None
-    rank = {m: r for r, m in enumerate(sorted(ids, key=geometry._natural))}  # stable: ties by first seen
-    cases, perms, at = _Cases(), [], [0, len(core.walls)]
-    for b, (kind, lay, rows, members) in enumerate(blocks):
-        if rows.dtype.kind not in "iu":
-            return None
-        perms.append(np.argsort(np.array([rank[m] for m in members]), kind="stable"))
-        n = len(members)
-        cases.row.append(rows)
-        cases.core.append(np.full(len(rows), codes[lay.core]))
-        cases.kind.append(np.full(len(rows), kind))
-        cases.start.append(at[kind] + n * np.arange(len(rows)))
-        cases.block.append(np.full(len(rows), b))
-        at[kind] += n * len(rows)
-    row, code, kind, start, block = (
-        np.concatenate(v) if v else np.zeros(0, dtype=np.int64)
-        for v in (cases.row, cases.core, cases.kind, cases.start, cases.block)
-    )
-    sorted_cases = np.lexsort((kind, code, row))
-    r, c, k = row[sorted_cases], code[sorted_cases], kind[sorted_cases]
+    row, label, start, size, block = (np.concatenate([getattr(c, k) for c in sides]) for k in _Cases.KEYS)
+    kind = np.repeat([0, 1], [len(sides[0].row), len(sides[1].row)])
+    block = block + np.repeat([0, len(sides[0].ids)], [len(sides[0].row), len(sides[1].row)])
+    ids = sides[0].ids + sides[1].ids  # each block's member IDs
+    first = dict.fromkeys(m for members in ids for m in members)  # in order of first appearance
+    if not all(isinstance(c, str) for c in label) or not all(isinstance(m, str) for m in first):
+        return None  # (a dictionary and factorize could tell other values apart differently)
+    rank = {m: r for r, m in enumerate(sorted(first, key=geometry._natural))}  # stable: ties by first seen
+    perms = [
+        np.argsort(np.array([rank[m] for m in members], dtype=np.int64), kind="stable") for members in ids
+    ]
+    code = _first_seen_codes(label)  # the cores in order of first appearance over the rows
+    cases = np.lexsort((kind, code, row))
+    r, c, k = row[cases], code[cases], kind[cases]
     if ((r[1:] == r[:-1]) & (c[1:] == c[:-1]) & (k[1:] == k[:-1])).any():
         return None
-    sizes = np.array([len(p) for p in perms], dtype=np.int64)[block[sorted_cases]]
-    within = np.concatenate([perms[b] for b in block[sorted_cases]]) if len(block) else np.zeros(0, np.int64)
-    order = np.repeat(start[sorted_cases], sizes) + within
-    core_order = np.concatenate(
-        [
-            np.repeat(np.array([codes.get(lay.core, 0) for lay in lays], dtype=np.intp), n_w),
-            np.repeat(np.array([codes.get(lay.core, 0) for lay in lays], dtype=np.intp), n_p),
-        ]
+    within = [perms[b] for b in block[cases]]
+    order = np.repeat(start[cases], size[cases]) + (
+        np.concatenate(within) if within else np.zeros(0, np.int64)
     )
-    return core_order, order
+    return np.repeat(code, size), order
+
+
+@dataclass
+class _Cases:
+    """The cases of one side (walls or piers) of the core-sharing rows, for `_layout_order`:
+    each case's row, core, first position in the walls-then-piers table, size and block (a
+    storey), and each block's member IDs."""
+
+    KEYS = ("row", "label", "start", "size", "block")
+    row: np.ndarray
+    label: np.ndarray
+    start: np.ndarray
+    size: np.ndarray
+    block: np.ndarray
+    ids: list
+
+
+def _cases(table: pd.DataFrame, blocks: list[tuple[int, int]], member: str, offset: int) -> _Cases | None:
+    """One side's cases (`_Cases`) from its table and its layout's blocks (cases, members),
+    blocks without rows left out; None where the layout does not fit the table's rows."""
+    counts, members = (np.array([b[i] for b in blocks], dtype=np.int64).reshape(-1) for i in (0, 1))
+    if int((counts * members).sum()) != len(table):
+        return None
+    live = (counts > 0) & (members > 0)
+    counts, members = counts[live], members[live]
+    size = np.repeat(members, counts)
+    start = np.cumsum(size) - size  # each case's first row in the table
+    rows = table.row.to_numpy()
+    if rows.dtype.kind not in "iu" or not np.array_equal(np.repeat(rows[start], size), rows):
+        return None
+    # each storey's IDs at its first case, all in one take (not a copy of the whole column)
+    first = np.repeat(start[np.cumsum(counts) - counts], members)
+    ids = table[member].array.take(
+        first + np.arange(len(first)) - np.repeat(np.cumsum(members) - members, members)
+    )
+    ids = ids.tolist()
+    at = np.cumsum(members) - members
+    return _Cases(
+        row=rows[start],
+        label=np.asarray(table.core.array.take(start), dtype=object),
+        start=start + offset,
+        size=size,
+        block=np.repeat(np.arange(len(counts)), counts),
+        ids=[ids[a : a + m] for a, m in zip(at.tolist(), members.tolist(), strict=True)],
+    )
 
 
 def _first_seen(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -502,5 +512,3 @@ def _rework_rows(check, acts: pd.DataFrame):
         return out.set_index("_act").loc[ask].reset_index()
 
     return rework
-
-
