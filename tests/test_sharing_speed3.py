@@ -115,3 +115,66 @@ def test_layout_order_is_a_permutation_that_sorts(demo):
     rows = np.concatenate([core.walls.row.to_numpy(), core.piers.row.to_numpy()])[order]
     assert (np.diff(rows) >= 0).all()
     assert len(core_order) == n
+
+
+# ------------------------------------------------------------------ per-storey look-ups
+
+
+def _share_with_accidental_ref(st, vx, vy, m_cr, d_acc):
+    """`diaphragm.share_with_accidental` as it was: `share` twice, every time from the walls."""
+    from xlcore.mechanics import diaphragm
+
+    base = diaphragm.share(st, vx, vy, m_cr)
+    unit = diaphragm.share(st, 0.0, 0.0, 1.0).torsion[:, 0:1]
+    sense = np.where(base.total >= 0, 1.0, -1.0) * np.where(unit >= 0, 1.0, -1.0)
+    torsion = base.torsion + sense * unit * d_acc
+    return diaphragm.Shares(base.direct, torsion, base.direct + torsion)
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_sharing_of_one_storey_reused_equals_share_with_accidental(seed):
+    """One `Sharing` per storey plan, asked again and again, gives the forces of
+    `share_with_accidental` as it was bit for bit (zero forces and signs both ways on purpose)."""
+    from xlcore.mechanics import diaphragm
+
+    rng = np.random.default_rng(seed)
+    n = 7
+    angle = rng.choice([0.0, np.pi / 2, 0.3], n)
+    st = diaphragm.Storey(
+        rng.uniform(1e3, 5e5, n), np.cos(angle), np.sin(angle), rng.uniform(-9, 9, n), rng.uniform(-9, 9, n)
+    )
+    sharing = diaphragm.Sharing(st)
+    for _ in range(3):
+        m = 40
+        vx, vy, m_cr = (rng.choice([0.0, -1.0, 1.0], m) * rng.uniform(0, 900, m) for _ in range(3))
+        d_acc = rng.uniform(0, 50, m)
+        got = sharing.with_accidental(vx, vy, m_cr, d_acc)
+        want = _share_with_accidental_ref(st, vx, vy, m_cr, d_acc)
+        for k in ("direct", "torsion", "total"):
+            np.testing.assert_array_equal(getattr(got, k), getattr(want, k))
+    got = diaphragm.share_with_accidental(st, 5.0, -3.0, 2.0, 0.5)  # scalars, as the cores' sharing
+    np.testing.assert_array_equal(got.total, _share_with_accidental_ref(st, 5.0, -3.0, 2.0, 0.5).total)
+
+
+def test_positions_by_codes_equal_the_index(monkeypatch):
+    """`distribution.positions` equals `pd.Index(keys).get_indexer(values)`: values missing
+    from the keys (-1), keys in any order; a repeated key raises as the Index does; a name that
+    is not text takes the Index (1 and 1.0 are one value to it, two to the codes)."""
+    from xlcore import distribution
+
+    names = distribution.TextCodes()
+    keys = np.array(["W3", "W1", "W10"], dtype=object)
+    values = np.array(["W1", "W10", "W2", "W3", "W1"], dtype=object)
+    kc, vc = names.codes(keys), names.codes(values)
+    with monkeypatch.context() as m:  # the codes, not the Index
+        m.setattr(pd.Index, "get_indexer", lambda *a, **k: pytest.fail("the Index was used"))
+        got = distribution.positions(kc, vc, keys, values, names)
+    np.testing.assert_array_equal(got, pd.Index(keys).get_indexer(values))
+    assert got.tolist() == [1, 2, -1, 0, 1]
+    twice = np.array(["W3", "W1", "W3"], dtype=object)
+    with pytest.raises(pd.errors.InvalidIndexError):
+        distribution.positions(names.codes(twice), vc, twice, values, names)
+    mixed = distribution.TextCodes()
+    keys, values = np.array([1, "W1"], dtype=object), np.array([1.0, "W1"], dtype=object)
+    got = distribution.positions(mixed.codes(keys), mixed.codes(values), keys, values, mixed)
+    assert got.tolist() == pd.Index(keys).get_indexer(values).tolist() == [0, 1]

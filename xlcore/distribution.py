@@ -330,6 +330,7 @@ def core_actions_to_piers(
     pier_cols = ["ux", "uy", "wall_id", "_wall", "_pier", "k", "_wall_k", "h", "position"]
     piers_at = arrays_by_storey(piers, pier_cols)
     walls_at = arrays_by_storey(walls, ["wall_id", "_wall", "k", "ux", "uy"])
+    sharing: dict[int, tuple] = {}  # each storey's walls' diaphragm.Sharing, by the walls' id
     case_cols = ["row", "_combo", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
     cases_at = arrays_by_storey(core, case_cols + (["acc"] if "acc" in core else []))
     for storey, cs in cases_at.items():
@@ -347,14 +348,16 @@ def core_actions_to_piers(
         m_cr = t + vy * (xv - xr) - vx * (yv - yr)
         acc = cs["acc"].astype(float) if "acc" in cs else accidental  # per row where given
         d_acc = acc * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
-        base = diaphragm.share_with_accidental(st, vx, vy, m_cr, d_acc)
+        if id(st) not in sharing:  # storeys alike in plan share their walls (`storey_plans`)
+            sharing[id(st)] = (st, diaphragm.Sharing(st))
+        base = sharing[id(st)][1].with_accidental(vx, vy, m_cr, d_acc)
         torsion, total = base.torsion, base.total
         a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
         m_in, m_oop = own_moments(plan.piece_moments, b, c, sp["ux"], sp["uy"])
         walls_here = sw["wall_id"]
         n_w, n_c, n_p = len(walls_here), len(cs["row"]), len(sp["k"])
-        wall_of_pier = pd.Index(walls_here).get_indexer(sp["wall_id"])
+        wall_of_pier = positions(sw["_wall"], sp["_wall"], walls_here, sp["wall_id"], names)
         member = np.zeros((n_w, n_p))
         member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
         along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
@@ -433,6 +436,14 @@ class TextCodes:
     def __init__(self) -> None:
         self.values: list = []
         self._code: dict = {}
+        self._text = 0  # the values up to here are all text (negative: one is not)
+
+    def all_text(self) -> bool:
+        """Whether every value is a str (checked once per value)."""
+        if 0 <= self._text < len(self.values):  # the values added since
+            new = self.values[self._text :]
+            self._text = len(self.values) if all(isinstance(v, str) for v in new) else -1
+        return self._text >= 0
 
     def codes(self, values) -> np.ndarray:
         out = np.empty(len(values), dtype=np.int64)
@@ -444,6 +455,21 @@ class TextCodes:
                 self.values.append(v)
             out[i] = code
         return out
+
+
+def positions(key_codes: np.ndarray, codes: np.ndarray, keys, values, names: TextCodes) -> np.ndarray:
+    """`pd.Index(keys).get_indexer(values)` (each value's position among the keys, -1 where
+    none) by the integer codes `names` gave them (`key_codes`, `codes`): a look-up table of a
+    few codes, not an Index of text per storey. The Index itself where a key is repeated (it
+    raises) or a name is not text (an Index and `TextCodes` could tell other values apart
+    differently)."""
+    if not names.all_text():
+        return pd.Index(keys).get_indexer(values)
+    at = np.full(len(names.values), -1, dtype=np.intp)
+    at[key_codes] = np.arange(len(key_codes))
+    if not np.array_equal(at[key_codes], np.arange(len(key_codes))):  # a key repeated
+        return pd.Index(keys).get_indexer(values)
+    return at[codes]
 
 
 def arrays_by_storey(df: pd.DataFrame, columns: list[str]) -> dict[str, dict[str, np.ndarray]]:

@@ -12,7 +12,7 @@ import pandas as pd
 from xlcore.checks import plain
 from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, stack
+from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, positions, stack
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column
@@ -94,7 +94,9 @@ def check_core_stress(
         sec = plans[storey].section
         a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
         walls = {k: v[here[first[here]]] for k, v in cols.items()}  # as drop_duplicates("wall_id")
-        wall_of_pier = pd.Index(walls["wall_id"]).get_indexer(cols["wall_id"][here])
+        wall_of_pier = positions(
+            walls["_wall"], cols["_wall"][here], walls["wall_id"], cols["wall_id"][here], names
+        )
         runs = fib_start[here + 1] - fib_start[here]
         fibres = np.repeat(fib_start[here] - np.cumsum(runs) + runs, runs) + np.arange(runs.sum())
         # fibres in wall order, so each wall's fibres are one run for the reductions below
@@ -111,7 +113,9 @@ def check_core_stress(
         if z is not None and len(z):  # end-zone bars in tension add their own area to their wall's
             zx, zy, za = zx_all[z], zy_all[z], za_all[z]
             z_sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], zx[:, None], zy[:, None])
-            z_wall = pd.Index(walls["wall_id"]).get_indexer(cols["wall_id"][zp_all[z]])
+            z_wall = positions(
+                walls["_wall"], cols["_wall"][zp_all[z]], walls["wall_id"], cols["wall_id"][zp_all[z]], names
+            )
             np.add.at(provided, z_wall, (z_sigma < 0) * za[:, None])
         wx, wy, ux, uy, length = (walls[k] for k in ("wx", "wy", "ux", "uy", "wall_length"))
         end_sigma = [
@@ -174,7 +178,12 @@ def with_working(rows: pd.DataFrame, settings: Settings, *, std: Standard | None
         f"sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(
             *plain(
-                rows.tension, rows.tension_area, rows.fsy, rows.as_req, rows.as_prov, rows.sigma_max,
+                rows.tension,
+                rows.tension_area,
+                rows.fsy,
+                rows.as_req,
+                rows.as_prov,
+                rows.sigma_max,
                 rows.limit,
             ),
             strict=True,
