@@ -42,13 +42,20 @@ def _renamed(core, names: dict):
 
 
 def _both_ways(core, given, monkeypatch):
-    """`core_table` by the layout and by the sort (no layout), with the sort refused while the
-    layout is used, so that a test of the layout path cannot pass on the sort."""
+    """`core_table` by the layout and by the sort (no layout), with the sort and the
+    concatenation of the tables refused while the layout is used, so that a test of the layout
+    path cannot pass on the general one."""
     from xlcore import distribution, pipeline
 
-    sort = pipeline._sorted_order
+    sort, concat = pipeline._sorted_order, pd.concat
+
+    def small_only(objs, **kw):  # the columns' types on one row a side, not the whole tables
+        assert all(len(o) <= 1 for o in objs), "the tables were concatenated"
+        return concat(objs, **kw)
+
     with monkeypatch.context() as m:
         m.setattr(pipeline, "_sorted_order", lambda out: pytest.fail("the sort was used"))
+        m.setattr(pipeline.pd, "concat", small_only)
         fast = pipeline.core_table(core, given)
     general = distribution.CoreSharing(core.piers, core.walls)  # no layout: the sort
     assert pipeline._sorted_order is sort
@@ -178,3 +185,45 @@ def test_positions_by_codes_equal_the_index(monkeypatch):
     keys, values = np.array([1, "W1"], dtype=object), np.array([1.0, "W1"], dtype=object)
     got = distribution.positions(mixed.codes(keys), mixed.codes(values), keys, values, mixed)
     assert got.tolist() == pd.Index(keys).get_indexer(values).tolist() == [0, 1]
+
+
+# ------------------------------------------------------------------ pier actions
+
+
+def _core_piers(demo, keep: slice):
+    """Core pier rows as `pipeline.pier_actions` joins them to the member rows."""
+    from xlcore import distribution
+
+    core = _sharing(demo, demo[0].core_actions)
+    rows = core.piers.iloc[keep].assign(origin=1)
+    rows["source"] = distribution.core_source_of(rows)
+    return rows.drop(columns=["core", "wall_v"])
+
+
+@pytest.mark.parametrize("keep", [slice(0, 0), slice(0, 40)])
+def test_joined_pier_actions_equal_the_concatenation(demo, keep, monkeypatch):
+    """Member rows joined with no core row left (the member actions give every storey x
+    combination) equal the concatenation: the core rows' own columns blank, the 'V* from' text
+    in the type the empty core rows make it (object); with core rows, the concatenation."""
+    from xlcore import distribution, pipeline
+
+    b, piers = demo[0], demo[1]
+    member = distribution.pier_actions(piers, b.member_actions, b.settings.wall_nm)
+    member["origin"] = 0
+    member = member.set_axis(pd.RangeIndex(3, 3 + len(member)))  # any index
+    core_piers = _core_piers(demo, keep)
+    want = pd.concat([member, core_piers], ignore_index=True)
+    concat = pd.concat
+
+    def one_row_only(objs, **kw):  # the template of one row, not the member rows
+        assert len(objs[0]) <= 1, "the member rows were concatenated"
+        return concat(objs, **kw)
+
+    with monkeypatch.context() as m:
+        if not len(core_piers):
+            m.setattr(pipeline.pd, "concat", one_row_only)
+        got = pipeline._joined(member, core_piers)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    assert got.m_curv.isna().sum() == len(member)
+    if not len(core_piers):
+        assert got.source.dtype == object

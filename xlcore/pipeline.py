@@ -279,7 +279,27 @@ def pier_actions(
             "core checks only",
             "core checks and piers",
         )
-    return pd.concat([member, core_piers], ignore_index=True), table, split
+    return _joined(member, core_piers), table, split
+
+
+def _joined(member: pd.DataFrame, core_piers: pd.DataFrame) -> pd.DataFrame:
+    """`pd.concat([member, core_piers], ignore_index=True)`. Where no core row is left (the
+    member actions give every storey x combination: the L tower), the member rows' columns
+    as they are (no copy of 360 000 rows), in the concatenation's types (found on one row),
+    the core rows' own columns blank; the concatenation itself otherwise."""
+    if len(core_piers) or not len(member):
+        return pd.concat([member, core_piers], ignore_index=True)
+    template = pd.concat([member.iloc[:1], core_piers], ignore_index=True)
+    out = {}
+    for c in template.columns:
+        dtype = template[c].dtype
+        if c not in member:
+            if not (isinstance(dtype, np.dtype) and dtype.kind == "f"):
+                return pd.concat([member, core_piers], ignore_index=True)
+            out[c] = np.full(len(member), np.nan, dtype=dtype)
+        else:
+            out[c] = member[c] if member[c].dtype == dtype else member[c].astype(dtype)
+    return pd.DataFrame(out, copy=False).set_axis(pd.RangeIndex(len(member)))
 
 
 def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) -> pd.DataFrame:
@@ -350,10 +370,13 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
         share_pct=core.piers.share * 100,
         working=core.piers.source,
     )
-    out = pd.concat([w, p], ignore_index=True)
-    out["used"] = results.text_column(out.row.isin(given), ["yes", "no: member actions given"])
-    out["kind_order"] = np.repeat([0, 1], [len(w), len(p)])  # walls first, then piers
     by_layout = _layout_order(core)
+    out = _in_order(w, p, *by_layout, given) if by_layout is not None else None
+    if out is not None:
+        return core_working(out) if text else out
+    out = pd.concat([w, p], ignore_index=True)
+    out["used"] = results.text_column(out.row.isin(given), USED)
+    out["kind_order"] = np.repeat([0, 1], [len(w), len(p)])  # walls first, then piers
     if by_layout is None:
         out["core_order"] = _first_seen_codes(out.core.to_numpy())  # order of first appearance
         order = _sorted_order(out)
@@ -361,6 +384,53 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
         out["core_order"], order = by_layout
     out = out.take(order).reset_index(drop=True)
     return core_working(out) if text else out
+
+
+USED = ["yes", "no: member actions given"]  # the core-sharing table's "Used" words
+
+
+def _in_order(
+    w: pd.DataFrame, p: pd.DataFrame, core_order: np.ndarray, order: np.ndarray, given: np.ndarray
+) -> pd.DataFrame | None:
+    """`pd.concat([w, p])` with `used`, `kind_order` and `core_order` added, taken in `order`:
+    each column made once, in its final order (numbers written to their rows' final places,
+    text taken once), not a concatenated table taken again; a column of its own each (not
+    648 000 rows x 17 numbers in one block: a block that size is fresh memory every time, and
+    its first touch cost more than the copy). The column types are those of the concatenation
+    (found on one row of each side). None where a side is empty or a column's type differs
+    between the sides (the concatenation then decides)."""
+    if not len(w) or not len(p):
+        return None
+    n_w, n = len(w), len(w) + len(p)
+    at = np.empty(n, dtype=np.intp)
+    at[order] = np.arange(n)  # each row's final place
+    sides = ((w, at[:n_w]), (p, at[n_w:]))
+    template = pd.concat([w.iloc[:1], p.iloc[:1]], ignore_index=True)
+    cols: dict[str, object] = {}
+    for c in template.columns:
+        dtype = template[c].dtype
+        if isinstance(dtype, np.dtype) and dtype.kind in "fiu":
+            if dtype.kind != "f" and not all(c in t for t, _ in sides):
+                return None  # (a missing side's NaN would make it float)
+            values = np.empty(n, dtype=dtype)
+            for t, there in sides:
+                values[there] = t[c].to_numpy() if c in t else np.nan
+            cols[c] = values
+            continue
+        if any(t[c].dtype != dtype for t, _ in sides if c in t):
+            return None
+        arrays = [t[c].array for t, _ in sides if c in t]
+        if len(arrays) == 2:
+            cols[c] = type(arrays[0])._concat_same_type(arrays).take(order)
+        else:  # one side's column, blank (its type's NA) on the other side's rows
+            t, there = next((t, there) for t, there in sides if c in t)
+            pick = np.full(n, -1, dtype=np.intp)
+            pick[there] = np.arange(len(t))
+            cols[c] = t[c].array.take(pick, allow_fill=True)
+    cols["used"] = results.text_column(np.isin(cols["row"], given), USED)
+    cols["kind_order"] = np.repeat([0, 1], [n_w, n - n_w])[order]
+    cols["core_order"] = core_order[order]
+    return pd.DataFrame(cols, copy=False)
 
 
 def _sorted_order(out: pd.DataFrame) -> np.ndarray:
