@@ -205,7 +205,7 @@ def test_joined_pier_actions_equal_the_concatenation(demo, keep, monkeypatch):
     """Member rows joined with no core row left (the member actions give every storey x
     combination) equal the concatenation: the core rows' own columns blank, the 'V* from' text
     in the type the empty core rows make it (object); with core rows, the concatenation."""
-    from xlcore import distribution, pipeline
+    from xlcore import distribution
 
     b, piers = demo[0], demo[1]
     member = distribution.pier_actions(piers, b.member_actions, b.settings.wall_nm)
@@ -221,9 +221,50 @@ def test_joined_pier_actions_equal_the_concatenation(demo, keep, monkeypatch):
 
     with monkeypatch.context() as m:
         if not len(core_piers):
-            m.setattr(pipeline.pd, "concat", one_row_only)
-        got = pipeline._joined(member, core_piers)
+            m.setattr(distribution.pd, "concat", one_row_only)
+        got = distribution.concat_rows(member, core_piers)
     pd.testing.assert_frame_equal(got, want, check_exact=True)
     assert got.m_curv.isna().sum() == len(member)
     if not len(core_piers):
         assert got.source.dtype == object
+
+
+def _pier_actions_concatenated(piers, actions):
+    """`distribution.pier_actions` as the merges and the concatenation made it (no wall row)."""
+    from xlcore import distribution
+
+    cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
+    base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
+    direct = base.merge(piers[cols], left_on=["storey", "member"], right_on=["storey", "pier_id"])
+    direct["share"] = 1.0
+    direct["source"] = "given for the pier"
+    cut = piers.loc[piers.position > 0, cols]
+    shared = base.merge(cut, left_on=["storey", "member"], right_on=["storey", "wall_id"])
+    assert not len(shared)
+    return pd.concat([direct, shared], ignore_index=True)[distribution.ACTION_COLUMNS]
+
+
+def test_pier_actions_of_pier_rows_alone_equal_the_concatenation(demo, monkeypatch):
+    """Every action row names a pier (the L tower's member actions): the rows and columns as
+    they are (no filter, no concatenation of the rows), the same table as the merges and the
+    concatenation; `columns_of` shares the columns' memory."""
+    from xlcore import distribution
+
+    b, piers = demo[0], demo[1]
+    acts = b.member_actions.assign(m_out=1.5)
+    named = distribution.rows_of(acts.storey, acts.member, piers.storey, piers.pier_id) >= 0
+    acts = acts[named].sample(frac=1.0, random_state=5).set_axis(pd.RangeIndex(7, 7 + named.sum()))
+    want = _pier_actions_concatenated(piers, acts)
+    concat = pd.concat
+
+    def one_row_only(objs, **kw):
+        assert len(objs[0]) <= 1, "the rows were concatenated"
+        return concat(objs, **kw)
+
+    with monkeypatch.context() as m:
+        m.setattr(distribution.pd, "concat", one_row_only)
+        got = distribution.pier_actions(piers, acts)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    picked = distribution.columns_of(acts, ["n", "member"])
+    pd.testing.assert_frame_equal(picked, acts[["n", "member"]], check_exact=True)
+    assert np.shares_memory(picked.n.to_numpy(), acts.n.to_numpy())

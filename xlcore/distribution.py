@@ -54,7 +54,7 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
     if "m_out" not in actions:  # optional column
         actions = actions.assign(m_out=np.nan)
-    base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
+    base = columns_of(actions, ["row", "storey", "combination", "member", "n", "v", "m", "m_out"])
     keys = (Coded(base.storey), Coded(base.member))  # each row's text keys hashed once, for both
     direct = _given_for_piers(base, piers[cols], keys)
     direct["share"] = 1.0
@@ -65,8 +65,33 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     )  # the merge of only the rows that have a match: the same rows, in the same order
     if len(shared):
         shared = _share_wall(shared, method)
-    out = pd.concat([direct, shared], ignore_index=True)
-    return out[ACTION_COLUMNS]
+    return columns_of(concat_rows(direct, shared), ACTION_COLUMNS)
+
+
+def columns_of(df: pd.DataFrame, names: list[str]) -> pd.DataFrame:
+    """`df[names]`, the columns' arrays as they are: no copy of every row into new blocks (the
+    member actions' 360 000 rows at the L tower were copied three times on their way here)."""
+    return pd.DataFrame({c: df[c] for c in names}, copy=False)
+
+
+def concat_rows(first: pd.DataFrame, rest: pd.DataFrame) -> pd.DataFrame:
+    """`pd.concat([first, rest], ignore_index=True)`. Where `rest` has no row (at the L tower
+    no member action names a cut wall, and the member actions give every storey x combination,
+    so no core pier row is left), `first`'s columns as they are (no copy of its rows) in the
+    concatenation's types (found on one row of `first`), `rest`'s own columns blank (NaN)."""
+    if len(rest) or not len(first):
+        return pd.concat([first, rest], ignore_index=True)
+    template = pd.concat([first.iloc[:1], rest], ignore_index=True)
+    out = {}
+    for c in template.columns:
+        dtype = template[c].dtype
+        if c not in first:
+            if not (isinstance(dtype, np.dtype) and dtype.kind == "f"):
+                return pd.concat([first, rest], ignore_index=True)
+            out[c] = np.full(len(first), np.nan, dtype=dtype)
+        else:
+            out[c] = first[c] if first[c].dtype == dtype else first[c].astype(dtype)
+    return pd.DataFrame(out, copy=False).set_axis(pd.RangeIndex(len(first)))
 
 
 class Coded:
@@ -109,7 +134,7 @@ def _given_for_piers(
     if at is None:
         return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
     found = at >= 0
-    direct = base[found].reset_index(drop=True)
+    direct = (base if found.all() else base[found]).reset_index(drop=True)  # (no copy of every row)
     return direct.assign(**{c: piers[c].to_numpy()[at[found]] for c in piers.columns if c != "storey"})
 
 

@@ -279,27 +279,7 @@ def pier_actions(
             "core checks only",
             "core checks and piers",
         )
-    return _joined(member, core_piers), table, split
-
-
-def _joined(member: pd.DataFrame, core_piers: pd.DataFrame) -> pd.DataFrame:
-    """`pd.concat([member, core_piers], ignore_index=True)`. Where no core row is left (the
-    member actions give every storey x combination: the L tower), the member rows' columns
-    as they are (no copy of 360 000 rows), in the concatenation's types (found on one row),
-    the core rows' own columns blank; the concatenation itself otherwise."""
-    if len(core_piers) or not len(member):
-        return pd.concat([member, core_piers], ignore_index=True)
-    template = pd.concat([member.iloc[:1], core_piers], ignore_index=True)
-    out = {}
-    for c in template.columns:
-        dtype = template[c].dtype
-        if c not in member:
-            if not (isinstance(dtype, np.dtype) and dtype.kind == "f"):
-                return pd.concat([member, core_piers], ignore_index=True)
-            out[c] = np.full(len(member), np.nan, dtype=dtype)
-        else:
-            out[c] = member[c] if member[c].dtype == dtype else member[c].astype(dtype)
-    return pd.DataFrame(out, copy=False).set_axis(pd.RangeIndex(len(member)))
+    return distribution.concat_rows(member, core_piers), table, split  # L: no core row left
 
 
 def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) -> pd.DataFrame:
