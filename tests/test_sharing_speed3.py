@@ -268,3 +268,25 @@ def test_pier_actions_of_pier_rows_alone_equal_the_concatenation(demo, monkeypat
     picked = distribution.columns_of(acts, ["n", "member"])
     pd.testing.assert_frame_equal(picked, acts[["n", "member"]], check_exact=True)
     assert np.shares_memory(picked.n.to_numpy(), acts.n.to_numpy())
+
+
+# ------------------------------------------------------------------ core checks
+
+
+@pytest.mark.parametrize("blank", [False, True])
+def test_core_nm_storeys_by_codes_equal_the_dictionary(blank, monkeypatch):
+    """Each case's storey among the distinct storeys (first appearance) by one factorisation
+    equals the dictionary of every case's storey; with a blank storey, the dictionary itself."""
+    from xlcore.checks import core_nm
+
+    storey = np.array(["L2", "L10", "L2", "GF", "L10", "L2"], dtype=object)
+    if blank:
+        storey[3] = np.nan
+    distinct = list(dict.fromkeys(storey))
+    with monkeypatch.context() as m:
+        if not blank:  # the factorisation, not the dictionary
+            m.setattr(core_nm, "dict", None, raising=False)
+        codes, got = core_nm._storeys(storey)
+    assert len(got) == len(distinct) and all(a is b or a == b for a, b in zip(got, distinct, strict=True))
+    assert [got[c] for c in codes] == list(storey) or blank
+    assert codes.tolist() == [distinct.index(s) if s == s else 2 for s in storey]

@@ -97,7 +97,8 @@ def check_core_nm(
     # sub-table per storey cost more than the sections' keys themselves); the same keys
     values = piers[_key_columns(piers)].round(6).to_numpy()
     rows_at = piers.groupby("storey", sort=False).indices
-    for storey in dict.fromkeys(core.storey):
+    storey_of, distinct = _storeys(core.storey.to_numpy())
+    for storey in distinct:
         key = _key_of(values[rows_at[storey]], plans[storey].section)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
@@ -152,7 +153,7 @@ def check_core_nm(
     dmx_curve = (phi_s * mx_s).reshape(-1, SAMPLES)
     dmy_curve = (phi_s * my_s).reshape(-1, SAMPLES)
 
-    case_storey = np.array([s_index[section_of[x]] for x in core.storey])
+    case_storey = np.array([s_index[section_of[x]] for x in distinct])[storey_of]
     n_star = core.n.to_numpy(dtype=float) * 1e3
     ci = np.repeat(np.arange(len(core)), ANGLES)  # case of each (case, angle) pair
     kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its section x angle row
@@ -176,6 +177,19 @@ def check_core_nm(
     px, py = px.reshape(len(core), ANGLES), py.reshape(len(core), ANGLES)
 
     return _rows(core, std, phi0, nuo[case_storey], nuot[case_storey], px, py)
+
+
+def _storeys(storey: np.ndarray) -> tuple[np.ndarray, list]:
+    """Each case's storey as a position in the distinct storeys (in order of first appearance,
+    `dict.fromkeys`' order), found by hashing the column once: the cases' sections are looked
+    up per storey, not per case (6 000 at the L tower). By the dictionary itself where a storey
+    is not text (a dictionary and factorize could tell other values apart differently)."""
+    codes, distinct = pd.factorize(storey)
+    if (codes < 0).any() or not all(isinstance(s, str) for s in distinct):
+        distinct = list(dict.fromkeys(storey))
+        at = {s: i for i, s in enumerate(distinct)}
+        return np.array([at[s] for s in storey], dtype=np.intp), distinct
+    return codes, list(distinct)
 
 
 def _curve_points(asm: nm_core.Assembly, si: np.ndarray, th: np.ndarray, dn_s: np.ndarray):
