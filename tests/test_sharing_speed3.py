@@ -290,3 +290,36 @@ def test_core_nm_storeys_by_codes_equal_the_dictionary(blank, monkeypatch):
     assert len(got) == len(distinct) and all(a is b or a == b for a, b in zip(got, distinct, strict=True))
     assert [got[c] for c in codes] == list(storey) or blank
     assert codes.tolist() == [distinct.index(s) if s == s else 2 for s in storey]
+
+
+def test_fibre_stress_in_place_equals_the_expressions():
+    """Core stress at the fibres worked in place equals `stress_at / 1000` and the products
+    the sums take (tension area, tension, bars in tension) bit for bit."""
+    from xlcore.checks import core_stress
+    from xlcore.mechanics import section
+
+    rng = np.random.default_rng(2)
+    sec = section.section_of(
+        [section.rectangle(0.0, 0.0, 4.0, 0.0, 0.25), section.rectangle(0, 0, 0, 3.0, 0.2)]
+    )
+    f, m = 300, 17
+    x, y, area, rho = (
+        rng.uniform(-1, 5, f),
+        rng.uniform(-1, 4, f),
+        rng.uniform(0, 0.03, f),
+        rng.uniform(0, 0.01, f),
+    )
+    a, b, c = (rng.normal(0, 900, m) for _ in range(3))
+    sigma, work = core_stress._fibre_stress(sec, a, b, c, x, y)
+    want = section.stress_at(sec, a[None, :], b[None, :], c[None, :], x[:, None], y[:, None]) / 1000.0
+    np.testing.assert_array_equal(sigma, want)
+    tens = sigma < 0
+    assert tens.any() and not tens.all()
+    np.testing.assert_array_equal(np.multiply(tens, area[:, None], out=work), tens * area[:, None])
+    np.negative(sigma, out=work)
+    np.maximum(work, 0, out=work)
+    work *= area[:, None]
+    np.testing.assert_array_equal(work, np.maximum(-sigma, 0) * area[:, None])
+    np.testing.assert_array_equal(
+        np.multiply(tens, (rho * area)[:, None], out=work), tens * (rho * area)[:, None]
+    )

@@ -58,6 +58,18 @@ def _zone_bars(sp: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray, np
     return x, y, lay.zone_A[live], pier
 
 
+def _fibre_stress(sec, a, b, c, x, y) -> tuple[np.ndarray, np.ndarray]:
+    """`section.stress_at(sec, a, b, c, x, y) / 1000` at fibres x, y (rows) for stress planes
+    a, b, c (columns), worked in one array in the expression's order (the same numbers), and a
+    second array of its shape for the caller's products."""
+    sigma = np.multiply(b[None, :], (x - sec.xc)[:, None])
+    np.add(a[None, :], sigma, out=sigma)
+    work = np.multiply(c[None, :], (y - sec.yc)[:, None])
+    sigma += work
+    sigma /= 1000.0
+    return sigma, work
+
+
 def check_core_stress(
     piers: pd.DataFrame,
     plans: dict[str, StoreyPlan],
@@ -104,11 +116,16 @@ def check_core_stress(
         order = np.argsort(wall_of, kind="stable")
         fx, fy_, area, rho = (fib[k][fibres][order] for k in ("x", "y", "area", "rho_v"))
         starts = np.searchsorted(wall_of[order], np.arange(len(walls["wall_id"])))
-        sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], fx[:, None], fy_[:, None]) / 1000.0
-        tens = sigma < 0  # fibres x combos, MPa (kPa / 1000)
-        tension_area = np.add.reduceat(tens * area[:, None], starts, axis=0)  # walls x combos, m^2
-        tension = np.add.reduceat(np.maximum(-sigma, 0) * area[:, None], starts, axis=0) * 1000.0  # kN
-        provided = np.add.reduceat(tens * (rho * area)[:, None], starts, axis=0) * 1e6
+        sigma, work = _fibre_stress(sec, a, b, c, fx, fy_)  # fibres x combos, MPa (kPa / 1000)
+        tens = sigma < 0
+        # each product in one work array, the operations of `tens * area`, `maximum(-sigma, 0) *
+        # area` and `tens * (rho area)` in their order (the same numbers, no array per product)
+        tension_area = np.add.reduceat(np.multiply(tens, area[:, None], out=work), starts, axis=0)  # m^2
+        np.negative(sigma, out=work)
+        np.maximum(work, 0, out=work)
+        work *= area[:, None]
+        tension = np.add.reduceat(work, starts, axis=0) * 1000.0  # kN
+        provided = np.add.reduceat(np.multiply(tens, (rho * area)[:, None], out=work), starts, axis=0) * 1e6
         z = zones_at.get(storey)
         if z is not None and len(z):  # end-zone bars in tension add their own area to their wall's
             zx, zy, za = zx_all[z], zy_all[z], za_all[z]
