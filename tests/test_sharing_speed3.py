@@ -323,3 +323,23 @@ def test_fibre_stress_in_place_equals_the_expressions():
     np.testing.assert_array_equal(
         np.multiply(tens, (rho * area)[:, None], out=work), tens * (rho * area)[:, None]
     )
+
+
+@pytest.mark.parametrize(
+    "values", [["EQx", "G+Q", "EQy", "1", "unused"], ["EQx", np.nan, "G"], [1, "EQx", 2.5]]
+)
+def test_earthquake_rows_by_codes_equal_the_text_column(values):
+    """Earthquake rows of the core stress found per distinct combination equal
+    `column.astype(str).isin(names)` of the text column `stack` makes (a blank, numbers among
+    the names, a value no row takes)."""
+    from xlcore import distribution
+    from xlcore.checks import core_stress
+
+    rng = np.random.default_rng(len(values))
+    codes = rng.integers(0, len(values) - 1, 500)  # the last value unused
+    names = {"EQx", "1", "2.5", "nan"}
+    column = pd.Series(distribution.text_of_codes(codes, values))
+    want = column.astype(str).isin(names).to_numpy()
+    got = core_stress.in_names(codes, values, names)
+    np.testing.assert_array_equal(got, want)
+    assert want.any()

@@ -547,7 +547,7 @@ def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np
     return my * ux + mx * uy, mx * ux - my * uy
 
 
-def _text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
+def text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
     """A text column of `values[codes]` (`results.text_column`), of the type pandas gives a
     column of the values present: those no row names are left out first, so that the type is
     that of exactly the column's values, found on the few of them (a value of another type
@@ -573,7 +573,7 @@ def stack(
         if parts[0][k] is None:
             out[k] = np.full(sum(len(p["row"]) for p in parts), None, dtype=object)
         elif k in texts:
-            out[k] = _text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
+            out[k] = text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
         else:
             out[k] = np.concatenate([p[k] for p in parts])
     # each column an array of its own, not copied into one block of every number column (30-50

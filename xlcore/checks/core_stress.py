@@ -12,7 +12,7 @@ import pandas as pd
 from xlcore.checks import plain
 from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, positions, stack
+from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, positions, stack, text_of_codes
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column
@@ -56,6 +56,18 @@ def _zone_bars(sp: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray, np
     x = sp.wx.to_numpy(float)[pier] + sp.ux.to_numpy(float)[pier] * along
     y = sp.wy.to_numpy(float)[pier] + sp.uy.to_numpy(float)[pier] * along
     return x, y, lay.zone_A[live], pier
+
+
+def in_names(codes: np.ndarray, values, names) -> np.ndarray:
+    """`column.astype(str).isin(names)` of the text column `values[codes]` as `stack` makes
+    it, worked on each distinct value once (a column of those values of the same type): not
+    288 000 rows made text and hashed at the L tower."""
+    values = np.asarray(values, dtype=object)
+    used = np.flatnonzero(np.bincount(codes, minlength=len(values)) > 0)
+    few = pd.Series(text_of_codes(np.arange(len(used)), values[used]))
+    hit = np.zeros(len(values), dtype=bool)
+    hit[used] = few.astype(str).isin(names).to_numpy()
+    return hit[codes]
 
 
 def _fibre_stress(sec, a, b, c, x, y) -> tuple[np.ndarray, np.ndarray]:
@@ -171,7 +183,8 @@ def check_core_stress(
     # AS 3600 Cl 14.6 (0.15 f'c) / ACI 318-19 18.10.6.3 (0.2 f'c): extreme-fibre compression is a
     # trigger for end-zone detailing under earthquake actions, not a capacity: a flag on
     # earthquake combinations only
-    quake = df.combination.astype(str).isin(settings.earthquake).to_numpy()
+    combo_rows = np.concatenate([p["combination"] for p in parts])  # each row's combination code
+    quake = in_names(combo_rows, combo_names, settings.earthquake)
     # text columns taken from their few strings (`text_column`: 288 000 rows at the L tower)
     df["earthquake"] = text_column(quake, ["no", "yes"])
     flag = np.where(quake, np.where(df.u_compression > 1.0, 2, 1), 0)
