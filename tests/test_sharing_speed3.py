@@ -343,3 +343,27 @@ def test_earthquake_rows_by_codes_equal_the_text_column(values):
     got = core_stress.in_names(codes, values, names)
     np.testing.assert_array_equal(got, want)
     assert want.any()
+
+
+def test_section_keys_of_storeys_alike_made_once_equal_each_storeys_own():
+    """Section keys with the rows' tuples shared by storeys of equal bytes equal each storey's
+    own key (and group the same): equal rows, rows differing in -0.0 against 0.0 (equal keys
+    either way), and rows with a NaN (a key of its own, as before)."""
+    from types import SimpleNamespace
+
+    from xlcore.checks import core_nm
+
+    sec = SimpleNamespace(xc=1.0, yc=2.0)
+    base = np.array([[1.0, 2.0, 0.0], [3.0, 4.0, 5.0]])
+    negzero = base.copy()
+    negzero[0, 2] = -0.0
+    nan = base.copy()
+    nan[1, 1] = np.nan
+    storeys = [base, base.copy(), negzero, nan, nan.copy(), base[:1]]
+    seen: dict = {}
+    got = [core_nm._key_of(v, sec, seen) for v in storeys]
+    want = [core_nm._key_of(v, sec) for v in storeys]
+    assert [repr(k) for k in got] == [repr(k) for k in want]  # (a NaN equals nothing: compared as text)
+    groups = lambda keys: [next(i for i, k in enumerate(keys) if k == key) for key in keys]  # noqa: E731
+    assert groups(got) == groups(want) == [0, 0, 0, 3, 4, 5]
+    assert got[1][0] is got[0][0] and len(seen) == 3  # equal bytes: one tuple (no NaN ones kept)

@@ -71,9 +71,19 @@ def _section_key(sp: pd.DataFrame, sec) -> tuple:
     return _key_of(sp[_key_columns(sp)].round(6).to_numpy(), sec)
 
 
-def _key_of(values: np.ndarray, sec) -> tuple:
-    """A storey's section key from its piers' rounded key columns (`_key_columns`)."""
-    return (tuple(map(tuple, values)), round(sec.xc, 9), round(sec.yc, 9))
+def _key_of(values: np.ndarray, sec, seen: dict | None = None) -> tuple:
+    """A storey's section key from its piers' rounded key columns (`_key_columns`). `seen`:
+    the rows' tuples of earlier storeys by their bytes, so that storeys alike make them once
+    (numbers without NaN only: equal bytes are then equal tuples, and a NaN, equal to no other,
+    keeps its storey's key apart as before)."""
+    if seen is None or values.dtype.kind != "f" or np.isnan(values).any():
+        rows = tuple(map(tuple, values))
+    else:
+        raw = (values.shape, values.tobytes())
+        rows = seen.get(raw)
+        if rows is None:
+            rows = seen[raw] = tuple(map(tuple, values))
+    return (rows, round(sec.xc, 9), round(sec.yc, 9))
 
 
 def check_core_nm(
@@ -98,8 +108,9 @@ def check_core_nm(
     values = piers[_key_columns(piers)].round(6).to_numpy()
     rows_at = piers.groupby("storey", sort=False).indices
     storey_of, distinct = _storeys(core.storey.to_numpy())
+    rows_of: dict = {}  # storeys alike: their rows' tuples made once
     for storey in distinct:
-        key = _key_of(values[rows_at[storey]], plans[storey].section)
+        key = _key_of(values[rows_at[storey]], plans[storey].section, rows_of)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
     asm = storey_assemblies(piers, plans, storeys, std)
