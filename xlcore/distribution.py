@@ -576,6 +576,4 @@ def stack(
             out[k] = text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
         else:
             out[k] = np.concatenate([p[k] for p in parts])
-    # each column an array of its own, not copied once more into one block of every number
-    # column (30-50 MB at the L tower)
-    return pd.DataFrame(out, columns=columns, copy=False)
+    return pd.DataFrame(out, columns=columns)

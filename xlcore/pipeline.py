@@ -375,8 +375,7 @@ def _in_order(
     """`pd.concat([w, p])` with `used`, `kind_order` and `core_order` added, taken in `order`:
     each column made once, in its final order (numbers written to their rows' final places,
     text taken once), not a concatenated table taken again (648 000 rows x 30 columns made
-    twice at the L tower); a column of its own each (not copied into one block). The column
-    types are those of the concatenation
+    twice at the L tower). The column types are those of the concatenation
     (found on one row of each side). None where a side is empty or a column's type differs
     between the sides (the concatenation then decides)."""
     if not len(w) or not len(p):
@@ -386,13 +385,17 @@ def _in_order(
     at[order] = np.arange(n)  # each row's final place
     sides = ((w, at[:n_w]), (p, at[n_w:]))
     template = pd.concat([w.iloc[:1], p.iloc[:1]], ignore_index=True)
+    floats = [c for c in template.columns if template[c].dtype == np.float64]
+    # the float columns as rows of one array (one allocation, as the block a concatenation
+    # makes: many column-sized arrays left holes in the heap that later phases refilled slowly)
+    block = dict(zip(floats, np.empty((len(floats), n)), strict=True))
     cols: dict[str, object] = {}
     for c in template.columns:
         dtype = template[c].dtype
         if isinstance(dtype, np.dtype) and dtype.kind in "fiu":
             if dtype.kind != "f" and not all(c in t for t, _ in sides):
                 return None  # (a missing side's NaN would make it float)
-            values = np.empty(n, dtype=dtype)
+            values = block[c] if c in block else np.empty(n, dtype=dtype)
             for t, there in sides:
                 values[there] = t[c].to_numpy() if c in t else np.nan
             cols[c] = values
