@@ -7,7 +7,7 @@ start towards its end; M* in-plane positive compresses the wall's end; compressi
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
@@ -54,7 +54,7 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     cols = ["storey", "wall_id", "pier_id", "position", "k", "start", "end", "Lw", "tw", "h"]
     if "m_out" not in actions:  # optional column
         actions = actions.assign(m_out=np.nan)
-    base = actions[["row", "storey", "combination", "member", "n", "v", "m", "m_out"]]
+    base = columns_of(actions, ["row", "storey", "combination", "member", "n", "v", "m", "m_out"])
     keys = (Coded(base.storey), Coded(base.member))  # each row's text keys hashed once, for both
     direct = _given_for_piers(base, piers[cols], keys)
     direct["share"] = 1.0
@@ -65,8 +65,33 @@ def pier_actions(piers: pd.DataFrame, actions: pd.DataFrame, method: str = COMPO
     )  # the merge of only the rows that have a match: the same rows, in the same order
     if len(shared):
         shared = _share_wall(shared, method)
-    out = pd.concat([direct, shared], ignore_index=True)
-    return out[ACTION_COLUMNS]
+    return columns_of(concat_rows(direct, shared), ACTION_COLUMNS)
+
+
+def columns_of(df: pd.DataFrame, names: list[str]) -> pd.DataFrame:
+    """`df[names]`, the columns' arrays as they are: no copy of every row into new blocks (the
+    member actions' 360 000 rows at the L tower were copied three times on their way here)."""
+    return pd.DataFrame({c: df[c] for c in names}, copy=False)
+
+
+def concat_rows(first: pd.DataFrame, rest: pd.DataFrame) -> pd.DataFrame:
+    """`pd.concat([first, rest], ignore_index=True)`. Where `rest` has no row (at the L tower
+    no member action names a cut wall, and the member actions give every storey x combination,
+    so no core pier row is left), `first`'s columns as they are (no copy of its rows) in the
+    concatenation's types (found on one row of `first`), `rest`'s own columns blank (NaN)."""
+    if len(rest) or not len(first):
+        return pd.concat([first, rest], ignore_index=True)
+    template = pd.concat([first.iloc[:1], rest], ignore_index=True)
+    out = {}
+    for c in template.columns:
+        dtype = template[c].dtype
+        if c not in first:
+            if not (isinstance(dtype, np.dtype) and dtype.kind == "f"):
+                return pd.concat([first, rest], ignore_index=True)
+            out[c] = np.full(len(first), np.nan, dtype=dtype)
+        else:
+            out[c] = first[c] if first[c].dtype == dtype else first[c].astype(dtype)
+    return pd.DataFrame(out, copy=False).set_axis(pd.RangeIndex(len(first)))
 
 
 class Coded:
@@ -109,7 +134,7 @@ def _given_for_piers(
     if at is None:
         return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
     found = at >= 0
-    direct = base[found].reset_index(drop=True)
+    direct = (base if found.all() else base[found]).reset_index(drop=True)  # (no copy of every row)
     return direct.assign(**{c: piers[c].to_numpy()[at[found]] for c in piers.columns if c != "storey"})
 
 
@@ -264,11 +289,24 @@ def sections_table(plans: dict[str, StoreyPlan], storey_index: dict[str, int]) -
 
 
 @dataclass
+class Layout:
+    """How `core_actions_to_piers` made its tables' rows, for `pipeline.core_table` to order
+    them by position instead of sorting every row: per storey a block of rows, case after case
+    (a case: one core-actions row's walls, or its piers), every case of a block with the same
+    members in the same order. `walls` and `piers`: each block's (cases, members), blocks in
+    their table's order. Only counts: the rows, members and cores are read from the tables."""
+
+    walls: list[tuple[int, int]] = field(default_factory=list)
+    piers: list[tuple[int, int]] = field(default_factory=list)
+
+
+@dataclass
 class CoreSharing:
     """Everything the core-sharing step derived, for the checks and for the results."""
 
     piers: pd.DataFrame  # ACTION_COLUMNS, one row per storey x combination x pier
     walls: pd.DataFrame  # one row per storey x combination x wall: k, direct, torsion, V, N
+    layout: Layout | None = None  # how the rows were made; None where not known
 
 
 def core_actions_to_piers(
@@ -303,6 +341,7 @@ def core_actions_to_piers(
     # text columns as integer codes while the storeys' pieces are made, a column once at the end
     # (`stack`): no object array per storey, no text inferred row by row (648 000 rows at L)
     names = TextCodes()  # storeys, walls and piers
+    layout = Layout()
     combos_of, combo_names = pd.factorize(core.combination.to_numpy(), use_na_sentinel=False)
     core = core.assign(_combo=combos_of)
     # column arrays per storey, sliced from the whole tables' arrays once (a column of a
@@ -316,6 +355,7 @@ def core_actions_to_piers(
     pier_cols = ["ux", "uy", "wall_id", "_wall", "_pier", "k", "_wall_k", "h", "position"]
     piers_at = arrays_by_storey(piers, pier_cols)
     walls_at = arrays_by_storey(walls, ["wall_id", "_wall", "k", "ux", "uy"])
+    sharing: dict[int, tuple] = {}  # each storey's walls' diaphragm.Sharing, by the walls' id
     case_cols = ["row", "_combo", "vx", "vy", "t", "x_v", "y_v", "n", "mx", "my"]
     cases_at = arrays_by_storey(core, case_cols + (["acc"] if "acc" in core else []))
     for storey, cs in cases_at.items():
@@ -333,14 +373,16 @@ def core_actions_to_piers(
         m_cr = t + vy * (xv - xr) - vx * (yv - yr)
         acc = cs["acc"].astype(float) if "acc" in cs else accidental  # per row where given
         d_acc = acc * (np.abs(vy) * (sec.xmax - sec.xmin) + np.abs(vx) * (sec.ymax - sec.ymin))
-        base = diaphragm.share_with_accidental(st, vx, vy, m_cr, d_acc)
+        if id(st) not in sharing:  # storeys alike in plan share their walls (`storey_plans`)
+            sharing[id(st)] = (st, diaphragm.Sharing(st))
+        base = sharing[id(st)][1].with_accidental(vx, vy, m_cr, d_acc)
         torsion, total = base.torsion, base.total
         a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
         n_piece = section.piece_forces(sec, plan.piece_moments, a, b, c)  # piers x combinations
         m_in, m_oop = own_moments(plan.piece_moments, b, c, sp["ux"], sp["uy"])
         walls_here = sw["wall_id"]
         n_w, n_c, n_p = len(walls_here), len(cs["row"]), len(sp["k"])
-        wall_of_pier = pd.Index(walls_here).get_indexer(sp["wall_id"])
+        wall_of_pier = positions(sw["_wall"], sp["_wall"], walls_here, sp["wall_id"], names)
         member = np.zeros((n_w, n_p))
         member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
         along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
@@ -348,6 +390,8 @@ def core_actions_to_piers(
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
         rows, combos = cs["row"], cs["_combo"]
         storey_code = names.codes([storey])[0]
+        layout.walls.append((n_c, n_w))
+        layout.piers.append((n_c, n_p))
         wall_rows.append(
             dict(
                 row=np.repeat(rows, n_w),
@@ -406,7 +450,7 @@ def core_actions_to_piers(
         )
     texts = dict(storey=names.values, wall_id=names.values, pier_id=names.values, combination=combo_names)
     return CoreSharing(
-        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts)
+        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts), layout
     )
 
 
@@ -417,6 +461,14 @@ class TextCodes:
     def __init__(self) -> None:
         self.values: list = []
         self._code: dict = {}
+        self._text = 0  # the values up to here are all text (negative: one is not)
+
+    def all_text(self) -> bool:
+        """Whether every value is a str (checked once per value)."""
+        if 0 <= self._text < len(self.values):  # the values added since
+            new = self.values[self._text :]
+            self._text = len(self.values) if all(isinstance(v, str) for v in new) else -1
+        return self._text >= 0
 
     def codes(self, values) -> np.ndarray:
         out = np.empty(len(values), dtype=np.int64)
@@ -428,6 +480,21 @@ class TextCodes:
                 self.values.append(v)
             out[i] = code
         return out
+
+
+def positions(key_codes: np.ndarray, codes: np.ndarray, keys, values, names: TextCodes) -> np.ndarray:
+    """`pd.Index(keys).get_indexer(values)` (each value's position among the keys, -1 where
+    none) by the integer codes `names` gave them (`key_codes`, `codes`): a look-up table of a
+    few codes, not an Index of text per storey. The Index itself where a key is repeated (it
+    raises) or a name is not text (an Index and `TextCodes` could tell other values apart
+    differently)."""
+    if not names.all_text():
+        return pd.Index(keys).get_indexer(values)
+    at = np.full(len(names.values), -1, dtype=np.intp)
+    at[key_codes] = np.arange(len(key_codes))
+    if not np.array_equal(at[key_codes], np.arange(len(key_codes))):  # a key repeated
+        return pd.Index(keys).get_indexer(values)
+    return at[codes]
 
 
 def arrays_by_storey(df: pd.DataFrame, columns: list[str]) -> dict[str, dict[str, np.ndarray]]:
@@ -480,7 +547,7 @@ def own_moments(piece_moments: np.ndarray, b, c, ux, uy) -> tuple[np.ndarray, np
     return my * ux + mx * uy, mx * ux - my * uy
 
 
-def _text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
+def text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray:
     """A text column of `values[codes]` (`results.text_column`), of the type pandas gives a
     column of the values present: those no row names are left out first, so that the type is
     that of exactly the column's values, found on the few of them (a value of another type
@@ -506,7 +573,7 @@ def stack(
         if parts[0][k] is None:
             out[k] = np.full(sum(len(p["row"]) for p in parts), None, dtype=object)
         elif k in texts:
-            out[k] = _text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
+            out[k] = text_of_codes(np.concatenate([p[k] for p in parts]), texts[k])
         else:
             out[k] = np.concatenate([p[k] for p in parts])
     return pd.DataFrame(out, columns=columns)

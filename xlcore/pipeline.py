@@ -281,7 +281,7 @@ def pier_actions(
             "core checks only",
             "core checks and piers",
         )
-    return pd.concat([member, core_piers], ignore_index=True), table, split
+    return distribution.concat_rows(member, core_piers), table, split  # L: no core row left
 
 
 def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) -> pd.DataFrame:
@@ -352,15 +352,164 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
         share_pct=core.piers.share * 100,
         working=core.piers.source,
     )
+    by_layout = _layout_order(core)
+    out = _in_order(w, p, *by_layout, given) if by_layout is not None else None
+    if out is not None:
+        return core_working(out) if text else out
     out = pd.concat([w, p], ignore_index=True)
-    out["used"] = results.text_column(out.row.isin(given), ["yes", "no: member actions given"])
+    out["used"] = results.text_column(out.row.isin(given), USED)
     out["kind_order"] = np.repeat([0, 1], [len(w), len(p)])  # walls first, then piers
-    out["core_order"] = _first_seen_codes(out.core.to_numpy())  # order of first appearance
-    # by row, core, walls before piers, member in natural order; a stable sort on integer keys
-    # (what sort_values on these columns does, without its per-column factorising)
-    keys = (_natural_rank(out.member.to_numpy()), out.kind_order.to_numpy(), out.core_order.to_numpy())
-    out = out.take(np.lexsort([*keys, out.row.to_numpy()])).reset_index(drop=True)
+    if by_layout is None:
+        out["core_order"] = _first_seen_codes(out.core.to_numpy())  # order of first appearance
+        order = _sorted_order(out)
+    else:
+        out["core_order"], order = by_layout
+    out = out.take(order).reset_index(drop=True)
     return core_working(out) if text else out
+
+
+USED = ["yes", "no: member actions given"]  # the core-sharing table's "Used" words
+
+
+def _in_order(
+    w: pd.DataFrame, p: pd.DataFrame, core_order: np.ndarray, order: np.ndarray, given: np.ndarray
+) -> pd.DataFrame | None:
+    """`pd.concat([w, p])` with `used`, `kind_order` and `core_order` added, taken in `order`:
+    each column made once, in its final order (numbers written to their rows' final places,
+    text taken once), not a concatenated table taken again (648 000 rows x 30 columns made
+    twice at the L tower). The column types are those of the concatenation
+    (found on one row of each side). None where a side is empty or a column's type differs
+    between the sides (the concatenation then decides)."""
+    if not len(w) or not len(p):
+        return None
+    n_w, n = len(w), len(w) + len(p)
+    at = np.empty(n, dtype=np.intp)
+    at[order] = np.arange(n)  # each row's final place
+    sides = ((w, at[:n_w]), (p, at[n_w:]))
+    template = pd.concat([w.iloc[:1], p.iloc[:1]], ignore_index=True)
+    floats = [c for c in template.columns if template[c].dtype == np.float64]
+    # the float columns as rows of one array (one allocation, as the block a concatenation
+    # makes: many column-sized arrays left holes in the heap that later phases refilled slowly)
+    block = dict(zip(floats, np.empty((len(floats), n)), strict=True))
+    cols: dict[str, object] = {}
+    for c in template.columns:
+        dtype = template[c].dtype
+        if isinstance(dtype, np.dtype) and dtype.kind in "fiu":
+            if dtype.kind != "f" and not all(c in t for t, _ in sides):
+                return None  # (a missing side's NaN would make it float)
+            values = block[c] if c in block else np.empty(n, dtype=dtype)
+            for t, there in sides:
+                values[there] = t[c].to_numpy() if c in t else np.nan
+            cols[c] = values
+            continue
+        if any(t[c].dtype != dtype for t, _ in sides if c in t):
+            return None
+        arrays = [t[c].array for t, _ in sides if c in t]
+        if len(arrays) == 2:
+            cols[c] = type(arrays[0])._concat_same_type(arrays).take(order)
+        else:  # one side's column, blank (its type's NA) on the other side's rows
+            t, there = next((t, there) for t, there in sides if c in t)
+            pick = np.full(n, -1, dtype=np.intp)
+            pick[there] = np.arange(len(t))
+            cols[c] = t[c].array.take(pick, allow_fill=True)
+    cols["used"] = results.text_column(np.isin(cols["row"], given), USED)
+    cols["kind_order"] = np.repeat([0, 1], [n_w, n - n_w])[order]
+    cols["core_order"] = core_order[order]
+    return pd.DataFrame(cols, copy=False)
+
+
+def _sorted_order(out: pd.DataFrame) -> np.ndarray:
+    """The core-sharing rows' order by row, core, walls before piers, member in natural order:
+    a stable sort on integer keys (what sort_values on these columns does, without its
+    per-column factorising)."""
+    keys = (_natural_rank(out.member.to_numpy()), out.kind_order.to_numpy(), out.core_order.to_numpy())
+    return np.lexsort([*keys, out.row.to_numpy()])
+
+
+def _layout_order(core: distribution.CoreSharing) -> tuple[np.ndarray, np.ndarray] | None:
+    """`_sorted_order` of the walls-then-piers rows and their `core_order` column, by position
+    from the layout `distribution.core_actions_to_piers` made them in (`CoreSharing.layout`):
+    the rows of one core-actions row (a case) stand together, every case of a storey with the
+    same members in the same order. So the order is: the cases sorted by row, core and kind
+    (12 000 at the L tower, not 648 000 rows), each case's members in the natural order of
+    their IDs, found once per storey. Rows, IDs and cores are read from the tables (at each
+    case's or storey's first row), the rows checked against the layout. None where the layout
+    is unknown or does not fit the tables' rows, does not decide the order (two cases of one
+    row, core and kind: the sort interleaves their members) or an ID or core is not text."""
+    if core.layout is None:
+        return None
+    sides = [
+        _cases(core.walls, core.layout.walls, "wall_id", 0),
+        _cases(core.piers, core.layout.piers, "pier_id", len(core.walls)),
+    ]
+    if sides[0] is None or sides[1] is None:
+        return None
+    row, label, start, size, block = (np.concatenate([getattr(c, k) for c in sides]) for k in _Cases.KEYS)
+    kind = np.repeat([0, 1], [len(sides[0].row), len(sides[1].row)])
+    block = block + np.repeat([0, len(sides[0].ids)], [len(sides[0].row), len(sides[1].row)])
+    ids = sides[0].ids + sides[1].ids  # each block's member IDs
+    first = dict.fromkeys(m for members in ids for m in members)  # in order of first appearance
+    if not all(isinstance(c, str) for c in label) or not all(isinstance(m, str) for m in first):
+        return None  # (a dictionary and factorize could tell other values apart differently)
+    rank = {m: r for r, m in enumerate(sorted(first, key=geometry._natural))}  # stable: ties by first seen
+    perms = [
+        np.argsort(np.array([rank[m] for m in members], dtype=np.int64), kind="stable") for members in ids
+    ]
+    code = _first_seen_codes(label)  # the cores in order of first appearance over the rows
+    cases = np.lexsort((kind, code, row))
+    r, c, k = row[cases], code[cases], kind[cases]
+    if ((r[1:] == r[:-1]) & (c[1:] == c[:-1]) & (k[1:] == k[:-1])).any():
+        return None
+    within = [perms[b] for b in block[cases]]
+    order = np.repeat(start[cases], size[cases]) + (
+        np.concatenate(within) if within else np.zeros(0, np.int64)
+    )
+    return np.repeat(code, size), order
+
+
+@dataclass
+class _Cases:
+    """The cases of one side (walls or piers) of the core-sharing rows, for `_layout_order`:
+    each case's row, core, first position in the walls-then-piers table, size and block (a
+    storey), and each block's member IDs."""
+
+    KEYS = ("row", "label", "start", "size", "block")
+    row: np.ndarray
+    label: np.ndarray
+    start: np.ndarray
+    size: np.ndarray
+    block: np.ndarray
+    ids: list
+
+
+def _cases(table: pd.DataFrame, blocks: list[tuple[int, int]], member: str, offset: int) -> _Cases | None:
+    """One side's cases (`_Cases`) from its table and its layout's blocks (cases, members),
+    blocks without rows left out; None where the layout does not fit the table's rows."""
+    counts, members = (np.array([b[i] for b in blocks], dtype=np.int64).reshape(-1) for i in (0, 1))
+    if int((counts * members).sum()) != len(table):
+        return None
+    live = (counts > 0) & (members > 0)
+    counts, members = counts[live], members[live]
+    size = np.repeat(members, counts)
+    start = np.cumsum(size) - size  # each case's first row in the table
+    rows = table.row.to_numpy()
+    if rows.dtype.kind not in "iu" or not np.array_equal(np.repeat(rows[start], size), rows):
+        return None
+    # each storey's IDs at its first case, all in one take (not a copy of the whole column)
+    first = np.repeat(start[np.cumsum(counts) - counts], members)
+    ids = table[member].array.take(
+        first + np.arange(len(first)) - np.repeat(np.cumsum(members) - members, members)
+    )
+    ids = ids.tolist()
+    at = np.cumsum(members) - members
+    return _Cases(
+        row=rows[start],
+        label=np.asarray(table.core.array.take(start), dtype=object),
+        start=start + offset,
+        size=size,
+        block=np.repeat(np.arange(len(counts)), counts),
+        ids=[ids[a : a + m] for a, m in zip(at.tolist(), members.tolist(), strict=True)],
+    )
 
 
 def _first_seen(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -418,5 +567,3 @@ def _rework_rows(check, acts: pd.DataFrame):
         return out.set_index("_act").loc[ask].reset_index()
 
     return rework
-
-

@@ -71,9 +71,19 @@ def _section_key(sp: pd.DataFrame, sec) -> tuple:
     return _key_of(sp[_key_columns(sp)].round(6).to_numpy(), sec)
 
 
-def _key_of(values: np.ndarray, sec) -> tuple:
-    """A storey's section key from its piers' rounded key columns (`_key_columns`)."""
-    return (tuple(map(tuple, values)), round(sec.xc, 9), round(sec.yc, 9))
+def _key_of(values: np.ndarray, sec, seen: dict | None = None) -> tuple:
+    """A storey's section key from its piers' rounded key columns (`_key_columns`). `seen`:
+    the rows' tuples of earlier storeys by their bytes, so that storeys alike make them once
+    (numbers without NaN only: equal bytes are then equal tuples, and a NaN, equal to no other,
+    keeps its storey's key apart as before)."""
+    if seen is None or values.dtype.kind != "f" or np.isnan(values).any():
+        rows = tuple(map(tuple, values))
+    else:
+        raw = (values.shape, values.tobytes())
+        rows = seen.get(raw)
+        if rows is None:
+            rows = seen[raw] = tuple(map(tuple, values))
+    return (rows, round(sec.xc, 9), round(sec.yc, 9))
 
 
 def check_core_nm(
@@ -97,8 +107,10 @@ def check_core_nm(
     # sub-table per storey cost more than the sections' keys themselves); the same keys
     values = piers[_key_columns(piers)].round(6).to_numpy()
     rows_at = piers.groupby("storey", sort=False).indices
-    for storey in dict.fromkeys(core.storey):
-        key = _key_of(values[rows_at[storey]], plans[storey].section)
+    storey_of, distinct = _storeys(core.storey.to_numpy())
+    rows_of: dict = {}  # storeys alike: their rows' tuples made once
+    for storey in distinct:
+        key = _key_of(values[rows_at[storey]], plans[storey].section, rows_of)
         section_of[storey] = by_key.setdefault(key, storey)
     storeys = list(by_key.values())
     asm = storey_assemblies(piers, plans, storeys, std)
@@ -152,7 +164,7 @@ def check_core_nm(
     dmx_curve = (phi_s * mx_s).reshape(-1, SAMPLES)
     dmy_curve = (phi_s * my_s).reshape(-1, SAMPLES)
 
-    case_storey = np.array([s_index[section_of[x]] for x in core.storey])
+    case_storey = np.array([s_index[section_of[x]] for x in distinct])[storey_of]
     n_star = core.n.to_numpy(dtype=float) * 1e3
     ci = np.repeat(np.arange(len(core)), ANGLES)  # case of each (case, angle) pair
     kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its section x angle row
@@ -176,6 +188,19 @@ def check_core_nm(
     px, py = px.reshape(len(core), ANGLES), py.reshape(len(core), ANGLES)
 
     return _rows(core, std, phi0, nuo[case_storey], nuot[case_storey], px, py)
+
+
+def _storeys(storey: np.ndarray) -> tuple[np.ndarray, list]:
+    """Each case's storey as a position in the distinct storeys (in order of first appearance,
+    `dict.fromkeys`' order), found by hashing the column once: the cases' sections are looked
+    up per storey, not per case (6 000 at the L tower). By the dictionary itself where a storey
+    is not text (a dictionary and factorize could tell other values apart differently)."""
+    codes, distinct = pd.factorize(storey)
+    if (codes < 0).any() or not all(isinstance(s, str) for s in distinct):
+        distinct = list(dict.fromkeys(storey))
+        at = {s: i for i, s in enumerate(distinct)}
+        return np.array([at[s] for s in storey], dtype=np.intp), distinct
+    return codes, list(distinct)
 
 
 def _curve_points(asm: nm_core.Assembly, si: np.ndarray, th: np.ndarray, dn_s: np.ndarray):

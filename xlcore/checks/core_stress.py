@@ -12,7 +12,7 @@ import pandas as pd
 from xlcore.checks import plain
 from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, stack
+from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, positions, stack, text_of_codes
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column
@@ -58,6 +58,30 @@ def _zone_bars(sp: pd.DataFrame) -> tuple[np.ndarray, np.ndarray, np.ndarray, np
     return x, y, lay.zone_A[live], pier
 
 
+def in_names(codes: np.ndarray, values, names) -> np.ndarray:
+    """`column.astype(str).isin(names)` of the text column `values[codes]` as `stack` makes
+    it, worked on each distinct value once (a column of those values of the same type): not
+    288 000 rows made text and hashed at the L tower."""
+    values = np.asarray(values, dtype=object)
+    used = np.flatnonzero(np.bincount(codes, minlength=len(values)) > 0)
+    few = pd.Series(text_of_codes(np.arange(len(used)), values[used]))
+    hit = np.zeros(len(values), dtype=bool)
+    hit[used] = few.astype(str).isin(names).to_numpy()
+    return hit[codes]
+
+
+def _fibre_stress(sec, a, b, c, x, y) -> tuple[np.ndarray, np.ndarray]:
+    """`section.stress_at(sec, a, b, c, x, y) / 1000` at fibres x, y (rows) for stress planes
+    a, b, c (columns), worked in one array in the expression's order (the same numbers), and a
+    second array of its shape for the caller's products."""
+    sigma = np.multiply(b[None, :], (x - sec.xc)[:, None])
+    np.add(a[None, :], sigma, out=sigma)
+    work = np.multiply(c[None, :], (y - sec.yc)[:, None])
+    sigma += work
+    sigma /= 1000.0
+    return sigma, work
+
+
 def check_core_stress(
     piers: pd.DataFrame,
     plans: dict[str, StoreyPlan],
@@ -94,7 +118,9 @@ def check_core_stress(
         sec = plans[storey].section
         a, b, c = section.stress_plane(sec, cs["n"], cs["mx"], cs["my"])
         walls = {k: v[here[first[here]]] for k, v in cols.items()}  # as drop_duplicates("wall_id")
-        wall_of_pier = pd.Index(walls["wall_id"]).get_indexer(cols["wall_id"][here])
+        wall_of_pier = positions(
+            walls["_wall"], cols["_wall"][here], walls["wall_id"], cols["wall_id"][here], names
+        )
         runs = fib_start[here + 1] - fib_start[here]
         fibres = np.repeat(fib_start[here] - np.cumsum(runs) + runs, runs) + np.arange(runs.sum())
         # fibres in wall order, so each wall's fibres are one run for the reductions below
@@ -102,16 +128,23 @@ def check_core_stress(
         order = np.argsort(wall_of, kind="stable")
         fx, fy_, area, rho = (fib[k][fibres][order] for k in ("x", "y", "area", "rho_v"))
         starts = np.searchsorted(wall_of[order], np.arange(len(walls["wall_id"])))
-        sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], fx[:, None], fy_[:, None]) / 1000.0
-        tens = sigma < 0  # fibres x combos, MPa (kPa / 1000)
-        tension_area = np.add.reduceat(tens * area[:, None], starts, axis=0)  # walls x combos, m^2
-        tension = np.add.reduceat(np.maximum(-sigma, 0) * area[:, None], starts, axis=0) * 1000.0  # kN
-        provided = np.add.reduceat(tens * (rho * area)[:, None], starts, axis=0) * 1e6
+        sigma, work = _fibre_stress(sec, a, b, c, fx, fy_)  # fibres x combos, MPa (kPa / 1000)
+        tens = sigma < 0
+        # each product in one work array, the operations of `tens * area`, `maximum(-sigma, 0) *
+        # area` and `tens * (rho area)` in their order (the same numbers, no array per product)
+        tension_area = np.add.reduceat(np.multiply(tens, area[:, None], out=work), starts, axis=0)  # m^2
+        np.negative(sigma, out=work)
+        np.maximum(work, 0, out=work)
+        work *= area[:, None]
+        tension = np.add.reduceat(work, starts, axis=0) * 1000.0  # kN
+        provided = np.add.reduceat(np.multiply(tens, (rho * area)[:, None], out=work), starts, axis=0) * 1e6
         z = zones_at.get(storey)
         if z is not None and len(z):  # end-zone bars in tension add their own area to their wall's
             zx, zy, za = zx_all[z], zy_all[z], za_all[z]
             z_sigma = section.stress_at(sec, a[None, :], b[None, :], c[None, :], zx[:, None], zy[:, None])
-            z_wall = pd.Index(walls["wall_id"]).get_indexer(cols["wall_id"][zp_all[z]])
+            z_wall = positions(
+                walls["_wall"], cols["_wall"][zp_all[z]], walls["wall_id"], cols["wall_id"][zp_all[z]], names
+            )
             np.add.at(provided, z_wall, (z_sigma < 0) * za[:, None])
         wx, wy, ux, uy, length = (walls[k] for k in ("wx", "wy", "ux", "uy", "wall_length"))
         end_sigma = [
@@ -150,7 +183,8 @@ def check_core_stress(
     # AS 3600 Cl 14.6 (0.15 f'c) / ACI 318-19 18.10.6.3 (0.2 f'c): extreme-fibre compression is a
     # trigger for end-zone detailing under earthquake actions, not a capacity: a flag on
     # earthquake combinations only
-    quake = df.combination.astype(str).isin(settings.earthquake).to_numpy()
+    combo_rows = np.concatenate([p["combination"] for p in parts])  # each row's combination code
+    quake = in_names(combo_rows, combo_names, settings.earthquake)
     # text columns taken from their few strings (`text_column`: 288 000 rows at the L tower)
     df["earthquake"] = text_column(quake, ["no", "yes"])
     flag = np.where(quake, np.where(df.u_compression > 1.0, 2, 1), 0)
@@ -174,7 +208,12 @@ def with_working(rows: pd.DataFrame, settings: Settings, *, std: Standard | None
         f"sigma max {sm:.2f} MPa vs {lim:.2f} MPa (flag, earthquake combinations)"
         for t, ta, fy, ar, ap, sm, lim in zip(
             *plain(
-                rows.tension, rows.tension_area, rows.fsy, rows.as_req, rows.as_prov, rows.sigma_max,
+                rows.tension,
+                rows.tension_area,
+                rows.fsy,
+                rows.as_req,
+                rows.as_prov,
+                rows.sigma_max,
                 rows.limit,
             ),
             strict=True,
