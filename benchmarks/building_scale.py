@@ -8,6 +8,7 @@ between machines, so compare ratios from one run.
     python benchmarks/building_scale.py                 # S and M, 3 runs each
     python benchmarks/building_scale.py S M L --runs 3  # choose sizes and runs
     python benchmarks/building_scale.py M --detail all --libreoffice  # every row; time LibreOffice
+    python benchmarks/building_scale.py L --varied      # N* and M* differ in every combination
 """
 
 from __future__ import annotations
@@ -32,10 +33,12 @@ PHASES = ("read", "validate", "geometry", "sharing", "checks", "core checks", "a
 KERNELS = ("geometry", "sharing", "checks", "core checks", "advice")
 
 
-def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
+def generate(path: Path, storeys: int, boxes: int, combos: int, varied: bool = False) -> int:
     """A tower of `boxes` box cores in a row, one door per box, actions for every pier, filled
     into the project's own blank template (`xlcore template`). Returns the number of pier cases
-    (storey x pier x combination)."""
+    (storey x pier x combination). A pier's N* and M* are the same in every combination unless
+    `varied`: then they differ by combination and pier, as an analysis reports them, so work a
+    check shares between repeated cases gains nothing."""
     import openpyxl
 
     from xlcore import layout
@@ -66,9 +69,11 @@ def generate(path: Path, storeys: int, boxes: int, combos: int) -> int:
         above = storeys - i
         for c in range(combos):
             for j, m in enumerate(members):
-                sheets["member_actions"].append(
-                    [n, f"C{c}", m, 300.0 * above, 20.0 * above * (1 + c % 3), 40.0 * above * (1 + j % 2)]
-                )
+                n_star, m_star = 300.0 * above, 40.0 * above * (1 + j % 2)
+                if varied:
+                    n_star = round(n_star * (1 + 0.003 * (c % 11) + 0.001 * (j % 5)), 1)
+                    m_star = round(m_star * (1 + 0.007 * (c % 13) - 0.002 * (j % 5)), 1)
+                sheets["member_actions"].append([n, f"C{c}", m, n_star, 20.0 * above * (1 + c % 3), m_star])
                 rows += 1
             sheets["core_actions"].append(
                 [
@@ -227,10 +232,12 @@ def libreoffice_open(path: Path, profile: Path) -> float | None:
     return convert(path)
 
 
-def main(sizes: list[str], runs: int, detail: str, lo: bool) -> None:
+def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = False) -> None:
     print(
-        f"medians of {runs} runs, seconds; --detail {detail}; kernels = geometry + sharing + checks + "
-        "core checks + advice; write = workbook + Parquet files (parquet: their thread, overlapping)"
+        f"medians of {runs} runs, seconds; --detail {detail}"
+        f"{'; --varied: N* and M* differ in every combination' if varied else ''}; "
+        "kernels = geometry + sharing + checks + core checks + advice; "
+        "write = workbook + Parquet files (parquet: their thread, overlapping)"
     )
     head = "".join(f"{p[:7]:>8}" for p in PHASES)
     print(
@@ -243,7 +250,7 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool) -> None:
         storeys, boxes, combos = SIZES[size]
         with tempfile.TemporaryDirectory() as d:
             path = Path(d) / f"{size}.xlsx"
-            cases = generate(path, storeys, boxes, combos)
+            cases = generate(path, storeys, boxes, combos, varied)
             results = []
             for _ in range(runs):
                 r = subprocess.run(
@@ -321,5 +328,10 @@ if __name__ == "__main__":
         ap.add_argument(
             "--libreoffice", action="store_true", help="also time LibreOffice opening the computed workbook"
         )
+        ap.add_argument(
+            "--varied",
+            action="store_true",
+            help="N* and M* different in every combination (no repeated cases)",
+        )
         a = ap.parse_args()
-        main(a.sizes, a.runs, a.detail, a.libreoffice)
+        main(a.sizes, a.runs, a.detail, a.libreoffice, a.varied)

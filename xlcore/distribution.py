@@ -225,7 +225,8 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
         if key in seen:
             out[storey] = seen[key]
             continue
-        pieces = section.disjoint_pieces(piers.iloc[ip])
+        sp = piers.iloc[ip]
+        pieces = section.disjoint_pieces(sp)  # the net section: each overlap once
         k, ux, uy, mx, my = (np.ascontiguousarray(wall_cols[iw, j]) for j in range(len(WALL_COLUMNS)))
         st = diaphragm.Storey(k, ux, uy, mx, my)
         try:
@@ -233,7 +234,7 @@ def storey_plans(piers: pd.DataFrame, walls: pd.DataFrame) -> dict[str, StoreyPl
         except diaphragm.Unstable:
             centre = None
         out[storey] = seen[key] = StoreyPlan(
-            section.section_of(pieces), np.array([section.moments(p) for p in pieces]), st, centre
+            section.section_of(pieces), section.shared_moments(sp), st, centre
         )
     return out
 

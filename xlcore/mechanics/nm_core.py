@@ -5,8 +5,9 @@ Mx = sum F (y - yc) (compresses +y when positive) and My = sum F (x - xc).
 
 Concrete is cut into fibres (short strips of each wall, a few across its thickness); a fibre
 partly inside the stress block counts in proportion to the part of its extent (measured normal
-to the neutral axis) that lies inside. Fibres inside a wall listed earlier are dropped, so
-corner overlaps count once. Bars sit at their positions and displace concrete in the block.
+to the neutral axis) that lies inside. A fibre inside k walls' rectangles (a corner overlap)
+counts 1/k of its area, so the overlap counts once whichever wall is listed or named first,
+with the mean of the walls' f'c. Bars sit at their positions and displace concrete in the block.
 """
 
 from __future__ import annotations
@@ -95,23 +96,23 @@ def build(
 def _one(walls: list[tuple], fibre: float, across: int) -> dict[str, np.ndarray]:
     keys = ("fx", "fy", "fa", "eux", "euy", "evx", "evy", "fc", "bx", "by", "ba", "fsy", "vx", "vy")
     out: dict[str, list[np.ndarray]] = {k: [] for k in keys}
-    rects: list[tuple] = []
-    for x1, y1, x2, y2, t, fc, fsy, bars in walls:
+    rects = []
+    for x1, y1, x2, y2, t, *_ in walls:
         L = float(np.hypot(x2 - x1, y2 - y1))
-        ux, uy = (x2 - x1) / L, (y2 - y1) / L
+        rects.append((x1, y1, (x2 - x1) / L, (y2 - y1) / L, L, t))
+    for (x1, y1, ux, uy, L, t), (*_, fc, fsy, bars) in zip(rects, walls, strict=True):
         vx, vy = -uy, ux
         n_along = max(int(np.ceil(L / fibre)), 1)
         s = (np.arange(n_along) + 0.5) * L / n_along
         r = (np.arange(across) + 0.5) * t / across - t / 2
         S, R = np.meshgrid(s, r, indexing="ij")
-        px, py = x1 + ux * S + vx * R, y1 + uy * S + vy * R
-        k = ~_inside_any(px.ravel(), py.ravel(), rects)  # drop fibres already inside an earlier wall
-        rects.append((x1, y1, ux, uy, L, t))
-        count = int(k.sum())
-        out["fx"].append(px.ravel()[k])
-        out["fy"].append(py.ravel()[k])
+        px, py = (x1 + ux * S + vx * R).ravel(), (y1 + uy * S + vy * R).ravel()
+        covers = _covering(px, py, rects)  # 1 but in a corner overlap (its own wall among them)
+        count = len(px)
+        out["fx"].append(px)
+        out["fy"].append(py)
+        out["fa"].append(L / n_along * t / across / covers)
         for key, value in (
-            ("fa", L / n_along * t / across),
             ("eux", ux * L / n_along / 2),
             ("euy", uy * L / n_along / 2),
             ("evx", vx * t / across / 2),
@@ -131,17 +132,16 @@ def _one(walls: list[tuple], fibre: float, across: int) -> dict[str, np.ndarray]
     return {k: np.concatenate(v) if v else np.zeros(0) for k, v in out.items()}
 
 
-def _inside_any(px: np.ndarray, py: np.ndarray, rects: list[tuple]) -> np.ndarray:
-    """Whether each point lies inside any of the rectangles (x1, y1, ux, uy, L, t): a wall's
-    centreline from (x1, y1) along (ux, uy), L long, t thick. Every rectangle at once (the
-    same arithmetic per point and rectangle as one at a time)."""
-    if not rects:
-        return np.zeros(len(px), dtype=bool)
+def _covering(px: np.ndarray, py: np.ndarray, rects: list[tuple]) -> np.ndarray:
+    """How many of the rectangles (x1, y1, ux, uy, L, t) each point lies inside (a wall's
+    centreline from (x1, y1) along (ux, uy), L long, t thick), at least 1: the fibres' own
+    wall, should rounding put a centre on its edge outside it."""
     ax, ay, aux, auy, a_len, a_t = (np.array(c, dtype=float)[None, :] for c in zip(*rects, strict=True))
     dx, dy = px[:, None] - ax, py[:, None] - ay
     along = dx * aux + dy * auy
     off = -dx * auy + dy * aux
-    return ((along >= 0) & (along <= a_len) & (np.abs(off) <= a_t / 2)).any(axis=1)
+    inside = (along >= 0) & (along <= a_len) & (np.abs(off) <= a_t / 2)
+    return np.maximum(inside.sum(axis=1), 1)
 
 
 def _frame(a: Assembly, idx, theta):

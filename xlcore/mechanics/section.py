@@ -2,8 +2,9 @@
 
 Plan units are m (areas m^2, second moments m^4). Each wall or pier is a rectangle of its
 centreline length and thickness; where rectangles overlap at a corner the overlap is counted
-once (given to the member listed first) and the outer corner square is not added (centreline
-idealisation, common practice, no source).
+once in the section, and the outer corner square is not added (centreline idealisation,
+common practice, no source). What each member carries of an overlap (`shared_moments`) is an
+equal share: half to each of two walls meeting at a corner, whatever their IDs or order.
 """
 
 from __future__ import annotations
@@ -18,7 +19,11 @@ from shapely.geometry.polygon import orient
 
 
 def rectangle(x1: float, y1: float, x2: float, y2: float, thickness_m: float) -> Polygon:
-    """The plan rectangle of a wall or pier centreline with its thickness."""
+    """The plan rectangle of a wall or pier centreline with its thickness. A coordinate within
+    a nanometre of zero is zero: the geometry library's overlaps go wrong on subnormal numbers
+    (a corner at y = 2.2e-308 m gave a 50 % larger overlap, and pieces that no longer added up
+    to the section)."""
+    x1, y1, x2, y2 = (0.0 if abs(v) < 1e-9 else v for v in (x1, y1, x2, y2))
     dx, dy = x2 - x1, y2 - y1
     length = math.hypot(dx, dy)
     nx, ny = -dy / length * thickness_m / 2, dx / length * thickness_m / 2
@@ -34,6 +39,39 @@ def disjoint_pieces(piers: pd.DataFrame) -> list[Polygon | MultiPolygon]:
         rect = rectangle(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0)
         out.append(rect if taken is None else rect.difference(taken))
         taken = rect if taken is None else taken.union(rect)
+    return out
+
+
+def shared_moments(piers: pd.DataFrame) -> np.ndarray:
+    """Each pier's [A, Qx, Qy, Ixx0, Iyy0, Ixy0] (`moments`) with every overlap shared equally
+    among the piers that cover it, rows in `piers`' order: a point covered by k rectangles
+    counts 1/k to each. The rows add up to the net section (the union) as `disjoint_pieces` do,
+    but no member's share depends on which is listed or named first (giving a corner to the
+    first pier in ID order moved 5 % of a wall's N* and 14 % of a pier's M* when walls were
+    renamed). By inclusion-exclusion over the piers' common parts: pier i gets
+    sum over sets S holding i of (-1)^(|S|-1) / |S| x moments(intersection of S), which is
+    1/k at a point covered k times, since sum over m of C(k-1, m-1) (-1)^(m-1) / m = 1/k.
+    A pier that overlaps none keeps the moments of its own rectangle."""
+    rects = [rectangle(r.px1, r.py1, r.px2, r.py2, r.tw / 1000.0) for r in piers.itertuples(index=False)]
+    out = np.array([moments(r) for r in rects]) if rects else np.zeros((0, 6))
+    touching = [
+        [j for j in range(len(rects)) if j != i and rects[i].intersection(rects[j]).area > 0]
+        for i in range(len(rects))
+    ]
+
+    def common(i: int, members: tuple[int, ...], shape, depth: int) -> None:
+        # every set {i, members...} with members in increasing order, each set once per pier
+        for j in touching[i]:
+            if members and j <= members[-1]:
+                continue
+            part = shape.intersection(rects[j])
+            if part.area <= 0:
+                continue
+            out[i] += (-1) ** depth / (depth + 1) * moments(part)
+            common(i, (*members, j), part, depth + 1)
+
+    for i in range(len(rects)):
+        common(i, (), rects[i], 1)
     return out
 
 
