@@ -1226,7 +1226,7 @@ def evaluate_options(
     `advise` must agree with). Singles carry `offered` (may stand alone); grades are per pier
     and priced for the pier alone here (the pour is `advise`'s)."""
     var, meta = _candidates(piers, targets, settings)
-    screen = ActionRows(_screening_actions(actions, targets))
+    screen = ActionRows(_screening_actions(actions, targets, earthquake=settings.earthquake))
     actions = ActionRows(actions)
 
     def single_rows(m):
@@ -1318,7 +1318,9 @@ def advise(
     meta["pour"] = pours_of.take(of).set_axis(meta.index)
     # each pier's distinct action rows (`_distinct_actions`): every variant's worst value the same
     actions = ActionRows(_distinct_actions(actions, settings), cheap_first=True)
-    screen = ActionRows(_screening_actions(actions.frame, failing, actions), cheap_first=True)
+    screen = ActionRows(
+        _screening_actions(actions.frame, failing, actions, earthquake=settings.earthquake), cheap_first=True
+    )
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -1664,11 +1666,20 @@ SCREEN = 2  # combinations per pier and measure of demand in the screening set
 
 
 def _screening_actions(
-    actions: pd.DataFrame, failing: pd.DataFrame, rows: ActionRows | None = None
+    actions: pd.DataFrame,
+    failing: pd.DataFrame,
+    rows: ActionRows | None = None,
+    earthquake: set[str] | frozenset[str] = frozenset(),
 ) -> pd.DataFrame:
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
-    Cl 11.5 for any change of section in the search (a screen only: results are confirmed).
+    Cl 11.5 for any change of section in the search (a screen only: axial + bending and Cl 11.5
+    are confirmed on every row), and every row of an `earthquake` combination (Project
+    setting): the earthquake rules (AS 3600 Section 14, ACI 318 special walls) read N* and M*
+    together (a stress N/A + M/Z, a neutral-axis depth at N*) and only those rows, and are not
+    confirmed, so their worst row must be in the screen. Without them the search offered ACI
+    demo variants that still failed a boundary-element rule under an earthquake row the six
+    rankings had left out.
 
     `rows`, the ActionRows of `actions`: the failing piers' rows found by its codes instead of
     joining the actions on text keys, and its codes group them (the same rows, order and index
@@ -1705,6 +1716,8 @@ def _screening_actions(
             .rank(method="first", ascending=False)
         )
         pick |= (rank <= SCREEN).to_numpy()
+    if earthquake and "combination" in acts:
+        pick |= acts.combination.astype(str).isin(earthquake).to_numpy()
     return acts[pick]
 
 
