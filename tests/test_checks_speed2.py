@@ -8,6 +8,7 @@ import builders
 import numpy as np
 import pandas as pd
 import pytest
+from demo_parts import demo_parts, same_frame
 
 from xlcore import costs, geometry, pipeline
 from xlcore.checks import (
@@ -25,7 +26,6 @@ from xlcore.checks import (
 from xlcore.codes import get_standard
 from xlcore.codes.base import first_rows, row_keys, words_once
 from xlcore.distribution import rows_of
-from xlcore.mechanics import stiffness
 from xlcore.model import Opening
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
@@ -34,33 +34,13 @@ STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building with its piers and pier actions."""
-    b, _ = pipeline.load(demo_master)
-    s = b.settings
-    g = pipeline.geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
-    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
-    walls = stiffness.sharing_stiffness(
-        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
-    )
-    plans = pipeline.cores.plans_by_core(piers, walls)
+    b, piers, walls, plans = demo_parts(demo_master)
     acts, _, _ = pipeline.pier_actions(b, piers, walls, plans)
     return b, piers, acts
 
 
 def _settings(b, standard, **more):
     return b.settings.model_copy(update={"standard": standard, **more})
-
-
-def same_frame(got: pd.DataFrame, want: pd.DataFrame) -> None:
-    """Equal columns, dtypes, index and values, floats bit for bit (-0.0 is not 0.0)."""
-    assert list(got.columns) == list(want.columns)
-    assert got.index.equals(want.index)
-    for c in want.columns:
-        assert got[c].dtype == want[c].dtype, c
-        a, b = got[c].to_numpy(), want[c].to_numpy()
-        if a.dtype.kind == "f":
-            assert np.array_equal(a.view(np.int64), b.view(np.int64)), c
-        else:
-            assert a.tolist() == b.tolist() or pd.Series(a).equals(pd.Series(b)), c
 
 
 # ---- shear: advice words once per distinct set of numbers

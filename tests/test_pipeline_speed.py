@@ -6,11 +6,12 @@ import dataclasses
 import numpy as np
 import pandas as pd
 import pytest
+from demo_parts import demo_parts
 
 from xlcore import distribution, pipeline
 from xlcore.checks import core_nm, core_stress, shear
 from xlcore.codes import get_standard
-from xlcore.mechanics import nm_core, stiffness
+from xlcore.mechanics import nm_core
 from xlcore.results import envelope
 
 STANDARDS = ["AS 3600:2018", "ACI 318-19"]
@@ -19,14 +20,7 @@ STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building with its piers, walls, plans, pier actions and core sharing."""
-    b, _ = pipeline.load(demo_master)
-    s = b.settings
-    g = pipeline.geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
-    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
-    walls = stiffness.sharing_stiffness(
-        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
-    )
-    plans = pipeline.cores.plans_by_core(piers, walls)
+    b, piers, walls, plans = demo_parts(demo_master)
     acts, _, split = pipeline.pier_actions(b, piers, walls, plans)
     return b, piers, walls, plans, acts, split
 

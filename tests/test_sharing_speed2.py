@@ -5,6 +5,7 @@ ties, NaN, infinities, missing keys, groups interleaved."""
 import numpy as np
 import pandas as pd
 import pytest
+from demo_parts import demo_parts
 
 from xlcore import results
 
@@ -159,17 +160,7 @@ def test_envelope_of_checks_in_different_row_orders_equals_the_general_path(seed
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building with its piers, walls and plans."""
-    from xlcore import cores, geometry, pipeline
-    from xlcore.mechanics import stiffness
-
-    b, _ = pipeline.load(demo_master)
-    s = b.settings
-    g = geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
-    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
-    walls = stiffness.sharing_stiffness(
-        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
-    )
-    return b, piers, walls, cores.plans_by_core(piers, walls)
+    return demo_parts(demo_master)
 
 
 def _pier_actions_merged(piers, actions, method):

@@ -4,22 +4,13 @@ the general ways they replace, bit for bit, on cases made to reach every branch.
 import numpy as np
 import pandas as pd
 import pytest
+from demo_parts import demo_parts
 
 
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building (two cores) with its piers, walls and plans."""
-    from xlcore import cores, geometry, pipeline
-    from xlcore.mechanics import stiffness
-
-    b, _ = pipeline.load(demo_master)
-    s = b.settings
-    g = geometry.derive(b.storeys, b.walls, b.openings, b.end_zones)
-    piers = stiffness.with_stiffness(g.piers, s.poisson, s.pier_fixity)
-    walls = stiffness.sharing_stiffness(
-        stiffness.wall_stiffness(piers, s.poisson, s.pier_fixity), s.poisson, s.wall_sharing
-    )
-    return b, piers, walls, cores.plans_by_core(piers, walls)
+    return demo_parts(demo_master)
 
 
 def _sharing(demo, rows: pd.DataFrame):
