@@ -34,3 +34,15 @@ def same_frame(got: pd.DataFrame, want: pd.DataFrame) -> None:
             assert np.array_equal(a.view(np.int64), b.view(np.int64)), c
         else:
             assert a.tolist() == b.tolist() or pd.Series(a).equals(pd.Series(b)), c
+
+
+def demo_actions(demo_master):
+    """The demo building, its piers and its pier actions (member and core rows)."""
+    b, piers, walls, plans = demo_parts(demo_master)
+    acts, _, _ = pipeline.pier_actions(b, piers, walls, plans)
+    return b, piers, acts
+
+
+def settings_for(b, standard: str, **more):
+    """The building's settings with another standard (and any other settings given)."""
+    return b.settings.model_copy(update={"standard": standard, **more})

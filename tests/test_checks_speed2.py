@@ -8,7 +8,7 @@ import builders
 import numpy as np
 import pandas as pd
 import pytest
-from demo_parts import demo_parts, same_frame
+from demo_parts import demo_actions, same_frame, settings_for
 
 from xlcore import costs, geometry, pipeline
 from xlcore.checks import (
@@ -34,13 +34,10 @@ STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building with its piers and pier actions."""
-    b, piers, walls, plans = demo_parts(demo_master)
-    acts, _, _ = pipeline.pier_actions(b, piers, walls, plans)
-    return b, piers, acts
+    return demo_actions(demo_master)
 
 
-def _settings(b, standard, **more):
-    return b.settings.model_copy(update={"standard": standard, **more})
+_settings = settings_for
 
 
 # ---- shear: advice words once per distinct set of numbers

@@ -8,7 +8,7 @@ import builders
 import numpy as np
 import pandas as pd
 import pytest
-from demo_parts import demo_parts, same_frame
+from demo_parts import demo_actions, same_frame, settings_for
 
 from xlcore import geometry, pipeline, results
 from xlcore.checks import detailing, lintels, per_pier, pier_rows, records, same_keys, section14, shear
@@ -23,13 +23,10 @@ STANDARDS = ["AS 3600:2018", "ACI 318-19"]
 @pytest.fixture(scope="module")
 def demo(demo_master):
     """The demo building with its piers and pier actions."""
-    b, piers, walls, plans = demo_parts(demo_master)
-    acts, _, _ = pipeline.pier_actions(b, piers, walls, plans)
-    return b, piers, acts
+    return demo_actions(demo_master)
 
 
-def _settings(b, standard, **more):
-    return b.settings.model_copy(update={"standard": standard, **more})
+_settings = settings_for
 
 
 # ---- shear: the capacity once per pier, gathered to the rows
