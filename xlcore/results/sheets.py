@@ -623,13 +623,13 @@ def result_sheets(c: Checked, now: dt.datetime) -> list[ResultSheet]:
                         "Piers",
                         "V* = wall V* x k / sum k; N* = core stress N/A +- M y / I integrated "
                         "over the pier; M* = the pier's own share of the core's bending, M_core x "
-                        "I_pier / I_core about its own centroid, resolved into the wall's plane; "
-                        "where walls overlap at a corner each takes an equal share of the overlap"
+                        "I_pier / I_core about its own centroid, resolved into the wall's plane"
                         + (
                             " + V* h / 2 (contraflexure) for piers beside openings"
                             if s.core_local_moment == distribution.LOCAL_BESIDE_OPENINGS
                             else " (no V* h / 2 added: Project setting)"
-                        ),
+                        )
+                        + "; where walls overlap at a corner, each takes an equal share of the overlap",
                     ),
                     (
                         "Precedence",
