@@ -637,11 +637,6 @@ def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
     if n < 2:
         return frame
     numeric = [c for c in cols if frame[c].dtype.kind in "fiub"]
-    texts = [frame[c].to_numpy(dtype=object) for c in cols if c not in numeric]
-    quake = settings.earthquake
-    if quake and "combination" in frame:
-        named = frame.combination.astype(str)
-        texts.append(named.where(named.isin(quake), "").to_numpy(dtype=object))
     # (storey, pier) as one number, a missing name (code -1) a value of its own
     storey, _ = pd.factorize(frame.storey)
     pier, piers = pd.factorize(frame.pier_id)
@@ -649,6 +644,8 @@ def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
     key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)})
     key["_pier"] = at
     code, _ = pd.factorize(pd.util.hash_pandas_object(key, index=False).to_numpy())
+    if int(code.max()) + 1 == n:  # no two rows alike in their numbers (a varied analysis): all kept
+        return frame
     first = np.full(int(code.max()) + 1, n, dtype=np.int64)
     np.minimum.at(first, code, np.arange(n))
     rep = first[code]  # the first row of each hash
@@ -658,6 +655,11 @@ def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
         if values.dtype.kind == "f":
             values = values.astype(np.float64, copy=False).view(np.int64)
         same &= values[rep] == values
+    texts = [frame[c].to_numpy(dtype=object) for c in cols if c not in numeric]
+    quake = settings.earthquake
+    if quake and "combination" in frame:
+        named = frame.combination.astype(str)
+        texts.append(named.where(named.isin(quake), "").to_numpy(dtype=object))
     for values in texts:
         same &= values[rep] == values
     return frame[~same] if same.any() else frame
@@ -1345,7 +1347,7 @@ def advise(
     by = _ranked(alone, one, of[alone.index.to_numpy()], group)  # the same order, by numbers
     alone = _probed(single_rows, alone, by, actions, screen, settings, keep_all=True)
     util = _rounds(single_rows, alone[alone._hope], by, actions, screen, settings)
-    alone = alone.assign(util=alone.variant.map(util))
+    alone["util"] = alone.variant.map(util)  # (a table of its own: `_probed` made it)
 
     # grades: every grade of every failing pier, then per pour
     grades = meta[(names == GRADE_KIND)[code]]
@@ -1368,7 +1370,7 @@ def advise(
         rows_of = _pair_rows(var)
         pm = _probed_pairs(sub, premiums, len(var), settings, rows_of, actions, screen)
         putil = _rounds(rows_of, pm, ["storey", "pier_id"], actions, screen, settings)
-        pm = pm.assign(util=pm.variant.map(putil))
+        pm["util"] = pm.variant.map(putil)  # (a table of its own: `_probed_pairs` made it)
         best = (
             pm[pm.util <= 1.0].sort_values("added_cost", kind="stable").groupby(["storey", "pier_id"]).head(1)
         )
