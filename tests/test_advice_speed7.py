@@ -1,7 +1,9 @@
-"""The advice search's round-6 fast path against what it replaces, bit for bit (issue 15): the
-screening rows' rankings (`_TopRows`) against pandas' rank of each group, on random groups with
-ties and missing values and on the screen of a small tower. Each test fails with the fast path
-broken (tried: ties taken by the later row; the rows taken before not left out).
+"""The advice search's round-6 fast paths against what they replace, bit for bit (issue 15):
+the screening rows' rankings (`_TopRows`) against pandas' rank of each group, on random groups
+with ties and missing values and on the screen of a small tower; `_distinct_actions` keeping
+every row as it is where no two rows hash alike. Each test fails with its fast path broken
+(tried: ties taken by the later row; the rows taken before not left out; the shortcut taken
+where rows repeat).
 """
 
 from __future__ import annotations
@@ -67,3 +69,17 @@ def test_screening_rows_equal_pandas_rank(standard):
         pick |= ranked_by_pandas(np.nan_to_num(v, nan=-np.inf), groups, advice.SCREEN)
     assert 0 < pick.sum() < len(a)
     pd.testing.assert_frame_equal(got.reset_index(drop=True), a[pick].reset_index(drop=True))
+
+
+def test_distinct_rows_all_kept_where_no_two_alike():
+    """`_distinct_actions`: where no two rows hash alike in their numbers, the rows themselves
+    (the varied tower); rows alike in every number but a text column are still both kept, and
+    a true repeat is still dropped (the shortcut taken only where it holds)."""
+    s = Settings()
+    acts = actions_for(tower(), 2.0)
+    assert advice._distinct_actions(acts, s) is acts
+    twin = acts.iloc[[0]].assign(wall_id="other", row=-1)
+    both = pd.concat([acts, twin], ignore_index=True)
+    assert len(advice._distinct_actions(both, s)) == len(both)
+    again = pd.concat([acts, acts.iloc[[0]].assign(row=-1)], ignore_index=True)
+    assert len(advice._distinct_actions(again, s)) == len(acts)
