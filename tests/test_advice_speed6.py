@@ -168,7 +168,7 @@ def test_search_on_distinct_rows_equals_the_search_on_every_row(standard, scale,
     got = advice.advise(piers, acts, summary, s)
     fast_confirms = sum(runs)
     runs.clear()
-    monkeypatch.setattr(advice, "_distinct_actions", lambda rows, settings: rows)
+    monkeypatch.setattr(advice, "_distinct_actions", lambda rows, settings, *codes: rows)
     confirm = advice._confirm
     monkeypatch.setattr(advice, "_confirm", lambda *a: confirm(*a[:5]))  # no screen: every one run
     want = advice.advise(piers, acts, summary, s)

@@ -1,9 +1,10 @@
 """The advice search's round-6 fast paths against what they replace, bit for bit (issue 15):
 the screening rows' rankings (`_TopRows`) against pandas' rank of each group, on random groups
 with ties and missing values and on the screen of a small tower; `_distinct_actions` keeping
-every row as it is where no two rows hash alike. Each test fails with its fast path broken
-(tried: ties taken by the later row; the rows taken before not left out; the shortcut taken
-where rows repeat).
+every row as it is where no two rows hash alike; the search's ActionRows from the storey and pier
+codes `_distinct_actions` made. Each test fails with its fast path broken (tried: ties taken by
+the later row; the rows taken before not left out; the shortcut taken where rows repeat; the
+shared codes handed on where rows were dropped).
 """
 
 from __future__ import annotations
@@ -83,3 +84,31 @@ def test_distinct_rows_all_kept_where_no_two_alike():
     assert len(advice._distinct_actions(both, s)) == len(both)
     again = pd.concat([acts, acts.iloc[[0]].assign(row=-1)], ignore_index=True)
     assert len(advice._distinct_actions(again, s)) == len(acts)
+
+
+@pytest.mark.parametrize("repeat", [False, True])
+def test_action_rows_from_shared_codes_equal_their_own(repeat, monkeypatch):
+    """The search's ActionRows from the codes `_distinct_actions` used (where it kept every
+    row) equal ActionRows that factorise the rows themselves: same names, codes and order."""
+    acts = actions_for(tower(), 2.0)
+    if repeat:  # a row repeated (dropped by `_distinct_actions`): the rows' own codes
+        acts = pd.concat([acts, acts.iloc[[3]].assign(row=-1)], ignore_index=True)
+    made = []
+    real = advice.ActionRows
+
+    def spy(frame, cheap_first=False, codes=None):
+        made.append((frame, codes))
+        return real(frame, cheap_first, codes)
+
+    monkeypatch.setattr(advice, "ActionRows", spy)
+    piers = tower()
+    summary = failing_of(piers).assign(check="in-plane shear", util_now=2.0)
+    advice.advise(piers, acts, summary, Settings())
+    frame, codes = made[0]
+    assert (codes is None) == repeat and len(frame) == len(acts) - repeat
+    shared, own = real(frame, True, codes), real(frame, True)
+    for name in ("storey_codes", "codes", "order", "starts"):
+        np.testing.assert_array_equal(getattr(shared, name), getattr(own, name))
+    for name in ("storeys", "piers", "keys"):
+        assert list(getattr(shared, name)) == list(getattr(own, name))
+    assert shared.coded_keys == own.coded_keys

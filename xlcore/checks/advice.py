@@ -546,12 +546,12 @@ class ActionRows:
     action rows, a 0.2 s join to confirm 24 variants). `for_variants` gives the rows the join
     `actions.merge(meta, on=[storey, pier_id])` gives, in its order (tests/test_advice_speed.py)."""
 
-    def __init__(self, actions: pd.DataFrame, cheap_first: bool = False) -> None:
+    def __init__(self, actions: pd.DataFrame, cheap_first: bool = False, codes: tuple | None = None) -> None:
         self.frame = actions.reset_index(drop=True)
         self.cheap_first = cheap_first  # `_worst`: closed-form checks first (the search only)
-        # (storey, pier) as one integer from each column's codes (no tuple per row)
-        storey, self.storeys = pd.factorize(self.frame.storey)
-        pier, self.piers = pd.factorize(self.frame.pier_id)
+        # (storey, pier) as one integer from each column's codes (no tuple per row); `codes`:
+        # `pier_codes(actions)`, where the caller has them (the search: `_distinct_actions`')
+        storey, self.storeys, pier, self.piers = pier_codes(self.frame) if codes is None else codes
         self.storey_codes = storey
         self.coded_keys = not ((storey < 0).any() or (pier < 0).any())  # no NaN storey or pier
         codes, self.keys = pd.factorize(storey.astype(np.int64) * len(self.piers) + pier)
@@ -613,13 +613,22 @@ class ActionRows:
         return out
 
 
+def pier_codes(frame: pd.DataFrame) -> tuple[np.ndarray, pd.Index, np.ndarray, pd.Index]:
+    """Each row's storey and pier as integer codes (-1: missing) and the names they number, in
+    order of appearance (`pd.factorize` of each column): what `ActionRows` and
+    `_distinct_actions` key the rows by, worked out once for both."""
+    storey, storeys = pd.factorize(frame.storey)
+    pier, piers = pd.factorize(frame.pier_id)
+    return storey, storeys, pier, piers
+
+
 # action columns that set no number of a pier check: the engineer's row and its origin (the
 # shear table's row order only) and the combination's name (read by the earthquake rules alone,
 # for the combinations the Project names: `_distinct_actions` keeps those apart)
 ORDER_ONLY = ("row", "origin", "combination")
 
 
-def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
+def _distinct_actions(frame: pd.DataFrame, settings: Settings, codes: tuple | None = None) -> pd.DataFrame:
     """The action rows the search checks: of the rows of one storey and pier equal in every
     other column (every number a check reads), the first; an earthquake combination's rows
     (Project setting) are kept apart by name. The checks work row by row and the search reads
@@ -631,15 +640,15 @@ def _distinct_actions(frame: pd.DataFrame, settings: Settings) -> pd.DataFrame:
     Rows are told apart by their (storey, pier) codes and every other kept column's own values
     (floats by their bits: -0.0 from 0.0), checked against the first row of the same hash: a
     row is dropped only where it equals an earlier one exactly, never on a hash alone (a text
-    column's missing value equals none, so such rows stay)."""
+    column's missing value equals none, so such rows stay). `codes`: `pier_codes(frame)`, where
+    the caller has them."""
     n = len(frame)
     cols = [c for c in frame.columns if c not in (*ORDER_ONLY, "storey", "pier_id")]
     if n < 2:
         return frame
     numeric = [c for c in cols if frame[c].dtype.kind in "fiub"]
     # (storey, pier) as one number, a missing name (code -1) a value of its own
-    storey, _ = pd.factorize(frame.storey)
-    pier, piers = pd.factorize(frame.pier_id)
+    storey, _, pier, piers = pier_codes(frame) if codes is None else codes
     at = (storey.astype(np.int64) + 1) * (len(piers) + 1) + (pier + 1)
     key = pd.DataFrame({f"c{i}": frame[c].to_numpy() for i, c in enumerate(numeric)})
     key["_pier"] = at
@@ -1319,7 +1328,10 @@ def advise(
     pours_of = pour_keys(one.assign(**_pier_cols(piers, one)), piers, settings)[0]
     meta["pour"] = pours_of.take(of).set_axis(meta.index)
     # each pier's distinct action rows (`_distinct_actions`): every variant's worst value the same
-    actions = ActionRows(_distinct_actions(actions, settings), cheap_first=True)
+    # (the storey and pier codes once for both; the ActionRows' own where rows were dropped)
+    codes = pier_codes(actions)
+    kept = _distinct_actions(actions, settings, codes)
+    actions = ActionRows(kept, cheap_first=True, codes=codes if kept is actions else None)
     screen = ActionRows(
         _screening_actions(actions.frame, failing, actions, earthquake=settings.earthquake), cheap_first=True
     )
