@@ -302,12 +302,136 @@ class Layout:
 
 
 @dataclass
-class CoreSharing:
-    """Everything the core-sharing step derived, for the checks and for the results."""
+class Block:
+    """One storey's rows of one side of the core sharing (its walls, or its piers), before they
+    are rows: each column given once per case (`CASE`: a core-actions row), per member
+    (`MEMBER`), per case x member (`GRID`, cases x members), once (`FIXED`) or blank (None in
+    every row). Its rows are the cases one after another, each with every member in order
+    (`rows`); `pipeline.core_table` writes the columns straight to their places in the
+    core-sharing table instead (each value written once, no table of rows made and reordered).
+    Text columns are integer codes into `CoreBlocks.texts`."""
 
-    piers: pd.DataFrame  # ACTION_COLUMNS, one row per storey x combination x pier
-    walls: pd.DataFrame  # one row per storey x combination x wall: k, direct, torsion, V, N
-    layout: Layout | None = None  # how the rows were made; None where not known
+    CASE, MEMBER, GRID, FIXED = "case", "member", "grid", "fixed"
+    cases: int
+    members: int
+    columns: dict[str, tuple[str, object]]  # name -> (how it is given, values)
+
+    def rows(self) -> dict[str, np.ndarray | None]:
+        """The columns as rows (what `stack` takes): cases repeated, members tiled."""
+        n, out = self.cases * self.members, {}
+        for name, (how, v) in self.columns.items():
+            if how == Block.CASE:
+                out[name] = np.repeat(v, self.members)
+            elif how == Block.MEMBER:
+                out[name] = np.tile(v, self.cases)
+            elif how == Block.GRID:
+                out[name] = None if v is None else np.asarray(v).ravel()
+            else:
+                out[name] = np.full(n, v)
+        return out
+
+    def taken(self, keep: np.ndarray) -> Block:
+        """The block of the cases `keep` (booleans, one per case) alone."""
+        cols: dict[str, tuple[str, object]] = {}
+        for name, (how, v) in self.columns.items():
+            if how == Block.CASE:
+                v = v[keep]
+            elif how == Block.GRID and v is not None:
+                v = np.asarray(v)[keep]
+            cols[name] = (how, v)
+        return Block(int(keep.sum()), self.members, cols)
+
+
+@dataclass
+class CoreBlocks:
+    """`core_actions_to_piers`' rows as blocks (`Block`), one per storey and side, in the
+    order the tables' rows take; `texts`: the values of the text columns' codes."""
+
+    walls: list[Block]
+    piers: list[Block]
+    texts: dict[str, list]
+    all_text: bool  # every text value a str (a subset's columns then take the whole's types)
+
+    def pier_table(self) -> pd.DataFrame:
+        return stack([b.rows() for b in self.piers], ACTION_COLUMNS + CORE_PIER_EXTRA, self.texts)
+
+    def wall_table(self) -> pd.DataFrame:
+        return stack([b.rows() for b in self.walls], texts=self.texts)
+
+    def with_piers(self, piers: list[Block]) -> CoreBlocks:
+        return CoreBlocks([], piers, self.texts, self.all_text)
+
+
+class CoreSharing:
+    """Everything the core-sharing step derived, for the checks and for the results.
+
+    `piers`: ACTION_COLUMNS, one row per storey x combination x pier; `walls`: one row per
+    storey x combination x wall (k, direct, torsion, V, N); `layout`: how the rows were made
+    (None where not known). Made by `core_actions_to_piers`, the tables are made from its
+    blocks (`parts`: each core's `CoreBlocks`, the core's name or None for a table without a
+    core column) only when first asked for: the pipeline writes the core-sharing table from
+    the blocks and takes from them the few pier rows it needs (at the L tower none of 360 000).
+    Once the tables are made they are what is read (a caller may change them), the blocks
+    dropped."""
+
+    def __init__(
+        self,
+        piers: pd.DataFrame | None = None,
+        walls: pd.DataFrame | None = None,
+        layout: Layout | None = None,
+        parts: list[tuple[str | None, CoreBlocks]] | None = None,
+    ) -> None:
+        self._piers, self._walls, self.layout = piers, walls, layout
+        self.parts = parts if piers is None and walls is None else None
+
+    @property
+    def piers(self) -> pd.DataFrame:
+        self._made()
+        return self._piers
+
+    @property
+    def walls(self) -> pd.DataFrame:
+        self._made()
+        return self._walls
+
+    def _made(self) -> None:
+        if self.parts is not None:
+            self._piers, self._walls = _tables_of(self.parts)
+            self.parts = None
+
+    def piers_apart_from(self, rows: np.ndarray) -> pd.DataFrame:
+        """`piers[~piers.row.isin(rows)]` (its index aside): made from the blocks, of the cases
+        whose row is not among `rows` alone, where every text is a str (a part's columns then
+        take the types of the whole table's); the table filtered otherwise."""
+        parts = self.parts
+        if parts is None or not all(b.all_text for _, b in parts) or not any(b.piers for _, b in parts):
+            return self.piers[~self.piers.row.isin(rows)]
+        kept = []
+        for core, b in parts:
+            blocks = [p.taken(~np.isin(p.columns["row"][1], rows)) for p in b.piers]
+            if any(p.cases for p in blocks):
+                kept.append((core, b.with_piers([p for p in blocks if p.cases])))
+        if kept:
+            return _pier_table(kept)
+        # none kept: one case's rows, and none of them (the columns' types of the whole)
+        core, b = next((c, b) for c, b in parts if b.piers)
+        one = b.piers[0].taken(np.arange(b.piers[0].cases) == 0)
+        return _pier_table([(core, b.with_piers([one]))]).iloc[:0]
+
+
+def _tables_of(parts: list[tuple[str | None, CoreBlocks]]) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """The piers' and walls' tables of the blocks: one core's as `stack` makes them; each
+    core's named (`cores.core_actions_to_piers`) with its `core` column, concatenated."""
+    if len(parts) == 1 and parts[0][0] is None:
+        return parts[0][1].pier_table(), parts[0][1].wall_table()
+    walls = [b.wall_table().assign(core=core) for core, b in parts]
+    return _pier_table(parts), pd.concat(walls, ignore_index=True)
+
+
+def _pier_table(parts: list[tuple[str | None, CoreBlocks]]) -> pd.DataFrame:
+    if len(parts) == 1 and parts[0][0] is None:
+        return parts[0][1].pier_table()
+    return pd.concat([b.pier_table().assign(core=core) for core, b in parts], ignore_index=True)
 
 
 def core_actions_to_piers(
@@ -338,7 +462,8 @@ def core_actions_to_piers(
     that need it (the L tower's 360 000 core pier rows took 1.7 s of text that its member
     actions then replaced); `wall_v` (the wall's V* the pier shares) is kept for it.
     """
-    pier_rows, wall_rows = [], []
+    pier_blocks: list[Block] = []
+    wall_blocks: list[Block] = []
     # text columns as integer codes while the storeys' pieces are made, a column once at the end
     # (`stack`): no object array per storey, no text inferred row by row (648 000 rows at L)
     names = TextCodes()  # storeys, walls and piers
@@ -384,8 +509,8 @@ def core_actions_to_piers(
         walls_here = sw["wall_id"]
         n_w, n_c, n_p = len(walls_here), len(cs["row"]), len(sp["k"])
         wall_of_pier = positions(sw["_wall"], sp["_wall"], walls_here, sp["wall_id"], names)
-        member = np.zeros((n_w, n_p))
-        member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
+        member_of = np.zeros((n_w, n_p))
+        member_of[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
         along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank when not finite
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
@@ -393,22 +518,27 @@ def core_actions_to_piers(
         storey_code = names.codes([storey])[0]
         layout.walls.append((n_c, n_w))
         layout.piers.append((n_c, n_p))
-        wall_rows.append(
-            dict(
-                row=np.repeat(rows, n_w),
-                storey=np.full(n_w * n_c, storey_code),
-                combination=np.repeat(combos, n_w),
-                wall_id=np.tile(sw["_wall"], n_c),
-                k=np.tile(sw["k"] * 1e-3, n_c),
-                direct=base.direct.T.ravel(),
-                torsion=torsion.T.ravel(),
-                v=total.T.ravel(),
-                share_pct=share_pct.ravel(),
-                xr=np.full(n_w * n_c, xr),
-                yr=np.full(n_w * n_c, yr),
-                m_cr=np.repeat(m_cr, n_w),
-                m_acc=np.repeat(d_acc, n_w),
-                n=(member @ n_piece).T.ravel(),
+        case, member, grid, fixed = Block.CASE, Block.MEMBER, Block.GRID, Block.FIXED
+        wall_blocks.append(
+            Block(
+                n_c,
+                n_w,
+                dict(
+                    row=(case, rows),
+                    storey=(fixed, storey_code),
+                    combination=(case, combos),
+                    wall_id=(member, sw["_wall"]),
+                    k=(member, sw["k"] * 1e-3),
+                    direct=(grid, base.direct.T),
+                    torsion=(grid, torsion.T),
+                    v=(grid, total.T),
+                    share_pct=(grid, share_pct),
+                    xr=(fixed, xr),
+                    yr=(fixed, yr),
+                    m_cr=(case, m_cr),
+                    m_acc=(case, d_acc),
+                    n=(grid, (member_of @ n_piece).T),
+                ),
             )
         )
         k_p = sp["k"]
@@ -425,34 +555,37 @@ def core_actions_to_piers(
             np.array(
                 core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel()),
                 dtype=object,
-            )
+            ).reshape(n_c, n_p)
             if text
             else None  # blank, made once for every row (`stack`)
         )
-        pier_rows.append(
-            dict(
-                row=np.repeat(rows, n_p),
-                storey=np.full(n_p * n_c, storey_code),
-                combination=np.repeat(combos, n_p),
-                wall_id=tiled(sp["_wall"]),
-                pier_id=tiled(sp["_pier"]),
-                position=tiled(sp["position"]),
-                k=tiled(k_p),
-                share=tiled(share),
-                n=n_piece.T.ravel(),
-                v=v.ravel(),
-                m=m_pier.ravel(),
-                source=source,
-                m_curv=m_in.T.ravel(),
-                m_local=m_loc.ravel(),
-                m_oop=m_oop.T.ravel(),
-                wall_v=wall_v.ravel(),
+        pier_blocks.append(
+            Block(
+                n_c,
+                n_p,
+                dict(
+                    row=(case, rows),
+                    storey=(fixed, storey_code),
+                    combination=(case, combos),
+                    wall_id=(member, sp["_wall"]),
+                    pier_id=(member, sp["_pier"]),
+                    position=(member, sp["position"]),
+                    k=(member, k_p),
+                    share=(member, share),
+                    n=(grid, n_piece.T),
+                    v=(grid, v),
+                    m=(grid, m_pier),
+                    source=(grid, source),
+                    m_curv=(grid, m_in.T),
+                    m_local=(grid, m_loc),
+                    m_oop=(grid, m_oop.T),
+                    wall_v=(grid, wall_v),
+                ),
             )
         )
     texts = dict(storey=names.values, wall_id=names.values, pier_id=names.values, combination=combo_names)
-    return CoreSharing(
-        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts), layout
-    )
+    all_text = names.all_text() and all(isinstance(c, str) for c in combo_names)
+    return CoreSharing(layout=layout, parts=[(None, CoreBlocks(wall_blocks, pier_blocks, texts, all_text))])
 
 
 class TextCodes:

@@ -1,0 +1,131 @@
+"""Fast paths of the sixth speed round (issue 15: sharing actions to piers, core checks) against
+the general ways they replace, bit for bit, on cases made to reach every branch."""
+
+import pandas as pd
+import pytest
+from demo_parts import demo_parts, same_frame
+
+
+@pytest.fixture(scope="module")
+def demo(demo_master):
+    """The demo building (two cores) with its piers, walls and plans."""
+    return demo_parts(demo_master)
+
+
+def _rows(demo, shuffle: bool) -> pd.DataFrame:
+    """The demo's core-actions rows; shuffled: some naming a core, all out of order (a
+    storey's cases then stand apart in the table: written by index, not through a view)."""
+    rows = demo[0].core_actions.copy()
+    if shuffle:
+        rows["core"] = ""
+        rows.loc[rows.index[::5], "core"] = list(demo[3])[1]
+        rows = rows.sample(frac=1.0, random_state=3).reset_index(drop=True)
+    return rows
+
+
+def _sharing(demo, rows: pd.DataFrame, text: bool = False, names: dict | None = None):
+    """The core sharing as the pipeline makes it (its tables not made: blocks), its wall and
+    pier IDs renamed by `names` in the blocks' texts."""
+    from xlcore import cores, distribution
+
+    b, piers, walls, plans = demo
+    s = b.settings
+    split = cores.share_among_cores(piers, plans, rows, s.accidental)
+    core = cores.core_actions_to_piers(piers, walls, plans, split.actions, s.core_local_moment, text=text)
+    assert core.parts is not None
+    if names:
+        rename = lambda vals: [names.get(v, v) for v in vals]  # noqa: E731
+        core = distribution.CoreSharing(
+            layout=core.layout,
+            parts=[
+                (
+                    c,
+                    distribution.CoreBlocks(
+                        b.walls, b.piers, {k: rename(v) for k, v in b.texts.items()}, True
+                    ),
+                )
+                for c, b in core.parts
+            ],
+        )
+    return core
+
+
+def _names(core) -> dict:
+    """IDs renamed to reversed natural order (W2 before W10, unlike the plan's order), two of
+    them of equal natural key (W01, W1: first seen first)."""
+    ids = list(dict.fromkeys([*core.walls.wall_id, *core.piers.pier_id]))
+    names = {v: f"W{len(ids) - i}" for i, v in enumerate(ids)}
+    names[ids[0]], names[ids[1]] = "W01", "W1"
+    return names
+
+
+@pytest.mark.parametrize("shuffle", [False, True])
+@pytest.mark.parametrize("text", [False, True])
+def test_core_table_from_blocks_equals_the_tables_way(demo, shuffle, text, monkeypatch):
+    """The core-sharing table written straight from the blocks equals the table made from the
+    piers' and walls' tables (by their layout, and by the sort): two cores sharing the
+    building's rows, rows naming a core and out of order (cases written by index), a storey's
+    cases at equal steps of both cores' rows (through a view), members whose natural order is
+    not the plan's (each block's members reordered), the 'V* from' text or none."""
+    from xlcore import distribution, pipeline
+
+    rows = _rows(demo, shuffle)
+    names = _names(_sharing(demo, rows))
+    fast_core = _sharing(demo, rows, text, names)
+    blocks = [
+        (k, c, b.texts, blk)
+        for k, side in (("wall", "walls"), ("pier", "piers"))
+        for c, b in fast_core.parts
+        for blk in getattr(b, side)
+    ]
+    writers = pipeline._places(blocks)
+    assert any(w.perm is not None for w in writers)
+    if shuffle:
+        assert any(not w.strided for w in writers)
+    else:  # each storey's cases one after another, the other core's between them
+        assert all(w.strided for w in writers) and any(w.step > w.members for w in writers)
+    given = rows.row.to_numpy()[::4]
+    with monkeypatch.context() as m:  # the blocks, not the tables
+        m.setattr(pipeline, "_in_order", lambda *a: pytest.fail("the tables were used"))
+        m.setattr(pipeline, "_sorted_order", lambda *a: pytest.fail("the tables were used"))
+        fast = pipeline.core_table(fast_core, given)
+    assert fast_core.parts is not None  # (the tables were not made)
+    tables = _sharing(demo, rows, text, names)
+    by_layout = distribution.CoreSharing(tables.piers, tables.walls, tables.layout)
+    same_frame(fast, pipeline.core_table(by_layout, given))
+    same_frame(fast, pipeline.core_table(distribution.CoreSharing(tables.piers, tables.walls), given))
+    assert fast.core.nunique() == 2 and (fast.used != "yes").any() and (fast.used == "yes").any()
+    assert fast.pier_id.isna().any() and fast.source.isna().any()
+
+
+@pytest.mark.parametrize("keep", ["none", "some", "all"])
+def test_pier_rows_apart_from_given_equal_the_filtered_table(demo, keep):
+    """The core pier rows whose row the member actions do not cover, made from the blocks of
+    those cases alone, equal the whole pier table filtered (its index aside): none left (the
+    L tower: the columns' types of the whole), some, all."""
+    rows = _rows(demo, True)
+    every = rows.row.to_numpy()
+    given = {"none": every, "some": every[::3], "all": every[:0]}[keep]
+    core = _sharing(demo, rows)
+    got = core.piers_apart_from(given)
+    assert core.parts is not None  # (the whole tables were not made)
+    whole = _sharing(demo, rows).piers
+    want = whole[~whole.row.isin(given)]
+    same_frame(got.reset_index(drop=True), want.reset_index(drop=True))
+    assert (len(got) == 0) == (keep == "none") and (len(got) == len(whole)) == (keep == "all")
+
+
+def test_tables_made_from_blocks_once_then_read(demo):
+    """The tables are made from the blocks when first asked for, then they are what is read
+    (a change to them counts; the blocks are dropped), and a sharing given its tables has no
+    blocks."""
+    from xlcore import distribution, pipeline
+
+    rows = _rows(demo, False)
+    core = _sharing(demo, rows)
+    piers = core.piers
+    assert core.parts is None and core.piers is piers
+    core.walls["wall_id"] = core.walls.wall_id.map(lambda v: f"X{v}")
+    table = pipeline.core_table(core, rows.row.to_numpy()[:0])
+    assert table[table.kind == "wall"].member.str.startswith("X").all()
+    assert distribution.CoreSharing(piers, core.walls).parts is None
