@@ -1,6 +1,7 @@
 """Fast paths of the sixth speed round (issue 15: sharing actions to piers, core checks) against
 the general ways they replace, bit for bit, on cases made to reach every branch."""
 
+import numpy as np
 import pandas as pd
 import pytest
 from demo_parts import demo_parts, same_frame
@@ -129,3 +130,78 @@ def test_tables_made_from_blocks_once_then_read(demo):
     table = pipeline.core_table(core, rows.row.to_numpy()[:0])
     assert table[table.kind == "wall"].member.str.startswith("X").all()
     assert distribution.CoreSharing(piers, core.walls).parts is None
+
+
+# ------------------------------------------------------------------ core checks
+
+
+def test_stack_of_blocks_equals_the_stack_of_their_rows(demo):
+    """`stack_blocks` (each value written once to its place) equals `stack` of the blocks' rows:
+    the demo's core-sharing blocks of both cores (text codes, a blank column, numbers per
+    case, member, case x member and once) and blocks of one case."""
+    from xlcore import distribution
+
+    core = _sharing(demo, _rows(demo, True))
+    for _, b in core.parts:
+        for blocks, cols in (
+            (b.piers, distribution.ACTION_COLUMNS + distribution.CORE_PIER_EXTRA),
+            (b.walls, None),
+        ):
+            want = distribution.stack([x.rows() for x in blocks], cols, b.texts)
+            got = distribution.stack_blocks(blocks, b.texts)
+            same_frame(got, want)
+            one = [x.taken(np.arange(x.cases) == x.cases - 1) for x in blocks]
+            same_frame(
+                distribution.stack_blocks(one, b.texts),
+                distribution.stack([x.rows() for x in one], cols, b.texts),
+            )
+
+
+def test_core_stress_of_blocks_equals_the_stack(demo, monkeypatch):
+    """The core stress table made with `stack_blocks` equals the one `stack` makes."""
+    from xlcore import cores, distribution, pipeline
+    from xlcore.checks import core_stress
+
+    b, piers, _, plans = demo
+    split = cores.share_among_cores(piers, plans, _rows(demo, True), b.settings.accidental)
+    got = pipeline.per_core(core_stress.check_core_stress, piers, plans, split.actions, b.settings)
+    with monkeypatch.context() as m:
+        m.setattr(
+            core_stress,
+            "stack_blocks",
+            lambda blocks, texts: distribution.stack([x.rows() for x in blocks], texts=texts),
+        )
+        want = pipeline.per_core(core_stress.check_core_stress, piers, plans, split.actions, b.settings)
+    same_frame(got, want)
+
+
+def test_frame_rows_equal_frames_of_each_case_alone(demo):
+    """A frame of every section x angle, taken a row at a time (`Frame.row`), equals the frame
+    of that case alone, and its forces and neutral-axis depths equal each case's own (the core
+    N-M's one frame for the solve, key points and curves)."""
+    from xlcore.checks import core_nm
+    from xlcore.mechanics import nm_core
+
+    b, piers, _, plans = demo
+    core, by_storey = next(iter(plans.items()))
+    storeys = list(by_storey)[:3]
+    asm = core_nm.storey_assemblies(piers[piers.core == core], by_storey, storeys)
+    si = np.repeat(np.arange(len(storeys)), 5)
+    th = np.tile(np.linspace(-np.pi, np.pi, 5, endpoint=False), len(storeys))
+    fr = nm_core.frame(asm, si, th)
+    full = nm_core.full_depth(asm, si, th)
+    dn = np.linspace(0.1, 0.9, len(si)) * full
+    together = nm_core.forces_in(fr, dn)
+    solved = nm_core.solve_dn(asm, si, th, 0.0, 1e-3 * full, full, fr=fr)
+    np.testing.assert_array_equal(solved, nm_core.solve_dn(asm, si, th, 0.0, 1e-3 * full, full))
+    for i in range(len(si)):
+        alone = nm_core.frame(asm, si[i : i + 1], th[i : i + 1])
+        row = fr.row(i)
+        for k, v in vars(alone).items():
+            np.testing.assert_array_equal(getattr(row, k), v)
+        got = nm_core.forces_in(row, dn[i : i + 1])
+        for a, want in zip(
+            got, nm_core.forces(asm, si[i : i + 1], th[i : i + 1], dn[i : i + 1]), strict=True
+        ):
+            np.testing.assert_array_equal(a, want)
+        assert all(t[i] == a[0] for t, a in zip(together, got, strict=True))

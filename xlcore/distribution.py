@@ -693,6 +693,46 @@ def text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray
     return text_column(codes, values)
 
 
+def stack_blocks(blocks: list[Block], texts: dict | None = None) -> pd.DataFrame:
+    """`stack([b.rows() for b in blocks], texts=texts)`, each value written once to its place
+    (a block's rows one after another) instead of rows made per block and concatenated, the
+    float columns one block of the table (not copied into one by the table)."""
+    if not blocks:
+        return stack([], texts=texts)
+    texts = texts or {}
+    n = sum(b.cases * b.members for b in blocks)
+    at = np.cumsum([0] + [b.cases * b.members for b in blocks])
+    first = blocks[0].columns
+    dtypes = {
+        c: None
+        if how == Block.GRID and v is None
+        else np.result_type(*(np.asarray(b.columns[c][1]) for b in blocks))
+        for c, (how, v) in first.items()
+    }
+    floats = [c for c, d in dtypes.items() if d == np.float64 and c not in texts]
+    flat = np.empty((len(floats), n))
+    arrays = dict(zip(floats, flat, strict=True))
+    for c, d in dtypes.items():
+        if c not in arrays:
+            arrays[c] = np.full(n, None, dtype=object) if d is None else np.empty(n, dtype=d)
+    for b, a in zip(blocks, at[:-1].tolist(), strict=True):
+        for c, (how, v) in b.columns.items():
+            if dtypes[c] is None:
+                continue
+            if how == Block.CASE:
+                v = np.asarray(v)[:, None]
+            elif how == Block.MEMBER:
+                v = np.asarray(v)[None, :]
+            arrays[c][a : a + b.cases * b.members].reshape(b.cases, b.members)[...] = v
+    out = pd.DataFrame(flat.T, columns=floats, copy=False)
+    for i, c in enumerate(dtypes):
+        if c in floats:
+            continue
+        a = text_of_codes(arrays[c], texts[c]) if c in texts else arrays[c]
+        out.insert(i, c, pd.Series(a, index=out.index, copy=False, dtype=a.dtype))
+    return out
+
+
 def stack(
     parts: list[dict[str, np.ndarray | None]], columns: list[str] | None = None, texts: dict | None = None
 ) -> pd.DataFrame:
