@@ -205,3 +205,68 @@ def test_frame_rows_equal_frames_of_each_case_alone(demo):
         ):
             np.testing.assert_array_equal(a, want)
         assert all(t[i] == a[0] for t, a in zip(together, got, strict=True))
+
+
+# ------------------------------------------------------------------ member actions
+
+
+def _runs_cases():
+    rng = np.random.default_rng(4)
+    storeys = np.repeat(np.array([f"L{i:02d}" for i in range(30)], dtype=object), 200)
+    blanks = storeys.copy()
+    blanks[[5, 6, 7, 400, 401]] = [np.nan, np.nan, None, None, np.nan]  # blanks inside runs
+    mixed = np.repeat(np.array([1, 1.0, True, "1", 2, 2.0, "L"], dtype=object), 150)
+    again = np.concatenate([storeys[:3000], storeys[:3000]])  # a value's runs apart
+    short = np.array([f"P{i % 7}" for i in range(5000)], dtype=object)  # every row a run
+    na = storeys.copy()
+    na[10] = pd.NA
+    return [storeys, blanks, mixed, again, short, na, rng.integers(0, 5, 3000), storeys[:40]]
+
+
+@pytest.mark.parametrize("case", range(8))
+def test_factorize_by_runs_equals_factorize(case, monkeypatch):
+    """Codes and distinct values by runs of equal neighbours equal `pd.factorize`: long runs,
+    blanks (NaN, None) inside runs, numbers equal across types, a value's runs apart, every
+    row a run (hashed as before), pd.NA (no answer to !=: hashed as before), numbers, few rows."""
+    from xlcore import distribution
+
+    values = _runs_cases()[case]
+    factorize, sizes = pd.factorize, []
+
+    def counted(v, *a, **k):
+        sizes.append(len(v))
+        return factorize(v, *a, **k)
+
+    with monkeypatch.context() as m:
+        m.setattr(distribution.pd, "factorize", counted)
+        codes, uniques = distribution.factorize_runs(values)
+    want_codes, want_uniques = factorize(np.asarray(values))
+    np.testing.assert_array_equal(codes, want_codes)
+    assert len(uniques) == len(want_uniques)
+    if values.dtype == object:  # the first rows' values themselves
+        assert all(a is b for a, b in zip(uniques, want_uniques, strict=True))
+    np.testing.assert_array_equal(uniques, want_uniques)
+    assert (sizes[0] < len(values)) == (case in (0, 1, 2, 3)), sizes  # runs hashed, or every row
+
+
+def test_pier_columns_gathered_in_their_types():
+    """Pier columns taken for action rows as they are (text, numbers, objects) equal the
+    columns assigned from gathered arrays, types included (a text column with a blank)."""
+    from xlcore import distribution
+
+    piers = pd.DataFrame(
+        dict(
+            wall_id=pd.Series(["W1", "W2", np.nan, "W3"]),
+            k=[1.0, 2.5, -0.0, 4.0],
+            n=[1, 2, 3, 4],
+            obj=np.array([1, "a", None, 2.5], dtype=object),
+            strs=pd.Series(["a", "b", "c", "d"], dtype="string"),  # another text type: inferred
+        )
+    )
+    rows = np.array([3, 0, 2, 2, 1])
+    base = pd.DataFrame(dict(x=np.arange(5)))
+    want = base.assign(**{c: piers[c].to_numpy()[rows] for c in piers.columns})
+    got = base.assign(
+        **{c: pd.Series(distribution._gathered(piers[c], rows), index=base.index) for c in piers.columns}
+    )
+    same_frame(got, want)

@@ -303,8 +303,8 @@ def _first_per_pier(table: pd.DataFrame, col: str) -> pd.Series:
     The group-by itself where a key is blank or the column is not of floats."""
     keys = ["storey", "pier_id"]
     v = table[col].to_numpy()
-    s, s_values = pd.factorize(table.storey.to_numpy())
-    p, p_values = pd.factorize(table.pier_id.to_numpy())
+    s, s_values = distribution.factorize_runs(table.storey.to_numpy())  # (rows storey by storey)
+    p, p_values = distribution.factorize_runs(table.pier_id.to_numpy())
     if v.dtype.kind != "f" or (s < 0).any() or (p < 0).any():
         return table.groupby(keys)[col].first()
     g = s.astype(np.int64) * max(len(p_values), 1) + p
@@ -332,8 +332,8 @@ def _distinct_pairs(df: pd.DataFrame) -> pd.DataFrame:
     """The first row of each distinct (storey, combination) of `df`, a few rows of the same
     columns: found on integer codes of each column, no text per row (`df` itself where a key
     is blank: None and NaN share a code but not a text)."""
-    s, s_values = pd.factorize(df.storey.to_numpy())
-    c, c_values = pd.factorize(df.combination.to_numpy())
+    s, s_values = distribution.factorize_runs(df.storey.to_numpy())  # (rows storey by storey)
+    c, c_values = distribution.factorize_runs(df.combination.to_numpy())
     if (s < 0).any() or (c < 0).any():
         return df
     pair = s.astype(np.int64) * max(len(c_values), 1) + c
@@ -424,17 +424,24 @@ def _from_blocks(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFr
     pad = max(w.pad for w in writers)  # past the last row: a strided view's last row may reach it
     coded = {"core", "member", "kind", *(k for _, b in parts for k in b.texts)}  # text as codes
     kinds = {c: _kind_of(template[c].dtype, c in coded) for c in template.columns}
+    if any(
+        k == "text" and not isinstance(template[c].array, pd.arrays.StringArray) for c, k in kinds.items()
+    ):
+        return None  # (its strings are written to an array of objects below)
     floats = [c for c, k in kinds.items() if k == "float"]
-    # the float columns as rows of one array, the block of the table (not copied)
-    flat = np.empty(len(floats) * n + pad)
-    arrays = {c: (flat, i * n) for i, c in enumerate(floats)}
-    for c, k in kinds.items():
-        if k != "float":  # int columns as they are, text as codes, objects
-            dtype = template[c].dtype if k == "int" else (np.intp if k == "text" else object)
-            arrays[c] = (np.empty(n + pad, dtype=dtype), 0)
-    extra = {c: (np.empty(n + pad, dtype=np.int64), 0) for c in ("used", "kind_order", "core_order")}
+    ints = [c for c, k in kinds.items() if k == "int" and template[c].dtype == np.int64]
+    ints += ["kind_order", "core_order"]
+    objects = [c for c, k in kinds.items() if k in ("text", "free", "object")] + ["used"]
+    # the columns of each type as rows of one array (the floats: the table's block, not copied)
+    arrays, buffers = {}, {}
+    for names, dtype in ((floats, np.float64), (ints, np.int64), (objects, object)):
+        buffers[dtype] = np.empty(len(names) * n + pad, dtype=dtype)
+        arrays |= {c: (buffers[dtype], i * n) for i, c in enumerate(names)}
+    for c in kinds:
+        if c not in arrays:  # an int column of another width
+            arrays[c] = (np.empty(n + pad, dtype=template[c].dtype), 0)
     core_code = {c: i for i, c in enumerate(dict.fromkeys(c for _, c, _, _ in blocks))}
-    names, luts = distribution.TextCodes(), {}
+    strings, used = {}, np.asarray(USED, dtype=object)
     for (kind, c, texts, blk), put in zip(blocks, writers, strict=True):
         cols = _side_columns(kind, c, blk)
         for col, k in kinds.items():
@@ -442,38 +449,39 @@ def _from_blocks(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFr
             if col not in cols:  # the other side's column: blank
                 if k == "int":
                     return None  # (the concatenation makes it float)
-                v = -1 if k == "text" else np.nan
-            elif k == "text" and isinstance(v, str):
-                v = names.codes([v])[0]
-            elif k == "text":  # codes into the table's own values
+                v = np.nan
+            elif k == "text" and not isinstance(v, str):  # codes: their strings
                 key = (id(texts), col, kind)
-                if key not in luts:
-                    luts[key] = names.codes(texts[_TEXT_OF.get(col, {}).get(kind, col)])
-                v = luts[key][v]
+                if key not in strings:
+                    strings[key] = np.asarray(texts[_TEXT_OF.get(col, {}).get(kind, col)], dtype=object)
+                v = strings[key][v]
             put(*arrays[col], how, v)
-        put(*extra["used"], distribution.Block.CASE, np.isin(blk.columns["row"][1], given))
-        put(*extra["kind_order"], distribution.Block.FIXED, 0 if kind == "wall" else 1)
-        put(*extra["core_order"], distribution.Block.FIXED, core_code[c])
-    if not names.all_text():
-        return None
-    values = pd.Series(np.asarray(names.values, dtype=object)).array
-    out = pd.DataFrame(flat[: len(floats) * n].reshape(len(floats), n).T, columns=floats, copy=False)
+        put(
+            *arrays["used"],
+            distribution.Block.CASE,
+            used[np.isin(blk.columns["row"][1], given).astype(np.intp)],
+        )
+        put(*arrays["kind_order"], distribution.Block.FIXED, 0 if kind == "wall" else 1)
+        put(*arrays["core_order"], distribution.Block.FIXED, core_code[c])
+    out = pd.DataFrame(
+        buffers[np.float64][: len(floats) * n].reshape(len(floats), n).T, columns=floats, copy=False
+    )
     # each column inserted as a Series of the table's index: not copied (nor its objects read)
     column = lambda a: pd.Series(a, index=out.index, copy=False, dtype=a.dtype)  # noqa: E731
-    for i, (c, k) in enumerate(kinds.items()):
+    used_text = pd.Series(used).array
+    for i, c in enumerate([*kinds, "used", "kind_order", "core_order"]):
+        k = kinds.get(c, "text" if c == "used" else "int")
         if k == "float":
             continue
-        a = arrays[c][0][:n]
-        if k == "text":
-            a = values.take(a, allow_fill=bool((a < 0).any()))  # a missing one blank
+        base, at = arrays[c]
+        a = base[at : at + n]
+        if k == "text":  # the strings as they are (all str), a missing one NaN: the take's
+            a = (template[c].array if c != "used" else used_text)._from_backing_data(a)
         elif k == "free":  # text made by the sharing (its 'V* from'), a missing one blank
             a = pd.Series(a, dtype=template[c].dtype).array
-        if a.dtype != template[c].dtype:
+        if c in template and a.dtype != template[c].dtype:
             return None
         out.insert(i, c, column(a))
-    out.insert(len(kinds), "used", column(results.text_column(extra["used"][0][:n], USED)))
-    out.insert(len(kinds) + 1, "kind_order", column(extra["kind_order"][0][:n]))
-    out.insert(len(kinds) + 2, "core_order", column(extra["core_order"][0][:n]))
     return out
 
 
