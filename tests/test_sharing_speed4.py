@@ -270,3 +270,36 @@ def test_pier_columns_gathered_in_their_types():
         **{c: pd.Series(distribution._gathered(piers[c], rows), index=base.index) for c in piers.columns}
     )
     same_frame(got, want)
+
+
+def _on_curves_by_mask(target, section, dn_curve, dmx_curve, dmy_curve):
+    """The design curves read as before: every (case, angle) pair compared with every curve."""
+    from xlcore.checks import core_nm
+
+    a = core_nm.ANGLES
+    kk = np.repeat(section, a) * a + np.tile(np.arange(a), len(section))
+    px, py = np.empty(len(kk)), np.empty(len(kk))
+    for row in np.unique(kk):
+        here = kk == row
+        px[here] = np.interp(target[here], dn_curve[row], dmx_curve[row])
+        py[here] = np.interp(target[here], dn_curve[row], dmy_curve[row])
+    return px, py
+
+
+def test_design_curves_read_per_section_and_angle_equal_the_masks():
+    """Points on the N-M design curves found per section's cases and angle equal the curves
+    read by a mask of every pair: three sections (one no case uses), cases in any order,
+    targets below, on and beyond the curves' ends."""
+    from xlcore.checks import core_nm
+
+    rng = np.random.default_rng(6)
+    a, samples, cases = core_nm.ANGLES, 20, 300
+    dn_curve = np.sort(rng.uniform(0, 1e7, (3 * a, samples)), axis=1)
+    dmx_curve, dmy_curve = rng.normal(0, 1e9, (2, 3 * a, samples))
+    section = rng.choice([0, 2], cases)
+    target = rng.uniform(-1e6, 1.1e7, cases * a)
+    target[:5] = dn_curve[section[0] * a, 0]
+    got = core_nm._on_curves(target, section, dn_curve, dmx_curve, dmy_curve)
+    want = _on_curves_by_mask(target, section, dn_curve, dmx_curve, dmy_curve)
+    for g, w in zip(got, want, strict=True):
+        np.testing.assert_array_equal(g, w)

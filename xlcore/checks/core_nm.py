@@ -173,11 +173,7 @@ def check_core_nm(
     kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its section x angle row
     idx = si[kk]
     target = np.clip(n_star[ci], 0.0, phi_d[kk] * nd[kk])
-    px, py = np.empty(len(kk)), np.empty(len(kk))
-    for row in np.unique(kk):
-        here = kk == row
-        px[here] = np.interp(target[here], dn_curve[row], dmx_curve[row])
-        py[here] = np.interp(target[here], dn_curve[row], dmy_curve[row])
+    px, py = _on_curves(target, case_storey, dn_curve, dmx_curve, dmy_curve)
     # above decompression a straight line to phi0 x squash (AS: phi0 Nuo, its upper limit)
     line_end, bottom = phi0 * nuo[idx], std.phi_tension * nuot[idx]
     above = n_star[ci] > phi_d[kk] * nd[kk]
@@ -191,6 +187,22 @@ def check_core_nm(
     px, py = px.reshape(len(core), ANGLES), py.reshape(len(core), ANGLES)
 
     return _rows(core, std, phi0, nuo[case_storey], nuot[case_storey], px, py)
+
+
+def _on_curves(target: np.ndarray, section: np.ndarray, dn_curve, dmx_curve, dmy_curve):
+    """Each (case, angle) pair's point on its section x angle design curve at `target` (pairs
+    case-major, `section` each case's section): per section its cases taken once, then each
+    angle's column of them (not every pair compared with every curve's row: 144 000 pairs x 24
+    curves at the L tower). Interpolation is point by point, so the same numbers."""
+    t = target.reshape(len(section), ANGLES)
+    px, py = np.empty(t.shape), np.empty(t.shape)
+    for sec in np.unique(section):
+        cases = np.flatnonzero(section == sec)
+        for angle in range(ANGLES):
+            row = sec * ANGLES + angle
+            px[cases, angle] = np.interp(t[cases, angle], dn_curve[row], dmx_curve[row])
+            py[cases, angle] = np.interp(t[cases, angle], dn_curve[row], dmy_curve[row])
+    return px.ravel(), py.ravel()
 
 
 def _storeys(storey: np.ndarray) -> tuple[np.ndarray, list]:
