@@ -240,22 +240,19 @@ def core_actions_to_piers(
     """Every core's actions (`share_among_cores(...).actions`) shared to its own walls and piers
     (`distribution.core_actions_to_piers` over that core's section alone); tables with a `core`
     column. Without `text` the piers' `source` is blank (`distribution.core_source_of`)."""
-    pier_parts, wall_parts = [], []
+    parts: list[tuple[str, distribution.CoreBlocks]] = []
     layout: distribution.Layout | None = distribution.Layout()
     for core, rows in actions.groupby("core", sort=False):
         out = distribution.core_actions_to_piers(
             piers[piers.core == core], walls[walls.core == core], plans[core], rows, 0.0, local_moment, text
         )
-        pier_parts.append(out.piers.assign(core=core))
-        wall_parts.append(out.walls.assign(core=core))
+        parts += [(core, blocks) for _, blocks in out.parts]  # (tables made when asked for)
         if layout is not None and out.layout is not None:  # the cores' blocks one after another
             layout.walls += out.layout.walls
             layout.piers += out.layout.piers
         else:
             layout = None
     cols = distribution.ACTION_COLUMNS + distribution.CORE_PIER_EXTRA + ["core"]
-    if not pier_parts:
+    if not parts:
         return distribution.CoreSharing(pd.DataFrame(columns=cols), pd.DataFrame())
-    return distribution.CoreSharing(
-        pd.concat(pier_parts, ignore_index=True), pd.concat(wall_parts, ignore_index=True), layout
-    )
+    return distribution.CoreSharing(layout=layout, parts=parts)

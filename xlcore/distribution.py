@@ -99,7 +99,7 @@ class Coded:
     rows up in a small table hashes each distinct value once, not every row."""
 
     def __init__(self, values) -> None:
-        self.codes, self.values = pd.factorize(np.asarray(values))
+        self.codes, self.values = factorize_runs(values)
 
     def __len__(self) -> int:
         return len(self.codes)
@@ -108,6 +108,30 @@ class Coded:
         """`index.get_indexer(values)` (-1 where a value is not in `index`; NaN never is, as in
         an index without NaN, the only kind asked)."""
         return np.where(self.codes >= 0, index.get_indexer(self.values)[self.codes], -1)
+
+
+def factorize_runs(values) -> tuple[np.ndarray, np.ndarray]:
+    """`pd.factorize(np.asarray(values))`. Text in runs of equal neighbours (a tower's member
+    actions come storey by storey: 100 runs of 360 000 rows) is compared with its neighbour
+    and only each run's first value hashed, its code spread over the run (a blank, equal to
+    nothing, is a run of its own and takes the blank's code). Where the first rows show short
+    runs, or a comparison gives no plain answer, every row hashed as before."""
+    values = np.asarray(values)
+    n = len(values)
+    if values.dtype != object or n < 64:
+        return pd.factorize(values)
+    try:
+        probe = values[1:1024] != values[: min(n, 1024) - 1]
+        if probe.dtype != bool or probe.sum() * 4 > len(probe):  # short runs: no gain
+            return pd.factorize(values)
+        change = values[1:] != values[:-1]
+    except (TypeError, ValueError):  # (pd.NA has no answer to !=)
+        return pd.factorize(values)
+    if change.dtype != bool:
+        return pd.factorize(values)
+    starts = np.flatnonzero(np.concatenate([[True], change]))
+    codes, uniques = pd.factorize(values[starts])
+    return np.repeat(codes, np.diff(np.append(starts, n))), uniques
 
 
 def _naming(keys: tuple[Coded, Coded], table_a, table_b) -> np.ndarray:
@@ -135,7 +159,22 @@ def _given_for_piers(
         return base.merge(piers, left_on=["storey", "member"], right_on=["storey", "pier_id"])
     found = at >= 0
     direct = (base if found.all() else base[found]).reset_index(drop=True)  # (no copy of every row)
-    return direct.assign(**{c: piers[c].to_numpy()[at[found]] for c in piers.columns if c != "storey"})
+    rows = at[found]
+    # each pier column gathered once and joined as it is (assigning arrays copied each again)
+    column = lambda c: pd.Series(_gathered(piers[c], rows), index=direct.index, copy=False)  # noqa: E731
+    return direct.assign(**{c: column(c) for c in piers.columns if c != "storey"})
+
+
+_TEXT = pd.Series(np.array(["a"], dtype=object)).dtype  # the type a column of strings takes
+
+
+def _gathered(column: pd.Series, rows: np.ndarray):
+    """`column.to_numpy()[rows]` in the type a table gives it: text of that type taken as it
+    is (not strings made objects and their type found again, row by row)."""
+    if column.dtype == _TEXT and isinstance(column.array, pd.arrays.StringArray):
+        return column.array.take(rows)
+    values = column.to_numpy()[rows]
+    return values if values.dtype != object else pd.Series(values).array
 
 
 def rows_of(a, b, table_a, table_b) -> np.ndarray | None:
@@ -302,12 +341,136 @@ class Layout:
 
 
 @dataclass
-class CoreSharing:
-    """Everything the core-sharing step derived, for the checks and for the results."""
+class Block:
+    """One storey's rows of one side of the core sharing (its walls, or its piers), before they
+    are rows: each column given once per case (`CASE`: a core-actions row), per member
+    (`MEMBER`), per case x member (`GRID`, cases x members), once (`FIXED`) or blank (None in
+    every row). Its rows are the cases one after another, each with every member in order
+    (`rows`); `pipeline.core_table` writes the columns straight to their places in the
+    core-sharing table instead (each value written once, no table of rows made and reordered).
+    Text columns are integer codes into `CoreBlocks.texts`."""
 
-    piers: pd.DataFrame  # ACTION_COLUMNS, one row per storey x combination x pier
-    walls: pd.DataFrame  # one row per storey x combination x wall: k, direct, torsion, V, N
-    layout: Layout | None = None  # how the rows were made; None where not known
+    CASE, MEMBER, GRID, FIXED = "case", "member", "grid", "fixed"
+    cases: int
+    members: int
+    columns: dict[str, tuple[str, object]]  # name -> (how it is given, values)
+
+    def rows(self) -> dict[str, np.ndarray | None]:
+        """The columns as rows (what `stack` takes): cases repeated, members tiled."""
+        n, out = self.cases * self.members, {}
+        for name, (how, v) in self.columns.items():
+            if how == Block.CASE:
+                out[name] = np.repeat(v, self.members)
+            elif how == Block.MEMBER:
+                out[name] = np.tile(v, self.cases)
+            elif how == Block.GRID:
+                out[name] = None if v is None else np.asarray(v).ravel()
+            else:
+                out[name] = np.full(n, v)
+        return out
+
+    def taken(self, keep: np.ndarray) -> Block:
+        """The block of the cases `keep` (booleans, one per case) alone."""
+        cols: dict[str, tuple[str, object]] = {}
+        for name, (how, v) in self.columns.items():
+            if how == Block.CASE:
+                v = v[keep]
+            elif how == Block.GRID and v is not None:
+                v = np.asarray(v)[keep]
+            cols[name] = (how, v)
+        return Block(int(keep.sum()), self.members, cols)
+
+
+@dataclass
+class CoreBlocks:
+    """`core_actions_to_piers`' rows as blocks (`Block`), one per storey and side, in the
+    order the tables' rows take; `texts`: the values of the text columns' codes."""
+
+    walls: list[Block]
+    piers: list[Block]
+    texts: dict[str, list]
+    all_text: bool  # every text value a str (a subset's columns then take the whole's types)
+
+    def pier_table(self) -> pd.DataFrame:
+        return stack([b.rows() for b in self.piers], ACTION_COLUMNS + CORE_PIER_EXTRA, self.texts)
+
+    def wall_table(self) -> pd.DataFrame:
+        return stack([b.rows() for b in self.walls], texts=self.texts)
+
+    def with_piers(self, piers: list[Block]) -> CoreBlocks:
+        return CoreBlocks([], piers, self.texts, self.all_text)
+
+
+class CoreSharing:
+    """Everything the core-sharing step derived, for the checks and for the results.
+
+    `piers`: ACTION_COLUMNS, one row per storey x combination x pier; `walls`: one row per
+    storey x combination x wall (k, direct, torsion, V, N); `layout`: how the rows were made
+    (None where not known). Made by `core_actions_to_piers`, the tables are made from its
+    blocks (`parts`: each core's `CoreBlocks`, the core's name or None for a table without a
+    core column) only when first asked for: the pipeline writes the core-sharing table from
+    the blocks and takes from them the few pier rows it needs (at the L tower none of 360 000).
+    Once the tables are made they are what is read (a caller may change them), the blocks
+    dropped."""
+
+    def __init__(
+        self,
+        piers: pd.DataFrame | None = None,
+        walls: pd.DataFrame | None = None,
+        layout: Layout | None = None,
+        parts: list[tuple[str | None, CoreBlocks]] | None = None,
+    ) -> None:
+        self._piers, self._walls, self.layout = piers, walls, layout
+        self.parts = parts if piers is None and walls is None else None
+
+    @property
+    def piers(self) -> pd.DataFrame:
+        self._made()
+        return self._piers
+
+    @property
+    def walls(self) -> pd.DataFrame:
+        self._made()
+        return self._walls
+
+    def _made(self) -> None:
+        if self.parts is not None:
+            self._piers, self._walls = _tables_of(self.parts)
+            self.parts = None
+
+    def piers_apart_from(self, rows: np.ndarray) -> pd.DataFrame:
+        """`piers[~piers.row.isin(rows)]` (its index aside): made from the blocks, of the cases
+        whose row is not among `rows` alone, where every text is a str (a part's columns then
+        take the types of the whole table's); the table filtered otherwise."""
+        parts = self.parts
+        if parts is None or not all(b.all_text for _, b in parts) or not any(b.piers for _, b in parts):
+            return self.piers[~self.piers.row.isin(rows)]
+        kept = []
+        for core, b in parts:
+            blocks = [p.taken(~np.isin(p.columns["row"][1], rows)) for p in b.piers]
+            if any(p.cases for p in blocks):
+                kept.append((core, b.with_piers([p for p in blocks if p.cases])))
+        if kept:
+            return _pier_table(kept)
+        # none kept: one case's rows, and none of them (the columns' types of the whole)
+        core, b = next((c, b) for c, b in parts if b.piers)
+        one = b.piers[0].taken(np.arange(b.piers[0].cases) == 0)
+        return _pier_table([(core, b.with_piers([one]))]).iloc[:0]
+
+
+def _tables_of(parts: list[tuple[str | None, CoreBlocks]]) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """The piers' and walls' tables of the blocks: one core's as `stack` makes them; each
+    core's named (`cores.core_actions_to_piers`) with its `core` column, concatenated."""
+    if len(parts) == 1 and parts[0][0] is None:
+        return parts[0][1].pier_table(), parts[0][1].wall_table()
+    walls = [b.wall_table().assign(core=core) for core, b in parts]
+    return _pier_table(parts), pd.concat(walls, ignore_index=True)
+
+
+def _pier_table(parts: list[tuple[str | None, CoreBlocks]]) -> pd.DataFrame:
+    if len(parts) == 1 and parts[0][0] is None:
+        return parts[0][1].pier_table()
+    return pd.concat([b.pier_table().assign(core=core) for core, b in parts], ignore_index=True)
 
 
 def core_actions_to_piers(
@@ -338,7 +501,8 @@ def core_actions_to_piers(
     that need it (the L tower's 360 000 core pier rows took 1.7 s of text that its member
     actions then replaced); `wall_v` (the wall's V* the pier shares) is kept for it.
     """
-    pier_rows, wall_rows = [], []
+    pier_blocks: list[Block] = []
+    wall_blocks: list[Block] = []
     # text columns as integer codes while the storeys' pieces are made, a column once at the end
     # (`stack`): no object array per storey, no text inferred row by row (648 000 rows at L)
     names = TextCodes()  # storeys, walls and piers
@@ -384,8 +548,8 @@ def core_actions_to_piers(
         walls_here = sw["wall_id"]
         n_w, n_c, n_p = len(walls_here), len(cs["row"]), len(sp["k"])
         wall_of_pier = positions(sw["_wall"], sp["_wall"], walls_here, sp["wall_id"], names)
-        member = np.zeros((n_w, n_p))
-        member[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
+        member_of = np.zeros((n_w, n_p))
+        member_of[wall_of_pier, np.arange(n_p)] = 1.0  # walls x piers: which pier belongs to which wall
         along = vx[:, None] * sw["ux"][None, :] + vy[:, None] * sw["uy"][None, :]
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # blank when not finite
             share_pct = np.where(np.abs(along) < 1e-9, np.nan, 100 * base.direct.T / along)
@@ -393,22 +557,27 @@ def core_actions_to_piers(
         storey_code = names.codes([storey])[0]
         layout.walls.append((n_c, n_w))
         layout.piers.append((n_c, n_p))
-        wall_rows.append(
-            dict(
-                row=np.repeat(rows, n_w),
-                storey=np.full(n_w * n_c, storey_code),
-                combination=np.repeat(combos, n_w),
-                wall_id=np.tile(sw["_wall"], n_c),
-                k=np.tile(sw["k"] * 1e-3, n_c),
-                direct=base.direct.T.ravel(),
-                torsion=torsion.T.ravel(),
-                v=total.T.ravel(),
-                share_pct=share_pct.ravel(),
-                xr=np.full(n_w * n_c, xr),
-                yr=np.full(n_w * n_c, yr),
-                m_cr=np.repeat(m_cr, n_w),
-                m_acc=np.repeat(d_acc, n_w),
-                n=(member @ n_piece).T.ravel(),
+        case, member, grid, fixed = Block.CASE, Block.MEMBER, Block.GRID, Block.FIXED
+        wall_blocks.append(
+            Block(
+                n_c,
+                n_w,
+                dict(
+                    row=(case, rows),
+                    storey=(fixed, storey_code),
+                    combination=(case, combos),
+                    wall_id=(member, sw["_wall"]),
+                    k=(member, sw["k"] * 1e-3),
+                    direct=(grid, base.direct.T),
+                    torsion=(grid, torsion.T),
+                    v=(grid, total.T),
+                    share_pct=(grid, share_pct),
+                    xr=(fixed, xr),
+                    yr=(fixed, yr),
+                    m_cr=(case, m_cr),
+                    m_acc=(case, d_acc),
+                    n=(grid, (member_of @ n_piece).T),
+                ),
             )
         )
         k_p = sp["k"]
@@ -425,34 +594,37 @@ def core_actions_to_piers(
             np.array(
                 core_source(tiled(pier_walls), wall_v.ravel(), tiled(share), m_in.T.ravel(), m_loc.ravel()),
                 dtype=object,
-            )
+            ).reshape(n_c, n_p)
             if text
             else None  # blank, made once for every row (`stack`)
         )
-        pier_rows.append(
-            dict(
-                row=np.repeat(rows, n_p),
-                storey=np.full(n_p * n_c, storey_code),
-                combination=np.repeat(combos, n_p),
-                wall_id=tiled(sp["_wall"]),
-                pier_id=tiled(sp["_pier"]),
-                position=tiled(sp["position"]),
-                k=tiled(k_p),
-                share=tiled(share),
-                n=n_piece.T.ravel(),
-                v=v.ravel(),
-                m=m_pier.ravel(),
-                source=source,
-                m_curv=m_in.T.ravel(),
-                m_local=m_loc.ravel(),
-                m_oop=m_oop.T.ravel(),
-                wall_v=wall_v.ravel(),
+        pier_blocks.append(
+            Block(
+                n_c,
+                n_p,
+                dict(
+                    row=(case, rows),
+                    storey=(fixed, storey_code),
+                    combination=(case, combos),
+                    wall_id=(member, sp["_wall"]),
+                    pier_id=(member, sp["_pier"]),
+                    position=(member, sp["position"]),
+                    k=(member, k_p),
+                    share=(member, share),
+                    n=(grid, n_piece.T),
+                    v=(grid, v),
+                    m=(grid, m_pier),
+                    source=(grid, source),
+                    m_curv=(grid, m_in.T),
+                    m_local=(grid, m_loc),
+                    m_oop=(grid, m_oop.T),
+                    wall_v=(grid, wall_v),
+                ),
             )
         )
     texts = dict(storey=names.values, wall_id=names.values, pier_id=names.values, combination=combo_names)
-    return CoreSharing(
-        stack(pier_rows, ACTION_COLUMNS + CORE_PIER_EXTRA, texts), stack(wall_rows, texts=texts), layout
-    )
+    all_text = names.all_text() and all(isinstance(c, str) for c in combo_names)
+    return CoreSharing(layout=layout, parts=[(None, CoreBlocks(wall_blocks, pier_blocks, texts, all_text))])
 
 
 class TextCodes:
@@ -558,6 +730,46 @@ def text_of_codes(codes: np.ndarray, values) -> pd.api.extensions.ExtensionArray
     if not used.all():
         codes, values = (np.cumsum(used) - 1)[codes], values[used]
     return text_column(codes, values)
+
+
+def stack_blocks(blocks: list[Block], texts: dict | None = None) -> pd.DataFrame:
+    """`stack([b.rows() for b in blocks], texts=texts)`, each value written once to its place
+    (a block's rows one after another) instead of rows made per block and concatenated, the
+    float columns one block of the table (not copied into one by the table)."""
+    if not blocks:
+        return stack([], texts=texts)
+    texts = texts or {}
+    n = sum(b.cases * b.members for b in blocks)
+    at = np.cumsum([0] + [b.cases * b.members for b in blocks])
+    first = blocks[0].columns
+    dtypes = {
+        c: None
+        if how == Block.GRID and v is None
+        else np.result_type(*(np.asarray(b.columns[c][1]) for b in blocks))
+        for c, (how, v) in first.items()
+    }
+    floats = [c for c, d in dtypes.items() if d == np.float64 and c not in texts]
+    flat = np.empty((len(floats), n))
+    arrays = dict(zip(floats, flat, strict=True))
+    for c, d in dtypes.items():
+        if c not in arrays:
+            arrays[c] = np.full(n, None, dtype=object) if d is None else np.empty(n, dtype=d)
+    for b, a in zip(blocks, at[:-1].tolist(), strict=True):
+        for c, (how, v) in b.columns.items():
+            if dtypes[c] is None:
+                continue
+            if how == Block.CASE:
+                v = np.asarray(v)[:, None]
+            elif how == Block.MEMBER:
+                v = np.asarray(v)[None, :]
+            arrays[c][a : a + b.cases * b.members].reshape(b.cases, b.members)[...] = v
+    out = pd.DataFrame(flat.T, columns=floats, copy=False)
+    for i, c in enumerate(dtypes):
+        if c in floats:
+            continue
+        a = text_of_codes(arrays[c], texts[c]) if c in texts else arrays[c]
+        out.insert(i, c, pd.Series(a, index=out.index, copy=False, dtype=a.dtype))
+    return out
 
 
 def stack(

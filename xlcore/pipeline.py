@@ -271,7 +271,7 @@ def pier_actions(
     # core-actions rows (one per storey x combination) whose pair the member actions cover
     ca = building.core_actions
     given = ca.row[_pairs_in(ca, building.member_actions)].to_numpy()
-    core_piers = core.piers[~core.piers.row.isin(given)].assign(origin=1)
+    core_piers = core.piers_apart_from(given).assign(origin=1)  # (no table of every core row)
     core_piers["source"] = distribution.core_source_of(core_piers)
     table = core_table(core, given, text=False)  # the walls' working: compute, on the rows written
     core_piers = core_piers.drop(columns=["core", "wall_v"])
@@ -303,8 +303,8 @@ def _first_per_pier(table: pd.DataFrame, col: str) -> pd.Series:
     The group-by itself where a key is blank or the column is not of floats."""
     keys = ["storey", "pier_id"]
     v = table[col].to_numpy()
-    s, s_values = pd.factorize(table.storey.to_numpy())
-    p, p_values = pd.factorize(table.pier_id.to_numpy())
+    s, s_values = distribution.factorize_runs(table.storey.to_numpy())  # (rows storey by storey)
+    p, p_values = distribution.factorize_runs(table.pier_id.to_numpy())
     if v.dtype.kind != "f" or (s < 0).any() or (p < 0).any():
         return table.groupby(keys)[col].first()
     g = s.astype(np.int64) * max(len(p_values), 1) + p
@@ -332,8 +332,8 @@ def _distinct_pairs(df: pd.DataFrame) -> pd.DataFrame:
     """The first row of each distinct (storey, combination) of `df`, a few rows of the same
     columns: found on integer codes of each column, no text per row (`df` itself where a key
     is blank: None and NaN share a code but not a text)."""
-    s, s_values = pd.factorize(df.storey.to_numpy())
-    c, c_values = pd.factorize(df.combination.to_numpy())
+    s, s_values = distribution.factorize_runs(df.storey.to_numpy())  # (rows storey by storey)
+    c, c_values = distribution.factorize_runs(df.combination.to_numpy())
     if (s < 0).any() or (c < 0).any():
         return df
     pair = s.astype(np.int64) * max(len(c_values), 1) + c
@@ -344,14 +344,10 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
     """Walls and piers of the core sharing, one sheet's rows, with the working as text
     (without `text`, the walls' working is left blank for `core_working` to make on the rows
     written). `given`: core-actions rows whose storey x combination the member actions cover."""
-    w = core.walls.assign(member=core.walls.wall_id, kind="wall", m=np.nan, working=None)
-    p = core.piers.assign(
-        member=core.piers.pier_id,
-        kind="pier",
-        k=core.piers.k * 1e-3,
-        share_pct=core.piers.share * 100,
-        working=core.piers.source,
-    )
+    out = _from_blocks(core, given)
+    if out is not None:
+        return core_working(out) if text else out
+    w, p = _sides(core.walls, core.piers)
     by_layout = _layout_order(core)
     out = _in_order(w, p, *by_layout, given) if by_layout is not None else None
     if out is not None:
@@ -369,6 +365,218 @@ def core_table(core: distribution.CoreSharing, given: np.ndarray, text: bool = T
 
 
 USED = ["yes", "no: member actions given"]  # the core-sharing table's "Used" words
+
+
+def _sides(walls: pd.DataFrame, piers: pd.DataFrame) -> tuple[pd.DataFrame, pd.DataFrame]:
+    """The walls' and the piers' rows of the core-sharing table, each with its own columns."""
+    w = walls.assign(member=walls.wall_id, kind="wall", m=np.nan, working=None)
+    p = piers.assign(
+        member=piers.pier_id, kind="pier", k=piers.k * 1e-3, share_pct=piers.share * 100, working=piers.source
+    )
+    return w, p
+
+
+def _side_columns(kind: str, core: str, block: distribution.Block) -> dict[str, tuple[str, object]]:
+    """A block's columns as `_sides` gives its side's rows them (core, member, kind, k in
+    kN/mm, share in %, working), per case, member, case x member or once (`Block`)."""
+    fixed, cols = distribution.Block.FIXED, dict(block.columns)
+    cols["core"] = (fixed, core)
+    if kind == "wall":
+        return cols | dict(
+            member=cols["wall_id"], kind=(fixed, "wall"), m=(fixed, np.nan), working=(fixed, None)
+        )
+    (k_how, k), (share_how, share) = cols["k"], cols["share"]
+    return cols | dict(
+        member=cols["pier_id"],
+        kind=(fixed, "pier"),
+        k=(k_how, k * 1e-3),
+        share_pct=(share_how, share * 100),
+        working=cols["source"],
+    )
+
+
+def _from_blocks(core: distribution.CoreSharing, given: np.ndarray) -> pd.DataFrame | None:
+    """The core-sharing table (`core_table`'s, without the walls' working) written straight
+    from the sharing's blocks (`distribution.Block`): each value once, to its row's place in
+    the table's order (by row, core, walls before piers, members in natural order), not rows
+    made, stacked, concatenated and taken again (648 000 rows x 30 columns at the L tower,
+    each copied four times). Columns and types those of the concatenation of the two sides
+    (`_sides`, found on one case of each side). None where the tables were made (a caller
+    may have changed them), a text is not a str, a side has no row, a core has no name or the
+    order is not decided (two cases of one row, core and side): the tables then decide."""
+    parts = core.parts
+    if not parts or any(not isinstance(c, str) or not b.all_text for c, b in parts):
+        return None
+    blocks = [  # (side, core, texts, block), walls then piers, as the tables' rows
+        (kind, c, b.texts, blk)
+        for kind, side in (("wall", "walls"), ("pier", "piers"))
+        for c, b in parts
+        for blk in getattr(b, side)
+        if blk.members
+    ]
+    if not {"wall", "pier"} <= {k for k, *_ in blocks}:
+        return None
+    writers = _places(blocks)
+    if writers is None:
+        return None
+    template = _template(parts)
+    n = int(sum(b.cases * b.members for *_, b in blocks))
+    pad = max(w.pad for w in writers)  # past the last row: a strided view's last row may reach it
+    coded = {"core", "member", "kind", *(k for _, b in parts for k in b.texts)}  # text as codes
+    kinds = {c: _kind_of(template[c].dtype, c in coded) for c in template.columns}
+    if any(
+        k == "text" and not isinstance(template[c].array, pd.arrays.StringArray) for c, k in kinds.items()
+    ):
+        return None  # (its strings are written to an array of objects below)
+    floats = [c for c, k in kinds.items() if k == "float"]
+    ints = [c for c, k in kinds.items() if k == "int" and template[c].dtype == np.int64]
+    ints += ["kind_order", "core_order"]
+    objects = [c for c, k in kinds.items() if k in ("text", "free", "object")] + ["used"]
+    # the columns of each type as rows of one array (the floats: the table's block, not copied)
+    arrays, buffers = {}, {}
+    for names, dtype in ((floats, np.float64), (ints, np.int64), (objects, object)):
+        buffers[dtype] = np.empty(len(names) * n + pad, dtype=dtype)
+        arrays |= {c: (buffers[dtype], i * n) for i, c in enumerate(names)}
+    for c in kinds:
+        if c not in arrays:  # an int column of another width
+            arrays[c] = (np.empty(n + pad, dtype=template[c].dtype), 0)
+    core_code = {c: i for i, c in enumerate(dict.fromkeys(c for _, c, _, _ in blocks))}
+    strings, used = {}, np.asarray(USED, dtype=object)
+    for (kind, c, texts, blk), put in zip(blocks, writers, strict=True):
+        cols = _side_columns(kind, c, blk)
+        for col, k in kinds.items():
+            how, v = cols.get(col, (distribution.Block.FIXED, None))
+            if col not in cols:  # the other side's column: blank
+                if k == "int":
+                    return None  # (the concatenation makes it float)
+                v = np.nan
+            elif k == "text" and not isinstance(v, str):  # codes: their strings
+                key = (id(texts), col, kind)
+                if key not in strings:
+                    strings[key] = np.asarray(texts[_TEXT_OF.get(col, {}).get(kind, col)], dtype=object)
+                v = strings[key][v]
+            put(*arrays[col], how, v)
+        put(
+            *arrays["used"],
+            distribution.Block.CASE,
+            used[np.isin(blk.columns["row"][1], given).astype(np.intp)],
+        )
+        put(*arrays["kind_order"], distribution.Block.FIXED, 0 if kind == "wall" else 1)
+        put(*arrays["core_order"], distribution.Block.FIXED, core_code[c])
+    out = pd.DataFrame(
+        buffers[np.float64][: len(floats) * n].reshape(len(floats), n).T, columns=floats, copy=False
+    )
+    # each column inserted as a Series of the table's index: not copied (nor its objects read)
+    column = lambda a: pd.Series(a, index=out.index, copy=False, dtype=a.dtype)  # noqa: E731
+    used_text = pd.Series(used).array
+    for i, c in enumerate([*kinds, "used", "kind_order", "core_order"]):
+        k = kinds.get(c, "text" if c == "used" else "int")
+        if k == "float":
+            continue
+        base, at = arrays[c]
+        a = base[at : at + n]
+        if k == "text":  # the strings as they are (all str), a missing one NaN: the take's
+            a = (template[c].array if c != "used" else used_text)._from_backing_data(a)
+        elif k == "free":  # text made by the sharing (its 'V* from'), a missing one blank
+            a = pd.Series(a, dtype=template[c].dtype).array
+        if c in template and a.dtype != template[c].dtype:
+            return None
+        out.insert(i, c, column(a))
+    return out
+
+
+_TEXT_OF = dict(member={"wall": "wall_id", "pier": "pier_id"})  # where a text column's codes point
+
+
+def _kind_of(dtype, coded: bool) -> str:
+    """How `_from_blocks` makes a column of this type: float, int, object, text (the blocks
+    give its codes) or free text (the blocks give the strings)."""
+    if isinstance(dtype, np.dtype) and dtype.kind == "f":
+        return "float"
+    if isinstance(dtype, np.dtype) and dtype.kind in "iu":
+        return "int"
+    if isinstance(dtype, np.dtype) and dtype.kind == "O":
+        return "object"
+    return "text" if coded else "free"
+
+
+def _template(parts: list) -> pd.DataFrame:
+    """One row of each side of the core-sharing table (`_sides`), from one case of the first
+    core's first blocks: the columns and their types (every text a str: any rows' types)."""
+    c, b = next((c, b) for c, b in parts if b.walls and b.piers)
+    first = lambda blk: blk.taken(np.arange(blk.cases) == 0)  # noqa: E731
+    one = distribution.CoreBlocks([first(b.walls[0])], [first(b.piers[0])], b.texts, True)
+    tiny = distribution.CoreSharing(parts=[(c, one)])
+    w, p = _sides(tiny.walls, tiny.piers)
+    return pd.concat([w.iloc[:1], p.iloc[:1]], ignore_index=True)
+
+
+def _places(blocks: list) -> list | None:
+    """For each block a writer of its values to their rows' places in the core-sharing
+    table's order: the cases (a block's core-actions rows) sorted by row, core (in order of
+    first appearance) and side, each case's members in the natural order of their IDs (ties:
+    first seen first). A block whose cases stand at equal steps is written through a strided
+    view of the column (rows x members), others by index. None where two cases share a row,
+    core and side (the sort then interleaves their members) or an ID is not a str."""
+    core_code = {c: i for i, c in enumerate(dict.fromkeys(c for _, c, _, _ in blocks))}
+    rows = [b.columns["row"][1] for *_, b in blocks]
+    if not all(np.asarray(r).dtype.kind in "iu" for r in rows):
+        return None
+    row = np.concatenate(rows).astype(np.int64)
+    which = np.repeat(np.arange(len(blocks)), [b.cases for *_, b in blocks])
+    code = np.array([core_code[c] for _, c, _, _ in blocks], dtype=np.int64)[which]
+    kind = np.array([k == "pier" for k, *_ in blocks], dtype=np.int64)[which]
+    size = np.array([b.members for *_, b in blocks], dtype=np.int64)[which]
+    cases = np.lexsort((kind, code, row))
+    r, c, k = row[cases], code[cases], kind[cases]
+    if ((r[1:] == r[:-1]) & (c[1:] == c[:-1]) & (k[1:] == k[:-1])).any():
+        return None
+    start = np.empty(len(row), dtype=np.int64)
+    start[cases] = np.cumsum(size[cases]) - size[cases]
+    ids = []
+    for kind_, _, names, b in blocks:
+        col = "wall_id" if kind_ == "wall" else "pier_id"
+        ids.append([names[col][i] for i in b.columns[col][1].tolist()])
+    first = dict.fromkeys(m for members in ids for m in members)
+    if not all(isinstance(m, str) for m in first):
+        return None
+    rank = {m: r for r, m in enumerate(sorted(first, key=geometry._natural))}  # stable: ties by first seen
+    at = np.cumsum([b.cases for *_, b in blocks]) - [b.cases for *_, b in blocks]
+    perms = [np.argsort(np.array([rank[m] for m in members]), kind="stable") for members in ids]
+    return [
+        _Writer(start[a : a + b.cases], perm, b.members)
+        for a, perm, (*_, b) in zip(at.tolist(), perms, blocks, strict=True)
+    ]
+
+
+class _Writer:
+    """Writes a block's values (given per case, member, case x member or once:
+    `distribution.Block`) to a column at its cases' places (`start`), its members in the order
+    `perm` (their places within a case). Cases at equal steps (a storey's rows one after
+    another in the table) through a view of the column as cases x step; others by index."""
+
+    def __init__(self, start: np.ndarray, perm: np.ndarray, members: int) -> None:
+        self.start, self.members = start, members
+        self.perm = None if np.array_equal(perm, np.arange(members)) else perm
+        self.step = int(start[1] - start[0]) if len(start) > 1 else members
+        self.strided = self.step >= members and bool((np.diff(start) == self.step).all())
+        self.pad = self.step - members if self.strided else 0  # what the view's last row reaches past
+        self.place = None if self.strided else start[:, None] + np.arange(members)[None, :]
+
+    def __call__(self, dest: np.ndarray, base: int, how: str, v) -> None:
+        """Write `v` to `dest` (a flat array; the column from `base`)."""
+        B, perm = distribution.Block, self.perm
+        if how == B.CASE:
+            v = np.asarray(v)[:, None]
+        elif how == B.MEMBER:
+            v = np.asarray(v)[None, :] if perm is None else np.asarray(v)[perm][None, :]
+        elif how == B.GRID and v is not None:
+            v = np.asarray(v) if perm is None else np.asarray(v)[:, perm]
+        if self.strided:
+            at, cases = base + int(self.start[0]), len(self.start)
+            dest[at : at + cases * self.step].reshape(cases, self.step)[:, : self.members] = v
+        else:
+            dest[base + self.place] = v
 
 
 def _in_order(

@@ -121,12 +121,15 @@ def check_core_nm(
     th = np.tile(theta, len(storeys))
     full = nm_core.full_depth(asm, si, th)
     d0 = nm_core.extreme_bar_depth(asm, si, th)
-    dn0 = nm_core.solve_dn(asm, si, th, 0.0, 1e-3 * full, full)
-    _, mx0, my0 = nm_core.forces(asm, si, th, dn0)
+    # one frame of every section x angle for the solve, the key points and the curves (each
+    # row's numbers are its own: a frame of one row alone is the same)
+    fr = nm_core.frame(asm, si, th)
+    dn0 = nm_core.solve_dn(asm, si, th, 0.0, 1e-3 * full, full, fr=fr)
+    _, mx0, my0 = nm_core.forces_in(fr, dn0)
     kuo = dn0 / d0
     dn_b = d0 * asm.eps_cu / (asm.eps_cu + asm.fsy.max(axis=1)[si] / asm.Es)
-    nub, _, _ = nm_core.forces(asm, si, th, dn_b)
-    nd, mxd, myd = nm_core.forces(asm, si, th, full)
+    nub, _, _ = nm_core.forces_in(fr, dn_b)
+    nd, mxd, myd = nm_core.forces_in(fr, full)
     fa, fc, ba, fsy = asm.fa, asm.fc, asm.ba, asm.fsy
     # the standard's squash load fibre by fibre and bar by bar (AS alpha1 f'c, fsy <= 0.0025 Es;
     # ACI 0.85 f'c, fy <= 550 MPa), less the concrete the bars displace
@@ -158,7 +161,7 @@ def check_core_nm(
     u = np.linspace(0.0, 1.0, SAMPLES)
     dn_s = dn0[:, None] * (full / dn0)[:, None] ** u[None, :]  # rows x samples
     rows_s = np.repeat(np.arange(len(si)), SAMPLES)
-    n_s, mx_s, my_s = _curve_points(asm, si, th, dn_s)
+    n_s, mx_s, my_s = _curve_points(asm, si, th, dn_s, fr)
     phi_s = phi_at(n_s, dn_s.ravel(), rows_s)
     dn_curve = (phi_s * n_s).reshape(-1, SAMPLES)
     dmx_curve = (phi_s * mx_s).reshape(-1, SAMPLES)
@@ -170,11 +173,7 @@ def check_core_nm(
     kk = case_storey[ci] * ANGLES + np.tile(np.arange(ANGLES), len(core))  # its section x angle row
     idx = si[kk]
     target = np.clip(n_star[ci], 0.0, phi_d[kk] * nd[kk])
-    px, py = np.empty(len(kk)), np.empty(len(kk))
-    for row in np.unique(kk):
-        here = kk == row
-        px[here] = np.interp(target[here], dn_curve[row], dmx_curve[row])
-        py[here] = np.interp(target[here], dn_curve[row], dmy_curve[row])
+    px, py = _on_curves(target, case_storey, dn_curve, dmx_curve, dmy_curve)
     # above decompression a straight line to phi0 x squash (AS: phi0 Nuo, its upper limit)
     line_end, bottom = phi0 * nuo[idx], std.phi_tension * nuot[idx]
     above = n_star[ci] > phi_d[kk] * nd[kk]
@@ -190,6 +189,22 @@ def check_core_nm(
     return _rows(core, std, phi0, nuo[case_storey], nuot[case_storey], px, py)
 
 
+def _on_curves(target: np.ndarray, section: np.ndarray, dn_curve, dmx_curve, dmy_curve):
+    """Each (case, angle) pair's point on its section x angle design curve at `target` (pairs
+    case-major, `section` each case's section): per section its cases taken once, then each
+    angle's column of them (not every pair compared with every curve's row: 144 000 pairs x 24
+    curves at the L tower). Interpolation is point by point, so the same numbers."""
+    t = target.reshape(len(section), ANGLES)
+    px, py = np.empty(t.shape), np.empty(t.shape)
+    for sec in np.unique(section):
+        cases = np.flatnonzero(section == sec)
+        for angle in range(ANGLES):
+            row = sec * ANGLES + angle
+            px[cases, angle] = np.interp(t[cases, angle], dn_curve[row], dmx_curve[row])
+            py[cases, angle] = np.interp(t[cases, angle], dn_curve[row], dmy_curve[row])
+    return px.ravel(), py.ravel()
+
+
 def _storeys(storey: np.ndarray) -> tuple[np.ndarray, list]:
     """Each case's storey as a position in the distinct storeys (in order of first appearance,
     `dict.fromkeys`' order), found by hashing the column once: the cases' sections are looked
@@ -203,15 +218,18 @@ def _storeys(storey: np.ndarray) -> tuple[np.ndarray, list]:
     return codes, list(distinct)
 
 
-def _curve_points(asm: nm_core.Assembly, si: np.ndarray, th: np.ndarray, dn_s: np.ndarray):
+def _curve_points(
+    asm: nm_core.Assembly, si: np.ndarray, th: np.ndarray, dn_s: np.ndarray, fr: nm_core.Frame | None = None
+):
     """Nominal (N, Mx, My) at every sampled depth (`dn_s`, section x angle rows x samples),
-    flat in the rows' order. One frame per section x angle, its samples broadcast against it:
-    the frame depends on the section and angle only, and building it for every sample was
-    most of the core check's time (the same numbers: each fibre's arithmetic is unchanged)."""
+    flat in the rows' order. Each section x angle's row of the frame (`fr`, made where not
+    given), its samples broadcast against it: the frame depends on the section and angle
+    only, and building it for every sample was most of the core check's time (the same
+    numbers: each fibre's arithmetic is unchanged)."""
+    fr = fr if fr is not None else nm_core.frame(asm, si, th)
     n_s, mx_s, my_s = (np.empty(dn_s.shape) for _ in range(3))
-    for row in range(len(si)):
-        fr = nm_core.frame(asm, si[row : row + 1], th[row : row + 1])
-        n_s[row], mx_s[row], my_s[row] = nm_core.forces_in(fr, dn_s[row])
+    for row in range(len(dn_s)):
+        n_s[row], mx_s[row], my_s[row] = nm_core.forces_in(fr.row(row), dn_s[row])
     return n_s.ravel(), mx_s.ravel(), my_s.ravel()
 
 

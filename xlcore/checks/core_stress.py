@@ -12,7 +12,16 @@ import pandas as pd
 from xlcore.checks import plain
 from xlcore.codes import compression_flag_ratio, get_standard
 from xlcore.codes.base import Standard
-from xlcore.distribution import StoreyPlan, TextCodes, arrays_by_storey, positions, stack, text_of_codes
+from xlcore.distribution import (
+    Block,
+    StoreyPlan,
+    TextCodes,
+    arrays_by_storey,
+    positions,
+    stack,
+    stack_blocks,
+    text_of_codes,
+)
 from xlcore.mechanics import bars, section
 from xlcore.model import Settings
 from xlcore.results import status_column, text_column
@@ -151,29 +160,33 @@ def check_core_stress(
             section.stress_at(sec, a[None, :], b[None, :], c[None, :], x[:, None], y[:, None]) / 1000.0
             for x, y in ((wx, wy), (wx + ux * length, wy + uy * length))
         ]
-        n_w, n_c = len(walls["wall_id"]), len(cs["row"])
+        case, member, grid = Block.CASE, Block.MEMBER, Block.GRID
         fsy, fc = walls["fsy"], walls["fc"]
-        per_wall = lambda v, n_c=n_c: np.tile(v, n_c)  # noqa: E731
-        parts.append(
-            dict(
-                row=np.repeat(cs["row"], n_w),
-                storey=np.full(n_w * n_c, names.codes([storey])[0]),
-                combination=np.repeat(cs["_combo"], n_w),
-                wall_id=per_wall(walls["_wall"]),
-                sigma_start=end_sigma[0].T.ravel(),
-                sigma_end=end_sigma[1].T.ravel(),
-                sigma_max=np.maximum.reduceat(sigma, starts, axis=0).T.ravel(),
-                sigma_min=np.minimum.reduceat(sigma, starts, axis=0).T.ravel(),
-                tension=tension.T.ravel(),
-                tension_area=tension_area.T.ravel(),
-                as_req=(tension * 1000.0 / (phi_t * fsy[:, None])).T.ravel(),
-                as_prov=provided.T.ravel(),
-                fc=per_wall(fc),
-                fsy=per_wall(fsy),
-                limit=per_wall(limit * fc),
+        parts.append(  # (cases x walls: the combinations' rows one after another)
+            Block(
+                len(cs["row"]),
+                len(walls["wall_id"]),
+                dict(
+                    row=(case, cs["row"]),
+                    storey=(Block.FIXED, names.codes([storey])[0]),
+                    combination=(case, cs["_combo"]),
+                    wall_id=(member, walls["_wall"]),
+                    sigma_start=(grid, end_sigma[0].T),
+                    sigma_end=(grid, end_sigma[1].T),
+                    sigma_max=(grid, np.maximum.reduceat(sigma, starts, axis=0).T),
+                    sigma_min=(grid, np.minimum.reduceat(sigma, starts, axis=0).T),
+                    tension=(grid, tension.T),
+                    tension_area=(grid, tension_area.T),
+                    as_req=(grid, (tension * 1000.0 / (phi_t * fsy[:, None])).T),
+                    as_prov=(grid, provided.T),
+                    fc=(member, fc),
+                    fsy=(member, fsy),
+                    limit=(member, limit * fc),
+                ),
             )
         )
-    df = stack(parts, texts=dict(storey=names.values, wall_id=names.values, combination=combo_names))
+    texts = dict(storey=names.values, wall_id=names.values, combination=combo_names)
+    df = stack_blocks(parts, texts) if parts else stack(parts, texts=texts)
     if df.empty:
         return df
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -183,7 +196,7 @@ def check_core_stress(
     # AS 3600 Cl 14.6 (0.15 f'c) / ACI 318-19 18.10.6.3 (0.2 f'c): extreme-fibre compression is a
     # trigger for end-zone detailing under earthquake actions, not a capacity: a flag on
     # earthquake combinations only
-    combo_rows = np.concatenate([p["combination"] for p in parts])  # each row's combination code
+    combo_rows = np.concatenate([np.repeat(p.columns["combination"][1], p.members) for p in parts])
     quake = in_names(combo_rows, combo_names, settings.earthquake)
     # text columns taken from their few strings (`text_column`: 288 000 rows at the L tower)
     df["earthquake"] = text_column(quake, ["no", "yes"])

@@ -174,6 +174,12 @@ class Frame:
     eps_cu: float
     Es: float
 
+    def row(self, i: int) -> Frame:
+        """The frame of case `i` alone (views of its rows): what `frame` makes for that case."""
+        cut = slice(i, i + 1)
+        arrays = {k: v[cut] for k, v in vars(self).items() if isinstance(v, np.ndarray)}
+        return Frame(**arrays, eps_cu=self.eps_cu, Es=self.Es)
+
 
 def frame(a: Assembly, idx, theta) -> Frame:
     idx = np.asarray(idx)
