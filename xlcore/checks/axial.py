@@ -281,9 +281,23 @@ def interaction(
 def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
     """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the rows
     `rows` (None: all) of the arrays given (eps_cu and Es from `sec`); what it reads gathered
-    once per `rows` array (the solvers pass one array until their active rows shrink)."""
+    once per `rows` array (the solvers pass one array until their active rows shrink).
+
+    Where the standard gives phi as a function of Nu alone with the section's own terms
+    worked out once (`phi_axial_bending_prepared`: AS 3600, half of whose arithmetic per
+    point is the section's), that, on the rows' own Nu; the same numbers."""
     memo = nm.RowsMemo()
     own = (d0, fsy, nub, nuot, kuo)
+    prepared = getattr(std, "phi_axial_bending_prepared", None)
+    if prepared is not None and np.ndim(nub) == 1:
+        state = SectionState(None, None, d0, fsy, nub, nuot, kuo, eps_cu=sec.eps_cu, Es=sec.Es)
+        at = prepared(state, phi0)
+
+        def phi_of_nu(n, dn, rows=None):
+            n = np.asarray(n, dtype=float)
+            if n.shape != (nub.shape if rows is None else rows.shape):  # not one per row: in general
+                return phi_at(n, dn, rows)
+            return at(n, rows)
 
     def phi_at(n, dn, rows=None):
         picked = own if rows is None else memo("own", rows, lambda: [v[rows] for v in own])
@@ -293,7 +307,7 @@ def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
         )
         return std.phi_axial_bending(state, phi0)
 
-    return phi_at
+    return phi_of_nu if prepared is not None and np.ndim(nub) == 1 else phi_at
 
 
 def _used(of: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
