@@ -246,7 +246,8 @@ def test_every_case_on_its_own_equals_cases_once(monkeypatch, standard, kw, leas
     p, s = _piers(), Settings(standard=standard)
     acts = _actions(p).dropna(subset=["n", "m"])
     rng = np.random.default_rng(17)
-    varied = acts.assign(n=acts.n * rng.uniform(0.5, 1.5, len(acts)), m=acts.m * rng.uniform(0.5, 1.5, len(acts)))
+    scale = rng.uniform(0.5, 1.5, (2, len(acts)))
+    varied = acts.assign(n=acts.n * scale[0], m=acts.m * scale[1])
     repeated = pd.concat([acts.assign(combination=f"R{c}") for c in range(4)], ignore_index=True)
     for rows in (varied, repeated):
         monkeypatch.setattr(axial, "CASES_ONCE_LEAST", least)
