@@ -266,3 +266,22 @@ def test_cases_once_gives_up_where_few_repeat():
     same = np.repeat(np.array([1.0, 2.0, 3.0, 4.0]), 5)
     keep, back = axial._cases_once(ref, same, n * 0.0, least=0.5)
     assert keep.tolist() == [0, 5, 10, 15] and back.tolist() == np.repeat(np.arange(4), 5).tolist()
+
+
+@pytest.mark.parametrize("block", [7, 64, 10**6])
+def test_solves_taking_sections_by_row_equal_sections_per_row(monkeypatch, block):
+    """`interaction` with each distinct section once and `of` (the solves and the forces at the
+    root take each block's sections by `of`: `nm.solve_dn(of=)`, `nm.forces_of`) equals it with
+    a section per row, every value bit for bit, in blocks of 7, 64 and one block."""
+    p = _piers()
+    sec = _sections(p, "AS 3600:2018")
+    rng = np.random.default_rng(23)
+    of = rng.choice(np.arange(0, sec.D.size, 2), 300)
+    n = rng.uniform(-2e6, 2e7, of.size)
+    m = rng.uniform(0.0, 4e9, of.size)
+    monkeypatch.setattr(nm, "BLOCK", block)
+    part = axial.interaction(sec, n, of=of, m_star=m)
+    whole = axial.interaction(sec.take(of), n, m_star=m)
+    assert part.keys() == whole.keys()
+    for k in whole:
+        assert np.array_equal(_bits(part[k]), _bits(whole[k])), k

@@ -230,10 +230,7 @@ def interaction(
     phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
     phi_lo = phi_sec(n_lo, dn0)
     fsy = sec.fsy
-    by_section = of is not None and not at_n  # the ray's rows take their sections from here
-    if of is not None:  # from here on, one row per N*
-        if at_n:  # the solve at N* runs on every row
-            sec = sec.take(of)
+    if of is not None:  # from here on, one row per N* (the solves take each row's section by `of`)
         D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
             v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
         )
@@ -242,8 +239,8 @@ def interaction(
     if at_n:
         target = np.clip(n_star, 0.0, phi_d * nd)
         ends = (n_lo * phi_lo - target, nd * phi_d - target)  # g at dn0 and at D, as the solver's
-        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends)
-        nu, mu = nm.forces(sec, dn)
+        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends, of=of)
+        nu, mu = nm.forces_of(sec, of, dn)
         phi = phi_at(nu, dn)
     else:  # the one per-row solve `lam` does not read (half the search's N-M work)
         dn = nu = mu = phi = np.full(D.shape, np.nan)
@@ -283,7 +280,7 @@ def interaction(
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of if by_section else None)
+        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of)
     return out
 
 

@@ -406,6 +406,20 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     return cc + ns, cc * (sec.D / 2 - depth / 2) + ms
 
 
+def forces_of(sec: Rect | EvenRect, of: np.ndarray | None, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`forces(sec.take(of), dn)` worked in blocks of `BLOCK` rows, each taking its sections
+    from `sec` (no copy of the sections for every row, and a block's temporaries stay in the
+    processor's cache); `of` None: `forces(sec, dn)`. Each row's numbers read its own row
+    alone, so the same numbers."""
+    if of is None or of.size <= BLOCK:
+        return forces(sec if of is None else sec.take(of), dn)
+    n, m = np.empty(dn.shape), np.empty(dn.shape)
+    for at in range(0, dn.size, BLOCK):
+        part = slice(at, at + BLOCK)
+        n[part], m[part] = forces(sec.take(of[part]), dn[part])
+    return n, m
+
+
 def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
     """N of `forces` alone (the same numbers; evenly spaced bars without the moment's sums)."""
     if isinstance(sec, EvenRect):
@@ -413,7 +427,9 @@ def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
     return forces(sec, dn)[0]
 
 
-def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None) -> np.ndarray:
+def solve_dn(
+    sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None, of=None
+) -> np.ndarray:
     """Neutral-axis depth where g(dn) = target, for g increasing in dn, on all rows at once.
     g is N(dn), or N(dn) x scale(N, dn, rows) when `scale` (e.g. phi, which ACI 318 reads from
     the strain at dn and AS 3600 from N) is given; `rows` says which rows N belongs to (None:
@@ -427,19 +443,32 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
     (`iterations` caps the steps). Where the root is unique the answer is a bisection's to
     round-off, in about a quarter of the steps; where N(dn) dips as a bar enters the stress
     block (bars displace concrete) there may be several roots, and either method may give
-    any of them."""
-    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
-    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
-    target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
+    any of them.
+
+    `of`, where given, is each row's section among `sec`'s (one per distinct section): each
+    block of rows then takes its sections from `sec` alone, with no copy of the sections for
+    every row first (the same numbers, row for row)."""
+    D = sec.D if of is None else sec.D[of]
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), D.shape))
+    target = np.broadcast_to(np.asarray(target, dtype=float), D.shape)
     memo = RowsMemo()
+    whole: list = []  # the sections of every row, where `of` is given and no block is smaller
 
     def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else memo("sec", rows, lambda: sec.take(rows))
+        if rows is not None:
+            part = memo("sec", rows, lambda: sec.take(rows if of is None else of[rows]))
+        elif of is None:
+            part = sec
+        else:
+            if not whole:
+                whole.append(sec.take(of))
+            part = whole[0]
         n = axial_force(part, x)
         aim = target if rows is None else memo("target", rows, lambda: target[rows])
         return (n * scale(n, x, rows) if scale else n) - aim
 
-    return _illinois(g, lo, hi, np.abs(target), sec.D, iterations, ends)
+    return _illinois(g, lo, hi, np.abs(target), D, iterations, ends)
 
 
 def solve_ray(
