@@ -435,3 +435,19 @@ def test_a_storey_above_every_wall_computes(demo_book):
     out = pipeline.compute(building, findings)
     assert len(out.shear) and "Plant" not in set(out.shear.storey)
     assert "Plant" not in set(out.summary.storey)
+
+
+def test_a_blank_key_cell_of_an_action_row_draws_one_finding(demo_book):
+    """A blank storey, combination or member on either actions sheet is named once, as blank;
+    it drew a second finding before ("found nan; no such wall, pier or lintel", "found nan;
+    expected a storey name"), and two blank members at one storey counted as a repeat."""
+    blanked = [(A, "storey", 5), (A, "combination", 7), (A, "member", 9), (A, "member", 10),
+               (C, "storey", 3), (C, "combination", 4)]
+    edit(demo_book, {at(t, key, row): None for t, key, row in blanked})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    errors = info.value.findings.errors
+    for t, key, row in blanked:
+        here = [e.message for e in errors if e.where == where(t, key, row)]
+        assert len(here) == 1 and here[0].startswith("blank; expected"), (t.name, key, row, here)
+    assert not [e for e in errors if "nan" in e.message], [e.message for e in errors]

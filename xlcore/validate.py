@@ -1225,7 +1225,7 @@ def _member_actions(
     if members is not None:
         rows = rows[_suspect_action_rows(rows, index, members, walls_of)]
     for rec in rows.itertuples(index=False):
-        if rec.storey is not None and index and rec.storey not in index:
+        if not _missing(rec.storey) and index and rec.storey not in index:
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
@@ -1233,7 +1233,9 @@ def _member_actions(
                 + suggest(rec.storey, index),
             )
             continue
-        if None in (rec.storey, rec.member, rec.combination) or members is None:
+        # a blank key cell reads as None or NaN; its own finding ("blank; expected ...") comes
+        # with the cell's type, so it draws no second one here ("found nan; no such ...")
+        if _missing(rec.storey, rec.member, rec.combination) or members is None:
             continue
         here = members.get(rec.storey, set())
         if rec.member not in here and not _of_unsound_wall(rec.member, unsound):
@@ -1281,6 +1283,11 @@ def _of_unsound_wall(member: str, unsound: set[str] | None) -> bool:
     if unsound is None:
         return True
     return any(member == w or str(member).startswith(f"{w}-") for w in unsound)
+
+
+def _missing(*values: object) -> bool:
+    """Any of `values` a blank cell as the typed tables hold it: None or NaN."""
+    return any(v is None or (isinstance(v, float) and v != v) for v in values)
 
 
 def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of: dict) -> np.ndarray:
@@ -1457,7 +1464,7 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
     index = {s.name for s in storeys}
     seen: dict[tuple, int] = {}
     for rec in df[["row", "storey", "combination", "core"]].itertuples(index=False):
-        if rec.storey is not None and index and rec.storey not in index:
+        if not _missing(rec.storey) and index and rec.storey not in index:
             f.error(
                 t.name,
                 _at(df, "storey", rec.row),
@@ -1466,7 +1473,7 @@ def _core_actions(df: pd.DataFrame | None, storeys: list[Storey], geom, f: Findi
             )
             continue
         key = (rec.storey, rec.combination, rec.core or "")
-        if None not in key and key in seen:
+        if not _missing(*key) and key in seen:
             of = f" for core {rec.core!r}" if rec.core else ""
             f.error(
                 t.name,

@@ -548,7 +548,11 @@ def _remove(p: str) -> None:
         pass
 
 
-FAST, BIG = 1, 1 << 20  # deflate level for parts over BIG bytes: 3-4x faster than 6, ~15 % larger
+# Deflate level for result sheets and parts over BIG bytes. Level 3 against 1 on the varied L
+# tower's result sheets (benchmarks/README.md, sixth round): 7 % smaller workbook (22.0 -> 20.4 MB
+# with its 9 MB input), about the same CPU (zlib's levels 1-3 share the fast matcher); level 6
+# is 8 % smaller again but adds about 0.6 s of CPU on two cores already busy with the write.
+FAST, BIG = 3, 1 << 20
 
 
 def _build(
