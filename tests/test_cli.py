@@ -183,3 +183,26 @@ def test_check_counts_combinations_over_both_sheets_and_lists_members_per_storey
     # the demo's GF has the lift-door lintels; pier IDs are those the piers sheet uses
     gf = next(line for line in out.splitlines() if line.strip().startswith("GF:"))
     assert "LiftS-1" in gf and "lintels LiftS-L1" in gf
+
+
+@pytest.mark.parametrize("where", ["checks", "validation"])
+def test_a_defect_in_xlcore_is_not_called_a_damaged_workbook(demo_book, monkeypatch, where):
+    """An error raised by xlcore's own code (here a ValueError planted in the shear check or in
+    validation) was reported as 'the workbook package is damaged', sending the engineer to a
+    sound file. It is named a defect of xlcore, exit code 4, and nothing is written."""
+    import json
+
+    def broken(*args, **kwargs):
+        raise ValueError("planted fault")
+
+    if where == "checks":
+        monkeypatch.setattr(pipeline, "check_pier_shear", broken)
+    else:
+        monkeypatch.setattr(pipeline, "build", broken)
+    before = demo_book.read_bytes()
+    r = runner.invoke(app, ["compute", str(demo_book), "--json"])
+    assert r.exit_code == 4, r.output
+    assert "defect of its own" in r.stderr and "planted fault" in r.stderr, r.stderr
+    assert "damaged" not in r.stderr
+    assert json.loads(r.stdout)["exit_code"] == 4
+    assert demo_book.read_bytes() == before

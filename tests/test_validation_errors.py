@@ -16,13 +16,14 @@ from xlcore.cli import app
 from xlcore.diagnostics import InputInvalid
 from xlcore.pipeline import load
 
-W, S, OP, A, C, P = (
+W, S, OP, A, C, P, EZ = (
     layout.WALLS,
     layout.STOREYS,
     layout.OPENINGS,
     layout.MEMBER_ACTIONS,
     layout.CORE_ACTIONS,
     layout.PROJECT,
+    layout.END_ZONES,
 )
 
 
@@ -446,8 +447,23 @@ def test_a_blank_key_cell_of_an_action_row_draws_one_finding(demo_book):
     edit(demo_book, {at(t, key, row): None for t, key, row in blanked})
     with pytest.raises(InputInvalid) as info:
         load(demo_book)
-    errors = info.value.findings.errors
+    _each_named_once_as_blank(info.value.findings.errors, blanked)
+
+
+def _each_named_once_as_blank(errors, blanked) -> None:
     for t, key, row in blanked:
         here = [e.message for e in errors if e.where == where(t, key, row)]
         assert len(here) == 1 and here[0].startswith("blank; expected"), (t.name, key, row, here)
     assert not [e for e in errors if "nan" in e.message], [e.message for e in errors]
+
+
+def test_a_blank_storey_name_is_an_error_at_its_cell_not_a_damaged_package(demo_book):
+    """A blank storey name stopped the whole check with 'the workbook package is damaged' (the
+    typed table holds NaN for it, the storeys pass looked for None); a blank wall ID or storey
+    of a wall, an opening or an end zone drew a second finding, 'found nan; expected ...'."""
+    blanked = [(S, "name", 2), (W, "storey_from", 3), (W, "storey_to", 4), (OP, "wall_id", 2),
+               (OP, "storey_from", 3), (EZ, "wall_id", 2), (EZ, "storey_to", 3), (EZ, "location", 4)]
+    edit(demo_book, {at(t, key, row): None for t, key, row in blanked})
+    with pytest.raises(InputInvalid) as info:
+        load(demo_book)
+    _each_named_once_as_blank(info.value.findings.errors, blanked)

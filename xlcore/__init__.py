@@ -9,7 +9,7 @@ CAUTION = (
 )
 
 
-_API = ("check", "compute", "read_results", "InputInvalid", "FileProblem", "Run", "Inputs")
+_API = ("check", "compute", "read_results", "InputInvalid", "FileProblem", "Defect", "Run", "Inputs")
 
 
 def __getattr__(name: str):

@@ -21,7 +21,7 @@ from pathlib import Path
 import pandas as pd
 
 from xlcore import CAUTION, geometry, layout, pipeline, results, tables
-from xlcore.diagnostics import FileProblem, Finding, Findings, InputInvalid  # noqa: F401  (API)
+from xlcore.diagnostics import Defect, FileProblem, Finding, Findings, InputInvalid, own_defects  # noqa: F401  (API)
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.reader import read_workbook, stored_result_sheets, stored_stamp
@@ -68,7 +68,8 @@ def check(path: str | Path, reporter: Reporter = SILENT) -> Inputs:
     reporter.begin("reading the input sheets")
     raw = read_workbook(path)
     reporter.begin("checking the inputs")
-    building, findings = pipeline.build(raw)
+    with own_defects("checking the inputs"):
+        building, findings = pipeline.build(raw)
     reporter.end()
     stamp = stored_stamp(path)
     stored = None if stamp is None else stamp.get(results.STAMP_HASH_LABEL)
@@ -227,10 +228,11 @@ def compute(
     wanted = parse_standards(standards)
     building, findings = pipeline.load(path, reporter)
     second = second_standard(building, wanted)
-    return Run(
-        path,
-        pipeline.compute_compared(building, findings, second, now=now, reporter=reporter, detail=detail),
-    )
+    with own_defects("running the checks"):
+        outcome = pipeline.compute_compared(
+            building, findings, second, now=now, reporter=reporter, detail=detail
+        )
+    return Run(path, outcome)
 
 
 def compute_locked(
@@ -250,7 +252,8 @@ def compute_locked(
     with workbook_lock(target) if target.parent.is_dir() else nullcontext():
         check_target(path, target, force=force, overwrite=overwrite)
         run = compute(path, reporter=reporter, detail=detail, standards=standards)
-        pipeline.select_detail(run.outcome, detail, tables_folder(target).name)
+        with own_defects("choosing the rows to write"):
+            pipeline.select_detail(run.outcome, detail, tables_folder(target).name)
         target.parent.mkdir(parents=True, exist_ok=True)
         backup = write_results(
             path,

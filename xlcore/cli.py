@@ -17,7 +17,7 @@ import typer
 from lxml import etree
 
 from xlcore import CAUTION, __version__, api, layout, pipeline, results
-from xlcore.diagnostics import FileProblem, Findings, InputInvalid
+from xlcore.diagnostics import Defect, FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
 from xlcore.workbook.tables import file_name
@@ -29,7 +29,7 @@ app = typer.Typer(
     help="Reinforced-concrete core walls and piers, checked in your own workbook.",
 )
 
-EXIT_INVALID, EXIT_FILE, EXIT_FAILING = 1, 2, 3
+EXIT_INVALID, EXIT_FILE, EXIT_FAILING, EXIT_DEFECT = 1, 2, 3, 4
 
 
 class Detail(StrEnum):
@@ -58,12 +58,16 @@ def _report(findings: Findings, limit: int = 200) -> None:
 
 @contextmanager
 def _exits(after_errors: str) -> Iterator[None]:
-    """Map the library's two refusals to exit codes: 2 file problem, 1 invalid input."""
+    """Map the library's refusals to exit codes: 1 invalid input, 2 file problem, 4 a defect of
+    xlcore's own (an error in its checks is never reported as a damaged workbook)."""
     try:
         yield
     except FileProblem as exc:
         _err(f"error   {exc}")
         raise typer.Exit(EXIT_FILE) from None
+    except Defect as exc:  # its cause may be a ValueError: not the file's fault, so not DAMAGE's message
+        _err(f"error   {exc}; nothing was written")
+        raise typer.Exit(EXIT_DEFECT) from None
     except DAMAGE + (etree.XMLSyntaxError,) as exc:  # a part found broken only when copied
         _err(f"error   the workbook package is damaged ({type(exc).__name__}: {exc}); nothing was written")
         raise typer.Exit(EXIT_FILE) from None
@@ -203,6 +207,9 @@ def _json_exits(as_json: bool, base: dict) -> Iterator[None]:
         yield
     except InputInvalid as exc:
         _emit(base | {"valid": False, "exit_code": EXIT_INVALID, "findings": _records(exc.findings)})
+        raise
+    except Defect as exc:  # exit 4 by _exits
+        _emit(base | {"exit_code": EXIT_DEFECT, "error": str(exc)})
         raise
     except (FileProblem, etree.XMLSyntaxError, *DAMAGE) as exc:  # exit 2 by _exits
         _emit(base | {"exit_code": EXIT_FILE, "error": str(exc)})

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Literal
 
@@ -22,7 +24,7 @@ def sheet_ref(sheet: str) -> str:
 
 def show(value: object) -> str:
     """The value found, as the engineer would recognise it."""
-    if value is None:
+    if value is None or (isinstance(value, float) and value != value):  # NaN: a blank text cell
         return "blank"
     if isinstance(value, float) and value.is_integer():
         return repr(int(value))
@@ -82,3 +84,28 @@ class InputInvalid(Exception):
 
 class FileProblem(Exception):
     """The file itself cannot be used: missing, not a workbook, encrypted, locked (exit 2)."""
+
+
+class Defect(Exception):
+    """xlcore itself failed on input it had accepted: a defect to report, not a fault of the
+    workbook; nothing was written (exit code 4). Raised in place of the original error (chained
+    as its cause), so that a ValueError deep in the checks is not taken for a damaged file."""
+
+    def __init__(self, step: str, cause: BaseException):
+        self.step, self.cause = step, cause
+        super().__init__(
+            f"xlcore stopped on a defect of its own while {step} ({type(cause).__name__}: {cause}); "
+            "this is not a fault of the workbook. Please report it with the workbook"
+        )
+
+
+@contextmanager
+def own_defects(step: str) -> Iterator[None]:
+    """Errors of xlcore's own code in `step` (validating, checking) raised as `Defect`; the
+    library's refusals (InputInvalid, FileProblem) and running out of memory pass unchanged."""
+    try:
+        yield
+    except (InputInvalid, FileProblem, Defect, MemoryError):
+        raise
+    except Exception as exc:
+        raise Defect(step, exc) from exc

@@ -24,7 +24,7 @@ from xlcore.checks.lintels import check_lintels
 from xlcore.checks.section14 import check_section14
 from xlcore.checks.shear import check_pier_shear
 from xlcore.codes import get_standard
-from xlcore.diagnostics import Findings  # noqa: F401  (re-exported)
+from xlcore.diagnostics import Findings, own_defects  # noqa: F401  (Findings re-exported)
 from xlcore.mechanics import stiffness
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
@@ -96,7 +96,7 @@ def load(path: Path, reporter: Reporter = SILENT) -> tuple[Building, Findings]:
     t = Timings(reporter)
     with t.phase("read", "reading the input sheets"):
         raw = read_workbook(path)
-    with t.phase("validate", "checking the inputs"):
+    with t.phase("validate", "checking the inputs"), own_defects("checking the inputs"):
         return build(raw)
 
 

@@ -98,6 +98,13 @@ def blank(v: object) -> bool:
     return v is None or (isinstance(v, str) and v.strip() == "")
 
 
+def _missing(*values: object) -> bool:
+    """Any of `values` a blank cell as a typed table holds it: None, or NaN where pandas made
+    the text column a string column (pandas 3 does so for text with None in it), so a test
+    `is None` alone misses it."""
+    return any(v is None or (isinstance(v, float) and v != v) for v in values)
+
+
 def _number(v: object, col: Column) -> tuple[float | None, str | None]:
     """A cell as a number, or the reason it is not one."""
     if isinstance(v, bool):
@@ -533,7 +540,7 @@ def _storeys(df: pd.DataFrame | None, f: Findings) -> tuple[list[Storey], bool]:
     seen: dict[str, int] = {}
     ok = True
     for rec in df.itertuples(index=False):
-        if rec.name is None:
+        if _missing(rec.name):  # its own finding: "blank; expected ..."
             ok = False
             continue
         if any(math.isnan(x) for x in (rec.level, rec.height, rec.slab)):
@@ -582,10 +589,10 @@ def _storeys(df: pd.DataFrame | None, f: Findings) -> tuple[list[Storey], bool]:
 def _storey_range(
     rec, df: pd.DataFrame, t: TableSheet, index: dict[str, int], f: Findings
 ) -> tuple[int, int] | None:
-    lo = index.get(rec.storey_from) if rec.storey_from is not None else None
-    hi = index.get(rec.storey_to) if rec.storey_to is not None else None
+    lo = index.get(rec.storey_from) if not _missing(rec.storey_from) else None
+    hi = index.get(rec.storey_to) if not _missing(rec.storey_to) else None
     for key, name, i in (("storey_from", rec.storey_from, lo), ("storey_to", rec.storey_to, hi)):
-        if name is not None and i is None and index:
+        if not _missing(name) and i is None and index:
             f.error(
                 t.name,
                 _at(df, key, rec.row),
@@ -741,7 +748,7 @@ def _unsound_ids(df: pd.DataFrame | None, walls: list[WallRun]) -> set[str] | No
 def _unknown_wall(wall_id: object, wall_ids: set[str], sheet: str, cell: str, f: Findings) -> bool:
     """A wall ID naming no wall of the Walls sheet (openings, end zones): an error at its cell
     with the likeliest slip (case or invisible character, else close names); True if so."""
-    if wall_id is None or not wall_ids or wall_id in wall_ids:
+    if _missing(wall_id) or not wall_ids or wall_id in wall_ids:
         return False
     f.error(
         sheet,
@@ -894,8 +901,8 @@ def _end_zones(
         if _unknown_wall(rec.wall_id, wall_ids, t.name, c("wall_id"), f):
             continue
         rng = _storey_range(rec, df, t, index, f)
-        loc = layout.parse_location(rec.location) if rec.location is not None else None
-        if rec.location is not None and loc is None:
+        loc = layout.parse_location(rec.location) if not _missing(rec.location) else None
+        if not _missing(rec.location) and loc is None:
             f.error(
                 t.name,
                 c("location"),
@@ -1283,11 +1290,6 @@ def _of_unsound_wall(member: str, unsound: set[str] | None) -> bool:
     if unsound is None:
         return True
     return any(member == w or str(member).startswith(f"{w}-") for w in unsound)
-
-
-def _missing(*values: object) -> bool:
-    """Any of `values` a blank cell as the typed tables hold it: None or NaN."""
-    return any(v is None or (isinstance(v, float) and v != v) for v in values)
 
 
 def _suspect_action_rows(rows: pd.DataFrame, index: set, members: dict, walls_of: dict) -> np.ndarray:

@@ -85,11 +85,14 @@ def make_report(
     when = _stamp_time(stamp.get("Computed (UTC)"))
     reporter.begin("running the checks again for the report")
     second = _also_checked(stamp, inputs.building, stale)
-    run = api.Run(path, api.pipeline.compute_compared(inputs.building, inputs.findings, second, now=when))
+    with api.own_defects("running the checks for the report"):
+        outcome = api.pipeline.compute_compared(inputs.building, inputs.findings, second, now=when)
+    run = api.Run(path, outcome)
     reporter.begin("drawing the report")
     from xlcore.report.build import build_pages  # matplotlib loads only when a report is made
 
-    pages = build_pages(run, stamp, stale, why, path.name)
+    with api.own_defects("drawing the report"):
+        pages = build_pages(run, stamp, stale, why, path.name)
     _save(pages, target, run)
     reporter.end()
     return Report(target, len(pages), stale)
