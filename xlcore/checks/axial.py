@@ -132,15 +132,21 @@ def rect_sections(df: pd.DataFrame, std: Standard | None = None) -> nm.EvenRect:
     """The piers of `df` as sections, depths from each pier's start side (the face M* < 0
     compresses): the field bars in closed form, the end-zone bars one by one (`bars.layout`);
     the stress block, eps_cu and Es of the standard."""
+    cols = {k: df[k].to_numpy(dtype=float) for k in (*bars.LAYOUT_COLUMNS, "tw", "fc", "fsy") if k in df}
+    return _sections_of(cols, len(df), std)
+
+
+def _sections_of(cols: dict[str, np.ndarray], rows: int, std: Standard | None = None) -> nm.EvenRect:
+    """`rect_sections` of the columns `cols` (float arrays by name, `rows` long)."""
     std = std or get_standard(DEFAULT_STANDARD)
-    lay = bars.layout(df)
-    fc = df.fc.to_numpy(dtype=float)
+    lay = bars.layout_of(cols, rows)
+    fc = cols["fc"]
     alpha2, gamma = std.stress_block(fc)
     return nm.EvenRect(
-        D=df.Lw.to_numpy(dtype=float),
-        b=df.tw.to_numpy(dtype=float),
+        D=cols["Lw"],
+        b=cols["tw"],
         fc=fc,
-        fsy=df.fsy.to_numpy(dtype=float),
+        fsy=cols["fsy"],
         edge=lay.field_edge,
         step=lay.field_step,
         count=lay.field_count,
@@ -157,11 +163,14 @@ def rect_sections(df: pd.DataFrame, std: Standard | None = None) -> nm.EvenRect:
 def asymmetric(df: pd.DataFrame) -> np.ndarray:
     """Piers whose end zones differ between their two sides (their strength depends on which
     end M* compresses)."""
-    out = np.zeros(len(df), dtype=bool)
+    return _asymmetric_of({c: df[c].to_numpy(dtype=float) for c in ZONE_COLUMNS if c in df}, len(df))
+
+
+def _asymmetric_of(cols: dict[str, np.ndarray], rows: int) -> np.ndarray:
+    """`asymmetric` of the zone columns `cols` (float arrays by name, `rows` long)."""
+    out = np.zeros(rows, dtype=bool)
     for k in ZONE_FIELDS[:4]:
-        a, b = (
-            np.nan_to_num(df[f"z{s}_{k}"].to_numpy(dtype=float)) if f"z{s}_{k}" in df else 0.0 for s in "ab"
-        )
+        a, b = (np.nan_to_num(cols[f"z{s}_{k}"]) if f"z{s}_{k}" in cols else 0.0 for s in "ab")
         out |= np.asarray(a != b)
     return out
 
@@ -221,10 +230,7 @@ def interaction(
     phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
     phi_lo = phi_sec(n_lo, dn0)
     fsy = sec.fsy
-    by_section = of is not None and not at_n  # the ray's rows take their sections from here
-    if of is not None:  # from here on, one row per N*
-        if at_n:  # the solve at N* runs on every row
-            sec = sec.take(of)
+    if of is not None:  # from here on, one row per N* (the solves take each row's section by `of`)
         D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
             v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
         )
@@ -233,8 +239,8 @@ def interaction(
     if at_n:
         target = np.clip(n_star, 0.0, phi_d * nd)
         ends = (n_lo * phi_lo - target, nd * phi_d - target)  # g at dn0 and at D, as the solver's
-        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends)
-        nu, mu = nm.forces(sec, dn)
+        dn = nm.solve_dn(sec, target, dn0, D, scale=phi_at, ends=ends, of=of)
+        nu, mu = nm.forces_of(sec, of, dn)
         phi = phi_at(nu, dn)
     else:  # the one per-row solve `lam` does not read (half the search's N-M work)
         dn = nu = mu = phi = np.full(D.shape, np.nan)
@@ -274,16 +280,30 @@ def interaction(
         region=region,
     )
     if m_star is not None:
-        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of if by_section else None)
+        out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of)
     return out
 
 
 def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
     """phi_at(n, dn, rows=None): the standard's phi at nominal points (n, dn) of the rows
     `rows` (None: all) of the arrays given (eps_cu and Es from `sec`); what it reads gathered
-    once per `rows` array (the solvers pass one array until their active rows shrink)."""
+    once per `rows` array (the solvers pass one array until their active rows shrink).
+
+    Where the standard gives phi as a function of Nu alone with the section's own terms
+    worked out once (`phi_axial_bending_prepared`: AS 3600, half of whose arithmetic per
+    point is the section's), that, on the rows' own Nu; the same numbers."""
     memo = nm.RowsMemo()
     own = (d0, fsy, nub, nuot, kuo)
+    prepared = getattr(std, "phi_axial_bending_prepared", None)
+    if prepared is not None and np.ndim(nub) == 1:
+        state = SectionState(None, None, d0, fsy, nub, nuot, kuo, eps_cu=sec.eps_cu, Es=sec.Es)
+        at = prepared(state, phi0)
+
+        def phi_of_nu(n, dn, rows=None):
+            n = np.asarray(n, dtype=float)
+            if n.shape != (nub.shape if rows is None else rows.shape):  # not one per row: in general
+                return phi_at(n, dn, rows)
+            return at(n, rows)
 
     def phi_at(n, dn, rows=None):
         picked = own if rows is None else memo("own", rows, lambda: [v[rows] for v in own])
@@ -293,7 +313,7 @@ def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
         )
         return std.phi_axial_bending(state, phi0)
 
-    return phi_at
+    return phi_of_nu if prepared is not None and np.ndim(nub) == 1 else phi_at
 
 
 def _used(of: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -327,15 +347,21 @@ def _oriented(
     its storeys (the L tower's 6 000 storey x pier rows hold 4), and the section's own points
     (squash, balance, pure bending: a solve each) are then found once per section. Each
     section's arithmetic reads its own row alone, so the same numbers as one per pier."""
-    kind = _section_kinds(per)
+    names = [c for c in SECTION_COLUMNS if c in per]
+    # every column the sections read as floats in one array (one conversion of the table, not
+    # one look-up per column: the advice search's variant tables are small and many)
+    values = np.ascontiguousarray(per[names].to_numpy(dtype=float).T)
+    kind = _kinds_of(values)
     one = first_rows(kind)
-    distinct = per if len(one) == len(per) else per.take(one)
-    base = rect_sections(distinct, std)
+    cols = dict(zip(names, values[:, one] if len(one) < len(per) else values, strict=True))
+    base = _sections_of(cols, len(one), std)
     sec = nm.concat(base, base.flipped())
-    return sec, asymmetric(distinct)[kind], df.m.to_numpy(float) >= 0, kind
+    return sec, _asymmetric_of(cols, len(one))[kind], df.m.to_numpy(float) >= 0, kind
 
 
-def _cases_once(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def _cases_once(
+    ref: np.ndarray, *columns: np.ndarray, least: float = 0.0
+) -> tuple[np.ndarray, np.ndarray] | None:
     """The cases worked out (positions, ascending) and each case's place among them, where a
     case whose `columns` (its section, N*, M*) equal bit for bit those of its storey x pier's
     first row (`ref`: that row's position, among the first rows) takes that row's answer:
@@ -343,8 +369,15 @@ def _cases_once(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.n
     another has its answers to the last bit. Only the first row is compared, not every
     case with every other (hashing 360 000 cases costs more than it saves where they all
     differ): the combinations of a storey x pier that repeat its first row's actions (the L
-    tower's 60, each alike) cost one case."""
+    tower's 60, each alike) cost one case.
+
+    None where fewer than the fraction `least` of the cases equal their first row's, found as
+    soon as one column shows it (the caller then works every case: the same answers, where
+    the comparisons and the gathers to and from the cases would cost more than they save, as
+    on a tower whose every combination has its own N* and M*); a column most cases differ in
+    first finds it soonest."""
     same = np.ones(ref.shape, dtype=bool)
+    need = least * ref.size
     for c in columns:
         c = np.asarray(c)
         if c.dtype.kind == "f":  # floats bit for bit: -0.0 and 0.0 apart, NaN equal to itself
@@ -354,37 +387,43 @@ def _cases_once(ref: np.ndarray, *columns: np.ndarray) -> tuple[np.ndarray, np.n
         else:  # objects (pd.NA has no == answer): pandas' equality, NA equal to NA
             bits = pd.factorize(c, use_na_sentinel=False)[0]
         same &= bits == bits[ref]
+        if need and np.count_nonzero(same) < need:
+            return None
     keep = ~same
     keep[ref] = True
     place = np.cumsum(keep) - 1
     return np.flatnonzero(keep), np.where(same, place[ref], place)
 
 
+CASES_ONCE_LEAST = 1 / 8
+"""`check_pier_axial` works out each case on its own where fewer than this fraction of them
+repeat their storey x pier's first row (`_cases_once`)."""
+
+
 class _Spread(dict):
     """`interaction`'s answers for each row, `at` giving each row's case: a value gathered the
     first time it is read (the working reads a dozen more than the numbers)."""
 
-    def __init__(self, by_case: dict[str, np.ndarray], at: np.ndarray) -> None:
+    def __init__(self, by_case: dict[str, np.ndarray], at: np.ndarray | None) -> None:
         super().__init__()
         self._by_case, self._at = by_case, at
 
-    def __missing__(self, key: str) -> np.ndarray:
-        value = self[key] = self._by_case[key][self._at]
+    def __missing__(self, key: str) -> np.ndarray:  # `at` None: each row its own case
+        value = self[key] = self._by_case[key] if self._at is None else self._by_case[key][self._at]
         return value
 
 
-def _section_kinds(per: pd.DataFrame) -> np.ndarray:
+def _kinds_of(values: np.ndarray) -> np.ndarray:
     """Each pier's section as an integer, equal where every `SECTION_COLUMNS` value is the
-    same bit for bit (`row_keys`), numbered in the order the piers first show them; a column
-    whose every value is the first's is not factorised (most are, in a tower: bars, cover,
-    zones)."""
+    same bit for bit (`row_keys`), numbered in the order the piers first show them, from
+    those columns' floats (columns x piers, C order); a column whose every value is the
+    first's is not factorised (most are, in a tower: bars, cover, zones)."""
     varying = []
-    for c in SECTION_COLUMNS:
-        if c in per:
-            bits = per[c].to_numpy(dtype=float).view(np.int64)
-            if len(bits) and (bits != bits[0]).any():
-                varying.append(bits)
-    return row_keys(*varying) if varying else np.zeros(len(per), dtype=np.intp)
+    for column in values:
+        bits = column.view(np.int64)
+        if len(bits) and (bits != bits[0]).any():
+            varying.append(bits)
+    return row_keys(*varying) if varying else np.zeros(values.shape[1], dtype=np.intp)
 
 
 RAY_TENSION, RAY_CURVE, RAY_SQUASH, RAY_NONE, RAY_CAP = 1, 2, 3, 0, 4
@@ -515,13 +554,19 @@ def check_pier_axial(
     case_sec = kind[of[rows]] + sec.D.size // 2 * sense
     n_case, m_case = n_star[rows], m_design[rows]
     # each distinct case (section, N*, M*) worked out once (`_cases_once`) and spread to its rows
-    keep, back = _cases_once(first[of[rows]], case_sec, n_case, m_case)
+    # (N* first: where it differs in most cases, nothing else is compared)
+    found = _cases_once(first[of[rows]], n_case, m_case, case_sec, least=CASES_ONCE_LEAST)
+    keep, back = (None, None) if found is None else found
+
+    def cases(v: np.ndarray) -> np.ndarray:
+        return v if keep is None else v[keep]
+
     r = interaction(
-        sec, n_case[keep], phi0, of=case_sec[keep], m_star=m_case[keep], std=std, at_n=not util_only
+        sec, cases(n_case), phi0, of=cases(case_sec), m_star=cases(m_case), std=std, at_n=not util_only
     )
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
-    lam = r["lam"][back]
+    lam = r["lam"] if back is None else r["lam"][back]
     worse = lam[other] > lam[np.flatnonzero(both)]
     pick[np.flatnonzero(both)[worse]] = other[worse]
     # the result columns gathered in `new` and joined to the rows once (`_with_columns`)
@@ -529,7 +574,8 @@ def check_pier_axial(
     if util_only:
         new["util"] = lam[pick]
         return _simplified(df, settings, of, new, working=False, std=std, util_only=True, first=first)
-    r = _Spread(r, back[pick])  # each row's values, gathered when first read
+    # each row's values, gathered when first read (none to gather where each row is its case)
+    r = _Spread(r, (None if not both.any() else pick) if back is None else back[pick])
     # text columns taken from their few strings by code (`text_column`), not a string per row
     new["compressed"] = text_column(
         np.where(asym[of], np.where(sense[pick], 0, 1), 2), ["end", "start", "either"]
@@ -783,10 +829,10 @@ def _simplified(
     )
     back = None
     if not working and first is not None:
-        keep, back = _cases_once(first[of], *x.values())
-        if keep.size * 2 > len(df):  # few repeat: every row on its own
-            back = None
-        else:
+        order = ("n", "m", *(key for key in x if key not in ("n", "m")))  # N*, M* first: most differ
+        found = _cases_once(first[of], *(x[key] for key in order), least=0.5)
+        if found is not None and found[0].size * 2 <= len(df):  # else few repeat: every row on its own
+            keep, back = found
             x = {key: v[keep] for key, v in x.items()}
     y = _simplified_numbers(x, s, std, phi)
     k, hwe, cap, hi, lo, applies = (y[key] for key in ("k", "hwe", "cap", "hi", "lo", "applies"))

@@ -237,6 +237,41 @@ def phi_axial_bending(Nu, Nub, Nuot, kuo, phi0=PHI_COMPRESSION):
     return np.where(Nu > 0, comp, tens)
 
 
+def phi_axial_bending_terms(Nub, Nuot, kuo, phi0=PHI_COMPRESSION) -> tuple:
+    """The section's own terms of `phi_axial_bending` (phi_b, the divisors and the slopes'
+    factors), for `phi_axial_bending_at`: a solver evaluates phi a dozen times per section,
+    and half of the arithmetic is the section's. The same expressions, so the same bits."""
+    Nub, Nuot = np.asarray(Nub, dtype=float), np.asarray(Nuot, dtype=float)
+    pb = phi_bending(kuo)
+    return (
+        phi0,
+        Nub,
+        np.where(Nub > 0, Nub, 1.0),
+        pb - phi0,
+        pb,
+        PHI_TENSION - pb,
+        np.where(Nuot < 0, Nuot, -1.0),
+    )
+
+
+def phi_axial_bending_at(Nu: np.ndarray, terms: tuple) -> np.ndarray:
+    """`phi_axial_bending(Nu, ...)` of a section's `phi_axial_bending_terms`, Nu an array of
+    the terms' shape: phi0 + (phi_b - phi0)(1 - Nu/Nub) and phi_b + (0.85 - phi_b)(Nu/Nuot)
+    worked in two arrays of their own, operand for operand as there (products and sums
+    commute in IEEE arithmetic), and the same choices per row."""
+    phi0, nub, nub_div, slope_c, pb, slope_t, nuot_div = terms
+    comp = np.divide(Nu, nub_div)
+    np.subtract(1.0, comp, out=comp)
+    comp *= slope_c
+    comp += phi0
+    np.copyto(comp, phi0, where=Nu >= nub)
+    tens = np.divide(Nu, nuot_div)
+    tens *= slope_t
+    tens += pb
+    np.copyto(tens, comp, where=Nu > 0)
+    return tens
+
+
 MIN_ECCENTRICITY = 0.05
 """Cl 10.1.2: the least eccentricity of the axial force in a column, as a fraction of D."""
 

@@ -187,6 +187,25 @@ class AS3600:
         p0 = self.phi_compression if phi0 is None else phi0
         return as3600.phi_axial_bending(state.nu, state.nub, state.nuot, state.kuo, p0)
 
+    def phi_axial_bending_prepared(self, state: SectionState, phi0=None):
+        """phi of `phi_axial_bending` as a function of Nu alone (`at(nu, rows)`: the rows
+        `rows` of the section arrays of `state`, None for all), the section's own terms worked
+        out once (`as3600.phi_axial_bending_terms`) and gathered once per `rows` array (the
+        solvers pass one array until their active rows shrink). The same numbers."""
+        p0 = self.phi_compression if phi0 is None else phi0
+        terms = as3600.phi_axial_bending_terms(state.nub, state.nuot, state.kuo, p0)
+        got: dict = {}
+
+        def at(nu, rows=None):
+            if rows is None:
+                return as3600.phi_axial_bending_at(nu, terms)
+            if got.get("rows") is not rows:
+                got["rows"] = rows
+                got["terms"] = tuple(v[rows] if isinstance(v, np.ndarray) and v.ndim else v for v in terms)
+            return as3600.phi_axial_bending_at(nu, got["terms"])
+
+        return at
+
     def phi_axial_bending_text(self, state: SectionState):
         return [f"kuo {k:.3f}, Nub {n * 1e-3:.0f} kN" for k, n in zip(*(np.asarray(v).tolist() for v in (
             np.broadcast_to(state.kuo, np.shape(state.nu)), np.broadcast_to(state.nub, np.shape(state.nu)))),

@@ -78,6 +78,10 @@ class Layout:
         return np.hstack([d, self.zone_d]), np.hstack([A, self.zone_A])
 
 
+LAYOUT_COLUMNS = ("Lw", "v_dia", "v_spacing", "v_layers", "cover", *ZONE_COLUMNS)
+"""The columns `layout` reads (the zone columns optional)."""
+
+
 def _col(df: pd.DataFrame, key: str) -> np.ndarray:
     return df[key].to_numpy(dtype=float) if key in df else np.zeros(len(df))
 
@@ -85,10 +89,14 @@ def _col(df: pd.DataFrame, key: str) -> np.ndarray:
 def layout(df: pd.DataFrame) -> Layout:
     """The bars of the piers in `df` (columns Lw, v_dia, v_spacing, v_layers, cover and the
     geometry's zone columns; without zone columns: no zones)."""
-    Lw, dia, spacing, layers, cover = (
-        df[k].to_numpy(dtype=float) for k in ("Lw", "v_dia", "v_spacing", "v_layers", "cover")
-    )
-    z = {c: np.nan_to_num(_col(df, c)) for c in ZONE_COLUMNS}
+    return layout_of({k: df[k].to_numpy(dtype=float) for k in LAYOUT_COLUMNS if k in df}, len(df))
+
+
+def layout_of(cols: dict[str, np.ndarray], rows: int) -> Layout:
+    """`layout` of the columns `cols` (float arrays by name, `rows` long; a zone column not
+    given: zero), for a caller that holds them already as arrays (the axial check's sections)."""
+    Lw, dia, spacing, layers, cover = (cols[k] for k in ("Lw", "v_dia", "v_spacing", "v_layers", "cover"))
+    z = {c: np.nan_to_num(cols[c]) if c in cols else np.zeros(rows) for c in ZONE_COLUMNS}
     per_a, out_a, in_a = zone_positions(z["za_n"], layers, z["za_dia"], z["za_len"], cover, z["za_tie"])
     per_b, out_b, in_b = zone_positions(z["zb_n"], layers, z["zb_dia"], z["zb_len"], cover, z["zb_tie"])
     has_a, has_b = per_a > 0, per_b > 0
@@ -115,7 +123,6 @@ def layout(df: pd.DataFrame) -> Layout:
         pos = np.where(from_end, Lw[:, None] - pos, pos)
         parts_d.append(np.where(live, pos, 0.0))
         parts_A.append(np.where(live, (layers * bar_area(dz))[:, None], 0.0))
-    rows = len(df)
     zone_d = np.hstack(parts_d) if parts_d else np.zeros((rows, 0))
     zone_A = np.hstack(parts_A) if parts_A else np.zeros((rows, 0))
     return Layout(first, step, count, layers * bar_area(dia), zone_d, zone_A)

@@ -177,14 +177,16 @@ def _even_consts(sec: EvenRect) -> dict[str, np.ndarray]:
         ey = sec.fsy / sec.Es
         n = sec.count
         e, s = sec.edge, sec.step
+        conc_stress = sec.alpha2 * sec.fc
         c = dict(
-            conc_stress=sec.alpha2 * sec.fc,
+            conc_stress=conc_stress,
             ya=1 - ey / sec.eps_cu,
             yb=1 + ey / sec.eps_cu,
             h=sec.D / 2,
             p1n=n * (n - 1),
             e2s=2 * e * s,
             ss=s * s,
+            conc_area=conc_stress * sec.bar_area,  # the bars' deduction's own factor
         )
         object.__setattr__(sec, _CONSTS, c)
     return c
@@ -193,6 +195,20 @@ def _even_consts(sec: EvenRect) -> dict[str, np.ndarray]:
 # The series terms of j = 0 (`_even_sums` with j0 = 0): j0 (j0 - 1) and (j0 - 1) j0 (2 j0 - 1)
 _P1_0 = 0.0 * (0.0 - 1)
 _P2_0 = (0.0 - 1) * 0.0 * (2 * 0.0 - 1)
+
+
+def _upto(x: np.ndarray, e, s, n, inclusive: bool = True) -> np.ndarray:
+    """Bar positions with depth <= x (or < x): clip(floor((x - e) / s) + 1 (or ceil), 0, n),
+    worked in `x`'s own array (the caller's temporary; the same operations in their order)."""
+    np.subtract(x, e, out=x)
+    np.divide(x, s, out=x)
+    if inclusive:
+        np.floor(x, out=x)
+        np.add(x, 1, out=x)
+    else:
+        np.ceil(x, out=x)
+    np.maximum(x, 0, out=x)  # np.clip's bounds, each a ufunc (clip's wrapper cost more)
+    return np.minimum(x, n, out=x)
 
 
 def _forces_even(sec: EvenRect, dn: np.ndarray, moment: bool = True) -> tuple[np.ndarray, np.ndarray | None]:
@@ -204,49 +220,135 @@ def _forces_even(sec: EvenRect, dn: np.ndarray, moment: bool = True) -> tuple[np
     once (not once per range it bounds), the sums of squares only where read (the elastic
     range) and the section's own terms once (`_even_consts`): the same numbers to the last
     bit (tests/test_axial_speed2.py holds it against `_even_sums`). Without `moment` N alone
-    (M None): what the solve for N = N* reads, in less than half the arithmetic."""
+    (M None): what the solve for N = N* reads, in less than half the arithmetic.
+
+    Each expression is worked in place in a few arrays of its own (`out=`), the same
+    operations on the same operands in the same order (a product's operands may be swapped:
+    IEEE products commute): a dozen fewer arrays made per call, which the solvers make a
+    dozen times per row (tests/test_axial_speed4.py holds it against the expressions)."""
     c = _even_consts(sec)
-    depth = np.minimum(sec.gamma * dn, sec.D)
+    depth = np.multiply(sec.gamma, dn)
+    np.minimum(depth, sec.D, out=depth)
     conc_stress = c["conc_stress"]
-    cc = conc_stress * depth * sec.b
+    cc = np.multiply(conc_stress, depth)
+    cc *= sec.b
     n = sec.count
     e, s = sec.edge, sec.step
-
-    def upto(x, inclusive=True):  # bar positions with depth <= x (or < x)
-        q = (x - e) / s
-        j = np.floor(q) + 1 if inclusive else np.ceil(q)
-        return np.clip(j, 0, n)
-
-    ja = upto(dn * c["ya"])  # d <= this: yielded in compression
-    jb = upto(dn * c["yb"])  # d >= this: yielded in tension
-    p1a, p1b = ja * (ja - 1), jb * (jb - 1)
+    ja = _upto(np.multiply(dn, c["ya"]), e, s, n)  # d <= this: yielded in compression
+    jb = _upto(np.multiply(dn, c["yb"]), e, s, n)  # d >= this: yielded in tension
+    p1a = np.subtract(ja, 1)
+    p1a *= ja  # ja (ja - 1)
+    p1b = np.subtract(jb, 1)
+    p1b *= jb
     # [0, ja): count ja (ja - 0 is ja to the bit); [ja, jb): count and sum of depths; [jb, n)
     c0 = ja
-    e0 = jb - ja
-    sj = (p1b - p1a) / 2
-    e0e = e0 * e
-    e1 = e0e + s * sj
-    t0 = n - jb
-    k = sec.Es * sec.eps_cu / dn
+    e0 = np.subtract(jb, ja)
+    sj = np.subtract(p1b, p1a)
+    sj /= 2  # (p1b - p1a) / 2
+    e0e = np.multiply(e0, e)
+    e1 = np.multiply(s, sj)
+    e1 += e0e  # e0e + s sj
+    t0 = np.subtract(n, jb)
+    k = np.divide(sec.Es * sec.eps_cu, dn)
     fy, area = sec.fsy, sec.bar_area
-    ns = area * (fy * (c0 - t0) + k * (dn * e0 - e1))
+    # ns = area (fy (c0 - t0) + k (dn e0 - e1))
+    ns = np.subtract(c0, t0)
+    ns *= fy
+    w = np.multiply(dn, e0)
+    w -= e1
+    w *= k
+    ns += w
+    ns *= area
     ms = None
     if moment:  # the sums of depths of the outer ranges, and of squared depths of the elastic one
-        c1 = c0 * e + s * ((p1a - _P1_0) / 2)
-        sjj = ((jb - 1) * jb * (2 * jb - 1) - (ja - 1) * ja * (2 * ja - 1)) / 6
-        e2 = e0e * e + c["e2s"] * sj + c["ss"] * sjj
-        t1 = t0 * e + s * ((c["p1n"] - p1b) / 2)
         h = c["h"]
-        ms = area * (fy * (h * c0 - c1) - fy * (h * t0 - t1) + k * (dn * h * e0 - (dn + h) * e1 + e2))
+        ms = _moment_even(sec, c, dn, ja, jb, p1a, p1b, e0, e0e, sj, e1, t0, k, w)
     if sec.deduct:
-        b0 = upto(depth, inclusive=False)
-        ns = ns - conc_stress * area * b0
-        if moment:
-            b1 = b0 * e + s * ((b0 * (b0 - 1) - _P1_0) / 2)
-            ms = ms - conc_stress * area * (h * b0 - b1)
+        b0 = _upto(depth.copy(), e, s, n, inclusive=False)
+        if moment:  # ms - conc_stress area (h b0 - b1), b1 = b0 e + s ((b0 (b0 - 1) - P1_0) / 2)
+            b1 = np.subtract(b0, 1)
+            b1 *= b0
+            b1 -= _P1_0
+            b1 /= 2
+            b1 *= s
+            np.multiply(b0, e, out=w)
+            b1 += w
+            np.multiply(h, b0, out=w)
+            w -= b1
+            w *= c["conc_area"]
+            ms -= w
+        b0 *= c["conc_area"]  # ns - conc_stress area b0
+        ns -= b0
     if sec.zd is not None and sec.zd.shape[1]:
         ns, ms = _add_zone_forces(sec, dn, depth, conc_stress, ns, ms)
-    return cc + ns, (cc * (h - depth / 2) + ms if moment else None)
+    if not moment:
+        ns += cc  # cc + ns
+        return ns, None
+    # cc (h - depth / 2) + ms
+    depth /= 2
+    np.subtract(h, depth, out=depth)
+    depth *= cc
+    depth += ms
+    ns += cc
+    return ns, depth
+
+
+def _moment_even(sec, c, dn, ja, jb, p1a, p1b, e0, e0e, sj, e1, t0, k, w) -> np.ndarray:
+    """M of the bars of `_forces_even` (before the deduction of concrete they displace):
+    area (fy (h c0 - c1) - fy (h t0 - t1) + k (dn h e0 - (dn + h) e1 + e2)), worked in place
+    term by term in the expressions' order; `w` a work array of the rows' length."""
+    e, s, h = sec.edge, sec.step, c["h"]
+    fy = sec.fsy
+    # c1 = c0 e + s ((p1a - P1_0) / 2)
+    c1 = np.subtract(p1a, _P1_0)
+    c1 /= 2
+    c1 *= s
+    np.multiply(ja, e, out=w)
+    c1 += w
+    # sjj = ((jb - 1) jb (2 jb - 1) - (ja - 1) ja (2 ja - 1)) / 6
+    sjj = _cube_term(jb, w)
+    sjj -= _cube_term(ja, w)
+    sjj /= 6
+    # e2 = e0e e + e2s sj + ss sjj
+    e2 = np.multiply(e0e, e)
+    np.multiply(c["e2s"], sj, out=w)
+    e2 += w
+    sjj *= c["ss"]
+    e2 += sjj
+    # t1 = t0 e + s ((p1n - p1b) / 2)
+    t1 = np.subtract(c["p1n"], p1b)
+    t1 /= 2
+    t1 *= s
+    np.multiply(t0, e, out=w)
+    t1 += w
+    # m = fy (h c0 - c1) - fy (h t0 - t1) + k (dn h e0 - (dn + h) e1 + e2)
+    m = np.multiply(h, ja)
+    m -= c1
+    m *= fy
+    np.multiply(h, t0, out=w)
+    w -= t1
+    w *= fy
+    m -= w
+    np.multiply(dn, h, out=w)
+    w *= e0  # dn h e0
+    np.add(dn, h, out=c1)
+    c1 *= e1  # (dn + h) e1
+    w -= c1
+    w += e2
+    w *= k
+    m += w
+    m *= sec.bar_area
+    return m
+
+
+def _cube_term(j: np.ndarray, w: np.ndarray) -> np.ndarray:
+    """(j - 1) j (2 j - 1), a new array (`w` a work array, overwritten)."""
+    out = np.subtract(j, 1)
+    out *= j
+    np.multiply(2, j, out=w)
+    w -= 1
+    out *= w
+    return out
 
 
 def _add_zone_forces(sec: EvenRect, dn, depth, conc_stress, ns, ms) -> tuple[np.ndarray, np.ndarray | None]:
@@ -304,6 +406,20 @@ def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
     return cc + ns, cc * (sec.D / 2 - depth / 2) + ms
 
 
+def forces_of(sec: Rect | EvenRect, of: np.ndarray | None, dn: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """`forces(sec.take(of), dn)` worked in blocks of `BLOCK` rows, each taking its sections
+    from `sec` (no copy of the sections for every row, and a block's temporaries stay in the
+    processor's cache); `of` None: `forces(sec, dn)`. Each row's numbers read its own row
+    alone, so the same numbers."""
+    if of is None or of.size <= BLOCK:
+        return forces(sec if of is None else sec.take(of), dn)
+    n, m = np.empty(dn.shape), np.empty(dn.shape)
+    for at in range(0, dn.size, BLOCK):
+        part = slice(at, at + BLOCK)
+        n[part], m[part] = forces(sec.take(of[part]), dn[part])
+    return n, m
+
+
 def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
     """N of `forces` alone (the same numbers; evenly spaced bars without the moment's sums)."""
     if isinstance(sec, EvenRect):
@@ -311,7 +427,9 @@ def axial_force(sec: Rect | EvenRect, dn) -> np.ndarray:
     return forces(sec, dn)[0]
 
 
-def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None) -> np.ndarray:
+def solve_dn(
+    sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=None, ends=None, of=None
+) -> np.ndarray:
     """Neutral-axis depth where g(dn) = target, for g increasing in dn, on all rows at once.
     g is N(dn), or N(dn) x scale(N, dn, rows) when `scale` (e.g. phi, which ACI 318 reads from
     the strain at dn and AS 3600 from N) is given; `rows` says which rows N belongs to (None:
@@ -325,19 +443,32 @@ def solve_dn(sec: Rect | EvenRect, target, lo, hi, iterations: int = 60, scale=N
     (`iterations` caps the steps). Where the root is unique the answer is a bisection's to
     round-off, in about a quarter of the steps; where N(dn) dips as a bar enters the stress
     block (bars displace concrete) there may be several roots, and either method may give
-    any of them."""
-    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), sec.D.shape))
-    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), sec.D.shape))
-    target = np.broadcast_to(np.asarray(target, dtype=float), sec.D.shape)
+    any of them.
+
+    `of`, where given, is each row's section among `sec`'s (one per distinct section): each
+    block of rows then takes its sections from `sec` alone, with no copy of the sections for
+    every row first (the same numbers, row for row)."""
+    D = sec.D if of is None else sec.D[of]
+    lo = np.array(np.broadcast_to(np.asarray(lo, dtype=float), D.shape))
+    hi = np.array(np.broadcast_to(np.asarray(hi, dtype=float), D.shape))
+    target = np.broadcast_to(np.asarray(target, dtype=float), D.shape)
     memo = RowsMemo()
+    whole: list = []  # the sections of every row, where `of` is given and no block is smaller
 
     def g(x: np.ndarray, rows) -> np.ndarray:
-        part = sec if rows is None else memo("sec", rows, lambda: sec.take(rows))
+        if rows is not None:
+            part = memo("sec", rows, lambda: sec.take(rows if of is None else of[rows]))
+        elif of is None:
+            part = sec
+        else:
+            if not whole:
+                whole.append(sec.take(of))
+            part = whole[0]
         n = axial_force(part, x)
         aim = target if rows is None else memo("target", rows, lambda: target[rows])
         return (n * scale(n, x, rows) if scale else n) - aim
 
-    return _illinois(g, lo, hi, np.abs(target), sec.D, iterations, ends)
+    return _illinois(g, lo, hi, np.abs(target), D, iterations, ends)
 
 
 def solve_ray(
@@ -434,33 +565,53 @@ def _illinois(g, lo, hi, scale_g, D, iterations, ends=None) -> np.ndarray:
 
 def _solve_block(g, rows, a, b, ga, gb, tg, tx, out, iterations) -> None:
     """`_illinois`'s steps on the rows `rows` (None: every row) whose brackets (a, b), g
-    values (ga, gb) and tolerances (tg, tx) are given packed; the roots written into `out`."""
+    values (ga, gb) and tolerances (tg, tx) are given packed; the roots written into `out`.
+
+    The brackets and their g values are updated in their own arrays (`np.copyto` and
+    `np.multiply` with `where=`: the same choice per row as the `np.where` of each, and the
+    same halving 0.5 g), not made anew at each step; the caller's arrays are not written (the
+    block's own copies are)."""
     held = np.arange(a.size) if rows is None else rows  # the rows held, as rows of `out`
-    below = None  # each row's side of its last step (every row packed has taken as many)
+    if rows is None:  # every row's arrays are the caller's: copies to work in
+        a, b, ga, gb = a.copy(), b.copy(), ga.copy(), gb.copy()
+    below = above = None  # each row's side of its last step (every row packed has taken as many)
     live = None  # which rows held are still iterating (None: all)
     left = a.size
     for it in range(iterations):
         if left == 0:
             break
-        mid = 0.5 * (a + b)
+        mid = np.add(a, b)
+        mid *= 0.5  # 0.5 (a + b)
         if it % 3 == 2:
             x = mid
         else:
             with np.errstate(divide="ignore", invalid="ignore"):
-                x = (a * gb - b * ga) / (gb - ga)
+                x = np.multiply(a, gb)
+                w = np.multiply(b, ga)
+                x -= w
+                np.subtract(gb, ga, out=w)
+                x /= w  # (a gb - b ga) / (gb - ga)
             # inside the bracket (false for NaN and the infinities): not finite, or <= a, or >= b
-            x = np.where((x > a) & (x < b), x, mid)
+            inside = np.greater(x, a)
+            inside &= np.less(x, b)
+            np.copyto(mid, x, where=inside)
+            x = mid
         gx = g(x, rows)
         # Illinois: an end kept twice in a row has its g halved, so the next point moves off it
-        prev, below = below, gx < 0
-        if prev is None:
-            ga_next, gb_next = np.where(below, gx, ga), np.where(below, gb, gx)
-        else:
-            ga_next = np.where(below, gx, np.where(prev, ga, 0.5 * ga))
-            gb_next = np.where(below, np.where(prev, 0.5 * gb, gb), gx)
-        a, b = np.where(below, x, a), np.where(below, b, x)
-        ga, gb = ga_next, gb_next
-        done = (np.abs(gx) <= tg) | (b - a <= tx)
+        prev, prev_above = below, above
+        below = gx < 0
+        above = ~below
+        if prev is not None:  # ga: where(below, gx, where(prev, ga, 0.5 ga)); gb likewise
+            np.multiply(ga, 0.5, out=ga, where=above & prev_above)
+            np.multiply(gb, 0.5, out=gb, where=below & prev)
+        np.copyto(ga, gx, where=below)
+        np.copyto(gb, gx, where=above)
+        np.copyto(a, x, where=below)  # a, b = where(below, x, a), where(below, b, x)
+        np.copyto(b, x, where=above)
+        w = np.abs(gx)
+        done = w <= tg
+        np.subtract(b, a, out=w)
+        done |= w <= tx  # |g| <= tg or b - a <= tx
         if live is not None:
             done &= live
         if not done.any():
@@ -471,7 +622,7 @@ def _solve_block(g, rows, a, b, ga, gb, tg, tx, out, iterations) -> None:
         if (a.size - left) * REPACK <= a.size:  # few finished: held as they are
             continue
         rows = held = held[live]
-        a, b, ga, gb, tg, tx, below = (v[live] for v in (a, b, ga, gb, tg, tx, below))
+        a, b, ga, gb, tg, tx, below, above = (v[live] for v in (a, b, ga, gb, tg, tx, below, above))
         live = None
     if left:
         mid = 0.5 * (a + b)
