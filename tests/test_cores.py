@@ -298,3 +298,17 @@ def test_a_building_without_core_ids_takes_the_single_section_path_unchanged():
     old = distribution.core_actions_to_piers(piers, wl, one, rows, 0.05).piers
     cols = distribution.ACTION_COLUMNS + distribution.CORE_PIER_EXTRA
     pd.testing.assert_frame_equal(new[cols], old[cols], check_exact=True)
+
+
+def test_rows_that_all_name_their_core_are_each_cores_own():
+    """Core actions given per core only (every row names its core, no building row) stopped the
+    compute with KeyError 'storey': the blank rows' mask was an empty list, which pandas reads
+    as a choice of no columns. Each row is its core's own, unshared (module docstring)."""
+    walls = box("A", 0.0, 0.0, 6.0, 4.0, 0.25) + box("B", 10.0, 0.5, 3.0, 3.0, 0.2)
+    piers, wl, plans = prepare([storey("L0", height=3.5)], walls, [])
+    rows = frame([dict(storey="L0", combination="Ex", core=c, n=n, vx=v, vy=0.0, mx=0.0, my=5 * v, t=0.0,
+                       x_v=np.nan, y_v=np.nan) for c, n, v in (("A", 9000.0, 1000.0), ("B", 4000.0, 300.0))])
+    split = cores.share_among_cores(piers, plans, rows, 0.0)
+    got = split.actions.set_index("core")
+    assert got.loc["A", "n"] == 9000.0 and got.loc["B", "vx"] == 300.0  # as given, not shared
+    assert split.shares.empty

@@ -93,8 +93,11 @@ def share_among_cores(
         one_of = {s: _alone([c for c in plans if s in plans[c]]) for s in pd.unique(blank.storey)}
         alone = [one_of.get(storey) for storey in blank.storey.to_numpy()]
         for core in dict.fromkeys(c for c in alone if c is not None):
-            parts.append(blank[[c == core for c in alone]].assign(core=core, acc=accidental))
-        blank = blank[[c is None for c in alone]]  # several cores, or none: the storeys below
+            mine = np.array([c == core for c in alone], dtype=bool)
+            parts.append(blank[mine].assign(core=core, acc=accidental))
+        # several cores, or none: the storeys below. A mask as an array: an empty list (no blank
+        # row) would be read as a list of columns and leave a table without any
+        blank = blank[np.array([c is None for c in alone], dtype=bool)]
     for storey, cs in blank.groupby("storey", sort=False):
         here = [c for c in plans if storey in plans[c]]
         if not here:  # no walls at this storey: nothing to share to
