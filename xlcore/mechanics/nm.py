@@ -51,7 +51,7 @@ class Rect:
 
     @property
     def As(self) -> np.ndarray:
-        return self.A.sum(axis=1)
+        return row_sums(self.A)
 
     @property
     def d0(self) -> np.ndarray:
@@ -95,7 +95,7 @@ class EvenRect:
 
     @property
     def As(self) -> np.ndarray:
-        zone = 0.0 if self.zA is None else self.zA.sum(axis=1)
+        zone = 0.0 if self.zA is None else row_sums(self.zA)
         return self.count * self.bar_area + zone
 
     @property
@@ -391,7 +391,18 @@ def _bar_forces(
     if sec.deduct:
         stress = stress - np.where(d < depth[:, None], conc_stress[:, None], 0.0)
     fs = stress * A
-    return fs.sum(axis=1), ((fs * (D[:, None] / 2 - d)).sum(axis=1) if moment else None)
+    return row_sums(fs), (row_sums(fs * (D[:, None] / 2 - d)) if moment else None)
+
+
+def row_sums(a: np.ndarray) -> np.ndarray:
+    """Each row's sum, its terms added left to right. Bars are padded with zeros to the widest
+    row of a call, and numpy's `sum(axis=1)` adds a row of 8 or more terms in eight running
+    sums, so the padding moved a row's last bit: a case's numbers depended on which other rows
+    shared its call (changing one wall's end zones moved other walls' utilisations by up to
+    2e-15). Added in order, trailing zeros change nothing."""
+    if not a.shape[1]:
+        return np.zeros(a.shape[0])
+    return np.add.accumulate(a, axis=1)[:, -1]
 
 
 def forces(sec: Rect | EvenRect, dn) -> tuple[np.ndarray, np.ndarray]:
