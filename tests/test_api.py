@@ -149,3 +149,12 @@ def test_worst_cases_count_only_pass_and_fail_rows():
     sheet = ResultSheet(results.RESULT_PREFIX + "earthquake detailing", "", [], t)
     (case,) = [c for c in tables.worst_cases({"earthquake detailing": sheet})]
     assert case["util"] == 0.6 and case["status"] == results.PASS and case["over"] == 0
+
+
+def test_an_unknown_detail_is_the_callers_slip_not_a_defect(demo_book):
+    """Errors of xlcore's own code while checking are raised as xlcore.Defect; a bad argument is
+    refused before that, as a usage error (a ValueError), naming the modes it accepts."""
+    from xlcore import api
+
+    with pytest.raises(api.UsageError, match="detail must be one of auto, governing, all"):
+        xlcore.compute(demo_book, detail="every")

@@ -24,6 +24,7 @@ from xlcore import CAUTION, geometry, layout, pipeline, results, tables
 from xlcore.diagnostics import Defect, FileProblem, Finding, Findings, InputInvalid, own_defects  # noqa: F401  (API)
 from xlcore.model import Building
 from xlcore.progress import SILENT, Reporter
+from xlcore.results.sheets import DETAIL_MODES
 from xlcore.workbook.reader import read_workbook, stored_result_sheets, stored_stamp
 from xlcore.workbook.tables import folder_for as tables_folder
 from xlcore.workbook.writer import check_target, workbook_lock, write_results
@@ -226,6 +227,8 @@ def compute(
     it too, and the two compared (`Run.comparison`); see `second_standard`."""
     path = Path(path)
     wanted = parse_standards(standards)
+    if detail not in DETAIL_MODES:  # a caller's slip, refused before the checks (not a Defect)
+        raise UsageError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {detail!r}")
     building, findings = pipeline.load(path, reporter)
     second = second_standard(building, wanted)
     with own_defects("running the checks"):
