@@ -6,8 +6,19 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from xlcore import cores, geometry, pipeline
+from xlcore import cores, demo, geometry, pipeline
 from xlcore.mechanics import stiffness
+from xlcore.model import Opening, Storey, WallRun
+
+
+def demo_model(rename=None):
+    """The demo's storeys, wall runs and openings as model objects, from `xlcore.demo` (no
+    workbook); `rename` maps each wall ID to another (openings follow their wall)."""
+    rename = rename or (lambda w: w)
+    sts = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
+    walls = [WallRun(**{**w, "wall_id": rename(w["wall_id"])}) for w in demo.walls()]
+    openings = [Opening(**{**o, "wall_id": rename(o["wall_id"])}) for o in demo.openings()]
+    return sts, walls, openings
 
 
 def demo_parts(demo_master):

@@ -11,12 +11,13 @@ import numpy as np
 import pandas as pd
 import pytest
 from builders import storey, wall
+from demo_parts import demo_model
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from xlcore import demo, distribution, geometry
 from xlcore.mechanics import section, stiffness
-from xlcore.model import Opening, Storey, WallRun
+from xlcore.model import Opening
 
 
 def share(storeys, walls, openings, core_rows, local=distribution.LOCAL_BESIDE_OPENINGS, accidental=0.0):
@@ -59,11 +60,6 @@ def assert_statics(piers, plans, core, out, local_included: bool) -> int:
             assert v == pytest.approx(w.loc[wid, "v"], abs=1e-9 * (1 + abs(w.loc[wid, "v"])))
         checked += 1
     return checked
-
-
-def demo_model():
-    sts = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
-    return sts, [WallRun(**w) for w in demo.walls()], [Opening(**o) for o in demo.openings()]
 
 
 @pytest.mark.parametrize("local", [distribution.LOCAL_BESIDE_OPENINGS, "none"])

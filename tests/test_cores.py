@@ -14,13 +14,14 @@ import numpy as np
 import pandas as pd
 import pytest
 from builders import storey, wall
+from demo_parts import demo_model
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from test_core_statics import assert_statics
 
 from xlcore import cores, demo, distribution, geometry
 from xlcore.mechanics import section, stiffness
-from xlcore.model import Opening, Storey, WallRun
+from xlcore.model import Opening, WallRun
 
 
 def prepare(storeys, walls, openings, basis=stiffness.STOREY_STIFFNESS):
@@ -76,11 +77,6 @@ def assert_each_core_adds_back(piers, wl, plans, split) -> int:
             piers[piers.core == core], plans[core], rows.reset_index(drop=True), mine, local_included=True
         )
     return checked
-
-
-def demo_model():
-    sts = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
-    return sts, [WallRun(**w) for w in demo.walls()], [Opening(**o) for o in demo.openings()]
 
 
 def test_demo_two_cores_add_back_at_every_storey_and_combination():

@@ -107,14 +107,13 @@ def test_renaming_the_demos_walls_leaves_every_pier_action_from_the_core_unchang
     renamed so their ID order reverses (pier IDs follow): each pier's N*, V*, M* the same to
     rounding. Before the equal shares, the corner overlaps followed the ID order and the
     renamed demo moved a wall's N* by 5 % and a pier's M* by 14 %."""
+    from demo_parts import demo_model
+
     from xlcore import cores, demo, geometry
     from xlcore.mechanics import stiffness
-    from xlcore.model import Opening, Storey, WallRun
 
     def shared(rename):
-        sts = [Storey(index=i, **s) for i, s in enumerate(demo.storeys())]
-        walls = [WallRun(**{**w, "wall_id": rename(w["wall_id"])}) for w in demo.walls()]
-        openings = [Opening(**{**o, "wall_id": rename(o["wall_id"])}) for o in demo.openings()]
+        sts, walls, openings = demo_model(rename)
         geom = geometry.derive(sts, walls, openings)
         piers = stiffness.with_stiffness(geom.piers, 0.2, "fixed-fixed")
         wl = stiffness.wall_stiffness(piers, 0.2, "fixed-fixed")
