@@ -355,10 +355,11 @@ def _joined(parts: list[pd.DataFrame]) -> pd.DataFrame:
 
 
 # the expected seconds of the work `compute` shares among processes, per failing storey x pier
-# (the advice search) and per core-actions row (the core checks), measured on the varied L
-# tower; and the least expected work worth a fork (below it, serial)
-ADVICE_COST = 2.5 / 6_000
-CORE_COST = 0.55 / 6_000
+# (the advice search: 2.1 s for the varied L tower's 4,020) and per core-actions row (the core
+# checks: 0.6 s for its 6,000), one process's; and the least expected work worth the forks
+# (below it, serial: the ACI 318 demo's 0.46 s took as long on two processes as on one)
+ADVICE_COST = 2.1 / 4_020
+CORE_COST = 0.6 / 6_000
 SERIAL_BELOW = 0.5
 
 
