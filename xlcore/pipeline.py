@@ -78,6 +78,7 @@ class Timings(dict):
     def __init__(self, reporter: Reporter = SILENT) -> None:
         super().__init__()
         self.reporter = reporter
+        self.notes: dict[str, str] = {}  # phase -> how it ran (on how many processes, or why one)
 
     @contextmanager
     def phase(self, name: str, label: str | None = None, total: int | None = None) -> Iterator[None]:
@@ -190,19 +191,23 @@ def compute(
         ran = parallel.Ran(1, "serial (too little work to share)")
         workers = 1
     if workers > 1:
-        label = f"cheapest fixes for {failing:,} failing pier x storey cases" + (
-            ", core stresses and core axial + bending" if cores_too else ""
+        label = (
+            f"cheapest fixes for {failing:,} failing pier x storey cases"
+            + (", core stresses and core axial + bending" if cores_too else "")
+            + f" (on up to {workers} processes)"
         )
         with t.phase("advice and core checks", label, total=core_rows or None):
             advice, parts, ran = _advice_and_cores(
                 piers, acts, summary, s, plans, split.actions if cores_too else None, workers, reporter
             )
+            t.notes["advice and core checks"] = ran.how
             summary = with_cheapest_fix(summary, advice)
             if cores_too:
                 stress = _joined([p for p, _ in parts])
                 core_nm = _joined([p for _, p in parts])
                 stress = worded(stress)
     else:
+        t.notes["advice"] = ran.how
         with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
             advice = advise(piers, acts, summary, s)
             summary = with_cheapest_fix(summary, advice)
