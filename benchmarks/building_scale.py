@@ -9,6 +9,7 @@ between machines, so compare ratios from one run.
     python benchmarks/building_scale.py S M L --runs 3  # choose sizes and runs
     python benchmarks/building_scale.py M --detail all --libreoffice  # every row; time LibreOffice
     python benchmarks/building_scale.py L --varied      # N* and M* differ in every combination
+    python benchmarks/building_scale.py L --workers 2   # advice and core checks on 2 processes
 """
 
 from __future__ import annotations
@@ -29,8 +30,19 @@ from xml.sax.saxutils import escape
 
 # storeys, box cores (5 piers each), combinations
 SIZES = {"S": (15, 2, 8), "M": (60, 6, 40), "L": (100, 12, 60)}
-PHASES = ("read", "validate", "geometry", "sharing", "checks", "core checks", "advice", "write")
-KERNELS = ("geometry", "sharing", "checks", "core checks", "advice")
+PHASES = (
+    "read",
+    "validate",
+    "geometry",
+    "sharing",
+    "checks",
+    "core checks",
+    "advice",
+    "advice and core checks",  # the two together on several processes (`--workers` > 1)
+    "write",
+)
+KERNELS = ("geometry", "sharing", "checks", "core checks", "advice", "advice and core checks")
+SHORT = {"advice and core checks": "adv+core"}  # column heads
 
 
 def generate(path: Path, storeys: int, boxes: int, combos: int, varied: bool = False) -> int:
@@ -93,10 +105,16 @@ def generate(path: Path, storeys: int, boxes: int, combos: int, varied: bool = F
     return rows
 
 
-def measure(path: str, detail: str = "auto", spawned: float | None = None) -> dict:
+def measure(path: str, detail: str = "auto", spawned: float | None = None, workers: int = 1) -> dict:
     """Run in a fresh process: phases of compute (the rows chosen by `--detail`, the workbook
     and the Parquet files of the full tables written as `xlcore compute` writes them), peak
-    memory, then the floor on the same data: the input cells read, the cells actually written."""
+    memory, then the floor on the same data: the input cells read, the cells actually written.
+    `workers` > 1 is passed to compute where it takes it (a tree without it: serial). Peak
+    memory of this process and of its largest worker process (`RUSAGE_CHILDREN`: the largest
+    resident set of the reaped children, counting the pages they share with this process, so
+    parent + child overstates the total by those shared pages; it never understates)."""
+    import inspect
+
     from xlcore import pipeline
     from xlcore.validate import build
     from xlcore.workbook import tables, writer
@@ -114,9 +132,12 @@ def measure(path: str, detail: str = "auto", spawned: float | None = None) -> di
     b, f = build(raw)
     del raw  # as `pipeline.load` (the CLI): the cells read are not held through compute
     out["validate"] = time.perf_counter() - t
-    o = pipeline.compute(b, f, detail=detail)
+    more = {"workers": workers} if "workers" in inspect.signature(pipeline.compute).parameters else {}
+    o = pipeline.compute(b, f, detail=detail, **more)
     out |= o.timings
+    out["ran"] = getattr(o, "ran", "") or "serial (a tree without workers)"
     out["peak_compute_mb"] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+    out["peak_child_mb"] = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024
     write_tables = tables.Staged.write
 
     def timed_write(self, *args, **kwargs):  # the Parquet files: a thread of their own, overlapping
@@ -232,17 +253,18 @@ def libreoffice_open(path: Path, profile: Path) -> float | None:
     return convert(path)
 
 
-def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = False) -> None:
+def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = False, workers: int = 1) -> None:
     print(
         f"medians of {runs} runs, seconds; --detail {detail}"
-        f"{'; --varied: N* and M* differ in every combination' if varied else ''}; "
-        "kernels = geometry + sharing + checks + core checks + advice; "
-        "write = workbook + Parquet files (parquet: their thread, overlapping)"
+        f"{'; --varied: N* and M* differ in every combination' if varied else ''}; --workers {workers}; "
+        "kernels = geometry + sharing + checks + core checks + advice (adv+core: the two together "
+        "on several processes); write = workbook + Parquet files (parquet: their thread, overlapping); "
+        "peakMB: this process, childMB: the largest worker process (shared pages counted in both)"
     )
-    head = "".join(f"{p[:7]:>8}" for p in PHASES)
+    head = "".join(f"{SHORT.get(p, p[:7]):>8}" for p in PHASES)
     print(
         f"{'size':<5}{'cases':>9}{head}{'parquet':>8}{'total':>8}{'f.read':>8}{'f.write':>8}{'ratio':>7}"
-        f"{'kernel%':>8}{'peakMB':>7}"
+        f"{'kernel%':>8}{'peakMB':>7}{'childMB':>8}"
     )
     totals = {}
     books = {}
@@ -254,7 +276,15 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = Fals
             results = []
             for _ in range(runs):
                 r = subprocess.run(
-                    [sys.executable, __file__, "--measure", str(path), detail, repr(time.time())],
+                    [
+                        sys.executable,
+                        __file__,
+                        "--measure",
+                        str(path),
+                        detail,
+                        repr(time.time()),
+                        str(workers),
+                    ],
                     capture_output=True,
                     text=True,
                 )
@@ -284,7 +314,9 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = Fals
         print(
             f"{size:<5}{cases:>9,}{cells}{med('parquet'):>8.2f}{med('total'):>8.2f}{med('floor_read'):>8.2f}"
             f"{med('floor_write'):>8.2f}{med('ratio'):>7.2f}{med('kernel'):>8.1f}{med('peak_mb'):>7.0f}"
+            f"{med('peak_child_mb'):>8.0f}"
         )
+        print(f"{'':<5}ran: {', '.join(sorted({m.get('ran', '') for m in results}))}")
     print()
     print("end to end = interpreter start and imports + the phases above (last run); rows and sizes of it")
     head = (
@@ -319,7 +351,8 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = Fals
 
 if __name__ == "__main__":
     if len(sys.argv) > 2 and sys.argv[1] == "--measure":
-        print(json.dumps(measure(sys.argv[2], sys.argv[3], float(sys.argv[4]))))
+        workers = int(sys.argv[5]) if len(sys.argv) > 5 else 1
+        print(json.dumps(measure(sys.argv[2], sys.argv[3], float(sys.argv[4]), workers)))
     else:
         ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
         ap.add_argument("sizes", nargs="*", default=["S", "M"], choices=sorted(SIZES))
@@ -333,5 +366,14 @@ if __name__ == "__main__":
             action="store_true",
             help="N* and M* different in every combination (no repeated cases)",
         )
+        ap.add_argument(
+            "--workers",
+            type=int,
+            default=1,
+            help="processes for the advice search and the core checks (compute's workers; default 1, "
+            "serial, as earlier rounds measured)",
+        )
         a = ap.parse_args()
-        main(a.sizes, a.runs, a.detail, a.libreoffice, a.varied)
+        if a.workers < 1:
+            ap.error("--workers must be 1 or more")
+        main(a.sizes, a.runs, a.detail, a.libreoffice, a.varied, a.workers)

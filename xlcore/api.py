@@ -218,14 +218,20 @@ def compute(
     reporter: Reporter = SILENT,
     detail: str = "all",
     standards: str | Sequence[str] | None = None,
+    workers: int = 1,
 ) -> Run:
     """Read, validate and run every check; nothing is written until `Run.write`. `now` sets the
     time in the stamp (default: the present). A `detail` other than 'all' is for the command
     line's path (`compute_locked`), which cuts the tables (`pipeline.select_detail`) before
     writing; `Run.write` writes every row. `standards` ('AS3600,ACI318', a list, '' for none;
     default: the Project's 'Also check to' setting) adds a second standard: every check run to
-    it too, and the two compared (`Run.comparison`); see `second_standard`."""
+    it too, and the two compared (`Run.comparison`); see `second_standard`. `workers`: the
+    processes the advice search and the core checks may share (`pipeline.compute`; the tables
+    do not depend on it); serial by default, as a library call inside another program should
+    not fork unasked (the command line asks for the CPUs it may use)."""
     path = Path(path)
+    if isinstance(workers, bool) or not isinstance(workers, int) or workers < 1:
+        raise UsageError(f"workers must be a whole number, 1 or more; got {workers!r}")
     wanted = parse_standards(standards)
     if detail not in DETAIL_MODES:  # a caller's slip, refused before the checks (not a Defect)
         raise UsageError(f"detail must be one of {', '.join(DETAIL_MODES)}; got {detail!r}")
@@ -233,7 +239,7 @@ def compute(
     second = second_standard(building, wanted)
     with own_defects("running the checks"):
         outcome = pipeline.compute_compared(
-            building, findings, second, now=now, reporter=reporter, detail=detail
+            building, findings, second, now=now, reporter=reporter, detail=detail, workers=workers
         )
     return Run(path, outcome)
 
@@ -246,6 +252,7 @@ def compute_locked(
     reporter: Reporter = SILENT,
     detail: str = "auto",
     standards: str | Sequence[str] | None = None,
+    workers: int = 1,
 ) -> tuple[Run, Path | None]:
     """Compute and write under the workbook's own lock, taken before reading, so a second
     compute of the same file refuses before it works (what the command line does). `detail`
@@ -254,7 +261,7 @@ def compute_locked(
 
     with workbook_lock(target) if target.parent.is_dir() else nullcontext():
         check_target(path, target, force=force, overwrite=overwrite)
-        run = compute(path, reporter=reporter, detail=detail, standards=standards)
+        run = compute(path, reporter=reporter, detail=detail, standards=standards, workers=workers)
         with own_defects("choosing the rows to write"):
             pipeline.select_detail(run.outcome, detail, tables_folder(target).name)
         target.parent.mkdir(parents=True, exist_ok=True)

@@ -16,7 +16,7 @@ from typing import Annotated
 import typer
 from lxml import etree
 
-from xlcore import CAUTION, __version__, api, layout, pipeline, results
+from xlcore import CAUTION, __version__, api, layout, parallel, pipeline, results
 from xlcore.diagnostics import Defect, FileProblem, Findings, InputInvalid
 from xlcore.progress import SILENT, Reporter
 from xlcore.workbook.package import DAMAGE
@@ -118,6 +118,26 @@ class _Display(Reporter):
         if self.task is not None:
             self.bar.remove_task(self.task)
             self.task = None
+
+    @contextmanager
+    def without_threads(self) -> Iterator[None]:
+        """The display's refresh thread stopped while the worker processes are forked, started
+        again after (the display stands still for those milliseconds). Where rich's live display
+        is not as expected, nothing is stopped: the run is then serial (`parallel.can_fork`)."""
+        live = getattr(self.bar, "live", None)
+        thread = getattr(live, "_refresh_thread", None)
+        if thread is None or not hasattr(thread, "stop"):
+            yield
+            return
+        thread.stop()
+        thread.join()
+        live._refresh_thread = None
+        try:
+            yield
+        finally:
+            again = type(thread)(live, live.refresh_per_second)
+            live._refresh_thread = again
+            again.start()
 
 
 @contextmanager
@@ -338,12 +358,24 @@ def compute(
             show_default=False,
         ),
     ] = None,
+    workers: Annotated[
+        int | None,
+        typer.Option(
+            "--workers",
+            help="Processes for the advice search and the core checks (the result tables do not "
+            "depend on it): 1 runs them in this process alone. Default: the CPUs this process "
+            f"may use, at most {parallel.MAX_WORKERS}. Linux only (elsewhere one process).",
+            show_default=False,
+        ),
+    ] = None,
     quiet: Quiet = False,
     as_json: Json = False,
 ) -> None:
     """Validate, run every check, and write the result sheets into the workbook."""
     target = output or path
     base = {"file": str(path), "output": str(target), "files_written": []}
+    if workers is not None and workers < 1:
+        _usage(f"--workers must be 1 or more; got {workers}", as_json, base)
     try:
         wanted = api.parse_standards(standards)
     except api.UsageError as exc:
@@ -373,6 +405,7 @@ def compute(
                 reporter=reporter,
                 detail=detail.value,
                 standards=wanted,
+                workers=parallel.auto_workers() if workers is None else workers,
             )
     except api.UsageError as exc:
         _usage(str(exc) + "; nothing was written", as_json, base)

@@ -13,9 +13,9 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from xlcore import comparison, cores, distribution, geometry, results
+from xlcore import comparison, cores, distribution, geometry, parallel, results
 from xlcore.checks import core_stress, pier_rows, plain
-from xlcore.checks.advice import advise
+from xlcore.checks.advice import advise, failing_pours, join_advice, summary_part
 from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.core_nm import check_core_nm
 from xlcore.checks.core_stress import check_core_stress
@@ -65,6 +65,7 @@ class Outcome:
     # per storey x pier x check the worst row (`pier_checks`): what two standards are compared on
     checks: pd.DataFrame | None = None
     comparison: comparison.Comparison | None = None  # `compute_compared` with a second standard
+    ran: str = ""  # how the advice search and the core checks ran (`parallel.Ran.how`)
 
     @property
     def failing(self) -> int:
@@ -77,6 +78,7 @@ class Timings(dict):
     def __init__(self, reporter: Reporter = SILENT) -> None:
         super().__init__()
         self.reporter = reporter
+        self.notes: dict[str, str] = {}  # phase -> how it ran (on how many processes, or why one)
 
     @contextmanager
     def phase(self, name: str, label: str | None = None, total: int | None = None) -> Iterator[None]:
@@ -108,6 +110,7 @@ def compute(
     detail: str = "all",
     limit: int | None = None,
     whole_cores: bool = True,
+    workers: int = 1,
 ) -> Outcome:
     """Run every check on a validated building and lay out the result sheets.
 
@@ -117,7 +120,15 @@ def compute(
     `detail` (see `select_detail`, which must then be called before writing): with `governing`,
     or `auto` above `limit` rows, the tables whose rows will be cut are made without their
     working text (most of the checks' time at building scale), and the sheets carry a `rework`
-    that makes it for the rows written."""
+    that makes it for the rows written.
+
+    `workers` > 1: the advice search (in parts of whole pours) and the core checks (per core)
+    on up to that many processes (`parallel.run`; Linux and no other thread alive, else
+    serial), one phase "advice and core checks" in the timings; the tables are the same to the
+    bit for any number. The default is serial: a library caller (a notebook, a test) may hold
+    threads or not want processes forked; the command line asks for the CPUs it may use."""
+    if workers < 1:
+        raise ValueError(f"workers must be 1 or more; got {workers}")
     s = building.settings
     t = Timings(reporter)
     limit = results.DETAIL_ROW_LIMIT if limit is None else limit
@@ -161,24 +172,52 @@ def compute(
         del cand  # not held through the advice search (memory peaks there)
         lintels = check_lintels(geom.lintels, building.member_actions, s)
     failing = int((summary.status == results.FAIL).sum())
-    with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
-        advice = advise(piers, acts, summary, s)
-        summary = with_cheapest_fix(summary, advice)
     stress = core_nm = None
     if core is not None and not whole_cores:
         stress = core_nm = pd.DataFrame()
-    elif core is not None:
-        with t.phase(
-            "core checks", "core stresses and core axial + bending", total=len(building.core_actions)
-        ):
-            # the working text on the rows written where the table will be cut (select_detail)
-            numbers = functools.partial(check_core_stress, text=False)
-            stress = per_core(numbers, piers, plans, split.actions, s)
-            if defer(len(stress)):
-                rework[results.CORE_STRESS_SHEET] = functools.partial(core_stress.with_working, settings=s)
-            elif len(stress):
-                stress = core_stress.with_working(stress, s)
-            core_nm = per_core(check_core_nm, piers, plans, split.actions, s)
+    cores_too = core is not None and whole_cores
+
+    def worded(stress: pd.DataFrame) -> pd.DataFrame:
+        """The core-stress rows' working text, or its making deferred to the rows written."""
+        if defer(len(stress)):
+            rework[results.CORE_STRESS_SHEET] = functools.partial(core_stress.with_working, settings=s)
+        elif len(stress):
+            return core_stress.with_working(stress, s)
+        return stress
+
+    core_rows = len(building.core_actions) if cores_too else 0
+    ran = parallel.Ran(1, "serial (one process asked for)")
+    if workers > 1 and failing * ADVICE_COST + core_rows * CORE_COST < SERIAL_BELOW:
+        ran = parallel.Ran(1, "serial (too little work to share)")
+        workers = 1
+    if workers > 1:
+        label = (
+            f"cheapest fixes for {failing:,} failing pier x storey cases"
+            + (", core stresses and core axial + bending" if cores_too else "")
+            + f" (on up to {workers} processes)"
+        )
+        with t.phase("advice and core checks", label, total=core_rows or None):
+            advice, parts, ran = _advice_and_cores(
+                piers, acts, summary, s, plans, split.actions if cores_too else None, workers, reporter
+            )
+            t.notes["advice and core checks"] = ran.how
+            summary = with_cheapest_fix(summary, advice)
+            if cores_too:
+                stress = _joined([p for p, _ in parts])
+                core_nm = _joined([p for _, p in parts])
+                stress = worded(stress)
+    else:
+        t.notes["advice"] = ran.how
+        with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
+            advice = advise(piers, acts, summary, s)
+            summary = with_cheapest_fix(summary, advice)
+        if cores_too:
+            with t.phase("core checks", "core stresses and core axial + bending", total=core_rows):
+                # the working text on the rows written where the table will be cut (select_detail)
+                numbers = functools.partial(check_core_stress, text=False)
+                stress = per_core(numbers, piers, plans, split.actions, s)
+                stress = worded(stress)
+                core_nm = per_core(check_core_nm, piers, plans, split.actions, s)
     sheets = result_sheets(
         Checked(
             building=building,
@@ -203,7 +242,17 @@ def compute(
     for sheet in sheets:
         sheet.rework = rework.get(sheet.name)
     return Outcome(
-        building, findings, geom, shear, summary, sheets, timings=t, piers=piers, plans=plans, checks=checks
+        building,
+        findings,
+        geom,
+        shear,
+        summary,
+        sheets,
+        timings=t,
+        piers=piers,
+        plans=plans,
+        checks=checks,
+        ran=ran.how,
     )
 
 
@@ -221,20 +270,28 @@ def compute_compared(
     reporter: Reporter = SILENT,
     detail: str = "all",
     limit: int | None = None,
+    workers: int = 1,
 ) -> Outcome:
     """`compute` to the building's standard and, where a `second` standard is named, once more
     to that one on the same building and actions, with the two joined on a sheet of their own
     (`comparison.compare`) after the summary. The other sheets are the first standard's; the
     second run is kept only for the comparison (its numbers without their working text)."""
     now = now or dt.datetime.now(dt.UTC)
-    out = compute(building, findings, now=now, reporter=reporter, detail=detail, limit=limit)
+    out = compute(building, findings, now=now, reporter=reporter, detail=detail, limit=limit, workers=workers)
     if not second:
         return out
     first = building.settings.standard
     reporter.begin(f"every check again to {second}")
     # numbers only (no working text), piers and lintels only: the whole-core checks take half
     # the time of a run and are not compared per pier
-    other = compute(with_standard(building, second), findings, now=now, detail="governing", whole_cores=False)
+    other = compute(
+        with_standard(building, second),
+        findings,
+        now=now,
+        detail="governing",
+        whole_cores=False,
+        workers=workers,
+    )
     reporter.end()
     cmp = comparison.compare(out.checks, other.checks, (first, second))
     out.comparison = cmp
@@ -286,14 +343,86 @@ def pier_actions(
 
 def per_core(check, piers: pd.DataFrame, plans: dict, actions: pd.DataFrame, s) -> pd.DataFrame:
     """A whole-core check run on each core's own section and actions; one table with `core`."""
-    parts = [
-        check(piers[piers.core == c], plans[c], rows.drop(columns=["core", "acc"]), s).assign(core=c)
-        for c, rows in actions.groupby("core", sort=False)
-    ]
+    by_core = actions.groupby("core", sort=False)
+    return _joined([_one_core(check, piers, plans, c, rows, s) for c, rows in by_core])
+
+
+def _one_core(check, piers: pd.DataFrame, plans: dict, c, rows: pd.DataFrame, s) -> pd.DataFrame:
+    return check(piers[piers.core == c], plans[c], rows.drop(columns=["core", "acc"]), s).assign(core=c)
+
+
+def _joined(parts: list[pd.DataFrame]) -> pd.DataFrame:
+    """The cores' tables (in the order of their first action rows) as one: `per_core`'s."""
     parts = [p for p in parts if len(p)]
     if len(parts) > 1:  # several cores: each storey x combination's cores together
         return pd.concat(parts, ignore_index=True).sort_values("row", kind="stable", ignore_index=True)
     return parts[0] if parts else pd.DataFrame()
+
+
+# the expected seconds of the work `compute` shares among processes, per failing storey x pier
+# (the advice search: 2.1 s for the varied L tower's 4,020) and per core-actions row (the core
+# checks: 0.6 s for its 6,000), one process's; and the least expected work worth the forks
+# (below it, serial: the ACI 318 demo's 0.46 s took as long on two processes as on one)
+ADVICE_COST = 2.1 / 4_020
+CORE_COST = 0.6 / 6_000
+SERIAL_BELOW = 0.5
+
+
+def _advice_and_cores(
+    piers: pd.DataFrame,
+    acts: pd.DataFrame,
+    summary: pd.DataFrame,
+    s,
+    plans: dict,
+    core_actions: pd.DataFrame | None,
+    workers: int,
+    reporter: Reporter,
+) -> tuple[pd.DataFrame, list[tuple[pd.DataFrame, pd.DataFrame]], parallel.Ran]:
+    """The advice table and each core's (stress numbers, N-M) tables, made on up to `workers`
+    processes: the pours (the search's independent parts) and the cores split into shares of
+    about equal expected work, one task per share. The joins give what the serial code gives."""
+    failing = failing_pours(piers, summary, s)
+    units: list[tuple[str, object, float]] = []  # kind, key, expected seconds
+    for pour, n in failing.groupby("pour", sort=False).size().items():
+        units.append(("pour", pour, n * ADVICE_COST))
+    cores_rows = list(core_actions.groupby("core", sort=False)) if core_actions is not None else []
+    for i, (_, rows) in enumerate(cores_rows):
+        units.append(("core", i, len(rows) * CORE_COST))
+    shares = parallel.plan([u[2] for u in units], workers)
+
+    def task(share: list[int]):
+        def work():
+            pours = [units[i][1] for i in share if units[i][0] == "pour"]
+            mine = failing[failing.pour.isin(pours)]
+            advice = advise(piers, acts, summary_part(summary, mine), s) if len(mine) else None
+            own = {}
+            for i in share:
+                if units[i][0] == "core":
+                    c, rows = cores_rows[units[i][1]]
+                    numbers = functools.partial(check_core_stress, text=False)
+                    own[units[i][1]] = (
+                        _one_core(numbers, piers, plans, c, rows, s),
+                        _one_core(check_core_nm, piers, plans, c, rows, s),
+                    )
+            return advice, own
+
+        return work
+
+    names = [
+        ", ".join(
+            f"{units[i][0]} {units[i][1] if units[i][0] == 'pour' else cores_rows[units[i][1]][0]}"
+            for i in share[:3]
+        )
+        + (" ..." if len(share) > 3 else "")
+        for share in shares
+    ]
+    costs = [sum(units[i][2] for i in sh) for sh in shares]
+    out, ran = parallel.run(
+        [task(sh) for sh in shares], workers, costs=costs, names=names, forking=reporter.without_threads
+    )
+    advice = join_advice([a for a, _ in out if a is not None], failing)
+    by_core = {k: v for _, own in out for k, v in own.items()}
+    return advice, [by_core[i] for i in range(len(cores_rows))], ran
 
 
 def _first_per_pier(table: pd.DataFrame, col: str) -> pd.Series:

@@ -3,6 +3,9 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterator
+from contextlib import contextmanager
+
 
 class Reporter:
     """Receives the phase in progress and, where the work is counted, how much is done."""
@@ -15,6 +18,12 @@ class Reporter:
 
     def end(self) -> None:
         """The current phase is finished."""
+
+    @contextmanager
+    def without_threads(self) -> Iterator[None]:
+        """A block in which the reporter runs no thread of its own: worker processes are forked
+        in it (`parallel.run`; a fork beside another thread can deadlock)."""
+        yield
 
 
 SILENT = Reporter()

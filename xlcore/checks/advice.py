@@ -1946,3 +1946,43 @@ def search_lines(s: Settings) -> list[tuple[str, str]]:
             "illustrative, not market data)",
         ),
     ]
+
+
+# ---------------------------------------------------------------------------------------------
+# the search by parts of whole pours (pipeline.compute runs the parts on several processes)
+
+
+def failing_pours(piers: pd.DataFrame, summary: pd.DataFrame, settings: Settings) -> pd.DataFrame:
+    """Each failing storey x pier (the summary's order) with its pour and storey index: what
+    splits the search into parts of whole pours. A pour's failing piers must stay together (its
+    grade row, its plan and its pairs with the grade read all of them); piers of different
+    pours share nothing the search reads but the whole pier table, the actions and the
+    settings (tests/test_parallel.py: every part's rows equal the whole search's)."""
+    failing = summary[summary.status == "FAIL"][["storey", "pier_id"]]
+    f = failing.assign(**_pier_cols(piers, failing))
+    f["pour"], _ = pour_keys(f, piers, settings)
+    return f[["storey", "pier_id", "pour", "storey_index"]]
+
+
+def summary_part(summary: pd.DataFrame, failing: pd.DataFrame) -> pd.DataFrame:
+    """The summary's rows at the storey x pier keys of `failing` (a part of `failing_pours`),
+    in the summary's order: what `advise` is given for that part."""
+    keys = pd.MultiIndex.from_frame(failing[["storey", "pier_id"]])
+    return summary[pd.MultiIndex.from_frame(summary[["storey", "pier_id"]]).isin(keys)]
+
+
+def join_advice(parts: list[pd.DataFrame], failing: pd.DataFrame) -> pd.DataFrame:
+    """The advice tables of parts of whole pours as one, in the order `advise` gives the whole:
+    its table is sorted first by each pour's lowest storey index and the pour's name (each
+    pour's rows then together, in an order of their own that a part gives the same), so the
+    parts' rows are put in that order by a stable sort on those two keys alone."""
+    parts = [p for p in parts if len(p)]
+    if not parts:
+        return pd.DataFrame(columns=[*ADVICE_KEYS, "scope"])
+    if len(parts) == 1:
+        return parts[0]
+    table = pd.concat(parts, ignore_index=True)
+    lowest = failing.groupby("pour").storey_index.min()
+    key = pd.DataFrame({"_pour_at": table.pour.map(lowest).to_numpy(float), "pour": table.pour.to_numpy()})
+    order = key.sort_values(["_pour_at", "pour"], na_position="last", kind="stable").index.to_numpy()
+    return table.take(order).reset_index(drop=True)
