@@ -697,11 +697,6 @@ def _utilisation(
     # each action row's position in the search's full rows: the memo's key with the section
     full = row if actions.to_full is None else actions.to_full[row]
     memo = actions.memo
-    if memo is not None and only_axial and actions.cheap_first:
-        # the confirmations: only the (section, action row) pairs not yet known become rows
-        got = memo.confirm(rows, meta, row, which, full, actions, settings)
-        if got is not None:
-            return got
     if len(row) <= CHUNK_ROWS:
         acts = actions.frame_of(row, which, meta, coded=True)
         return _worst(rows, acts, settings, only_axial, actions.cheap_first, memo, full)
@@ -2000,60 +1995,13 @@ class _AxialMemo:
                 setattr(self, name, new)
         return first
 
-    def slots(self, var: pd.DataFrame, vp: np.ndarray, pos: np.ndarray) -> np.ndarray | None:
-        """Each action row's slot: its variant (`vp`, a position in `var`) as a section, its
-        position `pos` in the full rows. None where the rows cannot be keyed (a column of the
-        section not a number, a variant with rows at two (storey, pier))."""
-        values = [var[c].to_numpy() for c in axial_columns(var)]
-        if any(v.dtype.kind not in "fiub" for v in values):
-            return None
-        pier = self.codes[pos]
-        of = np.full(len(var), -1, dtype=np.int64)
-        of[vp] = pier
-        if (of[vp] != pier).any():  # (not expected: a variant is one pier's)
-            return None
-        used = np.flatnonzero(of >= 0)
-        table = np.empty((len(used), len(values) + 1))
-        for j, v in enumerate(values):
-            table[:, j] = v[used]
-        table[:, -1] = of[used]
-        sig = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1]))).ravel()
-        _, first, inverse = np.unique(sig, return_index=True, return_inverse=True)
-        keys = [row.tobytes() for row in sig[first]]
-        start = np.array([self.entries.get(key, -1) for key in keys], dtype=np.int64)
-        new = np.flatnonzero(start < 0)
-        if len(new):
-            start[new] = self._slots(self.count[of[used[first[new]]]])
-            self.entries.update(zip([keys[k] for k in new.tolist()], start[new].tolist(), strict=True))
-        at = np.zeros(len(var), dtype=np.int64)
-        at[used] = start[inverse.ravel()]
-        return at[vp] + self.local[pos]
-
-    def fill(self, slot: np.ndarray, check) -> bool:
-        """Work out the slots not yet known: `check(rows)` gives the axial table of the rows
-        `rows` (positions among `slot`'s), one row each in order; each slot once. False where
-        the table does not match (not expected; nothing is stored then)."""
-        todo = np.flatnonzero(~self.done[slot])
-        if not len(todo):
-            return True
-        _, once = np.unique(slot[todo], return_index=True)
-        run = todo[np.sort(once)]  # each new (section, action row) once, in row order
-        out = check(run)
-        if len(out) != len(run):
-            return False
-        self.util[slot[run]] = out.util.to_numpy(float)
-        self.util_s[slot[run]] = out.util_s.to_numpy(float)
-        self.done[slot[run]] = True
-        self.checked += len(run)
-        return True
-
     def answers(
         self, var: pd.DataFrame, acts: pd.DataFrame, pos: np.ndarray | None, s: Settings
     ) -> pd.DataFrame:
         """`check_pier_axial(var, acts, s, working=False, util_only=True)`'s rows (the action
         rows with N* and M*, in order) as pier_id, util and util_s, each (section, action row)
         worked out once over the search. The check itself where the rows cannot be keyed (no
-        positions, other settings, an action row without its variant)."""
+        positions, other settings, an action row without its variant, a column not a number)."""
 
         def direct() -> pd.DataFrame:
             return check_pier_axial(var, acts, s, working=False, util_only=True)
@@ -2066,64 +2014,55 @@ class _AxialMemo:
             return direct()
         ids = pd.Index(var.pier_id.to_numpy())
         vp = ids.get_indexer(a.pier_id.to_numpy())
-        if (vp < 0).any() or not ids.is_unique:
+        cols = axial_columns(var)
+        if (vp < 0).any() or not ids.is_unique or any(var[c].dtype.kind not in "fiub" for c in cols):
             return direct()
-        slot = self.slots(var, vp, p)
-        if slot is None:
+        pier = self.codes[p]
+        of = np.full(len(ids), -1, dtype=np.int64)
+        of[vp] = pier
+        if (of[vp] != pier).any():  # a variant's rows at two (storey, pier): not expected
             return direct()
-
-        def check(run: np.ndarray) -> pd.DataFrame:
-            if len(run) == len(a):  # (the tables themselves, not copies)
-                return check_pier_axial(var, a, s, working=False, util_only=True)
-            sub = var.iloc[np.unique(vp[run])]
-            return check_pier_axial(sub, a.iloc[run], s, working=False, util_only=True)
-
-        if not self.fill(slot, check):
-            return direct()
+        used = np.flatnonzero(of >= 0)
+        table = np.empty((len(used), len(cols) + 1))
+        for j, c in enumerate(cols):
+            table[:, j] = var[c].to_numpy(float)[used]
+        table[:, -1] = of[used]
+        sig = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1]))).ravel()
+        _, first, inverse = np.unique(sig, return_index=True, return_inverse=True)
+        start = np.empty(len(first), dtype=np.int64)
+        new = []
+        keys = [row.tobytes() for row in sig[first]]
+        for k, key in enumerate(keys):
+            got = self.entries.get(key)
+            if got is None:
+                new.append(k)
+            else:
+                start[k] = got
+        if new:
+            new = np.asarray(new)
+            start[new] = self._slots(self.count[of[used[first[new]]]])
+            for k, slot in zip(new.tolist(), start[new].tolist(), strict=True):
+                self.entries[keys[k]] = slot
+        at = np.zeros(len(ids), dtype=np.int64)
+        at[used] = start[inverse.ravel()]
+        slot = at[vp] + self.local[p]
+        todo = np.flatnonzero(~self.done[slot])
+        if len(todo):
+            _, once = np.unique(slot[todo], return_index=True)
+            run = todo[np.sort(once)]  # each new (section, action row) once, in row order
+            rows = a.iloc[run]
+            out = check_pier_axial(
+                var.iloc[np.unique(vp[run])], rows, s, working=False, util_only=True
+            )
+            if len(out) != len(run) or not np.array_equal(out.pier_id.to_numpy(), rows.pier_id.to_numpy()):
+                return direct()  # (not expected: the check keeps every row with N* and M*, in order)
+            self.util[slot[run]] = out.util.to_numpy(float)
+            self.util_s[slot[run]] = out.util_s.to_numpy(float)
+            self.done[slot[run]] = True
+            self.checked += len(run)
         return pd.DataFrame(
             {"pier_id": a.pier_id.to_numpy(), "util": self.util[slot], "util_s": self.util_s[slot]}
         )
-
-    def confirm(
-        self, rows: pd.DataFrame, meta: pd.DataFrame, row: np.ndarray, which: np.ndarray,
-        pos: np.ndarray, actions: ActionRows, s: Settings,
-    ) -> pd.Series | None:
-        """`_utilisation(..., only_axial=True)` of the variant rows `rows` (one per row of
-        `meta`, in its order; storeys coded) at the join's action rows `row` x `which` (`pos`:
-        the rows' positions in the full rows): only the (section, action row) pairs not yet
-        known are made into action rows and checked; each variant's worst folded from the
-        memo's answers in the join's order (`_Worst`), the same numbers. None where the rows
-        cannot be keyed (the caller then checks them)."""
-        if s is not self.settings:
-            return None
-        frame = actions.frame
-        ok = pd.notna(frame["n"].to_numpy()[row]) & pd.notna(frame["m"].to_numpy()[row])
-        if not ok.all():
-            row, which, pos = row[ok], which[ok], pos[ok]
-        slot = self.slots(rows, which, pos)
-        if slot is None:
-            return None
-
-        def check(run: np.ndarray) -> pd.DataFrame:
-            # in pieces of about CHUNK_ROWS action rows (each row's answer reads that row alone)
-            parts = []
-            for lo in range(0, len(run), CHUNK_ROWS):
-                part = run[lo : lo + CHUNK_ROWS]
-                acts = actions.frame_of(row[part], which[part], meta, coded=True)
-                sub = rows.iloc[np.unique(which[part])]
-                parts.append(check_pier_axial(sub, acts, s, working=False, util_only=True))
-            return parts[0] if len(parts) == 1 else pd.concat(parts, ignore_index=True)
-
-        if not self.fill(slot, check):
-            return None
-        table = pd.DataFrame(
-            {"pier_id": meta.variant.to_numpy()[which], "util": self.util[slot], "util_s": self.util_s[slot]}
-        )
-        w = _Worst(rows, table)
-        if len(table):
-            w.fold(table)
-            w.fold(table, "util_s")
-        return w.series()
 
 
 def _fmax_keep(a: np.ndarray, b: np.ndarray) -> np.ndarray:
