@@ -53,7 +53,7 @@ import pandas as pd
 
 from xlcore import costs, geometry
 from xlcore.checks import group_max, special_walls
-from xlcore.checks.axial import _geometry_columns, check_pier_axial
+from xlcore.checks.axial import check_pier_axial
 from xlcore.checks.detailing import check_detailing
 from xlcore.checks.section14 import check_section14, not_applicable_reason
 from xlcore.checks.shear import check_pier_shear
@@ -558,10 +558,6 @@ class ActionRows:
         self.codes = codes  # each row's (storey, pier), numbered in order of appearance
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
-        # the search's axial answers by (section, action row) (`_AxialMemo`, shared by the full
-        # rows and the screen's) and, for the screen, each row's position in the full rows
-        self.memo: _AxialMemo | None = None
-        self.to_full: np.ndarray | None = None
 
     def __len__(self) -> int:
         return len(self.frame)
@@ -694,12 +690,9 @@ def _utilisation(
     their joins and groupings (tests/test_advice_speed5.py)."""
     row, which = actions.rows_of(meta)
     rows = rows.assign(storey=actions.code_storeys(rows.storey))
-    # each action row's position in the search's full rows: the memo's key with the section
-    full = row if actions.to_full is None else actions.to_full[row]
-    memo = actions.memo
     if len(row) <= CHUNK_ROWS:
         acts = actions.frame_of(row, which, meta, coded=True)
-        return _worst(rows, acts, settings, only_axial, actions.cheap_first, memo, full)
+        return _worst(rows, acts, settings, only_axial, actions.cheap_first)
     # in pieces of about CHUNK_ROWS action rows, whole variants each: every check is row by
     # row (a variant's numbers do not depend on the others in its batch), and the pieces bound
     # the checks' working arrays (the L tower confirms 3 000 variants on 60 combinations at once).
@@ -711,7 +704,7 @@ def _utilisation(
         at = np.flatnonzero(piece == k)
         mine = np.flatnonzero(piece[which] == k)
         acts = actions.frame_of(row[mine], which[mine], meta, coded=True)
-        parts.append(_worst(rows.iloc[at], acts, settings, only_axial, actions.cheap_first, memo, full[mine]))
+        parts.append(_worst(rows.iloc[at], acts, settings, only_axial, actions.cheap_first))
     return pd.concat(parts).sort_index()
 
 
@@ -1339,10 +1332,9 @@ def advise(
     codes = pier_codes(actions)
     kept = _distinct_actions(actions, settings, codes)
     actions = ActionRows(kept, cheap_first=True, codes=codes if kept is actions else None)
-    screened, where = _screening(actions.frame, failing, actions, earthquake=settings.earthquake)
-    screen = ActionRows(screened, cheap_first=True)
-    # the axial answers by (section, action row), shared by the screen and the confirmations
-    _AxialMemo.attach(actions, screen, where, settings)
+    screen = ActionRows(
+        _screening_actions(actions.frame, failing, actions, earthquake=settings.earthquake), cheap_first=True
+    )
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -1693,16 +1685,6 @@ def _screening_actions(
     rows: ActionRows | None = None,
     earthquake: set[str] | frozenset[str] = frozenset(),
 ) -> pd.DataFrame:
-    """The screen's action rows (`_screening`)."""
-    return _screening(actions, failing, rows, earthquake)[0]
-
-
-def _screening(
-    actions: pd.DataFrame,
-    failing: pd.DataFrame,
-    rows: ActionRows | None = None,
-    earthquake: set[str] | frozenset[str] = frozenset(),
-) -> tuple[pd.DataFrame, np.ndarray | None]:
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
     Cl 11.5 for any change of section in the search (a screen only: axial + bending and Cl 11.5
@@ -1715,17 +1697,15 @@ def _screening(
 
     `rows`, the ActionRows of `actions`: the failing piers' rows found by its codes instead of
     joining the actions on text keys, and its codes group them (the same rows, order and index
-    as the join; tests/test_advice_speed5.py). With them, each row's position in `rows.frame`
-    (None without `rows`): the search's axial memo keys the screen's rows by those (`_AxialMemo`)."""
+    as the join; tests/test_advice_speed5.py)."""
     keys = failing[["storey", "pier_id"]]
     if rows is not None and rows.coded_keys and not keys.duplicated().any():
-        where = _failing_positions(rows, keys)
-        acts, groups = rows.frame.take(where).reset_index(drop=True), rows.codes[where]
+        acts, groups = _failing_rows(rows, keys)
     else:
         acts = actions.merge(keys, on=["storey", "pier_id"])
-        groups = where = None
+        groups = None
     if acts.empty:
-        return acts, where
+        return acts
     n = acts.n.to_numpy(float)
     m = np.abs(acts.m.to_numpy(float))
     measures = {
@@ -1748,7 +1728,7 @@ def _screening(
         pick |= top.first(np.nan_to_num(values, nan=-np.inf), SCREEN)
     if earthquake and "combination" in acts:
         pick |= acts.combination.astype(str).isin(earthquake).to_numpy()
-    return acts[pick], (None if where is None else where[pick])
+    return acts[pick]
 
 
 class _TopRows:
@@ -1791,12 +1771,6 @@ def _failing_rows(rows: ActionRows, keys: pd.DataFrame) -> tuple[pd.DataFrame, n
     """The action rows of `rows` at the (storey, pier) `keys` (unique, no NaN in the actions'),
     in table order with a fresh index, as the inner join on the keys gives them, and each one's
     (storey, pier) code."""
-    at = _failing_positions(rows, keys)
-    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
-
-
-def _failing_positions(rows: ActionRows, keys: pd.DataFrame) -> np.ndarray:
-    """`_failing_rows`' rows as their positions in `rows.frame`, ascending."""
     storey = pd.Index(rows.storeys).get_indexer(keys.storey)
     pier = pd.Index(rows.piers).get_indexer(keys.pier_id)
     known = (storey >= 0) & (pier >= 0)
@@ -1804,17 +1778,11 @@ def _failing_positions(rows: ActionRows, keys: pd.DataFrame) -> np.ndarray:
     wanted = np.zeros(len(rows.keys), dtype=bool)
     wanted[key[key >= 0]] = True
     at = np.flatnonzero(wanted[rows.codes])
-    return at
+    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
 
 
 def _worst(
-    var: pd.DataFrame,
-    acts: pd.DataFrame,
-    s: Settings,
-    only_axial: bool = False,
-    cheap_first: bool = False,
-    memo: _AxialMemo | None = None,
-    pos: np.ndarray | None = None,
+    var: pd.DataFrame, acts: pd.DataFrame, s: Settings, only_axial: bool = False, cheap_first: bool = False
 ) -> pd.Series:
     """Worst utilisation of every variant over every check and combination (over axial +
     bending and Cl 11.5 alone with `only_axial`), by variant ID (sorted), for the variants with
@@ -1830,14 +1798,8 @@ def _worst(
     Each check's rows are folded into one maximum per variant by the variant's position
     (`_Worst`) instead of concatenating the checks' tables and grouping them by variant (a
     fifth of the search's time in the checks was those concatenations, groupings and the
-    filters of rows by variant ID).
-
-    With `memo` (the search's, `_AxialMemo`) and `pos` (each action row's position in the
-    search's full action rows), the axial answers of a (section, action row) already worked
-    out are taken from the memo, not checked again (with `cheap_first` only)."""
-    if not cheap_first:
-        memo = None
-    w = _Worst(var, acts, pos)
+    filters of rows by variant ID)."""
+    w = _Worst(var, acts)
     if cheap_first and not only_axial:
         shear = check_pier_shear(var, acts, s, working=False)
         w.fold(shear)
@@ -1851,18 +1813,12 @@ def _worst(
         w.fold(check_detailing(live, live_acts, s, hwe, working=False, shear=shear))
         w.fold(check_section14(*quake, s, hwe, working=False))
         var, acts = w.without(w.worst > 1.0)
-        if memo is not None:
-            axial = memo.answers(var, acts, w.pos, s)
-        else:
-            axial = check_pier_axial(var, acts, s, working=False, util_only=True)
+        axial = check_pier_axial(var, acts, s, working=False, util_only=True)
         if len(axial):
             w.fold(axial)
             w.fold(axial, "util_s")
         return w.series()
-    if memo is not None and only_axial:  # (the effective heights are not read)
-        axial = memo.answers(var, acts, w.pos, s)
-    else:
-        axial = check_pier_axial(var, acts, s, working=False, util_only=True)
+    axial = check_pier_axial(var, acts, s, working=False, util_only=True)
     # the shear table also goes to detailing, which otherwise runs the same shear check again
     shear = None if only_axial else check_pier_shear(var, acts, s, working=False)
     if shear is not None:
@@ -1870,7 +1826,7 @@ def _worst(
     if len(axial):
         w.fold(axial)
         w.fold(axial, "util_s")
-        hwe = None if only_axial else axial.groupby(["storey", "pier_id"]).hwe.first()
+        hwe = axial.groupby(["storey", "pier_id"]).hwe.first()
     else:
         hwe = None
     if not only_axial:
@@ -1886,10 +1842,8 @@ class _Worst:
     left out by position (`without`). The maxima are `group_max`'s (NaN skipped, NaN where
     none), the same numbers `groupby(...).max()` gives over the checks' tables together."""
 
-    def __init__(self, var: pd.DataFrame, acts: pd.DataFrame, pos: np.ndarray | None = None) -> None:
+    def __init__(self, var: pd.DataFrame, acts: pd.DataFrame) -> None:
         self.var, self.acts = var, acts
-        # each action row's position in the search's rows, and those of the rows in play (`without`)
-        self.pos0 = self.pos = pos
         self.ids = var.pier_id.to_numpy()
         self.index = pd.Index(self.ids)
         self.at = self.index.get_indexer(acts.pier_id.to_numpy())  # -1: no variant row (kept)
@@ -1921,148 +1875,13 @@ class _Worst:
         self.kept &= ~out
         if self.kept.all():  # none left out: the tables themselves, not copies
             return self.var, self.acts
-        rows = (self.at < 0) | self.kept[self.at]
-        if self.pos0 is not None:
-            self.pos = self.pos0[rows]
-        return self.var[self.kept], self.acts[rows]
+        return self.var[self.kept], self.acts[(self.at < 0) | self.kept[self.at]]
 
     def series(self) -> pd.Series:
         """The maxima by variant ID, sorted, of the variants with a row in some check."""
         at = np.flatnonzero(self.seen)
         at = at[np.argsort(self.ids[at], kind="stable")]
         return pd.Series(self.worst[at], index=pd.Index(self.ids[at], name="pier_id"), name="util")
-
-
-def axial_columns(var: pd.DataFrame) -> list[str]:
-    """The pier columns of the variant rows `var` that the axial checks read
-    (`check_pier_axial(util_only=True)`): the geometry it joins to its action rows
-    (`axial._geometry_columns`), less the storey and pier ID, read only as the join's keys.
-    Two variants equal in these columns, at the same action row, get the same axial + bending
-    and Cl 11.5 answers to the bit (each case reads its own row alone: nm.row_sums,
-    tests/test_row_independence.py); tests/test_advice_speed8.py holds the check to reading no
-    other pier column."""
-    return [c for c in _geometry_columns(var, util_only=True) if c not in ("storey", "pier_id")]
-
-
-class _AxialMemo:
-    """The search's axial answers (util and util_s of `check_pier_axial(util_only=True)`) by
-    (section, action row): a section is a pier's action rows' (storey, pier) and the variant's
-    `axial_columns` as their bits; an action row its position in the search's full action rows
-    (the screen's rows mapped to those, `ActionRows.to_full`). Each distinct pair is checked
-    once per search: horizontal-bar variants share their pier's section, pairs share one of
-    their single options', the confirmations repeat the screen's rows, and the probes repeat
-    in the rounds (the varied L tower: 88 % of 706 000 axial rows were repeats).
-
-    Each section takes a block of slots, one per action row of its pier (the row's place among
-    its pier's rows), so a row's answer is found by position, not by hashing each row."""
-
-    def __init__(self, full: ActionRows, settings: Settings) -> None:
-        self.settings = settings  # the answers hold for these settings only
-        self.codes = full.codes  # each full row's (storey, pier)
-        n = len(full.codes)
-        self.local = np.empty(n, dtype=np.int64)  # each row's place among its pier's rows
-        self.local[full.order] = np.arange(n) - full.starts[full.codes[full.order]]
-        self.count = np.diff(full.starts)  # each (storey, pier)'s rows
-        self.entries: dict[bytes, int] = {}  # section -> its first slot
-        self.size = 0
-        self.util = np.empty(0)
-        self.util_s = np.empty(0)
-        self.done = np.zeros(0, dtype=bool)
-        self.checked = 0  # action rows run through the check (the tests read it)
-
-    @classmethod
-    def attach(
-        cls, full: ActionRows, screen: ActionRows, where: np.ndarray | None, settings: Settings
-    ) -> None:
-        """One memo for `full` and `screen` (`where`: each screen row's position in `full.frame`),
-        where the rows can be told apart by position (coded keys and known positions)."""
-        if not full.coded_keys or where is None or len(where) != len(screen):
-            return
-        memo = cls(full, settings)
-        full.memo = screen.memo = memo
-        screen.to_full = np.asarray(where, dtype=np.int64)
-
-    def _slots(self, count: np.ndarray) -> np.ndarray:
-        """First slots of new sections of `count` rows each, the arrays grown to hold them."""
-        first = self.size + np.concatenate([[0], np.cumsum(count)[:-1]]).astype(np.int64)
-        self.size += int(count.sum())
-        if self.size > len(self.done):
-            grow = max(self.size, 2 * len(self.done), 1024)
-            for name, fill in (("util", np.nan), ("util_s", np.nan), ("done", False)):
-                old = getattr(self, name)
-                new = np.full(grow, fill, dtype=old.dtype)
-                new[: len(old)] = old
-                setattr(self, name, new)
-        return first
-
-    def answers(
-        self, var: pd.DataFrame, acts: pd.DataFrame, pos: np.ndarray | None, s: Settings
-    ) -> pd.DataFrame:
-        """`check_pier_axial(var, acts, s, working=False, util_only=True)`'s rows (the action
-        rows with N* and M*, in order) as pier_id, util and util_s, each (section, action row)
-        worked out once over the search. The check itself where the rows cannot be keyed (no
-        positions, other settings, an action row without its variant, a column not a number)."""
-
-        def direct() -> pd.DataFrame:
-            return check_pier_axial(var, acts, s, working=False, util_only=True)
-
-        if pos is None or s is not self.settings or len(pos) != len(acts):
-            return direct()
-        ok = pd.notna(acts["n"].to_numpy()) & pd.notna(acts["m"].to_numpy())
-        a, p = (acts, pos) if ok.all() else (acts[ok], pos[ok])
-        if not len(a):
-            return direct()
-        ids = pd.Index(var.pier_id.to_numpy())
-        vp = ids.get_indexer(a.pier_id.to_numpy())
-        cols = axial_columns(var)
-        if (vp < 0).any() or not ids.is_unique or any(var[c].dtype.kind not in "fiub" for c in cols):
-            return direct()
-        pier = self.codes[p]
-        of = np.full(len(ids), -1, dtype=np.int64)
-        of[vp] = pier
-        if (of[vp] != pier).any():  # a variant's rows at two (storey, pier): not expected
-            return direct()
-        used = np.flatnonzero(of >= 0)
-        table = np.empty((len(used), len(cols) + 1))
-        for j, c in enumerate(cols):
-            table[:, j] = var[c].to_numpy(float)[used]
-        table[:, -1] = of[used]
-        sig = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1]))).ravel()
-        _, first, inverse = np.unique(sig, return_index=True, return_inverse=True)
-        start = np.empty(len(first), dtype=np.int64)
-        new = []
-        keys = [row.tobytes() for row in sig[first]]
-        for k, key in enumerate(keys):
-            got = self.entries.get(key)
-            if got is None:
-                new.append(k)
-            else:
-                start[k] = got
-        if new:
-            new = np.asarray(new)
-            start[new] = self._slots(self.count[of[used[first[new]]]])
-            for k, slot in zip(new.tolist(), start[new].tolist(), strict=True):
-                self.entries[keys[k]] = slot
-        at = np.zeros(len(ids), dtype=np.int64)
-        at[used] = start[inverse.ravel()]
-        slot = at[vp] + self.local[p]
-        todo = np.flatnonzero(~self.done[slot])
-        if len(todo):
-            _, once = np.unique(slot[todo], return_index=True)
-            run = todo[np.sort(once)]  # each new (section, action row) once, in row order
-            rows = a.iloc[run]
-            out = check_pier_axial(
-                var.iloc[np.unique(vp[run])], rows, s, working=False, util_only=True
-            )
-            if len(out) != len(run) or not np.array_equal(out.pier_id.to_numpy(), rows.pier_id.to_numpy()):
-                return direct()  # (not expected: the check keeps every row with N* and M*, in order)
-            self.util[slot[run]] = out.util.to_numpy(float)
-            self.util_s[slot[run]] = out.util_s.to_numpy(float)
-            self.done[slot[run]] = True
-            self.checked += len(run)
-        return pd.DataFrame(
-            {"pier_id": a.pier_id.to_numpy(), "util": self.util[slot], "util_s": self.util_s[slot]}
-        )
 
 
 def _fmax_keep(a: np.ndarray, b: np.ndarray) -> np.ndarray:
