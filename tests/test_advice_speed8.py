@@ -73,7 +73,9 @@ def test_confirmation_without_the_screen_rows_equals_every_row(standard, scale):
     pd.testing.assert_series_equal(fast, every, check_exact=True)
     # the rows left out matter: over the other rows alone some variant's axial worst is lower
     # (its worst row is in the screen), so only the screened value keeps the result
-    left = advice._utilisation(rows_of(passed), passed, full, s, only_axial=True, leave_out=holds)
+    row, which = full.rows_of(passed)
+    keep = ~holds[row]
+    left = advice._utilisation_at(rows_of(passed), passed, full, s, True, row[keep], which[keep])
     whole = advice._utilisation(rows_of(passed), passed, full, s, only_axial=True)
     assert (left.reindex(whole.index).fillna(-np.inf) < whole).any()
 

@@ -682,20 +682,29 @@ def _utilisation(
     actions: ActionRows,
     settings: Settings,
     only_axial: bool = False,
-    leave_out: np.ndarray | None = None,
 ) -> pd.Series:
     """Worst utilisation of the variant rows `rows` (pier ID = variant) of `meta`, by variant ID
-    (of the axial checks alone with `only_axial`), under `actions` of their piers (less the rows
-    flagged in `leave_out`, flags over `actions.frame`: `_confirm`'s).
+    (of the axial checks alone with `only_axial`), under `actions` of their piers.
 
     The checks see each storey as an integer code, in the variant rows and their action rows
     alike: they read the storey only as a key, with the pier ID, which is the variant's own
     (unique over storeys), so the same rows meet; text keys cost a fifth of the checks' time in
     their joins and groupings (tests/test_advice_speed5.py)."""
-    row, which = actions.rows_of(meta)
-    if leave_out is not None:
-        keep = ~leave_out[row]
-        row, which = row[keep], which[keep]
+    return _utilisation_at(rows, meta, actions, settings, only_axial, *actions.rows_of(meta))
+
+
+def _utilisation_at(
+    rows: pd.DataFrame,
+    meta: pd.DataFrame,
+    actions: ActionRows,
+    settings: Settings,
+    only_axial: bool,
+    row: np.ndarray,
+    which: np.ndarray,
+) -> pd.Series:
+    """`_utilisation` under the action rows `row` of `actions.frame` as the variants `which`
+    (rows of `meta`) take them: some of `actions.rows_of(meta)`, in its order (`_confirm`
+    leaves the screen's out)."""
     rows = rows.assign(storey=actions.code_storeys(rows.storey))
     if len(row) <= CHUNK_ROWS:
         acts = actions.frame_of(row, which, meta, coded=True)
@@ -739,14 +748,21 @@ def _confirm(
     skip = None
     if screen is not None and screen.holds is not None and len(screen.holds) == len(actions):
         skip = screen.holds
+
+    def axial_of(part: pd.DataFrame) -> np.ndarray:
+        if skip is None:
+            got = _utilisation(rows_of(part), part, actions, settings, only_axial=True)
+        else:  # every row of the variants' piers but the screen's
+            row, which = actions.rows_of(part)
+            keep = ~skip[row]
+            got = _utilisation_at(rows_of(part), part, actions, settings, True, row[keep], which[keep])
+        return part.variant.map(got).to_numpy(float)
+
     axial = np.full(len(first), np.nan)
     if again.all():
-        got = _utilisation(rows_of(first), first, actions, settings, only_axial=True, leave_out=skip)
-        axial = first.variant.map(got).to_numpy(float)
+        axial = axial_of(first)
     elif again.any():
-        part = first[again]
-        got = _utilisation(rows_of(part), part, actions, settings, only_axial=True, leave_out=skip)
-        axial[again] = part.variant.map(got).to_numpy(float)
+        axial[again] = axial_of(first[again])
     full = pd.Series(np.fmax(screened, axial), index=first.variant.to_numpy())
     unseen = first[np.isnan(screened)]  # no screen rows (not expected): every check
     if len(unseen):
