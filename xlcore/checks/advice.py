@@ -558,6 +558,8 @@ class ActionRows:
         self.codes = codes  # each row's (storey, pier), numbered in order of appearance
         self.order = np.argsort(codes, kind="stable")  # each key's rows together, in table order
         self.starts = np.concatenate([[0], np.cumsum(np.bincount(codes, minlength=len(self.keys)))])
+        # a screen's: flags over the full action rows (`_confirm`'s), those this screen holds
+        self.holds: np.ndarray | None = None
 
     def __len__(self) -> int:
         return len(self.frame)
@@ -688,7 +690,21 @@ def _utilisation(
     alike: they read the storey only as a key, with the pier ID, which is the variant's own
     (unique over storeys), so the same rows meet; text keys cost a fifth of the checks' time in
     their joins and groupings (tests/test_advice_speed5.py)."""
-    row, which = actions.rows_of(meta)
+    return _utilisation_at(rows, meta, actions, settings, only_axial, *actions.rows_of(meta))
+
+
+def _utilisation_at(
+    rows: pd.DataFrame,
+    meta: pd.DataFrame,
+    actions: ActionRows,
+    settings: Settings,
+    only_axial: bool,
+    row: np.ndarray,
+    which: np.ndarray,
+) -> pd.Series:
+    """`_utilisation` under the action rows `row` of `actions.frame` as the variants `which`
+    (rows of `meta`) take them: some of `actions.rows_of(meta)`, in its order (`_confirm`
+    leaves the screen's out)."""
     rows = rows.assign(storey=actions.code_storeys(rows.storey))
     if len(row) <= CHUNK_ROWS:
         acts = actions.frame_of(row, which, meta, coded=True)
@@ -717,19 +733,36 @@ def _confirm(
     (`screen`'s rows are some of `actions`': as many are all of them) is not run again: the
     screen ran axial + bending on those rows (it passed the closed-form checks), so its value
     is the full one (the L tower: each pier's distinct rows, `_distinct_actions`, are few
-    enough for the screen to take them all)."""
+    enough for the screen to take them all).
+
+    Nor are the screen's rows run again where it says which of `actions`' rows it holds
+    (`screen.holds`, the search's): a variant confirmed passed the screen, so the axial checks
+    ran on its screen rows there (they follow the closed-form checks, which it passed) and
+    `screened` is at least their largest; the largest of it and the other rows' is the
+    largest of it and every row's, the same value (the varied L tower: about a fifth of
+    the confirmations' rows)."""
     again = np.ones(len(first), dtype=bool)
     if screen is not None:
         count = actions.spans(first)[1]
         again = (screen.spans(first)[1] != count) | (count == 0)
+    skip = None
+    if screen is not None and screen.holds is not None and len(screen.holds) == len(actions):
+        skip = screen.holds
+
+    def axial_of(part: pd.DataFrame) -> np.ndarray:
+        if skip is None:
+            got = _utilisation(rows_of(part), part, actions, settings, only_axial=True)
+        else:  # every row of the variants' piers but the screen's
+            row, which = actions.rows_of(part)
+            keep = ~skip[row]
+            got = _utilisation_at(rows_of(part), part, actions, settings, True, row[keep], which[keep])
+        return part.variant.map(got).to_numpy(float)
+
     axial = np.full(len(first), np.nan)
     if again.all():
-        axial = first.variant.map(_utilisation(rows_of(first), first, actions, settings, only_axial=True))
-        axial = axial.to_numpy(float)
+        axial = axial_of(first)
     elif again.any():
-        part = first[again]
-        got = _utilisation(rows_of(part), part, actions, settings, only_axial=True)
-        axial[again] = part.variant.map(got).to_numpy(float)
+        axial[again] = axial_of(first[again])
     full = pd.Series(np.fmax(screened, axial), index=first.variant.to_numpy())
     unseen = first[np.isnan(screened)]  # no screen rows (not expected): every check
     if len(unseen):
@@ -1332,9 +1365,11 @@ def advise(
     codes = pier_codes(actions)
     kept = _distinct_actions(actions, settings, codes)
     actions = ActionRows(kept, cheap_first=True, codes=codes if kept is actions else None)
-    screen = ActionRows(
-        _screening_actions(actions.frame, failing, actions, earthquake=settings.earthquake), cheap_first=True
-    )
+    screened, where = _screening(actions.frame, failing, actions, earthquake=settings.earthquake)
+    screen = ActionRows(screened, cheap_first=True)
+    if where is not None:  # which of the full rows the screen holds: `_confirm` leaves them out
+        screen.holds = np.zeros(len(actions), dtype=bool)
+        screen.holds[where] = True
 
     def single_rows(m):
         return var.iloc[m.variant.to_numpy()]
@@ -1685,6 +1720,16 @@ def _screening_actions(
     rows: ActionRows | None = None,
     earthquake: set[str] | frozenset[str] = frozenset(),
 ) -> pd.DataFrame:
+    """The screen's action rows (`_screening`)."""
+    return _screening(actions, failing, rows, earthquake)[0]
+
+
+def _screening(
+    actions: pd.DataFrame,
+    failing: pd.DataFrame,
+    rows: ActionRows | None = None,
+    earthquake: set[str] | frozenset[str] = frozenset(),
+) -> tuple[pd.DataFrame, np.ndarray | None]:
     """Per failing pier, the action rows of the combinations with the largest |V*|, N*, -N*,
     |M*|, |M*|/N* and out-of-plane M*: those that govern shear, squash, tension, bending and
     Cl 11.5 for any change of section in the search (a screen only: axial + bending and Cl 11.5
@@ -1697,15 +1742,17 @@ def _screening_actions(
 
     `rows`, the ActionRows of `actions`: the failing piers' rows found by its codes instead of
     joining the actions on text keys, and its codes group them (the same rows, order and index
-    as the join; tests/test_advice_speed5.py)."""
+    as the join; tests/test_advice_speed5.py), and each row's position in `rows.frame` (None
+    without `rows`: `_confirm` leaves the screen's rows out by those)."""
     keys = failing[["storey", "pier_id"]]
     if rows is not None and rows.coded_keys and not keys.duplicated().any():
-        acts, groups = _failing_rows(rows, keys)
+        where = _failing_positions(rows, keys)
+        acts, groups = rows.frame.take(where).reset_index(drop=True), rows.codes[where]
     else:
         acts = actions.merge(keys, on=["storey", "pier_id"])
-        groups = None
+        groups = where = None
     if acts.empty:
-        return acts
+        return acts, where
     n = acts.n.to_numpy(float)
     m = np.abs(acts.m.to_numpy(float))
     measures = {
@@ -1728,7 +1775,7 @@ def _screening_actions(
         pick |= top.first(np.nan_to_num(values, nan=-np.inf), SCREEN)
     if earthquake and "combination" in acts:
         pick |= acts.combination.astype(str).isin(earthquake).to_numpy()
-    return acts[pick]
+    return acts[pick], (None if where is None else where[pick])
 
 
 class _TopRows:
@@ -1771,14 +1818,19 @@ def _failing_rows(rows: ActionRows, keys: pd.DataFrame) -> tuple[pd.DataFrame, n
     """The action rows of `rows` at the (storey, pier) `keys` (unique, no NaN in the actions'),
     in table order with a fresh index, as the inner join on the keys gives them, and each one's
     (storey, pier) code."""
+    at = _failing_positions(rows, keys)
+    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
+
+
+def _failing_positions(rows: ActionRows, keys: pd.DataFrame) -> np.ndarray:
+    """`_failing_rows`' rows as their positions in `rows.frame`, ascending."""
     storey = pd.Index(rows.storeys).get_indexer(keys.storey)
     pier = pd.Index(rows.piers).get_indexer(keys.pier_id)
     known = (storey >= 0) & (pier >= 0)
     key = pd.Index(rows.keys).get_indexer(storey[known].astype(np.int64) * len(rows.piers) + pier[known])
     wanted = np.zeros(len(rows.keys), dtype=bool)
     wanted[key[key >= 0]] = True
-    at = np.flatnonzero(wanted[rows.codes])
-    return rows.frame.take(at).reset_index(drop=True), rows.codes[at]
+    return np.flatnonzero(wanted[rows.codes])
 
 
 def _worst(
