@@ -1,12 +1,14 @@
 """The pier N-M check's round-7 fast paths against the code they replace, bit for bit: the
 advice search's radial utilisation from each section's own values taken by position
 (`interaction(lam_only=True)`, `radial(per_section=True)`) instead of per-row copies of every
-section value, and Cl 11.4's k and Hwe once per pier in the simplified method
+section value, the checks' values at N* likewise with the section values gathered when read
+(`interaction(lazy=True)`), and Cl 11.4's k and Hwe once per pier in the simplified method
 (`_simplified(groups=...)`, whose repeated-case search then compares N*, M* and the
 out-of-plane M* alone). Each test fails with its fast path broken (tried: the ray solve's
 rows looked up among the rows instead of their sections, a section value not gathered to
 the rows, k taken from the wrong pier's row, the group of each kept case left out, the
-out-of-plane M* left out of the cases' comparison)."""
+out-of-plane M* left out of the cases' comparison, the solver's rows given to phi as
+sections, a product of the wrong section values, a section value read without its gather)."""
 
 from __future__ import annotations
 
@@ -81,10 +83,25 @@ def test_lam_only_without_of_is_the_full_interaction(standard):
         assert np.array_equal(_bits(got[k]), _bits(full[k])), k
 
 
+@pytest.mark.parametrize("standard", STANDARDS)
+@pytest.mark.parametrize("moment", [True, False])
+def test_values_at_n_by_position_equal_the_per_row_copies(standard, moment):
+    """`interaction(lazy=True)` (the check's): every value of the interaction with per-row
+    copies of the section values, bit for bit, the section's own ones gathered when read."""
+    sec, of, n, m, std = _rays(standard)
+    m_star = m if moment else None
+    full = interaction(sec, n, of=of, m_star=m_star, std=std)
+    lazy = interaction(sec, n, of=of, m_star=m_star, std=std, lazy=True)
+    assert isinstance(lazy, axial._Gathered) and "nuo" not in dict.keys(lazy)  # not gathered yet
+    for k in full:
+        assert np.array_equal(_bits(lazy[k]), _bits(full[k])), k
+    assert set(lazy) == set(full)  # once every value has been read
+
+
 def _without_lam_only(monkeypatch) -> None:
     real = axial.interaction
 
-    def general(*args, lam_only=False, **kw):
+    def general(*args, lam_only=False, lazy=False, **kw):
         return real(*args, **kw)
 
     monkeypatch.setattr(axial, "interaction", general)

@@ -195,6 +195,7 @@ def interaction(
     std: Standard | None = None,
     at_n: bool = True,
     lam_only: bool = False,
+    lazy: bool = False,
 ) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
@@ -218,7 +219,12 @@ def interaction(
     With `lam_only` (the advice search's `check_pier_axial(util_only=True)`), `m_star` and `of`
     given: `radial`'s values alone (`lam` and the ray's), from the sections' own points taken
     by `of` (`radial(per_section=True)`), without the per-row copies of every section value and
-    the fixed-N* diagram's columns nothing then reads; the same numbers as without it."""
+    the fixed-N* diagram's columns nothing then reads; the same numbers as without it.
+
+    With `lazy` (`check_pier_axial`), `of` given and `at_n`: the same values, those that are a
+    section's own (the squash load, the balance and decompression points, ...) gathered to the
+    rows when first read (`_Gathered`: the check's table reads a few of a dozen), the rows'
+    own worked from the sections' values and products taken by `of` (`_at_n_by_position`)."""
     std = std or get_standard(DEFAULT_STANDARD)
     phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
@@ -252,6 +258,15 @@ def interaction(
             bottom=std.phi_tension * nuot, line_end=phi0 * nuo,
         )  # fmt: skip
         return radial(sec, n_star, m_star, own, phi_sec, (n_lo, phi_lo), of=of, per_section=True)
+    if lazy and of is not None and at_n:
+        own = dict(
+            nuo=nuo, nuot=nuot, nub=nub, kuo=kuo, m0=m0, nd=nd, md=md, phi_d=phi_d, phi_b=phi_b, d0=d0,
+            fsy=fsy, dn0=dn0, top=top, bottom=std.phi_tension * nuot, line_end=phi0 * nuo,
+        )  # fmt: skip
+        out = _at_n_by_position(sec, of, n_star, own, phi_sec, n_lo, phi_lo, D, phi0)
+        if m_star is not None:
+            out |= radial(sec, n_star, m_star, own, phi_sec, (n_lo, phi_lo), of=of, per_section=True)
+        return out
     if of is not None:  # from here on, one row per N* (the solves take each row's section by `of`)
         D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
             v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
@@ -304,6 +319,57 @@ def interaction(
     if m_star is not None:
         out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of)
     return out
+
+
+class _Gathered(dict):
+    """`interaction`'s values per row (`lazy`): the rows' own given, each section's own
+    (`sections`, by name) gathered to the rows by `of` the first time it is read."""
+
+    def __init__(self, rows: dict[str, np.ndarray], sections: dict[str, np.ndarray], of: np.ndarray) -> None:
+        super().__init__(rows)
+        self._sections, self._of = sections, of
+
+    def __missing__(self, key: str) -> np.ndarray:
+        value = self[key] = self._sections[key][self._of]
+        return value
+
+
+def _at_n_by_position(sec, of, n_star, own: dict, phi_sec, n_lo, phi_lo, D, phi0) -> _Gathered:
+    """`interaction`'s values at N* (`at_n`) for rows taking their sections by `of`, from the
+    sections' own values `own` (and n_lo, phi_lo, D, per section): a product of two section
+    values (phi Nd, phi |Md|, phi |Mo|, Nu phi at dn0) made once per section and gathered, the
+    standard's phi (`phi_sec`, per section) read at each row's section, and the section values
+    no expression here reads gathered only when the caller reads them (`_Gathered`). Each
+    row's expressions are those of `interaction`, on the same numbers (a product of gathered
+    values is the gathered product; IEEE products commute), so the same bits."""
+    memo = nm.RowsMemo()
+
+    def phi_at(n, dn, rows=None):  # the solver's rows (None: all) as their sections
+        return phi_sec(n, dn, of if rows is None else memo("of", rows, lambda: of[rows]))
+
+    top, bottom, line_end, phi_b, dn0 = (own[k][of] for k in ("top", "bottom", "line_end", "phi_b", "dn0"))
+    phi_d, nd, md, m0 = own["phi_d"], own["nd"], own["md"], own["m0"]
+    n1 = (phi_d * nd)[of]  # phi Nd: the decompression point's factored N
+    target = np.clip(n_star, 0.0, n1)
+    ends = ((n_lo * phi_lo)[of] - target, n1 - target)  # g at dn0 and at D, as the solver's
+    dn = nm.solve_dn(sec, target, dn0, D[of], scale=phi_at, ends=ends, of=of)
+    nu, mu = nm.forces_of(sec, of, dn)
+    phi = phi_at(nu, dn)
+    phi_mu = phi * np.abs(mu)
+    above = n_star > n1
+    frac_up = np.clip((line_end - n_star) / np.maximum(line_end - n1, 1e-9), 0.0, 1.0)
+    phi_mu = np.where(above, (phi_d * np.abs(md))[of] * frac_up, phi_mu)
+    tension = n_star < 0
+    frac_down = np.clip(1.0 - n_star / np.where(bottom < 0, bottom, -1.0), 0.0, 1.0)
+    phi_mu = np.where(tension, (own["phi_b"] * np.abs(m0))[of] * frac_down, phi_mu)
+    region = np.where(
+        n_star > top, 4, np.where(above, 3, np.where(tension, np.where(n_star < bottom, 5, 1), 2))
+    )
+    rows = dict(
+        phi_b=phi_b, dn=dn, dn0=dn0, nu=nu, mu=mu, phi=np.where(above, phi0, np.where(tension, phi_b, phi)),
+        phi_mu=phi_mu, top=top, line_end=line_end, bottom=bottom, region=region,
+    )  # fmt: skip
+    return _Gathered(rows, own, of)
 
 
 def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
@@ -615,6 +681,7 @@ def check_pier_axial(
         std=std,
         at_n=not util_only,
         lam_only=util_only,
+        lazy=True,
     )
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
