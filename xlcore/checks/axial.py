@@ -62,6 +62,13 @@ KEYS = ["storey", "pier_id"]
 def _joined(
     actions: pd.DataFrame, piers: pd.DataFrame, columns: list[str]
 ) -> tuple[pd.DataFrame, np.ndarray, np.ndarray, pd.DataFrame]:
+    """`_join` without its last value."""
+    return _join(actions, piers, columns)[:4]
+
+
+def _join(
+    actions: pd.DataFrame, piers: pd.DataFrame, columns: list[str]
+) -> tuple[pd.DataFrame, np.ndarray, np.ndarray, pd.DataFrame, bool]:
     """The action rows with N* and M*, each with its pier's geometry `columns` of `piers` (a
     left join on storey and pier), `per_pier`'s groups of them (first row of each, each row's
     group), and the geometry of each group (one row per group, what the sections are built from).
@@ -69,7 +76,10 @@ def _joined(
     The pier of each group is looked up once (a few thousand keys, `_geometry_rows`) and its
     geometry spread to the rows by position: the same table as merging every row (0.03 s at
     the L tower's 360 000 rows; tests/test_axial_speed2.py). Where a pier is missing or listed
-    twice in `piers`, a column name is on both sides, or no row is left: the merge itself."""
+    twice in `piers`, a column name is on both sides, or no row is left: the merge itself.
+
+    The last value tells whether every row's geometry is its group's (`per`'s row), as it is
+    where the pier was looked up once; the merge's rows of a pier listed twice differ."""
     keep = pd.notna(actions["n"].to_numpy()) & pd.notna(actions["m"].to_numpy())
     acts = (actions if keep.all() else actions[keep]).reset_index(drop=True)
     extra = [c for c in columns if c not in KEYS]
@@ -80,14 +90,14 @@ def _joined(
             per = piers[extra].take(at).reset_index(drop=True)
             spread = per.take(of)
             spread.index = acts.index
-            return pd.concat([acts, spread], axis=1), first, of, per
+            return pd.concat([acts, spread], axis=1), first, of, per, True
     df = actions.merge(piers[columns], on=KEYS, how="left")
     df = df[df.n.notna() & df.m.notna()].reset_index(drop=True)
     if df.empty:
         none = np.zeros(0, dtype=np.intp)
-        return df, none, none, df
+        return df, none, none, df, False
     first, of = per_pier(df)
-    return df, first, of, df.iloc[first][[c for c in extra if c in df]].reset_index(drop=True)
+    return df, first, of, df.iloc[first][[c for c in extra if c in df]].reset_index(drop=True), False
 
 
 def _geometry_rows(want: list[np.ndarray], have: list[np.ndarray]) -> np.ndarray | None:
@@ -184,6 +194,8 @@ def interaction(
     *,
     std: Standard | None = None,
     at_n: bool = True,
+    lam_only: bool = False,
+    lazy: bool = False,
 ) -> dict[str, np.ndarray]:
     """Design moment capacity phi Mu at the design axial force N* [N], and the key points.
 
@@ -202,7 +214,17 @@ def interaction(
     With `m_star` [N mm] also the radial overload factor `lam` (see `radial`). Without `at_n`
     (the advice search, which reads `lam` alone) the neutral axis at phi N = N* is not solved:
     `dn`, `nu`, `mu`, `phi` and `phi_mu` are NaN, every other value the same (`radial` reads the
-    section's own points only)."""
+    section's own points only).
+
+    With `lam_only` (the advice search's `check_pier_axial(util_only=True)`), `m_star` and `of`
+    given: `radial`'s values alone (`lam` and the ray's), from the sections' own points taken
+    by `of` (`radial(per_section=True)`), without the per-row copies of every section value and
+    the fixed-N* diagram's columns nothing then reads; the same numbers as without it.
+
+    With `lazy` (`check_pier_axial`), `of` given and `at_n`: the same values, those that are a
+    section's own (the squash load, the balance and decompression points, ...) gathered to the
+    rows when first read (`_Gathered`: the check's table reads a few of a dozen), the rows'
+    own worked from the sections' values and products taken by `of` (`_at_n_by_position`)."""
     std = std or get_standard(DEFAULT_STANDARD)
     phi0 = std.phi_compression if phi0 is None else phi0
     n_star = np.asarray(n_star, dtype=float)
@@ -230,6 +252,21 @@ def interaction(
     phi_b = phi_sec(np.zeros(D.shape), dn0)  # pure bending
     phi_lo = phi_sec(n_lo, dn0)
     fsy = sec.fsy
+    if lam_only and of is not None and m_star is not None:
+        own = dict(
+            phi_b=phi_b, m0=m0, phi_d=phi_d, nd=nd, md=md, dn0=dn0, top=top,
+            bottom=std.phi_tension * nuot, line_end=phi0 * nuo,
+        )  # fmt: skip
+        return radial(sec, n_star, m_star, own, phi_sec, (n_lo, phi_lo), of=of, per_section=True)
+    if lazy and of is not None and at_n:
+        own = dict(
+            nuo=nuo, nuot=nuot, nub=nub, kuo=kuo, m0=m0, nd=nd, md=md, phi_d=phi_d, phi_b=phi_b, d0=d0,
+            fsy=fsy, dn0=dn0, top=top, bottom=std.phi_tension * nuot, line_end=phi0 * nuo,
+        )  # fmt: skip
+        out = _at_n_by_position(sec, of, n_star, own, phi_sec, n_lo, phi_lo, D, phi0)
+        if m_star is not None:
+            out |= radial(sec, n_star, m_star, own, phi_sec, (n_lo, phi_lo), of=of, per_section=True)
+        return out
     if of is not None:  # from here on, one row per N* (the solves take each row's section by `of`)
         D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy = (
             v[of] for v in (D, nuo, top, nuot, nub, dn0, m0, kuo, nd, md, d0, phi_d, phi_b, n_lo, phi_lo, fsy)
@@ -282,6 +319,57 @@ def interaction(
     if m_star is not None:
         out |= radial(sec, n_star, m_star, out, phi_at, (n_lo, phi_lo), of=of)
     return out
+
+
+class _Gathered(dict):
+    """`interaction`'s values per row (`lazy`): the rows' own given, each section's own
+    (`sections`, by name) gathered to the rows by `of` the first time it is read."""
+
+    def __init__(self, rows: dict[str, np.ndarray], sections: dict[str, np.ndarray], of: np.ndarray) -> None:
+        super().__init__(rows)
+        self._sections, self._of = sections, of
+
+    def __missing__(self, key: str) -> np.ndarray:
+        value = self[key] = self._sections[key][self._of]
+        return value
+
+
+def _at_n_by_position(sec, of, n_star, own: dict, phi_sec, n_lo, phi_lo, D, phi0) -> _Gathered:
+    """`interaction`'s values at N* (`at_n`) for rows taking their sections by `of`, from the
+    sections' own values `own` (and n_lo, phi_lo, D, per section): a product of two section
+    values (phi Nd, phi |Md|, phi |Mo|, Nu phi at dn0) made once per section and gathered, the
+    standard's phi (`phi_sec`, per section) read at each row's section, and the section values
+    no expression here reads gathered only when the caller reads them (`_Gathered`). Each
+    row's expressions are those of `interaction`, on the same numbers (a product of gathered
+    values is the gathered product; IEEE products commute), so the same bits."""
+    memo = nm.RowsMemo()
+
+    def phi_at(n, dn, rows=None):  # the solver's rows (None: all) as their sections
+        return phi_sec(n, dn, of if rows is None else memo("of", rows, lambda: of[rows]))
+
+    top, bottom, line_end, phi_b, dn0 = (own[k][of] for k in ("top", "bottom", "line_end", "phi_b", "dn0"))
+    phi_d, nd, md, m0 = own["phi_d"], own["nd"], own["md"], own["m0"]
+    n1 = (phi_d * nd)[of]  # phi Nd: the decompression point's factored N
+    target = np.clip(n_star, 0.0, n1)
+    ends = ((n_lo * phi_lo)[of] - target, n1 - target)  # g at dn0 and at D, as the solver's
+    dn = nm.solve_dn(sec, target, dn0, D[of], scale=phi_at, ends=ends, of=of)
+    nu, mu = nm.forces_of(sec, of, dn)
+    phi = phi_at(nu, dn)
+    phi_mu = phi * np.abs(mu)
+    above = n_star > n1
+    frac_up = np.clip((line_end - n_star) / np.maximum(line_end - n1, 1e-9), 0.0, 1.0)
+    phi_mu = np.where(above, (phi_d * np.abs(md))[of] * frac_up, phi_mu)
+    tension = n_star < 0
+    frac_down = np.clip(1.0 - n_star / np.where(bottom < 0, bottom, -1.0), 0.0, 1.0)
+    phi_mu = np.where(tension, (own["phi_b"] * np.abs(m0))[of] * frac_down, phi_mu)
+    region = np.where(
+        n_star > top, 4, np.where(above, 3, np.where(tension, np.where(n_star < bottom, 5, 1), 2))
+    )
+    rows = dict(
+        phi_b=phi_b, dn=dn, dn0=dn0, nu=nu, mu=mu, phi=np.where(above, phi0, np.where(tension, phi_b, phi)),
+        phi_mu=phi_mu, top=top, line_end=line_end, bottom=bottom, region=region,
+    )  # fmt: skip
+    return _Gathered(rows, own, of)
 
 
 def _phi_from(std: Standard, phi0, sec, d0, fsy, nub, nuot, kuo):
@@ -437,7 +525,15 @@ RAY_TEXT = {
 
 
 def radial(
-    sec, n_star, m_star, r: dict[str, np.ndarray], phi_at, at_dn0=None, of: np.ndarray | None = None
+    sec,
+    n_star,
+    m_star,
+    r: dict[str, np.ndarray],
+    phi_at,
+    at_dn0=None,
+    of: np.ndarray | None = None,
+    *,
+    per_section: bool = False,
 ) -> dict[str, np.ndarray]:
     """Radial overload factor lambda: (N*, |M*|) / lambda lies on the factored interaction
     diagram along the ray from the origin, so lambda = 1.2 means 20 % over in tension and in
@@ -451,18 +547,30 @@ def radial(
     uncut one intersected with N <= top). `r` is `interaction`'s per-row dict, `sec` one section
     per row, `phi_at(N, dn, rows)` the standard's phi, `at_dn0` (where given) Nu and phi at
     each row's dn0 (where the solve starts: its first evaluation without forces); with `of`,
-    `sec` holds each section once and `of` gives each row's (no per-row copy); N, N mm."""
+    `sec` holds each section once and `of` gives each row's (no per-row copy); N, N mm.
+
+    With `per_section` (and `of`), `r`, `at_dn0` and `phi_at` are `interaction`'s values per
+    section, not per row (`interaction(lam_only=True)`, the advice search): each row reads its
+    section's by `of`, and the products of a section's own values (phi Muo, the decompression
+    point) are made once per section and then gathered; each is the same product of the same
+    two numbers, so the same bits as the product of the gathered values."""
     n = np.asarray(n_star, dtype=float)
     m = np.abs(np.asarray(m_star, dtype=float))
-    phi_mo = r["phi_b"] * np.abs(r["m0"])
-    n1, m1 = r["phi_d"] * r["nd"], r["phi_d"] * np.abs(r["md"])
+    by_section = per_section and of is not None
+
+    def each(v: np.ndarray) -> np.ndarray:  # a value of every row
+        return v[of] if by_section else v
+
+    phi_mo = each(r["phi_b"] * np.abs(r["m0"]))
+    n1, m1 = each(r["phi_d"] * r["nd"]), each(r["phi_d"] * np.abs(r["md"]))
+    bottom, line_end = each(r["bottom"]), each(r["line_end"])
     tension = n < 0
     squash = (n >= 0) & (m * n1 < n * m1)  # ray below the decompression point's
     curve = ~tension & ~squash
     lam = np.zeros(n.shape)
     where = RAY_CURVE * np.ones(n.shape, dtype=int)
-    lam = np.where(tension, tension_side_utilisation(n, m, r["bottom"], phi_mo), lam)
-    lam = np.where(squash, ray_segment_utilisation(n, m, n1, m1, r["line_end"], 0.0), lam)
+    lam = np.where(tension, tension_side_utilisation(n, m, bottom, phi_mo), lam)
+    lam = np.where(squash, ray_segment_utilisation(n, m, n1, m1, line_end, 0.0), lam)
     where = np.where(tension, RAY_TENSION, np.where(squash, RAY_SQUASH, where))
     dn_ray = np.full(n.shape, np.nan)
     nu_ray = np.full(n.shape, np.nan)
@@ -471,30 +579,32 @@ def radial(
     rows = np.flatnonzero(curve & ((n > 0) | (m > 0)))
     if rows.size:
         part = sec.take(rows if of is None else of[rows])
+        at = of[rows] if by_section else rows  # where the rows' values are in `r` and `phi_at`
         sub = nm.RowsMemo()  # one array of whole-table rows per array of the solver's rows
 
         def phi_of(v, x, k):
-            return phi_at(v, x, rows if k is None else sub("rows", k, lambda: rows[k]))
+            return phi_at(v, x, at if k is None else sub("rows", k, lambda: at[k]))
 
         ends = None
         if at_dn0 is not None:  # g at dn0 and at D from the points the caller has
             n_lo, phi_lo = at_dn0
             a, b = m[rows], n[rows]
             ends = (
-                nm.ray_g(phi_lo[rows], n_lo[rows], r["m0"][rows], a, b),
-                nm.ray_g(r["phi_d"][rows], r["nd"][rows], r["md"][rows], a, b),
+                nm.ray_g(phi_lo[at], n_lo[at], r["m0"][at], a, b),
+                nm.ray_g(r["phi_d"][at], r["nd"][at], r["md"][at], a, b),
             )
-        dn = nm.solve_ray(part, n[rows], m[rows], r["dn0"][rows], part.D, phi_of, ends=ends)
+        dn = nm.solve_ray(part, n[rows], m[rows], r["dn0"][at], part.D, phi_of, ends=ends)
         nu, mu = nm.forces(part, dn)
-        phi = phi_at(nu, dn, rows)
+        phi = phi_at(nu, dn, at)
         dn_ray[rows], nu_ray[rows], mu_ray[rows], phi_ray[rows] = dn, nu, np.abs(mu), phi
         lam[rows] = (n[rows] + m[rows]) / (phi * (nu + np.abs(mu)))
     where = np.where((n == 0) & (m == 0), RAY_NONE, where)
     lam_diagram, ray_diagram = lam, where
     cut = r["line_end"] > r["top"]  # never for AS 3600 (its line ends at its upper limit)
     if cut.any():
+        cut, top = each(cut), each(r["top"])
         with np.errstate(divide="ignore", invalid="ignore"):
-            flat = np.where(cut & (n > 0), n / r["top"], 0.0)
+            flat = np.where(cut & (n > 0), n / top, 0.0)
         where = np.where(flat > lam, RAY_CAP, where)
         lam = np.maximum(lam, flat)
     return dict(
@@ -538,7 +648,8 @@ def check_pier_axial(
     the simplified method's, the same numbers, without the fixed-N* ratio and its solve
     (`interaction(at_n=False)`), nor the other columns of the N-M check."""
     std = std or get_standard(settings.standard)
-    df, first, of, per = _joined(actions, piers, _geometry_columns(piers, util_only))
+    df, first, of, per, by_pier = _join(actions, piers, _geometry_columns(piers, util_only))
+    groups = first if by_pier else None  # each row's geometry its group's first row's
     phi0 = settings.phi_compression if settings.phi_compression is not None else std.phi_compression
     if df.empty:
         return df
@@ -562,7 +673,15 @@ def check_pier_axial(
         return v if keep is None else v[keep]
 
     r = interaction(
-        sec, cases(n_case), phi0, of=cases(case_sec), m_star=cases(m_case), std=std, at_n=not util_only
+        sec,
+        cases(n_case),
+        phi0,
+        of=cases(case_sec),
+        m_star=cases(m_case),
+        std=std,
+        at_n=not util_only,
+        lam_only=util_only,
+        lazy=True,
     )
     pick = np.arange(len(df))
     other = len(df) + np.arange(int(both.sum()))
@@ -573,7 +692,9 @@ def check_pier_axial(
     new: dict[str, object] = {}
     if util_only:
         new["util"] = lam[pick]
-        return _simplified(df, settings, of, new, working=False, std=std, util_only=True, first=first)
+        return _simplified(
+            df, settings, of, new, working=False, std=std, util_only=True, first=first, groups=groups
+        )
     # each row's values, gathered when first read (none to gather where each row is its case)
     r = _Spread(r, (None if not both.any() else pick) if back is None else back[pick])
     # text columns taken from their few strings by code (`text_column`), not a string per row
@@ -614,10 +735,10 @@ def check_pier_axial(
         [sym["clause_tension"], sym["clause_squash"], sym["clause_curve"]],
     )
     if not working:
-        return _simplified(df, settings, of, new, working, std, first=first)
+        return _simplified(df, settings, of, new, working, std, first=first, groups=groups)
     new["bars"] = text_column(of, bars.describe(per, std.bar_name))
     if not text:  # every column but the working text (made later for the rows written)
-        return _simplified(df, settings, of, new, working=False, std=std, first=first)
+        return _simplified(df, settings, of, new, working=False, std=std, first=first, groups=groups)
     ray_state = SectionState(
         nu=r["nu_ray"], dn=r["dn_ray"], d0=r["d0"], fy=r["fsy"], nub=r["nub"], nuot=r["nuot"],
         kuo=r["kuo"], eps_cu=sec.eps_cu, Es=sec.Es,
@@ -663,7 +784,7 @@ def check_pier_axial(
         + _nm_text(*v, phi0, std)
         for c, *v in zip(pd.Series(new["compressed"]).tolist(), *cols, strict=True)
     ]
-    return _simplified(df, settings, of, new, working, std)
+    return _simplified(df, settings, of, new, working, std, groups=groups)
 
 
 def _with_columns(df: pd.DataFrame, new: dict) -> pd.DataFrame:
@@ -771,13 +892,15 @@ def end_axial_per_length(n_star, m_star, Lw):
     return n / lw + bend, n / lw - bend
 
 
-def _simplified_numbers(x: dict[str, np.ndarray], s: Settings, std: Standard, phi) -> dict:
+def _simplified_numbers(
+    x: dict[str, np.ndarray], s: Settings, std: Standard, phi, k_hwe: tuple | None = None
+) -> dict:
     """`_simplified`'s numbers of the rows `x` (its arrays by name): k, hwe, the given
     eccentricity, the capacity [kN], the end forces per length, the end stress, the reasons
-    the method does not apply (row masks by name) and where it applies."""
+    the method does not apply (row masks by name) and where it applies. `k_hwe`: k and hwe of
+    the rows where the caller has them (worked out per pier: `_effective_height`)."""
     tw, Lw, Hc, n = x["tw"], x["Lw"], x["Hc"], x["n"]
-    k = std.effective_height_factor(Hc, Lw, x["edges"], s.ends_restrained == "yes")
-    hwe = k * Hc
+    k, hwe = _effective_height(Hc, Lw, x["edges"], s, std) if k_hwe is None else k_hwe
     m_out = x["m_out"]
     e_given = np.where(n > 0, np.abs(np.nan_to_num(m_out)) / np.where(n > 0, n, 1.0) * 1e3, 0.0)
     cap = std.simplified_capacity(x["fc"], tw, Lw, hwe, e_given, phi) * 1e-3
@@ -793,6 +916,12 @@ def _simplified_numbers(x: dict[str, np.ndarray], s: Settings, std: Standard, ph
     )
 
 
+def _effective_height(Hc, Lw, edges, s: Settings, std: Standard) -> tuple[np.ndarray, np.ndarray]:
+    """k and Hwe = k Hc of Cl 11.4 (ACI 318 Table 11.5.3.2): the pier's alone."""
+    k = std.effective_height_factor(Hc, Lw, edges, s.ends_restrained == "yes")
+    return k, k * Hc
+
+
 def _simplified(
     df: pd.DataFrame,
     s: Settings,
@@ -802,6 +931,7 @@ def _simplified(
     std: Standard | None = None,
     util_only: bool = False,
     first: np.ndarray | None = None,
+    groups: np.ndarray | None = None,
 ) -> pd.DataFrame:
     """The standard's simplified method for walls in compression per row (AS 3600 Cl 11.5,
     ACI 318 11.5.3), with its applicability evaluated row by row; `of` gives each row's
@@ -813,7 +943,12 @@ def _simplified(
     Without the working text, and given `first`, a row whose every value read equals its
     group's first row's bit for bit takes that row's numbers (`_cases_once`; each row's
     numbers read its own values alone), where at least half the rows do (the L tower's 60
-    combinations of a pier: one); else every row is worked out."""
+    combinations of a pier: one); else every row is worked out.
+
+    `groups` (each group's first row), where every row's geometry is its group's first row's
+    (`_join`'s last value): k and Hwe, the pier's alone, are worked out once per group and
+    gathered (each row's are the same operations on the same numbers), and only N*, M* and
+    the out-of-plane M* are compared for `_cases_once` (the geometry equals by construction)."""
     std = std or get_standard(s.standard)
     phi = s.phi_simplified if s.phi_simplified is not None else std.phi_simplified
     x = dict(
@@ -828,13 +963,22 @@ def _simplified(
         layers=df.v_layers.to_numpy(),
     )
     back = None
+    group = None if groups is None else of  # each row's group, whose k and Hwe it takes
     if not working and first is not None:
         order = ("n", "m", *(key for key in x if key not in ("n", "m")))  # N*, M* first: most differ
+        if groups is not None:  # the geometry is each group's: equal to its first row's
+            order = ("n", "m", "m_out")
         found = _cases_once(first[of], *(x[key] for key in order), least=0.5)
         if found is not None and found[0].size * 2 <= len(df):  # else few repeat: every row on its own
             keep, back = found
             x = {key: v[keep] for key, v in x.items()}
-    y = _simplified_numbers(x, s, std, phi)
+            group = None if group is None else group[keep]
+    k_hwe = None
+    if groups is not None:
+        hc, lw = (df[c].to_numpy(float)[groups] for c in ("Hc", "Lw"))
+        k_g, hwe_g = _effective_height(hc, lw, df.supported_edges.to_numpy()[groups], s, std)
+        k_hwe = (k_g[group], hwe_g[group])
+    y = _simplified_numbers(x, s, std, phi, k_hwe)
     k, hwe, cap, hi, lo, applies = (y[key] for key in ("k", "hwe", "cap", "hi", "lo", "applies"))
     tw, Lw = x["tw"], x["Lw"]
 
