@@ -739,8 +739,8 @@ def _confirm(
     (`screen.holds`, the search's): a variant confirmed passed the screen, so the axial checks
     ran on its screen rows there (they follow the closed-form checks, which it passed) and
     `screened` is at least their largest; the largest of it and the other rows' is the
-    largest of it and every row's, the same value (the varied L tower: about a fifth of
-    the confirmations' rows)."""
+    largest of it and every row's, the same value (the varied L tower: 74 000 of the
+    confirmations' 492 000 action rows; tests/test_advice_speed8.py)."""
     again = np.ones(len(first), dtype=bool)
     if screen is not None:
         count = actions.spans(first)[1]
