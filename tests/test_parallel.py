@@ -49,6 +49,23 @@ def same_outcome(got: pipeline.Outcome, want: pipeline.Outcome) -> None:
         same_frame(a[name], b[name])
 
 
+@pytest.fixture(autouse=True)
+def one_thread():
+    """Only the main thread alive, as in the command line's process: a thread an earlier test
+    left (tqdm's monitor, a daemon some library starts with its first progress bar and keeps
+    for the life of the process) would make every run serial (`parallel.can_fork`), rightly."""
+    tqdm = sys.modules.get("tqdm")
+    monitor = getattr(getattr(tqdm, "tqdm", None), "monitor", None)
+    if monitor is not None:
+        monitor.exit()
+        tqdm.tqdm.monitor = None
+    for t in threading.enumerate():  # (a progress display's refresh thread is told to stop,
+        if t is not threading.main_thread():  # not joined: it ends within a refresh)
+            t.join(timeout=2.0)
+    others = [t.name for t in threading.enumerate() if t is not threading.main_thread()]
+    assert not others, f"threads left alive by an earlier test: {others}"
+
+
 @pytest.fixture
 def always_share(monkeypatch):
     """No job too small to share: the demo is far below `SERIAL_BELOW`."""
