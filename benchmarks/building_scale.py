@@ -42,7 +42,7 @@ PHASES = (
     "write",
 )
 KERNELS = ("geometry", "sharing", "checks", "core checks", "advice", "advice and core checks")
-SHORT = {"advice and core checks": "adv+core"}  # column heads
+SHORT = {"advice and core checks": "adv+cor"}  # column heads
 
 
 def generate(path: Path, storeys: int, boxes: int, combos: int, varied: bool = False) -> int:
@@ -257,7 +257,7 @@ def main(sizes: list[str], runs: int, detail: str, lo: bool, varied: bool = Fals
     print(
         f"medians of {runs} runs, seconds; --detail {detail}"
         f"{'; --varied: N* and M* differ in every combination' if varied else ''}; --workers {workers}; "
-        "kernels = geometry + sharing + checks + core checks + advice (adv+core: the two together "
+        "kernels = geometry + sharing + checks + core checks + advice (adv+cor: the two together "
         "on several processes); write = workbook + Parquet files (parquet: their thread, overlapping); "
         "peakMB: this process, childMB: the largest worker process (shared pages counted in both)"
     )
