@@ -135,9 +135,12 @@ class _Display(Reporter):
         try:
             yield
         finally:
-            again = type(thread)(live, live.refresh_per_second)
-            live._refresh_thread = again
-            again.start()
+            try:
+                again = type(thread)(live, live.refresh_per_second)
+                live._refresh_thread = again
+                again.start()
+            except Exception:  # noqa: BLE001 (a rich of another shape: the display stands still,
+                live._refresh_thread = None  # the run goes on; it still ends and clears as before)
 
 
 @contextmanager
