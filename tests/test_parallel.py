@@ -133,6 +133,29 @@ def test_demo_two_cores_and_pours_over_storeys_the_same_on_two_processes(demo_ma
     same_outcome(got, serial)
 
 
+@linux
+def test_demo_parts_with_and_without_pair_rows_the_same_on_two_processes(demo_master, always_share):
+    """ACI 318 demo, pours over 4 storeys, every action 1.3 times: a failing pier needs a pair
+    of changes in one part of the pours and in none of the other. `advise` gives that other
+    part's storey, pier_id, util and added_cost as object columns (its empty pair rows), the
+    whole search typed ones: the joined table must have the whole's dtypes (review of issue 15)."""
+    b, f = pipeline.load(demo_master)
+    b = with_settings(b, grade_pour="the core over 4 storeys", standard="ACI 318-19")
+    more = {
+        "member_actions": b.member_actions.assign(**{c: b.member_actions[c] * 1.3 for c in ("n", "v", "m")}),
+        "core_actions": b.core_actions.assign(
+            **{c: b.core_actions[c] * 1.3 for c in ("n", "vx", "vy", "mx", "my", "t")}
+        ),
+    }
+    b = b.model_copy(update=more)
+    serial = pipeline.compute(b, f, workers=1)
+    got = pipeline.compute(b, f, workers=2)
+    assert got.ran == "2 processes" and serial.failing > 0
+    whole = tables(serial)["Results advice"]
+    assert whole.util.dtype == float  # (pair rows in the whole search)
+    same_outcome(got, serial)
+
+
 def test_advice_in_parts_of_pours_equals_the_whole(tower):
     """The search in two parts (every second pour) joined equals the whole search. What each
     part must still read whole is the pier table: ACI 318 ns (the storeys above the critical
