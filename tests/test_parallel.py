@@ -342,3 +342,62 @@ def test_workers_two_on_the_command_line(demo_book, always_share):
     r = CliRunner().invoke(app, ["compute", str(demo_book), "--workers", "2", "--quiet"])
     assert r.exit_code in (0, 3), r.output
     assert no_children_left()
+
+
+ORPHANS = """
+import os, sys, time
+from xlcore import parallel
+from xlcore.workbook import writer
+book, pids = sys.argv[1], sys.argv[2]
+def task():
+    with open(pids, "a") as f:
+        f.write(f"{os.getpid()}\\n")
+    time.sleep(60)
+    return 0
+with writer.workbook_lock(book):
+    parallel.run([task, task, task], 3)
+"""
+
+
+@linux
+def test_a_parent_ended_by_sigterm_leaves_no_worker_holding_the_lock(tmp_path):
+    """A parent killed by a signal it does not catch (SIGTERM from a scheduler, SIGKILL) runs no
+    `finally`: its workers, orphaned, would run their tasks on and keep the workbook's flock
+    (their inherited descriptor) until they end, and a second compute of the workbook be refused
+    naming the dead parent. They die with the parent (review of issue 15)."""
+    import subprocess
+
+    book, pids = tmp_path / "b.xlsx", tmp_path / "pids"
+    book.write_bytes(b"")
+    root = Path(__file__).resolve().parent.parent
+    p = subprocess.Popen(
+        [sys.executable, "-c", ORPHANS, str(book), str(pids)], env={**os.environ, "PYTHONPATH": str(root)}
+    )
+    try:
+        for _ in range(300):  # the three tasks started (the parent's share and two workers)
+            time.sleep(0.05)
+            if pids.exists() and len(pids.read_text().split()) == 3:
+                break
+        workers = [int(x) for x in pids.read_text().split() if int(x) != p.pid]
+        assert len(workers) == 2
+        p.send_signal(signal.SIGTERM)
+        p.wait(timeout=10)
+        deadline = time.time() + 5
+        while time.time() < deadline and any(os.path.exists(f"/proc/{w}") for w in workers):
+            time.sleep(0.05)
+        left = [w for w in workers if os.path.exists(f"/proc/{w}")]
+        assert not left, f"workers left running after their parent ended: {left}"
+        fd = os.open(writer.lock_path(book), os.O_RDWR)
+        try:
+            fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)  # free: no orphan holds it
+        finally:
+            os.close(fd)
+    finally:
+        for w in [int(x) for x in pids.read_text().split()] if pids.exists() else []:
+            if w != p.pid:
+                try:
+                    os.kill(w, signal.SIGKILL)
+                except ProcessLookupError:
+                    pass
+        if p.poll() is None:
+            p.kill()
