@@ -133,6 +133,29 @@ def test_demo_two_cores_and_pours_over_storeys_the_same_on_two_processes(demo_ma
     same_outcome(got, serial)
 
 
+@linux
+def test_demo_parts_with_and_without_pair_rows_the_same_on_two_processes(demo_master, always_share):
+    """ACI 318 demo, pours over 4 storeys, every action 1.3 times: a failing pier needs a pair
+    of changes in one part of the pours and in none of the other. `advise` gives that other
+    part's storey, pier_id, util and added_cost as object columns (its empty pair rows), the
+    whole search typed ones: the joined table must have the whole's dtypes (review of issue 15)."""
+    b, f = pipeline.load(demo_master)
+    b = with_settings(b, grade_pour="the core over 4 storeys", standard="ACI 318-19")
+    more = {
+        "member_actions": b.member_actions.assign(**{c: b.member_actions[c] * 1.3 for c in ("n", "v", "m")}),
+        "core_actions": b.core_actions.assign(
+            **{c: b.core_actions[c] * 1.3 for c in ("n", "vx", "vy", "mx", "my", "t")}
+        ),
+    }
+    b = b.model_copy(update=more)
+    serial = pipeline.compute(b, f, workers=1)
+    got = pipeline.compute(b, f, workers=2)
+    assert got.ran == "2 processes" and serial.failing > 0
+    whole = tables(serial)["Results advice"]
+    assert whole.util.dtype == float  # (pair rows in the whole search)
+    same_outcome(got, serial)
+
+
 def test_advice_in_parts_of_pours_equals_the_whole(tower):
     """The search in two parts (every second pour) joined equals the whole search. What each
     part must still read whole is the pier table: ACI 318 ns (the storeys above the critical
@@ -319,3 +342,62 @@ def test_workers_two_on_the_command_line(demo_book, always_share):
     r = CliRunner().invoke(app, ["compute", str(demo_book), "--workers", "2", "--quiet"])
     assert r.exit_code in (0, 3), r.output
     assert no_children_left()
+
+
+ORPHANS = """
+import os, sys, time
+from xlcore import parallel
+from xlcore.workbook import writer
+book, pids = sys.argv[1], sys.argv[2]
+def task():
+    with open(pids, "a") as f:
+        f.write(f"{os.getpid()}\\n")
+    time.sleep(60)
+    return 0
+with writer.workbook_lock(book):
+    parallel.run([task, task, task], 3)
+"""
+
+
+@linux
+def test_a_parent_ended_by_sigterm_leaves_no_worker_holding_the_lock(tmp_path):
+    """A parent killed by a signal it does not catch (SIGTERM from a scheduler, SIGKILL) runs no
+    `finally`: its workers, orphaned, would run their tasks on and keep the workbook's flock
+    (their inherited descriptor) until they end, and a second compute of the workbook be refused
+    naming the dead parent. They die with the parent (review of issue 15)."""
+    import subprocess
+
+    book, pids = tmp_path / "b.xlsx", tmp_path / "pids"
+    book.write_bytes(b"")
+    root = Path(__file__).resolve().parent.parent
+    p = subprocess.Popen(
+        [sys.executable, "-c", ORPHANS, str(book), str(pids)], env={**os.environ, "PYTHONPATH": str(root)}
+    )
+    try:
+        for _ in range(300):  # the three tasks started (the parent's share and two workers)
+            time.sleep(0.05)
+            if pids.exists() and len(pids.read_text().split()) == 3:
+                break
+        workers = [int(x) for x in pids.read_text().split() if int(x) != p.pid]
+        assert len(workers) == 2
+        p.send_signal(signal.SIGTERM)
+        p.wait(timeout=10)
+        deadline = time.time() + 5
+        while time.time() < deadline and any(os.path.exists(f"/proc/{w}") for w in workers):
+            time.sleep(0.05)
+        left = [w for w in workers if os.path.exists(f"/proc/{w}")]
+        assert not left, f"workers left running after their parent ended: {left}"
+        fd = os.open(writer.lock_path(book), os.O_RDWR)
+        try:
+            fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)  # free: no orphan holds it
+        finally:
+            os.close(fd)
+    finally:
+        for w in [int(x) for x in pids.read_text().split()] if pids.exists() else []:
+            if w != p.pid:
+                try:
+                    os.kill(w, signal.SIGKILL)
+                except ProcessLookupError:
+                    pass
+        if p.poll() is None:
+            p.kill()

@@ -13,7 +13,8 @@ Rules that protect the engineer's run (each one a test in tests/test_parallel.py
   said in `Ran.how`.
 - stdout and stderr are flushed before forking (else buffered text is written twice); a child
   never prints, never writes a file, never runs atexit handlers (`os._exit`), ignores Ctrl-C
-  (the parent decides). A lock the parent holds (the compute's flock on the workbook) stays
+  (the parent decides), and is killed by the kernel when the parent ends (an orphan would hold
+  the workbook's lock). A lock the parent holds (the compute's flock on the workbook) stays
   held by the parent: a child only closes its inherited copy of the descriptor on exit, which
   releases nothing while the parent's stays open.
 - A task's exception is raised again in the parent (its own type where it pickles, the child's
@@ -24,6 +25,7 @@ Rules that protect the engineer's run (each one a test in tests/test_parallel.py
 
 from __future__ import annotations
 
+import ctypes
 import os
 import pickle
 import signal
@@ -133,12 +135,14 @@ def run(
 
 def _fork(tasks: Sequence[Callable[[], Any]], share: list[int]) -> tuple[int, int, list[int]]:
     r, w = os.pipe()
+    parent = os.getpid()
     pid = os.fork()
     if pid == 0:  # the child: never returns
         code = 0
         try:
             os.close(r)
             signal.signal(signal.SIGINT, signal.SIG_IGN)  # the parent handles Ctrl-C
+            _die_with(parent)
             devnull = open(os.devnull, "w")  # noqa: SIM115 (closed by os._exit)
             sys.stdout = sys.stderr = devnull  # never print
             out: list[tuple[str, Any]] = []
@@ -160,6 +164,21 @@ def _fork(tasks: Sequence[Callable[[], Any]], share: list[int]) -> tuple[int, in
             os._exit(code)
     os.close(w)
     return pid, r, share
+
+
+def _die_with(parent: int) -> None:
+    """Have the kernel kill this child when its parent ends (Linux's PR_SET_PDEATHSIG). Else a
+    parent ended by a signal it cannot catch (SIGTERM from a scheduler, SIGKILL) leaves its
+    children running their tasks as orphans, and they hold the workbook's lock (the flock'd
+    descriptor they inherited) until they end: another compute of the workbook is refused,
+    naming the dead parent. A parent already gone before the call: end now."""
+    try:
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(1, signal.SIGKILL, 0, 0, 0)  # PR_SET_PDEATHSIG = 1
+    except (OSError, AttributeError):  # (no prctl: the orphan case stays as it was)
+        return
+    if os.getppid() != parent:
+        os._exit(70)
 
 
 def _packed(e: BaseException, i: int) -> tuple[int, bytes | None, str, str]:

@@ -2034,6 +2034,15 @@ def join_advice(parts: list[pd.DataFrame], failing: pd.DataFrame) -> pd.DataFram
     if len(parts) == 1:
         return parts[0]
     table = pd.concat(parts, ignore_index=True)
+    # `advise` appends its pair rows to the pier rows; with no pier needing a pair they are an
+    # empty table of object columns, which makes storey, pier_id, util and added_cost object.
+    # The whole search has pair rows where any part has them: a column a part holds typed,
+    # made object by another part's empty pair rows, is given that part's type back (the same
+    # values; the dtype the whole search gives).
+    for c in table.columns:
+        typed = [p[c].dtype for p in parts if p[c].dtype != object]
+        if typed and table[c].dtype == object and all(t == typed[0] for t in typed):
+            table[c] = table[c].astype(typed[0])
     lowest = failing.groupby("pour").storey_index.min()
     key = pd.DataFrame({"_pour_at": table.pour.map(lowest).to_numpy(float), "pour": table.pour.to_numpy()})
     order = key.sort_values(["_pour_at", "pour"], na_position="last", kind="stable").index.to_numpy()
