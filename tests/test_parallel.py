@@ -230,6 +230,24 @@ def test_results_in_task_order_longest_first():
     assert no_children_left()
 
 
+@linux
+def test_a_child_writes_nothing_to_the_parents_output_descriptors(capfd):
+    """A worker's text, even written under Python's streams (native code, `os.write`), never
+    reaches the parent's stdout or stderr: `--json` prints one object and nothing else."""
+
+    def noisy():
+        os.write(1, b"CHILD-OUT")
+        os.write(2, b"CHILD-ERR")
+        print("CHILD-PRINT")
+        return os.getpid()
+
+    out, ran = parallel.run([lambda: os.getpid(), noisy], 2, costs=[2, 1])
+    assert ran.processes == 2 and out[1] != os.getpid()  # the noisy task ran in the child
+    seen = capfd.readouterr()
+    assert "CHILD" not in seen.out and "CHILD" not in seen.err
+    assert no_children_left()
+
+
 class Odd(ValueError):
     pass
 

@@ -8,9 +8,12 @@ runs a share of the tasks itself while the children run theirs.
 
 Rules that protect the engineer's run (each one a test in tests/test_parallel.py):
 - Linux only (macOS forks badly with system frameworks loaded, Windows cannot fork), and only
-  when no other thread is alive in the process (a fork copies one thread: a lock another thread
-  held stays locked forever in the child, e.g. inside a notebook kernel). Otherwise serial,
-  said in `Ran.how`.
+  when no other Python thread is alive in the process (a fork copies one thread: a lock another
+  thread held stays locked forever in the child, e.g. inside a notebook kernel). Otherwise
+  serial, said in `Ran.how`. `threading` sees Python's threads only: the native threads numpy's
+  BLAS and pandas' allocator (jemalloc) start on import are not seen; those libraries make
+  themselves safe across a fork (their own fork handlers), and every run of the tests and
+  review forked beside them.
 - stdout and stderr are flushed before forking (else buffered text is written twice); a child
   never prints, never writes a file, never runs atexit handlers (`os._exit`), ignores Ctrl-C
   (the parent decides), and is killed by the kernel when the parent ends (an orphan would hold
@@ -144,7 +147,9 @@ def _fork(tasks: Sequence[Callable[[], Any]], share: list[int]) -> tuple[int, in
             signal.signal(signal.SIGINT, signal.SIG_IGN)  # the parent handles Ctrl-C
             _die_with(parent)
             devnull = open(os.devnull, "w")  # noqa: SIM115 (closed by os._exit)
-            sys.stdout = sys.stderr = devnull  # never print
+            sys.stdout = sys.stderr = devnull  # never print: Python's streams and the
+            os.dup2(devnull.fileno(), 1)  # descriptors under them (native code, os.write),
+            os.dup2(devnull.fileno(), 2)  # else text lands in the middle of --json's object
             out: list[tuple[str, Any]] = []
             for i in share:
                 try:
