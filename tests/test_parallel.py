@@ -248,6 +248,23 @@ def test_a_child_writes_nothing_to_the_parents_output_descriptors(capfd):
     assert no_children_left()
 
 
+@linux
+def test_a_warning_in_a_child_is_shown_by_the_parent():
+    """A warning a task raises in a worker reaches the engineer as it would from one process
+    (the worker's own stderr goes nowhere): its text, category and line."""
+    import warnings
+
+    def warns():
+        warnings.warn("pier W3: a value out of the usual range", RuntimeWarning, stacklevel=1)
+        return os.getpid()
+
+    with pytest.warns(RuntimeWarning, match="pier W3: a value out of the usual range") as seen:
+        out, ran = parallel.run([lambda: os.getpid(), warns], 2, costs=[2, 1])
+    assert ran.processes == 2 and out[1] != os.getpid()  # it was raised in the child
+    assert seen[0].filename == __file__
+    assert no_children_left()
+
+
 class Odd(ValueError):
     pass
 

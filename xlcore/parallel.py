@@ -15,7 +15,8 @@ Rules that protect the engineer's run (each one a test in tests/test_parallel.py
   themselves safe across a fork (their own fork handlers), and every run of the tests and
   review forked beside them.
 - stdout and stderr are flushed before forking (else buffered text is written twice); a child
-  never prints, never writes a file, never runs atexit handlers (`os._exit`), ignores Ctrl-C
+  never prints (its warnings go back with its results and the parent shows them), never
+  writes a file, never runs atexit handlers (`os._exit`), ignores Ctrl-C
   (the parent decides), and is killed by the kernel when the parent ends (an orphan would hold
   the workbook's lock). A lock the parent holds (the compute's flock on the workbook) stays
   held by the parent: a child only closes its inherited copy of the descriptor on exit, which
@@ -35,6 +36,7 @@ import signal
 import sys
 import threading
 import traceback
+import warnings
 from collections.abc import Callable, Sequence
 from contextlib import AbstractContextManager, nullcontext
 from dataclasses import dataclass
@@ -109,6 +111,7 @@ def run(
     shares = plan(list(costs) if costs is not None else [1.0] * len(tasks), workers)
     pending: list[tuple[int, int, list[int]]] = []  # children not yet reaped: pid, read end, tasks
     results: list[Any] = [None] * len(tasks)
+    registry: dict = {}  # the children's warnings already shown (`_receive`)
     try:
         if why is None:
             with forking():  # (the caller's own threads stopped, e.g. a progress display's)
@@ -129,7 +132,7 @@ def run(
             pending[0] = (pid, -1, share)
             _, status = os.waitpid(pid, 0)
             pending.pop(0)
-            _receive(sent, status, share, names, results)
+            _receive(sent, status, share, names, results, registry)
     except BaseException:
         _kill(pending)
         raise
@@ -151,16 +154,18 @@ def _fork(tasks: Sequence[Callable[[], Any]], share: list[int]) -> tuple[int, in
             os.dup2(devnull.fileno(), 1)  # descriptors under them (native code, os.write),
             os.dup2(devnull.fileno(), 2)  # else text lands in the middle of --json's object
             out: list[tuple[str, Any]] = []
-            for i in share:
-                try:
-                    out.append(("ok", tasks[i]()))
-                except BaseException as e:  # noqa: BLE001 (sent to the parent as it is)
-                    out.append(("error", _packed(e, i)))
-                    break
+            with warnings.catch_warnings(record=True) as caught:  # sent to the parent, shown there
+                for i in share:
+                    try:
+                        out.append(("ok", tasks[i]()))
+                    except BaseException as e:  # noqa: BLE001 (sent to the parent as it is)
+                        out.append(("error", _packed(e, i)))
+                        break
+            said = [_warning(w) for w in caught]
             try:
-                data = pickle.dumps(out, protocol=pickle.HIGHEST_PROTOCOL)
+                data = pickle.dumps((out, said), protocol=pickle.HIGHEST_PROTOCOL)
             except Exception as e:  # noqa: BLE001 (a result that does not pickle)
-                data = pickle.dumps([("error", _packed(e, share[len(out) - 1]))])
+                data = pickle.dumps(([("error", _packed(e, share[len(out) - 1]))], said))
             with os.fdopen(w, "wb") as f:
                 f.write(data)
         except BaseException:  # noqa: BLE001
@@ -186,6 +191,17 @@ def _die_with(parent: int) -> None:
         os._exit(70)
 
 
+def _warning(w: warnings.WarningMessage) -> tuple[str, type[Warning], str, int]:
+    """A warning a task raised in a child, for the pipe: its text, category (UserWarning where
+    the category does not pickle), file and line."""
+    category = w.category
+    try:
+        pickle.loads(pickle.dumps(category))
+    except Exception:  # noqa: BLE001
+        category = UserWarning
+    return str(w.message), category, w.filename, w.lineno
+
+
 def _packed(e: BaseException, i: int) -> tuple[int, bytes | None, str, str]:
     """A task's exception for the pipe: the task, the exception pickled (None where it does not
     pickle), its type's name and the child's traceback text."""
@@ -205,13 +221,18 @@ def _read_all(fd: int) -> bytes:
     return b"".join(parts)
 
 
-def _receive(sent: bytes, status: int, share: list[int], names: Sequence[str], results: list[Any]) -> None:
-    """The child's results into `results`; its task's exception raised again, or `WorkerDied`
-    where it sent nothing whole."""
+def _receive(
+    sent: bytes, status: int, share: list[int], names: Sequence[str], results: list[Any], registry: dict
+) -> None:
+    """The child's results into `results` and its tasks' warnings shown here (`registry`: the
+    run's, so a warning several children raise at one line is shown once, as one process
+    shows it); its task's exception raised again, or `WorkerDied` where it sent nothing whole."""
     try:
-        out = pickle.loads(sent) if sent else None
+        out, said = pickle.loads(sent) if sent else (None, [])
     except Exception:  # noqa: BLE001 (cut short: the child died while writing)
-        out = None
+        out, said = None, []
+    for text, category, filename, lineno in said:  # shown as one process shows them
+        warnings.warn_explicit(text, category, filename, lineno, registry=registry)
     if out is None:
         if os.WIFSIGNALED(status):
             end = f"was killed by signal {os.WTERMSIG(status)} ({signal.Signals(os.WTERMSIG(status)).name})"
