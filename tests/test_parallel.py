@@ -88,7 +88,6 @@ def test_demo_tables_the_same_on_two_and_three_processes(demo_master, always_sha
         got = pipeline.compute(b, f, workers=workers)
         assert got.ran in ("2 processes", "3 processes"), got.ran
         assert "advice and core checks" in got.timings and "advice" not in got.timings
-        assert got.timings.notes["advice and core checks"] == got.ran  # said how it ran
         same_outcome(got, serial)
     assert no_children_left()
 

@@ -78,7 +78,6 @@ class Timings(dict):
     def __init__(self, reporter: Reporter = SILENT) -> None:
         super().__init__()
         self.reporter = reporter
-        self.notes: dict[str, str] = {}  # phase -> how it ran (on how many processes, or why one)
 
     @contextmanager
     def phase(self, name: str, label: str | None = None, total: int | None = None) -> Iterator[None]:
@@ -200,14 +199,12 @@ def compute(
             advice, parts, ran = _advice_and_cores(
                 piers, acts, summary, s, plans, split.actions if cores_too else None, workers, reporter
             )
-            t.notes["advice and core checks"] = ran.how
             summary = with_cheapest_fix(summary, advice)
             if cores_too:
                 stress = _joined([p for p, _ in parts])
                 core_nm = _joined([p for _, p in parts])
                 stress = worded(stress)
     else:
-        t.notes["advice"] = ran.how
         with t.phase("advice", f"cheapest fixes for {failing:,} failing pier x storey cases"):
             advice = advise(piers, acts, summary, s)
             summary = with_cheapest_fix(summary, advice)
